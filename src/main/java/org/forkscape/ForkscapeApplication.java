@@ -1,0 +1,16 @@
+package org.forkscape;
+
+import org.forkscape.cli.CommandLine;
+import org.springframework.boot.SpringApplication;
+import org.springframework.boot.autoconfigure.SpringBootApplication;
+
+/** Starts the explorer, or runs a batch command when the first argument names one. */
+@SpringBootApplication
+public class ForkscapeApplication {
+    public static void main(String[] args) {
+        if (CommandLine.handles(args)) {
+            System.exit(CommandLine.execute(args, System.out, System.err));
+        }
+        SpringApplication.run(ForkscapeApplication.class, args);
+    }
+}

@@ -1,0 +1,59 @@
+package org.forkscape.cli;
+
+import java.io.PrintStream;
+import java.io.UncheckedIOException;
+import java.util.Set;
+import org.forkscape.InputException;
+
+/**
+ * The batch commands. Every problem the user can cause ends with one plain line on stderr and exit
+ * code 2; anything else with one line and exit code 1; never a stack trace (set FORKSCAPE_DEBUG=1 to
+ * see one).
+ */
+public final class CommandLine {
+    public static final Set<String> COMMANDS = Set.of("run", "help", "--help", "-h");
+
+    private CommandLine() {
+    }
+
+    public static boolean handles(String[] args) {
+        return args.length > 0 && COMMANDS.contains(args[0]);
+    }
+
+    public static int execute(String[] args, PrintStream out, PrintStream err) {
+        try {
+            switch (args[0]) {
+                case "run" -> RunCommand.execute(args, out, err);
+                default -> out.println(usage());
+            }
+            return 0;
+        } catch (InputException e) {
+            err.println("forkscape: " + e.getMessage());
+            return 2;
+        } catch (UncheckedIOException e) {
+            err.println("forkscape: " + e.getMessage());
+            return 2;
+        } catch (OutOfMemoryError e) {
+            err.println("forkscape: out of memory; give Java more heap (java -Xmx...) or fit a --sample of the "
+                    + "specifications");
+            return 1;
+        } catch (RuntimeException e) {
+            if (System.getenv("FORKSCAPE_DEBUG") != null) {
+                e.printStackTrace(err);
+            }
+            err.println("forkscape: internal error (" + e.getClass().getSimpleName() + ": " + e.getMessage()
+                    + "); please report it with the plan that caused it");
+            return 1;
+        }
+    }
+
+    static String usage() {
+        return String.join("\n",
+                "usage:",
+                "  java -jar forkscape.jar                      start the explorer at http://localhost:8080",
+                "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
+                "                                               [--max-specifications N]",
+                "                                               fit every specification, write",
+                "                                               DIR/specifications.csv and DIR/summary.json");
+    }
+}

@@ -1,0 +1,38 @@
+package org.forkscape.data;
+
+import java.util.List;
+
+/**
+ * A categorical column: a column with at least one non-missing cell that is not a number.
+ *
+ * @param name   the header as written in the file
+ * @param codes  one code per row, an index into {@code levels}, or -1 where the cell was missing
+ * @param levels the distinct values in sorted (natural string) order; the first is the reference level
+ *               when the column enters a model as dummies
+ */
+public record CategoricalColumn(String name, int[] codes, List<String> levels) implements Column {
+    public CategoricalColumn {
+        levels = List.copyOf(levels);
+    }
+
+    @Override
+    public int size() {
+        return codes.length;
+    }
+
+    @Override
+    public boolean isMissing(int row) {
+        return codes[row] < 0;
+    }
+
+    /** Counts of each level, in level order. */
+    public int[] levelCounts() {
+        int[] counts = new int[levels.size()];
+        for (int c : codes) {
+            if (c >= 0) {
+                counts[c]++;
+            }
+        }
+        return counts;
+    }
+}

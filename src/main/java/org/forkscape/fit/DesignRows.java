@@ -1,0 +1,58 @@
+package org.forkscape.fit;
+
+/**
+ * A specification's rows materialised in within coordinates (each value minus its fixed-effect level's
+ * mean, or the overall mean), column by column, for the passes that need rows: the sandwich, the
+ * leverages and the QR refit. One instance per worker thread; buffers grow and are reused.
+ */
+final class DesignRows {
+    int n;
+    int p;
+    /** x[j][i], j over the requested columns. */
+    double[][] x = new double[0][];
+    double[] y = new double[0];
+    /** Fixed-effect level (or 0) of each row, and the level's usable count. */
+    int[] level = new int[0];
+    int[] cluster = new int[0];
+
+    void fill(Moments mom, int[] cols, int yCol, int[] clusterCodes) {
+        DataVariant v = mom.variant;
+        p = cols.length;
+        int cap = mom.n;
+        if (x.length < p) {
+            double[][] grown = new double[p][];
+            System.arraycopy(x, 0, grown, 0, x.length);
+            x = grown;
+        }
+        for (int j = 0; j < p; j++) {
+            if (x[j] == null || x[j].length < cap) {
+                x[j] = new double[cap];
+            }
+        }
+        if (y.length < cap) {
+            y = new double[cap];
+            level = new int[cap];
+            cluster = new int[cap];
+        }
+        int k = 0;
+        double[] yz = v.shifted[yCol];
+        double[][] offsets = mom.levelMeanOffset;
+        for (int r = 0; r < v.rows; r++) {
+            if (!mom.uses(r)) {
+                continue;
+            }
+            int l = v.level[r];
+            double[] off = offsets[l];
+            for (int j = 0; j < p; j++) {
+                x[j][k] = v.shifted[cols[j]][r] - off[cols[j]];
+            }
+            y[k] = yz[r] - off[yCol];
+            level[k] = l;
+            if (clusterCodes != null) {
+                cluster[k] = clusterCodes[r];
+            }
+            k++;
+        }
+        n = k;
+    }
+}

@@ -1,0 +1,54 @@
+package org.forkscape.fit;
+
+import java.util.concurrent.ConcurrentHashMap;
+import org.apache.commons.math3.distribution.TDistribution;
+import org.apache.commons.math3.special.Beta;
+
+/**
+ * Student t and F tail probabilities through the regularized incomplete beta function of Commons Math
+ * (the same function its TDistribution and FDistribution use, without their per-instance random
+ * generator), and cached t critical values.
+ */
+public final class Distributions {
+    private static final ConcurrentHashMap<Key, Double> CRITICAL = new ConcurrentHashMap<>();
+
+    private record Key(double df, double alpha) {
+    }
+
+    private Distributions() {
+    }
+
+    /** Two-sided p-value of a t statistic: P(|T| >= |t|) = I_{df/(df+t^2)}(df/2, 1/2). */
+    public static double twoSidedP(double t, double df) {
+        if (Double.isNaN(t) || !(df > 0)) {
+            return Double.NaN;
+        }
+        if (Double.isInfinite(t)) {
+            return 0;
+        }
+        return Beta.regularizedBeta(df / (df + t * t), df / 2, 0.5);
+    }
+
+    /** Upper tail of F(d1, d2) at f: I_{d2/(d2 + d1 f)}(d2/2, d1/2). */
+    public static double fUpperP(double f, double d1, double d2) {
+        if (Double.isNaN(f) || !(d1 > 0) || !(d2 > 0)) {
+            return Double.NaN;
+        }
+        if (Double.isInfinite(f)) {
+            return 0;
+        }
+        if (f <= 0) {
+            return 1;
+        }
+        return Beta.regularizedBeta(d2 / (d2 + d1 * f), d2 / 2, d1 / 2);
+    }
+
+    /** The t quantile at 1 - alpha/2, cached by (df, alpha). */
+    public static double critical(double df, double alpha) {
+        if (!(df > 0)) {
+            return Double.NaN;
+        }
+        return CRITICAL.computeIfAbsent(new Key(df, alpha),
+                k -> new TDistribution(null, df).inverseCumulativeProbability(1 - alpha / 2));
+    }
+}

@@ -1,0 +1,29 @@
+package org.forkscape.fit;
+
+/**
+ * The key coefficient of one specification and the fit statistics reported beside it. Undefined numbers
+ * are NaN; {@code status} is {@code ok} or the reason there is no estimate; {@code note} says what was
+ * adjusted (for example a dropped collinear control) and may be empty.
+ *
+ * @param estimate      the key coefficient
+ * @param stdError      its standard error of the requested type
+ * @param df            degrees of freedom of the t reference distribution (N - K, or G - 1 for clusters)
+ * @param nObs          rows used
+ * @param nParams       coefficients K, absorbed fixed-effect levels and intercept included
+ * @param r2            R-squared (about the overall mean, as with explicit dummies)
+ * @param rss           residual sum of squares
+ * @param modelPValue   p-value of the overall F test against the intercept-only model
+ * @param refitByQr     true when the precision guard refit this specification from its rows
+ */
+public record KeyFit(double estimate, double stdError, double df, int nObs, int nParams, double r2, double rss,
+        double modelPValue, String status, String note, boolean refitByQr) {
+
+    public static KeyFit failed(String status, int nObs, int nParams) {
+        return new KeyFit(Double.NaN, Double.NaN, Double.NaN, nObs, nParams, Double.NaN, Double.NaN, Double.NaN,
+                status, "", false);
+    }
+
+    public boolean ok() {
+        return "ok".equals(status);
+    }
+}

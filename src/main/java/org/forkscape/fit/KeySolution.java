@@ -1,0 +1,60 @@
+package org.forkscape.fit;
+
+/**
+ * The least-squares solution of one specification in the within (centered) coordinates, as both solvers
+ * deliver it: the columns kept (key last), their coefficients, the residual sum of squares, and a lower
+ * triangular M with (X'X)^-1 = M'M, so that leverages are ||M x||^2 and the key row of the inverse is
+ * M_kk times the last row of M.
+ */
+final class KeySolution {
+    int[] kept;
+    int p;
+    double[] b;
+    /** p x p, row-major, lower triangular. */
+    double[] m;
+    double rss;
+    /** Positions in the requested column order of the kept columns (QR route only; null otherwise). */
+    int[] keptPositions;
+    /** Dropped model columns by reason, for the status note; null when none. */
+    java.util.Map<String, java.util.List<String>> dropped;
+
+    double keyEstimate() {
+        return b[p - 1];
+    }
+
+    /** (X'X)^-1 at the key position. */
+    double keyInverseDiagonal() {
+        double mkk = m[(p - 1) * p + (p - 1)];
+        return mkk * mkk;
+    }
+
+    /** The key row of (X'X)^-1 into {@code w} (modified). */
+    void keyRow(double[] w) {
+        double mkk = m[(p - 1) * p + (p - 1)];
+        for (int j = 0; j < p; j++) {
+            w[j] = mkk * m[(p - 1) * p + j];
+        }
+    }
+
+    void drop(String column, String reason) {
+        if (dropped == null) {
+            dropped = new java.util.LinkedHashMap<>();
+        }
+        dropped.computeIfAbsent(reason, r -> new java.util.ArrayList<>()).add(column);
+    }
+
+    /** "dropped a, b: reason; c: other reason", or empty. */
+    String note() {
+        if (dropped == null) {
+            return "";
+        }
+        StringBuilder b = new StringBuilder("dropped ");
+        dropped.forEach((reason, cols) -> {
+            if (b.length() > "dropped ".length()) {
+                b.append("; ");
+            }
+            b.append(String.join(", ", cols)).append(": ").append(reason);
+        });
+        return b.toString();
+    }
+}

@@ -1,0 +1,108 @@
+package org.forkscape.fit;
+
+import java.util.BitSet;
+
+/**
+ * Sufficient statistics of one set of usable rows in a {@link DataVariant}: the count, each level's
+ * count and column sums (around its shift), the within cross-product matrix of every model column
+ * (centered on the mean, or on each fixed-effect level's mean when absorbing), and the diagonal of the
+ * matrix centered on the overall mean (total sums of squares, for R-squared).
+ */
+public final class Moments {
+    final DataVariant variant;
+    final BitSet usableGroups;
+    final int n;
+    final int[] levelCount;
+    /** Per level: mean of each column over the usable rows, relative to the level's shift. */
+    final double[][] levelMeanOffset;
+    final int levelsPresent;
+    /** Within cross-products, P x P, row-major. */
+    final double[] within;
+    /** Sum of squares of each column about its overall mean (over the usable rows). */
+    final double[] totalSquares;
+
+    Moments(DataVariant v, BitSet usable) {
+        this.variant = v;
+        this.usableGroups = usable;
+        int p = v.columns;
+        int levels = v.levels;
+        levelCount = new int[levels];
+        double[][] sums = new double[levels][p];
+        double[][] cross = new double[levels][];
+        for (int g = usable.nextSetBit(0); g >= 0; g = usable.nextSetBit(g + 1)) {
+            for (int l = 0; l < levels; l++) {
+                if (v.cellCount[g][l] == 0) {
+                    continue;
+                }
+                levelCount[l] += v.cellCount[g][l];
+                double[] s = v.cellSum[g][l];
+                double[] c = v.cellCross[g][l];
+                double[] sl = sums[l];
+                for (int j = 0; j < p; j++) {
+                    sl[j] += s[j];
+                }
+                if (cross[l] == null) {
+                    cross[l] = c.clone();
+                } else {
+                    double[] t = cross[l];
+                    for (int k = 0; k < t.length; k++) {
+                        t[k] += c[k];
+                    }
+                }
+            }
+        }
+        int total = 0;
+        int present = 0;
+        within = new double[p * p];
+        levelMeanOffset = new double[levels][p];
+        for (int l = 0; l < levels; l++) {
+            int nl = levelCount[l];
+            if (nl == 0) {
+                continue;
+            }
+            total += nl;
+            present++;
+            double[] sl = sums[l];
+            double[] c = cross[l];
+            for (int a = 0; a < p; a++) {
+                levelMeanOffset[l][a] = sl[a] / nl;
+                for (int b = 0; b < p; b++) {
+                    within[a * p + b] += c[a * p + b] - sl[a] * sl[b] / nl;
+                }
+            }
+        }
+        n = total;
+        levelsPresent = present;
+        totalSquares = new double[p];
+        if (n == 0) {
+            return;
+        }
+        // overall sums of squares from the per-level moments: between-level part plus within part
+        for (int j = 0; j < p; j++) {
+            double mean = 0;
+            for (int l = 0; l < levels; l++) {
+                if (levelCount[l] > 0) {
+                    mean += levelCount[l] * (v.levelShift[l][j] + levelMeanOffset[l][j]);
+                }
+            }
+            mean /= n;
+            double between = 0;
+            for (int l = 0; l < levels; l++) {
+                if (levelCount[l] > 0) {
+                    double d = v.levelShift[l][j] + levelMeanOffset[l][j] - mean;
+                    between += levelCount[l] * d * d;
+                }
+            }
+            totalSquares[j] = within[j * p + j] + between;
+        }
+    }
+
+    public int rowCount() {
+        return n;
+    }
+
+    /** Whether a row of the variant is among these usable rows. */
+    boolean uses(int row) {
+        return usableGroups.get(variant.group[row]);
+    }
+}

@@ -1,0 +1,66 @@
+package org.forkscape.fit;
+
+import java.util.List;
+import org.forkscape.data.Column;
+import org.forkscape.data.NumericColumn;
+import org.forkscape.data.Table;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanException;
+import org.forkscape.plan.SampleRule;
+
+/** Applies a variant's sample decisions, in declared order, to the rows of the table. */
+final class RowSelection {
+    private RowSelection() {
+    }
+
+    /**
+     * Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place).
+     *
+     * @param sampleDecisionIndex position of each sample decision in the plan, for messages
+     */
+    static void apply(Plan plan, Table table, int[] sampleDecisionIndex, int[] choices, boolean[] keep) {
+        List<Decision.Sample> samples = plan.all(Decision.Sample.class);
+        for (int s = 0; s < samples.size(); s++) {
+            SampleRule rule = samples.get(s).alternatives().get(choices[s]);
+            String path = "decisions[" + sampleDecisionIndex[s] + "].alternatives[" + choices[s] + "]";
+            if (rule instanceof SampleRule.KeepRows k) {
+                var predicate = k.expression().bind(table, path + ".keep");
+                for (int r = 0; r < keep.length; r++) {
+                    if (keep[r] && !predicate.keep(r)) {
+                        keep[r] = false;
+                    }
+                }
+            } else if (rule instanceof SampleRule.TrimRows t) {
+                trim(table.column(t.column()), t.z(), keep, path + ".trim");
+            }
+        }
+    }
+
+    /** Drops kept rows whose |z| on the column exceeds the bound; mean and sd (n - 1) over the kept rows. */
+    private static void trim(Column column, double bound, boolean[] keep, String path) {
+        double[] x = ((NumericColumn) column).values();
+        int n = 0;
+        double mean = 0;
+        double m2 = 0;
+        for (int r = 0; r < keep.length; r++) {
+            if (keep[r] && !Double.isNaN(x[r])) {
+                // Welford's update (Welford 1962, Technometrics 4(3)): one pass without cancellation
+                n++;
+                double d = x[r] - mean;
+                mean += d / n;
+                m2 += d * (x[r] - mean);
+            }
+        }
+        double sd = n > 1 ? Math.sqrt(m2 / (n - 1)) : 0;
+        if (!(sd > 0)) {
+            throw new PlanException(path, "cannot trim on \"" + column.name() + "\": it has "
+                    + (n < 2 ? "fewer than two values" : "no spread") + " in the rows kept at that point");
+        }
+        for (int r = 0; r < keep.length; r++) {
+            if (keep[r] && !Double.isNaN(x[r]) && Math.abs(x[r] - mean) / sd > bound) {
+                keep[r] = false;
+            }
+        }
+    }
+}

@@ -1,0 +1,92 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+
+/**
+ * Fits one specification's key coefficient: the Cholesky route from the variant's moments, with the QR
+ * refit from rows when the precision guard asks for it, then the requested standard error. Not thread
+ * safe: one per worker thread, reused for every specification (its solvers keep their workspaces).
+ */
+public final class SpecificationFitter {
+    private final CholeskySubsetSolver cholesky = new CholeskySubsetSolver();
+    private final QrRefit qr = new QrRefit();
+    private final DesignRows rows = new DesignRows();
+    private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
+
+    public KeyFit fit(DataVariant variant, SpecificationModel spec) {
+        Moments mom = variant.moments(spec.variableMask());
+        int n = mom.n;
+        int base = variant.absorbs ? mom.levelsPresent : 1;
+        int[] cols = spec.factorOrder();
+        if (n <= base) {
+            return KeyFit.failed("too few rows: " + n + " row" + (n == 1 ? "" : "s") + " complete on this "
+                    + "specification's variables", n, base + cols.length);
+        }
+        int y = spec.outcomeColumn();
+        if (!(mom.totalSquares[y] > 0)) {
+            return KeyFit.failed("the outcome is constant in these rows", n, base + cols.length);
+        }
+        int[] clusterCodes = null;
+        int clusterCount = 0;
+        if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+            clusterCodes = variant.clusters.get(spec.errors().clusterColumn());
+            clusterCount = variant.clusterCounts.get(spec.errors().clusterColumn());
+        }
+        KeySolution s = cholesky.solve(mom, cols, y);
+        int[] positions;
+        boolean refit = s == null;
+        if (refit) {
+            rows.fill(mom, cols, y, clusterCodes);
+            s = qr.solve(rows, mom, cols);
+            if (s == null) {
+                String what = variant.layout.columnName(spec.keyColumn());
+                String reason = qr.keyDropReason;
+                String status = reason.contains("constant") ? "the key predictor " + what + " is constant in these rows"
+                        : reason.contains("fixed effects")
+                        ? "collinear: the key predictor " + what + " is a linear combination of the fixed effects"
+                        : "collinear: the key predictor " + what + " is a linear combination of the controls";
+                return KeyFit.failed(status, n, base + cols.length);
+            }
+            positions = s.keptPositions;
+        } else {
+            positions = identity(s.p);
+        }
+        int k = base + s.p;
+        int dfResidual = n - k;
+        if (dfResidual <= 0) {
+            return KeyFit.failed("too few rows: " + n + " rows for " + k + " coefficients", n, k);
+        }
+        double tss = mom.totalSquares[y];
+        double r2 = 1 - s.rss / tss;
+        double f = ((tss - s.rss) / (k - 1)) / (s.rss / dfResidual);
+        double modelP = k > 1 ? Distributions.fUpperP(f, k - 1, dfResidual) : Double.NaN;
+        double variance;
+        double df = dfResidual;
+        if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
+            variance = s.rss / dfResidual * s.keyInverseDiagonal();
+        } else {
+            if (!refit) {
+                rows.fill(mom, s.kept, y, clusterCodes);
+            }
+            KeyCoefficientSandwich.Variance v = sandwich.variance(rows, positions, s, mom, spec.errors(), k, clusterCount);
+            if (v.failure() != null) {
+                return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelP, v.failure(), "",
+                        refit);
+            }
+            variance = v.value();
+            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+                df = v.clusters() - 1;
+            }
+        }
+        String note = s.note();
+        return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelP, "ok", note, refit);
+    }
+
+    private static int[] identity(int p) {
+        int[] out = new int[p];
+        for (int i = 0; i < p; i++) {
+            out[i] = i;
+        }
+        return out;
+    }
+}

@@ -1,0 +1,73 @@
+package org.forkscape.plan;
+
+import java.nio.file.Path;
+import java.util.List;
+
+/**
+ * A declared analysis: the data, the confidence level, how missing cells are handled, and the ordered
+ * decisions whose combinations are the specifications.
+ *
+ * @param dataFile           the CSV file, resolved against the plan's folder
+ * @param confidence         interval coverage; the significance level is {@code 1 - confidence}
+ * @param missing            per-specification or common rows
+ * @param decisions          in declared order; exactly one outcome and one predictor decision
+ * @param sampleSize         when positive, fit a seeded random sample of this many specifications
+ * @param seed               the seed for every random stream of a run
+ * @param maxSpecifications  the cap above which the plan is refused unless a sample is asked for
+ * @param nullDraws          number of null draws for joint inference (0 for none)
+ * @param nullMethod         {@code bootstrap} or {@code permute}
+ * @param nullCluster        column whose clusters are resampled whole in the bootstrap, or {@code null}
+ */
+public record Plan(
+        Path dataFile,
+        double confidence,
+        MissingRows missing,
+        List<Decision> decisions,
+        long sampleSize,
+        long seed,
+        long maxSpecifications,
+        int nullDraws,
+        String nullMethod,
+        String nullCluster) {
+
+    public static final long DEFAULT_MAX_SPECIFICATIONS = 1_000_000L;
+
+    public Plan {
+        decisions = List.copyOf(decisions);
+    }
+
+    public Decision.Outcome outcome() {
+        return only(Decision.Outcome.class);
+    }
+
+    public Decision.Predictor predictor() {
+        return only(Decision.Predictor.class);
+    }
+
+    public <T extends Decision> List<T> all(Class<T> kind) {
+        return decisions.stream().filter(kind::isInstance).map(kind::cast).toList();
+    }
+
+    private <T extends Decision> T only(Class<T> kind) {
+        return all(kind).get(0);
+    }
+
+    public double alpha() {
+        return 1 - confidence;
+    }
+
+    public Plan withSample(long size, long newSeed) {
+        return new Plan(dataFile, confidence, missing, decisions, size, newSeed, maxSpecifications, nullDraws,
+                nullMethod, nullCluster);
+    }
+
+    public Plan withNull(int draws, String method, String cluster, long newSeed) {
+        return new Plan(dataFile, confidence, missing, decisions, sampleSize, newSeed, maxSpecifications, draws,
+                method, cluster);
+    }
+
+    public Plan withMaxSpecifications(long cap) {
+        return new Plan(dataFile, confidence, missing, decisions, sampleSize, seed, cap, nullDraws, nullMethod,
+                nullCluster);
+    }
+}

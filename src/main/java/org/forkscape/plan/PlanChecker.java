@@ -1,0 +1,111 @@
+package org.forkscape.plan;
+
+import java.util.List;
+import java.util.Optional;
+import org.forkscape.data.CategoricalColumn;
+import org.forkscape.data.Column;
+import org.forkscape.data.NumericColumn;
+import org.forkscape.data.Table;
+
+/** Checks a plan against its data: every named column exists and has a type its role allows. */
+public final class PlanChecker {
+    private PlanChecker() {
+    }
+
+    public static void check(Plan plan, Table table) {
+        List<Decision> ds = plan.decisions();
+        for (int i = 0; i < ds.size(); i++) {
+            String path = "decisions[" + i + "]";
+            Decision d = ds.get(i);
+            if (d instanceof Decision.Outcome o) {
+                variables(o.alternatives(), path, table, "outcome");
+            } else if (d instanceof Decision.Predictor p) {
+                variables(p.alternatives(), path, table, "key predictor");
+            } else if (d instanceof Decision.Controls c) {
+                controls(c, path, table, plan);
+            } else if (d instanceof Decision.Sample s) {
+                sample(s, path, table);
+            } else if (d instanceof Decision.Errors e) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    ErrorType t = e.alternatives().get(j);
+                    if (t.kind() == ErrorType.Kind.CLUSTER) {
+                        existing(t.clusterColumn(), path + ".alternatives[" + j + "]", table);
+                    }
+                }
+            } else if (d instanceof Decision.Absorb a) {
+                for (int j = 0; j < a.alternatives().size(); j++) {
+                    List<String> cols = a.alternatives().get(j).columns();
+                    for (int k = 0; k < cols.size(); k++) {
+                        existing(cols.get(k), path + ".alternatives[" + j + "].columns[" + k + "]", table);
+                    }
+                }
+            }
+        }
+        if (plan.nullCluster() != null) {
+            existing(plan.nullCluster(), "nullCluster", table);
+        }
+    }
+
+    private static void variables(List<VariableChoice> alts, String path, Table table, String role) {
+        for (int j = 0; j < alts.size(); j++) {
+            String p = path + ".alternatives[" + j + "].column";
+            Column c = existing(alts.get(j).column(), p, table);
+            if (c instanceof CategoricalColumn cat) {
+                if (cat.levels().size() != 2) {
+                    throw new PlanException(p, "\"" + c.name() + "\" is categorical with " + cat.levels().size()
+                            + " levels; a categorical " + role + " needs exactly two levels (coded 0 and 1)");
+                }
+                if (!(alts.get(j).transform() instanceof Transform.Identity)) {
+                    throw new PlanException(path + ".alternatives[" + j + "].transform",
+                            "\"" + c.name() + "\" is categorical; transforms apply to numeric columns only");
+                }
+            }
+        }
+    }
+
+    private static void controls(Decision.Controls c, String path, Table table, Plan plan) {
+        checkControlList(c.required(), path + ".required", table, plan);
+        checkControlList(c.optional(), path + ".optional", table, plan);
+        if (c.sets() != null) {
+            c.sets().forEach((label, cols) -> checkControlList(cols, path + ".sets." + label, table, plan));
+        }
+    }
+
+    private static void checkControlList(List<String> cols, String path, Table table, Plan plan) {
+        for (int k = 0; k < cols.size(); k++) {
+            String name = cols.get(k);
+            existing(name, path + "[" + k + "]", table);
+            boolean isKey = plan.predictor().alternatives().stream().anyMatch(v -> v.column().equals(name));
+            boolean isOutcome = plan.outcome().alternatives().stream().anyMatch(v -> v.column().equals(name));
+            if (isKey || isOutcome) {
+                throw new PlanException(path + "[" + k + "]", "\"" + name + "\" is also an alternative of the "
+                        + (isKey ? "key predictor" : "outcome") + "; a column cannot be both");
+            }
+        }
+    }
+
+    private static void sample(Decision.Sample s, String path, Table table) {
+        for (int j = 0; j < s.alternatives().size(); j++) {
+            String p = path + ".alternatives[" + j + "]";
+            SampleRule rule = s.alternatives().get(j);
+            if (rule instanceof SampleRule.KeepRows k) {
+                k.expression().bind(table, p + ".keep");
+            } else if (rule instanceof SampleRule.TrimRows t) {
+                Column c = existing(t.column(), p + ".trim.column", table);
+                if (!(c instanceof NumericColumn)) {
+                    throw new PlanException(p + ".trim.column", "\"" + c.name()
+                            + "\" is categorical; a z-score trim needs a numeric column");
+                }
+            }
+        }
+    }
+
+    private static Column existing(String name, String path, Table table) {
+        Optional<Column> c = table.find(name);
+        if (c.isEmpty()) {
+            String hint = table.nearestName(name).map(n -> "; did you mean \"" + n + "\"?").orElse("");
+            throw new PlanException(path, "\"" + name + "\" is not a column of " + table.source() + hint);
+        }
+        return c.get();
+    }
+}

@@ -1,0 +1,156 @@
+package org.forkscape.run;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.concurrent.atomic.AtomicLong;
+import org.forkscape.InputException;
+import org.forkscape.data.Table;
+import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.KeyFit;
+import org.forkscape.fit.SpecificationFitter;
+import org.forkscape.fit.SpecificationModels;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanChecker;
+import org.forkscape.plan.SpecificationSpace;
+
+/**
+ * Turns a checked plan and its data into results: counts the specifications (refusing above the cap
+ * unless a sample is asked for), groups them by data variant, builds each variant's cross-products once
+ * and fits its specifications on the worker threads. Each specification is computed alone from shared
+ * read-only state, so the results are identical whatever the number of threads. The command line and
+ * the web pages both run plans through this class.
+ */
+public final class MultiverseRunner {
+    /** Specifications handed to a worker at a time: large enough to amortise, small enough to balance. */
+    private static final int CHUNK = 256;
+
+    private final int threads;
+
+    public MultiverseRunner(int threads) {
+        this.threads = Math.max(1, threads);
+    }
+
+    public MultiverseRunner() {
+        this(Runtime.getRuntime().availableProcessors());
+    }
+
+    /** Refuses a plan whose specification count exceeds its cap, with the way out in the message. */
+    public static void checkCount(Plan plan) {
+        SpecificationSpace space = new SpecificationSpace(plan);
+        if (plan.sampleSize() <= 0 && space.size() > plan.maxSpecifications()) {
+            String count = space.size() == Long.MAX_VALUE ? "more than 9.2e18" : String.format("%,d", space.size());
+            throw new InputException("decisions", "the plan has " + count + " specifications, above the cap of "
+                    + String.format("%,d", plan.maxSpecifications()) + "; fit a seeded random sample instead with "
+                    + "--sample N --seed S (plan keys \"sample\" and \"seed\"), or raise the cap with "
+                    + "--max-specifications");
+        }
+    }
+
+    public RunResult run(Plan plan, Table table, RunProgress progress, AtomicBoolean cancel) {
+        long start = System.nanoTime();
+        PlanChecker.check(plan, table);
+        checkCount(plan);
+        SpecificationModels models = new SpecificationModels(plan, table);
+        SpecificationSpace space = models.space();
+        long[] indices = space.indices(plan.sampleSize(), plan.seed());
+        boolean all = plan.sampleSize() <= 0 || plan.sampleSize() >= space.size();
+        ResultTable results = new ResultTable(indices.length, all ? null : indices);
+
+        // bucket the slots by data variant, keeping slot order inside each bucket
+        int variants = (int) models.variantCount();
+        int[] variantOf = new int[indices.length];
+        int[] counts = new int[variants];
+        long[] choices = new long[space.decisionCount()];
+        for (int slot = 0; slot < indices.length; slot++) {
+            space.decode(indices[slot], choices);
+            variantOf[slot] = models.variantOrdinal(choices);
+            counts[variantOf[slot]]++;
+        }
+        int[][] slotsByVariant = new int[variants][];
+        for (int v = 0; v < variants; v++) {
+            slotsByVariant[v] = new int[counts[v]];
+            counts[v] = 0;
+        }
+        for (int slot = 0; slot < indices.length; slot++) {
+            int v = variantOf[slot];
+            slotsByVariant[v][counts[v]++] = slot;
+        }
+
+        AtomicLong done = new AtomicLong();
+        AtomicLong refits = new AtomicLong();
+        ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
+            Thread t = new Thread(r, "forkscape-fit");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            for (int v = 0; v < variants; v++) {
+                if (slotsByVariant[v].length == 0) {
+                    continue;
+                }
+                checkCancel(cancel);
+                DataVariant variant = new DataVariant(plan, table, models.layout(), models.variantKey(v));
+                int[] slots = slotsByVariant[v];
+                AtomicInteger next = new AtomicInteger();
+                List<Future<?>> futures = new ArrayList<>();
+                for (int t = 0; t < threads; t++) {
+                    futures.add(pool.submit(() -> {
+                        SpecificationFitter fitter = new SpecificationFitter();
+                        long[] c = new long[space.decisionCount()];
+                        int from;
+                        while ((from = next.getAndAdd(CHUNK)) < slots.length) {
+                            if (cancel != null && cancel.get()) {
+                                return;
+                            }
+                            int to = Math.min(slots.length, from + CHUNK);
+                            for (int i = from; i < to; i++) {
+                                int slot = slots[i];
+                                space.decode(indices[slot], c);
+                                KeyFit fit = fitter.fit(variant, models.model(c));
+                                results.set(slot, fit);
+                                if (fit.refitByQr()) {
+                                    refits.incrementAndGet();
+                                }
+                            }
+                            progress.update(done.addAndGet(to - from), indices.length);
+                        }
+                    }));
+                }
+                for (Future<?> f : futures) {
+                    await(f);
+                }
+                checkCancel(cancel);
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+        return new RunResult(plan, table, models, results, refits.get(), (System.nanoTime() - start) / 1e9);
+    }
+
+    private static void checkCancel(AtomicBoolean cancel) {
+        if (cancel != null && cancel.get()) {
+            throw new RunCancelledException();
+        }
+    }
+
+    private static void await(Future<?> f) {
+        try {
+            f.get();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new RunCancelledException();
+        } catch (ExecutionException e) {
+            Throwable cause = e.getCause();
+            if (cause instanceof RuntimeException re) {
+                throw re;
+            }
+            throw new IllegalStateException(cause);
+        }
+    }
+}

@@ -1,0 +1,158 @@
+package org.forkscape.run;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+import org.forkscape.fit.Distributions;
+import org.forkscape.fit.KeyFit;
+
+/**
+ * The results of a run, one slot per fitted specification, stored column by column: 56 bytes per
+ * specification when every specification of the plan is fitted (the index is then the position), 64
+ * with a random sample. The t statistic, p-value and interval are derived from these on demand.
+ */
+public final class ResultTable {
+    private final int size;
+    private final long[] index;
+    private final double[] estimate;
+    private final double[] stdError;
+    private final double[] r2;
+    private final double[] rss;
+    private final double[] modelP;
+    private final int[] df;
+    private final int[] nObs;
+    private final int[] nParams;
+    private final int[] status;
+    private final List<String> statusText = new ArrayList<>();
+    private volatile boolean[] statusOk = new boolean[0];
+    private final Map<String, Integer> statusCode = new ConcurrentHashMap<>();
+
+    /**
+     * @param indices the specification indices in slot order, or {@code null} when slot i is
+     *                specification i and there are {@code size} of them
+     */
+    public ResultTable(int size, long[] indices) {
+        this.size = size;
+        this.index = indices;
+        estimate = new double[size];
+        stdError = new double[size];
+        r2 = new double[size];
+        rss = new double[size];
+        modelP = new double[size];
+        df = new int[size];
+        nObs = new int[size];
+        nParams = new int[size];
+        status = new int[size];
+        code("ok");
+    }
+
+    /** Stores one fit; safe to call from several threads for distinct slots. */
+    public void set(int slot, KeyFit fit) {
+        estimate[slot] = fit.estimate();
+        stdError[slot] = fit.stdError();
+        r2[slot] = fit.r2();
+        rss[slot] = fit.rss();
+        modelP[slot] = fit.modelPValue();
+        df[slot] = Double.isNaN(fit.df()) ? -1 : (int) fit.df();
+        nObs[slot] = fit.nObs();
+        nParams[slot] = fit.nParams();
+        String text = fit.note().isEmpty() ? fit.status() : fit.status() + "; " + fit.note();
+        status[slot] = code(text);
+    }
+
+    private int code(String text) {
+        Integer c = statusCode.get(text);
+        if (c != null) {
+            return c;
+        }
+        synchronized (statusText) {
+            return statusCode.computeIfAbsent(text, t -> {
+                statusText.add(t);
+                boolean[] ok = java.util.Arrays.copyOf(statusOk, statusText.size());
+                ok[ok.length - 1] = t.equals("ok") || t.startsWith("ok;");
+                statusOk = ok;
+                return statusText.size() - 1;
+            });
+        }
+    }
+
+    public int size() {
+        return size;
+    }
+
+    public long specIndex(int slot) {
+        return index == null ? slot : index[slot];
+    }
+
+    public double estimate(int slot) {
+        return estimate[slot];
+    }
+
+    public double stdError(int slot) {
+        return stdError[slot];
+    }
+
+    /** Degrees of freedom, NaN when undefined. */
+    public double df(int slot) {
+        return df[slot] < 0 ? Double.NaN : df[slot];
+    }
+
+    public int nObs(int slot) {
+        return nObs[slot];
+    }
+
+    public int nParams(int slot) {
+        return nParams[slot];
+    }
+
+    public double r2(int slot) {
+        return r2[slot];
+    }
+
+    public double rss(int slot) {
+        return rss[slot];
+    }
+
+    /** Adjusted R-squared, 1 - (1 - R2)(N - 1)/(N - K). */
+    public double adjustedR2(int slot) {
+        return 1 - (1 - r2[slot]) * (nObs[slot] - 1.0) / (nObs[slot] - nParams[slot]);
+    }
+
+    public double modelPValue(int slot) {
+        return modelP[slot];
+    }
+
+    public String status(int slot) {
+        synchronized (statusText) {
+            return statusText.get(status[slot]);
+        }
+    }
+
+    /** Whether the slot has an estimate and a standard error. */
+    public boolean fitted(int slot) {
+        return statusOk[status[slot]];
+    }
+
+    public double statistic(int slot) {
+        return estimate[slot] / stdError[slot];
+    }
+
+    public double pValue(int slot) {
+        return Distributions.twoSidedP(statistic(slot), df(slot));
+    }
+
+    /** Lower and upper bounds of the confidence interval at the given level. */
+    public double ciLow(int slot, double confidence) {
+        return estimate[slot] - Distributions.critical(df(slot), 1 - confidence) * stdError[slot];
+    }
+
+    public double ciHigh(int slot, double confidence) {
+        return estimate[slot] + Distributions.critical(df(slot), 1 - confidence) * stdError[slot];
+    }
+
+    /** Bytes held per specification by the numeric columns (for the benchmark's storage figure). */
+    public int bytesPerSpecification() {
+        return 5 * Double.BYTES + 4 * Integer.BYTES + (index == null ? 0 : Long.BYTES);
+    }
+}

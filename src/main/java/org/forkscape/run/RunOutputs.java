@@ -1,0 +1,25 @@
+package org.forkscape.run;
+
+import java.nio.file.Path;
+import java.util.Map;
+
+/**
+ * The files of a finished run in its output folder: specifications.csv, summary.json and a copy of
+ * the plan as given. Each is written atomically.
+ */
+public final class RunOutputs {
+    public static final String SPECIFICATIONS = "specifications.csv";
+    public static final String SUMMARY = "summary.json";
+    public static final String PLAN = "plan.json";
+
+    private RunOutputs() {
+    }
+
+    public static void write(RunResult run, Path folder, String planText, Map<String, Object> sections) {
+        SpecificationsCsv.write(run, folder.resolve(SPECIFICATIONS));
+        Json.write(folder.resolve(SUMMARY), SummaryJson.of(run, sections));
+        if (planText != null) {
+            AtomicFiles.writeString(folder.resolve(PLAN), planText);
+        }
+    }
+}

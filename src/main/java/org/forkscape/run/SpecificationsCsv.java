@@ -1,0 +1,86 @@
+package org.forkscape.run;
+
+import java.io.IOException;
+import java.io.OutputStream;
+import java.io.OutputStreamWriter;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVPrinter;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.SpecificationSpace;
+
+/**
+ * Writes specifications.csv: one row per specification, a column per decision holding the chosen
+ * alternative's label, then the key estimate and the fit statistics. Undefined numbers are empty cells.
+ */
+public final class SpecificationsCsv {
+    public static final List<String> STAT_COLUMNS = List.of("estimate", "std_error", "statistic", "df", "p_value",
+            "ci_low", "ci_high", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+
+    private SpecificationsCsv() {
+    }
+
+    public static List<String> header(List<Decision> decisions) {
+        List<String> header = new ArrayList<>();
+        header.add("spec");
+        decisions.forEach(d -> header.add(d.name()));
+        header.addAll(STAT_COLUMNS);
+        return header;
+    }
+
+    public static void write(RunResult run, Path file) {
+        AtomicFiles.write(file, out -> write(run, out));
+    }
+
+    public static void write(RunResult run, OutputStream stream) throws IOException {
+        List<Decision> decisions = run.plan().decisions();
+        SpecificationSpace space = run.models().space();
+        ResultTable r = run.results();
+        double confidence = run.plan().confidence();
+        Writer writer = new OutputStreamWriter(stream, StandardCharsets.UTF_8);
+        CSVPrinter csv = new CSVPrinter(writer, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get());
+        csv.printRecord(header(decisions).stream().map(SpreadsheetSafe::text).toList());
+        long[] choices = new long[decisions.size()];
+        List<String> row = new ArrayList<>(decisions.size() + 14);
+        for (int slot = 0; slot < r.size(); slot++) {
+            row.clear();
+            long index = r.specIndex(slot);
+            space.decode(index, choices);
+            row.add(Long.toString(index + 1));
+            for (int d = 0; d < decisions.size(); d++) {
+                row.add(SpreadsheetSafe.text(decisions.get(d).label(choices[d])));
+            }
+            boolean ok = r.fitted(slot);
+            row.add(number(r.estimate(slot)));
+            row.add(ok ? number(r.stdError(slot)) : "");
+            row.add(ok ? number(r.statistic(slot)) : "");
+            row.add(ok ? number(r.df(slot)) : "");
+            row.add(ok ? number(r.pValue(slot)) : "");
+            row.add(ok ? number(r.ciLow(slot, confidence)) : "");
+            row.add(ok ? number(r.ciHigh(slot, confidence)) : "");
+            row.add(Integer.toString(r.nObs(slot)));
+            row.add(Integer.toString(r.nParams(slot)));
+            row.add(number(r.r2(slot)));
+            row.add(number(r.adjustedR2(slot)));
+            row.add(number(r.modelPValue(slot)));
+            row.add(SpreadsheetSafe.text(r.status(slot)));
+            csv.printRecord(row);
+        }
+        csv.flush();
+    }
+
+    /** Shortest decimal that reads back to the same double; empty for NaN. */
+    static String number(double v) {
+        if (Double.isNaN(v) || Double.isInfinite(v)) {
+            return "";
+        }
+        if (v == Math.rint(v) && Math.abs(v) < 1e15) {
+            return Long.toString((long) v);
+        }
+        return Double.toString(v);
+    }
+}

@@ -23,7 +23,7 @@ final class AgreementReport {
     static void write(String file, String source, Map<String, Double> figures) {
         List<String> lines = new ArrayList<>();
         lines.add("# " + source);
-        figures.forEach((what, value) -> lines.add(String.format("%-50s %.3g", what, value)));
+        figures.forEach((what, value) -> lines.add(String.format("%-50s %.4g", what, value)));
         try {
             Files.createDirectories(FOLDER);
             Files.write(FOLDER.resolve(file), lines, StandardCharsets.UTF_8);

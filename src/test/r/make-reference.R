@@ -11,7 +11,8 @@
 # are written by hand. The tests read only the committed output, so R is not needed to run them.
 #
 # What it writes:
-#   airquality.csv, chickweight.csv  data sets shipped with R, categorical columns as text
+#   airquality.csv, chickweight.csv, toothgrowth.csv
+#                                    data sets shipped with R, categorical columns as text
 #   longley.csv                      datasets::longley in the units of NIST StRD's Longley data
 #   *-expected.csv                   per specification of the plan of the same name: the key estimate,
 #                                    its standard error, df, p-value, interval, rows, coefficients,
@@ -56,6 +57,8 @@ chick <- data.frame(
   Diet = paste0("D", as.character(datasets::ChickWeight$Diet)))
 chick <- write_data(chick, "chickweight.csv")
 
+tooth <- write_data(datasets::ToothGrowth[, c("len", "supp", "dose")], "toothgrowth.csv")
+
 # NIST StRD Longley units: y = Employed (thousands of people), x2 = GNP (thousands of dollars) and so on.
 L <- datasets::longley
 longley <- data.frame(
@@ -81,6 +84,12 @@ code <- function(x, transform) {
   }
   if (transform == "log") {
     return(log(x))
+  }
+  if (transform == "log1p") {
+    return(log1p(x))
+  }
+  if (transform == "sqrt") {
+    return(sqrt(x))
   }
   if (transform == "standardize") {
     return((x - mean(x, na.rm = TRUE)) / sd(x, na.rm = TRUE))
@@ -263,6 +272,32 @@ chickweight_plan <- function() {
   write_expected(rows, c("outcome", "age", "diet", "rows", "chick effects", "errors"), "chickweight-expected.csv")
 }
 
+# --- plan toothgrowth-plan.json: a two-level categorical key predictor ------------------------------------
+
+toothgrowth_plan <- function() {
+  outcomes <- list(list(label = "length", transform = "none"), list(label = "sqrt length", transform = "sqrt"),
+                   list(label = "log1p length", transform = "log1p"))
+  errors <- c("classical", "HC1", "HC3", "cluster:dose")
+  rows <- list()
+  spec <- 0
+  for (o in outcomes) for (mask in 0:1) for (doses in 1:2) {
+    d <- tooth
+    if (doses == 2) d <- keep_rows(d, d$dose < 2)
+    d$.y <- code(d$len, o$transform)
+    # a two-level key predictor is coded 0 for its first level in sorted order (OJ) and 1 for the second (VC)
+    d$.x <- as.numeric(d$supp == "VC")
+    controls <- subset_of("dose", mask)
+    for (r in fit_errors(d, controls, character(0), errors, 0.99)) {
+      spec <- spec + 1
+      r$spec <- spec
+      r$labels <- list(o$label, "ascorbic acid", subset_label(controls), c("all doses", "below 2 mg")[doses],
+                       r$errors)
+      rows[[spec]] <- r
+    }
+  }
+  write_expected(rows, c("outcome", "supplement", "dose", "doses", "errors"), "toothgrowth-expected.csv")
+}
+
 # --- NIST StRD designs through lm -----------------------------------------------------------------------
 
 # Wampler1 and Wampler2 follow from their definition: y is a degree-5 polynomial in x = 0..20 with
@@ -323,6 +358,7 @@ distributions <- function() {
 airquality_plan()
 airquality_common_plan()
 chickweight_plan()
+toothgrowth_plan()
 nist_lm()
 distributions()
 writeLines(c(paste("R:", R.version.string),

@@ -21,7 +21,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 
 /**
- * Every specification of three committed plans against R's lm() with the sandwich package: reference
+ * Every specification of four committed plans against R's lm() with the sandwich package: reference
  * values in {@code src/test/resources/reference/*-expected.csv}, produced by
  * {@code src/test/r/make-reference.R} with the versions named in {@code versions.txt} (R 4.2.2, sandwich
  * 3.0.2). The R script enumerates the specifications with its own loops, codes the variables, applies
@@ -57,7 +57,7 @@ class RLmSandwichReferenceTest {
      *                   the Cholesky route, so that both are compared with R
      */
     @ParameterizedTest(name = "{0}")
-    @CsvSource({"airquality, true", "airquality-common, false", "chickweight, true"})
+    @CsvSource({"airquality, true", "airquality-common, false", "chickweight, true", "toothgrowth, false"})
     void everySpecificationAgreesWithLmAndSandwich(String name, boolean bothRoutes) {
         Plan plan = ReferenceFiles.plan(name + "-plan.json");
         Table table = ReferenceFiles.table(plan);

@@ -120,10 +120,17 @@ subset_of <- function(optional, mask) optional[bitwAnd(mask, 2^(seq_along(option
 # --- one fit, every error type ------------------------------------------------------------------------
 
 # Fits .y on the controls, the absorbed fixed effects (as explicit dummies) and .x, on the rows complete
-# on every variable the specification uses, and returns one row per error type.
+# on every variable the specification uses (its cluster column too, for cluster errors only), and returns
+# one row per error type.
 fit_errors <- function(d, controls, absorb, errors, confidence) {
-  clusters <- unique(sub("cluster:", "", errors[startsWith(errors, "cluster:")], fixed = TRUE))
-  used <- unique(c(".y", ".x", controls, absorb, clusters))
+  lapply(errors, function(e) {
+    cluster <- if (startsWith(e, "cluster:")) sub("cluster:", "", e, fixed = TRUE) else character(0)
+    fit_one(d, controls, absorb, e, cluster, confidence)
+  })
+}
+
+fit_one <- function(d, controls, absorb, e, cluster, confidence) {
+  used <- unique(c(".y", ".x", controls, absorb, cluster))
   m <- na.omit(d[, used, drop = FALSE])
   for (v in c(controls, absorb)) {
     if (is.character(m[[v]])) {
@@ -135,38 +142,34 @@ fit_errors <- function(d, controls, absorb, errors, confidence) {
   s <- summary(fit)
   estimate <- unname(coef(fit)[".x"])
   fstat <- s$fstatistic
-  common <- list(estimate = estimate, n_obs = nobs(fit), n_params = fit$rank, r2 = s$r.squared,
-                 adj_r2 = s$adj.r.squared,
-                 model_p_value = unname(pf(fstat["value"], fstat["numdf"], fstat["dendf"], lower.tail = FALSE)))
-  leverage <- hatvalues(fit)
-  rows <- lapply(errors, function(e) {
-    status <- "ok"
-    df <- fit$df.residual
-    if (e == "classical") {
-      v <- vcov(fit)
-    } else if (e %in% c("HC2", "HC3") && any(leverage > 1 - 1e-10)) {
-      # HC2 and HC3 divide by 1 - h_i: undefined when a row's leverage is 1 (to rounding)
-      status <- "undefined: leverage 1"
-    } else if (e %in% c("HC0", "HC1", "HC2", "HC3")) {
-      v <- vcovHC(fit, type = e)
-    } else {
-      cl <- as.character(m[[sub("cluster:", "", e, fixed = TRUE)]])
-      # CR1: G/(G-1) (N-1)/(N-K), with G - 1 degrees of freedom for tests and intervals
-      v <- vcovCL(fit, cluster = cl, type = "HC1", cadjust = TRUE)
-      df <- length(unique(cl)) - 1
-    }
-    se <- NA
-    if (status == "ok") {
-      se <- sqrt(v[".x", ".x"])
-    } else {
-      df <- NA
-    }
-    t <- estimate / se
-    half <- qt(1 - (1 - confidence) / 2, df) * se
-    c(list(errors = e), common, list(std_error = se, df = df, p_value = 2 * pt(-abs(t), df),
-                                     ci_low = estimate - half, ci_high = estimate + half, status = status))
-  })
-  rows
+  status <- "ok"
+  df <- fit$df.residual
+  if (e == "classical") {
+    v <- vcov(fit)
+  } else if (e %in% c("HC2", "HC3") && any(hatvalues(fit) > 1 - 1e-10)) {
+    # HC2 and HC3 divide by 1 - h_i: undefined when a row's leverage is 1 (to rounding)
+    status <- "undefined: leverage 1"
+  } else if (e %in% c("HC0", "HC1", "HC2", "HC3")) {
+    v <- vcovHC(fit, type = e)
+  } else {
+    cl <- as.character(m[[cluster]])
+    # CR1: G/(G-1) (N-1)/(N-K), with G - 1 degrees of freedom for tests and intervals
+    v <- vcovCL(fit, cluster = cl, type = "HC1", cadjust = TRUE)
+    df <- length(unique(cl)) - 1
+  }
+  se <- NA
+  if (status == "ok") {
+    se <- sqrt(v[".x", ".x"])
+  } else {
+    df <- NA
+  }
+  t <- estimate / se
+  half <- qt(1 - (1 - confidence) / 2, df) * se
+  list(errors = e, estimate = estimate, n_obs = nobs(fit), n_params = fit$rank, r2 = s$r.squared,
+       adj_r2 = s$adj.r.squared,
+       model_p_value = unname(pf(fstat["value"], fstat["numdf"], fstat["dendf"], lower.tail = FALSE)),
+       std_error = se, df = df, p_value = 2 * pt(-abs(t), df), ci_low = estimate - half, ci_high = estimate + half,
+       status = status)
 }
 
 stat_columns <- c("estimate", "std_error", "df", "p_value", "ci_low", "ci_high", "n_obs", "n_params", "r2",
@@ -195,7 +198,7 @@ airquality_plan <- function() {
                      list(label = "temp winsorized", column = "Temp", transform = "winsorize:0.05"),
                      list(label = "temp z", column = "Temp", transform = "standardize"))
   optional <- c("Wind", "Solar.R", "Month")
-  errors <- c("classical", "HC0", "HC1", "HC2", "HC3", "cluster:Month")
+  errors <- c("classical", "HC0", "HC1", "HC2", "HC3", "cluster:Month", "cluster:Solar.R")
   rows <- list()
   spec <- 0
   for (o in outcomes) for (p in predictors) for (mask in 0:7) for (season in 1:2) for (outliers in 1:2) {
@@ -223,25 +226,25 @@ airquality_common_plan <- function() {
   outcomes <- list(list(label = "ozone", transform = "none"), list(label = "log ozone", transform = "log"))
   predictors <- list(list(label = "temp", column = "Temp"), list(label = "wind", column = "Wind"))
   optional <- c("Solar.R", "Month")
-  errors <- c("HC1", "cluster:Month")
+  errors <- c("HC1", "HC3", "cluster:Month")
   plan_variables <- c("Ozone", "Temp", "Wind", "Solar.R", "Month")
   common <- air[complete.cases(air[, plan_variables]), ]
   rows <- list()
   spec <- 0
-  for (o in outcomes) for (p in predictors) for (mask in 0:3) for (days in 1:2) {
+  for (o in outcomes) for (p in predictors) for (mask in 0:3) for (days in 1:2) for (a in list(character(0), "Month")) {
     d <- common
     if (days == 2) d <- keep_rows(d, d$Day <= 15 | d$Temp > 80)
     d$.y <- code(d$Ozone, o$transform)
     d$.x <- d[[p$column]]
     controls <- subset_of(optional, mask)
-    for (r in fit_errors(d, controls, character(0), errors, 0.90)) {
+    for (r in fit_errors(d, controls, a, errors, 0.90)) {
       spec <- spec + 1
       r$spec <- spec
-      r$labels <- list(o$label, p$label, subset_label(controls), c("all days", "early or hot")[days], r$errors)
+      r$labels <- list(o$label, p$label, subset_label(controls), c("all days", "early or hot")[days], if (length(a)) "month" else "none", r$errors)
       rows[[spec]] <- r
     }
   }
-  write_expected(rows, c("outcome", "weather", "controls", "days", "errors"), "airquality-common-expected.csv")
+  write_expected(rows, c("outcome", "weather", "controls", "days", "fe", "errors"), "airquality-common-expected.csv")
 }
 
 # --- plan chickweight-plan.json: absorbed fixed effects and clusters ----------------------------------

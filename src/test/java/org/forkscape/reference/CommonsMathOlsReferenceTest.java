@@ -8,6 +8,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Random;
 import java.util.TreeMap;
+import java.util.TreeSet;
 import org.apache.commons.math3.stat.regression.OLSMultipleLinearRegression;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
@@ -16,6 +17,7 @@ import org.forkscape.data.Table;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunProgress;
@@ -166,7 +168,7 @@ class CommonsMathOlsReferenceTest {
 
     private static String labels(Plan plan, ResultTable r, int slot) {
         long[] choices = new long[plan.decisions().size()];
-        new org.forkscape.plan.SpecificationSpace(plan).decode(r.specIndex(slot), choices);
+        new SpecificationSpace(plan).decode(r.specIndex(slot), choices);
         List<String> out = new ArrayList<>();
         for (int d = 0; d < choices.length; d++) {
             Decision decision = plan.decisions().get(d);
@@ -252,7 +254,7 @@ class CommonsMathOlsReferenceTest {
 
     /** One 0/1 column per level present in the rows except the first present (the reference level). */
     private static List<double[]> dummies(int[] codes, List<Integer> rows) {
-        java.util.TreeSet<Integer> present = new java.util.TreeSet<>();
+        TreeSet<Integer> present = new TreeSet<>();
         rows.forEach(i -> present.add(codes[i]));
         present.pollFirst();
         List<double[]> out = new ArrayList<>();

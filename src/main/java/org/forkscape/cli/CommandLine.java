@@ -11,7 +11,7 @@ import org.forkscape.InputException;
  * see one).
  */
 public final class CommandLine {
-    public static final Set<String> COMMANDS = Set.of("run", "help", "--help", "-h");
+    public static final Set<String> COMMANDS = Set.of("run", "bench", "help", "--help", "-h");
 
     private CommandLine() {
     }
@@ -24,6 +24,13 @@ public final class CommandLine {
         try {
             switch (args[0]) {
                 case "run" -> RunCommand.execute(args, out, err);
+                case "bench" -> {
+                    boolean quick = java.util.Arrays.asList(args).contains("--quick");
+                    String[] rest = java.util.Arrays.stream(args).filter(s -> !s.equals("--quick")).toArray(String[]::new);
+                    Arguments a = new Arguments(rest, 1, java.util.Set.of("out"));
+                    new org.forkscape.bench.BenchmarkCommand(out, java.nio.file.Path.of(
+                            a.has("out") ? a.text("out") : "target/bench"), quick).execute();
+                }
                 default -> out.println(usage());
             }
             return 0;

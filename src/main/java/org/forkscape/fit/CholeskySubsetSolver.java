@@ -28,9 +28,13 @@ final class CholeskySubsetSolver {
     private double[] ay = new double[0];
     private double[] z = new double[0];
     private double[] scale = new double[0];
+    private double[] beta = new double[0];
+    /** Reused for every call: valid until the next call. */
+    private final KeySolution solution = new KeySolution();
 
     private void ensure(int p) {
         if (a.length < p * p) {
+            beta = new double[p];
             a = new double[p * p];
             linv = new double[p * p];
             ay = new double[p];
@@ -43,7 +47,8 @@ final class CholeskySubsetSolver {
      * @param mom   the usable rows' moments
      * @param cols  model columns, controls first and key last
      * @param y     the outcome's model column
-     * @return the solution, or {@code null} when the precision guard asks for a QR refit
+     * @return the solution (owned by this solver, valid until its next call), or {@code null} when the
+     *         precision guard asks for a QR refit
      */
     KeySolution solve(Moments mom, int[] cols, int y) {
         int p = cols.length;
@@ -119,10 +124,12 @@ final class CholeskySubsetSolver {
         if (!(trace < MAX_INVERSE_TRACE)) {
             return null;
         }
-        KeySolution s = new KeySolution();
-        s.kept = cols.clone();
+        KeySolution s = solution;
+        s.kept = cols;
         s.p = p;
-        s.b = new double[p];
+        s.b = beta;
+        s.dropped = null;
+        s.keptPositions = null;
         // beta~ = L^-T z, then undo the scaling
         for (int i = p - 1; i >= 0; i--) {
             double t = z[i];
@@ -134,12 +141,9 @@ final class CholeskySubsetSolver {
         for (int i = 0; i < p; i++) {
             s.b[i] *= dy / scale[i];
         }
-        s.m = new double[p * p];
-        for (int i = 0; i < p; i++) {
-            for (int j = 0; j <= i; j++) {
-                s.m[i * p + j] = linv[i * p + j] / scale[j];
-            }
-        }
+        s.m = null;
+        s.linv = linv;
+        s.scale = scale;
         s.rss = residualShare * yy;
         return s;
     }

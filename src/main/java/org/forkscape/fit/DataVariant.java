@@ -31,6 +31,11 @@ import org.forkscape.plan.VariableChoice;
  * {@link Moments} cache, which is safe for concurrent use and deterministic.
  */
 public final class DataVariant {
+    /** Rows per block of the cross-product sums. */
+    static final int BLOCK_ROWS = 8192;
+    /** Beyond this many doubles of partial sums (many fixed-effect levels), rows are summed in one block. */
+    static final long MAX_BLOCK_DOUBLES = 1L << 24;
+
     final ModelColumns layout;
     final int rows;
     final int columns;
@@ -55,13 +60,26 @@ public final class DataVariant {
     final Map<String, int[]> clusters = new HashMap<>();
     final Map<String, Integer> clusterCounts = new HashMap<>();
     private final Map<BitSet, Moments> momentsByGroups = new ConcurrentHashMap<>();
+    private final Map<String, ClusterMoments> clusterMoments = new ConcurrentHashMap<>();
+    private volatile double[][][] groupTensors;
+    /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
+    volatile boolean useFourthMoments;
+    private final java.util.Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
     private final Map<Long, Moments> momentsByVariables = new ConcurrentHashMap<>();
+    /** Variables missing in at least one row: only these can change a specification's usable rows. */
+    private final long everMissing;
 
     /**
      * Builds the variant. Plan errors that only the data reveal (a log of a non-positive value, a trim
      * on a constant column) are thrown here as {@link org.forkscape.plan.PlanException}.
      */
     public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key) {
+        this(plan, table, layout, key, null);
+    }
+
+    /** As above, summing row blocks on {@code pool} when given (the result does not depend on it). */
+    public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key,
+            java.util.concurrent.ExecutorService pool) {
         this.layout = layout;
         this.columns = layout.size();
         int n = table.rowCount();
@@ -187,11 +205,23 @@ public final class DataVariant {
         }
         Map<Long, Integer> patterns = new LinkedHashMap<>();
         group = new int[rows];
+        long lastMask = 0;
+        int lastGroup = -1;
         for (int i = 0; i < rows; i++) {
-            group[i] = patterns.computeIfAbsent(rowMissing[i], p -> patterns.size());
+            // consecutive rows usually share a pattern: skip the map (and its boxing) for them
+            if (lastGroup < 0 || rowMissing[i] != lastMask) {
+                lastMask = rowMissing[i];
+                lastGroup = patterns.computeIfAbsent(lastMask, p -> patterns.size());
+            }
+            group[i] = lastGroup;
         }
         groupMissing = new long[patterns.size()];
         patterns.forEach((mask, g) -> groupMissing[g] = mask);
+        long any = 0;
+        for (long mask : groupMissing) {
+            any |= mask;
+        }
+        everMissing = any;
 
         levelShift = new double[levels][columns];
         int[][] shiftCount = new int[levels][columns];
@@ -219,41 +249,109 @@ public final class DataVariant {
         cellCount = new int[groups][levels];
         cellSum = new double[groups][levels][];
         cellCross = new double[groups][levels][];
-        accumulate();
+        accumulate(pool);
     }
 
-    private void accumulate() {
-        double[] row = new double[columns];
+    /**
+     * Sums each (group, level) cell's column sums and cross-products. Rows are taken in fixed blocks
+     * whose partial sums are added in block order, so the result is the same whatever the number of
+     * threads, and blocked (pairwise-like) summation also bounds the rounding error's growth (Higham,
+     * Accuracy and Stability of Numerical Algorithms, 2nd ed., section 4.2).
+     */
+    private void accumulate(java.util.concurrent.ExecutorService pool) {
         int p = columns;
-        for (int i = 0; i < rows; i++) {
-            int g = group[i];
-            int l = level[i];
-            if (cellSum[g][l] == null) {
-                cellSum[g][l] = new double[p];
-                cellCross[g][l] = new double[p * p];
+        int groups = groupMissing.length;
+        int cells = groups * levels;
+        int blocks = Math.max(1, (rows + BLOCK_ROWS - 1) / BLOCK_ROWS);
+        if ((long) blocks * cells * (p + 1L) * p > MAX_BLOCK_DOUBLES) {
+            blocks = 1;
+        }
+        int blockRows = blocks == 1 ? rows : BLOCK_ROWS;
+        double[][][] partialSum = new double[blocks][][];
+        double[][][] partialCross = new double[blocks][][];
+        int[][] partialCount = new int[blocks][];
+        java.util.function.IntConsumer block = b -> {
+            double[][] sum = new double[cells][];
+            double[][] cross = new double[cells][];
+            int[] count = new int[cells];
+            double[] row = new double[p];
+            int from = b * blockRows;
+            int to = Math.min(rows, from + blockRows);
+            for (int i = from; i < to; i++) {
+                int cell = group[i] * levels + level[i];
+                if (sum[cell] == null) {
+                    sum[cell] = new double[p];
+                    cross[cell] = new double[p * p];
+                }
+                count[cell]++;
+                double[] s = sum[cell];
+                double[] c = cross[cell];
+                for (int j = 0; j < p; j++) {
+                    row[j] = shifted[j][i];
+                    s[j] += row[j];
+                }
+                for (int a = 0; a < p; a++) {
+                    double xa = row[a];
+                    int base = a * p;
+                    for (int k = a; k < p; k++) {
+                        c[base + k] += xa * row[k];
+                    }
+                }
             }
-            cellCount[g][l]++;
-            double[] s = cellSum[g][l];
-            double[] cross = cellCross[g][l];
-            for (int j = 0; j < p; j++) {
-                row[j] = shifted[j][i];
-                s[j] += row[j];
+            partialSum[b] = sum;
+            partialCross[b] = cross;
+            partialCount[b] = count;
+        };
+        if (pool == null || blocks == 1) {
+            for (int b = 0; b < blocks; b++) {
+                block.accept(b);
             }
-            for (int a = 0; a < p; a++) {
-                double xa = row[a];
-                int base = a * p;
-                for (int b = a; b < p; b++) {
-                    cross[base + b] += xa * row[b];
+        } else {
+            java.util.List<java.util.concurrent.Future<?>> futures = new java.util.ArrayList<>();
+            for (int b = 0; b < blocks; b++) {
+                int index = b;
+                futures.add(pool.submit(() -> block.accept(index)));
+            }
+            for (java.util.concurrent.Future<?> f : futures) {
+                try {
+                    f.get();
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    throw new IllegalStateException("interrupted while summing cross-products", e);
+                } catch (java.util.concurrent.ExecutionException e) {
+                    throw new IllegalStateException(e.getCause());
                 }
             }
         }
-        for (double[][] byLevel : cellCross) {
-            for (double[] cross : byLevel) {
-                if (cross != null) {
-                    for (int a = 0; a < p; a++) {
-                        for (int b = a + 1; b < p; b++) {
-                            cross[b * p + a] = cross[a * p + b];
-                        }
+        for (int cell = 0; cell < cells; cell++) {
+            int g = cell / levels;
+            int l = cell % levels;
+            for (int b = 0; b < blocks; b++) {
+                double[] s = partialSum[b][cell];
+                if (s == null) {
+                    continue;
+                }
+                cellCount[g][l] += partialCount[b][cell];
+                if (cellSum[g][l] == null) {
+                    cellSum[g][l] = s;
+                    cellCross[g][l] = partialCross[b][cell];
+                } else {
+                    double[] ts = cellSum[g][l];
+                    double[] tc = cellCross[g][l];
+                    double[] c = partialCross[b][cell];
+                    for (int j = 0; j < p; j++) {
+                        ts[j] += s[j];
+                    }
+                    for (int k = 0; k < tc.length; k++) {
+                        tc[k] += c[k];
+                    }
+                }
+            }
+            double[] c = cellCross[g][l];
+            if (c != null) {
+                for (int a = 0; a < p; a++) {
+                    for (int k = a + 1; k < p; k++) {
+                        c[k * p + a] = c[a * p + k];
                     }
                 }
             }
@@ -358,6 +456,52 @@ public final class DataVariant {
         return rows;
     }
 
+    /**
+     * Tells the variant how many specifications of each sandwich type it will fit, so that it builds
+     * the row-free structures only where they pay (see {@link SandwichRoute}).
+     *
+     * @param hcSpecifications      specifications with HC0 or HC1 errors
+     * @param clusterSpecifications specifications per cluster column
+     * @param meanColumns           mean number of coefficients besides the intercept or levels
+     * @param pool                  where to sum row blocks (the result does not depend on it), or null
+     */
+    public void expect(long hcSpecifications, Map<String, Long> clusterSpecifications, double meanColumns,
+            java.util.concurrent.ExecutorService pool) {
+        useFourthMoments = SandwichRoute.fourthMomentsPay(this, hcSpecifications, meanColumns);
+        if (useFourthMoments) {
+            groupTensors = FourthMoments.groupTensors(this, pool);
+        }
+        clusterSpecifications.forEach((column, count) -> {
+            Integer g = clusterCounts.get(column);
+            if (g != null && SandwichRoute.clusterMomentsPay(this, count, meanColumns, g)) {
+                useClusterMoments.add(column);
+            }
+        });
+    }
+
+    boolean usesClusterMoments(String column) {
+        return useClusterMoments.contains(column);
+    }
+
+    /** The per-group third and fourth moments, built on first use. */
+    double[][][] groupTensors() {
+        double[][][] t = groupTensors;
+        if (t == null) {
+            synchronized (this) {
+                t = groupTensors;
+                if (t == null) {
+                    t = FourthMoments.groupTensors(this, null);
+                    groupTensors = t;
+                }
+            }
+        }
+        return t;
+    }
+
+    ClusterMoments clusterMoments(String column) {
+        return clusterMoments.computeIfAbsent(column, c -> ClusterMoments.build(this, clusters.get(c)));
+    }
+
     public ModelColumns layout() {
         return layout;
     }
@@ -366,7 +510,8 @@ public final class DataVariant {
      * The moments of the rows complete on the variables in {@code variableMask} (bit v = model variable
      * v). Cached: specifications with the same usable rows share one.
      */
-    public Moments moments(long variableMask) {
+    public Moments moments(long variables) {
+        long variableMask = variables & everMissing;
         Moments cached = momentsByVariables.get(variableMask);
         if (cached != null) {
             return cached;

@@ -115,7 +115,7 @@ final class KeyCoefficientSandwich {
         for (int j = 0; j < p; j++) {
             java.util.Arrays.fill(t, 0, n, 0);
             for (int m = 0; m <= j; m++) {
-                double coef = s.m[j * p + m];
+                double coef = s.mAt(j, m);
                 double[] x = rows.x[positions[m]];
                 for (int i = 0; i < n; i++) {
                     t[i] += coef * x[i];

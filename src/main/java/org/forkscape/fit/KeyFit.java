@@ -12,15 +12,20 @@ package org.forkscape.fit;
  * @param nParams       coefficients K, absorbed fixed-effect levels and intercept included
  * @param r2            R-squared (about the overall mean, as with explicit dummies)
  * @param rss           residual sum of squares
- * @param modelPValue   p-value of the overall F test against the intercept-only model
+ * @param modelF        statistic of the overall F test against the intercept-only model, on K - 1 and N - K df
  * @param refitByQr     true when the precision guard refit this specification from its rows
  */
 public record KeyFit(double estimate, double stdError, double df, int nObs, int nParams, double r2, double rss,
-        double modelPValue, String status, String note, boolean refitByQr) {
+        double modelF, String status, String note, boolean refitByQr) {
 
     public static KeyFit failed(String status, int nObs, int nParams) {
         return new KeyFit(Double.NaN, Double.NaN, Double.NaN, nObs, nParams, Double.NaN, Double.NaN, Double.NaN,
                 status, "", false);
+    }
+
+    /** p-value of the overall F test (computed on demand: the incomplete beta is not free). */
+    public double modelPValue() {
+        return Distributions.fUpperP(modelF, nParams - 1, nObs - nParams);
     }
 
     public boolean ok() {

@@ -10,8 +10,11 @@ final class KeySolution {
     int[] kept;
     int p;
     double[] b;
-    /** p x p, row-major, lower triangular. */
+    /** p x p, row-major, lower triangular; null when {@link #linv} and {@link #scale} stand for it. */
     double[] m;
+    /** The Cholesky route's inverse factor of the scaled matrix and the column scales: M = L^-1 D^-1. */
+    double[] linv;
+    double[] scale;
     double rss;
     /** Positions in the requested column order of the kept columns (QR route only; null otherwise). */
     int[] keptPositions;
@@ -22,17 +25,22 @@ final class KeySolution {
         return b[p - 1];
     }
 
+    /** Entry (i, j) of M. */
+    double mAt(int i, int j) {
+        return m != null ? m[i * p + j] : linv[i * p + j] / scale[j];
+    }
+
     /** (X'X)^-1 at the key position. */
     double keyInverseDiagonal() {
-        double mkk = m[(p - 1) * p + (p - 1)];
+        double mkk = mAt(p - 1, p - 1);
         return mkk * mkk;
     }
 
     /** The key row of (X'X)^-1 into {@code w} (modified). */
     void keyRow(double[] w) {
-        double mkk = m[(p - 1) * p + (p - 1)];
+        double mkk = mAt(p - 1, p - 1);
         for (int j = 0; j < p; j++) {
-            w[j] = mkk * m[(p - 1) * p + j];
+            w[j] = mkk * mAt(p - 1, j);
         }
     }
 

@@ -21,6 +21,28 @@ public final class Moments {
     /** Sum of squares of each column about its overall mean (over the usable rows). */
     final double[] totalSquares;
 
+    private volatile FourthMoments fourth;
+    private final java.util.Map<String, ClusterMoments.Usable> clusterCells =
+            new java.util.concurrent.ConcurrentHashMap<>();
+
+    FourthMoments fourthMoments() {
+        FourthMoments f = fourth;
+        if (f == null) {
+            synchronized (this) {
+                f = fourth;
+                if (f == null) {
+                    f = FourthMoments.of(this, variant.groupTensors());
+                    fourth = f;
+                }
+            }
+        }
+        return f;
+    }
+
+    ClusterMoments.Usable clusterCells(String column) {
+        return clusterCells.computeIfAbsent(column, c -> variant.clusterMoments(c).usable(this));
+    }
+
     Moments(DataVariant v, BitSet usable) {
         this.variant = v;
         this.usableGroups = usable;

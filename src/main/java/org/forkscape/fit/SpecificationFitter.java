@@ -12,6 +12,21 @@ public final class SpecificationFitter {
     private final QrRefit qr = new QrRefit();
     private final DesignRows rows = new DesignRows();
     private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
+    private final RowFreeSandwich rowFree = new RowFreeSandwich();
+    private final boolean allowRowFree;
+
+    /** A fitter that picks the cheapest exact route for each sandwich. */
+    public SpecificationFitter() {
+        this(true);
+    }
+
+    /**
+     * @param allowRowFree false forces the one-row-pass sandwich everywhere (for the benchmark's
+     *                     comparison and for tests that hold the routes against each other)
+     */
+    public SpecificationFitter(boolean allowRowFree) {
+        this.allowRowFree = allowRowFree;
+    }
 
     public KeyFit fit(DataVariant variant, SpecificationModel spec) {
         Moments mom = variant.moments(spec.variableMask());
@@ -59,18 +74,26 @@ public final class SpecificationFitter {
         double tss = mom.totalSquares[y];
         double r2 = 1 - s.rss / tss;
         double f = ((tss - s.rss) / (k - 1)) / (s.rss / dfResidual);
-        double modelP = k > 1 ? Distributions.fUpperP(f, k - 1, dfResidual) : Double.NaN;
+        double modelF = k > 1 ? f : Double.NaN;
         double variance;
         double df = dfResidual;
         if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
             variance = s.rss / dfResidual * s.keyInverseDiagonal();
+        } else if ((variance = rowFreeVariance(variant, mom, s, y, spec.errors(), k, n)) >= 0) {
+            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+                df = lastClusters - 1;
+                if (lastClusters < 2) {
+                    return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
+                            "one cluster: cluster-robust errors need at least two", "", refit);
+                }
+            }
         } else {
             if (!refit) {
                 rows.fill(mom, s.kept, y, clusterCodes);
             }
             KeyCoefficientSandwich.Variance v = sandwich.variance(rows, positions, s, mom, spec.errors(), k, clusterCount);
             if (v.failure() != null) {
-                return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelP, v.failure(), "",
+                return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), "",
                         refit);
             }
             variance = v.value();
@@ -79,14 +102,49 @@ public final class SpecificationFitter {
             }
         }
         String note = s.note();
-        return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelP, "ok", note, refit);
+        return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", note, refit);
     }
 
-    private static int[] identity(int p) {
-        int[] out = new int[p];
-        for (int i = 0; i < p; i++) {
-            out[i] = i;
+    private int lastClusters;
+
+    /**
+     * The variance by a route that needs no rows, or -1 when that route does not apply or pays here,
+     * or when it would lose digits to cancellation.
+     */
+    private double rowFreeVariance(DataVariant variant, Moments mom, KeySolution s, int y, ErrorType type, int k,
+            int n) {
+        if (!allowRowFree || !SandwichRoute.safe(mom, s, y)) {
+            return -1;
         }
-        return out;
+        double inverseKK = s.keyInverseDiagonal();
+        if ((type.kind() == ErrorType.Kind.HC0 || type.kind() == ErrorType.Kind.HC1) && variant.useFourthMoments) {
+            double meat = rowFree.hc0(mom, s, y);
+            if (Double.isNaN(meat)) {
+                return -1;
+            }
+            return type.kind() == ErrorType.Kind.HC1 ? meat * n / (n - k) : meat;
+        }
+        if (type.kind() == ErrorType.Kind.CLUSTER && variant.usesClusterMoments(type.clusterColumn())) {
+            double[] meat = rowFree.cluster(mom, s, y, type.clusterColumn());
+            int g = (int) meat[1];
+            lastClusters = g;
+            if (g < 2) {
+                return 0;
+            }
+            return meat[0] * g / (g - 1) * (n - 1.0) / (n - k);
+        }
+        return -1;
+    }
+
+    private int[] identity = new int[0];
+
+    private int[] identity(int p) {
+        if (identity.length < p) {
+            identity = new int[p];
+            for (int i = 0; i < p; i++) {
+                identity[i] = i;
+            }
+        }
+        return identity;
     }
 }

@@ -31,9 +31,18 @@ public final class MultiverseRunner {
     private static final int CHUNK = 256;
 
     private final int threads;
+    private final boolean allowRowFree;
 
     public MultiverseRunner(int threads) {
+        this(threads, true);
+    }
+
+    /**
+     * @param allowRowFree false forces the one-row-pass sandwich (the benchmark's comparison route)
+     */
+    public MultiverseRunner(int threads, boolean allowRowFree) {
         this.threads = Math.max(1, threads);
+        this.allowRowFree = allowRowFree;
     }
 
     public MultiverseRunner() {
@@ -95,13 +104,14 @@ public final class MultiverseRunner {
                     continue;
                 }
                 checkCancel(cancel);
-                DataVariant variant = new DataVariant(plan, table, models.layout(), models.variantKey(v));
+                DataVariant variant = new DataVariant(plan, table, models.layout(), models.variantKey(v), pool);
                 int[] slots = slotsByVariant[v];
+                describeWork(variant, slots, indices, space, models, pool);
                 AtomicInteger next = new AtomicInteger();
                 List<Future<?>> futures = new ArrayList<>();
                 for (int t = 0; t < threads; t++) {
                     futures.add(pool.submit(() -> {
-                        SpecificationFitter fitter = new SpecificationFitter();
+                        SpecificationFitter fitter = new SpecificationFitter(allowRowFree);
                         long[] c = new long[space.decisionCount()];
                         int from;
                         while ((from = next.getAndAdd(CHUNK)) < slots.length) {
@@ -131,6 +141,36 @@ public final class MultiverseRunner {
             pool.shutdownNow();
         }
         return new RunResult(plan, table, models, results, refits.get(), (System.nanoTime() - start) / 1e9);
+    }
+
+    /**
+     * Tells the variant what it is about to fit (counts of robust-error specifications and their mean
+     * size, from an even sample of at most 512 of its specifications), so that it builds the row-free
+     * sandwich structures only where they pay.
+     */
+    private static void describeWork(DataVariant variant, int[] slots, long[] indices, SpecificationSpace space,
+            SpecificationModels models, ExecutorService pool) {
+        int step = Math.max(1, slots.length / 512);
+        long[] c = new long[space.decisionCount()];
+        int seen = 0;
+        int hc = 0;
+        double columns = 0;
+        java.util.Map<String, Long> clusters = new java.util.HashMap<>();
+        for (int i = 0; i < slots.length; i += step) {
+            space.decode(indices[slots[i]], c);
+            org.forkscape.fit.SpecificationModel m = models.model(c);
+            seen++;
+            columns += m.controlColumns().length + 1;
+            switch (m.errors().kind()) {
+                case HC0, HC1 -> hc++;
+                case CLUSTER -> clusters.merge(m.errors().clusterColumn(), 1L, Long::sum);
+                default -> {
+                }
+            }
+        }
+        double scale = (double) slots.length / seen;
+        clusters.replaceAll((k, count) -> Math.round(count * scale));
+        variant.expect(Math.round(hc * scale), clusters, columns / seen, pool);
     }
 
     private static void checkCancel(AtomicBoolean cancel) {

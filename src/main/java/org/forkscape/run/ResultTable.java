@@ -19,7 +19,7 @@ public final class ResultTable {
     private final double[] stdError;
     private final double[] r2;
     private final double[] rss;
-    private final double[] modelP;
+    private final double[] modelF;
     private final int[] df;
     private final int[] nObs;
     private final int[] nParams;
@@ -39,7 +39,7 @@ public final class ResultTable {
         stdError = new double[size];
         r2 = new double[size];
         rss = new double[size];
-        modelP = new double[size];
+        modelF = new double[size];
         df = new int[size];
         nObs = new int[size];
         nParams = new int[size];
@@ -53,7 +53,7 @@ public final class ResultTable {
         stdError[slot] = fit.stdError();
         r2[slot] = fit.r2();
         rss[slot] = fit.rss();
-        modelP[slot] = fit.modelPValue();
+        modelF[slot] = fit.modelF();
         df[slot] = Double.isNaN(fit.df()) ? -1 : (int) fit.df();
         nObs[slot] = fit.nObs();
         nParams[slot] = fit.nParams();
@@ -119,8 +119,9 @@ public final class ResultTable {
         return 1 - (1 - r2[slot]) * (nObs[slot] - 1.0) / (nObs[slot] - nParams[slot]);
     }
 
+    /** p-value of the overall F test, from the stored statistic on K - 1 and N - K degrees of freedom. */
     public double modelPValue(int slot) {
-        return modelP[slot];
+        return Distributions.fUpperP(modelF[slot], nParams[slot] - 1, nObs[slot] - nParams[slot]);
     }
 
     public String status(int slot) {

@@ -41,7 +41,8 @@ public final class SpecificationsCsv {
         SpecificationSpace space = run.models().space();
         ResultTable r = run.results();
         double confidence = run.plan().confidence();
-        Writer writer = new OutputStreamWriter(stream, StandardCharsets.UTF_8);
+        // a char buffer in front of the encoder: the printer writes cell by cell
+        Writer writer = new java.io.BufferedWriter(new OutputStreamWriter(stream, StandardCharsets.UTF_8), 1 << 16);
         CSVPrinter csv = new CSVPrinter(writer, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get());
         csv.printRecord(header(decisions).stream().map(SpreadsheetSafe::text).toList());
         long[] choices = new long[decisions.size()];

@@ -1,0 +1,373 @@
+package org.forkscape.fit;
+
+/**
+ * Raw moments up to order four of a variant's shifted columns over one set of usable rows, arranged
+ * for the HC0 meat without a pass over rows. With e_i = z_i'a - alpha and u_i = z_i'w - beta (a the
+ * residual's coefficients, w the key row of (X'X)^-1, alpha and beta the specification's mean offsets),
+ * sum e_i^2 u_i^2 expands into contractions of sum z(x)z(x)z(x)z, sum z(x)z(x)z, sum z z', sum z and n.
+ * The fourth-order part is stored as a symmetric matrix over column pairs, Q[(i,j)][(k,l)] = sum
+ * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Only variants without
+ * absorbed fixed effects use it (each level would need its own tensor).
+ */
+final class FourthMoments {
+    final int columns;
+    final int pairs;
+    /** pairIndex[i * columns + j] for any order of i and j. */
+    final int[] pairIndex;
+    /** pairs x pairs. */
+    final double[] q;
+    /** pairs x columns: Q3[(i,j)][k] = sum z_i z_j z_k. */
+    final double[] q3;
+    /** columns x columns: sum z_i z_j. */
+    final double[] s2;
+    final double[] s1;
+    final double n;
+
+    private FourthMoments(int columns) {
+        this.columns = columns;
+        this.pairs = columns * (columns + 1) / 2;
+        pairIndex = new int[columns * columns];
+        int next = 0;
+        for (int i = 0; i < columns; i++) {
+            for (int j = i; j < columns; j++) {
+                pairIndex[i * columns + j] = next;
+                pairIndex[j * columns + i] = next;
+                next++;
+            }
+        }
+        q = new double[pairs * pairs];
+        q3 = new double[pairs * columns];
+        s2 = new double[columns * columns];
+        s1 = new double[columns];
+        n = 0;
+    }
+
+    private FourthMoments(FourthMoments shape, double n) {
+        this.columns = shape.columns;
+        this.pairs = shape.pairs;
+        this.pairIndex = shape.pairIndex;
+        this.q = shape.q;
+        this.q3 = shape.q3;
+        this.s2 = shape.s2;
+        this.s1 = shape.s1;
+        this.n = n;
+    }
+
+    /** Number of distinct fourth-order products per row for P columns, C(P+3, 4): the build cost per row. */
+    static long distinctFourth(int p) {
+        return (long) p * (p + 1) * (p + 2) * (p + 3) / 24;
+    }
+
+    /** Number of distinct third-order products, C(P+2, 3). */
+    static long distinctThird(int p) {
+        return (long) p * (p + 1) * (p + 2) / 6;
+    }
+
+    /** Rows per block of the tensor sums. */
+    static final int BLOCK_ROWS = 2048;
+
+    /**
+     * Per missing-pattern group, the distinct third- and fourth-order sums of the variant's shifted
+     * columns: index 0 holds the fourth order in the order of nested loops i <= j <= k <= l, index 1 the
+     * third order. Rows are taken in fixed blocks per group, each block's sums formed column-wise
+     * (products of columns, then dot products over the block's rows) and added in block order, so the
+     * result is the same whatever the number of threads.
+     */
+    static double[][][] groupTensors(DataVariant v, java.util.concurrent.ExecutorService pool) {
+        int p = v.columns;
+        int groups = v.groupMissing.length;
+        int[][] rowsOf = new int[groups][];
+        int[] count = new int[groups];
+        for (int r = 0; r < v.rows; r++) {
+            count[v.group[r]]++;
+        }
+        for (int g = 0; g < groups; g++) {
+            rowsOf[g] = new int[count[g]];
+            count[g] = 0;
+        }
+        for (int r = 0; r < v.rows; r++) {
+            int g = v.group[r];
+            rowsOf[g][count[g]++] = r;
+        }
+        java.util.List<int[]> tasks = new java.util.ArrayList<>();
+        for (int g = 0; g < groups; g++) {
+            for (int from = 0; from < rowsOf[g].length; from += BLOCK_ROWS) {
+                tasks.add(new int[] {g, from, Math.min(rowsOf[g].length, from + BLOCK_ROWS)});
+            }
+        }
+        double[][][] partial = new double[tasks.size()][][];
+        java.util.function.IntConsumer work = t -> {
+            int[] task = tasks.get(t);
+            partial[t] = block(v, rowsOf[task[0]], task[1], task[2]);
+        };
+        if (pool == null || tasks.size() == 1) {
+            for (int t = 0; t < tasks.size(); t++) {
+                work.accept(t);
+            }
+        } else {
+            java.util.List<java.util.concurrent.Future<?>> futures = new java.util.ArrayList<>();
+            for (int t = 0; t < tasks.size(); t++) {
+                int index = t;
+                futures.add(pool.submit(() -> work.accept(index)));
+            }
+            for (java.util.concurrent.Future<?> f : futures) {
+                try {
+                    f.get();
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    throw new IllegalStateException("interrupted while summing fourth moments", e);
+                } catch (java.util.concurrent.ExecutionException e) {
+                    throw new IllegalStateException(e.getCause());
+                }
+            }
+        }
+        double[][][] out = new double[groups][][];
+        for (int t = 0; t < tasks.size(); t++) {
+            int g = tasks.get(t)[0];
+            if (out[g] == null) {
+                out[g] = partial[t];
+            } else {
+                for (int o = 0; o < 2; o++) {
+                    double[] into = out[g][o];
+                    double[] add = partial[t][o];
+                    for (int k = 0; k < into.length; k++) {
+                        into[k] += add[k];
+                    }
+                }
+            }
+        }
+        for (int g = 0; g < groups; g++) {
+            if (out[g] == null) {
+                out[g] = new double[][] {null, null};
+            }
+        }
+        return out;
+    }
+
+    private static double[][] block(DataVariant v, int[] rows, int from, int to) {
+        int p = v.columns;
+        int b = to - from;
+        double[][] z = new double[p][b];
+        for (int j = 0; j < p; j++) {
+            double[] col = v.shifted[j];
+            double[] zj = z[j];
+            for (int r = 0; r < b; r++) {
+                zj[r] = col[rows[from + r]];
+            }
+        }
+        double[] f4 = new double[(int) distinctFourth(p)];
+        double[] f3 = new double[(int) distinctThird(p)];
+        double[] zij = new double[b];
+        double[] zijk = new double[b];
+        int i4 = 0;
+        int i3 = 0;
+        for (int i = 0; i < p; i++) {
+            double[] zi = z[i];
+            for (int j = i; j < p; j++) {
+                double[] zj = z[j];
+                for (int r = 0; r < b; r++) {
+                    zij[r] = zi[r] * zj[r];
+                }
+                for (int k = j; k < p; k++) {
+                    double[] zk = z[k];
+                    for (int r = 0; r < b; r++) {
+                        zijk[r] = zij[r] * zk[r];
+                    }
+                    f3[i3++] = sum(zijk, b);
+                    int l = k;
+                    for (; l + 3 < p; l += 4) {
+                        dot4(zijk, z[l], z[l + 1], z[l + 2], z[l + 3], b, f4, i4);
+                        i4 += 4;
+                    }
+                    for (; l < p; l++) {
+                        f4[i4++] = dot(zijk, z[l], b);
+                    }
+                }
+            }
+        }
+        return new double[][] {f4, f3};
+    }
+
+    /** Four independent accumulators: the additions pipeline instead of waiting on each other. */
+    private static double dot(double[] x, double[] y, int n) {
+        double s0 = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double s3 = 0;
+        int r = 0;
+        for (; r + 3 < n; r += 4) {
+            s0 += x[r] * y[r];
+            s1 += x[r + 1] * y[r + 1];
+            s2 += x[r + 2] * y[r + 2];
+            s3 += x[r + 3] * y[r + 3];
+        }
+        for (; r < n; r++) {
+            s0 += x[r] * y[r];
+        }
+        return (s0 + s1) + (s2 + s3);
+    }
+
+    /** Four dot products sharing x: one load of x feeds four independent accumulators. */
+    private static void dot4(double[] x, double[] y0, double[] y1, double[] y2, double[] y3, int n, double[] out,
+            int at) {
+        double s0 = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double s3 = 0;
+        for (int r = 0; r < n; r++) {
+            double xr = x[r];
+            s0 += xr * y0[r];
+            s1 += xr * y1[r];
+            s2 += xr * y2[r];
+            s3 += xr * y3[r];
+        }
+        out[at] = s0;
+        out[at + 1] = s1;
+        out[at + 2] = s2;
+        out[at + 3] = s3;
+    }
+
+    private static double sum(double[] x, int n) {
+        double s0 = 0;
+        double s1 = 0;
+        int r = 0;
+        for (; r + 1 < n; r += 2) {
+            s0 += x[r];
+            s1 += x[r + 1];
+        }
+        if (r < n) {
+            s0 += x[r];
+        }
+        return s0 + s1;
+    }
+
+    /** Sums the groups usable in {@code mom} and lays the result out over column pairs. */
+    static FourthMoments of(Moments mom, double[][][] tensors) {
+        DataVariant v = mom.variant;
+        int p = v.columns;
+        FourthMoments m = new FourthMoments(p);
+        double[] f4 = new double[(int) distinctFourth(p)];
+        double[] f3 = new double[(int) distinctThird(p)];
+        int count = 0;
+        for (int g = mom.usableGroups.nextSetBit(0); g >= 0; g = mom.usableGroups.nextSetBit(g + 1)) {
+            if (tensors[g][0] == null) {
+                continue;
+            }
+            for (int k = 0; k < f4.length; k++) {
+                f4[k] += tensors[g][0][k];
+            }
+            for (int k = 0; k < f3.length; k++) {
+                f3[k] += tensors[g][1][k];
+            }
+            count += v.cellCount[g][0];
+            double[] s = v.cellSum[g][0];
+            double[] c = v.cellCross[g][0];
+            for (int j = 0; j < p; j++) {
+                m.s1[j] += s[j];
+            }
+            for (int k = 0; k < c.length; k++) {
+                m.s2[k] += c[k];
+            }
+        }
+        int i4 = 0;
+        int i3 = 0;
+        int[] pi = m.pairIndex;
+        int np = m.pairs;
+        for (int i = 0; i < p; i++) {
+            for (int j = i; j < p; j++) {
+                for (int k = j; k < p; k++) {
+                    double t = f3[i3++];
+                    m.q3[pi[i * p + j] * p + k] = t;
+                    m.q3[pi[i * p + k] * p + j] = t;
+                    m.q3[pi[j * p + k] * p + i] = t;
+                    for (int l = k; l < p; l++) {
+                        double u = f4[i4++];
+                        // the three ways to split {i,j,k,l} into two pairs, both orders
+                        int ij = pi[i * p + j];
+                        int kl = pi[k * p + l];
+                        int ik = pi[i * p + k];
+                        int jl = pi[j * p + l];
+                        int il = pi[i * p + l];
+                        int jk = pi[j * p + k];
+                        m.q[ij * np + kl] = u;
+                        m.q[kl * np + ij] = u;
+                        m.q[ik * np + jl] = u;
+                        m.q[jl * np + ik] = u;
+                        m.q[il * np + jk] = u;
+                        m.q[jk * np + il] = u;
+                    }
+                }
+            }
+        }
+        return new FourthMoments(m, count);
+    }
+
+    /**
+     * sum over the usable rows of (z'a - alpha)^2 (z'w - beta)^2.
+     *
+     * @param aCols columns where a is non-zero, {@code aVal} its values (not modified)
+     * @param wCols columns where w is non-zero, {@code wVal} its values (not modified)
+     */
+    double meat(int[] aCols, double[] aVal, int na, int[] wCols, double[] wVal, int nw, double alpha, double beta,
+            int[] wPairs, double[] wPairCoef) {
+        int p = columns;
+        int np = pairs;
+        int nwp = 0;
+        for (int x = 0; x < nw; x++) {
+            for (int y = x; y < nw; y++) {
+                wPairs[nwp] = pairIndex[wCols[x] * p + wCols[y]];
+                wPairCoef[nwp] = (x == y ? 1 : 2) * wVal[x] * wVal[y];
+                nwp++;
+            }
+        }
+        double s4 = 0;
+        double s3a = 0;
+        double s3b = 0;
+        double s2aa = 0;
+        double s2aw = 0;
+        double s2ww = 0;
+        double s1a = 0;
+        double s1w = 0;
+        for (int x = 0; x < na; x++) {
+            int ax = aCols[x];
+            for (int y = x; y < na; y++) {
+                int pair = pairIndex[ax * p + aCols[y]];
+                double coef = (x == y ? 1 : 2) * aVal[x] * aVal[y];
+                int row = pair * np;
+                double sum = 0;
+                for (int t = 0; t < nwp; t++) {
+                    sum += wPairCoef[t] * q[row + wPairs[t]];
+                }
+                s4 += coef * sum;
+                int row3 = pair * p;
+                double w3 = 0;
+                for (int t = 0; t < nw; t++) {
+                    w3 += wVal[t] * q3[row3 + wCols[t]];
+                }
+                s3a += coef * w3;
+                s2aa += coef * s2[ax * p + aCols[y]];
+            }
+            s1a += aVal[x] * s1[ax];
+            for (int t = 0; t < nw; t++) {
+                s2aw += aVal[x] * wVal[t] * s2[ax * p + wCols[t]];
+            }
+        }
+        for (int t = 0; t < nwp; t++) {
+            int row3 = wPairs[t] * p;
+            double a3 = 0;
+            for (int x = 0; x < na; x++) {
+                a3 += aVal[x] * q3[row3 + aCols[x]];
+            }
+            s3b += wPairCoef[t] * a3;
+        }
+        for (int x = 0; x < nw; x++) {
+            s1w += wVal[x] * s1[wCols[x]];
+            for (int y = 0; y < nw; y++) {
+                s2ww += wVal[x] * wVal[y] * s2[wCols[x] * p + wCols[y]];
+            }
+        }
+        return s4 - 2 * beta * s3a + beta * beta * s2aa - 2 * alpha * s3b + 4 * alpha * beta * s2aw
+                - 2 * alpha * beta * beta * s1a + alpha * alpha * s2ww - 2 * alpha * alpha * beta * s1w
+                + n * alpha * alpha * beta * beta;
+    }
+}

@@ -123,6 +123,24 @@ public final class Moments {
         return n;
     }
 
+    private volatile int[] usableRows;
+
+    /** The variant's rows among these usable rows, in order (cached). */
+    int[] usableRows() {
+        int[] rows = usableRows;
+        if (rows == null) {
+            rows = new int[n];
+            int k = 0;
+            for (int r = 0; r < variant.rows; r++) {
+                if (uses(r)) {
+                    rows[k++] = r;
+                }
+            }
+            usableRows = rows;
+        }
+        return rows;
+    }
+
     /** Whether a row of the variant is among these usable rows. */
     boolean uses(int row) {
         return usableGroups.get(variant.group[row]);

@@ -24,20 +24,25 @@ import org.forkscape.run.RunResult;
 import org.forkscape.run.SpecificationsCsv;
 
 /**
- * {@code bench [--quick] [--out DIR]}: times the engine end to end against the per-specification
- * refit, interleaved (A B A B ...) after a warm-up, on generated data of fixed seed, and prints
- * specifications per second, their ratio (min and max over repetitions), peak heap and the machine.
+ * {@code bench [--quick] [--out DIR]}: times the engine against the per-specification refit,
+ * interleaved (A B A B ...) after a warm-up, on generated data of fixed seed, and prints specifications
+ * per second, their ratio (min and max over repetitions), peak heap and the machine. Each case also goes
+ * to DIR/CASE.json. The engine is timed from the loaded table to the filled result table; writing
+ * specifications.csv is timed apart.
  */
 public final class BenchmarkCommand {
+    private static final long SEED = 20261201L;
+
     private record Case(int rows, int optional, String errors) {
         String name() {
-            return "n" + rows + "-k" + optional + "-" + errors.replace(':', '_');
+            return "n" + rows + "-k" + optional + "-" + errors.replace(":cluster", "");
         }
     }
 
     private final PrintStream out;
     private final Path folder;
     private final boolean quick;
+    private final Map<Integer, Table> tables = new LinkedHashMap<>();
 
     public BenchmarkCommand(PrintStream out, Path folder, boolean quick) {
         this.out = out;
@@ -48,124 +53,230 @@ public final class BenchmarkCommand {
     public void execute() {
         try {
             Files.createDirectories(folder);
-            out.printf("machine: %d cores, Java %s, max heap %d MiB%n", Runtime.getRuntime().availableProcessors(),
-                    System.getProperty("java.version"), Runtime.getRuntime().maxMemory() >> 20);
-            out.printf("%-28s %14s %14s %10s %10s %10s %10s %12s%n", "case", "engine spec/s", "refit spec/s",
-                    "ratio", "min", "max", "heap MiB", "max rel err");
-            List<Case> cases = new ArrayList<>();
-            int[] sizes = quick ? new int[] {1_000, 100_000} : new int[] {1_000, 100_000};
-            int[] pools = quick ? new int[] {10} : new int[] {10, 14};
-            String[] errors = quick ? new String[] {"classical", "HC1"} : new String[] {"classical", "HC1", "cluster:cluster"};
-            for (int n : sizes) {
-                for (int k : pools) {
-                    for (String e : errors) {
-                        cases.add(new Case(n, k, e));
-                    }
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        long start = System.nanoTime();
+        out.printf("Forkscape benchmark (%s) on %d cores, Java %s, max heap %,d MiB%n", quick ? "quick" : "full",
+                Runtime.getRuntime().availableProcessors(), System.getProperty("java.version"),
+                Runtime.getRuntime().maxMemory() >> 20);
+        table(100_000);
+        out.printf("%n%-22s %14s %13s %9s %9s %9s %9s %11s %10s%n", "case", "engine spec/s", "refit spec/s", "ratio",
+                "min", "max", "heap MiB", "max relerr", "csv spec/s");
+        for (Case c : cases()) {
+            engineAgainstRefit(c);
+        }
+        out.println();
+        int k = quick ? 10 : 14;
+        rowPassComparison(new Case(100_000, k, "HC1"));
+        rowPassComparison(new Case(100_000, k, "cluster:cluster"));
+        hc3AgainstBandwidth(new Case(100_000, k, "HC3"));
+        out.printf("%ntotal %.0f s%n", (System.nanoTime() - start) / 1e9);
+    }
+
+    private List<Case> cases() {
+        List<Case> cases = new ArrayList<>();
+        int[] pools = quick ? new int[] {10} : new int[] {10, 14};
+        String[] errors = quick ? new String[] {"classical", "HC1"} : new String[] {"classical", "HC1", "cluster:cluster"};
+        for (int n : new int[] {1_000, 100_000}) {
+            for (int k : pools) {
+                for (String e : errors) {
+                    cases.add(new Case(n, k, e));
                 }
             }
-            Map<Integer, Table> tables = new LinkedHashMap<>();
-            for (Case c : cases) {
-                Table table = tables.computeIfAbsent(c.rows(), this::load);
-                measure(c, table);
-            }
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
         }
+        return cases;
     }
 
-    private Table load(int rows) {
-        try {
-            Path data = folder.resolve("data-" + rows + ".csv");
-            if (!Files.exists(data)) {
-                BenchData.write(data, rows, 20261201L);
+    private Table table(int rows) {
+        return tables.computeIfAbsent(rows, n -> {
+            try {
+                Path data = folder.resolve("data-" + n + ".csv");
+                if (!Files.exists(data)) {
+                    BenchData.write(data, n, SEED);
+                }
+                CsvTableReader reader = new CsvTableReader();
+                reader.read(data);
+                long start = System.nanoTime();
+                Table t = reader.read(data);
+                double seconds = (System.nanoTime() - start) / 1e9;
+                out.printf("loading %,d rows x %d columns from CSV: %.3f s%n", n, t.columns().size(), seconds);
+                Map<String, Object> json = new LinkedHashMap<>();
+                json.put("rows", n);
+                json.put("columns", t.columns().size());
+                json.put("seconds", seconds);
+                write("load-n" + n, json);
+                return t;
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
             }
-            CsvTableReader reader = new CsvTableReader();
-            reader.read(data);
-            long start = System.nanoTime();
-            Table t = reader.read(data);
-            double seconds = (System.nanoTime() - start) / 1e9;
-            out.printf("loading %,d rows x %d columns: %.3f s%n", rows, t.columns().size(), seconds);
-            Map<String, Object> json = new LinkedHashMap<>();
-            json.put("rows", rows);
-            json.put("columns", t.columns().size());
-            json.put("seconds", seconds);
-            Json.write(folder.resolve("load-n" + rows + ".json"), json);
-            return t;
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
+        });
     }
 
-    private void measure(Case c, Table table) throws IOException {
+    private Plan plan(Case c) {
         Path data = folder.resolve("data-" + c.rows() + ".csv");
-        Plan plan = new PlanReader(false).read(BenchData.plan(data.getFileName().toString(), c.optional(), c.errors()),
+        return new PlanReader(false).read(BenchData.plan(data.getFileName().toString(), c.optional(), c.errors()),
                 folder);
+    }
+
+    private void engineAgainstRefit(Case c) {
+        Table table = table(c.rows());
+        Plan plan = plan(c);
         MultiverseRunner runner = new MultiverseRunner();
         RefitBaseline baseline = new RefitBaseline(table);
-        Path csv = folder.resolve("specifications-" + c.name() + ".csv");
         int reps = quick ? 2 : 3;
-        double baselineBudget = quick ? 0.5 : 1.5;
+        double budget = quick ? 0.3 : 1.0;
         resetPeaks();
-        engine(runner, plan, table, csv);
+        runner.run(plan, table, RunProgress.SILENT, null);
         List<Double> engineRates = new ArrayList<>();
-        List<Double> baselineRates = new ArrayList<>();
+        List<Double> refitRates = new ArrayList<>();
         RunResult last = null;
         double maxRelative = 0;
         SplittableRandom pick = new SplittableRandom(7);
+        String refitErrors = c.errors().startsWith("cluster") ? "cluster" : c.errors();
         for (int r = 0; r < reps; r++) {
             long start = System.nanoTime();
-            last = engine(runner, plan, table, csv);
+            last = runner.run(plan, table, RunProgress.SILENT, null);
             engineRates.add(last.results().size() / ((System.nanoTime() - start) / 1e9));
             int fitted = 0;
-            long bStart = System.nanoTime();
-            while (fitted < 2 || (System.nanoTime() - bStart) / 1e9 < baselineBudget) {
+            long refitStart = System.nanoTime();
+            while (fitted < 2 || (System.nanoTime() - refitStart) / 1e9 < budget) {
                 long mask = pick.nextLong(1L << c.optional());
-                double[] ref = baseline.fit(mask, c.optional(), c.errors().startsWith("cluster") ? "cluster"
-                        : c.errors());
+                double[] ref = baseline.fit(mask, c.optional(), refitErrors);
                 int slot = (int) mask;
                 maxRelative = Math.max(maxRelative, relative(last.results().estimate(slot), ref[0],
                         last.results().stdError(slot)));
                 maxRelative = Math.max(maxRelative, relative(last.results().stdError(slot), ref[1], ref[1]));
                 fitted++;
             }
-            baselineRates.add(fitted / ((System.nanoTime() - bStart) / 1e9));
-        }
-        double engineRate = median(engineRates);
-        double baselineRate = median(baselineRates);
-        double minRatio = Double.MAX_VALUE;
-        double maxRatio = 0;
-        for (int r = 0; r < reps; r++) {
-            double ratio = engineRates.get(r) / baselineRates.get(r);
-            minRatio = Math.min(minRatio, ratio);
-            maxRatio = Math.max(maxRatio, ratio);
+            refitRates.add(fitted / ((System.nanoTime() - refitStart) / 1e9));
         }
         long heap = peakHeap() >> 20;
-        out.printf("%-28s %,14.0f %,14.1f %,10.0f %,10.0f %,10.0f %,10d %12.1e%n", c.name(), engineRate, baselineRate,
-                engineRate / baselineRate, minRatio, maxRatio, heap, maxRelative);
+        Path csv = folder.resolve("specifications-" + c.name() + ".csv");
+        long csvStart = System.nanoTime();
+        SpecificationsCsv.write(last, csv);
+        double csvRate = last.results().size() / ((System.nanoTime() - csvStart) / 1e9);
+        double engine = median(engineRates);
+        double refit = median(refitRates);
+        double[] ratio = ratioRange(engineRates, refitRates);
+        out.printf("%-22s %,14.0f %,13.1f %,9.0f %,9.0f %,9.0f %,9d %11.1e %,10.0f%n", c.name(), engine, refit,
+                engine / refit, ratio[0], ratio[1], heap, maxRelative, csvRate);
         Map<String, Object> json = new LinkedHashMap<>();
         json.put("case", c.name());
         json.put("rows", c.rows());
         json.put("specifications", last.results().size());
         json.put("errors", c.errors());
-        json.put("engine_specs_per_second", engineRate);
-        json.put("refit_specs_per_second", baselineRate);
-        json.put("refit_note", "refit timed on a seeded random sample of specifications for about " + baselineBudget
-                + " s per repetition and extrapolated");
-        json.put("ratio", engineRate / baselineRate);
-        json.put("ratio_min", minRatio);
-        json.put("ratio_max", maxRatio);
+        json.put("engine_specs_per_second", engine);
+        json.put("engine_measures", "loaded table to filled result table (variants, cross-products, solves)");
+        json.put("csv_write_specs_per_second", csvRate);
+        json.put("refit_specs_per_second", refit);
+        json.put("refit_note", "Commons Math OLSMultipleLinearRegression per specification, textbook sandwich; timed "
+                + "on a seeded random sample for about " + budget + " s per repetition and extrapolated");
+        json.put("ratio", engine / refit);
+        json.put("ratio_min", ratio[0]);
+        json.put("ratio_max", ratio[1]);
         json.put("peak_heap_mib", heap);
+        json.put("bytes_per_specification", last.results().bytesPerSpecification());
         json.put("max_relative_difference_vs_qr_refit", maxRelative);
         json.put("refit_by_qr", last.refitByQr());
-        json.put("cores", Runtime.getRuntime().availableProcessors());
-        json.put("java", System.getProperty("java.version"));
-        Json.write(folder.resolve(c.name() + ".json"), json);
+        machine(json);
+        write(c.name(), json);
     }
 
-    private static RunResult engine(MultiverseRunner runner, Plan plan, Table table, Path csv) {
+    /** The row-free sandwich routes against the one-row-pass route, on the same specifications. */
+    private void rowPassComparison(Case c) {
+        Table table = table(c.rows());
+        Plan plan = plan(c);
+        int sample = quick ? 64 : 256;
+        Plan sampled = plan.withSample(sample, 3);
+        MultiverseRunner fast = new MultiverseRunner();
+        MultiverseRunner rows = new MultiverseRunner(Runtime.getRuntime().availableProcessors(), false);
+        fast.run(plan, table, RunProgress.SILENT, null);
+        rows.run(sampled, table, RunProgress.SILENT, null);
+        List<Double> fastRates = new ArrayList<>();
+        List<Double> rowRates = new ArrayList<>();
+        int reps = quick ? 1 : 2;
+        double maxRelative = 0;
+        for (int r = 0; r < reps; r++) {
+            long s = System.nanoTime();
+            RunResult all = fast.run(plan, table, RunProgress.SILENT, null);
+            fastRates.add(all.results().size() / ((System.nanoTime() - s) / 1e9));
+            s = System.nanoTime();
+            RunResult part = rows.run(sampled, table, RunProgress.SILENT, null);
+            rowRates.add(part.results().size() / ((System.nanoTime() - s) / 1e9));
+            for (int i = 0; i < part.results().size(); i++) {
+                int slot = (int) part.results().specIndex(i);
+                maxRelative = Math.max(maxRelative, relative(all.results().stdError(slot),
+                        part.results().stdError(i), part.results().stdError(i)));
+            }
+        }
+        double f = median(fastRates);
+        double rr = median(rowRates);
+        out.printf("%s: row-free route %,.0f spec/s, one-row-pass route %,.0f spec/s (sample of %d), ratio %,.0f, "
+                + "max relative difference %.1e%n", c.name(), f, rr, sample, f / rr, maxRelative);
+        Map<String, Object> json = new LinkedHashMap<>();
+        json.put("case", c.name());
+        json.put("row_free_specs_per_second", f);
+        json.put("row_pass_specs_per_second", rr);
+        json.put("row_pass_sample", sample);
+        json.put("ratio", f / rr);
+        json.put("max_relative_difference", maxRelative);
+        machine(json);
+        write(c.name() + "-routes", json);
+    }
+
+    /** HC3 needs the leverages, hence the rows: its pass against the machine's streaming read bound. */
+    private void hc3AgainstBandwidth(Case c) {
+        Table table = table(c.rows());
+        int sample = quick ? 64 : 512;
+        Plan plan = plan(c).withSample(sample, 5);
+        MultiverseRunner runner = new MultiverseRunner(1);
+        runner.run(plan, table, RunProgress.SILENT, null);
+        long s = System.nanoTime();
         RunResult run = runner.run(plan, table, RunProgress.SILENT, null);
-        SpecificationsCsv.write(run, csv);
-        return run;
+        double seconds = (System.nanoTime() - s) / 1e9;
+        double columns = 0;
+        for (int i = 0; i < run.results().size(); i++) {
+            columns += run.results().nParams(i) - 1;
+        }
+        // bytes one pass must read per specification: its columns and the outcome, plus row index and level
+        double bytes = (columns / run.results().size() + 1) * 8.0 * c.rows() + 8.0 * c.rows();
+        double bandwidth = MemoryBandwidth.readBytesPerSecond();
+        double bound = bandwidth / bytes;
+        double rate = run.results().size() / seconds;
+        out.printf("%s (one thread): %,.0f spec/s; streaming-read bound %,.0f spec/s at %.1f GB/s: %.0f%% of it%n",
+                c.name(), rate, bound, bandwidth / 1e9, 100 * rate / bound);
+        Map<String, Object> json = new LinkedHashMap<>();
+        json.put("case", c.name());
+        json.put("threads", 1);
+        json.put("sample", sample);
+        json.put("specs_per_second", rate);
+        json.put("read_bandwidth_bytes_per_second", bandwidth);
+        json.put("bound_specs_per_second", bound);
+        json.put("share_of_bound", rate / bound);
+        machine(json);
+        write(c.name() + "-bandwidth", json);
+    }
+
+    private static double[] ratioRange(List<Double> a, List<Double> b) {
+        double min = Double.MAX_VALUE;
+        double max = 0;
+        for (int r = 0; r < a.size(); r++) {
+            double ratio = a.get(r) / b.get(r);
+            min = Math.min(min, ratio);
+            max = Math.max(max, ratio);
+        }
+        return new double[] {min, max};
+    }
+
+    private static void machine(Map<String, Object> json) {
+        json.put("cores", Runtime.getRuntime().availableProcessors());
+        json.put("java", System.getProperty("java.version"));
+        json.put("date", java.time.LocalDate.now().toString());
+    }
+
+    private void write(String name, Map<String, Object> json) {
+        Json.write(folder.resolve(name + ".json"), json);
     }
 
     /** |a - b| relative to |b|, or to the scale given when b is near zero. */

@@ -274,29 +274,51 @@ public final class DataVariant {
             double[][] sum = new double[cells][];
             double[][] cross = new double[cells][];
             int[] count = new int[cells];
-            double[] row = new double[p];
             int from = b * blockRows;
             int to = Math.min(rows, from + blockRows);
+            // rows of one cell contiguous: a counting sort of the block by cell
+            int[] start = new int[cells + 1];
             for (int i = from; i < to; i++) {
-                int cell = group[i] * levels + level[i];
-                if (sum[cell] == null) {
-                    sum[cell] = new double[p];
-                    cross[cell] = new double[p * p];
+                start[group[i] * levels + level[i] + 1]++;
+            }
+            for (int c = 0; c < cells; c++) {
+                start[c + 1] += start[c];
+            }
+            int[] order = new int[to - from];
+            int[] fill = start.clone();
+            for (int i = from; i < to; i++) {
+                order[fill[group[i] * levels + level[i]]++] = i;
+            }
+            boolean oneCell = start[cells] == start[1] || cells == 1;
+            double[][] z = new double[p][];
+            for (int cell = 0; cell < cells; cell++) {
+                int m = start[cell + 1] - start[cell];
+                if (m == 0) {
+                    continue;
                 }
-                count[cell]++;
-                double[] s = sum[cell];
-                double[] c = cross[cell];
                 for (int j = 0; j < p; j++) {
-                    row[j] = shifted[j][i];
-                    s[j] += row[j];
-                }
-                for (int a = 0; a < p; a++) {
-                    double xa = row[a];
-                    int base = a * p;
-                    for (int k = a; k < p; k++) {
-                        c[base + k] += xa * row[k];
+                    if (oneCell && m == to - from) {
+                        z[j] = java.util.Arrays.copyOfRange(shifted[j], from, to);
+                    } else {
+                        double[] col = shifted[j];
+                        double[] zj = new double[m];
+                        for (int k = 0; k < m; k++) {
+                            zj[k] = col[order[start[cell] + k]];
+                        }
+                        z[j] = zj;
                     }
                 }
+                count[cell] = m;
+                double[] s = new double[p];
+                double[] c = new double[p * p];
+                for (int a = 0; a < p; a++) {
+                    s[a] = Kernels.sum(z[a], m);
+                    for (int k = a; k < p; k++) {
+                        c[a * p + k] = Kernels.dot(z[a], z[k], m);
+                    }
+                }
+                sum[cell] = s;
+                cross[cell] = c;
             }
             partialSum[b] = sum;
             partialCross[b] = cross;

@@ -173,72 +173,19 @@ final class FourthMoments {
                     for (int r = 0; r < b; r++) {
                         zijk[r] = zij[r] * zk[r];
                     }
-                    f3[i3++] = sum(zijk, b);
+                    f3[i3++] = Kernels.sum(zijk, b);
                     int l = k;
                     for (; l + 3 < p; l += 4) {
-                        dot4(zijk, z[l], z[l + 1], z[l + 2], z[l + 3], b, f4, i4);
+                        Kernels.dot4(zijk, z[l], z[l + 1], z[l + 2], z[l + 3], b, f4, i4);
                         i4 += 4;
                     }
                     for (; l < p; l++) {
-                        f4[i4++] = dot(zijk, z[l], b);
+                        f4[i4++] = Kernels.dot(zijk, z[l], b);
                     }
                 }
             }
         }
         return new double[][] {f4, f3};
-    }
-
-    /** Four independent accumulators: the additions pipeline instead of waiting on each other. */
-    private static double dot(double[] x, double[] y, int n) {
-        double s0 = 0;
-        double s1 = 0;
-        double s2 = 0;
-        double s3 = 0;
-        int r = 0;
-        for (; r + 3 < n; r += 4) {
-            s0 += x[r] * y[r];
-            s1 += x[r + 1] * y[r + 1];
-            s2 += x[r + 2] * y[r + 2];
-            s3 += x[r + 3] * y[r + 3];
-        }
-        for (; r < n; r++) {
-            s0 += x[r] * y[r];
-        }
-        return (s0 + s1) + (s2 + s3);
-    }
-
-    /** Four dot products sharing x: one load of x feeds four independent accumulators. */
-    private static void dot4(double[] x, double[] y0, double[] y1, double[] y2, double[] y3, int n, double[] out,
-            int at) {
-        double s0 = 0;
-        double s1 = 0;
-        double s2 = 0;
-        double s3 = 0;
-        for (int r = 0; r < n; r++) {
-            double xr = x[r];
-            s0 += xr * y0[r];
-            s1 += xr * y1[r];
-            s2 += xr * y2[r];
-            s3 += xr * y3[r];
-        }
-        out[at] = s0;
-        out[at + 1] = s1;
-        out[at + 2] = s2;
-        out[at + 3] = s3;
-    }
-
-    private static double sum(double[] x, int n) {
-        double s0 = 0;
-        double s1 = 0;
-        int r = 0;
-        for (; r + 1 < n; r += 2) {
-            s0 += x[r];
-            s1 += x[r + 1];
-        }
-        if (r < n) {
-            s0 += x[r];
-        }
-        return s0 + s1;
     }
 
     /** Sums the groups usable in {@code mom} and lays the result out over column pairs. */

@@ -127,7 +127,10 @@ public final class BenchmarkCommand {
         int reps = quick ? 2 : 3;
         double budget = quick ? 0.3 : 1.0;
         resetPeaks();
-        runner.run(plan, table, RunProgress.SILENT, null);
+        long warm = System.nanoTime();
+        while ((System.nanoTime() - warm) / 1e9 < (quick ? 0.3 : 1.0)) {
+            runner.run(plan, table, RunProgress.SILENT, null);
+        }
         List<Double> engineRates = new ArrayList<>();
         List<Double> refitRates = new ArrayList<>();
         RunResult last = null;

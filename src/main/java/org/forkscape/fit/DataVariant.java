@@ -224,26 +224,44 @@ public final class DataVariant {
         everMissing = any;
 
         levelShift = new double[levels][columns];
-        int[][] shiftCount = new int[levels][columns];
+        shifted = new double[columns][];
+        double[] levelSum = new double[levels];
+        int[] levelN = new int[levels];
         for (int j = 0; j < columns; j++) {
             double[] x = raw[j];
-            for (int i = 0; i < rows; i++) {
-                if (!Double.isNaN(x[i])) {
-                    levelShift[level[i]][j] += x[i];
-                    shiftCount[level[i]][j]++;
+            java.util.Arrays.fill(levelSum, 0);
+            java.util.Arrays.fill(levelN, 0);
+            if (levels == 1) {
+                double sum = 0;
+                int count = 0;
+                for (int i = 0; i < rows; i++) {
+                    double v = x[i];
+                    if (v == v) {
+                        sum += v;
+                        count++;
+                    }
+                }
+                levelSum[0] = sum;
+                levelN[0] = count;
+            } else {
+                for (int i = 0; i < rows; i++) {
+                    double v = x[i];
+                    if (v == v) {
+                        levelSum[level[i]] += v;
+                        levelN[level[i]]++;
+                    }
                 }
             }
             for (int l = 0; l < levels; l++) {
-                levelShift[l][j] = shiftCount[l][j] == 0 ? 0 : levelShift[l][j] / shiftCount[l][j];
+                levelShift[l][j] = levelN[l] == 0 ? 0 : levelSum[l] / levelN[l];
             }
-        }
-        shifted = new double[columns][rows];
-        for (int j = 0; j < columns; j++) {
-            double[] x = raw[j];
-            double[] z = shifted[j];
+            // the raw column is not needed after this: shift it in place
+            double shift0 = levelShift[0][j];
             for (int i = 0; i < rows; i++) {
-                z[i] = Double.isNaN(x[i]) ? 0 : x[i] - levelShift[level[i]][j];
+                double v = x[i];
+                x[i] = v != v ? 0 : v - (levels == 1 ? shift0 : levelShift[level[i]][j]);
             }
+            shifted[j] = x;
         }
         int groups = groupMissing.length;
         cellCount = new int[groups][levels];

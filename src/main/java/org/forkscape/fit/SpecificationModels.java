@@ -1,6 +1,5 @@
 package org.forkscape.fit;
 
-import java.util.ArrayList;
 import java.util.List;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Decision;
@@ -24,6 +23,12 @@ public final class SpecificationModels {
     private final int absorbAt;
     private final long[] sampleRadix;
     private final long variantCount;
+    private final ControlRef[][] requiredRefs;
+    private final ControlRef[][] optionalRefs;
+    private final ControlRef[][][] setRefs;
+    private final ErrorType[] errorTypes;
+    private final long[] errorBits;
+    private final long[] absorbBits;
 
     public SpecificationModels(Plan plan, Table table) {
         this.plan = plan;
@@ -45,6 +50,41 @@ public final class SpecificationModels {
             count *= sampleRadix[s];
         }
         variantCount = count * (absorbAt < 0 ? 1 : ds.get(absorbAt).alternativeCount());
+        requiredRefs = new ControlRef[controlsAt.length][];
+        optionalRefs = new ControlRef[controlsAt.length][];
+        setRefs = new ControlRef[controlsAt.length][][];
+        for (int d = 0; d < controlsAt.length; d++) {
+            Decision.Controls c = (Decision.Controls) ds.get(controlsAt[d]);
+            requiredRefs[d] = refs(c.required());
+            optionalRefs[d] = refs(c.optional());
+            if (!c.allSubsets()) {
+                setRefs[d] = c.sets().values().stream().map(this::refs).toArray(ControlRef[][]::new);
+            }
+        }
+        if (errorsAt >= 0) {
+            List<ErrorType> types = ((Decision.Errors) ds.get(errorsAt)).alternatives();
+            errorTypes = types.toArray(new ErrorType[0]);
+            errorBits = new long[types.size()];
+            for (int e = 0; e < types.size(); e++) {
+                if (types.get(e).kind() == ErrorType.Kind.CLUSTER) {
+                    errorBits[e] = 1L << layout.variable(types.get(e).clusterColumn(), true);
+                }
+            }
+        } else {
+            errorTypes = new ErrorType[0];
+            errorBits = new long[0];
+        }
+        if (absorbAt >= 0) {
+            List<org.forkscape.plan.AbsorbChoice> choices = ((Decision.Absorb) ds.get(absorbAt)).alternatives();
+            absorbBits = new long[choices.size()];
+            for (int a = 0; a < choices.size(); a++) {
+                for (String col : choices.get(a).columns()) {
+                    absorbBits[a] |= 1L << layout.variable(col, true);
+                }
+            }
+        } else {
+            absorbBits = new long[0];
+        }
     }
 
     public ModelColumns layout() {
@@ -94,35 +134,62 @@ public final class SpecificationModels {
         int outcome = (int) choices[outcomeAt];
         int predictor = (int) choices[predictorAt];
         long mask = 1L << layout.outcomeVariable(outcome) | 1L << layout.predictorVariable(predictor);
-        List<Integer> controlCols = new ArrayList<>();
-        for (int at : controlsAt) {
-            Decision.Controls c = (Decision.Controls) plan.decisions().get(at);
-            List<String> names = new ArrayList<>(c.required());
-            names.addAll(c.chosen(choices[at]));
-            for (String name : names) {
-                mask |= 1L << layout.variable(name, true);
-                for (int col : layout.controlColumns(name)) {
-                    if (!controlCols.contains(col)) {
-                        controlCols.add(col);
+        int[] buffer = new int[layout.size()];
+        boolean[] taken = new boolean[layout.size()];
+        int count = 0;
+        for (int d = 0; d < controlsAt.length; d++) {
+            ControlRef[] required = requiredRefs[d];
+            for (ControlRef ref : required) {
+                mask |= ref.bit();
+                count = append(ref.columns(), buffer, taken, count);
+            }
+            long choice = choices[controlsAt[d]];
+            if (setRefs[d] == null) {
+                ControlRef[] optional = optionalRefs[d];
+                for (int j = 0; j < optional.length; j++) {
+                    if ((choice >>> j & 1L) != 0) {
+                        mask |= optional[j].bit();
+                        count = append(optional[j].columns(), buffer, taken, count);
                     }
+                }
+            } else {
+                for (ControlRef ref : setRefs[d][(int) choice]) {
+                    mask |= ref.bit();
+                    count = append(ref.columns(), buffer, taken, count);
                 }
             }
         }
         ErrorType errors = ErrorType.CLASSICAL;
         if (errorsAt >= 0) {
-            errors = ((Decision.Errors) plan.decisions().get(errorsAt)).alternatives().get((int) choices[errorsAt]);
-            if (errors.kind() == ErrorType.Kind.CLUSTER) {
-                mask |= 1L << layout.variable(errors.clusterColumn(), true);
-            }
+            errors = errorTypes[(int) choices[errorsAt]];
+            mask |= errorBits[(int) choices[errorsAt]];
         }
         if (absorbAt >= 0) {
-            for (String col : ((Decision.Absorb) plan.decisions().get(absorbAt)).alternatives()
-                    .get((int) choices[absorbAt]).columns()) {
-                mask |= 1L << layout.variable(col, true);
+            mask |= absorbBits[(int) choices[absorbAt]];
+        }
+        return new SpecificationModel(layout.outcomeColumn(outcome), java.util.Arrays.copyOf(buffer, count),
+                layout.predictorColumn(predictor), mask, errors);
+    }
+
+    private static int append(int[] columns, int[] buffer, boolean[] taken, int count) {
+        for (int col : columns) {
+            if (!taken[col]) {
+                taken[col] = true;
+                buffer[count++] = col;
             }
         }
-        int[] controls = controlCols.stream().mapToInt(Integer::intValue).toArray();
-        return new SpecificationModel(layout.outcomeColumn(outcome), controls, layout.predictorColumn(predictor), mask,
-                errors);
+        return count;
+    }
+
+    /** A control's model columns and its variable's bit, looked up once. */
+    private record ControlRef(int[] columns, long bit) {
+    }
+
+    private ControlRef ref(String name) {
+        return new ControlRef(layout.controlColumns(name), 1L << layout.variable(name, true));
+    }
+
+    private ControlRef[] refs(List<String> names) {
+        return names.stream().map(this::ref).toArray(ControlRef[]::new);
     }
 }

@@ -5,8 +5,13 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import java.util.TreeSet;
 
-/** Parses {@code --name value} options and positional arguments against a fixed set of option names. */
+/**
+ * Parses {@code --name value} and {@code --name=value} options and positional arguments against a fixed
+ * set of option names. An unknown option, an option given twice or one without its value is a
+ * {@link UsageException}.
+ */
 final class Arguments {
     private final List<String> positional = new ArrayList<>();
     private final Map<String, String> options = new HashMap<>();
@@ -14,17 +19,17 @@ final class Arguments {
     Arguments(String[] args, int from, Set<String> known) {
         for (int i = from; i < args.length; i++) {
             String a = args[i];
-            if (a.startsWith("--")) {
-                String name = a.substring(2);
+            if (a.startsWith("-") && a.length() > 1) {
+                String name = a.substring(a.startsWith("--") ? 2 : 1);
                 String value = null;
                 int eq = name.indexOf('=');
                 if (eq >= 0) {
                     value = name.substring(eq + 1);
                     name = name.substring(0, eq);
                 }
-                if (!known.contains(name)) {
-                    throw new UsageException("unknown option --" + name + "; the options are --"
-                            + String.join(", --", new java.util.TreeSet<>(known)));
+                if (!known.contains(name) || !a.startsWith("--")) {
+                    throw new UsageException("unknown option " + a.split("=", 2)[0] + "; the options are --"
+                            + String.join(", --", new TreeSet<>(known)));
                 }
                 if (value == null) {
                     if (i + 1 >= args.length) {
@@ -32,7 +37,12 @@ final class Arguments {
                     }
                     value = args[++i];
                 }
-                options.put(name, value);
+                if (value.isBlank()) {
+                    throw new UsageException("--" + name + " needs a value");
+                }
+                if (options.put(name, value) != null) {
+                    throw new UsageException("--" + name + " is given twice");
+                }
             } else {
                 positional.add(a);
             }
@@ -63,7 +73,8 @@ final class Arguments {
             throw new UsageException("--" + name + " must be a whole number; found \"" + v + "\"");
         }
         if (value < min || value > max) {
-            throw new UsageException("--" + name + " must be between " + min + " and " + max + "; found " + value);
+            throw new UsageException(String.format("--%s must be between %,d and %,d; found %,d", name, min, max,
+                    value));
         }
         return value;
     }

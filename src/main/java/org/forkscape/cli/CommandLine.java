@@ -21,6 +21,10 @@ public final class CommandLine {
     }
 
     public static int execute(String[] args, PrintStream out, PrintStream err) {
+        if (args.length == 0) {
+            err.println("forkscape: no command given; the batch command is run (java -jar forkscape.jar help)");
+            return 2;
+        }
         try {
             switch (args[0]) {
                 case "run" -> RunCommand.execute(args, out, err);
@@ -35,11 +39,15 @@ public final class CommandLine {
             }
             return 0;
         } catch (InputException e) {
-            err.println("forkscape: " + e.getMessage());
+            err.println("forkscape: " + oneLine(e.getMessage()));
             return 2;
         } catch (UncheckedIOException e) {
-            err.println("forkscape: " + e.getMessage());
+            err.println("forkscape: " + oneLine(e.getMessage()));
             return 2;
+        } catch (StackOverflowError e) {
+            err.println("forkscape: internal error (the input nests too deeply for this command); please report it "
+                    + "with the plan that caused it");
+            return 1;
         } catch (OutOfMemoryError e) {
             err.println("forkscape: out of memory; give Java more heap (java -Xmx...) or fit a --sample of the "
                     + "specifications");
@@ -48,10 +56,35 @@ public final class CommandLine {
             if (System.getenv("FORKSCAPE_DEBUG") != null) {
                 e.printStackTrace(err);
             }
-            err.println("forkscape: internal error (" + e.getClass().getSimpleName() + ": " + e.getMessage()
+            err.println("forkscape: internal error (" + e.getClass().getSimpleName() + ": " + oneLine(e.getMessage())
                     + "); please report it with the plan that caused it");
             return 1;
         }
+    }
+
+    /**
+     * The message as one line: a column name, label or expression quoted in a message may hold line
+     * breaks or other control characters, which are shown escaped so the error stays a single line.
+     */
+    static String oneLine(String message) {
+        if (message == null) {
+            return "";
+        }
+        StringBuilder b = new StringBuilder(message.length());
+        message.codePoints().forEach(c -> {
+            if (c == '\n') {
+                b.append("\\n");
+            } else if (c == '\r') {
+                b.append("\\r");
+            } else if (c == '\t') {
+                b.append("\\t");
+            } else if (Character.isISOControl(c) || c == 0x2028 || c == 0x2029) {
+                b.append(String.format("\\u%04x", c));
+            } else {
+                b.appendCodePoint(c);
+            }
+        });
+        return b.toString();
     }
 
     static String usage() {

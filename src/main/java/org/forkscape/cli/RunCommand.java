@@ -1,27 +1,37 @@
 package org.forkscape.cli;
 
-import java.io.IOException;
 import java.io.PrintStream;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
+import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
+import org.forkscape.plan.Decision;
 import org.forkscape.plan.Plan;
-import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
 import org.forkscape.run.RunSummary;
 
-/** {@code run PLAN --out DIR}: fits every specification of a plan and writes the results. */
+/**
+ * {@code run PLAN --out DIR}: fits every specification of a plan and writes the results. Every check
+ * runs before the first file is written, and a run in which no specification could be fitted writes
+ * nothing: the output folder holds either a whole result or what it held before.
+ */
 final class RunCommand {
     static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications");
+    static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
+            + "[--max-specifications N]";
 
     private RunCommand() {
     }
@@ -29,50 +39,52 @@ final class RunCommand {
     static void execute(String[] args, PrintStream out, PrintStream err) {
         Arguments a = new Arguments(args, 1, OPTIONS);
         if (a.positional().size() != 1) {
-            throw new UsageException("usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
-                    + "[--max-specifications N]");
+            throw new UsageException((a.positional().isEmpty() ? "run needs a plan file; " : "run takes one plan file, "
+                    + "found " + a.positional().size() + " (" + String.join(", ", a.positional()) + "); ") + USAGE);
         }
         if (!a.has("out")) {
             throw new UsageException("run needs --out DIR, the folder for specifications.csv and summary.json");
         }
-        Path planFile = Path.of(a.positional().get(0));
-        if (!Files.isRegularFile(planFile)) {
-            throw new UsageException("no plan file at " + planFile);
+        Path folder = path(a.text("out"), "--out");
+        if (Files.exists(folder) && !Files.isDirectory(folder)) {
+            throw new UsageException("--out " + folder + " is a file; give a folder for the results");
         }
-        String planText;
-        try {
-            planText = Files.readString(planFile, StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            throw new UsageException("cannot read " + planFile + ": " + e.getMessage());
-        }
-        String planName = planFile.getFileName().toString();
+        int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
+        Long sample = a.has("sample") ? a.whole("sample", 0, 1, Integer.MAX_VALUE) : null;
+        Long seed = a.has("seed") ? a.whole("seed", 0, Long.MIN_VALUE, Long.MAX_VALUE) : null;
+        Long cap = a.has("max-specifications") ? a.whole("max-specifications", 0, 1, Long.MAX_VALUE) : null;
+
+        Path planFile = path(a.positional().get(0), "the plan file");
+        String planName = planFile.getFileName() == null ? planFile.toString() : planFile.getFileName().toString();
+        String planText = PlanReader.readText(planFile);
         Plan plan;
         try {
             plan = new PlanReader(false).read(planText, planFile.toAbsolutePath().getParent());
-        } catch (PlanException e) {
+        } catch (InputException e) {
             throw located(planName, e);
         }
-        plan = options(plan, a);
+        if (sample != null || seed != null) {
+            plan = plan.withSample(sample != null ? sample : plan.sampleSize(), seed != null ? seed : plan.seed());
+        }
+        if (cap != null) {
+            plan = plan.withMaxSpecifications(cap);
+        }
         Table table = new CsvTableReader().read(plan.dataFile());
-        int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
         RunResult run;
         try {
             run = new MultiverseRunner(threads).run(plan, table, progress, null);
-        } catch (PlanException e) {
-            throw located(planName, e);
         } catch (InputException e) {
             throw located(planName, e);
-        }
-        if (progress instanceof TerminalProgress t) {
-            t.finish();
+        } finally {
+            if (progress instanceof TerminalProgress t) {
+                t.finish();
+            }
         }
         RunSummary summary = RunSummary.of(run.results(), plan.alpha());
         if (summary.fitted() == 0) {
-            throw new InputException(planName, "no specification could be fitted; the first reason: "
-                    + run.results().status(0) + " (nothing was written)");
+            throw new InputException(planName, noneFitted(run));
         }
-        Path folder = Path.of(a.text("out"));
         RunOutputs.write(run, folder, planText, Map.of());
         out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
                         + "%.0f%% negative; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
@@ -80,16 +92,40 @@ final class RunCommand {
                 100 * summary.shareSignificantNegative(), folder);
     }
 
-    private static Plan options(Plan plan, Arguments a) {
-        Plan p = plan;
-        if (a.has("sample") || a.has("seed")) {
-            p = p.withSample(a.whole("sample", p.sampleSize(), 1, Integer.MAX_VALUE), a.whole("seed", p.seed(),
-                    Long.MIN_VALUE, Long.MAX_VALUE));
+    /**
+     * Why nothing came out: the most common reason among the specifications, how many it stopped, and the
+     * choices of the first of them, so the message points at the decision to revisit.
+     */
+    static String noneFitted(RunResult run) {
+        ResultTable results = run.results();
+        Map<String, Integer> count = new LinkedHashMap<>();
+        Map<String, Integer> firstSlot = new LinkedHashMap<>();
+        for (int slot = 0; slot < results.size(); slot++) {
+            count.merge(results.status(slot), 1, Integer::sum);
+            firstSlot.putIfAbsent(results.status(slot), slot);
         }
-        if (a.has("max-specifications")) {
-            p = p.withMaxSpecifications(a.whole("max-specifications", p.maxSpecifications(), 1, Long.MAX_VALUE));
+        Map.Entry<String, Integer> top = count.entrySet().stream().max(Map.Entry.comparingByValue()).orElseThrow();
+        String share = results.size() == 1 ? "the only specification failed"
+                : top.getValue() == results.size() ? String.format("all %,d failed", results.size())
+                : String.format("%,d of %,d failed", top.getValue(), results.size());
+        SpecificationSpace space = run.models().space();
+        long[] choices = new long[space.decisionCount()];
+        space.decode(results.specIndex(firstSlot.get(top.getKey())), choices);
+        List<String> chosen = new ArrayList<>();
+        for (int d = 0; d < choices.length; d++) {
+            Decision decision = space.decisions().get(d);
+            chosen.add(decision.name() + " = " + decision.label(choices[d]));
         }
-        return p;
+        return "no specification could be fitted: " + share + " with \"" + top.getKey() + "\" (first: "
+                + String.join(", ", chosen) + "); nothing was written";
+    }
+
+    private static Path path(String text, String what) {
+        try {
+            return Path.of(text);
+        } catch (InvalidPathException e) {
+            throw new UsageException(what + " \"" + text + "\" is not a usable path");
+        }
     }
 
     private static InputException located(String planName, InputException e) {

@@ -25,6 +25,17 @@ public record CategoricalColumn(String name, int[] codes, List<String> levels) i
         return codes[row] < 0;
     }
 
+    /**
+     * The levels that are not decimal numbers, when they are few beside many numeric ones: the cells
+     * that made a column of numbers categorical (a stray {@code N/A}, a unit written after a value).
+     * Empty when the column is plainly text.
+     */
+    public List<String> strayTextLevels() {
+        List<String> text = levels.stream().filter(l -> !NumberSyntax.isDecimal(l)).toList();
+        boolean mostlyNumbers = levels.size() - text.size() >= 2 * text.size();
+        return mostlyNumbers && text.size() <= 5 ? text : List.of();
+    }
+
     /** Counts of each level, in level order. */
     public int[] levelCounts() {
         int[] counts = new int[levels.size()];

@@ -3,39 +3,46 @@ package org.forkscape.data;
 import java.io.BufferedInputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.InputStreamReader;
-import java.io.Reader;
 import java.io.UncheckedIOException;
-import java.nio.charset.CharacterCodingException;
-import java.nio.charset.CharsetDecoder;
-import java.nio.charset.CodingErrorAction;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.HashMap;
-import java.util.HashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import java.util.TreeSet;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
 
 /**
- * Reads a comma-separated file (RFC 4180, UTF-8, optional byte-order mark) into a {@link Table}.
+ * Reads a comma-separated file (RFC 4180: Shafranovich 2005, "Common Format and MIME Type for
+ * Comma-Separated Values (CSV) Files"; UTF-8, optional byte-order mark) into a {@link Table}.
  *
- * <p>A column whose non-missing cells all look like decimal numbers is numeric; any other column is
- * categorical. Missing cells are the empty string, {@code NA}, {@code NaN} and {@code .}, after surrounding
- * spaces are removed. Every problem becomes a {@link DataException} naming the file and line.
+ * <p>Surrounding spaces are removed from every cell and column name, quoted or not. A column whose
+ * non-missing cells all look like decimal numbers (see {@link NumberSyntax}) is numeric; any other column
+ * is categorical, its levels sorted. Missing cells are the empty string, {@code NA}, {@code NaN} and
+ * {@code .}. Empty lines and lines holding only spaces are skipped. Every problem becomes a
+ * {@link DataException} naming the file and, where it applies, the line and column.
  */
 public final class CsvTableReader {
+    /** The spellings of a missing cell, for messages. */
+    public static final String MISSING_SPELLINGS = "an empty cell, NA, NaN or .";
     private static final Set<String> MISSING = Set.of("", "NA", "NaN", ".");
     private static final CSVFormat FORMAT = CSVFormat.RFC4180.builder()
             .setIgnoreSurroundingSpaces(true)
             .setIgnoreEmptyLines(true)
             .get();
+    private static final Pattern UNCLOSED_QUOTE = Pattern.compile(
+            "\\(startline (\\d+)\\) EOF reached before encapsulated token finished");
+    private static final Pattern TEXT_AFTER_QUOTE = Pattern.compile(
+            "Invalid character between encapsulated token and delimiter at line: (\\d+)");
+    /** Bytes inspected for NUL, the mark of a binary file (a spreadsheet, an archive, an image). */
+    private static final int BINARY_PROBE = 8192;
 
     private final CsvLimits limits;
 
@@ -62,42 +69,18 @@ public final class CsvTableReader {
     /** Reads from a stream; {@code source} names the file in messages. The stream is not closed. */
     public Table read(InputStream input, String source) {
         BufferedInputStream in = new BufferedInputStream(input, 1 << 16);
-        rejectBinary(in, source);
-        CharsetDecoder decoder = StandardCharsets.UTF_8.newDecoder()
-                .onMalformedInput(CodingErrorAction.REPORT)
-                .onUnmappableCharacter(CodingErrorAction.REPORT);
-        Reader reader = new InputStreamReader(in, decoder);
-        List<String> header = null;
-        List<String[]> cells = null;
-        long lastLine = 1;
-        try (CSVParser parser = CSVParser.builder().setReader(reader).setFormat(FORMAT).get()) {
+        int skipped = skipByteOrderMarkRejectingBinary(in, source);
+        Cells cells = null;
+        long lastLine = 0;
+        try (CSVParser parser = CSVParser.builder().setReader(new StrictUtf8Reader(in, skipped)).setFormat(FORMAT).get()) {
             for (CSVRecord record : parser) {
                 long line = parser.getCurrentLineNumber();
-                if (header == null) {
-                    header = readHeader(record, source);
-                    cells = new ArrayList<>(header.size());
-                    for (int j = 0; j < header.size(); j++) {
-                        cells.add(new String[1024]);
+                if (cells == null) {
+                    if (!isBlankLine(record)) {
+                        cells = new Cells(readHeader(record, line, source));
                     }
-                    lastLine = line;
-                    continue;
-                }
-                if (record.size() != header.size()) {
-                    throw new DataException(source + ", line " + line, "expected " + header.size()
-                            + " fields as in the header, found " + record.size());
-                }
-                int row = (int) record.getRecordNumber() - 2;
-                if ((long) (row + 1) * header.size() > limits.maxCells()) {
-                    throw new DataException(source, "has more than " + limits.maxCells()
-                            + " cells (rows times columns), the limit of this server");
-                }
-                for (int j = 0; j < header.size(); j++) {
-                    String[] column = cells.get(j);
-                    if (row == column.length) {
-                        column = java.util.Arrays.copyOf(column, column.length * 2);
-                        cells.set(j, column);
-                    }
-                    column[row] = record.get(j);
+                } else if (!(cells.width() > 1 && isBlankLine(record))) {
+                    cells.add(record, line, source, limits);
                 }
                 lastLine = line;
             }
@@ -108,110 +91,189 @@ public final class CsvTableReader {
         } catch (IllegalStateException e) {
             throw new DataException(source + ", after line " + lastLine, "is not valid CSV: " + e.getMessage());
         }
-        if (header == null) {
+        if (cells == null) {
             throw new DataException(source, "is empty: a header line and at least one data row are needed");
         }
-        int rows = 0;
-        // the record count is implied by the first column's filled prefix
-        String[] first = cells.get(0);
-        while (rows < first.length && first[rows] != null) {
-            rows++;
-        }
-        if (rows == 0) {
+        if (cells.rows == 0) {
             throw new DataException(source, "has a header but no data rows");
         }
-        List<Column> columns = new ArrayList<>(header.size());
-        for (int j = 0; j < header.size(); j++) {
-            columns.add(toColumn(header.get(j), cells.get(j), rows));
-            cells.set(j, null);
-        }
-        return new Table(source, columns);
+        return cells.toTable(source);
     }
 
-    private List<String> readHeader(CSVRecord record, String source) {
+    /** A line holding nothing but spaces reads as one empty field. */
+    private static boolean isBlankLine(CSVRecord record) {
+        return record.size() == 1 && record.get(0).isBlank();
+    }
+
+    private List<String> readHeader(CSVRecord record, long line, String source) {
+        String where = source + ", line " + line;
         if (record.size() > limits.maxColumns()) {
-            throw new DataException(source + ", line 1", "has " + record.size() + " columns; this server accepts at most "
-                    + limits.maxColumns());
+            throw new DataException(where, String.format("the header has %,d columns; at most %,d are accepted",
+                    record.size(), limits.maxColumns()));
         }
         List<String> names = new ArrayList<>(record.size());
-        Set<String> seen = new HashSet<>();
+        Map<String, Integer> seen = new HashMap<>();
         for (int j = 0; j < record.size(); j++) {
-            String name = record.get(j);
-            if (j == 0 && !name.isEmpty() && name.charAt(0) == '\uFEFF') {
-                name = name.substring(1).strip();
-            }
+            String name = record.get(j).strip();
             if (name.isEmpty()) {
-                throw new DataException(source + ", line 1", "column " + (j + 1) + " has an empty name");
+                String hint = j == record.size() - 1 && j > 0 ? " (does the header end with a comma?)" : "";
+                throw new DataException(where, "column " + (j + 1) + " of the header has an empty name" + hint);
             }
-            if (!seen.add(name)) {
-                throw new DataException(source + ", line 1", "the column name \"" + name + "\" appears twice");
+            Integer earlier = seen.putIfAbsent(name, j);
+            if (earlier != null) {
+                throw new DataException(where, "the column name \"" + name + "\" appears twice (columns "
+                        + (earlier + 1) + " and " + (j + 1) + "); column names must be unique");
             }
             names.add(name);
         }
         return names;
     }
 
-    private static void rejectBinary(BufferedInputStream in, String source) {
+    /**
+     * Skips a UTF-8 byte-order mark (EF BB BF) and refuses a file with NUL bytes near its start.
+     *
+     * @return the number of bytes skipped
+     */
+    private static int skipByteOrderMarkRejectingBinary(BufferedInputStream in, String source) {
         try {
-            in.mark(8192);
-            byte[] head = in.readNBytes(8192);
+            in.mark(BINARY_PROBE);
+            byte[] head = in.readNBytes(BINARY_PROBE);
             in.reset();
             for (byte b : head) {
                 if (b == 0) {
-                    throw new DataException(source, "looks like a binary file (it contains NUL bytes), not CSV text");
+                    throw new DataException(source, "looks like a binary file (it contains NUL bytes), not CSV "
+                            + "text; export the data as CSV in UTF-8");
                 }
             }
+            if (head.length >= 3 && (head[0] & 0xFF) == 0xEF && (head[1] & 0xFF) == 0xBB && (head[2] & 0xFF) == 0xBF) {
+                in.skipNBytes(3);
+                return 3;
+            }
+            return 0;
         } catch (IOException e) {
             throw new DataException(source, "cannot be read: " + e.getMessage());
         }
     }
 
     private static DataException translate(Throwable e, String source, long lastLine) {
-        if (e instanceof CharacterCodingException) {
-            return new DataException(source + ", after line " + lastLine, "is not UTF-8 text (invalid byte sequence)");
+        if (e instanceof StrictUtf8Reader.InvalidUtf8Exception bad) {
+            String value = bad.firstByte < 0 ? "the file ends inside a multi-byte character"
+                    : String.format("the byte 0x%02X (byte %,d of the file) does not belong to a UTF-8 character",
+                            bad.firstByte, bad.byteOffset + 1);
+            return new DataException(source + ", line " + bad.line, "is not UTF-8 text: " + value
+                    + "; save the file as UTF-8 (files in Latin-1 or Windows-1252 need converting)");
         }
         String message = e == null ? "unreadable" : String.valueOf(e.getMessage());
-        if (message.contains("EOF reached before encapsulated token finished")) {
-            return new DataException(source + ", after line " + lastLine, "has a quote that is never closed");
+        Matcher unclosed = UNCLOSED_QUOTE.matcher(message);
+        if (unclosed.find()) {
+            return new DataException(source + ", line " + unclosed.group(1),
+                    "a quoted field starts here and its closing quote never comes");
         }
-        if (message.contains("invalid char between encapsulated token and delimiter")) {
-            return new DataException(source + ", after line " + lastLine,
-                    "has a quoted field followed by other characters before the next comma");
+        Matcher afterQuote = TEXT_AFTER_QUOTE.matcher(message);
+        if (afterQuote.find()) {
+            return new DataException(source + ", line " + afterQuote.group(1), "a quoted field is followed by other "
+                    + "characters before the next comma; a quote inside a quoted field is written twice (\"\")");
         }
         return new DataException(source + ", after line " + lastLine, "is not valid CSV: " + message);
     }
 
-    private static Column toColumn(String name, String[] raw, int rows) {
-        double[] values = new double[rows];
-        boolean numeric = true;
-        for (int i = 0; i < rows; i++) {
-            String cell = raw[i];
-            if (MISSING.contains(cell)) {
-                values[i] = Double.NaN;
-            } else if (numeric && NumberSyntax.isDecimal(cell) && Double.isFinite(Double.parseDouble(cell))) {
-                values[i] = Double.parseDouble(cell);
-            } else {
-                numeric = false;
+    /** The cells read so far, column by column, with the line each row ended on for messages. */
+    private static final class Cells {
+        private final List<String> header;
+        private final String[][] columns;
+        private int[] lineOfRow = new int[16];
+        private int rows;
+
+        Cells(List<String> header) {
+            this.header = header;
+            this.columns = new String[header.size()][16];
+        }
+
+        int width() {
+            return header.size();
+        }
+
+        void add(CSVRecord record, long line, String source, CsvLimits limits) {
+            if (record.size() != header.size()) {
+                String hint = record.size() > header.size()
+                        ? " (a value holding a comma must be put in double quotes)" : "";
+                throw new DataException(source + ", line " + line, "expected " + header.size()
+                        + " fields as in the header, found " + record.size() + hint);
             }
-        }
-        if (numeric) {
-            return new NumericColumn(name, values);
-        }
-        TreeSet<String> distinct = new TreeSet<>();
-        for (int i = 0; i < rows; i++) {
-            if (!MISSING.contains(raw[i])) {
-                distinct.add(raw[i]);
+            if ((long) (rows + 1) * header.size() > limits.maxCells()) {
+                throw new DataException(source, String.format("has more than %,d cells (rows times columns), the "
+                        + "limit of this server", limits.maxCells()));
             }
+            if (rows == lineOfRow.length) {
+                int grown = rows * 2;
+                lineOfRow = Arrays.copyOf(lineOfRow, grown);
+                for (int j = 0; j < columns.length; j++) {
+                    columns[j] = Arrays.copyOf(columns[j], grown);
+                }
+            }
+            for (int j = 0; j < columns.length; j++) {
+                columns[j][rows] = record.get(j).strip();
+            }
+            lineOfRow[rows] = (int) Math.min(line, Integer.MAX_VALUE);
+            rows++;
         }
-        List<String> levels = new ArrayList<>(distinct);
-        Map<String, Integer> code = new HashMap<>();
-        for (int k = 0; k < levels.size(); k++) {
-            code.put(levels.get(k), k);
+
+        Table toTable(String source) {
+            List<Column> out = new ArrayList<>(columns.length);
+            for (int j = 0; j < columns.length; j++) {
+                out.add(toColumn(j, source));
+                columns[j] = null;
+            }
+            return new Table(source, out);
         }
-        int[] codes = new int[rows];
-        for (int i = 0; i < rows; i++) {
-            codes[i] = MISSING.contains(raw[i]) ? -1 : code.get(raw[i]);
+
+        private Column toColumn(int j, String source) {
+            String name = header.get(j);
+            String[] raw = columns[j];
+            double[] values = new double[rows];
+            boolean numeric = true;
+            int tooLarge = -1;
+            for (int i = 0; i < rows && numeric; i++) {
+                String cell = raw[i];
+                if (MISSING.contains(cell)) {
+                    values[i] = Double.NaN;
+                } else if (NumberSyntax.isDecimal(cell)) {
+                    values[i] = Double.parseDouble(cell);
+                    if (Double.isInfinite(values[i]) && tooLarge < 0) {
+                        tooLarge = i;
+                    }
+                } else {
+                    numeric = false;
+                }
+            }
+            if (numeric) {
+                if (tooLarge >= 0) {
+                    throw new DataException(source + ", line " + lineOfRow[tooLarge], "the value "
+                            + abbreviate(raw[tooLarge]) + " in column \"" + name + "\" is too large for a number "
+                            + "(the limit is about 1.8e308)");
+                }
+                return new NumericColumn(name, values);
+            }
+            TreeSet<String> distinct = new TreeSet<>();
+            for (int i = 0; i < rows; i++) {
+                if (!MISSING.contains(raw[i])) {
+                    distinct.add(raw[i]);
+                }
+            }
+            List<String> levels = new ArrayList<>(distinct);
+            Map<String, Integer> code = new HashMap<>();
+            for (int k = 0; k < levels.size(); k++) {
+                code.put(levels.get(k), k);
+            }
+            int[] codes = new int[rows];
+            for (int i = 0; i < rows; i++) {
+                codes[i] = MISSING.contains(raw[i]) ? -1 : code.get(raw[i]);
+            }
+            return new CategoricalColumn(name, codes, levels);
         }
-        return new CategoricalColumn(name, codes, levels);
+
+        private static String abbreviate(String cell) {
+            return cell.length() <= 40 ? cell : cell.substring(0, 20) + "..." + cell.substring(cell.length() - 10);
+        }
     }
 }

@@ -22,7 +22,7 @@ public record ErrorType(Kind kind, String clusterColumn) {
 
     static ErrorType parse(String text, String path) {
         String t = text.trim();
-        if (t.equals("classical")) {
+        if (t.equalsIgnoreCase("classical")) {
             return CLASSICAL;
         }
         for (Kind k : new Kind[] {Kind.HC0, Kind.HC1, Kind.HC2, Kind.HC3}) {
@@ -30,8 +30,11 @@ public record ErrorType(Kind kind, String clusterColumn) {
                 return new ErrorType(k, null);
             }
         }
-        if (t.startsWith("cluster:") && t.length() > "cluster:".length()) {
+        if (t.startsWith("cluster:") && !t.substring("cluster:".length()).isBlank()) {
             return new ErrorType(Kind.CLUSTER, t.substring("cluster:".length()).trim());
+        }
+        if (t.equals("cluster") || t.equals("cluster:")) {
+            throw new PlanException(path, "cluster errors name their column, as in cluster:school");
         }
         throw new PlanException(path, "unknown standard error type \"" + text
                 + "\"; use classical, HC0, HC1, HC2, HC3 or cluster:COLUMN");

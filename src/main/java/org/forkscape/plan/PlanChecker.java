@@ -4,10 +4,15 @@ import java.util.List;
 import java.util.Optional;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
+import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
 
-/** Checks a plan against its data: every named column exists and has a type its role allows. */
+/**
+ * Checks a plan against its data: every named column exists (with the nearest name suggested when it
+ * does not) and has a type its role allows. Each problem is a {@link PlanException} at the JSON path of
+ * the field that names the column.
+ */
 public final class PlanChecker {
     private PlanChecker() {
     }
@@ -21,6 +26,7 @@ public final class PlanChecker {
                 variables(o.alternatives(), path, table, "outcome");
             } else if (d instanceof Decision.Predictor p) {
                 variables(p.alternatives(), path, table, "key predictor");
+                notAlsoOutcome(p, path, plan);
             } else if (d instanceof Decision.Controls c) {
                 controls(c, path, table, plan);
             } else if (d instanceof Decision.Sample s) {
@@ -46,6 +52,19 @@ public final class PlanChecker {
         }
     }
 
+    /**
+     * Why a column that looks like numbers reads as text: {@code ""} for a plain text column, otherwise
+     * a clause naming the few cells that are not numbers.
+     */
+    static String whyText(Column c) {
+        if (!(c instanceof CategoricalColumn cat) || cat.strayTextLevels().isEmpty()) {
+            return "";
+        }
+        return "; it reads as text because of the value" + (cat.strayTextLevels().size() == 1 ? " " : "s ")
+                + String.join(", ", cat.strayTextLevels().stream().map(l -> "\"" + l + "\"").toList())
+                + " (a missing cell is written as " + CsvTableReader.MISSING_SPELLINGS + ")";
+    }
+
     private static void variables(List<VariableChoice> alts, String path, Table table, String role) {
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "].column";
@@ -53,12 +72,24 @@ public final class PlanChecker {
             if (c instanceof CategoricalColumn cat) {
                 if (cat.levels().size() != 2) {
                     throw new PlanException(p, "\"" + c.name() + "\" is categorical with " + cat.levels().size()
-                            + " levels; a categorical " + role + " needs exactly two levels (coded 0 and 1)");
+                            + " level" + (cat.levels().size() == 1 ? "" : "s") + "; a categorical " + role
+                            + " needs exactly two levels (the first in sorted order is coded 0, the other 1)"
+                            + whyText(c));
                 }
                 if (!(alts.get(j).transform() instanceof Transform.Identity)) {
                     throw new PlanException(path + ".alternatives[" + j + "].transform",
                             "\"" + c.name() + "\" is categorical; transforms apply to numeric columns only");
                 }
+            }
+        }
+    }
+
+    private static void notAlsoOutcome(Decision.Predictor p, String path, Plan plan) {
+        for (int j = 0; j < p.alternatives().size(); j++) {
+            String column = p.alternatives().get(j).column();
+            if (plan.outcome().alternatives().stream().anyMatch(v -> v.column().equals(column))) {
+                throw new PlanException(path + ".alternatives[" + j + "].column", "\"" + column + "\" is also an "
+                        + "alternative of the outcome; a column cannot be both the outcome and the key predictor");
             }
         }
     }
@@ -94,7 +125,7 @@ public final class PlanChecker {
                 Column c = existing(t.column(), p + ".trim.column", table);
                 if (!(c instanceof NumericColumn)) {
                     throw new PlanException(p + ".trim.column", "\"" + c.name()
-                            + "\" is categorical; a z-score trim needs a numeric column");
+                            + "\" is categorical; a z-score trim needs a numeric column" + whyText(c));
                 }
             }
         }

@@ -1,33 +1,56 @@
 package org.forkscape.plan;
 
 import java.io.IOException;
+import java.nio.ByteBuffer;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.CodingErrorAction;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
+import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Collection;
 import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
+import org.forkscape.data.Table;
 import tools.jackson.core.JacksonException;
+import tools.jackson.core.StreamReadFeature;
 import tools.jackson.core.TokenStreamLocation;
 import tools.jackson.databind.JsonNode;
 import tools.jackson.databind.json.JsonMapper;
 
 /**
  * Reads a plan file and checks its structure: every problem is a {@link PlanException} whose location is
- * the JSON path of the field (for example {@code decisions[2].alternatives[0].column}). Checks that need
- * the data (column names and types) are {@link PlanChecker}'s.
+ * the JSON path of the field (for example {@code decisions[2].alternatives[0].column}), or the line and
+ * column when the text is not JSON at all. Checks that need the data (column names and types) are
+ * {@link PlanChecker}'s.
  */
 public final class PlanReader {
-    private static final JsonMapper JSON = JsonMapper.builder().build();
+    /** A key written twice is refused: JSON parsers differ on which copy wins, so the plan would be ambiguous. */
+    private static final JsonMapper JSON = JsonMapper.builder()
+            .enable(StreamReadFeature.STRICT_DUPLICATE_DETECTION)
+            .build();
     private static final Set<String> TOP_KEYS = Set.of("title", "description", "data", "confidence", "missing",
             "decisions", "sample", "seed", "maxSpecifications", "nullDraws", "nullMethod", "nullCluster");
     private static final List<String> KINDS = List.of("outcome", "predictor", "controls", "sample", "errors", "absorb");
+    private static final Map<String, List<String>> DECISION_KEYS = Map.of(
+            "outcome", List.of("name", "kind", "alternatives"),
+            "predictor", List.of("name", "kind", "alternatives"),
+            "controls", List.of("name", "kind", "required", "optional", "combine", "sets"),
+            "sample", List.of("name", "kind", "alternatives"),
+            "errors", List.of("name", "kind", "alternatives"),
+            "absorb", List.of("name", "kind", "alternatives"));
     /** Output columns of specifications.csv that a decision name must not shadow. */
     public static final Set<String> RESERVED_NAMES = Set.of("spec", "estimate", "std_error", "statistic", "df",
             "p_value", "ci_low", "ci_high", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+    /** Optional controls in one all-subsets decision: 2^40 subsets is beyond any specification cap already. */
+    static final int MAX_OPTIONAL_CONTROLS = 40;
+    /** More null draws than this is a typing error, not an analysis. */
+    static final int MAX_NULL_DRAWS = 1_000_000;
 
     private final boolean confineDataToPlanFolder;
 
@@ -40,38 +63,54 @@ public final class PlanReader {
     }
 
     public Plan read(Path planFile) {
+        return read(readText(planFile), planFile.toAbsolutePath().getParent());
+    }
+
+    /**
+     * The text of a plan file, without a leading byte-order mark. A missing or unreadable file, or one
+     * that is not UTF-8, is a {@link PlanException} whose message names the file.
+     */
+    public static String readText(Path planFile) {
+        if (!Files.isRegularFile(planFile)) {
+            throw new PlanException("", "no plan file at " + planFile);
+        }
         String text;
         try {
-            text = Files.readString(planFile, StandardCharsets.UTF_8);
+            byte[] bytes = Files.readAllBytes(planFile);
+            text = StandardCharsets.UTF_8.newDecoder()
+                    .onMalformedInput(CodingErrorAction.REPORT)
+                    .onUnmappableCharacter(CodingErrorAction.REPORT)
+                    .decode(ByteBuffer.wrap(bytes))
+                    .toString();
+        } catch (CharacterCodingException e) {
+            throw new PlanException("", "the plan file " + planFile + " is not UTF-8 text; save it as UTF-8");
         } catch (IOException e) {
             throw new PlanException("", "cannot read the plan file " + planFile + ": " + e.getMessage());
         }
-        Path folder = planFile.toAbsolutePath().getParent();
-        return read(text, folder);
+        return withoutByteOrderMark(text);
     }
 
     /** Reads plan JSON whose relative {@code data} path is resolved against {@code folder}. */
     public Plan read(String json, Path folder) {
         JsonNode root;
         try {
-            root = JSON.readTree(json);
+            root = JSON.readTree(withoutByteOrderMark(json));
         } catch (JacksonException e) {
             TokenStreamLocation at = e.getLocation();
-            String where = at == null ? "" : "line " + at.getLineNr() + ", column " + at.getColumnNr();
-            String why = e.getOriginalMessage();
-            if (why != null && why.toLowerCase().contains("nesting depth")) {
-                why = "the JSON nests too deeply";
-            }
-            throw new PlanException(where, "is not valid JSON: " + why);
+            String where = at == null || at.getLineNr() < 1 ? ""
+                    : "line " + at.getLineNr() + ", column " + at.getColumnNr();
+            throw new PlanException(where, "is not valid JSON: " + JsonErrors.plain(e.getOriginalMessage()));
         }
         if (root == null || !root.isObject()) {
-            throw new PlanException("", "a plan is a JSON object with at least \"data\" and \"decisions\"");
+            throw new PlanException("", "a plan is a JSON object {...} with at least \"data\" and \"decisions\"");
         }
         for (String key : root.propertyNames()) {
             if (!TOP_KEYS.contains(key)) {
                 throw new PlanException(key, "unknown key" + suggest(key, TOP_KEYS));
             }
         }
+        text(root, "title", "title", null);
+        text(root, "description", "description", null);
         Path dataFile = dataFile(root, folder);
         double confidence = number(root, "confidence", "confidence", 0.95);
         if (!(confidence > 0 && confidence < 1)) {
@@ -82,13 +121,17 @@ public final class PlanReader {
         long sample = wholeNumber(root, "sample", 0, 1, Long.MAX_VALUE);
         long seed = wholeNumber(root, "seed", 1L, Long.MIN_VALUE, Long.MAX_VALUE);
         long cap = wholeNumber(root, "maxSpecifications", Plan.DEFAULT_MAX_SPECIFICATIONS, 1, Long.MAX_VALUE);
-        int draws = (int) wholeNumber(root, "nullDraws", 0, 0, Integer.MAX_VALUE);
+        int draws = (int) wholeNumber(root, "nullDraws", 0, 0, MAX_NULL_DRAWS);
         String method = text(root, "nullMethod", "nullMethod", "bootstrap");
         if (!method.equals("bootstrap") && !method.equals("permute")) {
             throw new PlanException("nullMethod", "must be \"bootstrap\" or \"permute\"; found \"" + method + "\"");
         }
-        String cluster = root.has("nullCluster") ? text(root, "nullCluster", "nullCluster", null) : null;
+        String cluster = text(root, "nullCluster", "nullCluster", null);
         return new Plan(dataFile, confidence, missing, decisions, sample, seed, cap, draws, method, cluster);
+    }
+
+    private static String withoutByteOrderMark(String text) {
+        return text.startsWith("\uFEFF") ? text.substring(1) : text;
     }
 
     private Path dataFile(JsonNode root, Path folder) {
@@ -97,15 +140,30 @@ public final class PlanReader {
             throw new PlanException("data", "is required: the path of the CSV file, relative to the plan file");
         }
         Path resolved;
+        boolean absolute;
         try {
+            absolute = Path.of(data).isAbsolute();
             resolved = folder.resolve(data).normalize();
-        } catch (java.nio.file.InvalidPathException e) {
+        } catch (InvalidPathException e) {
             throw new PlanException("data", "\"" + data + "\" is not a usable file path");
         }
-        if (confineDataToPlanFolder && (Path.of(data).isAbsolute() || !resolved.startsWith(folder.normalize()))) {
+        if (confineDataToPlanFolder && (absolute || !resolved.startsWith(folder.normalize())
+                || leavesThroughLink(resolved, folder))) {
             throw new PlanException("data", "\"" + data + "\" leaves the analysis folder; give a file name inside it");
         }
         return resolved;
+    }
+
+    /** Whether an existing file lies outside the folder once symbolic links are followed. */
+    private static boolean leavesThroughLink(Path file, Path folder) {
+        if (!Files.exists(file)) {
+            return false;
+        }
+        try {
+            return !file.toRealPath().startsWith(folder.toRealPath());
+        } catch (IOException e) {
+            return true;
+        }
     }
 
     private static MissingRows missing(JsonNode root) {
@@ -119,8 +177,14 @@ public final class PlanReader {
     }
 
     private static List<Decision> decisions(JsonNode node) {
-        if (node == null || !node.isArray() || node.isEmpty()) {
+        if (node == null || node.isNull()) {
             throw new PlanException("decisions", "is required: a list of decisions, at least an outcome and a predictor");
+        }
+        if (!node.isArray()) {
+            throw new PlanException("decisions", "must be a list [...] of decisions; found " + typeOf(node));
+        }
+        if (node.isEmpty()) {
+            throw new PlanException("decisions", "is empty; a plan needs at least an outcome and a predictor decision");
         }
         List<Decision> out = new ArrayList<>();
         Set<String> names = new HashSet<>();
@@ -128,7 +192,8 @@ public final class PlanReader {
             String path = "decisions[" + i + "]";
             JsonNode d = node.get(i);
             if (!d.isObject()) {
-                throw new PlanException(path, "each decision is an object with \"name\" and \"kind\"");
+                throw new PlanException(path, "each decision is an object {\"name\": ..., \"kind\": ...}; found "
+                        + typeOf(d));
             }
             String name = text(d, "name", path + ".name", null);
             if (name == null || name.isBlank()) {
@@ -145,15 +210,24 @@ public final class PlanReader {
             if (kind == null) {
                 throw new PlanException(path + ".kind", "is required: one of " + String.join(", ", KINDS));
             }
+            List<String> keys = DECISION_KEYS.get(kind);
+            if (keys == null) {
+                throw new PlanException(path + ".kind", "unknown kind \"" + kind + "\"" + suggest(kind, KINDS)
+                        + " (the kinds are " + String.join(", ", KINDS) + ")");
+            }
+            for (String key : d.propertyNames()) {
+                if (!keys.contains(key)) {
+                    throw new PlanException(path + "." + key, "unknown key for a decision of kind \"" + kind + "\""
+                            + suggest(key, keys) + " (its keys are " + String.join(", ", keys) + ")");
+                }
+            }
             out.add(switch (kind) {
                 case "outcome" -> new Decision.Outcome(name, variables(d, path));
                 case "predictor" -> new Decision.Predictor(name, variables(d, path));
                 case "controls" -> controls(d, name, path);
                 case "sample" -> sample(d, name, path);
                 case "errors" -> errors(d, name, path);
-                case "absorb" -> absorb(d, name, path);
-                default -> throw new PlanException(path + ".kind", "unknown kind \"" + kind + "\""
-                        + suggest(kind, KINDS) + " (the kinds are " + String.join(", ", KINDS) + ")");
+                default -> absorb(d, name, path);
             });
         }
         requireCount(out, Decision.Outcome.class, "outcome", 1, 1);
@@ -194,7 +268,6 @@ public final class PlanReader {
     }
 
     private static Decision.Controls controls(JsonNode d, String name, String path) {
-        onlyKeys(d, path, Set.of("name", "kind", "required", "optional", "combine", "sets"));
         List<String> required = columns(d.get("required"), path + ".required");
         List<String> optional = columns(d.get("optional"), path + ".optional");
         String combine = text(d, "combine", path + ".combine", "all-subsets");
@@ -202,9 +275,10 @@ public final class PlanReader {
             if (d.has("sets")) {
                 throw new PlanException(path + ".sets", "is used only with \"combine\": \"sets\"");
             }
-            if (optional.size() > 40) {
-                throw new PlanException(path + ".optional", "has " + optional.size()
-                        + " controls: every subset of more than 40 is beyond any specification cap");
+            if (optional.size() > MAX_OPTIONAL_CONTROLS) {
+                throw new PlanException(path + ".optional", "has " + optional.size() + " controls: every subset of "
+                        + "more than " + MAX_OPTIONAL_CONTROLS + " is beyond any specification cap; use "
+                        + "\"combine\": \"sets\" with the sets that matter");
             }
             return new Decision.Controls(name, required, optional, null);
         }
@@ -257,7 +331,8 @@ public final class PlanReader {
                 }
                 double z = number(t, "z", p + ".trim.z", Double.NaN);
                 if (!(z > 0) || Double.isInfinite(z)) {
-                    throw new PlanException(p + ".trim.z", "must be a positive number of standard deviations, as in 3");
+                    throw new PlanException(p + ".trim.z", "must be a positive number of standard deviations, as "
+                            + "in 3; found " + (Double.isNaN(z) ? "nothing" : z));
                 }
                 out.add(new SampleRule.TrimRows(label, column, z));
             } else {
@@ -275,7 +350,8 @@ public final class PlanReader {
             String p = path + ".alternatives[" + j + "]";
             JsonNode a = alts.get(j);
             if (!a.isString()) {
-                throw new PlanException(p, "each error type is a string: classical, HC0, HC1, HC2, HC3 or cluster:COLUMN");
+                throw new PlanException(p, "each error type is text: classical, HC0, HC1, HC2, HC3 or cluster:COLUMN; "
+                        + "found " + typeOf(a));
             }
             ErrorType e = ErrorType.parse(a.stringValue(), p);
             if (!seen.add(e.label())) {
@@ -307,8 +383,12 @@ public final class PlanReader {
 
     private static JsonNode alternatives(JsonNode d, String path) {
         JsonNode alts = d.get("alternatives");
-        if (alts == null || !alts.isArray()) {
+        if (alts == null || alts.isNull()) {
             throw new PlanException(path + ".alternatives", "is required: a list of alternatives");
+        }
+        if (!alts.isArray()) {
+            throw new PlanException(path + ".alternatives", "must be a list [...] of alternatives; found "
+                    + typeOf(alts));
         }
         if (alts.isEmpty()) {
             throw new PlanException(path + ".alternatives", "is empty; a decision needs at least one alternative");
@@ -318,14 +398,14 @@ public final class PlanReader {
 
     private static JsonNode object(JsonNode n, String path, String shape) {
         if (n == null || !n.isObject()) {
-            throw new PlanException(path, "must be an object " + shape);
+            throw new PlanException(path, "must be an object " + shape + "; found " + typeOf(n));
         }
         return n;
     }
 
     private static void onlyKeys(JsonNode n, String path, Set<String> allowed) {
         for (String key : n.propertyNames()) {
-            if (!allowed.contains(key) && !key.equals("name") && !key.equals("kind") && !key.equals("alternatives")) {
+            if (!allowed.contains(key)) {
                 throw new PlanException(path + "." + key, "unknown key" + suggest(key, allowed));
             }
         }
@@ -347,13 +427,14 @@ public final class PlanReader {
             return List.of();
         }
         if (!n.isArray()) {
-            throw new PlanException(path, "must be a list of column names");
+            throw new PlanException(path, "must be a list [...] of column names; found " + typeOf(n));
         }
         List<String> out = new ArrayList<>();
         for (int j = 0; j < n.size(); j++) {
             JsonNode c = n.get(j);
             if (!c.isString() || c.stringValue().isEmpty()) {
-                throw new PlanException(path + "[" + j + "]", "must be a column name (a string)");
+                throw new PlanException(path + "[" + j + "]", "must be a column name in double quotes; found "
+                        + typeOf(c));
             }
             if (out.contains(c.stringValue())) {
                 throw new PlanException(path + "[" + j + "]", "\"" + c.stringValue() + "\" is listed twice");
@@ -369,7 +450,7 @@ public final class PlanReader {
             return fallback;
         }
         if (!v.isString()) {
-            throw new PlanException(path, "must be a string; found " + v.getNodeType().name().toLowerCase());
+            throw new PlanException(path, "must be text in double quotes; found " + typeOf(v));
         }
         return v.stringValue();
     }
@@ -380,7 +461,7 @@ public final class PlanReader {
             return fallback;
         }
         if (!v.isNumber()) {
-            throw new PlanException(path, "must be a number; found " + v.getNodeType().name().toLowerCase());
+            throw new PlanException(path, "must be a number; found " + typeOf(v));
         }
         return v.doubleValue();
     }
@@ -390,22 +471,49 @@ public final class PlanReader {
         if (v == null || v.isNull()) {
             return fallback;
         }
-        if (!v.isIntegralNumber() || !v.canConvertToLong()) {
-            throw new PlanException(key, "must be a whole number; found " + v);
+        if (!v.isIntegralNumber()) {
+            throw new PlanException(key, "must be a whole number; found " + typeOf(v));
+        }
+        String range = "must be at least " + min + (max < Long.MAX_VALUE ? " and at most " + max : "");
+        if (!v.canConvertToLong()) {
+            throw new PlanException(key, range + "; found " + v);
         }
         long value = v.longValue();
         if (value < min || value > max) {
-            throw new PlanException(key, "must be at least " + min + (max < Long.MAX_VALUE ? " and at most " + max : "")
-                    + "; found " + value);
+            throw new PlanException(key, range + "; found " + value);
         }
         return value;
     }
 
-    static String suggest(String word, java.util.Collection<String> candidates) {
+    /** The JSON type of a node in words, for "found ..." in messages. */
+    static String typeOf(JsonNode n) {
+        if (n == null || n.isMissingNode()) {
+            return "nothing";
+        }
+        if (n.isString()) {
+            String s = n.stringValue();
+            return "the text \"" + (s.length() <= 40 ? s : s.substring(0, 40) + "...") + "\"";
+        }
+        if (n.isNumber()) {
+            return "the number " + n;
+        }
+        if (n.isBoolean()) {
+            return n.asBoolean() ? "true" : "false";
+        }
+        if (n.isArray()) {
+            return "a list";
+        }
+        if (n.isObject()) {
+            return "an object";
+        }
+        return "null";
+    }
+
+    static String suggest(String word, Collection<String> candidates) {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
         for (String c : candidates) {
-            int d = org.forkscape.data.Table.editDistance(word.toLowerCase(), c.toLowerCase());
+            int d = Table.editDistance(word.toLowerCase(Locale.ROOT), c.toLowerCase(Locale.ROOT));
             if (d < bestDistance) {
                 bestDistance = d;
                 best = c;

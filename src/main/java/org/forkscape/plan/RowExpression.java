@@ -21,12 +21,17 @@ import org.forkscape.data.Table;
  * comparison := value ("==" | "!=" | "&lt;" | "&lt;=" | "&gt;" | "&gt;=") value
  * value      := identifier | `any name` | number | "string"
  * </pre>
- * A row where any referenced column is missing is not kept.
+ * {@code not} binds tighter than {@code and}, and {@code and} tighter than {@code or}, as in most
+ * query languages (common practice). Inside backquotes and double quotes a backslash escapes the next
+ * character. Text compares only with {@code ==} and {@code !=}; numbers with all six operators. A row
+ * where any column the expression names is missing is not kept, whatever the rest of the expression says.
  */
 public final class RowExpression {
     /** Longer expressions and deeper nesting are refused rather than risk the parser's stack. */
     static final int MAX_LENGTH = 10_000;
     static final int MAX_DEPTH = 64;
+    /** How much of a long expression a message repeats. */
+    private static final int ECHO = 80;
 
     private final String source;
     private final Node root;
@@ -41,12 +46,13 @@ public final class RowExpression {
     /** Parses {@code text}; a syntax error becomes a {@link PlanException} at {@code path} with the position. */
     public static RowExpression parse(String text, String path) {
         if (text.length() > MAX_LENGTH) {
-            throw new PlanException(path, "the expression is longer than " + MAX_LENGTH + " characters");
+            throw new PlanException(path, String.format("the expression has %,d characters; at most %,d are accepted",
+                    text.length(), MAX_LENGTH));
         }
         Parser p = new Parser(text, path);
         Node root = p.expression(0);
         if (p.peek().kind != TokenKind.END) {
-            throw p.error("unexpected " + p.peek().describe());
+            throw p.error("unexpected " + p.peek().describe() + p.hintAfterComplete());
         }
         return new RowExpression(text, root, p.columns);
     }
@@ -60,7 +66,10 @@ public final class RowExpression {
         return columns;
     }
 
-    /** A predicate over rows of {@code table}; type mismatches and unknown columns are reported at {@code path}. */
+    /**
+     * A predicate over rows of {@code table}; unknown columns (with the nearest name), type mismatches and
+     * text values that are not levels of their column are reported at {@code path}.
+     */
     public RowPredicate bind(Table table, String path) {
         List<Column> used = new ArrayList<>();
         for (String name : columns) {
@@ -95,23 +104,37 @@ public final class RowExpression {
         boolean test(int row);
     }
 
-    private sealed interface Node permits Or, And, Not, Compare {
+    private sealed interface Node permits AnyOf, AllOf, Not, Compare {
         BoolEval bind(Table t, String path);
     }
 
-    private record Or(Node left, Node right) implements Node {
+    /** A chain of {@code or}, kept flat so that a long chain does not nest the evaluation. */
+    private record AnyOf(List<Node> terms) implements Node {
         public BoolEval bind(Table t, String path) {
-            BoolEval l = left.bind(t, path);
-            BoolEval r = right.bind(t, path);
-            return row -> l.test(row) || r.test(row);
+            BoolEval[] e = terms.stream().map(n -> n.bind(t, path)).toArray(BoolEval[]::new);
+            return row -> {
+                for (BoolEval x : e) {
+                    if (x.test(row)) {
+                        return true;
+                    }
+                }
+                return false;
+            };
         }
     }
 
-    private record And(Node left, Node right) implements Node {
+    /** A chain of {@code and}, kept flat. */
+    private record AllOf(List<Node> terms) implements Node {
         public BoolEval bind(Table t, String path) {
-            BoolEval l = left.bind(t, path);
-            BoolEval r = right.bind(t, path);
-            return row -> l.test(row) && r.test(row);
+            BoolEval[] e = terms.stream().map(n -> n.bind(t, path)).toArray(BoolEval[]::new);
+            return row -> {
+                for (BoolEval x : e) {
+                    if (!x.test(row)) {
+                        return false;
+                    }
+                }
+                return true;
+            };
         }
     }
 
@@ -131,28 +154,40 @@ public final class RowExpression {
             this.text = text;
         }
 
-        boolean holds(int cmp) {
+        static Op of(String text) {
+            for (Op o : values()) {
+                if (o.text.equals(text)) {
+                    return o;
+                }
+            }
+            throw new IllegalArgumentException(text);
+        }
+
+        /** Plain IEEE comparison, so that -0 equals 0; values are never NaN (missing rows are not kept). */
+        boolean holds(double a, double b) {
             return switch (this) {
-                case EQ -> cmp == 0;
-                case NE -> cmp != 0;
-                case LT -> cmp < 0;
-                case LE -> cmp <= 0;
-                case GT -> cmp > 0;
-                case GE -> cmp >= 0;
+                case EQ -> a == b;
+                case NE -> a != b;
+                case LT -> a < b;
+                case LE -> a <= b;
+                case GT -> a > b;
+                case GE -> a >= b;
             };
         }
     }
 
     private sealed interface Value permits ColumnRef, NumberValue, TextValue {
+        /** As written in the expression, for messages. */
+        String written();
     }
 
-    private record ColumnRef(String name) implements Value {
+    private record ColumnRef(String name, String written) implements Value {
     }
 
-    private record NumberValue(double value) implements Value {
+    private record NumberValue(double value, String written) implements Value {
     }
 
-    private record TextValue(String value) implements Value {
+    private record TextValue(String value, String written) implements Value {
     }
 
     @FunctionalInterface
@@ -160,47 +195,92 @@ public final class RowExpression {
         double at(int row);
     }
 
-    @FunctionalInterface
-    private interface TextAt {
-        String at(int row);
-    }
-
-    private record Compare(Value left, Op op, Value right) implements Node {
+    /** A comparison; {@code position} is the 1-based character where it starts, for messages. */
+    private record Compare(Value left, Op op, Value right, int position) implements Node {
         public BoolEval bind(Table t, String path) {
             boolean leftText = isText(left, t);
             boolean rightText = isText(right, t);
+            String here = "\"" + left.written() + " " + op.text + " " + right.written() + "\" (at character "
+                    + position + ")";
             if (leftText != rightText) {
-                throw new PlanException(path, "\"" + describe(left) + " " + op.text + " " + describe(right)
-                        + "\" compares text with a number");
+                Value text = leftText ? left : right;
+                throw new PlanException(path, here + " compares text with a number" + typeHint(text, t));
             }
             if (leftText) {
                 if (op != Op.EQ && op != Op.NE) {
-                    throw new PlanException(path, "text can only be compared with == or !=, not " + op.text);
+                    throw new PlanException(path, here + ": text can only be compared with == or !=, not " + op.text);
                 }
-                TextAt l = text(left, t);
-                TextAt r = text(right, t);
-                return op == Op.EQ ? row -> l.at(row).equals(r.at(row)) : row -> !l.at(row).equals(r.at(row));
+                return textComparison(t, path, here);
             }
             NumberAt l = number(left, t);
             NumberAt r = number(right, t);
             Op o = op;
-            return row -> o.holds(Double.compare(l.at(row), r.at(row)));
+            return row -> o.holds(l.at(row), r.at(row));
+        }
+
+        private static String typeHint(Value text, Table t) {
+            if (text instanceof TextValue s) {
+                return "; write a number without quotes";
+            }
+            Column c = t.column(((ColumnRef) text).name());
+            String why = PlanChecker.whyText(c);
+            return why.isEmpty() ? "; \"" + c.name() + "\" is categorical, so compare it with a quoted level"
+                    : "; \"" + c.name() + "\" is categorical" + why;
+        }
+
+        /**
+         * Text comparisons work on level codes: a quoted value is looked up once among the column's levels,
+         * and one that is not a level is refused, since it would match no row (most likely a typing error).
+         */
+        private BoolEval textComparison(Table t, String path, String here) {
+            boolean equal = op == Op.EQ;
+            if (left instanceof TextValue a && right instanceof TextValue b) {
+                boolean same = a.value().equals(b.value());
+                return row -> same == equal;
+            }
+            if (left instanceof ColumnRef a && right instanceof ColumnRef b) {
+                CategoricalColumn ca = (CategoricalColumn) t.column(a.name());
+                CategoricalColumn cb = (CategoricalColumn) t.column(b.name());
+                int[] codesA = ca.codes();
+                int[] codesB = cb.codes();
+                List<String> levelsA = ca.levels();
+                List<String> levelsB = cb.levels();
+                return row -> levelsA.get(codesA[row]).equals(levelsB.get(codesB[row])) == equal;
+            }
+            ColumnRef column = (ColumnRef) (left instanceof ColumnRef ? left : right);
+            TextValue text = (TextValue) (left instanceof TextValue ? left : right);
+            CategoricalColumn c = (CategoricalColumn) t.column(column.name());
+            int code = c.levels().indexOf(text.value());
+            if (code < 0) {
+                throw new PlanException(path, here + ": " + text.written() + " is not a value of \"" + c.name()
+                        + "\"" + nearestLevel(text.value(), c.levels()));
+            }
+            int[] codes = c.codes();
+            return row -> (codes[row] == code) == equal;
+        }
+
+        private static String nearestLevel(String value, List<String> levels) {
+            String best = null;
+            int bestDistance = Integer.MAX_VALUE;
+            for (String l : levels) {
+                int d = Table.editDistance(value.toLowerCase(), l.toLowerCase());
+                if (d < bestDistance) {
+                    bestDistance = d;
+                    best = l;
+                }
+            }
+            if (best != null && bestDistance <= Math.max(2, value.length() / 2)) {
+                return "; did you mean \"" + best + "\"?";
+            }
+            if (levels.size() <= 10) {
+                return "; its values are " + String.join(", ", levels.stream().map(l -> "\"" + l + "\"").toList());
+            }
+            return "";
         }
 
         private static boolean isText(Value v, Table t) {
             return v instanceof TextValue
                     || v instanceof ColumnRef c && t.column(c.name()) instanceof CategoricalColumn;
-        }
-
-        private static TextAt text(Value v, Table t) {
-            if (v instanceof TextValue s) {
-                String value = s.value();
-                return row -> value;
-            }
-            CategoricalColumn c = (CategoricalColumn) t.column(((ColumnRef) v).name());
-            int[] codes = c.codes();
-            List<String> levels = c.levels();
-            return row -> levels.get(codes[row]);
         }
 
         private static NumberAt number(Value v, Table t) {
@@ -211,23 +291,14 @@ public final class RowExpression {
             double[] values = ((NumericColumn) t.column(((ColumnRef) v).name())).values();
             return row -> values[row];
         }
-
-        private static String describe(Value v) {
-            if (v instanceof ColumnRef c) {
-                return c.name();
-            }
-            if (v instanceof NumberValue n) {
-                return Double.toString(n.value());
-            }
-            return "\"" + ((TextValue) v).value() + "\"";
-        }
     }
 
     private enum TokenKind { IDENT, QUOTED_NAME, NUMBER, STRING, OP, LPAREN, RPAREN, AND, OR, NOT, END }
 
-    private record Token(TokenKind kind, String text, int position) {
+    /** A token; {@code position} is 0-based, {@code raw} the characters as written. */
+    private record Token(TokenKind kind, String text, String raw, int position) {
         String describe() {
-            return kind == TokenKind.END ? "end of expression" : "\"" + text + "\" at character " + (position + 1);
+            return kind == TokenKind.END ? "end of expression" : "\"" + raw + "\" at character " + (position + 1);
         }
     }
 
@@ -249,28 +320,46 @@ public final class RowExpression {
         }
 
         PlanException error(String what) {
-            return new PlanException(path, "cannot read the expression \"" + text + "\": " + what);
+            String shown = text.length() <= ECHO ? text : text.substring(0, ECHO) + "...";
+            return new PlanException(path, "cannot read the expression \"" + shown + "\": " + what);
+        }
+
+        /** Why a token can follow a complete expression only by mistake. */
+        String hintAfterComplete() {
+            Token t = peek();
+            if (t.kind == TokenKind.OP) {
+                return "; comparisons do not chain: write 1 < x and x < 3, not 1 < x < 3";
+            }
+            if (t.kind == TokenKind.RPAREN) {
+                return "; it closes no \"(\"";
+            }
+            if (t.kind == TokenKind.IDENT && Set.of("and", "or", "not").contains(t.text.toLowerCase())) {
+                return "; write and, or, not in lower case";
+            }
+            return "; join comparisons with and or or";
         }
 
         Node expression(int depth) {
             if (depth > MAX_DEPTH) {
                 throw error("it nests more than " + MAX_DEPTH + " levels deep");
             }
-            Node left = conjunction(depth);
+            List<Node> terms = new ArrayList<>();
+            terms.add(conjunction(depth));
             while (peek().kind == TokenKind.OR) {
                 next++;
-                left = new Or(left, conjunction(depth));
+                terms.add(conjunction(depth));
             }
-            return left;
+            return terms.size() == 1 ? terms.get(0) : new AnyOf(List.copyOf(terms));
         }
 
         private Node conjunction(int depth) {
-            Node left = unary(depth);
+            List<Node> terms = new ArrayList<>();
+            terms.add(unary(depth));
             while (peek().kind == TokenKind.AND) {
                 next++;
-                left = new And(left, unary(depth));
+                terms.add(unary(depth));
             }
-            return left;
+            return terms.size() == 1 ? terms.get(0) : new AllOf(List.copyOf(terms));
         }
 
         private Node unary(int depth) {
@@ -286,7 +375,8 @@ public final class RowExpression {
                 next++;
                 Node inner = expression(depth + 1);
                 if (peek().kind != TokenKind.RPAREN) {
-                    throw error("expected \")\" but found " + peek().describe());
+                    throw error("expected \")\" to close the \"(\" at character " + (t.position + 1) + " but found "
+                            + peek().describe());
                 }
                 next++;
                 return inner;
@@ -294,22 +384,12 @@ public final class RowExpression {
             Value left = value();
             Token op = peek();
             if (op.kind != TokenKind.OP) {
-                throw error("expected a comparison (==, !=, <, <=, >, >=) but found " + op.describe());
+                throw error("expected a comparison (==, !=, <, <=, >, >=) after " + left.written() + " but found "
+                        + op.describe());
             }
             next++;
             Value right = value();
-            return new Compare(left, Op.valueOf(opName(op.text)), right);
-        }
-
-        private static String opName(String op) {
-            return switch (op) {
-                case "==" -> "EQ";
-                case "!=" -> "NE";
-                case "<" -> "LT";
-                case "<=" -> "LE";
-                case ">" -> "GT";
-                default -> "GE";
-            };
+            return new Compare(left, Op.of(op.text), right, t.position + 1);
         }
 
         private Value value() {
@@ -318,15 +398,15 @@ public final class RowExpression {
                 case IDENT, QUOTED_NAME -> {
                     next++;
                     columns.add(t.text);
-                    return new ColumnRef(t.text);
+                    return new ColumnRef(t.text, t.raw);
                 }
                 case NUMBER -> {
                     next++;
-                    return new NumberValue(Double.parseDouble(t.text));
+                    return new NumberValue(Double.parseDouble(t.text), t.raw);
                 }
                 case STRING -> {
                     next++;
-                    return new TextValue(t.text);
+                    return new TextValue(t.text, t.raw);
                 }
                 default -> throw error("expected a column, number or \"text\" but found " + t.describe());
             }
@@ -341,52 +421,24 @@ public final class RowExpression {
                 if (Character.isWhitespace(c)) {
                     i++;
                 } else if (c == '(') {
-                    out.add(new Token(TokenKind.LPAREN, "(", i++));
+                    out.add(new Token(TokenKind.LPAREN, "(", "(", i++));
                 } else if (c == ')') {
-                    out.add(new Token(TokenKind.RPAREN, ")", i++));
+                    out.add(new Token(TokenKind.RPAREN, ")", ")", i++));
                 } else if (c == '=' || c == '!' || c == '<' || c == '>') {
                     int start = i;
                     boolean two = i + 1 < n && text.charAt(i + 1) == '=';
                     String op = text.substring(i, i + (two ? 2 : 1));
                     if (op.equals("=") || op.equals("!")) {
-                        throw error("\"" + op + "\" at character " + (start + 1) + " is not an operator; use == or !=");
+                        throw error("\"" + op + "\" at character " + (start + 1) + " is not an operator; use "
+                                + (op.equals("=") ? "== to compare" : "!= to compare or not to negate"));
                     }
-                    out.add(new Token(TokenKind.OP, op, start));
+                    out.add(new Token(TokenKind.OP, op, op, start));
                     i += op.length();
                 } else if (c == '"' || c == '`') {
-                    int start = i++;
-                    StringBuilder b = new StringBuilder();
-                    while (i < n && text.charAt(i) != c) {
-                        if (text.charAt(i) == '\\' && i + 1 < n) {
-                            i++;
-                        }
-                        b.append(text.charAt(i++));
-                    }
-                    if (i >= n) {
-                        throw error("the " + (c == '"' ? "text" : "name") + " opened at character " + (start + 1)
-                                + " is never closed");
-                    }
-                    i++;
-                    out.add(new Token(c == '"' ? TokenKind.STRING : TokenKind.QUOTED_NAME, b.toString(), start));
+                    i = quoted(out, i, c);
                 } else if (Character.isDigit(c) || c == '.' || ((c == '-' || c == '+') && i + 1 < n
                         && (Character.isDigit(text.charAt(i + 1)) || text.charAt(i + 1) == '.'))) {
-                    int start = i++;
-                    while (i < n && (Character.isDigit(text.charAt(i)) || text.charAt(i) == '.'
-                            || text.charAt(i) == 'e' || text.charAt(i) == 'E'
-                            || ((text.charAt(i) == '-' || text.charAt(i) == '+')
-                                && (text.charAt(i - 1) == 'e' || text.charAt(i - 1) == 'E')))) {
-                        i++;
-                    }
-                    String number = text.substring(start, i);
-                    try {
-                        double v = Double.parseDouble(number);
-                        if (!Double.isFinite(v)) {
-                            throw new NumberFormatException();
-                        }
-                    } catch (NumberFormatException e) {
-                        throw error("\"" + number + "\" at character " + (start + 1) + " is not a number");
-                    }
-                    out.add(new Token(TokenKind.NUMBER, number, start));
+                    i = number(out, i);
                 } else if (Character.isLetter(c) || c == '_') {
                     int start = i;
                     while (i < n && (Character.isLetterOrDigit(text.charAt(i)) || text.charAt(i) == '_'
@@ -400,13 +452,70 @@ public final class RowExpression {
                         case "not" -> TokenKind.NOT;
                         default -> TokenKind.IDENT;
                     };
-                    out.add(new Token(kind, word, start));
+                    out.add(new Token(kind, word, word, start));
                 } else {
-                    throw error("unexpected character \"" + c + "\" at character " + (i + 1));
+                    throw error(unexpectedCharacter(i));
                 }
             }
-            out.add(new Token(TokenKind.END, "", n));
+            out.add(new Token(TokenKind.END, "", "", n));
             return out;
+        }
+
+        private int quoted(List<Token> out, int from, char quote) {
+            int n = text.length();
+            int i = from + 1;
+            StringBuilder b = new StringBuilder();
+            while (i < n && text.charAt(i) != quote) {
+                if (text.charAt(i) == '\\' && i + 1 < n) {
+                    i++;
+                }
+                b.append(text.charAt(i++));
+            }
+            if (i >= n) {
+                throw error("the " + (quote == '"' ? "text" : "name") + " opened by the " + quote + " at character "
+                        + (from + 1) + " is never closed");
+            }
+            i++;
+            if (quote == '`' && b.length() == 0) {
+                throw error("the backquotes at character " + (from + 1) + " hold no column name");
+            }
+            out.add(new Token(quote == '"' ? TokenKind.STRING : TokenKind.QUOTED_NAME, b.toString(),
+                    text.substring(from, i), from));
+            return i;
+        }
+
+        private int number(List<Token> out, int from) {
+            int n = text.length();
+            int i = from + 1;
+            while (i < n && (Character.isDigit(text.charAt(i)) || text.charAt(i) == '.'
+                    || text.charAt(i) == 'e' || text.charAt(i) == 'E'
+                    || ((text.charAt(i) == '-' || text.charAt(i) == '+')
+                        && (text.charAt(i - 1) == 'e' || text.charAt(i - 1) == 'E')))) {
+                i++;
+            }
+            String number = text.substring(from, i);
+            boolean ok = number.matches("[-+]?(\\d+\\.?\\d*|\\.\\d+)([eE][-+]?\\d+)?");
+            if (!ok) {
+                throw error("\"" + number + "\" at character " + (from + 1) + " is not a number");
+            }
+            if (!Double.isFinite(Double.parseDouble(number))) {
+                throw error("\"" + number + "\" at character " + (from + 1) + " is too large for a number");
+            }
+            out.add(new Token(TokenKind.NUMBER, number, number, from));
+            return i;
+        }
+
+        private String unexpectedCharacter(int i) {
+            int cp = text.codePointAt(i);
+            String shown = Character.isISOControl(cp) || (cp >= Character.MIN_SURROGATE && cp <= Character.MAX_SURROGATE)
+                    ? String.format("U+%04X", cp) : "\"" + new String(Character.toChars(cp)) + "\"";
+            String hint = switch (cp) {
+                case '&' -> "; write and";
+                case '|' -> "; write or";
+                case '\'' -> "; text goes in double quotes, column names with odd characters in backquotes";
+                default -> "; a column name with such characters goes in backquotes, as in `my column`";
+            };
+            return "unexpected character " + shown + " at character " + (i + 1) + hint;
         }
     }
 }

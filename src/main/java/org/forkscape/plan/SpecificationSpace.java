@@ -1,6 +1,7 @@
 package org.forkscape.plan;
 
 import java.util.Arrays;
+import java.util.HashSet;
 import java.util.List;
 import java.util.SplittableRandom;
 
@@ -48,6 +49,9 @@ public final class SpecificationSpace {
      * number of decisions).
      */
     public void decode(long index, long[] choices) {
+        if (index < 0 || index >= total) {
+            throw new IndexOutOfBoundsException("specification index " + index + " outside 0.." + (total - 1));
+        }
         long rest = index;
         for (int d = radix.length - 1; d >= 0; d--) {
             choices[d] = rest % radix[d];
@@ -55,9 +59,14 @@ public final class SpecificationSpace {
         }
     }
 
+    /** The index of the specification with these choices (one per decision, each below its count). */
     public long encode(long[] choices) {
         long index = 0;
         for (int d = 0; d < radix.length; d++) {
+            if (choices[d] < 0 || choices[d] >= radix[d]) {
+                throw new IndexOutOfBoundsException("choice " + choices[d] + " of decision " + d + " outside 0.."
+                        + (radix[d] - 1));
+            }
             index = index * radix[d] + choices[d];
         }
         return index;
@@ -66,9 +75,15 @@ public final class SpecificationSpace {
     /**
      * The indices to fit: all of them, or a seeded sample without replacement of {@code n}, in increasing
      * order. Sampling uses Floyd's algorithm (Bentley &amp; Floyd 1987, "Programming pearls: a sample of
-     * brilliance", CACM 30(9)), so its cost depends on {@code n}, not on the size of the space.
+     * brilliance", CACM 30(9)), so its cost depends on {@code n}, not on the size of the space. The same
+     * seed gives the same sample. Callers check the count against the cap first
+     * ({@code MultiverseRunner.checkCount}); more than an array can hold is refused here.
      */
     public long[] indices(long n, long seed) {
+        long count = n <= 0 ? total : Math.min(n, total);
+        if (count > Integer.MAX_VALUE - 8) {
+            throw new IllegalArgumentException(count + " specifications do not fit in one run");
+        }
         if (n <= 0 || n >= total) {
             long[] all = new long[Math.toIntExact(total)];
             for (int i = 0; i < all.length; i++) {
@@ -76,7 +91,7 @@ public final class SpecificationSpace {
             }
             return all;
         }
-        java.util.HashSet<Long> chosen = new java.util.HashSet<>();
+        HashSet<Long> chosen = new HashSet<>();
         SplittableRandom random = new SplittableRandom(seed);
         for (long j = total - n; j < total; j++) {
             long t = random.nextLong(j + 1);

@@ -73,12 +73,10 @@ public sealed interface Transform {
         }
         if (t.startsWith("winsorize:")) {
             String f = t.substring("winsorize:".length());
-            double fraction;
-            try {
-                fraction = Double.parseDouble(f);
-            } catch (NumberFormatException e) {
+            if (!f.strip().matches("\\d*\\.?\\d+(e-?\\d+)?")) {
                 throw new PlanException(path, "winsorize needs a fraction, as in winsorize:0.05; found \"" + f + "\"");
             }
+            double fraction = Double.parseDouble(f.strip());
             if (!(fraction > 0 && fraction < 0.5)) {
                 throw new PlanException(path, "the winsorize fraction must lie strictly between 0 and 0.5; found " + f);
             }

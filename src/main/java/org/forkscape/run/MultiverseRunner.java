@@ -49,9 +49,17 @@ public final class MultiverseRunner {
         this(Runtime.getRuntime().availableProcessors());
     }
 
-    /** Refuses a plan whose specification count exceeds its cap, with the way out in the message. */
+    /**
+     * Refuses a plan whose specification count exceeds its cap, with the way out in the message; a sample
+     * counts as the number of specifications it fits.
+     */
     public static void checkCount(Plan plan) {
         SpecificationSpace space = new SpecificationSpace(plan);
+        if (plan.sampleSize() > 0 && Math.min(plan.sampleSize(), space.size()) > plan.maxSpecifications()) {
+            throw new InputException("sample", String.format("a sample of %,d specifications is above the cap of "
+                    + "%,d; ask for a smaller sample, or raise the cap with --max-specifications (plan key "
+                    + "\"maxSpecifications\")", Math.min(plan.sampleSize(), space.size()), plan.maxSpecifications()));
+        }
         if (plan.sampleSize() <= 0 && space.size() > plan.maxSpecifications()) {
             String count = space.size() == Long.MAX_VALUE ? "more than 9.2e18" : String.format("%,d", space.size());
             throw new InputException("decisions", "the plan has " + count + " specifications, above the cap of "

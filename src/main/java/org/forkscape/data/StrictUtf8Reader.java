@@ -21,6 +21,7 @@ final class StrictUtf8Reader extends Reader {
     static final class InvalidUtf8Exception extends IOException {
         final long line;
         final long byteOffset;
+        /** The offending byte, or -1 when the file ends inside a character. */
         final int firstByte;
 
         InvalidUtf8Exception(long line, long byteOffset, int firstByte) {
@@ -70,7 +71,8 @@ final class StrictUtf8Reader extends Reader {
             CoderResult result = decoder.decode(bytes, chars, endOfInput);
             if (result.isError()) {
                 countLines(chars.position());
-                int bad = bytes.hasRemaining() ? bytes.get(bytes.position()) & 0xFF : -1;
+                boolean truncated = endOfInput && result.length() == bytes.remaining();
+                int bad = truncated ? -1 : bytes.get(bytes.position()) & 0xFF;
                 throw new InvalidUtf8Exception(line, bytesBeforeBuffer + bytes.position(), bad);
             }
             if (chars.position() > 0) {

@@ -1,0 +1,137 @@
+package org.forkscape.plan;
+
+import static org.junit.jupiter.api.Assertions.assertDoesNotThrow;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayInputStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.Table;
+import org.junit.jupiter.api.Test;
+
+/** The plan against its data: each column exists, with the nearest name suggested, and suits its role. */
+class PlanCheckerTest {
+    private static final Table SCHOOLS = new CsvTableReader().read(new ByteArrayInputStream((
+            "attendance,tutoring,class_size,district,sector,grade_band,passed,fees\n"
+                    + "0.91,2,24,east,public,primary,yes,10\n"
+                    + "0.87,0,28,west,private,middle,no,12\n"
+                    + "0.95,3,22,east,public,upper,yes,n/a\n"
+                    + "0.80,1,30,north,private,primary,no,14\n"
+                    + "0.89,2,26,west,public,middle,yes,9\n").getBytes(StandardCharsets.UTF_8)), "schools.csv");
+
+    static Plan plan(String outcome, String predictor, String... decisions) {
+        StringBuilder b = new StringBuilder("{\"data\": \"schools.csv\", \"decisions\": [")
+                .append("{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [").append(outcome).append("]}, ")
+                .append("{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [").append(predictor).append("]}");
+        for (String d : decisions) {
+            b.append(", ").append(d);
+        }
+        return new PlanReader(false).read(b.append("]}").toString(), Path.of("."));
+    }
+
+    static String column(String name) {
+        return "{\"label\": \"" + name + "\", \"column\": \"" + name + "\"}";
+    }
+
+    static void fails(Plan plan, String path, String fragment) {
+        PlanException e = assertThrows(PlanException.class, () -> PlanChecker.check(plan, SCHOOLS));
+        assertEquals(path, e.where(), e.getMessage());
+        assertTrue(e.problem().contains(fragment), "expected \"" + fragment + "\" in: " + e.getMessage());
+    }
+
+    @Test
+    void aPlanThatFitsItsDataPasses() {
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"c\", \"kind\": \"controls\", \"required\": [\"class_size\"], \"optional\": [\"sector\"]}",
+                "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"all\"}, {\"label\": \"east\", "
+                        + "\"keep\": \"district == \\\"east\\\"\"}, {\"label\": \"t\", \"trim\": {\"column\": \"class_size\", "
+                        + "\"z\": 2}}]}",
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"cluster:district\"]}",
+                "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"d\", \"columns\": [\"district\"]}]}"),
+                SCHOOLS));
+    }
+
+    @Test
+    void anUnknownColumnIsNamedWithTheNearestOneWhereverItIsUsed() {
+        fails(plan(column("atendance"), column("tutoring")), "decisions[0].alternatives[0].column",
+                "\"atendance\" is not a column of schools.csv; did you mean \"attendance\"?");
+        fails(plan(column("attendance"), column("Tutoring")), "decisions[1].alternatives[0].column",
+                "did you mean \"tutoring\"?");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"c\", \"kind\": \"controls\", \"optional\": [\"sector\", \"clas_size\"]}"),
+                "decisions[2].optional[1]", "did you mean \"class_size\"?");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"cluster:distrct\"]}"),
+                "decisions[2].alternatives[1]", "did you mean \"district\"?");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"d\", \"columns\": [\"sectr\"]}]}"),
+                "decisions[2].alternatives[0].columns[0]", "did you mean \"sector\"?");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"t\", \"trim\": {\"column\": "
+                        + "\"classsize\", \"z\": 2}}]}"),
+                "decisions[2].alternatives[0].trim.column", "did you mean \"class_size\"?");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"k\", \"keep\": "
+                        + "\"grade_bnd == \\\"upper\\\"\"}]}"),
+                "decisions[2].alternatives[0].keep", "did you mean \"grade_band\"?");
+    }
+
+    @Test
+    void nothingIsSuggestedWhenNoNameIsClose() {
+        PlanException e = assertThrows(PlanException.class,
+                () -> PlanChecker.check(plan(column("rainfall_total"), column("tutoring")), SCHOOLS));
+        assertEquals("\"rainfall_total\" is not a column of schools.csv", e.problem());
+    }
+
+    @Test
+    void aCategoricalPredictorOrOutcomeNeedsExactlyTwoLevels() {
+        fails(plan(column("attendance"), column("grade_band")), "decisions[1].alternatives[0].column",
+                "\"grade_band\" is categorical with 3 levels; a categorical key predictor needs exactly two levels");
+        fails(plan(column("district"), column("tutoring")), "decisions[0].alternatives[0].column",
+                "a categorical outcome needs exactly two levels");
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("passed"), column("sector")), SCHOOLS));
+    }
+
+    @Test
+    void aColumnOfNumbersReadAsTextSaysWhichCellsMadeItText() {
+        fails(plan(column("attendance"), column("fees")), "decisions[1].alternatives[0].column",
+                "it reads as text because of the value \"n/a\" (a missing cell is written as an empty cell, NA, NaN or .)");
+    }
+
+    @Test
+    void transformsApplyToNumericColumnsOnly() {
+        fails(plan(column("attendance"), "{\"label\": \"s\", \"column\": \"sector\", \"transform\": \"log\"}"),
+                "decisions[1].alternatives[0].transform", "transforms apply to numeric columns only");
+    }
+
+    @Test
+    void aColumnHasOneRole() {
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"c\", \"kind\": \"controls\", \"required\": [\"tutoring\"]}"),
+                "decisions[2].required[0]", "also an alternative of the key predictor");
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"c\", \"kind\": \"controls\", \"combine\": \"sets\", \"sets\": {\"s\": [\"attendance\"]}}"),
+                "decisions[2].sets.s[0]", "also an alternative of the outcome");
+        fails(plan(column("attendance"), column("attendance")), "decisions[1].alternatives[0].column",
+                "cannot be both the outcome and the key predictor");
+    }
+
+    @Test
+    void aTrimNeedsANumericColumn() {
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"t\", \"trim\": {\"column\": "
+                        + "\"sector\", \"z\": 2}}]}"),
+                "decisions[2].alternatives[0].trim.column", "a z-score trim needs a numeric column");
+    }
+
+    @Test
+    void theNullClusterColumnMustExist() {
+        Plan p = new PlanReader(false).read("{\"data\": \"s.csv\", \"nullCluster\": \"distric\", \"decisions\": ["
+                + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("attendance") + "]}, "
+                + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("tutoring") + "]}]}", Path.of("."));
+        fails(p, "nullCluster", "did you mean \"district\"?");
+    }
+}

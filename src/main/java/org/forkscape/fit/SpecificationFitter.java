@@ -54,6 +54,11 @@ public final class SpecificationFitter {
             rows.fill(mom, cols, y, clusterCodes);
             s = qr.solve(rows, mom, cols);
             if (s == null) {
+                if (n < base + cols.length) {
+                    // with fewer rows than coefficients every column is a combination of the others
+                    return KeyFit.failed("too few rows: " + n + " rows for " + (base + cols.length) + " coefficients",
+                            n, base + cols.length);
+                }
                 String what = variant.layout.columnName(spec.keyColumn());
                 String reason = qr.keyDropReason;
                 String status = reason.contains("constant") ? "the key predictor " + what + " is constant in these rows"

@@ -49,8 +49,6 @@ public final class PlanReader {
             "p_value", "ci_low", "ci_high", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
     /** Optional controls in one all-subsets decision: 2^40 subsets is beyond any specification cap already. */
     static final int MAX_OPTIONAL_CONTROLS = 40;
-    /** More null draws than this is a typing error, not an analysis. */
-    static final int MAX_NULL_DRAWS = 1_000_000;
 
     private final boolean confineDataToPlanFolder;
 
@@ -121,7 +119,7 @@ public final class PlanReader {
         long sample = wholeNumber(root, "sample", 0, 1, Long.MAX_VALUE);
         long seed = wholeNumber(root, "seed", 1L, Long.MIN_VALUE, Long.MAX_VALUE);
         long cap = wholeNumber(root, "maxSpecifications", Plan.DEFAULT_MAX_SPECIFICATIONS, 1, Long.MAX_VALUE);
-        int draws = (int) wholeNumber(root, "nullDraws", 0, 0, MAX_NULL_DRAWS);
+        int draws = (int) wholeNumber(root, "nullDraws", 0, 0, Integer.MAX_VALUE);
         String method = text(root, "nullMethod", "nullMethod", "bootstrap");
         if (!method.equals("bootstrap") && !method.equals("permute")) {
             throw new PlanException("nullMethod", "must be \"bootstrap\" or \"permute\"; found \"" + method + "\"");

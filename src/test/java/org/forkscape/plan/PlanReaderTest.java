@@ -231,7 +231,7 @@ class PlanReaderTest {
         fails(plan("\"sample\": -5"), "sample", "at least 1");
         fails(plan("\"sample\": 123456789012345678901234567890"), "sample", "found 123456789012345678901234567890");
         fails(plan("\"nullDraws\": -1"), "nullDraws", "at least 0");
-        fails(plan("\"nullDraws\": 1000000000000"), "nullDraws", "at most 1000000");
+        fails(plan("\"nullDraws\": 1000000000000"), "nullDraws", "at most 2147483647; found 1000000000000");
         fails(plan("", "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"t\", "
                 + "\"trim\": {\"column\": \"x\", \"z\": -2}}]}"), "decisions[2].alternatives[0].trim.z", "positive");
         fails(plan("", "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"t\", "

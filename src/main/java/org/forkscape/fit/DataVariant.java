@@ -307,7 +307,8 @@ public final class DataVariant {
             for (int i = from; i < to; i++) {
                 order[fill[group[i] * levels + level[i]]++] = i;
             }
-            boolean oneCell = start[cells] == start[1] || cells == 1;
+            // cells is 0 when no row survives the sample rules: then there is nothing to sum
+            boolean oneCell = cells <= 1 || start[cells] == start[1];
             double[][] z = new double[p][];
             for (int cell = 0; cell < cells; cell++) {
                 int m = start[cell + 1] - start[cell];

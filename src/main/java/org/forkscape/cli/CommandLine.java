@@ -22,7 +22,7 @@ public final class CommandLine {
 
     public static int execute(String[] args, PrintStream out, PrintStream err) {
         if (args.length == 0) {
-            err.println("forkscape: no command given; the batch command is run (java -jar forkscape.jar help)");
+            err.println("forkscape: no command given; java -jar forkscape.jar help lists the commands");
             return 2;
         }
         try {

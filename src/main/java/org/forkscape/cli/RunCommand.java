@@ -14,6 +14,7 @@ import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MultiverseRunner;
@@ -30,8 +31,6 @@ import org.forkscape.run.RunSummary;
  */
 final class RunCommand {
     static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications");
-    static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
-            + "[--max-specifications N]";
 
     private RunCommand() {
     }
@@ -39,41 +38,32 @@ final class RunCommand {
     static void execute(String[] args, PrintStream out, PrintStream err) {
         Arguments a = new Arguments(args, 1, OPTIONS);
         if (a.positional().size() != 1) {
-            throw new UsageException((a.positional().isEmpty() ? "run needs a plan file; " : "run takes one plan file, "
-                    + "found " + a.positional().size() + " (" + String.join(", ", a.positional()) + "); ") + USAGE);
+            throw new UsageException((a.positional().isEmpty() ? "run needs a plan file" : "run takes one plan file, "
+                    + "found " + a.positional().size() + " (" + String.join(", ", a.positional()) + ")")
+                    + "; usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] [--max-specifications N]");
         }
         if (!a.has("out")) {
             throw new UsageException("run needs --out DIR, the folder for specifications.csv and summary.json");
         }
-        Path folder = path(a.text("out"), "--out");
-        if (Files.exists(folder) && !Files.isDirectory(folder)) {
-            throw new UsageException("--out " + folder + " is a file; give a folder for the results");
-        }
-        int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
-        Long sample = a.has("sample") ? a.whole("sample", 0, 1, Integer.MAX_VALUE) : null;
-        Long seed = a.has("seed") ? a.whole("seed", 0, Long.MIN_VALUE, Long.MAX_VALUE) : null;
-        Long cap = a.has("max-specifications") ? a.whole("max-specifications", 0, 1, Long.MAX_VALUE) : null;
-
+        checkOutputFolder(a.text("out"));
         Path planFile = path(a.positional().get(0), "the plan file");
-        String planName = planFile.getFileName() == null ? planFile.toString() : planFile.getFileName().toString();
         String planText = PlanReader.readText(planFile);
+        String planName = planFile.getFileName() == null ? planFile.toString() : planFile.getFileName().toString();
         Plan plan;
         try {
             plan = new PlanReader(false).read(planText, planFile.toAbsolutePath().getParent());
-        } catch (InputException e) {
+        } catch (PlanException e) {
             throw located(planName, e);
         }
-        if (sample != null || seed != null) {
-            plan = plan.withSample(sample != null ? sample : plan.sampleSize(), seed != null ? seed : plan.seed());
-        }
-        if (cap != null) {
-            plan = plan.withMaxSpecifications(cap);
-        }
+        plan = options(plan, a);
         Table table = new CsvTableReader().read(plan.dataFile());
+        int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
         RunResult run;
         try {
             run = new MultiverseRunner(threads).run(plan, table, progress, null);
+        } catch (PlanException e) {
+            throw located(planName, e);
         } catch (InputException e) {
             throw located(planName, e);
         } finally {
@@ -85,11 +75,40 @@ final class RunCommand {
         if (summary.fitted() == 0) {
             throw new InputException(planName, noneFitted(run));
         }
+        Path folder = Path.of(a.text("out"));
         RunOutputs.write(run, folder, planText, Map.of());
         out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
                         + "%.0f%% negative; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
                 String.format("%.4g", summary.medianEstimate()), 100 * summary.shareSignificantPositive(),
                 100 * summary.shareSignificantNegative(), folder);
+    }
+
+    private static Plan options(Plan plan, Arguments a) {
+        Plan p = plan;
+        if (a.has("sample") || a.has("seed")) {
+            p = p.withSample(a.whole("sample", p.sampleSize(), 1, Integer.MAX_VALUE), a.whole("seed", p.seed(),
+                    Long.MIN_VALUE, Long.MAX_VALUE));
+        }
+        if (a.has("max-specifications")) {
+            p = p.withMaxSpecifications(a.whole("max-specifications", p.maxSpecifications(), 1, Long.MAX_VALUE));
+        }
+        return p;
+    }
+
+    /** Refuses, before any work, an output path that is an existing file or not a path at all. */
+    private static void checkOutputFolder(String text) {
+        Path folder = path(text, "--out");
+        if (Files.exists(folder) && !Files.isDirectory(folder)) {
+            throw new UsageException("--out " + folder + " is a file; give a folder for the results");
+        }
+    }
+
+    private static Path path(String text, String what) {
+        try {
+            return Path.of(text);
+        } catch (InvalidPathException e) {
+            throw new UsageException(what + " \"" + text + "\" is not a usable path");
+        }
     }
 
     /**
@@ -118,14 +137,6 @@ final class RunCommand {
         }
         return "no specification could be fitted: " + share + " with \"" + top.getKey() + "\" (first: "
                 + String.join(", ", chosen) + "); nothing was written";
-    }
-
-    private static Path path(String text, String what) {
-        try {
-            return Path.of(text);
-        } catch (InvalidPathException e) {
-            throw new UsageException(what + " \"" + text + "\" is not a usable path");
-        }
     }
 
     private static InputException located(String planName, InputException e) {

@@ -75,11 +75,13 @@ public final class CsvTableReader {
         try (CSVParser parser = CSVParser.builder().setReader(new StrictUtf8Reader(in, skipped)).setFormat(FORMAT).get()) {
             for (CSVRecord record : parser) {
                 long line = parser.getCurrentLineNumber();
+                if (isBlankLine(record)) {
+                    lastLine = line;
+                    continue;
+                }
                 if (cells == null) {
-                    if (!isBlankLine(record)) {
-                        cells = new Cells(readHeader(record, line, source));
-                    }
-                } else if (!(cells.width() > 1 && isBlankLine(record))) {
+                    cells = new Cells(readHeader(record, line, source));
+                } else {
                     cells.add(record, line, source, limits);
                 }
                 lastLine = line;
@@ -187,10 +189,6 @@ public final class CsvTableReader {
         Cells(List<String> header) {
             this.header = header;
             this.columns = new String[header.size()][16];
-        }
-
-        int width() {
-            return header.size();
         }
 
         void add(CSVRecord record, long line, String source, CsvLimits limits) {

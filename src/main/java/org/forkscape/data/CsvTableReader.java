@@ -72,7 +72,8 @@ public final class CsvTableReader {
         int skipped = skipByteOrderMarkRejectingBinary(in, source);
         Cells cells = null;
         long lastLine = 0;
-        try (CSVParser parser = CSVParser.builder().setReader(new StrictUtf8Reader(in, skipped)).setFormat(FORMAT).get()) {
+        StrictUtf8Reader text = new StrictUtf8Reader(in, skipped);
+        try (CSVParser parser = CSVParser.builder().setReader(text).setFormat(FORMAT).get()) {
             for (CSVRecord record : parser) {
                 long line = parser.getCurrentLineNumber();
                 if (isBlankLine(record)) {

@@ -176,7 +176,8 @@ public final class PlanReader {
 
     private static List<Decision> decisions(JsonNode node) {
         if (node == null || node.isNull()) {
-            throw new PlanException("decisions", "is required: a list of decisions, at least an outcome and a predictor");
+            throw new PlanException("decisions", "is required: a list of decisions, at least an outcome and a "
+                    + "predictor");
         }
         if (!node.isArray()) {
             throw new PlanException("decisions", "must be a list [...] of decisions; found " + typeOf(node));
@@ -281,7 +282,8 @@ public final class PlanReader {
             return new Decision.Controls(name, required, optional, null);
         }
         if (!combine.equals("sets")) {
-            throw new PlanException(path + ".combine", "must be \"all-subsets\" or \"sets\"; found \"" + combine + "\"");
+            throw new PlanException(path + ".combine", "must be \"all-subsets\" or \"sets\"; found \"" + combine
+                    + "\"");
         }
         if (!optional.isEmpty()) {
             throw new PlanException(path + ".optional", "is used only with \"combine\": \"all-subsets\"; with sets, "

@@ -507,8 +507,9 @@ public final class RowExpression {
 
         private String unexpectedCharacter(int i) {
             int cp = text.codePointAt(i);
-            String shown = Character.isISOControl(cp) || (cp >= Character.MIN_SURROGATE && cp <= Character.MAX_SURROGATE)
-                    ? String.format("U+%04X", cp) : "\"" + new String(Character.toChars(cp)) + "\"";
+            boolean loneSurrogate = cp >= Character.MIN_SURROGATE && cp <= Character.MAX_SURROGATE;
+            String shown = Character.isISOControl(cp) || loneSurrogate ? String.format("U+%04X", cp)
+                    : "\"" + new String(Character.toChars(cp)) + "\"";
             String hint = switch (cp) {
                 case '&' -> "; write and";
                 case '|' -> "; write or";

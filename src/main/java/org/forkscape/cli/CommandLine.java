@@ -11,7 +11,7 @@ import org.forkscape.InputException;
  * see one).
  */
 public final class CommandLine {
-    public static final Set<String> COMMANDS = Set.of("run", "bench", "help", "--help", "-h");
+    public static final Set<String> COMMANDS = Set.of("run", "bench", "demo-data", "help", "--help", "-h");
 
     private CommandLine() {
     }
@@ -35,6 +35,7 @@ public final class CommandLine {
                     new org.forkscape.bench.BenchmarkCommand(out, java.nio.file.Path.of(
                             a.has("out") ? a.text("out") : "target/bench"), quick).execute();
                 }
+                case "demo-data" -> DemoDataCommand.execute(args, out);
                 default -> out.println(usage());
             }
             return 0;
@@ -94,6 +95,8 @@ public final class CommandLine {
                 "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
                 "                                               [--max-specifications N]",
                 "                                               fit every specification, write",
-                "                                               DIR/specifications.csv and DIR/summary.json");
+                "                                               DIR/specifications.csv and DIR/summary.json",
+                "  java -jar forkscape.jar demo-data DIR [--replace yes]",
+                "                                               write the demo's data and plans into DIR");
     }
 }

@@ -1,0 +1,82 @@
+package org.forkscape.demo;
+
+import java.io.IOException;
+import java.io.StringWriter;
+import java.io.UncheckedIOException;
+import java.math.BigDecimal;
+import java.math.RoundingMode;
+import java.nio.charset.StandardCharsets;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.function.Function;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVPrinter;
+
+/**
+ * The bundled demo's files: the tutoring data with a planted effect, the same pupils in a world where
+ * tutoring does nothing, and a plan for each. Generated from {@link TutoringScenario#SEED}, so the
+ * committed copies under {@code sample-data/} can be checked byte for byte against this code.
+ */
+public final class DemoDataGenerator {
+    public static final String DATA = "tutoring.csv";
+    public static final String NULL_DATA = "tutoring-null.csv";
+    public static final String PLAN = "tutoring.plan.json";
+    public static final String NULL_PLAN = "tutoring-null.plan.json";
+
+    static final List<String> COLUMNS = List.of("pupil", "school", "zone", "year_group", "free_meals",
+            "english_additional", "prior_score", "attendance", "home_reading", "class_size", "tutoring_hours",
+            "reading_score", "reading_fluency");
+
+    private DemoDataGenerator() {
+    }
+
+    /** File name to content, in the order they are written. */
+    public static Map<String, byte[]> files() {
+        List<TutoringScenario.Pupil> pupils = TutoringScenario.pupils();
+        Map<String, byte[]> files = new LinkedHashMap<>();
+        files.put(DATA, csv(pupils, false));
+        files.put(NULL_DATA, csv(pupils, true));
+        files.put(PLAN, DemoPlan.json(DATA, "After-school tutoring and reading (invented demo)",
+                "Invented data: " + pupils.size() + " pupils of " + TutoringScenario.SCHOOLS + " schools. The true "
+                        + "effect planted in the data is " + plain(TutoringScenario.SCORE_EFFECT_PER_HOUR)
+                        + " reading-score points and " + plain(TutoringScenario.LOG_FLUENCY_EFFECT_PER_HOUR)
+                        + " log words per minute per hour of tutoring.").getBytes(StandardCharsets.UTF_8));
+        files.put(NULL_PLAN, DemoPlan.json(NULL_DATA, "After-school tutoring and reading, null world (invented demo)",
+                "The same invented pupils, but tutoring has no effect on either outcome: what a multiverse "
+                        + "looks like when there is nothing to find.").getBytes(StandardCharsets.UTF_8));
+        return files;
+    }
+
+    private static byte[] csv(List<TutoringScenario.Pupil> pupils, boolean nullWorld) {
+        StringWriter text = new StringWriter();
+        try (CSVPrinter out = new CSVPrinter(text, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get())) {
+            out.printRecord(COLUMNS);
+            for (TutoringScenario.Pupil p : pupils) {
+                out.printRecord(p.id(), p.school(), p.zone(), p.yearGroup(), p.freeMeals(), p.englishAdditional(),
+                        decimal(p.priorScore()), decimal(p.attendance()), whole(p.homeReading()), p.classSize(),
+                        whole(p.tutoringHours()), decimal(nullWorld ? p.nullReadingScore() : p.readingScore()),
+                        whole(nullWorld ? p.nullReadingFluency() : p.readingFluency()));
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return text.toString().getBytes(StandardCharsets.UTF_8);
+    }
+
+    private static String plain(double v) {
+        return BigDecimal.valueOf(v).stripTrailingZeros().toPlainString();
+    }
+
+    private static String decimal(double v) {
+        return cell(v, x -> new BigDecimal(x).setScale(1, RoundingMode.HALF_EVEN).toPlainString());
+    }
+
+    private static String whole(double v) {
+        return cell(v, x -> Long.toString(StrictMath.round(x)));
+    }
+
+    private static String cell(double v, Function<Double, String> format) {
+        return Double.isNaN(v) ? "NA" : format.apply(v);
+    }
+}

@@ -1,0 +1,87 @@
+package org.forkscape.demo;
+
+/**
+ * The demo's plan, one for each world: every decision kind, sized to a few thousand specifications.
+ * Written out as text so that the committed plan files read as a person would write them.
+ */
+final class DemoPlan {
+    private DemoPlan() {
+    }
+
+    static String json(String dataFile, String title, String description) {
+        return """
+                {
+                  "title": "%s",
+                  "description": "%s",
+                  "data": "%s",
+                  "confidence": 0.95,
+                  "missing": "per-specification",
+                  "decisions": [
+                    {
+                      "name": "outcome",
+                      "kind": "outcome",
+                      "alternatives": [
+                        {"label": "reading score", "column": "reading_score"},
+                        {"label": "log reading fluency", "column": "reading_fluency", "transform": "log"}
+                      ]
+                    },
+                    {
+                      "name": "tutoring",
+                      "kind": "predictor",
+                      "alternatives": [
+                        {"label": "hours", "column": "tutoring_hours"},
+                        {"label": "hours, standardized", "column": "tutoring_hours", "transform": "standardize"},
+                        {"label": "hours, winsorized 5%%", "column": "tutoring_hours", "transform": "winsorize:0.05"}
+                      ]
+                    },
+                    {
+                      "name": "pupil controls",
+                      "kind": "controls",
+                      "required": ["prior_score", "year_group", "english_additional"],
+                      "optional": ["free_meals", "attendance", "home_reading"],
+                      "combine": "all-subsets"
+                    },
+                    {
+                      "name": "school context",
+                      "kind": "controls",
+                      "combine": "sets",
+                      "sets": {
+                        "none": [],
+                        "class size": ["class_size"],
+                        "class size and zone": ["class_size", "zone"]
+                      }
+                    },
+                    {
+                      "name": "pupils",
+                      "kind": "sample",
+                      "alternatives": [
+                        {"label": "all pupils"},
+                        {"label": "regular attenders", "keep": "attendance >= 90"}
+                      ]
+                    },
+                    {
+                      "name": "register errors",
+                      "kind": "sample",
+                      "alternatives": [
+                        {"label": "keep all"},
+                        {"label": "trim hours beyond 4 sd", "trim": {"column": "tutoring_hours", "z": 4}}
+                      ]
+                    },
+                    {
+                      "name": "standard errors",
+                      "kind": "errors",
+                      "alternatives": ["classical", "HC1", "HC3", "cluster:school"]
+                    },
+                    {
+                      "name": "fixed effects",
+                      "kind": "absorb",
+                      "alternatives": [
+                        {"label": "none", "columns": []},
+                        {"label": "zone", "columns": ["zone"]}
+                      ]
+                    }
+                  ]
+                }
+                """.formatted(title, description, dataFile);
+    }
+}

@@ -47,7 +47,6 @@ final class DemoPlan {
                       "combine": "sets",
                       "sets": {
                         "none": [],
-                        "class size": ["class_size"],
                         "class size and zone": ["class_size", "zone"]
                       }
                     },
@@ -64,7 +63,8 @@ final class DemoPlan {
                       "kind": "sample",
                       "alternatives": [
                         {"label": "keep all"},
-                        {"label": "trim hours beyond 4 sd", "trim": {"column": "tutoring_hours", "z": 4}}
+                        {"label": "within the 60-hour cap", "keep": "tutoring_hours <= 60"},
+                        {"label": "trim hours beyond 3 sd", "trim": {"column": "tutoring_hours", "z": 3}}
                       ]
                     },
                     {

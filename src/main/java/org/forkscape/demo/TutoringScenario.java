@@ -28,8 +28,8 @@ import java.util.Set;
  *   <li>missing cells: a few autumn scores (pupils who arrived later), a few attendance records, and
  *       more of the parent survey (home reading minutes, answered less often by families on free
  *       meals);</li>
- *   <li>outliers: a handful of register entries counted in quarter hours instead of hours, far above
- *       any real attendance, with results that follow the hours actually attended;</li>
+ *   <li>outliers: a handful of register entries with a digit too many, far above the programme's cap
+ *       of 60 hours, with results that follow the hours actually attended;</li>
  *   <li>zeros: most pupils had no tutoring, so the logarithm of the hours does not exist, while reading
  *       fluency (words per minute) is always positive.</li>
  * </ul>
@@ -41,7 +41,7 @@ public final class TutoringScenario {
     public static final double LOG_FLUENCY_EFFECT_PER_HOUR = 0.0006;
     /**
      * The first seed in 1, 2, 3, ... for which the null world's fullest specification (every control,
-     * register errors trimmed, classical errors) estimates the hours coefficient within half a standard
+     * rows within the 60-hour cap, classical errors) estimates the hours coefficient within half a standard
      * error of zero for both outcomes, so that the null demo shows the typical picture of no effect
      * rather than a chance false positive. The demo's test checks this property.
      */
@@ -51,7 +51,7 @@ public final class TutoringScenario {
     /** Share of pupils on free school meals in each zone. */
     private static final double[] ZONE_DEPRIVATION = {0.22, 0.45, 0.15, 0.38, 0.30, 0.10};
     static final int SCHOOLS = 48;
-    private static final int REGISTER_ERRORS = 12;
+    private static final int REGISTER_ERRORS = 6;
 
     /** One pupil: what the data file records, with the outcomes of both worlds. NaN marks a missing cell. */
     record Pupil(int id, String school, String zone, String yearGroup, int freeMeals, int englishAdditional,
@@ -122,7 +122,7 @@ public final class TutoringScenario {
                 round(scoreWithoutTutoring, 1), words(logFluencyWithoutTutoring));
     }
 
-    /** A few tutored pupils whose hours the register holds in quarter hours (four times too many). */
+    /** A few tutored pupils whose register entry has a digit too many: ten times the hours attended. */
     private static List<Pupil> withRegisterErrors(List<Pupil> pupils, Random random) {
         List<Pupil> out = new ArrayList<>(pupils);
         Set<Integer> changed = new HashSet<>();
@@ -132,7 +132,7 @@ public final class TutoringScenario {
             if (p.tutoringHours() >= 15 && changed.add(i)) {
                 out.set(i, new Pupil(p.id(), p.school(), p.zone(), p.yearGroup(), p.freeMeals(),
                         p.englishAdditional(), p.priorScore(), p.attendance(), p.homeReading(), p.classSize(),
-                        4 * p.tutoringHours(), p.readingScore(), p.readingFluency(), p.nullReadingScore(),
+                        10 * p.tutoringHours(), p.readingScore(), p.readingFluency(), p.nullReadingScore(),
                         p.nullReadingFluency()));
             }
         }

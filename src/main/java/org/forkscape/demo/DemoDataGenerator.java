@@ -19,10 +19,10 @@ import org.apache.commons.csv.CSVPrinter;
  * committed copies under {@code sample-data/} can be checked byte for byte against this code.
  */
 public final class DemoDataGenerator {
-    public static final String DATA = "tutoring.csv";
-    public static final String NULL_DATA = "tutoring-null.csv";
-    public static final String PLAN = "tutoring.plan.json";
-    public static final String NULL_PLAN = "tutoring-null.plan.json";
+    public static final String DATA = "civic-demo.csv";
+    public static final String NULL_DATA = "civic-demo-null.csv";
+    public static final String PLAN = "civic-demo.plan.json";
+    public static final String NULL_PLAN = "civic-demo-null.plan.json";
 
     static final List<String> COLUMNS = List.of("pupil", "school", "zone", "year_group", "free_meals",
             "english_additional", "prior_score", "attendance", "home_reading", "class_size", "tutoring_hours",

@@ -131,7 +131,7 @@ class DemoDataTest {
     @Test
     void theLogOfTutoringHoursIsRefusedBecauseOfItsZeros() throws IOException {
         String plan = Files.readString(SAMPLE_DATA.resolve(DemoDataGenerator.PLAN))
-                .replace("\"data\": \"tutoring.csv\"", "\"data\": \"" + SAMPLE_DATA.toAbsolutePath()
+                .replace("\"data\": \"" + DemoDataGenerator.DATA + "\"", "\"data\": \"" + SAMPLE_DATA.toAbsolutePath()
                         .resolve(DemoDataGenerator.DATA).toString().replace("\\", "\\\\") + "\"")
                 .replace("\"transform\": \"standardize\"", "\"transform\": \"log\"");
         Path planFile = work.resolve("log-hours.plan.json");

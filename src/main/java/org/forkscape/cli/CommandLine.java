@@ -97,6 +97,9 @@ public final class CommandLine {
                 "                                               fit every specification, write",
                 "                                               DIR/specifications.csv and DIR/summary.json",
                 "  java -jar forkscape.jar demo-data DIR [--replace yes]",
-                "                                               write the demo's data and plans into DIR");
+                "                                               write the demo's data and plans into DIR",
+                "  java -jar forkscape.jar bench [--quick] [--out DIR]",
+                "                                               time the engine against a per-specification",
+                "                                               refit; figures to DIR (target/bench)");
     }
 }

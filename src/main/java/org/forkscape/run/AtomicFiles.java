@@ -28,6 +28,7 @@ public final class AtomicFiles {
         try {
             Files.createDirectories(folder);
             temp = Files.createTempFile(folder, "." + target.getFileName(), ".tmp");
+            readableByAll(temp);
             try (var channel = java.nio.channels.FileChannel.open(temp, java.nio.file.StandardOpenOption.WRITE);
                     OutputStream out = new java.io.BufferedOutputStream(java.nio.channels.Channels.newOutputStream(channel),
                             1 << 16)) {
@@ -51,6 +52,13 @@ public final class AtomicFiles {
                     // the temporary file is hidden and harmless; the error that got us here is what matters
                 }
             }
+        }
+    }
+
+    /** Temporary files are created owner-only; results are meant to be shared, like any file a user writes. */
+    private static void readableByAll(Path file) throws IOException {
+        if (file.getFileSystem().supportedFileAttributeViews().contains("posix")) {
+            Files.setPosixFilePermissions(file, java.nio.file.attribute.PosixFilePermissions.fromString("rw-r--r--"));
         }
     }
 

@@ -39,6 +39,8 @@ public final class DataVariant {
     final ModelColumns layout;
     final int rows;
     final int columns;
+    /** The table row of each variant row (null draws reweight and permute rows by their table row). */
+    final int[] tableRows;
     /** Model column values at the variant's rows, minus the row's level shift; 0 where missing. */
     final double[][] shifted;
     /** Fixed-effect level of each row, 0..levels-1 (all 0 without absorption). */
@@ -168,6 +170,7 @@ public final class DataVariant {
             levelCount = Math.max(1, next);
         }
         this.rows = kept.length;
+        this.tableRows = kept;
         this.level = levelCodes;
         this.levels = levelCount;
 

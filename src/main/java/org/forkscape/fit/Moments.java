@@ -44,6 +44,15 @@ public final class Moments {
     }
 
     Moments(DataVariant v, BitSet usable) {
+        this(v, usable, v.cellCount, v.cellSum, v.cellCross);
+    }
+
+    /**
+     * The moments of the usable groups from cells laid out like the variant's own (per group and level:
+     * count, sums and full cross-products around the level's shift), such as a null draw's reweighted
+     * cells. Cells with a zero count are skipped.
+     */
+    Moments(DataVariant v, BitSet usable, int[][] cellCount, double[][][] cellSum, double[][][] cellCross) {
         this.variant = v;
         this.usableGroups = usable;
         int p = v.columns;
@@ -53,12 +62,12 @@ public final class Moments {
         double[][] cross = new double[levels][];
         for (int g = usable.nextSetBit(0); g >= 0; g = usable.nextSetBit(g + 1)) {
             for (int l = 0; l < levels; l++) {
-                if (v.cellCount[g][l] == 0) {
+                if (cellCount[g][l] == 0) {
                     continue;
                 }
-                levelCount[l] += v.cellCount[g][l];
-                double[] s = v.cellSum[g][l];
-                double[] c = v.cellCross[g][l];
+                levelCount[l] += cellCount[g][l];
+                double[] s = cellSum[g][l];
+                double[] c = cellCross[g][l];
                 double[] sl = sums[l];
                 for (int j = 0; j < p; j++) {
                     sl[j] += s[j];

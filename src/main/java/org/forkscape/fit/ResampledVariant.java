@@ -1,0 +1,382 @@
+package org.forkscape.fit;
+
+import java.util.Arrays;
+import java.util.BitSet;
+import java.util.HashMap;
+import java.util.Map;
+import org.forkscape.plan.ErrorType;
+
+/**
+ * One data variant as a null draw sees it: every row counted as many times as the draw's bootstrap
+ * weights say, or, in a permutation draw, the key predictor's values moved between rows. The cells
+ * (count, sums and cross-products per missing-pattern group and fixed-effect level, around the observed
+ * shifts) are rebuilt in one pass over the variant's rows; each specification is then solved from its
+ * sub-matrix by the engine's own Cholesky route and precision guard. Least squares with integer row
+ * weights is least squares on the resample with each row repeated, so the numbers are those of the
+ * resampled data set; where rows are needed (the QR guard, HC and cluster errors) they are materialised
+ * with that repetition.
+ *
+ * <p>The observed sample rules, transforms and missing patterns stay as they are: a row carries its
+ * coded values into the draw. A permutation moves the values of every key predictor alternative
+ * together, and only between rows with the same missing pattern on those alternatives, so each
+ * specification keeps its rows.
+ *
+ * <p>Not thread safe: one instance per worker thread and variant, reused for every draw (its buffers are
+ * allocated once).
+ */
+public final class ResampledVariant {
+    private final DataVariant v;
+    private final int p;
+    private final boolean[] isPredictor;
+    private final int[][] count;
+    private final double[][][] sum;
+    private final double[][][] cross;
+    private final int[] weight;
+    private final double[] row;
+    private final double[] weightedRow;
+    private final Map<Long, Moments> byVariables = new HashMap<>();
+    private final Map<BitSet, Moments> byGroups = new HashMap<>();
+    private final CholeskySubsetSolver cholesky = new CholeskySubsetSolver();
+    private final QrRefit qr = new QrRefit();
+    private final DesignRows rows = new DesignRows();
+    private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
+    private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
+    /** Per level, zero offsets: the materialised rows are already within values. */
+    private final double[][] zeroOffsets;
+    private final double[] zeroLevelOffsets;
+    /** Per variant row: the row whose key predictor values it carries in this draw; null = its own. */
+    private int[] source;
+    private boolean copiesAreNewClusters;
+    private int maxWeight;
+    private PermutationBlocks blocks;
+    /** Bit v set for the model variables of the key predictor alternatives. */
+    private final long predictorBits;
+
+    /**
+     * @param base                  the observed variant (read only; shared between threads)
+     * @param predictorAlternatives number of key predictor alternatives in the plan
+     */
+    public ResampledVariant(DataVariant base, int predictorAlternatives) {
+        this.v = base;
+        this.p = base.columns;
+        isPredictor = new boolean[p];
+        long bits = 0;
+        for (int j = 0; j < predictorAlternatives; j++) {
+            isPredictor[base.layout.predictorColumn(j)] = true;
+            bits |= 1L << base.layout.predictorVariable(j);
+        }
+        predictorBits = bits;
+        int groups = base.groupMissing.length;
+        count = new int[groups][base.levels];
+        sum = new double[groups][base.levels][];
+        cross = new double[groups][base.levels][];
+        for (int g = 0; g < groups; g++) {
+            for (int l = 0; l < base.levels; l++) {
+                if (base.cellCount[g][l] > 0) {
+                    sum[g][l] = new double[p];
+                    cross[g][l] = new double[p * p];
+                }
+            }
+        }
+        weight = new int[base.rows];
+        zeroOffsets = new double[base.levels][p];
+        zeroLevelOffsets = new double[base.levels];
+        row = new double[p];
+        weightedRow = new double[p];
+    }
+
+    public DataVariant base() {
+        return v;
+    }
+
+    /**
+     * A bootstrap draw: each variant row counts as often as its table row was drawn.
+     *
+     * @param tableWeights         draws of each table row (not modified)
+     * @param copiesAreNewClusters whether repeated rows form new clusters for cluster-robust errors (true
+     *                             when whole clusters were resampled: each drawn copy of a cluster is a
+     *                             cluster of its own, as in the resampled data)
+     */
+    public void bootstrap(int[] tableWeights, boolean copiesAreNewClusters) {
+        this.copiesAreNewClusters = copiesAreNewClusters;
+        source = null;
+        maxWeight = 0;
+        for (int i = 0; i < v.rows; i++) {
+            weight[i] = tableWeights[v.tableRows[i]];
+            maxWeight = Math.max(maxWeight, weight[i]);
+        }
+        accumulate();
+    }
+
+    /**
+     * A permutation draw: the table rows in a random order induce, inside each block of variant rows with
+     * the same missing pattern on the key predictor alternatives, the permutation that gives the block's
+     * k-th row (in that order) the predictor values of the block's k-th row in row order. Every variant
+     * thus receives a uniformly random permutation of its own rows, and all variants of one draw are
+     * derived from the same order.
+     *
+     * @param tableOrder a permutation of the table's row numbers (not modified)
+     */
+    public void permute(int[] tableOrder) {
+        if (blocks == null) {
+            blocks = new PermutationBlocks(v, predictorBits, tableOrder.length);
+        }
+        copiesAreNewClusters = false;
+        Arrays.fill(weight, 1);
+        maxWeight = 1;
+        if (source == null) {
+            source = new int[v.rows];
+        }
+        blocks.assign(tableOrder, source);
+        accumulate();
+    }
+
+    private void accumulate() {
+        byVariables.clear();
+        byGroups.clear();
+        for (int g = 0; g < count.length; g++) {
+            Arrays.fill(count[g], 0);
+            for (int l = 0; l < v.levels; l++) {
+                if (sum[g][l] != null) {
+                    Arrays.fill(sum[g][l], 0);
+                    Arrays.fill(cross[g][l], 0);
+                }
+            }
+        }
+        for (int i = 0; i < v.rows; i++) {
+            int w = weight[i];
+            if (w == 0) {
+                continue;
+            }
+            int g = v.group[i];
+            int l = v.level[i];
+            count[g][l] += w;
+            double[] s = sum[g][l];
+            double[] c = cross[g][l];
+            values(i, row);
+            for (int j = 0; j < p; j++) {
+                weightedRow[j] = w * row[j];
+                s[j] += weightedRow[j];
+            }
+            for (int a = 0; a < p; a++) {
+                double wa = weightedRow[a];
+                int base = a * p;
+                for (int b = a; b < p; b++) {
+                    c[base + b] += wa * row[b];
+                }
+            }
+        }
+        for (double[][] byLevel : cross) {
+            for (double[] c : byLevel) {
+                if (c != null) {
+                    for (int a = 0; a < p; a++) {
+                        for (int b = a + 1; b < p; b++) {
+                            c[b * p + a] = c[a * p + b];
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /** The draw's values of variant row {@code i} around its level's shift, into {@code out} (modified). */
+    private void values(int i, double[] out) {
+        for (int j = 0; j < p; j++) {
+            out[j] = v.shifted[j][i];
+        }
+        if (source != null && source[i] != i) {
+            int from = source[i];
+            int l = v.level[i];
+            int lf = v.level[from];
+            long missing = v.groupMissing[v.group[i]];
+            for (int j = 0; j < p; j++) {
+                if (isPredictor[j] && (missing >>> v.layout.variableOf(j) & 1L) == 0) {
+                    out[j] = v.shifted[j][from] + v.levelShift[lf][j] - v.levelShift[l][j];
+                }
+            }
+        }
+    }
+
+    private Moments moments(long variableMask) {
+        Moments m = byVariables.get(variableMask);
+        if (m == null) {
+            BitSet usable = UsableRows.groups(v, variableMask);
+            m = byGroups.computeIfAbsent(usable, u -> new Moments(v, u, count, sum, cross));
+            byVariables.put(variableMask, m);
+        }
+        return m;
+    }
+
+    /**
+     * Refits one specification of this variant in the current draw, with the same route, precision
+     * guard and standard error type as the engine.
+     *
+     * @return the key estimate, its standard error and df; {@code null} when the specification cannot be
+     *         fitted in this draw (too few rows, a key predictor that is constant or collinear, leverage 1)
+     */
+    public DrawFit fit(SpecificationModel spec) {
+        Moments mom = moments(spec.variableMask());
+        int n = mom.n;
+        int base = v.absorbs ? mom.levelsPresent : 1;
+        int[] cols = spec.factorOrder();
+        int y = spec.outcomeColumn();
+        if (n <= base || !(mom.totalSquares[y] > 0)) {
+            return null;
+        }
+        int[] clusterCodes = null;
+        int clusterCount = 0;
+        if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+            clusterCodes = v.clusters.get(spec.errors().clusterColumn());
+            clusterCount = v.clusterCounts.get(spec.errors().clusterColumn());
+        }
+        KeySolution s = cholesky.solve(mom, cols, y);
+        boolean refit = s == null;
+        int[] positions;
+        if (refit) {
+            fillRows(mom, cols, y, clusterCodes, clusterCount);
+            s = qr.solve(rows, mom, cols);
+            if (s == null) {
+                return null;
+            }
+            positions = s.keptPositions;
+        } else {
+            positions = identity(s.p);
+        }
+        int k = base + s.p;
+        int dfResidual = n - k;
+        if (dfResidual <= 0) {
+            return null;
+        }
+        if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
+            return new DrawFit(s.keyEstimate(), Math.sqrt(s.rss / dfResidual * s.keyInverseDiagonal()), dfResidual);
+        }
+        if (!refit) {
+            fillRows(mom, s.kept, y, clusterCodes, clusterCount);
+        }
+        int codes = copiesAreNewClusters ? clusterCount * Math.max(1, maxWeight) : clusterCount;
+        KeyCoefficientSandwich.Variance variance = sandwich.variance(rowView(s, positions, mom, codes), s,
+                spec.errors(), k);
+        if (variance.failure() != null) {
+            return null;
+        }
+        double df = spec.errors().kind() == ErrorType.Kind.CLUSTER ? variance.clusters() - 1 : dfResidual;
+        return new DrawFit(s.keyEstimate(), Math.sqrt(variance.value()), df);
+    }
+
+    /**
+     * The draw's rows in within coordinates, each repeated as often as its weight; copies of a row form
+     * new clusters (codes shifted by multiples of {@code clusterCount}) when whole clusters were drawn.
+     */
+    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount) {
+        int width = cols.length;
+        int cap = mom.n;
+        if (rows.x.length < width) {
+            rows.x = Arrays.copyOf(rows.x, width);
+        }
+        for (int j = 0; j < width; j++) {
+            if (rows.x[j] == null || rows.x[j].length < cap) {
+                rows.x[j] = new double[cap];
+            }
+        }
+        if (rows.y.length < cap) {
+            rows.y = new double[cap];
+            rows.level = new int[cap];
+            rows.cluster = new int[cap];
+        }
+        int k = 0;
+        for (int i = 0; i < v.rows; i++) {
+            int w = weight[i];
+            if (w == 0 || !mom.uses(i)) {
+                continue;
+            }
+            int l = v.level[i];
+            double[] offset = mom.levelMeanOffset[l];
+            values(i, row);
+            for (int copy = 0; copy < w; copy++) {
+                for (int j = 0; j < width; j++) {
+                    rows.x[j][k] = row[cols[j]] - offset[cols[j]];
+                }
+                rows.y[k] = row[yCol] - offset[yCol];
+                rows.level[k] = l;
+                if (clusterCodes != null) {
+                    rows.cluster[k] = clusterCodes[i] + (copiesAreNewClusters ? copy * clusterCount : 0);
+                }
+                k++;
+            }
+        }
+        rows.n = k;
+        rows.p = width;
+    }
+
+    /** The materialised rows (already in within coordinates) as the sandwich reads them. */
+    private KeyCoefficientSandwich.RowView rowView(KeySolution s, int[] positions, Moments mom, int clusterCount) {
+        int width = s.p;
+        if (view.x.length < width) {
+            view.x = new double[width][];
+        }
+        for (int c = 0; c < width; c++) {
+            view.x[c] = rows.x[positions[c]];
+        }
+        view.y = rows.y;
+        view.rows = null;
+        view.n = rows.n;
+        view.level = rows.level;
+        view.offset = zeroOffsets;
+        view.yOffset = zeroLevelOffsets;
+        view.levelCount = mom.levelCount;
+        view.cluster = rows.cluster;
+        view.clusterCount = clusterCount;
+        return view;
+    }
+
+    private static int[] identity(int n) {
+        int[] out = new int[n];
+        for (int i = 0; i < n; i++) {
+            out[i] = i;
+        }
+        return out;
+    }
+
+    /** The variant's rows grouped by their missing pattern on the key predictor alternatives. */
+    private static final class PermutationBlocks {
+        private final int[] variantRowOfTable;
+        private final int[] blockOf;
+        private final int[][] blockRows;
+        private final int[] next;
+
+        PermutationBlocks(DataVariant v, long predictorBits, int tableRows) {
+            variantRowOfTable = new int[tableRows];
+            Arrays.fill(variantRowOfTable, -1);
+            Map<Long, Integer> blockIds = new HashMap<>();
+            blockOf = new int[v.rows];
+            for (int i = 0; i < v.rows; i++) {
+                variantRowOfTable[v.tableRows[i]] = i;
+                long pattern = v.groupMissing[v.group[i]] & predictorBits;
+                blockOf[i] = blockIds.computeIfAbsent(pattern, x -> blockIds.size());
+            }
+            int[] sizes = new int[blockIds.size()];
+            for (int b : blockOf) {
+                sizes[b]++;
+            }
+            blockRows = new int[sizes.length][];
+            for (int b = 0; b < sizes.length; b++) {
+                blockRows[b] = new int[sizes[b]];
+            }
+            next = new int[sizes.length];
+            for (int i = 0; i < v.rows; i++) {
+                blockRows[blockOf[i]][next[blockOf[i]]++] = i;
+            }
+        }
+
+        void assign(int[] tableOrder, int[] source) {
+            Arrays.fill(next, 0);
+            for (int r : tableOrder) {
+                int i = variantRowOfTable[r];
+                if (i >= 0) {
+                    int b = blockOf[i];
+                    source[i] = blockRows[b][next[b]++];
+                }
+            }
+        }
+    }
+}

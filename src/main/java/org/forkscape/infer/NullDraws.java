@@ -1,0 +1,172 @@
+package org.forkscape.infer;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.concurrent.atomic.AtomicLong;
+import org.forkscape.InputException;
+import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.DrawFit;
+import org.forkscape.fit.ResampledVariant;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunCancelledException;
+import org.forkscape.run.RunProgress;
+
+/**
+ * Null draws for the whole curve (Simonsohn, Simmons &amp; Nelson 2020, "Specification curve analysis",
+ * Nature Human Behaviour 4, 1208-1214): every fitted specification re-estimated on data where the
+ * effect is absent, the same draw for every specification, and the curve's statistics compared with
+ * their distribution over the draws.
+ *
+ * <p>Bootstrap: for specification s with estimate b_s, the effect-removed outcome is y - b_s x. Because
+ * x is one of its own regressors, the least-squares coefficient of y - b_s x in any resample is the
+ * resample's coefficient of y minus b_s, with the same residuals and so the same standard error of any
+ * type; a draw therefore only needs each specification's fit in the resample, which
+ * {@link ResampledVariant} gets from one weighted pass over each data variant's rows and the engine's
+ * sub-matrix solves. Permutation: the key predictor's values are shuffled between rows and every
+ * specification is refitted as it is.
+ *
+ * <p>Each draw is computed alone from its own random stream ({@link DrawStreams}) by one thread, in a fixed
+ * order, so the numbers are identical whatever the number of threads.
+ */
+public final class NullDraws {
+    private NullDraws() {
+    }
+
+    /**
+     * Runs the draws.
+     *
+     * @param variants the fitted specifications to re-estimate
+     * @param settings how many draws, which method, the seed and the bootstrap's cluster column
+     * @param threads  worker threads (at least 1)
+     * @param progress receives draws done / total
+     * @param cancel   checked between draws; may be null
+     * @throws InputException when no specification was fitted
+     */
+    public static NullDrawResult run(RunVariants variants, NullDrawSettings settings, int threads,
+            RunProgress progress, AtomicBoolean cancel) {
+        long start = System.nanoTime();
+        int size = variants.size();
+        if (size == 0) {
+            throw new InputException("nullDraws", "null draws need at least one fitted specification, and none "
+                    + "could be fitted");
+        }
+        ResultTable results = variants.run().results();
+        double alpha = variants.run().plan().alpha();
+        double[] observedEstimate = new double[size];
+        double[] observedError = new double[size];
+        double[] observedDf = new double[size];
+        for (int i = 0; i < size; i++) {
+            int slot = variants.slot(i);
+            observedEstimate[i] = results.estimate(slot);
+            observedError[i] = results.stdError(slot);
+            observedDf[i] = results.df(slot);
+        }
+        CurveStatistics observed = CurveStatistics.of(observedEstimate, observedError, observedDf, size, alpha,
+                new double[size]);
+
+        int draws = settings.draws();
+        SplittableRandom[] streams = DrawStreams.of(settings.seed(), draws);
+        ResampleDesign design = ResampleDesign.of(variants.run().table(), settings.clusterColumn());
+        boolean bootstrap = settings.method() == NullMethod.BOOTSTRAP;
+        int predictors = variants.run().plan().predictor().alternatives().size();
+        CurveStatistics[] out = new CurveStatistics[draws];
+        AtomicInteger next = new AtomicInteger();
+        AtomicLong done = new AtomicLong();
+        AtomicLong failed = new AtomicLong();
+        int workers = Math.max(1, Math.min(threads, draws));
+        ExecutorService pool = Executors.newFixedThreadPool(workers, r -> {
+            Thread t = new Thread(r, "forkscape-null-draws");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            List<Future<?>> futures = new ArrayList<>();
+            for (int w = 0; w < workers; w++) {
+                futures.add(pool.submit(() -> {
+                    ResampledVariant[] local = new ResampledVariant[variants.variantCount()];
+                    double[] estimate = new double[size];
+                    double[] error = new double[size];
+                    double[] df = new double[size];
+                    double[] scratch = new double[size];
+                    int[] weights = new int[design.rows()];
+                    int[] unitDraws = new int[design.units()];
+                    int[] order = new int[design.rows()];
+                    int d;
+                    while ((d = next.getAndIncrement()) < draws) {
+                        if (cancel != null && cancel.get()) {
+                            return;
+                        }
+                        if (bootstrap) {
+                            design.weights(streams[d], unitDraws, weights);
+                        } else {
+                            design.order(streams[d], order);
+                        }
+                        int m = 0;
+                        long failures = 0;
+                        for (int v = 0; v < variants.variantCount(); v++) {
+                            int[] specs = variants.specificationsOf(v);
+                            if (specs.length == 0) {
+                                continue;
+                            }
+                            ResampledVariant rv = local[v];
+                            if (rv == null) {
+                                DataVariant base = variants.variant(v);
+                                rv = local[v] = new ResampledVariant(base, predictors);
+                            }
+                            if (bootstrap) {
+                                rv.bootstrap(weights, design.clustered());
+                            } else {
+                                rv.permute(order);
+                            }
+                            for (int i : specs) {
+                                DrawFit fit = rv.fit(variants.model(i));
+                                if (fit == null || !(fit.stdError() > 0)) {
+                                    failures++;
+                                    continue;
+                                }
+                                estimate[m] = bootstrap ? fit.estimate() - observedEstimate[i] : fit.estimate();
+                                error[m] = fit.stdError();
+                                df[m] = fit.df();
+                                m++;
+                            }
+                        }
+                        out[d] = CurveStatistics.of(estimate, error, df, m, alpha, scratch);
+                        failed.addAndGet(failures);
+                        progress.update(done.incrementAndGet(), draws);
+                    }
+                }));
+            }
+            for (Future<?> f : futures) {
+                await(f);
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+        if (cancel != null && cancel.get()) {
+            throw new RunCancelledException();
+        }
+        return new NullDrawResult(settings, observed, out, failed.get(), (System.nanoTime() - start) / 1e9);
+    }
+
+    private static void await(Future<?> f) {
+        try {
+            f.get();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new RunCancelledException();
+        } catch (ExecutionException e) {
+            Throwable cause = e.getCause();
+            if (cause instanceof RuntimeException re) {
+                throw re;
+            }
+            throw new IllegalStateException(cause);
+        }
+    }
+}

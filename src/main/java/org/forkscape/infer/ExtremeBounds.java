@@ -1,0 +1,62 @@
+package org.forkscape.infer;
+
+import java.util.LinkedHashMap;
+import java.util.Map;
+import org.forkscape.run.Json;
+import org.forkscape.run.ResultTable;
+
+/**
+ * Leamer's extreme bounds (Leamer 1983, "Let's take the con out of econometrics", American Economic
+ * Review 73(1)): the lowest lower interval bound and the highest upper bound over the specifications,
+ * and whether the two share a sign, Leamer's test of an estimate that no choice of specification can
+ * overturn.
+ *
+ * @param lower      lowest lower bound of the confidence intervals
+ * @param upper      highest upper bound
+ * @param lowerSpec  1-based specification number that attains {@code lower}
+ * @param upperSpec  likewise for {@code upper}
+ * @param confidence the interval level
+ */
+public record ExtremeBounds(double lower, double upper, long lowerSpec, long upperSpec, double confidence) {
+
+    /** Over the fitted specifications among {@code slots}; null when none is fitted. */
+    public static ExtremeBounds of(ResultTable results, int[] slots, double confidence) {
+        double lower = Double.POSITIVE_INFINITY;
+        double upper = Double.NEGATIVE_INFINITY;
+        long lowerSpec = -1;
+        long upperSpec = -1;
+        for (int slot : slots) {
+            if (!results.fitted(slot)) {
+                continue;
+            }
+            double lo = results.ciLow(slot, confidence);
+            double hi = results.ciHigh(slot, confidence);
+            if (lo < lower) {
+                lower = lo;
+                lowerSpec = results.specIndex(slot) + 1;
+            }
+            if (hi > upper) {
+                upper = hi;
+                upperSpec = results.specIndex(slot) + 1;
+            }
+        }
+        return lowerSpec < 0 ? null : new ExtremeBounds(lower, upper, lowerSpec, upperSpec, confidence);
+    }
+
+    /** Whether both bounds lie strictly on the same side of zero. */
+    public boolean sameSign() {
+        return lower > 0 && upper > 0 || lower < 0 && upper < 0;
+    }
+
+    /** The summary.json section {@code extreme_bounds}. */
+    public Map<String, Object> toJson() {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("lower", Json.number(lower));
+        m.put("upper", Json.number(upper));
+        m.put("same_sign", sameSign());
+        m.put("lower_spec", lowerSpec);
+        m.put("upper_spec", upperSpec);
+        m.put("confidence", confidence);
+        return m;
+    }
+}

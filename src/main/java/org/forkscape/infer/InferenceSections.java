@@ -1,0 +1,76 @@
+package org.forkscape.infer;
+
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.forkscape.run.RunProgress;
+import org.forkscape.run.RunResult;
+
+/**
+ * The joint-inference layer of one finished run, as the batch command writes it: the null draws (when
+ * asked for), the selection-adjusted p of the best-looking specification, the extreme bounds, the
+ * weights within comparable groups, the overfitting yardstick and the influence of the decisions, as
+ * summary.json sections, plus the files null-draws.csv and overfitting.csv.
+ */
+public final class InferenceSections {
+    private final RunResult run;
+    private final NullDrawResult nullDraws;
+    private final Map<String, Object> sections;
+
+    private InferenceSections(RunResult run, NullDrawResult nullDraws, Map<String, Object> sections) {
+        this.run = run;
+        this.nullDraws = nullDraws;
+        this.sections = sections;
+    }
+
+    /**
+     * @param settings null draws to run ({@code draws == 0} for none); checked by the caller
+     * @param threads  worker threads for the null draws
+     * @param progress receives null draws done / total
+     * @param cancel   may be null
+     */
+    public static InferenceSections compute(RunResult run, NullDrawSettings settings, int threads, RunProgress progress,
+            AtomicBoolean cancel) {
+        int[] all = new int[run.results().size()];
+        for (int i = 0; i < all.length; i++) {
+            all[i] = i;
+        }
+        RunVariants variants = RunVariants.of(run, all);
+        NullDrawResult draws = settings.draws() > 0 ? NullDraws.run(variants, settings, threads, progress, cancel) : null;
+        Map<String, Object> m = new LinkedHashMap<>();
+        if (draws != null) {
+            m.put("null", draws.toJson());
+        }
+        BestSpecification best = BestSpecification.of(run.results(), all, draws);
+        m.put("best", best == null ? null : best.toJson());
+        ExtremeBounds bounds = ExtremeBounds.of(run.results(), all, run.plan().confidence());
+        m.put("extreme_bounds", bounds == null ? null : bounds.toJson());
+        List<ComparableGroups.Group> groups = ComparableGroups.of(variants);
+        m.put("comparable_groups", ComparableGroups.toJson(groups));
+        m.put("overfitting", Overfitting.summary(run.results(), all, run.plan().alpha()));
+        InfluenceReport influence = Influence.of(run, all);
+        m.put("influence", influence.factorsJson());
+        m.put("influence_overall", influence.overallJson());
+        return new InferenceSections(run, draws, m);
+    }
+
+    /** The summary.json sections, in their documented order. */
+    public Map<String, Object> sections() {
+        return sections;
+    }
+
+    /** The null draws, or null when none were asked for. */
+    public NullDrawResult nullDraws() {
+        return nullDraws;
+    }
+
+    /** Writes null-draws.csv (when there are draws) and overfitting.csv into the run's folder. */
+    public void writeFiles(Path folder) {
+        if (nullDraws != null) {
+            NullDrawsCsv.write(nullDraws, folder);
+        }
+        OverfittingCsv.write(run.results(), folder);
+    }
+}

@@ -1,0 +1,121 @@
+package org.forkscape.infer;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunResult;
+
+/**
+ * Fitted specifications laid out by factor for the influence analysis: each one's level of every factor,
+ * its estimate and its p-value.
+ */
+public final class SpecificationGrid {
+    private final List<Factor> factors;
+    private final int[][] levelOf;
+    private final double[] estimate;
+    private final double[] pValue;
+    private final double alpha;
+
+    /**
+     * @param factors  the factors
+     * @param levelOf  {@code levelOf[f][i]}: level of specification i on factor f (copied)
+     * @param estimate key estimates (copied)
+     * @param pValue   their p-values (copied)
+     * @param alpha    the significance level
+     */
+    public SpecificationGrid(List<Factor> factors, int[][] levelOf, double[] estimate, double[] pValue, double alpha) {
+        this.factors = List.copyOf(factors);
+        this.levelOf = new int[levelOf.length][];
+        for (int f = 0; f < levelOf.length; f++) {
+            this.levelOf[f] = levelOf[f].clone();
+            if (levelOf[f].length != estimate.length) {
+                throw new IllegalArgumentException("factor " + f + " has " + levelOf[f].length + " levels for "
+                        + estimate.length + " specifications");
+            }
+        }
+        if (levelOf.length != factors.size() || pValue.length != estimate.length) {
+            throw new IllegalArgumentException("the grid's arrays do not match");
+        }
+        this.estimate = estimate.clone();
+        this.pValue = pValue.clone();
+        this.alpha = alpha;
+    }
+
+    /** The fitted specifications among {@code slots} of a run. */
+    public static SpecificationGrid of(RunResult run, int[] slots) {
+        List<Decision> decisions = run.plan().decisions();
+        List<Factor> factors = new ArrayList<>();
+        for (Decision d : decisions) {
+            if (d instanceof Decision.Controls c && c.allSubsets()) {
+                for (String control : c.optional()) {
+                    factors.add(new Factor(control, d.name(), List.of(Factor.IN, Factor.OUT)));
+                }
+            } else {
+                List<String> labels = new ArrayList<>();
+                for (long a = 0; a < d.alternativeCount(); a++) {
+                    labels.add(d.label(a));
+                }
+                factors.add(new Factor(d.name(), d.name(), labels));
+            }
+        }
+        ResultTable r = run.results();
+        int fitted = 0;
+        for (int slot : slots) {
+            if (r.fitted(slot)) {
+                fitted++;
+            }
+        }
+        int[][] levelOf = new int[factors.size()][fitted];
+        double[] estimate = new double[fitted];
+        double[] p = new double[fitted];
+        SpecificationSpace space = run.models().space();
+        long[] choices = new long[decisions.size()];
+        int i = 0;
+        for (int slot : slots) {
+            if (!r.fitted(slot)) {
+                continue;
+            }
+            space.decode(r.specIndex(slot), choices);
+            int f = 0;
+            for (int d = 0; d < decisions.size(); d++) {
+                if (decisions.get(d) instanceof Decision.Controls c && c.allSubsets()) {
+                    for (int j = 0; j < c.optional().size(); j++) {
+                        levelOf[f++][i] = (choices[d] >>> j & 1L) != 0 ? 0 : 1;
+                    }
+                } else {
+                    levelOf[f++][i] = (int) choices[d];
+                }
+            }
+            estimate[i] = r.estimate(slot);
+            p[i] = r.pValue(slot);
+            i++;
+        }
+        return new SpecificationGrid(factors, levelOf, estimate, p, run.plan().alpha());
+    }
+
+    public List<Factor> factors() {
+        return factors;
+    }
+
+    public int size() {
+        return estimate.length;
+    }
+
+    public int level(int factor, int spec) {
+        return levelOf[factor][spec];
+    }
+
+    public double estimate(int spec) {
+        return estimate[spec];
+    }
+
+    public double pValue(int spec) {
+        return pValue[spec];
+    }
+
+    public double alpha() {
+        return alpha;
+    }
+}

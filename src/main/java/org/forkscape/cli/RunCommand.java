@@ -13,6 +13,9 @@ import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Decision;
+import org.forkscape.infer.InferenceSections;
+import org.forkscape.infer.NullDrawResult;
+import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
@@ -25,12 +28,17 @@ import org.forkscape.run.RunResult;
 import org.forkscape.run.RunSummary;
 
 /**
- * {@code run PLAN --out DIR}: fits every specification of a plan and writes the results. Every check
- * runs before the first file is written, and a run in which no specification could be fitted writes
- * nothing: the output folder holds either a whole result or what it held before.
+ * {@code run PLAN --out DIR}: fits every specification of a plan, adds the joint inference (null draws
+ * when asked for), and writes the results. Every check runs before the first file is written, and a run
+ * in which no specification could be fitted writes nothing: the output folder holds either a whole
+ * result or what it held before.
  */
 final class RunCommand {
-    static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications");
+    static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications", "null-draws",
+            "null-method", "null-cluster", "max-null-draws");
+    static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
+            + "[--max-specifications N] [--null-draws R [--null-method bootstrap|permute] [--null-cluster COLUMN] "
+            + "[--max-null-draws N]]";
 
     private RunCommand() {
     }
@@ -40,7 +48,7 @@ final class RunCommand {
         if (a.positional().size() != 1) {
             throw new UsageException((a.positional().isEmpty() ? "run needs a plan file" : "run takes one plan file, "
                     + "found " + a.positional().size() + " (" + String.join(", ", a.positional()) + ")")
-                    + "; usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] [--max-specifications N]");
+                    + "; " + USAGE);
         }
         if (!a.has("out")) {
             throw new UsageException("run needs --out DIR, the folder for specifications.csv and summary.json");
@@ -56,6 +64,10 @@ final class RunCommand {
             throw located(planName, e);
         }
         plan = options(plan, a);
+        NullDrawSettings nullSettings = NullDrawSettings.of(plan);
+        nullSettings.check((int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1, Integer.MAX_VALUE),
+                a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
+                a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
@@ -75,12 +87,22 @@ final class RunCommand {
         if (summary.fitted() == 0) {
             throw new InputException(planName, noneFitted(run));
         }
+        RunProgress drawProgress = System.console() != null ? new TerminalProgress(err, "null draws") : RunProgress.SILENT;
+        InferenceSections inference = InferenceSections.compute(run, nullSettings, threads, drawProgress, null);
+        if (drawProgress instanceof TerminalProgress t) {
+            t.finish();
+        }
         Path folder = Path.of(a.text("out"));
-        RunOutputs.write(run, folder, planText, Map.of());
+        RunOutputs.write(run, folder, planText, inference.sections());
+        inference.writeFiles(folder);
+        NullDrawResult draws = inference.nullDraws();
+        String joint = draws == null ? "" : String.format("; %,d null draws: p(median) = %s, p(share significant) = "
+                + "%s, p(Stouffer) = %s", draws.drawCount(), p(draws.pMedian(), draws.drawCount()),
+                p(draws.pShareSignificant(), draws.drawCount()), p(draws.pStouffer(), draws.drawCount()));
         out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
-                        + "%.0f%% negative; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
+                        + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
                 String.format("%.4g", summary.medianEstimate()), 100 * summary.shareSignificantPositive(),
-                100 * summary.shareSignificantNegative(), folder);
+                100 * summary.shareSignificantNegative(), joint, folder);
     }
 
     private static Plan options(Plan plan, Arguments a) {
@@ -88,6 +110,14 @@ final class RunCommand {
         if (a.has("sample") || a.has("seed")) {
             p = p.withSample(a.whole("sample", p.sampleSize(), 1, Integer.MAX_VALUE), a.whole("seed", p.seed(),
                     Long.MIN_VALUE, Long.MAX_VALUE));
+        }
+        if (a.has("null-draws") || a.has("null-method") || a.has("null-cluster")) {
+            String method = a.has("null-method") ? a.text("null-method").trim() : p.nullMethod();
+            if (!method.equals("bootstrap") && !method.equals("permute")) {
+                throw new UsageException("--null-method must be bootstrap or permute; found \"" + method + "\"");
+            }
+            String cluster = a.has("null-cluster") ? a.text("null-cluster").trim() : p.nullCluster();
+            p = p.withNull((int) a.whole("null-draws", p.nullDraws(), 0, Integer.MAX_VALUE), method, cluster, p.seed());
         }
         if (a.has("max-specifications")) {
             p = p.withMaxSpecifications(a.whole("max-specifications", p.maxSpecifications(), 1, Long.MAX_VALUE));
@@ -137,6 +167,14 @@ final class RunCommand {
         }
         return "no specification could be fitted: " + share + " with \"" + top.getKey() + "\" (first: "
                 + String.join(", ", chosen) + "); nothing was written";
+    }
+
+    /** A p-value for the one-line result; a share of zero draws means below one over their number. */
+    private static String p(double value, int draws) {
+        if (Double.isNaN(value)) {
+            return "undefined";
+        }
+        return value == 0 ? String.format("< %.2g", 1.0 / draws) : String.format("%.3g", value);
     }
 
     private static InputException located(String planName, InputException e) {

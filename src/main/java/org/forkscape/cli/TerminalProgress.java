@@ -3,15 +3,22 @@ package org.forkscape.cli;
 import java.io.PrintStream;
 import org.forkscape.run.RunProgress;
 
-/** Progress on a terminal's stderr: specifications done / total, rate and time left, at most 5 times a second. */
+/** Progress on a terminal's stderr: items done / total, rate and time left, at most 5 times a second. */
 final class TerminalProgress implements RunProgress {
     private final PrintStream err;
+    private final String unit;
     private final long start = System.nanoTime();
     private long lastPrint;
     private boolean printed;
 
     TerminalProgress(PrintStream err) {
+        this(err, "specifications");
+    }
+
+    /** @param unit what is counted, in the plural ("null draws") */
+    TerminalProgress(PrintStream err, String unit) {
         this.err = err;
+        this.unit = unit;
     }
 
     @Override
@@ -24,7 +31,7 @@ final class TerminalProgress implements RunProgress {
         double seconds = (now - start) / 1e9;
         double rate = done / Math.max(seconds, 1e-9);
         double left = rate > 0 ? (total - done) / rate : Double.NaN;
-        err.printf("\r%,d / %,d specifications  %,.0f/s  %s left   ", done, total, rate,
+        err.printf("\r%,d / %,d %s  %,.0f/s  %s left   ", done, total, unit, rate,
                 Double.isNaN(left) ? "?" : String.format("%.0f s", left));
         printed = true;
     }

@@ -69,6 +69,12 @@ final class RunCommand {
                 a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());
+        if (a.has("null-cluster") && table.find(nullSettings.clusterColumn()).isEmpty()) {
+            String hint = table.nearestName(nullSettings.clusterColumn()).map(n -> "; did you mean \"" + n + "\"?")
+                    .orElse("");
+            throw new UsageException("--null-cluster: \"" + nullSettings.clusterColumn() + "\" is not a column of "
+                    + table.source() + hint);
+        }
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
         RunResult run;

@@ -14,11 +14,11 @@ import org.forkscape.fit.Distributions;
  * {@link #MAX_SCORE}.
  */
 public final class NormalScores {
-    /** The normal score of the smallest positive normal double as an upper tail (about 37.5). */
-    public static final double MAX_SCORE = upperQuantile(Double.MIN_NORMAL);
     private static final NormalDistribution STANDARD = new NormalDistribution(null, 0, 1);
     private static final double SMALL_TAIL = 1e-3;
     private static final double LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
+    /** The normal score of the smallest positive normal double as an upper tail (about 37.5). */
+    public static final double MAX_SCORE = upperQuantile(Double.MIN_NORMAL);
 
     private NormalScores() {
     }

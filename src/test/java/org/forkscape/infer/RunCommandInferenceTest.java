@@ -1,0 +1,150 @@
+package org.forkscape.infer;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import org.forkscape.cli.CommandLine;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import tools.jackson.databind.JsonNode;
+import tools.jackson.databind.json.JsonMapper;
+
+/** The batch command with joint inference: the files and keys it writes, and one-line errors with exit code 2. */
+class RunCommandInferenceTest {
+    @TempDir
+    Path dir;
+    private Path plan;
+    private String err;
+    private String out;
+
+    private static final String PLAN = """
+            {"data": "data.csv", %s
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "%s"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "cluster:g"]}
+             ]}
+            """;
+
+    @BeforeEach
+    void data() throws IOException {
+        SplittableRandom r = new SplittableRandom(2);
+        List<String> lines = new ArrayList<>(List.of("y,x,a,b,g,flat"));
+        for (int i = 0; i < 60; i++) {
+            double x = Scenarios.gaussian(r);
+            lines.add((0.4 * x + Scenarios.gaussian(r)) + "," + x + "," + Scenarios.gaussian(r) + ","
+                    + Scenarios.gaussian(r) + ",school" + r.nextInt(6) + ",3");
+        }
+        Files.write(dir.resolve("data.csv"), lines);
+        plan = writePlan("", "y");
+    }
+
+    private Path writePlan(String extraKeys, String outcome) throws IOException {
+        Path p = dir.resolve("plan.json");
+        Files.writeString(p, String.format(PLAN, extraKeys, outcome));
+        return p;
+    }
+
+    private int run(String... options) {
+        List<String> args = new ArrayList<>(List.of("run", plan.toString(), "--out", dir.resolve("out").toString()));
+        args.addAll(List.of(options));
+        ByteArrayOutputStream o = new ByteArrayOutputStream();
+        ByteArrayOutputStream e = new ByteArrayOutputStream();
+        int code = CommandLine.execute(args.toArray(String[]::new), new PrintStream(o, true, StandardCharsets.UTF_8),
+                new PrintStream(e, true, StandardCharsets.UTF_8));
+        out = o.toString(StandardCharsets.UTF_8);
+        err = e.toString(StandardCharsets.UTF_8);
+        return code;
+    }
+
+    private void assertRefused(String... mustContain) {
+        assertEquals(1, err.lines().count(), err);
+        assertTrue(err.startsWith("forkscape: "), err);
+        for (String s : mustContain) {
+            assertTrue(err.contains(s), "\"" + s + "\" in: " + err);
+        }
+        assertFalse(Files.exists(dir.resolve("out")), "nothing is written");
+    }
+
+    @Test
+    void writesTheInferenceSectionsAndFiles() throws IOException {
+        assertEquals(0, run("--null-draws", "30", "--seed", "5", "--threads", "2", "--null-cluster", "g"), err);
+        JsonNode summary = JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile());
+        for (String key : List.of("null", "best", "extreme_bounds", "comparable_groups", "overfitting", "influence",
+                "influence_overall")) {
+            assertTrue(summary.has(key), key);
+        }
+        JsonNode draws = summary.get("null");
+        assertEquals(30, draws.get("draws").intValue());
+        assertEquals("bootstrap", draws.get("method").stringValue());
+        assertEquals(5, draws.get("seed").longValue());
+        assertEquals("g", draws.get("cluster").stringValue());
+        for (String key : List.of("p_median", "p_share_significant", "p_stouffer")) {
+            assertTrue(draws.get(key).isNumber(), key);
+        }
+        assertTrue(draws.get("null_quantiles").get("median_estimate").has("97.5"));
+        assertTrue(summary.get("best").get("p_adjusted").isNumber());
+        assertEquals(5, summary.get("influence").size(), "outcome, key, the two optional controls, errors");
+        assertEquals(31, Files.readAllLines(dir.resolve("out/null-draws.csv")).size());
+        assertEquals(9, Files.readAllLines(dir.resolve("out/overfitting.csv")).size());
+        assertTrue(out.contains("30 null draws: p(median) = "), out);
+    }
+
+    @Test
+    void withoutNullDrawsTheOtherSectionsStillComeOut() throws IOException {
+        assertEquals(0, run(), err);
+        JsonNode summary = JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile());
+        assertFalse(summary.has("null"));
+        assertTrue(summary.get("best").get("p_adjusted").isNull());
+        assertFalse(Files.exists(dir.resolve("out/null-draws.csv")));
+    }
+
+    @Test
+    void tooManyDrawsAreRefused() throws IOException {
+        assertEquals(2, run("--null-draws", "10001"));
+        assertRefused("--null-draws", "cap of 10,000");
+        assertEquals(2, run("--null-draws", "60", "--max-null-draws", "50"));
+        assertRefused("cap of 50");
+        plan = writePlan("\"nullDraws\": 20000,", "y");
+        assertEquals(2, run());
+        assertRefused("plan.json, nullDraws", "20,000 null draws");
+    }
+
+    @Test
+    void aSeedMustBeAWholeNumber() throws IOException {
+        assertEquals(2, run("--null-draws", "10", "--seed", "1.5"));
+        assertRefused("--seed must be a whole number");
+        plan = writePlan("\"nullDraws\": 10, \"seed\": \"seven\",", "y");
+        assertEquals(2, run());
+        assertRefused("plan.json, seed", "whole number");
+    }
+
+    @Test
+    void nullDrawsNeedAFittedSpecification() throws IOException {
+        plan = writePlan("", "flat");
+        assertEquals(2, run("--null-draws", "10"));
+        assertRefused("no specification could be fitted");
+    }
+
+    @Test
+    void badMethodsAndClustersAreRefused() {
+        assertEquals(2, run("--null-draws", "10", "--null-method", "shuffle"));
+        assertRefused("--null-method must be bootstrap or permute");
+        assertEquals(2, run("--null-draws", "10", "--null-method", "permute", "--null-cluster", "g"));
+        assertRefused("--null-cluster", "bootstrap only");
+        assertEquals(2, run("--null-draws", "10", "--null-cluster", "school"));
+        assertRefused("--null-cluster", "\"school\" is not a column");
+    }
+}

@@ -83,7 +83,7 @@ public record InfluenceReport(List<FactorInfluence> factors, double mainEffectsS
         m.put("main_effects_share", Json.number(mainEffectsShare));
         m.put("interactions_share", Json.number(interactionsShare));
         m.put("sentence", sentence);
-        m.put("turns", shareSignificant >= 0.5 ? "below half" : "to half or more");
+        m.put("restrictions_search", fitted == 0 ? null : shareSignificant >= 0.5 ? "below half" : "half or more");
         List<Map<String, Object>> list = new ArrayList<>();
         for (Restriction r : restrictions) {
             Map<String, Object> e = new LinkedHashMap<>();

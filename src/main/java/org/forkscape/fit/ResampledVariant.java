@@ -28,6 +28,8 @@ public final class ResampledVariant {
     private final DataVariant v;
     private final int p;
     private final boolean[] isPredictor;
+    /** Model variable of each model column. */
+    private final int[] variableOf;
     private final int[][] count;
     private final double[][][] sum;
     private final double[][][] cross;
@@ -60,6 +62,10 @@ public final class ResampledVariant {
         this.v = base;
         this.p = base.columns;
         isPredictor = new boolean[p];
+        variableOf = new int[p];
+        for (int j = 0; j < p; j++) {
+            variableOf[j] = base.layout.variableOf(j);
+        }
         long bits = 0;
         for (int j = 0; j < predictorAlternatives; j++) {
             isPredictor[base.layout.predictorColumn(j)] = true;
@@ -83,10 +89,6 @@ public final class ResampledVariant {
         zeroLevelOffsets = new double[base.levels];
         row = new double[p];
         weightedRow = new double[p];
-    }
-
-    public DataVariant base() {
-        return v;
     }
 
     /**
@@ -190,7 +192,7 @@ public final class ResampledVariant {
             int lf = v.level[from];
             long missing = v.groupMissing[v.group[i]];
             for (int j = 0; j < p; j++) {
-                if (isPredictor[j] && (missing >>> v.layout.variableOf(j) & 1L) == 0) {
+                if (isPredictor[j] && (missing >>> variableOf[j] & 1L) == 0) {
                     out[j] = v.shifted[j][from] + v.levelShift[lf][j] - v.levelShift[l][j];
                 }
             }

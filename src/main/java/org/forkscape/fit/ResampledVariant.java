@@ -3,6 +3,7 @@ package org.forkscape.fit;
 import java.util.Arrays;
 import java.util.BitSet;
 import java.util.HashMap;
+import java.util.IdentityHashMap;
 import java.util.Map;
 import org.forkscape.plan.ErrorType;
 
@@ -46,8 +47,16 @@ public final class ResampledVariant {
     /** Per level, zero offsets: the materialised rows are already within values. */
     private final double[][] zeroOffsets;
     private final double[] zeroLevelOffsets;
-    /** Per variant row: the row whose key predictor values it carries in this draw; null = its own. */
+    private final double[][] viewOffsets;
+    private final double[] viewLevelOffsets;
+    /** Per variant row: the row whose key predictor values it carries in this draw (permutation draws). */
     private int[] source;
+    /** The draw's value of each model column per variant row: the stored columns, or permuted copies. */
+    private final double[][] drawColumns;
+    /** Permuted copies of the key predictor columns (allocated by the first permutation draw). */
+    private double[][] permuted;
+    /** Each usable row set's rows in this draw, each repeated as often as it was drawn. */
+    private final Map<Moments, RepeatedRows> repeatedRows = new IdentityHashMap<>();
     private boolean copiesAreNewClusters;
     private int maxWeight;
     private PermutationBlocks blocks;
@@ -84,9 +93,12 @@ public final class ResampledVariant {
                 }
             }
         }
+        drawColumns = base.shifted.clone();
         weight = new int[base.rows];
         zeroOffsets = new double[base.levels][p];
         zeroLevelOffsets = new double[base.levels];
+        viewOffsets = new double[base.levels][p];
+        viewLevelOffsets = new double[base.levels];
         row = new double[p];
         weightedRow = new double[p];
     }
@@ -101,7 +113,7 @@ public final class ResampledVariant {
      */
     public void bootstrap(int[] tableWeights, boolean copiesAreNewClusters) {
         this.copiesAreNewClusters = copiesAreNewClusters;
-        source = null;
+        System.arraycopy(v.shifted, 0, drawColumns, 0, p);
         maxWeight = 0;
         for (int i = 0; i < v.rows; i++) {
             weight[i] = tableWeights[v.tableRows[i]];
@@ -128,14 +140,37 @@ public final class ResampledVariant {
         maxWeight = 1;
         if (source == null) {
             source = new int[v.rows];
+            permuted = new double[p][];
+            for (int j = 0; j < p; j++) {
+                if (isPredictor[j]) {
+                    permuted[j] = new double[v.rows];
+                }
+            }
         }
         blocks.assign(tableOrder, source);
+        for (int j = 0; j < p; j++) {
+            if (!isPredictor[j]) {
+                drawColumns[j] = v.shifted[j];
+                continue;
+            }
+            // the source row's value, re-expressed around the receiving row's level shift
+            double[] from = v.shifted[j];
+            double[] to = permuted[j];
+            long bit = 1L << variableOf[j];
+            for (int i = 0; i < v.rows; i++) {
+                int r = source[i];
+                to[i] = (v.groupMissing[v.group[i]] & bit) != 0 ? 0
+                        : from[r] + v.levelShift[v.level[r]][j] - v.levelShift[v.level[i]][j];
+            }
+            drawColumns[j] = to;
+        }
         accumulate();
     }
 
     private void accumulate() {
         byVariables.clear();
         byGroups.clear();
+        repeatedRows.clear();
         for (int g = 0; g < count.length; g++) {
             Arrays.fill(count[g], 0);
             for (int l = 0; l < v.levels; l++) {
@@ -155,8 +190,8 @@ public final class ResampledVariant {
             count[g][l] += w;
             double[] s = sum[g][l];
             double[] c = cross[g][l];
-            values(i, row);
             for (int j = 0; j < p; j++) {
+                row[j] = drawColumns[j][i];
                 weightedRow[j] = w * row[j];
                 s[j] += weightedRow[j];
             }
@@ -176,24 +211,6 @@ public final class ResampledVariant {
                             c[b * p + a] = c[a * p + b];
                         }
                     }
-                }
-            }
-        }
-    }
-
-    /** The draw's values of variant row {@code i} around its level's shift, into {@code out} (modified). */
-    private void values(int i, double[] out) {
-        for (int j = 0; j < p; j++) {
-            out[j] = v.shifted[j][i];
-        }
-        if (source != null && source[i] != i) {
-            int from = source[i];
-            int l = v.level[i];
-            int lf = v.level[from];
-            long missing = v.groupMissing[v.group[i]];
-            for (int j = 0; j < p; j++) {
-                if (isPredictor[j] && (missing >>> variableOf[j] & 1L) == 0) {
-                    out[j] = v.shifted[j][from] + v.levelShift[lf][j] - v.levelShift[l][j];
                 }
             }
         }
@@ -252,12 +269,16 @@ public final class ResampledVariant {
         if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
             return new DrawFit(s.keyEstimate(), Math.sqrt(s.rss / dfResidual * s.keyInverseDiagonal()), dfResidual);
         }
-        if (!refit) {
+        KeyCoefficientSandwich.RowView rowsToRead;
+        if (refit) {
+            rowsToRead = rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
+        } else if (clusterCodes != null && copiesAreNewClusters) {
             fillRows(mom, s.kept, y, clusterCodes, clusterCount);
+            rowsToRead = rowView(s, positions, mom, codeCount(clusterCount));
+        } else {
+            rowsToRead = variantView(mom, s, y, clusterCodes, clusterCount);
         }
-        int codes = copiesAreNewClusters ? clusterCount * Math.max(1, maxWeight) : clusterCount;
-        KeyCoefficientSandwich.Variance variance = sandwich.variance(rowView(s, positions, mom, codes), s,
-                spec.errors(), k);
+        KeyCoefficientSandwich.Variance variance = sandwich.variance(rowsToRead, s, spec.errors(), k);
         if (variance.failure() != null) {
             return null;
         }
@@ -265,49 +286,109 @@ public final class ResampledVariant {
         return new DrawFit(s.keyEstimate(), Math.sqrt(variance.value()), df);
     }
 
-    /**
-     * The draw's rows in within coordinates, each repeated as often as its weight; copies of a row form
-     * new clusters (codes shifted by multiples of {@code clusterCount}) when whole clusters were drawn.
-     */
-    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount) {
-        int width = cols.length;
-        int cap = mom.n;
-        if (rows.x.length < width) {
-            rows.x = Arrays.copyOf(rows.x, width);
+    /** Cluster codes in use: with new clusters per copy, code + copy * clusterCount. */
+    private int codeCount(int clusterCount) {
+        return copiesAreNewClusters ? clusterCount * Math.max(1, maxWeight) : clusterCount;
+    }
+
+    /** The usable rows of {@code mom} in this draw, each as often as it was drawn, with its copy number. */
+    private RepeatedRows repeated(Moments mom) {
+        RepeatedRows cached = repeatedRows.get(mom);
+        if (cached != null) {
+            return cached;
         }
-        for (int j = 0; j < width; j++) {
-            if (rows.x[j] == null || rows.x[j].length < cap) {
-                rows.x[j] = new double[cap];
-            }
-        }
-        if (rows.y.length < cap) {
-            rows.y = new double[cap];
-            rows.level = new int[cap];
-            rows.cluster = new int[cap];
-        }
+        int[] list = new int[mom.n];
+        int[] copy = new int[mom.n];
         int k = 0;
         for (int i = 0; i < v.rows; i++) {
             int w = weight[i];
             if (w == 0 || !mom.uses(i)) {
                 continue;
             }
-            int l = v.level[i];
-            double[] offset = mom.levelMeanOffset[l];
-            values(i, row);
-            for (int copy = 0; copy < w; copy++) {
-                for (int j = 0; j < width; j++) {
-                    rows.x[j][k] = row[cols[j]] - offset[cols[j]];
-                }
-                rows.y[k] = row[yCol] - offset[yCol];
-                rows.level[k] = l;
-                if (clusterCodes != null) {
-                    rows.cluster[k] = clusterCodes[i] + (copiesAreNewClusters ? copy * clusterCount : 0);
-                }
-                k++;
+            for (int c = 0; c < w; c++) {
+                list[k] = i;
+                copy[k++] = c;
             }
         }
-        rows.n = k;
+        RepeatedRows r = new RepeatedRows(list, copy);
+        repeatedRows.put(mom, r);
+        return r;
+    }
+
+    private record RepeatedRows(int[] rows, int[] copy) {
+    }
+
+    /**
+     * Materialises the draw's rows in within coordinates, each repeated as often as it was drawn (for the
+     * QR route, and for cluster errors when each drawn copy of a cluster is a cluster of its own: codes
+     * shifted by multiples of {@code clusterCount}).
+     */
+    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount) {
+        RepeatedRows repeat = repeated(mom);
+        int width = cols.length;
+        int n = mom.n;
+        if (rows.x.length < width) {
+            rows.x = Arrays.copyOf(rows.x, width);
+        }
+        for (int j = 0; j < width; j++) {
+            if (rows.x[j] == null || rows.x[j].length < n) {
+                rows.x[j] = new double[n];
+            }
+        }
+        if (rows.y.length < n) {
+            rows.y = new double[n];
+            rows.level = new int[n];
+            rows.cluster = new int[n];
+        }
+        int[] list = repeat.rows();
+        double[][] offset = mom.levelMeanOffset;
+        for (int j = 0; j <= width; j++) {
+            int col = j < width ? cols[j] : yCol;
+            double[] from = drawColumns[col];
+            double[] to = j < width ? rows.x[j] : rows.y;
+            for (int k = 0; k < n; k++) {
+                int r = list[k];
+                to[k] = from[r] - offset[v.level[r]][col];
+            }
+        }
+        for (int k = 0; k < n; k++) {
+            int r = list[k];
+            rows.level[k] = v.level[r];
+            if (clusterCodes != null) {
+                rows.cluster[k] = clusterCodes[r] + (copiesAreNewClusters ? repeat.copy()[k] * clusterCount : 0);
+            }
+        }
+        rows.n = n;
         rows.p = width;
+    }
+
+    /** The draw's columns as stored, read through the repeated row list and the usable rows' level means. */
+    private KeyCoefficientSandwich.RowView variantView(Moments mom, KeySolution s, int y, int[] clusterCodes,
+            int clusterCount) {
+        int width = s.p;
+        if (view.x.length < width) {
+            view.x = new double[width][];
+        }
+        for (int c = 0; c < width; c++) {
+            view.x[c] = drawColumns[s.kept[c]];
+        }
+        for (int l = 0; l < v.levels; l++) {
+            double[] off = mom.levelMeanOffset[l];
+            for (int c = 0; c < width; c++) {
+                viewOffsets[l][c] = off[s.kept[c]];
+            }
+            viewLevelOffsets[l] = off[y];
+        }
+        view.y = drawColumns[y];
+        view.rows = repeated(mom).rows();
+        view.n = mom.n;
+        view.level = v.level;
+        view.offset = viewOffsets;
+        view.yOffset = viewLevelOffsets;
+        view.levelCount = mom.levelCount;
+        view.cluster = clusterCodes;
+        view.clusterCount = clusterCount;
+        return view;
     }
 
     /** The materialised rows (already in within coordinates) as the sandwich reads them. */

@@ -57,6 +57,11 @@ public final class ResampledVariant {
     private double[][] permuted;
     /** Each usable row set's rows in this draw, each repeated as often as it was drawn. */
     private final Map<Moments, RepeatedRows> repeatedRows = new IdentityHashMap<>();
+    /** The resampled unit of each table row in a cluster bootstrap; null when single rows are drawn. */
+    private int[] tableUnits;
+    /** Per cluster column: whether each of its clusters lies within one resampled unit. */
+    private final Map<String, Boolean> nestedInUnits = new HashMap<>();
+    /** Whether, for the specification being fitted, each drawn copy of a row starts new clusters. */
     private boolean copiesAreNewClusters;
     private int maxWeight;
     private PermutationBlocks blocks;
@@ -106,13 +111,20 @@ public final class ResampledVariant {
     /**
      * A bootstrap draw: each variant row counts as often as its table row was drawn.
      *
-     * @param tableWeights         draws of each table row (not modified)
-     * @param copiesAreNewClusters whether repeated rows form new clusters for cluster-robust errors (true
-     *                             when whole clusters were resampled: each drawn copy of a cluster is a
-     *                             cluster of its own, as in the resampled data)
+     * <p>For cluster-robust errors, each drawn copy of a resampled unit is a new, independent unit, so
+     * the clusters nested in it (the same column, or a finer one) are new clusters in every copy; a
+     * cluster that spans several units keeps its identity, and its copies' rows stay in it, as they
+     * would in the resampled data.
+     *
+     * @param tableWeights draws of each table row (not modified)
+     * @param tableUnits   the resampled unit (cluster) of each table row when whole clusters were drawn,
+     *                     or null when single rows were (not modified; the same array for every draw)
      */
-    public void bootstrap(int[] tableWeights, boolean copiesAreNewClusters) {
-        this.copiesAreNewClusters = copiesAreNewClusters;
+    public void bootstrap(int[] tableWeights, int[] tableUnits) {
+        if (tableUnits != this.tableUnits) {
+            nestedInUnits.clear();
+            this.tableUnits = tableUnits;
+        }
         System.arraycopy(v.shifted, 0, drawColumns, 0, p);
         maxWeight = 0;
         for (int i = 0; i < v.rows; i++) {
@@ -135,7 +147,8 @@ public final class ResampledVariant {
         if (blocks == null) {
             blocks = new PermutationBlocks(v, predictorBits, tableOrder.length);
         }
-        copiesAreNewClusters = false;
+        tableUnits = null;
+        nestedInUnits.clear();
         Arrays.fill(weight, 1);
         maxWeight = 1;
         if (source == null) {
@@ -244,9 +257,11 @@ public final class ResampledVariant {
         }
         int[] clusterCodes = null;
         int clusterCount = 0;
+        copiesAreNewClusters = false;
         if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
             clusterCodes = v.clusters.get(spec.errors().clusterColumn());
             clusterCount = v.clusterCounts.get(spec.errors().clusterColumn());
+            copiesAreNewClusters = nestedInUnits(spec.errors().clusterColumn());
         }
         KeySolution s = cholesky.solve(mom, cols, y);
         boolean refit = s == null;
@@ -284,6 +299,31 @@ public final class ResampledVariant {
         }
         double df = spec.errors().kind() == ErrorType.Kind.CLUSTER ? variance.clusters() - 1 : dfResidual;
         return new DrawFit(s.keyEstimate(), Math.sqrt(variance.value()), df);
+    }
+
+    /** Whether every cluster of the column lies within one resampled unit (false for single rows). */
+    private boolean nestedInUnits(String column) {
+        if (tableUnits == null) {
+            return false;
+        }
+        return nestedInUnits.computeIfAbsent(column, c -> {
+            int[] codes = v.clusters.get(c);
+            int[] unitOfCluster = new int[v.clusterCounts.get(c)];
+            Arrays.fill(unitOfCluster, -1);
+            for (int i = 0; i < v.rows; i++) {
+                int code = codes[i];
+                if (code < 0) {
+                    continue;
+                }
+                int unit = tableUnits[v.tableRows[i]];
+                if (unitOfCluster[code] < 0) {
+                    unitOfCluster[code] = unit;
+                } else if (unitOfCluster[code] != unit) {
+                    return false;
+                }
+            }
+            return true;
+        });
     }
 
     /** Cluster codes in use: with new clusters per copy, code + copy * clusterCount. */

@@ -96,7 +96,7 @@ public final class NullDraws {
                     double[] df = new double[size];
                     double[] scratch = new double[size];
                     int[] weights = new int[design.rows()];
-                    int[] unitDraws = new int[design.units()];
+                    int[] unitDraws = new int[design.unitCount()];
                     int[] order = new int[design.rows()];
                     int d;
                     while ((d = next.getAndIncrement()) < draws) {
@@ -121,7 +121,7 @@ public final class NullDraws {
                                 rv = local[v] = new ResampledVariant(base, predictors);
                             }
                             if (bootstrap) {
-                                rv.bootstrap(weights, design.clustered());
+                                rv.bootstrap(weights, design.units());
                             } else {
                                 rv.permute(order);
                             }

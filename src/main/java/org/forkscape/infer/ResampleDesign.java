@@ -38,8 +38,9 @@ final class ResampleDesign {
         return new ResampleDesign(n, unitOf, next);
     }
 
-    boolean clustered() {
-        return unitOf != null;
+    /** The resampled unit of each table row, or null when every row is its own unit. */
+    int[] units() {
+        return unitOf;
     }
 
     /**
@@ -74,7 +75,7 @@ final class ResampleDesign {
         }
     }
 
-    int units() {
+    int unitCount() {
         return units;
     }
 

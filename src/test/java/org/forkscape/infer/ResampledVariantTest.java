@@ -93,7 +93,7 @@ class ResampledVariantTest {
             weights[r.nextInt(weights.length)]++;
         }
         Table repeated = repeat(table, weights, null);
-        int compared = compare(table, repeated, rv -> rv.bootstrap(weights, false));
+        int compared = compare(table, repeated, rv -> rv.bootstrap(weights, null));
         assertTrue(compared > 300, "most of the 384 specifications fit in the resample; compared " + compared);
     }
 
@@ -111,8 +111,24 @@ class ResampledVariantTest {
             weights[i] = clusterDraws[cluster[i]];
         }
         Table repeated = repeat(table, weights, "g");
-        int compared = compare(table, repeated, rv -> rv.bootstrap(weights, true));
+        int compared = compare(table, repeated, rv -> rv.bootstrap(weights, cluster));
         assertTrue(compared > 300, "compared " + compared);
+    }
+
+    @Test
+    void clustersThatSpanTheResampledUnitsKeepTheirCopiesTogether() {
+        // whole levels of f are drawn; the error clusters g cut across them, so a repeated row stays in
+        // its g cluster, exactly as in the resampled table
+        Table table = data(false);
+        int[] unit = ((CategoricalColumn) table.column("f")).codes();
+        int[] unitDraws = {2, 0, 1, 1};
+        int[] weights = new int[table.rowCount()];
+        for (int i = 0; i < weights.length; i++) {
+            weights[i] = unitDraws[unit[i]];
+        }
+        Table repeated = repeat(table, weights, null);
+        int compared = compare(table, repeated, rv -> rv.bootstrap(weights, unit));
+        assertTrue(compared > 100, "compared " + compared);
     }
 
     @Test

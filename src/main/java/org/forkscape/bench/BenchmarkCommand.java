@@ -71,6 +71,7 @@ public final class BenchmarkCommand {
         rowPassComparison(new Case(100_000, k, "HC1"));
         rowPassComparison(new Case(100_000, k, "cluster:cluster"));
         hc3AgainstBandwidth(new Case(100_000, k, "HC3"));
+        nullDraws(new Case(10_000, k, "classical"), quick ? 100 : 1_000);
         out.printf("%ntotal %.0f s%n", (System.nanoTime() - start) / 1e9);
     }
 
@@ -259,6 +260,32 @@ public final class BenchmarkCommand {
         json.put("share_of_bound", rate / bound);
         machine(json);
         write(c.name() + "-bandwidth", json);
+    }
+
+    /** Null draws: every specification re-estimated on each draw from reweighted cross-products. */
+    private void nullDraws(Case c, int draws) {
+        Table table = table(c.rows());
+        Plan plan = plan(c);
+        RunResult run = new MultiverseRunner().run(plan, table, RunProgress.SILENT, null);
+        org.forkscape.infer.RunVariants variants = org.forkscape.infer.RunVariants.of(run);
+        int threads = Runtime.getRuntime().availableProcessors();
+        org.forkscape.infer.NullDraws.run(variants, new org.forkscape.infer.NullDrawSettings(Math.min(20, draws),
+                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null), threads, RunProgress.SILENT, null);
+        long start = System.nanoTime();
+        org.forkscape.infer.NullDraws.run(variants, new org.forkscape.infer.NullDrawSettings(draws,
+                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null), threads, RunProgress.SILENT, null);
+        double seconds = (System.nanoTime() - start) / 1e9;
+        out.printf("null draws: %,d draws x %,d specifications x %,d rows (classical): %.1f s, %,.0f refits/s%n", draws,
+                run.results().size(), c.rows(), seconds, draws * (double) run.results().size() / seconds);
+        Map<String, Object> json = new LinkedHashMap<>();
+        json.put("case", "null-draws-" + c.name());
+        json.put("draws", draws);
+        json.put("specifications", run.results().size());
+        json.put("rows", c.rows());
+        json.put("seconds", seconds);
+        json.put("refits_per_second", draws * (double) run.results().size() / seconds);
+        machine(json);
+        write("null-draws-" + c.name(), json);
     }
 
     private static double[] ratioRange(List<Double> a, List<Double> b) {

@@ -65,43 +65,74 @@ final class ClusterMoments {
 
     static ClusterMoments build(DataVariant v, int[] clusterCodes) {
         int p = v.columns;
-        Map<Long, Cell> byKey = new HashMap<>();
-        List<Cell> cells = new ArrayList<>();
-        double[] z = new double[p];
+        // number the (group, cluster, level) cells in order of first appearance
+        Map<Long, Integer> ids = new HashMap<>();
+        int[] cellOf = new int[v.rows];
+        List<int[]> keys = new ArrayList<>();
+        long lastKey = -1;
+        int lastId = -1;
         for (int r = 0; r < v.rows; r++) {
             int c = clusterCodes[r];
             if (c < 0) {
+                cellOf[r] = -1;
                 continue;
             }
             long key = ((long) v.group[r] * (1L << 20) + c) * (1L << 21) + v.level[r];
-            Cell cell = byKey.get(key);
-            if (cell == null) {
-                cell = new Cell(v.group[r], c, v.level[r], p);
-                byKey.put(key, cell);
-                cells.add(cell);
+            if (key != lastKey) {
+                Integer id = ids.get(key);
+                if (id == null) {
+                    id = keys.size();
+                    ids.put(key, id);
+                    keys.add(new int[] {v.group[r], c, v.level[r]});
+                }
+                lastKey = key;
+                lastId = id;
             }
-            cell.n++;
+            cellOf[r] = lastId;
+        }
+        int cells = keys.size();
+        int[] start = new int[cells + 1];
+        for (int id : cellOf) {
+            if (id >= 0) {
+                start[id + 1]++;
+            }
+        }
+        for (int c = 0; c < cells; c++) {
+            start[c + 1] += start[c];
+        }
+        int[] order = new int[start[cells]];
+        int[] fill = start.clone();
+        for (int r = 0; r < v.rows; r++) {
+            if (cellOf[r] >= 0) {
+                order[fill[cellOf[r]]++] = r;
+            }
+        }
+        List<Cell> out = new ArrayList<>(cells);
+        double[][] z = new double[p][];
+        for (int id = 0; id < cells; id++) {
+            int[] k = keys.get(id);
+            Cell cell = new Cell(k[0], k[1], k[2], p);
+            int m = start[id + 1] - start[id];
+            cell.n = m;
             for (int j = 0; j < p; j++) {
-                z[j] = v.shifted[j][r];
-                cell.sum[j] += z[j];
+                double[] col = v.shifted[j];
+                double[] zj = z[j] == null || z[j].length < m ? new double[m] : z[j];
+                for (int t = 0; t < m; t++) {
+                    zj[t] = col[order[start[id] + t]];
+                }
+                z[j] = zj;
             }
-            double[] cross = cell.cross;
             for (int a = 0; a < p; a++) {
-                double za = z[a];
-                int base = a * p;
+                cell.sum[a] = Kernels.sum(z[a], m);
                 for (int b = a; b < p; b++) {
-                    cross[base + b] += za * z[b];
+                    double d = Kernels.dot(z[a], z[b], m);
+                    cell.cross[a * p + b] = d;
+                    cell.cross[b * p + a] = d;
                 }
             }
+            out.add(cell);
         }
-        for (Cell cell : cells) {
-            for (int a = 0; a < p; a++) {
-                for (int b = a + 1; b < p; b++) {
-                    cell.cross[b * p + a] = cell.cross[a * p + b];
-                }
-            }
-        }
-        return new ClusterMoments(p, cells);
+        return new ClusterMoments(p, out);
     }
 
     /** The (cluster, level) cells of the usable rows of {@code mom}, in first-appearance order. */

@@ -1,0 +1,24 @@
+package org.forkscape.run;
+
+import java.time.Instant;
+
+/**
+ * One run as recorded in its folder.
+ *
+ * @param id             generated identifier, also the folder name
+ * @param analysisId     the analysis it belongs to
+ * @param state          where it stands
+ * @param created        when it was asked for
+ * @param started        when fitting began, or {@code null}
+ * @param ended          when it finished, failed or was cancelled, or {@code null}
+ * @param specifications specifications it fits (0 until known)
+ * @param problemWhere   for a failed run, the JSON path, file or line the problem concerns ({@code ""} if none)
+ * @param problem        for a failed run, the message; otherwise {@code ""}
+ */
+public record StoredRun(String id, String analysisId, RunState state, Instant created, Instant started, Instant ended,
+        long specifications, String problemWhere, String problem) {
+
+    public StoredRun with(RunState newState) {
+        return new StoredRun(id, analysisId, newState, created, started, ended, specifications, problemWhere, problem);
+    }
+}

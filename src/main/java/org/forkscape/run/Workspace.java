@@ -1,0 +1,384 @@
+package org.forkscape.run;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.DirectoryStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.security.SecureRandom;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.time.format.DateTimeFormatter;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.regex.Pattern;
+import java.util.stream.Stream;
+import tools.jackson.databind.JsonNode;
+
+/**
+ * The analyses kept on disk, in plain files that can be copied as they are into a replication package:
+ *
+ * <pre>
+ * WORKSPACE/analyses/ID/analysis.json   title, the uploaded file's name (shown, never a path), size, created, demo
+ * WORKSPACE/analyses/ID/data.csv        the uploaded data, byte for byte
+ * WORKSPACE/analyses/ID/plan.json       the plan being edited (absent until first saved)
+ * WORKSPACE/analyses/ID/runs/RUN/plan.json            the plan exactly as run; like ID/plan.json it names
+ *                                                    "data": "data.csv" and is read against ID/
+ * WORKSPACE/analyses/ID/runs/RUN/status               one word: queued, running, finished, failed, cancelled,
+ *                                                    interrupted
+ * WORKSPACE/analyses/ID/runs/RUN/run.json             created/started/ended times, specifications, the problem
+ * WORKSPACE/analyses/ID/runs/RUN/run.log              one line per event
+ * WORKSPACE/analyses/ID/runs/RUN/specifications.csv   finished runs only
+ * WORKSPACE/analyses/ID/runs/RUN/summary.json         finished runs only
+ * </pre>
+ *
+ * <p>Identifiers are generated here ({@code yyyyMMdd-HHmmss-} and six random letters or digits) and every
+ * identifier that comes in is checked against that shape before a path is built from it, so a request
+ * cannot name a file outside the workspace. Every file is written through {@link AtomicFiles}; a new
+ * analysis is assembled in a hidden folder and moved into place whole. One server owns a workspace at a
+ * time: at start it marks the runs a stopped server left queued or running as interrupted.
+ */
+public final class Workspace {
+    public static final String ANALYSIS = "analysis.json";
+    public static final String DATA = "data.csv";
+    public static final String PLAN = "plan.json";
+    public static final String STATUS = "status";
+    public static final String RUN_RECORD = "run.json";
+    public static final String LOG = "run.log";
+
+    private static final Pattern ID = Pattern.compile("[0-9]{8}-[0-9]{6}-[0-9a-z]{6}");
+    private static final DateTimeFormatter STAMP = DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
+            .withZone(ZoneOffset.UTC);
+    private static final String ALPHABET = "0123456789abcdefghijklmnopqrstuvwxyz";
+
+    private final Path root;
+    private final Path analyses;
+    private final Path incoming;
+    private final SecureRandom random = new SecureRandom();
+
+    /** Opens (creating if needed) the workspace folder and clears what an interrupted upload left behind. */
+    public Workspace(Path root) {
+        this.root = root.toAbsolutePath().normalize();
+        this.analyses = this.root.resolve("analyses");
+        this.incoming = this.root.resolve(".incoming");
+        try {
+            Files.createDirectories(analyses);
+            Files.createDirectories(incoming);
+            try (Stream<Path> left = Files.list(incoming)) {
+                for (Path p : left.toList()) {
+                    deleteTree(p);
+                }
+            }
+            try (Stream<Path> half = Files.list(analyses)) {
+                for (Path p : half.filter(p -> p.getFileName().toString().startsWith(".")).toList()) {
+                    deleteTree(p);
+                }
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot open the workspace " + this.root + ": " + e.getMessage(), e);
+        }
+    }
+
+    public Path root() {
+        return root;
+    }
+
+    /** Whether {@code id} has the shape of a generated identifier (and so is safe in a path). */
+    public static boolean isId(String id) {
+        return id != null && ID.matcher(id).matches();
+    }
+
+    /** A fresh empty file for an upload in progress, on the workspace's file system; delete it if unused. */
+    public Path newIncomingFile() {
+        try {
+            return Files.createTempFile(incoming, "upload-", ".csv");
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot write in the workspace " + root + ": " + e.getMessage(), e);
+        }
+    }
+
+    /**
+     * Creates an analysis from a data file already checked by the caller; {@code data} (from
+     * {@link #newIncomingFile()} or anywhere on the same file system) is moved into it.
+     */
+    public StoredAnalysis createAnalysis(String title, String dataName, int rows, int columns, Path data,
+            boolean demo) {
+        Instant now = Instant.now();
+        Path staging = analyses.resolve("." + randomLetters(12));
+        try {
+            Files.createDirectories(staging);
+            Files.move(data, staging.resolve(DATA), StandardCopyOption.REPLACE_EXISTING);
+            for (int attempt = 0; ; attempt++) {
+                String id = STAMP.format(now) + "-" + randomLetters(6);
+                StoredAnalysis a = new StoredAnalysis(id, title, dataName, rows, columns, now, demo);
+                Json.write(staging.resolve(ANALYSIS), analysisJson(a));
+                Path target = analyses.resolve(id);
+                if (Files.exists(target) && attempt < 10) {
+                    continue;
+                }
+                moveFolder(staging, target);
+                return a;
+            }
+        } catch (IOException e) {
+            deleteQuietly(staging);
+            throw new UncheckedIOException("cannot create an analysis in " + root + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Every analysis, newest first. */
+    public List<StoredAnalysis> analyses() {
+        List<StoredAnalysis> out = new ArrayList<>();
+        for (Path p : children(analyses)) {
+            String id = p.getFileName().toString();
+            if (isId(id)) {
+                readAnalysis(id).ifPresent(out::add);
+            }
+        }
+        out.sort(Comparator.comparing(StoredAnalysis::created).thenComparing(StoredAnalysis::id).reversed());
+        return out;
+    }
+
+    public Optional<StoredAnalysis> analysis(String id) {
+        return isId(id) ? readAnalysis(id) : Optional.empty();
+    }
+
+    /** The analysis folder: plans name {@code data.csv} and are read against it. */
+    public Path analysisFolder(String analysisId) {
+        return analyses.resolve(checked(analysisId));
+    }
+
+    public Path dataFile(String analysisId) {
+        return analysisFolder(analysisId).resolve(DATA);
+    }
+
+    /** The plan being edited, if one was saved. */
+    public Optional<String> plan(String analysisId) {
+        return readText(analysisFolder(analysisId).resolve(PLAN));
+    }
+
+    public void savePlan(String analysisId, String planText) {
+        requireAnalysis(analysisId);
+        AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
+    }
+
+    /** Records a new queued run with the plan it will run. */
+    public StoredRun createRun(String analysisId, String planText) {
+        requireAnalysis(analysisId);
+        Path runs = analysisFolder(analysisId).resolve("runs");
+        Instant now = Instant.now();
+        try {
+            Files.createDirectories(runs);
+            for (int attempt = 0; ; attempt++) {
+                String id = STAMP.format(now) + "-" + randomLetters(6);
+                Path folder = runs.resolve(id);
+                try {
+                    Files.createDirectory(folder);
+                } catch (java.nio.file.FileAlreadyExistsException e) {
+                    if (attempt < 10) {
+                        continue;
+                    }
+                    throw e;
+                }
+                AtomicFiles.writeString(folder.resolve(PLAN), planText);
+                StoredRun run = new StoredRun(id, analysisId, RunState.QUEUED, now, null, null, 0, "", "");
+                update(run);
+                log(run, "queued");
+                return run;
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot record a run in " + root + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Writes a run's record and its status word. */
+    public void update(StoredRun run) {
+        Path folder = runFolder(run.analysisId(), run.id());
+        Json.write(folder.resolve(RUN_RECORD), runJson(run));
+        AtomicFiles.writeString(folder.resolve(STATUS), run.state().word() + "\n");
+    }
+
+    /** Appends a time-stamped line to the run's log (the whole file is rewritten atomically). */
+    public synchronized void log(StoredRun run, String line) {
+        Path file = runFolder(run.analysisId(), run.id()).resolve(LOG);
+        String before = readText(file).orElse("");
+        AtomicFiles.writeString(file, before + Instant.now() + " " + line.replace('\n', ' ') + "\n");
+    }
+
+    public Path runFolder(String analysisId, String runId) {
+        return analysisFolder(analysisId).resolve("runs").resolve(checked(runId));
+    }
+
+    public Optional<StoredRun> run(String analysisId, String runId) {
+        if (!isId(analysisId) || !isId(runId)) {
+            return Optional.empty();
+        }
+        return readRun(analysisId, runId);
+    }
+
+    /** The runs of an analysis, newest first. */
+    public List<StoredRun> runs(String analysisId) {
+        List<StoredRun> out = new ArrayList<>();
+        for (Path p : children(analysisFolder(analysisId).resolve("runs"))) {
+            String id = p.getFileName().toString();
+            if (isId(id)) {
+                readRun(analysisId, id).ifPresent(out::add);
+            }
+        }
+        out.sort(Comparator.comparing(StoredRun::created).thenComparing(StoredRun::id).reversed());
+        return out;
+    }
+
+    /** The plan a run used. */
+    public String runPlan(String analysisId, String runId) {
+        return readText(runFolder(analysisId, runId).resolve(PLAN))
+                .orElseThrow(() -> new IllegalStateException("run " + runId + " has no plan.json"));
+    }
+
+    /**
+     * Marks every run left queued or running by a server that stopped as interrupted; returns how many.
+     * Call once when the server that owns this workspace starts.
+     */
+    public int markInterrupted() {
+        int n = 0;
+        for (StoredAnalysis a : analyses()) {
+            for (StoredRun r : runs(a.id())) {
+                if (!r.state().ended()) {
+                    StoredRun stopped = r.with(RunState.INTERRUPTED);
+                    update(stopped);
+                    log(stopped, "interrupted: the server stopped before the run ended");
+                    n++;
+                }
+            }
+        }
+        return n;
+    }
+
+    private Optional<StoredAnalysis> readAnalysis(String id) {
+        return readText(analyses.resolve(id).resolve(ANALYSIS)).map(text -> {
+            JsonNode n = Json.MAPPER.readTree(text);
+            return new StoredAnalysis(id, n.path("title").asString(""), n.path("data_name").asString(""),
+                    n.path("rows").asInt(0), n.path("columns").asInt(0), Instant.parse(n.path("created").asString()),
+                    n.path("demo").asBoolean(false));
+        });
+    }
+
+    private Optional<StoredRun> readRun(String analysisId, String runId) {
+        Path folder = analyses.resolve(analysisId).resolve("runs").resolve(runId);
+        Optional<String> record = readText(folder.resolve(RUN_RECORD));
+        if (record.isEmpty()) {
+            return Optional.empty();
+        }
+        JsonNode n = Json.MAPPER.readTree(record.get());
+        RunState state = readText(folder.resolve(STATUS)).map(RunState::of).orElse(RunState.INTERRUPTED);
+        return Optional.of(new StoredRun(runId, analysisId, state, instant(n, "created"), instant(n, "started"),
+                instant(n, "ended"), n.path("specifications").asLong(0), n.path("problem_where").asString(""),
+                n.path("problem").asString("")));
+    }
+
+    private static Instant instant(JsonNode n, String key) {
+        JsonNode v = n.get(key);
+        return v == null || v.isNull() ? null : Instant.parse(v.asString());
+    }
+
+    private static Map<String, Object> analysisJson(StoredAnalysis a) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("id", a.id());
+        m.put("title", a.title());
+        m.put("data_name", a.dataName());
+        m.put("rows", a.rows());
+        m.put("columns", a.columns());
+        m.put("created", a.created().toString());
+        m.put("demo", a.demo());
+        return m;
+    }
+
+    private static Map<String, Object> runJson(StoredRun r) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("id", r.id());
+        m.put("analysis", r.analysisId());
+        m.put("state", r.state().word());
+        m.put("created", r.created().toString());
+        m.put("started", r.started() == null ? null : r.started().toString());
+        m.put("ended", r.ended() == null ? null : r.ended().toString());
+        m.put("specifications", r.specifications());
+        m.put("problem_where", r.problemWhere());
+        m.put("problem", r.problem());
+        return m;
+    }
+
+    private void requireAnalysis(String analysisId) {
+        if (analysis(analysisId).isEmpty()) {
+            throw new IllegalArgumentException("no analysis " + analysisId);
+        }
+    }
+
+    private static String checked(String id) {
+        if (!isId(id)) {
+            throw new IllegalArgumentException("not an identifier of this workspace: " + id);
+        }
+        return id;
+    }
+
+    private String randomLetters(int n) {
+        StringBuilder b = new StringBuilder(n);
+        for (int i = 0; i < n; i++) {
+            b.append(ALPHABET.charAt(random.nextInt(ALPHABET.length())));
+        }
+        return b.toString();
+    }
+
+    private static Optional<String> readText(Path file) {
+        try {
+            return Optional.of(Files.readString(file, StandardCharsets.UTF_8));
+        } catch (java.nio.file.NoSuchFileException e) {
+            return Optional.empty();
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot read " + file + ": " + e.getMessage(), e);
+        }
+    }
+
+    private static List<Path> children(Path folder) {
+        if (!Files.isDirectory(folder)) {
+            return List.of();
+        }
+        List<Path> out = new ArrayList<>();
+        try (DirectoryStream<Path> s = Files.newDirectoryStream(folder)) {
+            s.forEach(out::add);
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot list " + folder + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    private static void moveFolder(Path from, Path to) throws IOException {
+        try {
+            Files.move(from, to, StandardCopyOption.ATOMIC_MOVE);
+        } catch (AtomicMoveNotSupportedException e) {
+            Files.move(from, to);
+        }
+    }
+
+    private static void deleteTree(Path p) throws IOException {
+        if (Files.isDirectory(p, java.nio.file.LinkOption.NOFOLLOW_LINKS)) {
+            for (Path c : children(p)) {
+                deleteTree(c);
+            }
+        }
+        Files.deleteIfExists(p);
+    }
+
+    private static void deleteQuietly(Path p) {
+        try {
+            deleteTree(p);
+        } catch (IOException ignored) {
+            // a hidden staging folder; the next start removes it
+        }
+    }
+}

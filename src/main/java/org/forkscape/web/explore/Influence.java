@@ -1,0 +1,39 @@
+package org.forkscape.web.explore;
+
+import java.util.List;
+
+/**
+ * What moves the estimate within a set of specifications: per factor, the estimates at each level side
+ * by side and the factor's share of the variance of the estimates, and a plain sentence about where the
+ * share significant in the dominant sign falls below (or reaches) one half.
+ *
+ * @param factors        one entry per factor, in plan order
+ * @param interactions   1 minus the summed variance shares: interactions between factors (and, in a set
+ *                       that is not a full factorial, the overlap of the factors' shares)
+ * @param dominantSign   {@code positive} or {@code negative}: the sign of most estimates
+ * @param shareDominant  share of the set significant in that sign
+ * @param sentence       the finding in words
+ */
+public record Influence(List<FactorInfluence> factors, double interactions, String dominantSign, double shareDominant,
+        String sentence) {
+
+    public Influence {
+        factors = List.copyOf(factors);
+    }
+
+    /**
+     * One factor: {@code varianceShare} = between-level sum of squares of the estimates over their total
+     * sum of squares (in a full factorial, its orthogonal main effect).
+     */
+    public record FactorInfluence(int factor, String name, String decision, double varianceShare,
+            List<LevelEstimates> levels) {
+        public FactorInfluence {
+            levels = List.copyOf(levels);
+        }
+    }
+
+    /** The estimates of the specifications at one level of a factor (NaN quantities when none). */
+    public record LevelEstimates(int level, String label, int count, double mean, double lowerQuartile, double median,
+            double upperQuartile, double shareSignificantPositive, double shareSignificantNegative) {
+    }
+}

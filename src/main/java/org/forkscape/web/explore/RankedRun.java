@@ -1,0 +1,214 @@
+package org.forkscape.web.explore;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunResult;
+
+/**
+ * A run's fitted specifications in order of their key estimate, column by column, built once per run so
+ * that every filter, summary and reduction afterwards is a sequential pass over primitive arrays (no
+ * object per specification). Position {@code r} in these arrays is the specification's <em>rank</em>;
+ * ties keep the run's order. Immutable after construction and safe to share between requests.
+ */
+public final class RankedRun {
+    private final RunResult run;
+    private final int size;
+    private final int[] slot;
+    private final double[] estimate;
+    private final double[] low;
+    private final double[] high;
+    /** +1 significant and positive, -1 significant and negative, 0 otherwise, at the plan's level. */
+    private final byte[] significance;
+    private final List<Factor> factors;
+    private final int[][] level;
+    private final List<GridRow> gridRows;
+    private final Map<String, Integer> unfittedReasons;
+
+    /**
+     * A row of the choice grid: one alternative of a decision, or one optional control (marked where it
+     * is in).
+     */
+    public record GridRow(int factor, int level, String label, String group) {
+    }
+
+    private RankedRun(RunResult run) {
+        this.run = run;
+        ResultTable r = run.results();
+        double confidence = run.plan().confidence();
+        double alpha = run.plan().alpha();
+        int fitted = 0;
+        Map<String, Integer> reasons = new LinkedHashMap<>();
+        for (int s = 0; s < r.size(); s++) {
+            if (r.fitted(s)) {
+                fitted++;
+            } else {
+                reasons.merge(r.status(s), 1, Integer::sum);
+            }
+        }
+        this.unfittedReasons = java.util.Collections.unmodifiableMap(reasons);
+        this.size = fitted;
+        this.slot = rankOrder(r, fitted);
+        estimate = new double[size];
+        low = new double[size];
+        high = new double[size];
+        significance = new byte[size];
+        for (int k = 0; k < size; k++) {
+            int s = slot[k];
+            double b = r.estimate(s);
+            estimate[k] = b;
+            low[k] = r.ciLow(s, confidence);
+            high[k] = r.ciHigh(s, confidence);
+            significance[k] = (byte) (r.pValue(s) < alpha ? (b > 0 ? 1 : b < 0 ? -1 : 0) : 0);
+        }
+        this.factors = factorsOf(run.plan().decisions());
+        this.level = new int[factors.size()][size];
+        SpecificationSpace space = run.models().space();
+        long[] choices = new long[space.decisionCount()];
+        for (int k = 0; k < size; k++) {
+            space.decode(r.specIndex(slot[k]), choices);
+            for (Factor f : factors) {
+                long c = choices[f.decisionIndex()];
+                level[f.id()][k] = f.isControl() ? (int) (c >>> f.controlBit() & 1L) : (int) c;
+            }
+        }
+        List<GridRow> rows = new ArrayList<>();
+        for (Factor f : factors) {
+            if (f.isControl()) {
+                rows.add(new GridRow(f.id(), 1, f.control(), f.decision()));
+            } else {
+                for (int l = 0; l < f.levels().size(); l++) {
+                    rows.add(new GridRow(f.id(), l, f.levels().get(l), f.decision()));
+                }
+            }
+        }
+        this.gridRows = List.copyOf(rows);
+    }
+
+    public static RankedRun of(RunResult run) {
+        return new RankedRun(run);
+    }
+
+    /**
+     * Fitted slots in order of estimate. Sorting the estimates and placing each slot at its value's first
+     * position plus the ties already placed gives a stable order without boxing a million indices.
+     */
+    private static int[] rankOrder(ResultTable r, int fitted) {
+        double[] sorted = new double[fitted];
+        int m = 0;
+        for (int s = 0; s < r.size(); s++) {
+            if (r.fitted(s)) {
+                sorted[m++] = r.estimate(s);
+            }
+        }
+        Arrays.sort(sorted);
+        int[] placed = new int[fitted];
+        int[] order = new int[fitted];
+        for (int s = 0; s < r.size(); s++) {
+            if (r.fitted(s)) {
+                int first = firstAtLeast(sorted, r.estimate(s));
+                order[first + placed[first]++] = s;
+            }
+        }
+        return order;
+    }
+
+    private static int firstAtLeast(double[] sorted, double v) {
+        int lo = 0;
+        int hi = sorted.length;
+        while (lo < hi) {
+            int mid = (lo + hi) >>> 1;
+            if (Double.compare(sorted[mid], v) < 0) {
+                lo = mid + 1;
+            } else {
+                hi = mid;
+            }
+        }
+        return lo;
+    }
+
+    private static List<Factor> factorsOf(List<Decision> decisions) {
+        List<Factor> out = new ArrayList<>();
+        for (int d = 0; d < decisions.size(); d++) {
+            Decision decision = decisions.get(d);
+            if (decision instanceof Decision.Controls c && c.allSubsets()) {
+                for (int j = 0; j < c.optional().size(); j++) {
+                    out.add(new Factor(out.size(), c.name(), d, c.optional().get(j), j, List.of("without", "with")));
+                }
+            } else {
+                List<String> labels = new ArrayList<>();
+                for (long a = 0; a < decision.alternativeCount(); a++) {
+                    labels.add(decision.label(a));
+                }
+                out.add(new Factor(out.size(), decision.name(), d, null, -1, labels));
+            }
+        }
+        return List.copyOf(out);
+    }
+
+    public RunResult run() {
+        return run;
+    }
+
+    /** Number of fitted specifications (the ranks are 0..size-1). */
+    public int size() {
+        return size;
+    }
+
+    /** The result-table slot of the specification at a rank. */
+    public int slot(int rank) {
+        return slot[rank];
+    }
+
+    public double estimate(int rank) {
+        return estimate[rank];
+    }
+
+    public double low(int rank) {
+        return low[rank];
+    }
+
+    public double high(int rank) {
+        return high[rank];
+    }
+
+    /** +1 significant positive, -1 significant negative, 0 not significant. */
+    public int significance(int rank) {
+        return significance[rank];
+    }
+
+    public List<Factor> factors() {
+        return factors;
+    }
+
+    /** The level of factor {@code f} at each rank; shared, do not modify. */
+    int[] levels(int f) {
+        return level[f];
+    }
+
+    public int level(int f, int rank) {
+        return level[f][rank];
+    }
+
+    public List<GridRow> gridRows() {
+        return gridRows;
+    }
+
+    /** Specifications that could not be fitted, counted by reason. */
+    public Map<String, Integer> unfittedReasons() {
+        return unfittedReasons;
+    }
+
+    double[] estimates() {
+        return estimate;
+    }
+
+    byte[] significances() {
+        return significance;
+    }
+}

@@ -21,4 +21,14 @@ public record StoredRun(String id, String analysisId, RunState state, Instant cr
     public StoredRun with(RunState newState) {
         return new StoredRun(id, analysisId, newState, created, started, ended, specifications, problemWhere, problem);
     }
+
+    /** The run as it starts fitting {@code count} specifications. */
+    public StoredRun starting(Instant at, long count) {
+        return new StoredRun(id, analysisId, RunState.RUNNING, created, at, null, count, "", "");
+    }
+
+    /** The run as it ends; {@code where} and {@code why} describe a failure and are empty otherwise. */
+    public StoredRun ending(RunState finalState, Instant at, String where, String why) {
+        return new StoredRun(id, analysisId, finalState, created, started, at, specifications, where, why);
+    }
 }

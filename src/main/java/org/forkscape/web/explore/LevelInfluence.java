@@ -80,10 +80,16 @@ public final class LevelInfluence implements InfluenceAnalysis {
                 }
             }
             double between = 0;
+            int present = 0;
             for (int l = 0; l < levels; l++) {
                 if (count[l] > 0) {
                     between += sum[l] * sum[l] / count[l];
+                    present++;
                 }
+            }
+            if (present < 2) {
+                // one level left: the factor cannot move the estimate (the sum is rounding noise)
+                between = 0;
             }
             double share = total > 0 ? between / total : Double.NaN;
             summed += total > 0 ? share : 0;

@@ -1,0 +1,148 @@
+// Presentation of the curve: axes, reference lines, interval bars, group separators. No data here; the
+// plugins read the shared state that curve-actions.js fills.
+import { LEFT_AXIS, RIGHT_PAD } from '../chart-setup.js';
+import { PALETTE, SIGNIFICANCE, fmt, num } from '../helpers.js';
+import { highlightPlugin, positionTicks, xScale } from './highlight.js';
+
+/** Vertical interval bars under the points, in a softer tone of each point's class. */
+function intervalsPlugin(state) {
+  return {
+    id: 'intervalBars',
+    beforeDatasetsDraw(chart) {
+      const shaped = state.shaped;
+      if (!shaped || !shaped.intervals) return;
+      const { ctx, scales } = chart;
+      const { low, high, significance } = shaped.intervals;
+      const step = (scales.x.getPixelForValue(1) - scales.x.getPixelForValue(0));
+      ctx.save();
+      ctx.lineWidth = Math.max(0.6, Math.min(1.6, step * 0.5));
+      for (const s of SIGNIFICANCE) {
+        ctx.strokeStyle = s.soft;
+        ctx.beginPath();
+        for (let i = 0; i < low.length; i++) {
+          if (significance[i] !== s.value) continue;
+          const x = scales.x.getPixelForValue(i);
+          ctx.moveTo(x, scales.y.getPixelForValue(num(low[i])));
+          ctx.lineTo(x, scales.y.getPixelForValue(num(high[i])));
+        }
+        ctx.stroke();
+      }
+      ctx.restore();
+    },
+  };
+}
+
+/** The zero line (solid) and the set's median (dashed, labelled), drawn under the data. */
+function referencePlugin(state) {
+  return {
+    id: 'referenceLines',
+    beforeDatasetsDraw(chart) {
+      const { ctx, chartArea, scales } = chart;
+      const line = (y, dash, color, width) => {
+        const py = scales.y.getPixelForValue(y);
+        if (py < chartArea.top || py > chartArea.bottom) return null;
+        ctx.save();
+        ctx.setLineDash(dash);
+        ctx.strokeStyle = color;
+        ctx.lineWidth = width;
+        ctx.beginPath();
+        ctx.moveTo(chartArea.left, py);
+        ctx.lineTo(chartArea.right, py);
+        ctx.stroke();
+        ctx.restore();
+        return py;
+      };
+      line(0, [], PALETTE.ink, 1);
+      const median = state.view ? num(state.view.summary.median) : NaN;
+      if (Number.isFinite(median)) {
+        const py = line(median, [6, 4], PALETTE.inkSoft, 1.2);
+        if (py !== null) {
+          ctx.save();
+          ctx.fillStyle = PALETTE.inkSoft;
+          ctx.font = `12px ${chart.options.font?.family || 'sans-serif'}`;
+          ctx.textAlign = 'left';
+          ctx.textBaseline = 'bottom';
+          ctx.fillText(`median ${fmt(median)}`, chartArea.left + 6, py - 3);
+          ctx.restore();
+        }
+      }
+    },
+  };
+}
+
+/** In a grouped order, a rule between groups and each group's label at the top. */
+function groupsPlugin(state) {
+  return {
+    id: 'groupSeparators',
+    afterDatasetsDraw(chart) {
+      const groups = state.view ? state.view.groups : [];
+      if (!groups || groups.length === 0) return;
+      const { ctx, chartArea, scales } = chart;
+      ctx.save();
+      ctx.font = `600 12px ${chart.options.font?.family || 'sans-serif'}`;
+      ctx.textBaseline = 'top';
+      ctx.textAlign = 'center';
+      groups.forEach((g, i) => {
+        const left = scales.x.getPixelForValue(g.from - 0.5);
+        const right = scales.x.getPixelForValue(g.to - 0.5);
+        if (i > 0) {
+          ctx.strokeStyle = PALETTE.inkSoft;
+          ctx.setLineDash([2, 3]);
+          ctx.beginPath();
+          ctx.moveTo(left, chartArea.top);
+          ctx.lineTo(left, chartArea.bottom);
+          ctx.stroke();
+          ctx.setLineDash([]);
+        }
+        ctx.fillStyle = PALETTE.ink;
+        const text = shorten(ctx, g.label, right - left - 6);
+        if (text) ctx.fillText(text, (left + right) / 2, chartArea.top + 4);
+      });
+      ctx.restore();
+    },
+  };
+}
+
+function shorten(ctx, text, width) {
+  if (width < 20) return '';
+  if (ctx.measureText(text).width <= width) return text;
+  let t = text;
+  while (t.length > 1 && ctx.measureText(`${t}\u2026`).width > width) t = t.slice(0, -1);
+  return `${t}\u2026`;
+}
+
+export function curveConfig(state, yTitle, onHover, onClick) {
+  return {
+    type: 'scatter',
+    data: { datasets: [] },
+    options: {
+      layout: { padding: { right: RIGHT_PAD, top: 8 } },
+      interaction: { mode: 'x', intersect: false },
+      events: ['mousemove', 'mouseout', 'click'],
+      onHover,
+      onClick,
+      scales: {
+        x: {
+          ...xScale(1),
+          title: { display: true, text: 'Specifications, ordered by estimate' },
+          grid: { display: false },
+          border: { color: PALETTE.ink },
+          afterBuildTicks(scale) {
+            scale.ticks = positionTicks(state.view ? state.view.curve.count : 1);
+          },
+          ticks: { autoSkip: false, callback: (v) => (Number.isInteger(v) ? (v + 1).toLocaleString('en') : '') },
+        },
+        y: {
+          type: 'linear',
+          title: { display: true, text: yTitle },
+          grid: { color: 'rgba(0, 0, 0, 0.06)' },
+          border: { color: PALETTE.ink },
+          afterFit(scale) {
+            scale.width = LEFT_AXIS;
+          },
+        },
+      },
+    },
+    plugins: [referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
+  };
+}

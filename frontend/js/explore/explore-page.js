@@ -1,0 +1,472 @@
+// The explorer page: filter panel, summary cards, curve and choice grid, influence, full fits, exports.
+import { Chart, drawMark } from '../chart-setup.js';
+import { getJson, ApiError } from '../api.js';
+import { SIGNIFICANCE, PALETTE, append, clear, count, debounce, download, el, fmt, fmtP, num, pct } from '../helpers.js';
+import { curveConfig } from './curve-config.js';
+import { showSet, redraw } from './curve-actions.js';
+import { gridRows } from './grid-data.js';
+import { gridConfig } from './grid-config.js';
+import { showGrid, sizeGrid } from './grid-actions.js';
+import { positionAt } from './highlight.js';
+import { influenceConfig } from './influence-config.js';
+import { showInfluence } from './influence-actions.js';
+
+const root = document.getElementById('explorer');
+const analysis = root.dataset.analysis;
+const run = root.dataset.run;
+const api = `/api/analyses/${encodeURIComponent(analysis)}/runs/${encodeURIComponent(run)}`;
+
+const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null };
+const influenceState = { influence: null };
+const dropped = new Set();
+let sort = 'estimate';
+let inFlight = null;
+let detailsFor = null;
+
+const setCount = document.getElementById('set-count');
+
+function query(extra = {}) {
+  const params = new URLSearchParams({ drop: [...dropped].join(','), sort, ...extra });
+  return params.toString();
+}
+
+function confidenceLabel() {
+  return `${Math.round(state.layout.confidence * 100)}%`;
+}
+
+// ---- charts
+
+let curveChart;
+let gridChart;
+let influenceChart;
+
+function onHover(event, _elements, chart) {
+  if (!state.view || state.view.curve.count === 0) return;
+  const p = positionAt(chart, event, state.view.curve.count);
+  if (p !== state.highlight) {
+    state.highlight = p;
+    redraw(curveChart, gridChart);
+    if (p !== null) details(p);
+  }
+  chart.canvas.style.cursor = p === null ? 'default' : 'pointer';
+}
+
+function onClick(event, _elements, chart) {
+  if (!state.view || state.view.curve.count === 0) return;
+  const p = positionAt(chart, event, state.view.curve.count);
+  if (p !== null) openFit(p);
+}
+
+function makeCharts() {
+  const layout = state.layout;
+  const yTitle = `Estimate: ${layout.keyPredictor} on ${layout.outcome}`;
+  curveChart = new Chart(document.getElementById('curve-canvas'), curveConfig(state, yTitle, onHover, onClick));
+  state.grid = gridRows(layout);
+  sizeGrid(document.getElementById('grid-box'), state.grid.rows);
+  gridChart = new Chart(document.getElementById('grid-canvas'), gridConfig(state, onHover, onClick));
+  influenceChart = new Chart(document.getElementById('influence-canvas'),
+    influenceConfig(influenceState, `Estimate: ${layout.keyPredictor} on ${layout.outcome}`));
+  for (const canvas of [curveChart.canvas, gridChart.canvas]) {
+    canvas.addEventListener('mouseleave', () => {
+      state.highlight = null;
+      redraw(curveChart, gridChart);
+    });
+  }
+}
+
+// ---- the set
+
+async function refresh() {
+  if (inFlight) inFlight.abort();
+  const controller = new AbortController();
+  inFlight = controller;
+  const width = Math.max(50, Math.round(curveChart.chartArea.right - curveChart.chartArea.left));
+  let view;
+  try {
+    view = await getJson(`${api}/curve?${query({ width })}`, controller.signal);
+  } catch (e) {
+    if (e.name === 'AbortError') return;
+    setCount.textContent = `The set could not be computed: ${e.message}`;
+    return;
+  }
+  inFlight = null;
+  state.view = view;
+  state.highlight = null;
+  detailsFor = null;
+  noDetails();
+  const ordered = sort === 'estimate' ? 'ordered by estimate'
+    : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
+  showSet(curveChart, state, `Specifications, ${ordered}`);
+  showGrid(gridChart, state);
+  showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence);
+  setCount.textContent = `Showing ${count(view.summary.count)} of ${count(view.total)} specifications`
+    + (view.summary.count === 0 ? ': no specification is left; tick an alternative again.' : '');
+  summaryCards(view.summary);
+  influenceTable(view.influence);
+  caption(view);
+  history.replaceState(null, '', `?${query()}`);
+}
+
+function factorName(id) {
+  const f = state.layout.factors[id];
+  return f.control ? `${f.name} in or out` : f.name;
+}
+
+function summaryCards(s) {
+  const box = clear(document.getElementById('summary-cards'));
+  const alpha = fmt(1 - state.layout.confidence, 2);
+  const card = (label, value, detail, id) => el('div', { class: 'summary-card', id },
+    el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
+  append(box,
+    card('Specifications', count(s.count), `of ${count(state.view.total)} fitted`, 'card-count'),
+    card('Median estimate', fmt(s.median), `interquartile range ${fmt(s.lowerQuartile)} to ${fmt(s.upperQuartile)}`,
+      'card-median'),
+    card('Significant, positive', pct(s.shareSignificantPositive), `p < ${alpha}, estimate above 0`, 'card-positive'),
+    card('Significant, negative', pct(s.shareSignificantNegative), `p < ${alpha}, estimate below 0`, 'card-negative'),
+    card('Positive estimate', pct(s.sharePositive), `range ${fmt(s.min)} to ${fmt(s.max)}`, 'card-sign'));
+}
+
+function caption(view) {
+  const c = document.getElementById('figure-caption');
+  const n = view.curve.count;
+  if (view.curve.mode === 'points') {
+    c.textContent = `Each of the ${count(n)} specifications is one mark: its key estimate with its ${confidenceLabel()} `
+      + 'confidence interval (vertical bar); the solid line is zero and the dashed line the median of the set. Below, '
+      + 'a mark in a row means the specification uses that alternative or control.';
+  } else {
+    const per = Math.round(n / view.curve.bins.from.length);
+    c.textContent = `${count(n)} specifications, about ${count(per)} per pixel column: the dark band spans their `
+      + `estimates, the pale band their ${confidenceLabel()} intervals, the line is the median estimate (solid where `
+      + 'most are significant, coloured by sign; dashed where most are not). Below, the shade of a row is the share of '
+      + 'the column\u2019s specifications that use the alternative.';
+  }
+}
+
+// ---- hover details and full fits
+
+function noDetails() {
+  const box = clear(document.getElementById('spec-details'));
+  box.append(el('p', { class: 'hint' }, 'No specification is selected. Point at one in the curve or the grid.'));
+}
+
+const details = debounce(async (position) => {
+  if (detailsFor === position) return;
+  detailsFor = position;
+  try {
+    const s = await getJson(`${api}/at?${query({ position })}`);
+    if (detailsFor === position) showDetails(s);
+  } catch (e) {
+    showProblem(document.getElementById('spec-details'), e);
+  }
+}, 40);
+
+function showDetails(s) {
+  const box = clear(document.getElementById('spec-details'));
+  const open = el('button', { type: 'button', class: 'small', id: 'open-fit' }, 'Open the full fit');
+  open.addEventListener('click', () => openFit(s.position));
+  append(box,
+    el('p', { class: 'pair' }, el('strong', {}, `Specification ${s.spec}`),
+      ` (position ${count(s.position + 1)} of ${count(state.view.curve.count)}) `, open),
+    el('dl', {}, s.choices.map((c) => el('div', {}, el('dt', {}, `${c.decision}:`), el('dd', {}, c.label)))),
+    el('p', { class: 'pair', id: 'spec-numbers' },
+      `Estimate ${fmt(s.estimate, 4)}, ${confidenceLabel()} interval ${fmt(s.ciLow, 4)} to ${fmt(s.ciHigh, 4)}, `
+      + `SE ${fmt(s.stdError, 3)}, p ${fmtP(s.pValue)}, N ${count(s.nObs)}, R\u00b2 ${fmt(s.r2, 3)}`
+      + (s.status !== 'ok' ? `; ${s.status}` : '')));
+}
+
+async function openFit(position) {
+  const dialog = document.getElementById('fit-dialog');
+  const body = clear(document.getElementById('fit-body'));
+  const title = document.getElementById('fit-title');
+  title.textContent = 'Specification';
+  append(body, el('p', {}, 'Fitting...'));
+  if (!dialog.open) dialog.showModal();
+  try {
+    const at = await getJson(`${api}/at?${query({ position })}`);
+    const view = await getJson(`${api}/specifications/${at.spec}/fit`);
+    title.textContent = `Specification ${view.spec}: every coefficient`;
+    fitBody(clear(body), view);
+  } catch (e) {
+    showProblem(clear(body), e);
+  }
+  document.getElementById('fit-close').focus();
+}
+
+function fitBody(body, view) {
+  const f = view.fit;
+  append(body, el('p', {}, view.choices.map((c) => `${c.decision} = ${c.label}`).join('; ')));
+  if (f.status !== 'ok') {
+    append(body, el('p', { class: 'problem' }, `No fit: ${f.status}`));
+    return;
+  }
+  const level = `${Math.round(view.confidence * 100)}%`;
+  const head = el('tr', {}, ['Term', 'Estimate', 'Std. error', 't', 'p', `${level} low`, `${level} high`]
+    .map((h) => el('th', { scope: 'col' }, h)));
+  const rows = f.coefficients.map((c) => el('tr', { class: c.role === 'key' ? 'key-row' : null },
+    el('th', { scope: 'row' }, c.role === 'key' ? `${c.term} (key predictor)` : c.term),
+    ...[fmt(c.estimate, 5), fmt(c.stdError, 4), fmt(c.statistic, 3), fmtP(c.pValue), fmt(c.ciLow, 4),
+      fmt(c.ciHigh, 4)].map((v) => el('td', { class: 'num' }, v))));
+  append(body,
+    el('div', { class: 'table-scroll' }, el('table', { class: 'fit-table', id: 'fit-table' },
+      el('caption', { class: 'visually-hidden' }, 'Coefficients'), el('thead', {}, head), el('tbody', {}, rows))),
+    el('div', { class: 'fit-facts' },
+      el('p', {}, `Standard errors: ${f.errors}`),
+      el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}, df = ${fmt(f.df, 6)}`),
+      el('p', {}, `R\u00b2 = ${fmt(f.r2, 4)}, adjusted R\u00b2 = ${fmt(f.adjustedR2, 4)}`),
+      el('p', {}, `Model F = ${fmt(f.modelF, 4)}, p ${fmtP(f.modelPValue)}`),
+      f.absorbed ? el('p', {}, `Fixed effects of ${f.absorbed} absorbed (${count(f.absorbedLevels)} levels)`) : null,
+      f.clusters > 0 ? el('p', {}, `${count(f.clusters)} clusters`) : null,
+      f.note ? el('p', {}, f.note) : null));
+}
+
+function showProblem(box, e) {
+  append(box, el('p', { class: 'problem' }, e instanceof ApiError && e.where ? `${e.where}: ${e.message}` : e.message));
+}
+
+// ---- keyboard
+
+function keyboard(event) {
+  if (!state.view || state.view.curve.count === 0) return;
+  const n = state.view.curve.count;
+  const step = event.shiftKey ? 10 : 1;
+  let p = state.highlight === null ? -1 : state.highlight;
+  if (event.key === 'ArrowRight') p = Math.min(n - 1, p + step);
+  else if (event.key === 'ArrowLeft') p = Math.max(0, (p < 0 ? n : p) - step);
+  else if (event.key === 'Home') p = 0;
+  else if (event.key === 'End') p = n - 1;
+  else if (event.key === 'Enter' && p >= 0) {
+    openFit(p);
+    event.preventDefault();
+    return;
+  } else if (event.key === 'Escape') p = null;
+  else return;
+  event.preventDefault();
+  state.highlight = p;
+  redraw(curveChart, gridChart);
+  if (p !== null) details(p);
+}
+
+// ---- panels built once from the layout
+
+function filterPanel(layout) {
+  const list = clear(document.getElementById('filter-list'));
+  const byDecision = new Map();
+  for (const f of layout.factors) {
+    if (!byDecision.has(f.decision)) byDecision.set(f.decision, []);
+    byDecision.get(f.decision).push(f);
+  }
+  for (const [decision, factors] of byDecision) {
+    const set = el('fieldset', {}, el('legend', {}, decision));
+    const required = layout.required[decision];
+    if (required) append(set, el('p', { class: 'required' }, `In every specification: ${required.join(', ')}`));
+    for (const f of factors) {
+      if (f.control) {
+        const row = el('div', { class: 'control-row' }, el('span', { class: 'name' }, f.name));
+        [1, 0].forEach((level) => row.append(checkbox(f, level, level === 1 ? 'with' : 'without')));
+        set.append(row);
+      } else {
+        f.levels.forEach((label, level) => set.append(checkbox(f, level, label)));
+      }
+    }
+    list.append(set);
+  }
+  document.getElementById('reset-filters').addEventListener('click', () => {
+    dropped.clear();
+    list.querySelectorAll('input[type=checkbox]').forEach((c) => { c.checked = true; });
+    refresh();
+  });
+}
+
+function checkbox(factor, level, label) {
+  const id = `f${factor.id}-l${level}`;
+  const key = `${factor.id}.${level}`;
+  const box = el('input', { type: 'checkbox', id, 'data-level': key });
+  box.checked = !dropped.has(key);
+  box.addEventListener('change', () => {
+    if (box.checked) dropped.delete(key);
+    else dropped.add(key);
+    refresh();
+  });
+  return el('label', { for: id }, box, el('span', {}, label),
+    el('span', { class: 'count', title: 'fitted specifications using it' }, count(factor.counts[level])));
+}
+
+function sortSelect(layout) {
+  const select = document.getElementById('sort');
+  select.append(el('option', { value: 'estimate' }, 'by estimate'));
+  for (const f of layout.factors) {
+    select.append(el('option', { value: `factor:${f.id}` },
+      f.control ? `grouped by ${f.name} (in or out)` : `grouped by ${f.name}`));
+  }
+  select.value = sort;
+  select.addEventListener('change', () => {
+    sort = select.value;
+    refresh();
+  });
+}
+
+function legend() {
+  const list = clear(document.getElementById('legend'));
+  for (const s of SIGNIFICANCE) {
+    const canvas = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
+    canvas.style.width = '14px';
+    canvas.style.height = '14px';
+    const ctx = canvas.getContext('2d');
+    drawMark(ctx, s.shape, s.filled, s.color, 14, 15, 8);
+    list.append(el('li', {}, canvas, `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
+      + `${fmt(1 - state.layout.confidence, 2)})`));
+  }
+  const bar = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
+  bar.style.width = '14px';
+  bar.style.height = '14px';
+  const b = bar.getContext('2d');
+  b.strokeStyle = PALETTE.neutralSoft;
+  b.lineWidth = 4;
+  b.beginPath();
+  b.moveTo(14, 2);
+  b.lineTo(14, 26);
+  b.stroke();
+  list.append(el('li', {}, bar, `${confidenceLabel()} confidence interval`));
+}
+
+function wholeRun(summary) {
+  const known = new Set(['specifications', 'fitted', 'failed', 'median_estimate', 'share_positive',
+    'share_significant_positive', 'share_significant_negative', 'confidence', 'specifications_in_plan', 'sampled',
+    'sample_seed', 'data_rows', 'refit_by_qr', 'seconds']);
+  const box = clear(document.getElementById('whole-run-cards'));
+  const card = (label, value, detail) => el('div', { class: 'summary-card' },
+    el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
+  const nul = summary.null;
+  if (nul && typeof nul === 'object') {
+    const draws = `${count(nul.draws)} null draws (${nul.method})`;
+    if ('p_median' in nul) box.append(card('Joint test: median estimate', `p ${fmtP(nul.p_median)}`, draws));
+    if ('p_share_significant' in nul) {
+      box.append(card('Joint test: share significant', `p ${fmtP(nul.p_share_significant)}`, draws));
+    }
+    if ('p_stouffer' in nul) box.append(card('Joint test: mean z (Stouffer)', `p ${fmtP(nul.p_stouffer)}`, draws));
+  }
+  const best = summary.best;
+  if (best && typeof best === 'object') {
+    box.append(card('Smallest p in the set', `p ${fmtP(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
+    box.append(card('The same, adjusted for choosing it', `p ${fmtP(best.p_adjusted)}`,
+      'share of null draws whose smallest p is as small'));
+  }
+  const bounds = summary.extreme_bounds;
+  if (bounds && typeof bounds === 'object') {
+    box.append(card('Extreme bounds', `${fmt(bounds.lower)} to ${fmt(bounds.upper)}`,
+      bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
+  }
+  const shown = new Set(['null', 'best', 'extreme_bounds', 'influence']);
+  for (const [key, value] of Object.entries(summary)) {
+    if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
+    const items = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object');
+    box.append(el('div', { class: 'summary-card' }, el('p', { class: 'label' }, key.replaceAll('_', ' ')),
+      el('dl', {}, items.map(([k, v]) => el('div', {}, el('dt', {}, `${k.replaceAll('_', ' ')}: `),
+        el('dd', {}, typeof v === 'number' ? fmt(v, 4) : String(v)))))));
+  }
+  document.getElementById('whole-run').hidden = box.childElementCount === 0;
+}
+
+function influenceTable(influence) {
+  document.getElementById('influence-sentence').textContent = influence.sentence;
+  const box = clear(document.getElementById('influence-table'));
+  if (influence.factors.length === 0) return;
+  const head = el('tr', {}, ['Decision or control', 'Share of the variance', 'Median estimate by alternative',
+    'Significant (+ / \u2212) by alternative'].map((h) => el('th', { scope: 'col' }, h)));
+  const rows = influence.factors.map((f) => {
+    const share = num(f.varianceShare);
+    const bar = el('span', { class: 'share-bar', 'aria-hidden': 'true' });
+    bar.style.width = `${Math.max(0, Math.min(1, Number.isFinite(share) ? share : 0)) * 80}px`;
+    return el('tr', {},
+      el('th', { scope: 'row' }, f.name === f.decision ? f.name : `${f.name} (${f.decision})`),
+      el('td', { class: 'num' }, bar, pct(share)),
+      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${fmt(l.median)} (${fmt(l.lowerQuartile)} to `
+        + `${fmt(l.upperQuartile)}), ${count(l.count)}`))),
+      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${pct(l.shareSignificantPositive)} / `
+        + `${pct(l.shareSignificantNegative)}`))));
+  });
+  rows.push(el('tr', {}, el('th', { scope: 'row' }, 'Interactions (the rest)'),
+    el('td', { class: 'num' }, pct(influence.interactions)), el('td', {}), el('td', {})));
+  box.append(el('table', { class: 'influence-table', id: 'influence-factors' },
+    el('caption', { class: 'visually-hidden' }, 'Influence of each decision'), el('thead', {}, head),
+    el('tbody', {}, rows)));
+}
+
+function unfitted(layout) {
+  if (layout.unfitted === 0) return;
+  const list = clear(document.getElementById('unfitted-list'));
+  for (const r of layout.unfittedReasons) list.append(el('li', {}, `${count(r.count)}: ${r.reason}`));
+  document.getElementById('unfitted').hidden = false;
+}
+
+// ---- PNG export: both panels, stacked as on screen, on paper
+
+function exportPng() {
+  const top = curveChart.canvas;
+  const bottom = gridChart.canvas;
+  const scale = top.width / top.clientWidth;
+  const band = Math.round(30 * scale);
+  const canvas = document.createElement('canvas');
+  canvas.width = Math.max(top.width, bottom.width);
+  canvas.height = band + top.height + bottom.height;
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = PALETTE.paper;
+  ctx.fillRect(0, 0, canvas.width, canvas.height);
+  // the legend, as on the page, above the panels
+  ctx.font = `${Math.round(12 * scale)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  ctx.textBaseline = 'middle';
+  let x = Math.round(16 * scale);
+  const y = band / 2;
+  const entries = SIGNIFICANCE.map((s) => ({ s, text: `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
+    + `${fmt(1 - state.layout.confidence, 2)})` }));
+  for (const { s, text } of entries) {
+    drawMark(ctx, s.shape, s.filled, s.color, x + 5 * scale, y, 4.5 * scale);
+    ctx.fillStyle = PALETTE.ink;
+    ctx.fillText(text, x + 14 * scale, y);
+    x += ctx.measureText(text).width + 34 * scale;
+  }
+  ctx.strokeStyle = PALETTE.neutralSoft;
+  ctx.lineWidth = 2 * scale;
+  ctx.beginPath();
+  ctx.moveTo(x + 5 * scale, y - 7 * scale);
+  ctx.lineTo(x + 5 * scale, y + 7 * scale);
+  ctx.stroke();
+  ctx.fillStyle = PALETTE.ink;
+  ctx.fillText(`${confidenceLabel()} confidence interval; ${count(state.view.curve.count)} specifications`,
+    x + 14 * scale, y);
+  ctx.drawImage(top, 0, band);
+  ctx.drawImage(bottom, 0, band + top.height);
+  canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');
+}
+
+// ---- start
+
+async function start() {
+  const params = new URLSearchParams(location.search);
+  if (params.get('sort')) sort = params.get('sort');
+  (params.get('drop') || '').split(',').filter(Boolean).forEach((d) => dropped.add(d));
+  let layout;
+  try {
+    layout = await getJson(`${api}/layout`);
+  } catch (e) {
+    setCount.textContent = `The run could not be opened: ${e.message}`;
+    return;
+  }
+  state.layout = layout;
+  document.getElementById('run-meta').textContent = `${count(layout.fitted)} specifications fitted`
+    + (layout.sampled ? ` (a seeded random sample of the plan's ${count(layout.inPlan)})` : '')
+    + (layout.unfitted > 0 ? `, ${count(layout.unfitted)} without an estimate` : '') + '.';
+  filterPanel(layout);
+  sortSelect(layout);
+  legend();
+  wholeRun(layout.summary);
+  unfitted(layout);
+  makeCharts();
+  noDetails();
+  document.getElementById('curve-box').addEventListener('keydown', keyboard);
+  document.getElementById('export-png').addEventListener('click', exportPng);
+  await refresh();
+  window.addEventListener('resize', debounce(() => refresh(), 250));
+}
+
+start();

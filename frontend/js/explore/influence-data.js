@@ -1,0 +1,31 @@
+// Shapes the influence part of a /curve answer: a header row per factor, a row per level with its
+// quartiles, and the range that holds them all.
+import { num, pct } from '../helpers.js';
+
+export function influenceRows(influence) {
+  const rows = [];
+  let lo = 0;
+  let hi = 0;
+  for (const f of influence.factors) {
+    const share = num(f.varianceShare);
+    rows.push({ header: true, label: `${f.name}: ${Number.isFinite(share) ? pct(share) : '\u2013'} of the variance` });
+    for (const l of f.levels) {
+      const row = {
+        header: false,
+        label: f.name === f.decision ? l.label : `${l.label} ${f.name}`,
+        count: l.count,
+        q1: num(l.lowerQuartile),
+        median: num(l.median),
+        q3: num(l.upperQuartile),
+        mean: num(l.mean),
+      };
+      if (Number.isFinite(row.q1)) {
+        lo = Math.min(lo, row.q1);
+        hi = Math.max(hi, row.q3);
+      }
+      rows.push(row);
+    }
+  }
+  const span = hi - lo || 1;
+  return { rows, range: { min: lo - span * 0.06, max: hi + span * 0.06 } };
+}

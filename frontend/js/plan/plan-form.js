@@ -1,0 +1,378 @@
+// Draws the plan form from the plan JSON and writes every edit back into it. Every field carries the JSON
+// path the plan reader uses in its messages (data-path), so a problem is shown beside the field it names.
+import { clear, el } from '../helpers.js';
+import {
+  ERROR_TYPES, KINDS, KIND_TITLES, TRANSFORMS, alternativeCount, newAlternative, newDecision, parentPath,
+  parseTransform,
+} from './plan-model.js';
+
+let sequence = 0;
+
+function idFor(path) {
+  sequence += 1;
+  return `f-${path.replace(/[^A-Za-z0-9]+/g, '-')}-${sequence}`;
+}
+
+/**
+ * @param root     the element to draw into (emptied first)
+ * @param plan     the plan object, edited in place
+ * @param columns  the data's columns, [{name, type}]
+ * @param hooks    {changed(): a value changed, restructured(): redraw needed}
+ */
+export function renderPlan(root, plan, columns, hooks) {
+  sequence = 0;
+  clear(root);
+  const f = new Fields(columns, hooks);
+  root.append(
+    el('section', { class: 'panel', 'aria-labelledby': 'about-title' },
+      el('h2', { id: 'about-title' }, 'About this plan'),
+      el('div', { class: 'field', 'data-path': '' }, el('p', { class: 'problem', hidden: true, role: 'alert' })),
+      f.text('title', 'Title', plan.title || '', (v) => set(plan, 'title', v)),
+      f.area('description', 'Description (the reasoning behind the decisions, for the record)',
+        plan.description || '', (v) => set(plan, 'description', v)),
+      el('p', { class: 'hint' }, 'Data: this analysis\u2019s file (data.csv).')));
+  const list = el('div', { class: 'decisions', 'data-path': 'decisions' },
+    el('h2', {}, 'Decisions'), el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  (plan.decisions || []).forEach((d, i) => list.append(decision(f, plan, d, i)));
+  list.append(addDecision(plan, hooks));
+  root.append(list, settings(f, plan));
+}
+
+function set(object, key, value) {
+  if (value === '' || value === null || value === undefined || (typeof value === 'number' && Number.isNaN(value))) {
+    delete object[key];
+  } else {
+    object[key] = value;
+  }
+}
+
+class Fields {
+  constructor(columns, hooks) {
+    this.columns = columns;
+    this.hooks = hooks;
+  }
+
+  wrap(path, label, control, extra = null) {
+    const id = control.id;
+    return el('div', { class: 'field', 'data-path': path }, el('label', { for: id }, label), control, extra,
+      el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  }
+
+  text(path, label, value, write, attributes = {}) {
+    const input = el('input', { type: 'text', id: idFor(path), ...attributes });
+    input.value = value;
+    input.addEventListener('input', () => {
+      write(input.value);
+      this.hooks.changed();
+    });
+    return this.wrap(path, label, input);
+  }
+
+  area(path, label, value, write) {
+    const input = el('textarea', { id: idFor(path), rows: 2 });
+    input.value = value;
+    input.addEventListener('input', () => {
+      write(input.value);
+      this.hooks.changed();
+    });
+    return this.wrap(path, label, input);
+  }
+
+  number(path, label, value, write, attributes = {}) {
+    const input = el('input', { type: 'number', id: idFor(path), ...attributes });
+    input.value = value === undefined || value === null ? '' : String(value);
+    input.addEventListener('input', () => {
+      write(input.value === '' ? '' : Number(input.value));
+      this.hooks.changed();
+    });
+    return this.wrap(path, label, input);
+  }
+
+  select(path, label, options, value, write, restructure = false) {
+    const select = el('select', { id: idFor(path) });
+    for (const o of options) select.append(el('option', { value: o.value }, o.text));
+    select.value = value;
+    select.addEventListener('change', () => {
+      write(select.value);
+      if (restructure) this.hooks.restructured();
+      else this.hooks.changed();
+    });
+    return this.wrap(path, label, select);
+  }
+
+  column(path, label, value, write, none = null) {
+    const options = none ? [{ value: '', text: none }] : [{ value: '', text: 'choose a column' }];
+    for (const c of this.columns) options.push({ value: c.name, text: `${c.name} (${c.type})` });
+    if (value && !this.columns.some((c) => c.name === value)) options.push({ value, text: `${value} (not in the data)` });
+    return this.select(path, label, options, value || '', write);
+  }
+
+  /** A ticked list of columns, kept in the order they were ticked (the plan's order). */
+  columnList(path, legend, chosen, write) {
+    const set = el('fieldset', { class: 'column-choices' }, el('legend', {}, legend));
+    for (const c of this.columns) {
+      const id = idFor(`${path}-${c.name}`);
+      const box = el('input', { type: 'checkbox', id, value: c.name });
+      box.checked = chosen.includes(c.name);
+      box.addEventListener('change', () => {
+        const now = chosen.filter((n) => n !== c.name);
+        if (box.checked) now.push(c.name);
+        chosen.splice(0, chosen.length, ...now);
+        write(chosen);
+        this.hooks.restructured();
+      });
+      set.append(el('div', {}, box, ' ', el('label', { for: id }, c.name)));
+    }
+    return el('div', { class: 'field', 'data-path': path }, set, el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  }
+}
+
+function decision(f, plan, d, i) {
+  const path = `decisions[${i}]`;
+  const box = el('section', { class: 'decision', 'data-path': path, 'aria-label': `Decision ${i + 1}: ${d.name || d.kind}` });
+  const n = alternativeCount(d);
+  const head = el('div', { class: 'decision-head' },
+    el('div', {}, el('div', { class: 'kind' }, d.kind || 'decision'), el('div', {}, KIND_TITLES[d.kind] || '')),
+    f.text(`${path}.name`, 'Decision name', d.name || '', (v) => { d.name = v; }),
+    el('span', { class: 'alternative-count' }, `${n.toLocaleString('en')} alternative${n === 1n ? '' : 's'}`),
+    el('span', { class: 'spacer' }),
+    button('Move up', `Move decision ${d.name} up`, i === 0, () => move(plan, i, -1, f.hooks)),
+    button('Move down', `Move decision ${d.name} down`, i === plan.decisions.length - 1, () => move(plan, i, 1, f.hooks)),
+    button('Remove', `Remove decision ${d.name}`, false, () => {
+      plan.decisions.splice(i, 1);
+      f.hooks.restructured();
+    }));
+  box.append(head, el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  if (d.kind === 'controls') {
+    box.append(controls(f, d, path));
+  } else if (['outcome', 'predictor', 'sample', 'errors', 'absorb'].includes(d.kind)) {
+    box.append(alternatives(f, d, path));
+  }
+  return box;
+}
+
+function button(text, label, disabled, action) {
+  const b = el('button', { type: 'button', class: 'small', 'aria-label': label, disabled });
+  b.textContent = text;
+  b.addEventListener('click', action);
+  return b;
+}
+
+function move(plan, i, by, hooks) {
+  const [d] = plan.decisions.splice(i, 1);
+  plan.decisions.splice(i + by, 0, d);
+  hooks.restructured();
+}
+
+function alternatives(f, d, path) {
+  if (!Array.isArray(d.alternatives)) d.alternatives = [];
+  const list = el('div', { class: 'alternatives', 'data-path': `${path}.alternatives` },
+    el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  d.alternatives.forEach((a, j) => {
+    const p = `${path}.alternatives[${j}]`;
+    const row = el('div', { class: 'alternative', 'data-path': p });
+    if (d.kind === 'outcome' || d.kind === 'predictor') variable(f, d, a, p, row);
+    else if (d.kind === 'sample') sampleRule(f, a, p, row);
+    else if (d.kind === 'errors') errorType(f, d, j, p, row);
+    else absorbChoice(f, a, p, row);
+    row.append(button('Remove', `Remove alternative ${j + 1} of ${d.name}`, false, () => {
+      d.alternatives.splice(j, 1);
+      f.hooks.restructured();
+    }), el('p', { class: 'problem', hidden: true, role: 'alert' }));
+    list.append(row);
+  });
+  list.append(el('div', { class: 'add-row' }, button('Add an alternative', `Add an alternative to ${d.name}`, false, () => {
+    d.alternatives.push(newAlternative(d.kind));
+    f.hooks.restructured();
+  })));
+  return list;
+}
+
+function variable(f, d, a, p, row) {
+  row.append(
+    f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }),
+    f.column(`${p}.column`, 'Column', a.column, (v) => { a.column = v; }));
+  const t = parseTransform(a.transform);
+  row.append(f.select(`${p}.transform`, 'Transform', TRANSFORMS.map((x) => ({ value: x, text: x })), t.name, (v) => {
+    if (v === 'none') delete a.transform;
+    else a.transform = v === 'winsorize' ? `winsorize:${t.fraction || '0.05'}` : v;
+  }, true));
+  if (t.name === 'winsorize') {
+    row.append(f.number(`${p}.transform`, 'Winsorize fraction (each tail)', t.fraction, (v) => {
+      a.transform = `winsorize:${v === '' ? '' : v}`;
+    }, { step: '0.01', min: '0', max: '0.5' }));
+  }
+}
+
+const RULES = [
+  { value: 'all', text: 'all rows' },
+  { value: 'keep', text: 'rows where an expression holds' },
+  { value: 'trim', text: 'rows within a z-score bound' },
+];
+
+function sampleRule(f, a, p, row) {
+  const rule = 'keep' in a ? 'keep' : 'trim' in a ? 'trim' : 'all';
+  row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }),
+    f.select(`${p}.rule`, 'Rule', RULES, rule, (v) => {
+      delete a.keep;
+      delete a.trim;
+      if (v === 'keep') a.keep = '';
+      if (v === 'trim') a.trim = { column: '', z: 3 };
+    }, true));
+  if (rule === 'keep') {
+    row.append(f.text(`${p}.keep`, 'Keep rows where (as in: age >= 18 and region != "south")', a.keep || '',
+      (v) => { a.keep = v; }, { class: 'expression', size: 44, spellcheck: 'false' }));
+  } else if (rule === 'trim') {
+    row.append(f.column(`${p}.trim.column`, 'Trim on column', a.trim.column, (v) => { a.trim.column = v; }),
+      f.number(`${p}.trim.z`, 'Largest |z| kept', a.trim.z, (v) => { a.trim.z = v; }, { step: '0.1', min: '0' }));
+  }
+}
+
+function errorType(f, d, j, p, row) {
+  const text = String(d.alternatives[j] || '');
+  const cluster = text.startsWith('cluster:');
+  const kind = cluster ? 'cluster' : text;
+  row.append(f.select(p, 'Type', ERROR_TYPES.map((x) => ({
+    value: x, text: x === 'cluster' ? 'cluster-robust (CR1)' : x,
+  })), kind, (v) => {
+    d.alternatives[j] = v === 'cluster' ? 'cluster:' : v;
+  }, true));
+  if (cluster) {
+    row.append(f.column(`${p}.cluster`, 'Clusters', text.slice('cluster:'.length), (v) => {
+      d.alternatives[j] = `cluster:${v}`;
+    }));
+  }
+}
+
+function absorbChoice(f, a, p, row) {
+  if (!Array.isArray(a.columns)) a.columns = [];
+  row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }),
+    f.column(`${p}.columns`, 'Absorb the fixed effects of', a.columns[0] || '', (v) => {
+      a.columns = v ? [v] : [];
+    }, 'none (no fixed effects)'));
+}
+
+function controls(f, d, path) {
+  const box = el('div', { class: 'controls' });
+  const sets = d.combine === 'sets';
+  box.append(f.select(`${path}.combine`, 'Alternatives', [
+    { value: 'all-subsets', text: 'every subset of the optional controls' },
+    { value: 'sets', text: 'named sets of controls' },
+  ], sets ? 'sets' : 'all-subsets', (v) => {
+    if (v === 'sets') {
+      d.combine = 'sets';
+      delete d.optional;
+      if (!d.sets || typeof d.sets !== 'object') d.sets = { 'set 1': [] };
+    } else {
+      delete d.combine;
+      delete d.sets;
+      if (!Array.isArray(d.optional)) d.optional = [];
+    }
+  }, true));
+  if (!Array.isArray(d.required)) d.required = [];
+  box.append(f.columnList(`${path}.required`, 'Required: in every specification', d.required, (v) => { d.required = v; }));
+  if (!sets) {
+    if (!Array.isArray(d.optional)) d.optional = [];
+    const n = d.optional.length;
+    box.append(f.columnList(`${path}.optional`,
+      `Optional: every subset is an alternative (${n} chosen, ${(1n << BigInt(n)).toLocaleString('en')} subsets)`,
+      d.optional, (v) => { d.optional = v; }));
+    return box;
+  }
+  const labels = Object.keys(d.sets);
+  labels.forEach((label, k) => {
+    const p = `${path}.sets.${label}`;
+    const chosen = d.sets[label];
+    const rename = f.text(`${path}.sets`, `Set ${k + 1}: label`, label, (v) => {
+      const next = {};
+      for (const [key, value] of Object.entries(d.sets)) next[key === label ? v : key] = value;
+      d.sets = next;
+    });
+    rename.querySelector('input').addEventListener('change', () => f.hooks.restructured());
+    box.append(el('div', { class: 'alternative' }, rename,
+      button('Remove', `Remove set ${label}`, false, () => {
+        delete d.sets[label];
+        f.hooks.restructured();
+      })),
+    f.columnList(p, `Columns of set "${label}"`, chosen, (v) => { d.sets[label] = v; }));
+  });
+  box.append(el('div', { class: 'add-row' }, button('Add a set', `Add a set of controls to ${d.name}`, false, () => {
+    let k = labels.length + 1;
+    while (`set ${k}` in d.sets) k += 1;
+    d.sets[`set ${k}`] = [];
+    f.hooks.restructured();
+  })));
+  return box;
+}
+
+function addDecision(plan, hooks) {
+  const id = 'new-decision-kind';
+  const select = el('select', { id });
+  for (const k of KINDS) select.append(el('option', { value: k }, KIND_TITLES[k]));
+  select.value = 'controls';
+  const add = el('button', { type: 'button', id: 'add-decision' }, 'Add the decision');
+  add.addEventListener('click', () => {
+    if (!Array.isArray(plan.decisions)) plan.decisions = [];
+    plan.decisions.push(newDecision(select.value, plan));
+    hooks.restructured();
+  });
+  return el('div', { class: 'add-row' }, el('div', { class: 'field' }, el('label', { for: id }, 'New decision'), select), add);
+}
+
+function settings(f, plan) {
+  const columns = [{ value: '', text: 'none (resample rows)' }, ...f.columns.map((c) => ({ value: c.name, text: c.name }))];
+  return el('section', { class: 'panel', 'aria-labelledby': 'settings-title' },
+    el('h2', { id: 'settings-title' }, 'How the run is made'),
+    el('div', { class: 'plan-settings' },
+      f.number('confidence', 'Confidence level', plan.confidence ?? '', (v) => set(plan, 'confidence', v),
+        { step: '0.01', min: '0', max: '1' }),
+      f.select('missing', 'Rows with missing cells', [
+        { value: 'per-specification', text: 'each specification uses its own complete rows' },
+        { value: 'common', text: 'every specification uses the rows complete on all variables' },
+      ], plan.missing || 'per-specification', (v) => set(plan, 'missing', v === 'per-specification' ? '' : v)),
+      f.number('sample', 'Fit a random sample of (0 or empty: all)', plan.sample ?? '', (v) => set(plan, 'sample', v || ''),
+        { step: '1', min: '0' }),
+      f.number('seed', 'Seed', plan.seed ?? '', (v) => set(plan, 'seed', v), { step: '1' }),
+      f.number('maxSpecifications', 'Largest number of specifications', plan.maxSpecifications ?? '',
+        (v) => set(plan, 'maxSpecifications', v), { step: '1', min: '1' }),
+      f.number('nullDraws', 'Null draws for joint inference (0: none)', plan.nullDraws ?? '',
+        (v) => set(plan, 'nullDraws', v), { step: '1', min: '0' }),
+      f.select('nullMethod', 'Null draws by', [
+        { value: 'bootstrap', text: 'resampling rows (bootstrap)' },
+        { value: 'permute', text: 'shuffling the key predictor' },
+      ], plan.nullMethod || 'bootstrap', (v) => set(plan, 'nullMethod', v === 'bootstrap' ? '' : v)),
+      f.select('nullCluster', 'Resample whole clusters of', columns, plan.nullCluster || '',
+        (v) => set(plan, 'nullCluster', v))));
+}
+
+/** Shows one problem beside the field its JSON path names (or the nearest enclosing one). */
+export function showProblem(root, where, message) {
+  clearProblems(root);
+  let path = where || '';
+  let field = null;
+  for (;;) {
+    field = [...root.querySelectorAll('[data-path]')].find((n) => n.getAttribute('data-path') === path);
+    if (field || path === '') break;
+    path = parentPath(path);
+  }
+  if (!field) return null;
+  const note = [...field.children].find((c) => c.classList.contains('problem'));
+  if (note) {
+    note.textContent = path === where ? message : `${where}: ${message}`;
+    note.hidden = false;
+  }
+  field.classList.add('has-problem');
+  const control = field.querySelector('input, select, textarea');
+  if (control && field.classList.contains('field')) control.setAttribute('aria-invalid', 'true');
+  return field;
+}
+
+export function clearProblems(root) {
+  root.querySelectorAll('.problem').forEach((p) => {
+    p.hidden = true;
+    p.textContent = '';
+  });
+  root.querySelectorAll('.has-problem').forEach((n) => n.classList.remove('has-problem'));
+  root.querySelectorAll('[aria-invalid]').forEach((n) => n.removeAttribute('aria-invalid'));
+}
+

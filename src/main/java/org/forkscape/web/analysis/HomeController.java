@@ -1,0 +1,77 @@
+package org.forkscape.web.analysis;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.util.List;
+import org.forkscape.data.DataException;
+import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.Workspace;
+import org.forkscape.web.system.Lookup;
+import org.springframework.http.HttpStatus;
+import org.springframework.stereotype.Controller;
+import org.springframework.ui.Model;
+import org.springframework.web.bind.annotation.GetMapping;
+import org.springframework.web.bind.annotation.PathVariable;
+import org.springframework.web.bind.annotation.PostMapping;
+import org.springframework.web.bind.annotation.RequestParam;
+import org.springframework.web.multipart.MultipartFile;
+import org.springframework.web.servlet.ModelAndView;
+
+/** The home page (analyses, upload, the demo) and an analysis's data page. */
+@Controller
+class HomeController {
+    static final String HOME = "home/index";
+    static final String DATA = "data/overview";
+
+    private final AnalysisService analyses;
+    private final Workspace workspace;
+    private final Lookup lookup;
+
+    HomeController(AnalysisService analyses, Workspace workspace, Lookup lookup) {
+        this.analyses = analyses;
+        this.workspace = workspace;
+        this.lookup = lookup;
+    }
+
+    @GetMapping("/")
+    String home(Model model) {
+        model.addAttribute("cards", cards());
+        return HOME;
+    }
+
+    @PostMapping("/analyses")
+    ModelAndView upload(@RequestParam(name = "file", required = false) MultipartFile file,
+            @RequestParam(name = "title", required = false) String title) throws IOException {
+        if (file == null || file.isEmpty()) {
+            return homeWithProblem(title, "Choose a CSV file to upload.");
+        }
+        try (InputStream in = file.getInputStream()) {
+            StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);
+            return new ModelAndView("redirect:/analyses/" + a.id());
+        } catch (DataException e) {
+            return homeWithProblem(title, e.getMessage());
+        }
+    }
+
+    @GetMapping("/analyses/{analysis}")
+    String data(@PathVariable String analysis, Model model) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        model.addAttribute("analysis", a);
+        model.addAttribute("columns", ColumnOverview.of(analyses.table(a)));
+        model.addAttribute("runs", workspace.runs(a.id()));
+        return DATA;
+    }
+
+    private ModelAndView homeWithProblem(String title, String problem) {
+        ModelAndView page = new ModelAndView(HOME);
+        page.setStatus(HttpStatus.BAD_REQUEST);
+        page.addObject("cards", cards());
+        page.addObject("uploadProblem", problem);
+        page.addObject("uploadTitle", title);
+        return page;
+    }
+
+    private List<AnalysisCard> cards() {
+        return analyses.all().stream().map(a -> new AnalysisCard(a, workspace.runs(a.id()))).toList();
+    }
+}

@@ -1,0 +1,255 @@
+package org.forkscape.web.explore;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.forkscape.InputException;
+import org.forkscape.data.Table;
+import org.forkscape.fit.FullFit;
+import org.forkscape.fit.FullFitter;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.Json;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunOutputs;
+import org.forkscape.run.RunResult;
+import org.forkscape.run.RunState;
+import org.forkscape.run.SpecificationsCsvReader;
+import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.StoredRun;
+import org.forkscape.run.Workspace;
+import org.forkscape.web.analysis.AnalysisService;
+import org.forkscape.web.run.RunFinished;
+import org.forkscape.web.system.ForkscapeSettings;
+import org.springframework.context.event.EventListener;
+import org.springframework.stereotype.Service;
+import tools.jackson.core.type.TypeReference;
+
+/**
+ * Serves finished runs to the explorer. A run is ranked once (from the run that just finished, or read back
+ * from its specifications.csv) and kept while in use; each filter and order the browser asks for is then a
+ * few columnar passes, and the last few are kept so that hovering, which asks for the specification at a
+ * position, does not repeat them.
+ */
+@Service
+public class ExploreService {
+    private static final int CACHED_VIEWS = 32;
+
+    private final Workspace workspace;
+    private final AnalysisService analyses;
+    private final InfluenceAnalysis influence;
+    private final Map<String, RankedRun> runs;
+    private final Map<String, View> views = lru(CACHED_VIEWS);
+
+    private record View(int[] kept, DisplayOrder order) {
+    }
+
+    public ExploreService(Workspace workspace, AnalysisService analyses, InfluenceAnalysis influence,
+            ForkscapeSettings settings) {
+        this.workspace = workspace;
+        this.analyses = analyses;
+        this.influence = influence;
+        this.runs = lru(Math.max(1, settings.explore().cachedRuns()));
+    }
+
+    @EventListener
+    void finished(RunFinished e) {
+        RankedRun ranked = RankedRun.of(e.result());
+        synchronized (runs) {
+            runs.put(e.analysisId() + "/" + e.runId(), ranked);
+        }
+    }
+
+    /** The ranked results of a finished run. */
+    public RankedRun ranked(StoredAnalysis analysis, StoredRun run) {
+        if (run.state() != RunState.FINISHED) {
+            throw new IllegalStateException("run " + run.id() + " is " + run.state().word());
+        }
+        String key = analysis.id() + "/" + run.id();
+        synchronized (runs) {
+            RankedRun cached = runs.get(key);
+            if (cached != null) {
+                return cached;
+            }
+            Path folder = workspace.runFolder(analysis.id(), run.id());
+            Plan plan = new PlanReader(true).read(workspace.runPlan(analysis.id(), run.id()),
+                    workspace.analysisFolder(analysis.id()));
+            Table table = analyses.table(analysis);
+            Object seconds = summary(analysis, run).get("seconds");
+            RunResult result = SpecificationsCsvReader.read(plan, table, folder.resolve(RunOutputs.SPECIFICATIONS),
+                    seconds instanceof Number n ? n.doubleValue() : Double.NaN);
+            RankedRun ranked = RankedRun.of(result);
+            runs.put(key, ranked);
+            return ranked;
+        }
+    }
+
+    /** The run's summary.json as written. */
+    public Map<String, Object> summary(StoredAnalysis analysis, StoredRun run) {
+        Path file = workspace.runFolder(analysis.id(), run.id()).resolve(RunOutputs.SUMMARY);
+        try {
+            return Json.MAPPER.readValue(Files.readString(file), new TypeReference<LinkedHashMap<String, Object>>() {
+            });
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot read " + file + ": " + e.getMessage(), e);
+        }
+    }
+
+    public ExploreViews.Layout layout(StoredAnalysis analysis, StoredRun run) {
+        RankedRun r = ranked(analysis, run);
+        Plan plan = r.run().plan();
+        List<ExploreViews.FactorView> factors = new ArrayList<>();
+        int[] all = SpecificationFilter.keep(r, Selection.all(r.factors()));
+        for (Factor f : r.factors()) {
+            int[] counts = new int[f.levels().size()];
+            for (int k : all) {
+                counts[r.level(f.id(), k)]++;
+            }
+            factors.add(new ExploreViews.FactorView(f.id(), f.name(), f.decision(), f.isControl(), f.levels(),
+                    java.util.Arrays.stream(counts).boxed().toList()));
+        }
+        Map<String, List<String>> required = new LinkedHashMap<>();
+        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
+            if (!c.required().isEmpty()) {
+                required.put(c.name(), c.required());
+            }
+        }
+        List<ExploreViews.ReasonCount> reasons = r.unfittedReasons().entrySet().stream()
+                .map(e -> new ExploreViews.ReasonCount(e.getKey(), e.getValue())).toList();
+        int unfitted = reasons.stream().mapToInt(ExploreViews.ReasonCount::count).sum();
+        long inPlan = r.run().models().space().size();
+        return new ExploreViews.Layout(analysis.id(), run.id(), analysis.title(), plan.confidence(),
+                plan.outcome().name(), plan.predictor().name(), r.size(), unfitted, inPlan,
+                r.run().results().size() < inPlan, factors, r.gridRows(), required, reasons, summary(analysis, run));
+    }
+
+    public ExploreViews.CurveView curve(StoredAnalysis analysis, StoredRun run, String drop, String sort, int width) {
+        RankedRun r = ranked(analysis, run);
+        View view = view(analysis, run, r, drop, sort);
+        Selection selection = Selection.parse(r.factors(), drop);
+        boolean grouped = !sortText(sort).equals("estimate");
+        return new ExploreViews.CurveView(r.size(), selection.dropText(), sortText(sort), CurveSummary.of(r, view.kept),
+                influence.of(r, view.kept), grouped ? view.order.groups() : List.of(),
+                CurveReducer.reduce(r, view.order, width));
+    }
+
+    /** The specification at a position of the curve under the given filter and order. */
+    public ExploreViews.SpecificationView at(StoredAnalysis analysis, StoredRun run, String drop, String sort,
+            int position) {
+        RankedRun r = ranked(analysis, run);
+        View view = view(analysis, run, r, drop, sort);
+        if (position < 0 || position >= view.order.size()) {
+            throw new InputException("position", "there is no position " + position + " in a set of "
+                    + view.order.size() + " specifications (positions start at 0)");
+        }
+        int rank = view.order.ranks()[position];
+        int slot = r.slot(rank);
+        ResultTable t = r.run().results();
+        double confidence = r.run().plan().confidence();
+        long index = t.specIndex(slot);
+        return new ExploreViews.SpecificationView(position, index + 1, choices(r.run(), index), t.estimate(slot),
+                t.stdError(slot), t.statistic(slot), t.df(slot), t.pValue(slot), t.ciLow(slot, confidence),
+                t.ciHigh(slot, confidence), t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot),
+                t.modelPValue(slot), t.status(slot));
+    }
+
+    /** Every coefficient of specification {@code spec} (1-based, as in specifications.csv) of the run. */
+    public ExploreViews.FullFitView fit(StoredAnalysis analysis, StoredRun run, long spec) {
+        RankedRun r = ranked(analysis, run);
+        RunResult result = r.run();
+        long index = spec - 1;
+        if (!inRun(result.results(), index)) {
+            throw new InputException("spec", "specification " + spec + " is not among the "
+                    + String.format("%,d", result.results().size()) + " this run fitted");
+        }
+        FullFit fit = new FullFitter().fit(result.plan(), result.table(), result.models(), index);
+        return new ExploreViews.FullFitView(spec, result.plan().confidence(), choices(result, index), fit);
+    }
+
+    private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, String drop, String sort) {
+        Selection selection = Selection.parse(r.factors(), drop);
+        String order = sortText(sort);
+        String key = analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + order;
+        synchronized (views) {
+            View cached = views.get(key);
+            if (cached != null) {
+                return cached;
+            }
+        }
+        int[] kept = SpecificationFilter.keep(r, selection);
+        DisplayOrder display = order.equals("estimate") ? DisplayOrder.byEstimate(kept)
+                : DisplayOrder.groupedBy(r, kept, factorOf(r, order));
+        View view = new View(kept, display);
+        synchronized (views) {
+            views.put(key, view);
+        }
+        return view;
+    }
+
+    private static String sortText(String sort) {
+        return sort == null || sort.isBlank() ? "estimate" : sort.strip();
+    }
+
+    private static int factorOf(RankedRun r, String sort) {
+        String prefix = "factor:";
+        if (sort.startsWith(prefix)) {
+            try {
+                int f = Integer.parseInt(sort.substring(prefix.length()));
+                if (f >= 0 && f < r.factors().size()) {
+                    return f;
+                }
+            } catch (NumberFormatException e) {
+                // reported below with the accepted forms
+            }
+        }
+        throw new InputException("sort", "\"" + sort + "\" is not an order of this run; use estimate or factor:F "
+                + "with F from 0 to " + (r.factors().size() - 1));
+    }
+
+    private static boolean inRun(ResultTable t, long index) {
+        int lo = 0;
+        int hi = t.size() - 1;
+        while (lo <= hi) {
+            int mid = (lo + hi) >>> 1;
+            long at = t.specIndex(mid);
+            if (at == index) {
+                return true;
+            }
+            if (at < index) {
+                lo = mid + 1;
+            } else {
+                hi = mid - 1;
+            }
+        }
+        return false;
+    }
+
+    private static List<ExploreViews.Choice> choices(RunResult run, long index) {
+        SpecificationSpace space = run.models().space();
+        long[] c = new long[space.decisionCount()];
+        space.decode(index, c);
+        List<ExploreViews.Choice> out = new ArrayList<>();
+        List<Decision> decisions = run.plan().decisions();
+        for (int d = 0; d < decisions.size(); d++) {
+            out.add(new ExploreViews.Choice(decisions.get(d).name(), decisions.get(d).kind(),
+                    decisions.get(d).label(c[d])));
+        }
+        return out;
+    }
+
+    private static <V> Map<String, V> lru(int size) {
+        return new LinkedHashMap<>(16, 0.75f, true) {
+            @Override
+            protected boolean removeEldestEntry(Map.Entry<String, V> eldest) {
+                return size() > size;
+            }
+        };
+    }
+}

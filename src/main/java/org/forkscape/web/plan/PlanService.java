@@ -1,0 +1,138 @@
+package org.forkscape.web.plan;
+
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.forkscape.InputException;
+import org.forkscape.data.Table;
+import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.SpecificationModels;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanChecker;
+import org.forkscape.plan.PlanException;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.Json;
+import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.Workspace;
+import org.forkscape.web.analysis.AnalysisService;
+import org.springframework.stereotype.Service;
+
+/**
+ * Reads, checks and saves the plan of an analysis. A plan is checked the way a run would meet it: its
+ * structure, its columns and their types against the analysis's data, the specification cap, and, when
+ * the data are small enough to do it at once, the data variants themselves (a log of a value that is not
+ * positive, a trim of a constant column), so that the form shows the problem next to its field before the
+ * run starts. Plans are kept as the text the user gave, so a plan written by hand and a plan built in the
+ * form are the same file.
+ */
+@Service
+public class PlanService {
+    /** Rows x columns^2 x variants up to which the data variants are built during a check (about 0.1 s). */
+    static final long VARIANT_CHECK_BUDGET = 50_000_000L;
+    /** Longer plan texts are refused before reading them. */
+    public static final int MAX_PLAN_CHARACTERS = 1_000_000;
+
+    private final Workspace workspace;
+    private final AnalysisService analyses;
+
+    public PlanService(Workspace workspace, AnalysisService analyses) {
+        this.workspace = workspace;
+        this.analyses = analyses;
+    }
+
+    /** The plan being edited: the saved one, or a start with an outcome and a key predictor to fill in. */
+    public String current(StoredAnalysis analysis) {
+        return workspace.plan(analysis.id()).orElseGet(() -> starter(analysis));
+    }
+
+    public boolean saved(StoredAnalysis analysis) {
+        return workspace.plan(analysis.id()).isPresent();
+    }
+
+    /** Checks without throwing for problems of the plan. */
+    public PlanCheck check(StoredAnalysis analysis, String json) {
+        try {
+            Plan plan = read(analysis, json);
+            return new PlanCheck(true, count(plan), fitted(plan), "", "");
+        } catch (InputException e) {
+            long count = -1;
+            long fitted = -1;
+            try {
+                Plan structure = new PlanReader(true).read(json, workspace.analysisFolder(analysis.id()));
+                count = count(structure);
+                fitted = fitted(structure);
+            } catch (InputException unreadable) {
+                // the count is unknown until the plan reads
+            }
+            return new PlanCheck(false, count, fitted, e.where(), e.problem());
+        }
+    }
+
+    /**
+     * Reads and checks a plan for this analysis.
+     *
+     * @throws InputException with the JSON path of the problem
+     */
+    public Plan read(StoredAnalysis analysis, String json) {
+        if (json == null || json.isBlank()) {
+            throw new PlanException("", "the plan is empty; a plan is a JSON object with \"data\" and \"decisions\"");
+        }
+        if (json.length() > MAX_PLAN_CHARACTERS) {
+            throw new PlanException("", "the plan is longer than " + MAX_PLAN_CHARACTERS + " characters");
+        }
+        Plan plan = new PlanReader(true).read(json, workspace.analysisFolder(analysis.id()));
+        if (!plan.dataFile().equals(workspace.dataFile(analysis.id()).normalize())) {
+            throw new PlanException("data", "this analysis's data file is " + Workspace.DATA + "; the plan must name it "
+                    + "(\"data\": \"" + Workspace.DATA + "\")");
+        }
+        Table table = analyses.table(analysis);
+        PlanChecker.check(plan, table);
+        MultiverseRunner.checkCount(plan);
+        SpecificationModels models = new SpecificationModels(plan, table);
+        long columns = models.layout().size();
+        if ((long) table.rowCount() * columns * columns * models.variantCount() <= VARIANT_CHECK_BUDGET) {
+            for (int v = 0; v < models.variantCount(); v++) {
+                new DataVariant(plan, table, models.layout(), models.variantKey(v));
+            }
+        }
+        return plan;
+    }
+
+    /** Saves a plan that passes the check. @throws InputException when it does not */
+    public PlanCheck save(StoredAnalysis analysis, String json) {
+        Plan plan = read(analysis, json);
+        workspace.savePlan(analysis.id(), json);
+        return new PlanCheck(true, count(plan), fitted(plan), "", "");
+    }
+
+    private static long count(Plan plan) {
+        return new SpecificationSpace(plan).size();
+    }
+
+    private static long fitted(Plan plan) {
+        long all = count(plan);
+        return plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), all) : all;
+    }
+
+    private static String starter(StoredAnalysis analysis) {
+        Map<String, Object> plan = new LinkedHashMap<>();
+        plan.put("title", analysis.title());
+        plan.put("data", Workspace.DATA);
+        plan.put("confidence", 0.95);
+        plan.put("decisions", List.of(emptyDecision("outcome"), emptyDecision("predictor")));
+        return Json.MAPPER.writeValueAsString(plan);
+    }
+
+    private static Map<String, Object> emptyDecision(String kind) {
+        Map<String, Object> alternative = new LinkedHashMap<>();
+        alternative.put("label", "");
+        alternative.put("column", "");
+        Map<String, Object> d = new LinkedHashMap<>();
+        d.put("name", kind);
+        d.put("kind", kind);
+        d.put("alternatives", List.of(alternative));
+        return d;
+    }
+}

@@ -1,0 +1,124 @@
+package org.forkscape.web.run;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Map;
+import org.forkscape.InputException;
+import org.forkscape.run.RunOutputs;
+import org.forkscape.run.RunState;
+import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.StoredRun;
+import org.forkscape.run.Workspace;
+import org.forkscape.web.plan.PlanService;
+import org.forkscape.web.system.Lookup;
+import org.forkscape.web.system.NotFoundException;
+import org.springframework.core.io.FileSystemResource;
+import org.springframework.core.io.Resource;
+import org.springframework.http.ContentDisposition;
+import org.springframework.http.HttpHeaders;
+import org.springframework.http.HttpStatus;
+import org.springframework.http.MediaType;
+import org.springframework.http.ResponseEntity;
+import org.springframework.stereotype.Controller;
+import org.springframework.ui.Model;
+import org.springframework.web.bind.annotation.GetMapping;
+import org.springframework.web.bind.annotation.PathVariable;
+import org.springframework.web.bind.annotation.PostMapping;
+import org.springframework.web.servlet.ModelAndView;
+
+/**
+ * A run's page: its progress while it is queued or computing, the explorer once it has finished, what
+ * happened otherwise; and its files for download.
+ */
+@Controller
+class RunController {
+    static final String PROGRESS = "run/progress";
+    static final String EXPLORE = "explore/explore";
+
+    /** The files a run may offer, with their types; nothing else in a run folder is served. */
+    private static final Map<String, MediaType> FILES = Map.of(
+            RunOutputs.SPECIFICATIONS, MediaType.parseMediaType("text/csv;charset=UTF-8"),
+            RunOutputs.SUMMARY, MediaType.APPLICATION_JSON,
+            RunOutputs.PLAN, MediaType.APPLICATION_JSON,
+            Workspace.LOG, MediaType.parseMediaType("text/plain;charset=UTF-8"));
+
+    private final RunQueue queue;
+    private final PlanService plans;
+    private final Workspace workspace;
+    private final Lookup lookup;
+
+    RunController(RunQueue queue, PlanService plans, Workspace workspace, Lookup lookup) {
+        this.queue = queue;
+        this.plans = plans;
+        this.workspace = workspace;
+        this.lookup = lookup;
+    }
+
+    /** Runs the saved plan. */
+    @PostMapping("/analyses/{analysis}/runs")
+    ModelAndView start(@PathVariable String analysis) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        String plan = workspace.plan(a.id()).orElse(null);
+        if (plan == null) {
+            throw new InputException("plan", "save the plan before running it");
+        }
+        try {
+            StoredRun run = queue.submit(a, plan);
+            return new ModelAndView("redirect:/analyses/" + a.id() + "/runs/" + run.id());
+        } catch (InputException e) {
+            ModelAndView page = new ModelAndView("plan/edit");
+            page.setStatus(HttpStatus.BAD_REQUEST);
+            page.addObject("analysis", a);
+            page.addObject("planText", plan);
+            page.addObject("check", plans.check(a, plan));
+            page.addObject("saved", false);
+            page.addObject("runs", workspace.runs(a.id()));
+            return page;
+        }
+    }
+
+    @GetMapping("/analyses/{analysis}/runs/{run}")
+    String show(@PathVariable String analysis, @PathVariable String run, Model model) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        StoredRun r = lookup.run(a, run);
+        model.addAttribute("analysis", a);
+        model.addAttribute("run", r);
+        if (r.state() == RunState.FINISHED) {
+            return EXPLORE;
+        }
+        model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());
+        return PROGRESS;
+    }
+
+    @PostMapping("/analyses/{analysis}/runs/{run}/cancel")
+    String cancel(@PathVariable String analysis, @PathVariable String run) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        StoredRun r = lookup.run(a, run);
+        queue.cancel(a.id(), r.id());
+        return "redirect:/analyses/" + a.id() + "/runs/" + r.id();
+    }
+
+    /** Runs the plan of an earlier run again (after an interruption, a cancel or a failure). */
+    @PostMapping("/analyses/{analysis}/runs/{run}/again")
+    String again(@PathVariable String analysis, @PathVariable String run) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        StoredRun r = lookup.run(a, run);
+        StoredRun next = queue.submit(a, workspace.runPlan(a.id(), r.id()));
+        return "redirect:/analyses/" + a.id() + "/runs/" + next.id();
+    }
+
+    @GetMapping("/analyses/{analysis}/runs/{run}/files/{name}")
+    ResponseEntity<Resource> file(@PathVariable String analysis, @PathVariable String run, @PathVariable String name) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        StoredRun r = lookup.run(a, run);
+        MediaType type = FILES.get(name);
+        Path file = type == null ? null : workspace.runFolder(a.id(), r.id()).resolve(name);
+        if (file == null || !Files.isRegularFile(file)) {
+            throw new NotFoundException("run " + r.id() + " has no file of that name; its files are "
+                    + String.join(", ", FILES.keySet().stream().sorted().toList()) + " (once written)");
+        }
+        return ResponseEntity.ok().contentType(type)
+                .header(HttpHeaders.CONTENT_DISPOSITION, ContentDisposition.attachment().filename(name).build().toString())
+                .body(new FileSystemResource(file));
+    }
+}

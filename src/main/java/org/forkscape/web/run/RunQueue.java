@@ -1,0 +1,245 @@
+package org.forkscape.web.run;
+
+import jakarta.annotation.PreDestroy;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.LinkedBlockingQueue;
+import java.util.concurrent.ThreadPoolExecutor;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicLong;
+import org.forkscape.InputException;
+import org.forkscape.data.Table;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.RunCancelledException;
+import org.forkscape.run.RunOutputs;
+import org.forkscape.run.RunResult;
+import org.forkscape.run.RunState;
+import org.forkscape.run.RunSummary;
+import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.StoredRun;
+import org.forkscape.run.Workspace;
+import org.forkscape.web.analysis.AnalysisService;
+import org.forkscape.web.plan.PlanService;
+import org.forkscape.web.system.ForkscapeSettings;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import org.springframework.context.ApplicationEventPublisher;
+import org.springframework.stereotype.Service;
+
+/**
+ * Runs plans in the background: at most {@code forkscape.runs.concurrent} at once, up to
+ * {@code forkscape.runs.queue} waiting in order, each fitted by the same {@link MultiverseRunner} the
+ * batch command uses. Progress is counted as the runner reports it; cancelling sets the runner's cancel
+ * flag, which stops its workers at the next chunk and frees their threads. A run's files are written only
+ * when it finishes, so a failed or cancelled run leaves its plan, record and log and nothing else.
+ */
+@Service
+public class RunQueue {
+    private static final Logger LOG = LoggerFactory.getLogger(RunQueue.class);
+
+    private final Workspace workspace;
+    private final AnalysisService analyses;
+    private final PlanService plans;
+    private final SummarySections sections;
+    private final ApplicationEventPublisher events;
+    private final int threads;
+    private final int capacity;
+    private final ThreadPoolExecutor executor;
+    private final Map<String, Job> active = new ConcurrentHashMap<>();
+    private final List<String> waiting = new ArrayList<>();
+
+    public RunQueue(Workspace workspace, AnalysisService analyses, PlanService plans, SummarySections sections,
+            ApplicationEventPublisher events, ForkscapeSettings settings) {
+        this.workspace = workspace;
+        this.analyses = analyses;
+        this.plans = plans;
+        this.sections = sections;
+        this.events = events;
+        this.threads = settings.runs().fittingThreads();
+        this.capacity = Math.max(0, settings.runs().queue());
+        int concurrent = Math.max(1, settings.runs().concurrent());
+        this.executor = new ThreadPoolExecutor(concurrent, concurrent, 0, TimeUnit.MILLISECONDS,
+                new LinkedBlockingQueue<>(), r -> {
+                    Thread t = new Thread(r, "forkscape-run");
+                    t.setDaemon(true);
+                    return t;
+                });
+        int interrupted = workspace.markInterrupted();
+        if (interrupted > 0) {
+            LOG.info("{} run(s) were left unfinished by the last server and are marked interrupted", interrupted);
+        }
+    }
+
+    /**
+     * Checks the plan and queues a run of it.
+     *
+     * @throws InputException        when the plan cannot run on the analysis's data
+     * @throws RunQueueFullException when as many runs wait as the queue holds
+     */
+    public synchronized StoredRun submit(StoredAnalysis analysis, String planText) {
+        Plan plan = plans.read(analysis, planText);
+        if (waiting.size() >= capacity && active.size() >= executor.getCorePoolSize()) {
+            throw new RunQueueFullException(waiting.size() + " runs are already waiting, the most this server queues "
+                    + "(forkscape.runs.queue); start this one when another has ended");
+        }
+        long all = new SpecificationSpace(plan).size();
+        long total = plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), all) : all;
+        StoredRun run = workspace.createRun(analysis.id(), planText);
+        Job job = new Job(analysis, run, planText, total);
+        active.put(run.id(), job);
+        waiting.add(run.id());
+        executor.execute(job);
+        return run;
+    }
+
+    /** The run's state and, while it is active, its progress. */
+    public Optional<RunStatus> status(String analysisId, String runId) {
+        Job job = active.get(runId);
+        if (job != null && job.record.analysisId().equals(analysisId)) {
+            return Optional.of(job.status());
+        }
+        return workspace.run(analysisId, runId).map(r -> RunStatus.of(r, r.state() == RunState.FINISHED
+                ? r.specifications() : 0, r.specifications(), seconds(r.started(), r.ended()), null, 0));
+    }
+
+    /** Asks a queued or running run to stop; an ended run is left as it is. */
+    public Optional<RunStatus> cancel(String analysisId, String runId) {
+        Job job = active.get(runId);
+        if (job != null && job.record.analysisId().equals(analysisId)) {
+            job.cancel();
+        }
+        return status(analysisId, runId);
+    }
+
+    private synchronized int position(String runId) {
+        return waiting.indexOf(runId) + 1;
+    }
+
+    private synchronized void started(String runId) {
+        waiting.remove(runId);
+    }
+
+    /** On shutdown, active runs stop and are recorded as interrupted, as after a crash. */
+    @PreDestroy
+    void stop() {
+        for (Job job : active.values()) {
+            job.interrupt();
+        }
+        executor.shutdownNow();
+    }
+
+    private static double seconds(Instant from, Instant to) {
+        if (from == null) {
+            return 0;
+        }
+        return Duration.between(from, to == null ? Instant.now() : to).toMillis() / 1000.0;
+    }
+
+    private final class Job implements Runnable {
+        private final StoredAnalysis analysis;
+        private final String planText;
+        private final AtomicBoolean cancel = new AtomicBoolean();
+        private final AtomicBoolean ended = new AtomicBoolean();
+        private final AtomicLong done = new AtomicLong();
+        private final long total;
+        private volatile StoredRun record;
+        private volatile RunState stopAs = RunState.CANCELLED;
+
+        Job(StoredAnalysis analysis, StoredRun record, String planText, long total) {
+            this.analysis = analysis;
+            this.record = record;
+            this.planText = planText;
+            this.total = total;
+        }
+
+        RunStatus status() {
+            StoredRun r = record;
+            double elapsed = seconds(r.started(), null);
+            long d = done.get();
+            Double remaining = r.started() != null && d > 0 ? elapsed * (total - d) / d : null;
+            return RunStatus.of(r, d, total, elapsed, remaining, position(r.id()));
+        }
+
+        void cancel() {
+            cancel.set(true);
+            if (record.state() == RunState.QUEUED) {
+                end(RunState.CANCELLED, "", "", "cancelled before it started");
+            }
+        }
+
+        void interrupt() {
+            stopAs = RunState.INTERRUPTED;
+            cancel.set(true);
+            end(RunState.INTERRUPTED, "", "", "interrupted: the server is stopping");
+        }
+
+        @Override
+        public void run() {
+            started(record.id());
+            if (cancel.get()) {
+                active.remove(record.id());
+                return;
+            }
+            record = record.starting(Instant.now(), total);
+            workspace.update(record);
+            workspace.log(record, String.format("started: %,d specifications on %d thread%s", total, threads,
+                    threads == 1 ? "" : "s"));
+            try {
+                Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
+                Table table = analyses.table(analysis);
+                RunResult result = new MultiverseRunner(threads).run(plan, table, (d, t) -> done.set(d), cancel);
+                RunSummary summary = RunSummary.of(result.results(), plan.alpha());
+                if (summary.fitted() == 0) {
+                    throw new InputException("", "no specification could be fitted; the first reason: "
+                            + result.results().status(0));
+                }
+                Map<String, Object> extra = sections.of(result, cancel);
+                if (cancel.get()) {
+                    throw new RunCancelledException();
+                }
+                RunOutputs.write(result, workspace.runFolder(analysis.id(), record.id()), planText, extra);
+                if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
+                        summary.fitted(), summary.specifications(), result.seconds()))) {
+                    events.publishEvent(new RunFinished(analysis.id(), record.id(), result));
+                }
+            } catch (RunCancelledException e) {
+                end(stopAs, "", "", stopAs == RunState.CANCELLED ? "cancelled" : "interrupted");
+            } catch (InputException e) {
+                end(RunState.FAILED, e.where(), e.problem(), "failed: " + e.getMessage());
+            } catch (OutOfMemoryError e) {
+                end(RunState.FAILED, "", "the server ran out of memory for this run; fit a random sample of the "
+                        + "specifications (plan keys \"sample\" and \"seed\") or give the server more memory",
+                        "failed: out of memory");
+            } catch (RuntimeException e) {
+                LOG.error("run {} of analysis {} failed", record.id(), analysis.id(), e);
+                end(RunState.FAILED, "", "internal error (" + e.getClass().getSimpleName() + "); the server log has "
+                        + "the details", "failed: internal error: " + e);
+            } finally {
+                active.remove(record.id());
+            }
+        }
+
+        /** Records the end once; later calls (a cancel racing a finish) do nothing. */
+        private boolean end(RunState state, String where, String why, String logLine) {
+            if (!ended.compareAndSet(false, true)) {
+                return false;
+            }
+            record = record.ending(state, Instant.now(), where, why);
+            workspace.update(record);
+            workspace.log(record, logLine);
+            if (state == RunState.CANCELLED && record.started() == null) {
+                started(record.id());
+            }
+            return true;
+        }
+    }
+}

@@ -1,0 +1,97 @@
+package org.forkscape.web.system;
+
+import jakarta.servlet.http.HttpServletRequest;
+import org.forkscape.InputException;
+import org.forkscape.web.run.RunQueueFullException;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import org.springframework.http.HttpStatus;
+import org.springframework.http.ResponseEntity;
+import org.springframework.util.unit.DataSize;
+import org.springframework.beans.factory.annotation.Value;
+import org.springframework.web.bind.MissingServletRequestParameterException;
+import org.springframework.web.bind.annotation.ControllerAdvice;
+import org.springframework.web.bind.annotation.ExceptionHandler;
+import org.springframework.web.method.annotation.MethodArgumentTypeMismatchException;
+import org.springframework.web.multipart.MaxUploadSizeExceededException;
+import org.springframework.web.multipart.MultipartException;
+import org.springframework.web.servlet.ModelAndView;
+import org.springframework.web.servlet.resource.NoResourceFoundException;
+
+/**
+ * Turns every failure into one plain message: a {@link Problem} for the JSON API ({@code /api/...}), the
+ * error page otherwise. Problems the user can fix get their own status and sentence; anything else is
+ * logged with its stack trace and shown as an internal error, never as a trace.
+ */
+@ControllerAdvice
+class ErrorAdvice {
+    private static final Logger LOG = LoggerFactory.getLogger(ErrorAdvice.class);
+
+    private final DataSize maxUpload;
+
+    ErrorAdvice(@Value("${spring.servlet.multipart.max-file-size}") DataSize maxUpload) {
+        this.maxUpload = maxUpload;
+    }
+
+    @ExceptionHandler(InputException.class)
+    Object input(InputException e, HttpServletRequest request) {
+        return answer(request, HttpStatus.BAD_REQUEST, e.where(), e.problem());
+    }
+
+    @ExceptionHandler({NotFoundException.class, NoResourceFoundException.class})
+    Object notFound(Exception e, HttpServletRequest request) {
+        String message = e instanceof NotFoundException ? e.getMessage() : "there is nothing at this address";
+        return answer(request, HttpStatus.NOT_FOUND, "", message);
+    }
+
+    @ExceptionHandler(RunQueueFullException.class)
+    Object busy(RunQueueFullException e, HttpServletRequest request) {
+        return answer(request, HttpStatus.SERVICE_UNAVAILABLE, "", e.getMessage());
+    }
+
+    @ExceptionHandler(MaxUploadSizeExceededException.class)
+    Object tooLarge(MaxUploadSizeExceededException e, HttpServletRequest request) {
+        return answer(request, HttpStatus.PAYLOAD_TOO_LARGE, "file", "the file is larger than this server accepts ("
+                + maxUpload.toMegabytes() + " MB, setting spring.servlet.multipart.max-file-size)");
+    }
+
+    @ExceptionHandler(MultipartException.class)
+    Object badUpload(MultipartException e, HttpServletRequest request) {
+        return answer(request, HttpStatus.BAD_REQUEST, "file", "the upload could not be read: send the CSV file as "
+                + "the form field \"file\" of a multipart/form-data request");
+    }
+
+    @ExceptionHandler({MissingServletRequestParameterException.class, MethodArgumentTypeMismatchException.class})
+    Object badParameter(Exception e, HttpServletRequest request) {
+        String name = e instanceof MissingServletRequestParameterException m ? m.getParameterName()
+                : ((MethodArgumentTypeMismatchException) e).getName();
+        return answer(request, HttpStatus.BAD_REQUEST, name, e instanceof MissingServletRequestParameterException
+                ? "is required" : "is not a value of the expected type");
+    }
+
+    @ExceptionHandler(IllegalStateException.class)
+    Object conflict(IllegalStateException e, HttpServletRequest request) {
+        LOG.warn("{} {}: {}", request.getMethod(), request.getRequestURI(), e.getMessage());
+        return answer(request, HttpStatus.CONFLICT, "", e.getMessage());
+    }
+
+    @ExceptionHandler(Exception.class)
+    Object internal(Exception e, HttpServletRequest request) {
+        LOG.error("{} {} failed", request.getMethod(), request.getRequestURI(), e);
+        return answer(request, HttpStatus.INTERNAL_SERVER_ERROR, "", "internal error (" + e.getClass().getSimpleName()
+                + "); the server log has the details");
+    }
+
+    private static Object answer(HttpServletRequest request, HttpStatus status, String where, String message) {
+        if (request.getRequestURI().startsWith(request.getContextPath() + "/api/")) {
+            return ResponseEntity.status(status).body(new Problem(where == null ? "" : where, message));
+        }
+        ModelAndView page = new ModelAndView("error");
+        page.setStatus(status);
+        page.addObject("status", status.value());
+        page.addObject("reason", status.getReasonPhrase());
+        page.addObject("where", where);
+        page.addObject("message", message);
+        return page;
+    }
+}

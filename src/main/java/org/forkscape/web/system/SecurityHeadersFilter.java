@@ -1,0 +1,102 @@
+package org.forkscape.web.system;
+
+import jakarta.servlet.FilterChain;
+import jakarta.servlet.ServletException;
+import jakarta.servlet.http.HttpServletRequest;
+import jakarta.servlet.http.HttpServletResponse;
+import java.io.IOException;
+import java.net.InetAddress;
+import java.net.URI;
+import java.nio.charset.StandardCharsets;
+import java.util.Locale;
+import java.util.Set;
+import org.springframework.beans.factory.annotation.Value;
+import org.springframework.stereotype.Component;
+import org.springframework.web.filter.OncePerRequestFilter;
+
+/**
+ * Protections every response gets, with no login of its own (a shared deployment puts authentication in
+ * front, see README):
+ * <ul>
+ * <li>a content security policy that lets pages run only this server's scripts and styles, so text from
+ *     data (column names, labels) can never become code, plus the usual nosniff, frame and referrer
+ *     headers;</li>
+ * <li>requests that change something (POST, PUT, DELETE) from a page of another origin are refused, so a
+ *     web page elsewhere cannot start runs or upload through the user's browser;</li>
+ * <li>while the server listens on the loopback address only (the default), a request must name this
+ *     machine in its Host header, which stops other sites from reaching it through DNS rebinding.</li>
+ * </ul>
+ */
+@Component
+class SecurityHeadersFilter extends OncePerRequestFilter {
+    static final String POLICY = "default-src 'self'; script-src 'self'; style-src 'self'; img-src 'self' data: blob:; "
+            + "connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'; frame-ancestors 'none'";
+    private static final Set<String> LOOPBACK_NAMES = Set.of("localhost", "127.0.0.1", "[::1]", "::1");
+    private static final Set<String> CHANGING = Set.of("POST", "PUT", "PATCH", "DELETE");
+
+    private final boolean loopbackOnly;
+
+    SecurityHeadersFilter(@Value("${server.address:}") String address) {
+        this.loopbackOnly = isLoopback(address);
+    }
+
+    @Override
+    protected void doFilterInternal(HttpServletRequest request, HttpServletResponse response, FilterChain chain)
+            throws ServletException, IOException {
+        response.setHeader("Content-Security-Policy", POLICY);
+        response.setHeader("X-Content-Type-Options", "nosniff");
+        response.setHeader("X-Frame-Options", "DENY");
+        response.setHeader("Referrer-Policy", "same-origin");
+        String host = request.getHeader("Host");
+        if (loopbackOnly && host != null && !LOOPBACK_NAMES.contains(hostName(host))) {
+            refuse(response, "this server answers only requests addressed to localhost");
+            return;
+        }
+        String origin = request.getHeader("Origin");
+        if (CHANGING.contains(request.getMethod()) && origin != null && !sameOrigin(origin, host)) {
+            refuse(response, "a page of another site cannot change anything here");
+            return;
+        }
+        chain.doFilter(request, response);
+    }
+
+    private static void refuse(HttpServletResponse response, String why) throws IOException {
+        response.setStatus(HttpServletResponse.SC_FORBIDDEN);
+        response.setContentType("text/plain;charset=UTF-8");
+        response.getOutputStream().write(("Forbidden: " + why + ".\n").getBytes(StandardCharsets.UTF_8));
+    }
+
+    private static boolean sameOrigin(String origin, String host) {
+        if (host == null || origin.equals("null")) {
+            return false;
+        }
+        try {
+            URI o = URI.create(origin);
+            String authority = o.getRawAuthority();
+            return authority != null && authority.equalsIgnoreCase(host);
+        } catch (IllegalArgumentException e) {
+            return false;
+        }
+    }
+
+    private static String hostName(String host) {
+        String h = host.toLowerCase(Locale.ROOT);
+        if (h.startsWith("[")) {
+            int end = h.indexOf(']');
+            return end < 0 ? h : h.substring(0, end + 1);
+        }
+        int colon = h.lastIndexOf(':');
+        return colon < 0 ? h : h.substring(0, colon);
+    }
+
+    private static boolean isLoopback(String address) {
+        if (address == null || address.isBlank()) {
+            return false;
+        }
+        try {
+            return InetAddress.getByName(address).isLoopbackAddress();
+        } catch (IOException e) {
+            return false;
+        }
+    }
+}

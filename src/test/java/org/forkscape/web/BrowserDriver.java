@@ -1,0 +1,50 @@
+package org.forkscape.web;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Map;
+import org.openqa.selenium.OutputType;
+import org.openqa.selenium.TakesScreenshot;
+import org.openqa.selenium.chrome.ChromeDriver;
+import org.openqa.selenium.chrome.ChromeDriverService;
+import org.openqa.selenium.chrome.ChromeOptions;
+
+/**
+ * Headless Debian Chromium driven through Debian's chromedriver, both named explicitly so that Selenium
+ * never looks for (or downloads) a browser or driver. src/test/setup/install-test-tools.sh installs them
+ * on a fresh machine.
+ */
+public final class BrowserDriver {
+    public static final Path CHROMIUM = Path.of("/usr/bin/chromium");
+    public static final Path CHROMEDRIVER = Path.of("/usr/bin/chromedriver");
+
+    private BrowserDriver() {
+    }
+
+    /** A fresh browser with its own profile, downloading into {@code downloads}. */
+    public static ChromeDriver start(Path profile, Path downloads, int width, int height) {
+        ChromeOptions options = new ChromeOptions();
+        options.setBinary(CHROMIUM.toFile());
+        options.addArguments("--headless=new", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+                "--disable-background-networking", "--disable-component-update", "--disable-sync",
+                "--disable-dev-shm-usage", "--user-data-dir=" + profile, "--window-size=" + width + "," + height,
+                "--force-device-scale-factor=1", "--lang=en-GB");
+        options.setExperimentalOption("prefs", Map.of("download.default_directory", downloads.toString(),
+                "download.prompt_for_download", false, "safebrowsing.enabled", false));
+        ChromeDriverService service = new ChromeDriverService.Builder().usingDriverExecutable(CHROMEDRIVER.toFile())
+                .usingAnyFreePort().build();
+        return new ChromeDriver(service, options);
+    }
+
+    public static void screenshot(ChromeDriver driver, String name) {
+        try {
+            Path dir = Path.of("target", "screenshots");
+            Files.createDirectories(dir);
+            Files.write(dir.resolve(name + ".png"), ((TakesScreenshot) driver).getScreenshotAs(OutputType.BYTES));
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+}

@@ -1,0 +1,276 @@
+package org.forkscape.web;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.Arrays;
+import java.util.List;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.openqa.selenium.By;
+import org.openqa.selenium.WebElement;
+import org.openqa.selenium.chrome.ChromeDriver;
+import org.openqa.selenium.interactions.Actions;
+import org.openqa.selenium.support.ui.ExpectedConditions;
+import org.openqa.selenium.support.ui.Select;
+import org.openqa.selenium.support.ui.WebDriverWait;
+import org.springframework.boot.test.context.SpringBootTest;
+import org.springframework.boot.test.web.server.LocalServerPort;
+import org.springframework.test.context.DynamicPropertyRegistry;
+import org.springframework.test.context.DynamicPropertySource;
+
+/**
+ * The whole way through the tool in a real browser (headless Chromium): upload a CSV, build a plan in
+ * the form (with a mistake shown beside its field, then corrected), run it, hover and click a
+ * specification, untick an alternative, change the order, export the CSV and the figure; then a run large
+ * enough to be drawn reduced. Screenshots go to target/screenshots.
+ */
+@SpringBootTest(webEnvironment = SpringBootTest.WebEnvironment.RANDOM_PORT)
+class ExplorerBrowserTest {
+    private static final Path TEMP = temp();
+    private static ChromeDriver driver;
+
+    @LocalServerPort
+    int port;
+
+    @DynamicPropertySource
+    static void settings(DynamicPropertyRegistry registry) {
+        registry.add("forkscape.workspace", () -> TEMP.resolve("workspace").toString());
+        registry.add("forkscape.demo.enabled", () -> "false");
+    }
+
+    @BeforeAll
+    static void browser() throws IOException {
+        Files.createDirectories(TEMP.resolve("downloads"));
+        driver = BrowserDriver.start(TEMP.resolve("profile"), TEMP.resolve("downloads"), 1440, 1800);
+    }
+
+    @AfterAll
+    static void close() {
+        if (driver != null) {
+            driver.quit();
+        }
+    }
+
+    @Test
+    void fromUploadToExportThroughThePages() throws Exception {
+        Path csv = TEMP.resolve("outreach.csv");
+        Files.writeString(csv, CivicTestData.csv(400, 5));
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(60));
+
+        driver.get(base() + "/");
+        driver.findElement(By.id("upload-file")).sendKeys(csv.toString());
+        driver.findElement(By.id("upload-title-input")).sendKeys("Outreach and turnout");
+        driver.findElement(By.cssSelector(".upload-form button[type=submit]")).click();
+        wait.until(ExpectedConditions.presenceOfElementLocated(By.id("columns")));
+        assertTrue(driver.findElement(By.id("columns")).getText().contains("outreach_hours"));
+        BrowserDriver.screenshot(driver, "1-data");
+
+        driver.findElement(By.linkText("Next: declare the plan")).click();
+        wait.until(ExpectedConditions.presenceOfElementLocated(By.id("spec-count")));
+        type(wait, "decisions[0].alternatives[0].label", "turnout");
+        choose(wait, "decisions[0].alternatives[0].column", "turnout");
+        press(wait, "Add an alternative to outcome");
+        type(wait, "decisions[0].alternatives[1].label", "turnout change");
+        choose(wait, "decisions[0].alternatives[1].column", "turnout_change");
+        type(wait, "decisions[1].alternatives[0].label", "hours");
+        choose(wait, "decisions[1].alternatives[0].column", "outreach_hours");
+        press(wait, "Add an alternative to predictor");
+        type(wait, "decisions[1].alternatives[1].label", "log hours");
+        choose(wait, "decisions[1].alternatives[1].column", "outreach_hours");
+        choose(wait, "decisions[1].alternatives[1].transform", "log");
+        addDecision(wait, "controls");
+        for (String control : List.of("median_age", "rainfall", "income_index")) {
+            click(wait.until(d -> d.findElement(By.cssSelector("[data-path='decisions[2].optional'] input[value='"
+                    + control + "']"))));
+        }
+        addDecision(wait, "errors");
+        press(wait, "Add an alternative to errors");
+        addDecision(wait, "sample");
+        press(wait, "Add an alternative to rows");
+        type(wait, "decisions[4].alternatives[1].label", "urban");
+        type(wait, "decisions[4].alternatives[1].keep", "urban = 1");
+        // the plan reader's message appears beside the expression it is about
+        WebElement problem = wait.until(d -> {
+            WebElement p = d.findElement(By.cssSelector("[data-path='decisions[4].alternatives[1].keep'] .problem"));
+            return p.isDisplayed() ? p : null;
+        });
+        assertTrue(problem.getText().contains("is not an operator; use == or !="), problem.getText());
+        BrowserDriver.screenshot(driver, "2-plan-problem");
+        WebElement keep = field(wait, "decisions[4].alternatives[1].keep");
+        keep.clear();
+        keep.sendKeys("urban == 1");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
+        assertEquals("128 specifications", driver.findElement(By.id("spec-count")).getText());
+        BrowserDriver.screenshot(driver, "2-plan");
+        driver.findElement(By.id("run-plan")).click();
+
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
+        Thread.sleep(300);
+        BrowserDriver.screenshot(driver, "3-explore");
+
+        WebElement curve = driver.findElement(By.id("curve-canvas"));
+        new Actions(driver).moveToElement(curve, 120, 0).perform();
+        WebElement details = wait.until(d -> {
+            WebElement e = d.findElement(By.id("spec-numbers"));
+            return e.isDisplayed() ? e : null;
+        });
+        String estimate = match(details.getText(), "Estimate (-?[0-9.,]+)");
+        String spec = match(driver.findElement(By.cssSelector("#spec-details strong")).getText(), "Specification (\\d+)");
+        BrowserDriver.screenshot(driver, "4-hover");
+        driver.executeScript("document.getElementById('influence-title').scrollIntoView()");
+        BrowserDriver.screenshot(driver, "4-influence");
+        driver.executeScript("window.scrollTo(0, 0)");
+
+        new Actions(driver).moveToElement(curve, 120, 0).click().perform();
+        WebElement table = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("fit-table")));
+        assertTrue(driver.findElement(By.id("fit-title")).getText().contains("Specification " + spec));
+        WebElement keyRow = table.findElement(By.cssSelector("tr.key-row"));
+        assertTrue(keyRow.getText().contains("(key predictor)"));
+        double shown = Double.parseDouble(keyRow.findElements(By.cssSelector("td")).get(0).getText().replace(",", ""));
+        assertEquals(Double.parseDouble(estimate.replace(",", "")), shown, Math.abs(shown) * 1e-3,
+                "the full fit's key estimate is the curve's");
+        BrowserDriver.screenshot(driver, "5-full-fit");
+        driver.findElement(By.id("fit-close")).click();
+        wait.until(d -> !d.findElement(By.id("fit-dialog")).isDisplayed());
+
+        driver.findElement(By.id("f0-l1")).click();
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 64 of 128"));
+        assertTrue(driver.findElement(By.id("card-count")).getText().contains("64"));
+        new Select(driver.findElement(By.id("sort"))).selectByValue("factor:5");
+        wait.until(d -> d.getCurrentUrl().contains("sort=factor%3A5"));
+        Thread.sleep(300);
+        BrowserDriver.screenshot(driver, "6-filtered-grouped");
+
+        driver.findElement(By.id("export-csv")).click();
+        Path exported = waitForFile(TEMP.resolve("downloads").resolve("specifications.csv"));
+        List<String> lines = Files.readAllLines(exported, StandardCharsets.UTF_8);
+        assertEquals("spec,outcome,predictor,controls,errors,rows,estimate,std_error,statistic,df,p_value,ci_low,ci_high,"
+                + "n_obs,n_params,r2,adj_r2,model_p_value,status", lines.get(0));
+        assertEquals(129, lines.size());
+        driver.findElement(By.id("export-png")).click();
+        Path png = waitForSuffix(".png");
+        byte[] head = Arrays.copyOf(Files.readAllBytes(png), 8);
+        assertArrayEquals(new byte[] {(byte) 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n'}, head);
+        Files.copy(png, Path.of("target", "screenshots", "7-exported-figure.png"),
+                java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+    }
+
+    @Test
+    void aLargeSetIsDrawnReducedAndStillAnswersAtThePointer() throws Exception {
+        String id = upload();
+        HttpClient http = HttpClient.newHttpClient();
+        String plan = CivicTestData.plan(6);
+        HttpResponse<String> run = http.send(HttpRequest.newBuilder(URI.create(base() + "/api/analyses/" + id + "/runs"))
+                .header("Content-Type", "application/json").POST(HttpRequest.BodyPublishers.ofString(plan)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(202, run.statusCode(), run.body());
+        String runId = match(run.body(), "\"id\":\"([0-9a-z-]+)\"");
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(90));
+        driver.get(base() + "/analyses/" + id + "/runs/" + runId);
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
+        assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
+        new Actions(driver).moveToElement(driver.findElement(By.id("grid-canvas")), 200, 0).perform();
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("spec-details"), "Specification"));
+        Thread.sleep(300);
+        BrowserDriver.screenshot(driver, "8-explore-reduced");
+    }
+
+    private String upload() throws Exception {
+        String boundary = "----forkscape-test";
+        String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"outreach.csv\"\r\n"
+                + "Content-Type: text/csv\r\n\r\n" + CivicTestData.csv(300, 11) + "\r\n--" + boundary + "--\r\n";
+        HttpResponse<String> r = HttpClient.newHttpClient().send(
+                HttpRequest.newBuilder(URI.create(base() + "/api/analyses"))
+                        .header("Content-Type", "multipart/form-data; boundary=" + boundary)
+                        .POST(HttpRequest.BodyPublishers.ofString(body)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(201, r.statusCode(), r.body());
+        return match(r.body(), "\"id\":\"([0-9a-z-]+)\"");
+    }
+
+    private String base() {
+        return "http://localhost:" + port;
+    }
+
+    private static WebElement field(WebDriverWait wait, String path) {
+        WebElement e = wait.until(d -> d.findElement(By.cssSelector("[data-path='" + path + "'] input, [data-path='"
+                + path + "'] select, [data-path='" + path + "'] textarea")));
+        driver.executeScript("arguments[0].scrollIntoView({block: 'center'})", e);
+        return e;
+    }
+
+    private static void type(WebDriverWait wait, String path, String text) {
+        WebElement input = field(wait, path);
+        input.clear();
+        input.sendKeys(text);
+    }
+
+    private static void choose(WebDriverWait wait, String path, String value) {
+        new Select(field(wait, path)).selectByValue(value);
+    }
+
+    private static void press(WebDriverWait wait, String label) {
+        click(wait.until(d -> d.findElement(By.cssSelector("button[aria-label='" + label + "']"))));
+    }
+
+    private static void addDecision(WebDriverWait wait, String kind) {
+        new Select(wait.until(d -> d.findElement(By.id("new-decision-kind")))).selectByValue(kind);
+        click(driver.findElement(By.id("add-decision")));
+    }
+
+    /** Clicks after scrolling the element to the middle of the window, clear of the sticky plan toolbar. */
+    private static void click(WebElement element) {
+        driver.executeScript("arguments[0].scrollIntoView({block: 'center'})", element);
+        element.click();
+    }
+
+    private static String match(String text, String regex) {
+        Matcher m = Pattern.compile(regex).matcher(text);
+        assertTrue(m.find(), text + " has no " + regex);
+        return m.group(1);
+    }
+
+    private static Path waitForFile(Path file) throws InterruptedException {
+        for (int i = 0; i < 200 && !Files.isRegularFile(file); i++) {
+            Thread.sleep(100);
+        }
+        assertTrue(Files.isRegularFile(file), "no download " + file);
+        return file;
+    }
+
+    private static Path waitForSuffix(String suffix) throws Exception {
+        Path dir = TEMP.resolve("downloads");
+        for (int i = 0; i < 200; i++) {
+            try (var files = Files.list(dir)) {
+                var found = files.filter(f -> f.getFileName().toString().endsWith(suffix)).findFirst();
+                if (found.isPresent()) {
+                    return found.get();
+                }
+            }
+            Thread.sleep(100);
+        }
+        throw new AssertionError("no " + suffix + " download in " + dir);
+    }
+
+    private static Path temp() {
+        try {
+            return Files.createTempDirectory("forkscape-browser-");
+        } catch (IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+    }
+}

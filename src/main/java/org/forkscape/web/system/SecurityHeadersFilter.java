@@ -53,11 +53,21 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
             return;
         }
         String origin = request.getHeader("Origin");
-        if (CHANGING.contains(request.getMethod()) && origin != null && !sameOrigin(origin, host)) {
+        if (CHANGING.contains(request.getMethod()) && origin != null && !sameOrigin(origin, host(request, host))) {
             refuse(response, "a page of another site cannot change anything here");
             return;
         }
         chain.doFilter(request, response);
+    }
+
+    /** The Host header, or (HTTP/1.0 clients) the server name and port the request reached. */
+    private static String host(HttpServletRequest request, String header) {
+        if (header != null) {
+            return header;
+        }
+        int port = request.getServerPort();
+        boolean usual = ("http".equals(request.getScheme()) && port == 80) || ("https".equals(request.getScheme()) && port == 443);
+        return usual ? request.getServerName() : request.getServerName() + ":" + port;
     }
 
     private static void refuse(HttpServletResponse response, String why) throws IOException {

@@ -1,0 +1,73 @@
+package org.forkscape.run;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.Table;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.web.CivicTestData;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** A run read back from its specifications.csv is the run that wrote it, number for number. */
+class SpecificationsCsvReaderTest {
+    @TempDir
+    Path folder;
+
+    @Test
+    void everyColumnReadsBackExactlyIncludingFailedSpecifications() throws Exception {
+        Files.writeString(folder.resolve("data.csv"), CivicTestData.csv(200, 3));
+        // a sample rule that leaves a handful of rows: specifications with many controls cannot be fitted
+        String json = CivicTestData.plan(6).replace("{\"label\": \"urban\", \"keep\": \"urban == 1\"}",
+                "{\"label\": \"few\", \"keep\": \"outreach_hours > 19.5\"}");
+        check(new PlanReader(true).read(json, folder));
+    }
+
+    @Test
+    void aSampledRunKeepsItsSpecificationNumbers() throws Exception {
+        Files.writeString(folder.resolve("data.csv"), CivicTestData.csv(200, 4));
+        Plan plan = new PlanReader(true).read(CivicTestData.plan(6), folder).withSample(300, 99);
+        check(plan);
+    }
+
+    private void check(Plan plan) throws Exception {
+        Table table = new CsvTableReader().read(plan.dataFile());
+        RunResult run = new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, null);
+        Path csv = folder.resolve("specifications.csv");
+        SpecificationsCsv.write(run, csv);
+        RunResult back = SpecificationsCsvReader.read(plan, table, csv, run.seconds());
+        ResultTable a = run.results();
+        ResultTable b = back.results();
+        assertEquals(a.size(), b.size());
+        int failed = 0;
+        for (int s = 0; s < a.size(); s++) {
+            assertEquals(a.specIndex(s), b.specIndex(s));
+            assertEquals(a.fitted(s), b.fitted(s));
+            assertEquals(a.status(s), b.status(s));
+            assertEquals(a.nObs(s), b.nObs(s));
+            assertEquals(a.nParams(s), b.nParams(s));
+            assertEquals(a.estimate(s), b.estimate(s));
+            assertEquals(a.r2(s), b.r2(s));
+            assertEquals(a.modelPValue(s), b.modelPValue(s));
+            if (a.fitted(s)) {
+                assertEquals(a.stdError(s), b.stdError(s));
+                assertEquals(a.df(s), b.df(s));
+                assertEquals(a.pValue(s), b.pValue(s));
+                assertEquals(a.ciLow(s, 0.95), b.ciLow(s, 0.95));
+            } else {
+                failed++;
+            }
+        }
+        if (plan.sampleSize() == 0) {
+            assertTrue(failed > 0, "the first plan must contain specifications without an estimate");
+        }
+        // the file written again from the read-back run is the same file
+        Path again = folder.resolve("again.csv");
+        SpecificationsCsv.write(back, again);
+        assertEquals(Files.readString(csv), Files.readString(again));
+    }
+}

@@ -348,23 +348,28 @@ function wholeRun(summary) {
   const best = summary.best;
   if (best && typeof best === 'object') {
     box.append(card('Smallest p in the set', `p ${fmtP(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
-    box.append(card('The same, adjusted for choosing it', `p ${fmtP(best.p_adjusted)}`,
-      'share of null draws whose smallest p is as small'));
+    box.append(card('The same, adjusted for choosing it',
+      best.p_adjusted === null ? '\u2013' : `p ${fmtP(best.p_adjusted)}`,
+      best.p_adjusted === null ? best.adjustment : 'share of null draws whose smallest p is as small'));
   }
   const bounds = summary.extreme_bounds;
   if (bounds && typeof bounds === 'object') {
     box.append(card('Extreme bounds', `${fmt(bounds.lower)} to ${fmt(bounds.upper)}`,
       bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
   }
-  const shown = new Set(['null', 'best', 'extreme_bounds', 'influence']);
+  const shown = new Set(['null', 'best', 'extreme_bounds', 'influence', 'influence_overall']);
+  const more = el('details', { class: 'more-sections', id: 'more-sections' },
+    el('summary', {}, 'Further sections of summary.json'));
   for (const [key, value] of Object.entries(summary)) {
     if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
-    const items = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object');
-    box.append(el('div', { class: 'summary-card' }, el('p', { class: 'label' }, key.replaceAll('_', ' ')),
-      el('dl', {}, items.map(([k, v]) => el('div', {}, el('dt', {}, `${k.replaceAll('_', ' ')}: `),
-        el('dd', {}, typeof v === 'number' ? fmt(v, 4) : String(v)))))));
+    const rows = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object')
+      .map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, k.replaceAll('_', ' ')),
+        el('td', {}, typeof v === 'number' ? fmt(v, 4) : String(v ?? '\u2013'))));
+    more.append(el('table', { class: 'sections-table' }, el('caption', {}, key.replaceAll('_', ' ')),
+      el('tbody', {}, rows)));
   }
-  document.getElementById('whole-run').hidden = box.childElementCount === 0;
+  if (more.childElementCount > 1) document.getElementById('whole-run-cards').after(more);
+  document.getElementById('whole-run').hidden = box.childElementCount === 0 && more.childElementCount <= 1;
 }
 
 function influenceTable(influence) {
@@ -372,7 +377,8 @@ function influenceTable(influence) {
   const box = clear(document.getElementById('influence-table'));
   if (influence.factors.length === 0) return;
   const head = el('tr', {}, ['Decision or control', 'Share of the variance', 'Median estimate by alternative',
-    'Significant (+ / \u2212) by alternative'].map((h) => el('th', { scope: 'col' }, h)));
+    `Significant in the dominant sign (${influence.dominantSign}) by alternative`]
+    .map((h) => el('th', { scope: 'col' }, h)));
   const rows = influence.factors.map((f) => {
     const share = num(f.varianceShare);
     const bar = el('span', { class: 'share-bar', 'aria-hidden': 'true' });
@@ -382,8 +388,7 @@ function influenceTable(influence) {
       el('td', { class: 'num' }, bar, pct(share)),
       el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${fmt(l.median)} (${fmt(l.lowerQuartile)} to `
         + `${fmt(l.upperQuartile)}), ${count(l.count)}`))),
-      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${pct(l.shareSignificantPositive)} / `
-        + `${pct(l.shareSignificantNegative)}`))));
+      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${pct(l.shareSignificant)}`))));
   });
   rows.push(el('tr', {}, el('th', { scope: 'row' }, 'Interactions (the rest)'),
     el('td', { class: 'num' }, pct(influence.interactions)), el('td', {}), el('td', {})));

@@ -26,8 +26,16 @@ function show(s) {
   document.getElementById('run-done').textContent = count(s.done);
   document.getElementById('run-total').textContent = count(s.total);
   document.getElementById('run-elapsed').textContent = duration(s.elapsedSeconds);
-  document.getElementById('run-remaining').textContent = s.state === 'running' ? duration(s.remainingSeconds)
-    : s.state === 'queued' ? 'waiting to start' : '0 s';
+  const draws = document.getElementById('run-draws');
+  if (s.phase === 'null draws') {
+    draws.hidden = false;
+    draws.textContent = `Null draws: ${count(s.drawsDone)} of ${count(s.drawsTotal)}`;
+  }
+  let remaining = '0 s';
+  if (s.state === 'queued') remaining = 'waiting to start';
+  else if (s.state === 'running' && s.phase === 'fitting') remaining = duration(s.remainingSeconds);
+  else if (s.state === 'running') remaining = 'null draws under way';
+  document.getElementById('run-remaining').textContent = remaining;
 }
 
 async function poll() {

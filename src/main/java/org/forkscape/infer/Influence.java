@@ -32,6 +32,16 @@ public final class Influence {
     }
 
     public static InfluenceReport of(SpecificationGrid grid) {
+        return of(grid, Long.MAX_VALUE);
+    }
+
+    /**
+     * As {@link #of(SpecificationGrid)}, but pairs of levels are searched only while the specifications
+     * times the pairs of factors stay within {@code maxPairWork}: the explorer recomputes this on every
+     * filter and must answer at once on a million specifications; the sentence then says the pairs were
+     * not searched.
+     */
+    public static InfluenceReport of(SpecificationGrid grid, long maxPairWork) {
         int n = grid.size();
         List<Factor> factors = grid.factors();
         if (n == 0) {
@@ -92,12 +102,12 @@ public final class Influence {
         boolean below = overall >= 0.5;
         List<InfluenceReport.Restriction> found = singles(grid, significant, below);
         int level = 1;
-        if (found.isEmpty()) {
+        long factorPairs = (long) factors.size() * (factors.size() - 1) / 2;
+        if (found.isEmpty() && factorPairs > 0 && n > maxPairWork / factorPairs) {
+            level = -1;
+        } else if (found.isEmpty()) {
             found = pairs(grid, significant, below);
-            level = 2;
-        }
-        if (found.isEmpty()) {
-            level = 0;
+            level = found.isEmpty() ? 0 : 2;
         }
         Comparator<InfluenceReport.Restriction> order = Comparator.comparingDouble(InfluenceReport.Restriction::share);
         found.sort(below ? order : order.reversed());
@@ -180,6 +190,10 @@ public final class Influence {
         String reach = below ? "brings it below half" : "brings it to half or more";
         if (level == 0) {
             return s.append("no single choice and no pair of choices ").append(reach).toString();
+        }
+        if (level == -1) {
+            return s.append("no single choice ").append(reach)
+                    .append(" (pairs of choices are not searched in a set this large)").toString();
         }
         if (level == 2) {
             s.append("no single choice ").append(reach).append("; ");

@@ -80,8 +80,6 @@ public final class CurveReducer {
         double[] high = new double[bins];
         int[] sigPositive = new int[bins];
         int[] sigNegative = new int[bins];
-        double[][] share = new double[rows.size()][bins];
-        int[] counts = new int[rows.size()];
         double[] scratch = new double[n / bins + 2];
         for (int b = 0; b < bins; b++) {
             int start = (int) ((long) b * n / bins);
@@ -94,7 +92,6 @@ public final class CurveReducer {
             double envelopeHigh = Double.NEGATIVE_INFINITY;
             boolean ascending = true;
             double previous = Double.NEGATIVE_INFINITY;
-            Arrays.fill(counts, 0);
             for (int i = start; i < end; i++) {
                 int k = ranks[i];
                 double v = e[k];
@@ -111,21 +108,31 @@ public final class CurveReducer {
                 } else if (sig[k] < 0) {
                     sigNegative[b]++;
                 }
-                for (int f = 0; f < factors; f++) {
-                    int r = rowOf[f][level[f][k]];
-                    if (r >= 0) {
-                        counts[r]++;
-                    }
-                }
             }
-            int size = end - start;
             min[b] = lo;
             max[b] = hi;
             low[b] = envelopeLow;
             high[b] = envelopeHigh;
+            int size = end - start;
             median[b] = ascending ? middle(e, ranks, start, size) : sortedMiddle(e, ranks, start, size, scratch);
-            for (int r = 0; r < counts.length; r++) {
-                share[r][b] = counts[r] / (double) size;
+        }
+        // the shares, one factor at a time so that each pass reads one level column in order
+        double[][] share = new double[rows.size()][bins];
+        for (int f = 0; f < factors; f++) {
+            int[] column = level[f];
+            int[] rowOfLevel = rowOf[f];
+            int[] counts = new int[rowOfLevel.length];
+            for (int b = 0; b < bins; b++) {
+                java.util.Arrays.fill(counts, 0);
+                for (int i = from[b]; i < to[b]; i++) {
+                    counts[column[ranks[i]]]++;
+                }
+                double size = to[b] - from[b];
+                for (int l = 0; l < counts.length; l++) {
+                    if (rowOfLevel[l] >= 0) {
+                        share[rowOfLevel[l]][b] = counts[l] / size;
+                    }
+                }
             }
         }
         return new Curve.Bins(from, to, min, median, max, low, high, sigPositive, sigNegative, share);

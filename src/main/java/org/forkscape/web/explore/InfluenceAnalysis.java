@@ -1,9 +1,8 @@
 package org.forkscape.web.explore;
 
 /**
- * Computes the influence panel for the specifications a filter keeps. The explorer's own
- * {@link LevelInfluence} answers in one pass per factor; an implementation backed by the inference
- * package can take its place as a Spring bean of this type.
+ * Computes the influence panel for the specifications a filter keeps. {@link DecisionInfluence} answers
+ * with the inference package's analysis; the seam lets a benchmark or a test time or replace it.
  */
 @FunctionalInterface
 public interface InfluenceAnalysis {

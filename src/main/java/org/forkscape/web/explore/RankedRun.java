@@ -23,6 +23,7 @@ public final class RankedRun {
     private final double[] estimate;
     private final double[] low;
     private final double[] high;
+    private final double[] p;
     /** +1 significant and positive, -1 significant and negative, 0 otherwise, at the plan's level. */
     private final byte[] significance;
     private final List<Factor> factors;
@@ -57,6 +58,7 @@ public final class RankedRun {
         estimate = new double[size];
         low = new double[size];
         high = new double[size];
+        p = new double[size];
         significance = new byte[size];
         for (int k = 0; k < size; k++) {
             int s = slot[k];
@@ -64,7 +66,8 @@ public final class RankedRun {
             estimate[k] = b;
             low[k] = r.ciLow(s, confidence);
             high[k] = r.ciHigh(s, confidence);
-            significance[k] = (byte) (r.pValue(s) < alpha ? (b > 0 ? 1 : b < 0 ? -1 : 0) : 0);
+            p[k] = r.pValue(s);
+            significance[k] = (byte) (p[k] < alpha ? (b > 0 ? 1 : b < 0 ? -1 : 0) : 0);
         }
         this.factors = factorsOf(run.plan().decisions());
         this.level = new int[factors.size()][size];
@@ -175,6 +178,11 @@ public final class RankedRun {
 
     public double high(int rank) {
         return high[rank];
+    }
+
+    /** Two-sided p-value of the key estimate. */
+    public double pValue(int rank) {
+        return p[rank];
     }
 
     /** +1 significant positive, -1 significant negative, 0 not significant. */

@@ -7,6 +7,7 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.SpecificationModels;
+import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.PlanException;
@@ -90,6 +91,7 @@ public class PlanService {
         Table table = analyses.table(analysis);
         PlanChecker.check(plan, table);
         MultiverseRunner.checkCount(plan);
+        NullDrawSettings.of(plan).check(NullDrawSettings.DEFAULT_MAX_DRAWS, "nullDraws", "nullCluster");
         SpecificationModels models = new SpecificationModels(plan, table);
         long columns = models.layout().size();
         if ((long) table.rowCount() * columns * columns * models.variantCount() <= VARIANT_CHECK_BUDGET) {

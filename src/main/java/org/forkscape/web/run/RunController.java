@@ -2,8 +2,11 @@ package org.forkscape.web.run;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import java.util.Map;
 import org.forkscape.InputException;
+import org.forkscape.infer.NullDrawsCsv;
+import org.forkscape.infer.OverfittingCsv;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunState;
 import org.forkscape.run.StoredAnalysis;
@@ -36,11 +39,16 @@ class RunController {
     static final String EXPLORE = "explore/explore";
 
     /** The files a run may offer, with their types; nothing else in a run folder is served. */
+    private static final MediaType CSV = MediaType.parseMediaType("text/csv;charset=UTF-8");
     private static final Map<String, MediaType> FILES = Map.of(
-            RunOutputs.SPECIFICATIONS, MediaType.parseMediaType("text/csv;charset=UTF-8"),
+            RunOutputs.SPECIFICATIONS, CSV,
             RunOutputs.SUMMARY, MediaType.APPLICATION_JSON,
             RunOutputs.PLAN, MediaType.APPLICATION_JSON,
+            NullDrawsCsv.FILE, CSV,
+            OverfittingCsv.FILE, CSV,
             Workspace.LOG, MediaType.parseMediaType("text/plain;charset=UTF-8"));
+    /** Files of the inference stage, offered beside the explorer's exports when the run wrote them. */
+    private static final List<String> MORE_FILES = List.of(NullDrawsCsv.FILE, OverfittingCsv.FILE, Workspace.LOG);
 
     private final RunQueue queue;
     private final PlanService plans;
@@ -84,6 +92,8 @@ class RunController {
         model.addAttribute("analysis", a);
         model.addAttribute("run", r);
         if (r.state() == RunState.FINISHED) {
+            Path folder = workspace.runFolder(a.id(), r.id());
+            model.addAttribute("moreFiles", MORE_FILES.stream().filter(f -> Files.isRegularFile(folder.resolve(f))).toList());
             return EXPLORE;
         }
         model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());

@@ -1,6 +1,7 @@
 package org.forkscape.web.run;
 
 import jakarta.annotation.PreDestroy;
+import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
@@ -107,8 +108,8 @@ public class RunQueue {
         if (job != null && job.record.analysisId().equals(analysisId)) {
             return Optional.of(job.status());
         }
-        return workspace.run(analysisId, runId).map(r -> RunStatus.of(r, r.state() == RunState.FINISHED
-                ? r.specifications() : 0, r.specifications(), seconds(r.started(), r.ended()), null, 0));
+        return workspace.run(analysisId, runId).map(r -> RunStatus.of(r, "", r.state() == RunState.FINISHED
+                ? r.specifications() : 0, r.specifications(), 0, 0, seconds(r.started(), r.ended()), null, 0));
     }
 
     /** Asks a queued or running run to stop; an ended run is left as it is. */
@@ -150,7 +151,10 @@ public class RunQueue {
         private final AtomicBoolean cancel = new AtomicBoolean();
         private final AtomicBoolean ended = new AtomicBoolean();
         private final AtomicLong done = new AtomicLong();
+        private final AtomicLong drawsDone = new AtomicLong();
+        private final AtomicLong drawsTotal = new AtomicLong();
         private final long total;
+        private volatile String phase = "fitting";
         private volatile StoredRun record;
         private volatile RunState stopAs = RunState.CANCELLED;
 
@@ -165,8 +169,9 @@ public class RunQueue {
             StoredRun r = record;
             double elapsed = seconds(r.started(), null);
             long d = done.get();
-            Double remaining = r.started() != null && d > 0 ? elapsed * (total - d) / d : null;
-            return RunStatus.of(r, d, total, elapsed, remaining, position(r.id()));
+            Double remaining = r.started() != null && d > 0 && d < total ? elapsed * (total - d) / d : null;
+            return RunStatus.of(r, phase, d, total, drawsDone.get(), drawsTotal.get(), elapsed, remaining,
+                    position(r.id()));
         }
 
         void cancel() {
@@ -202,11 +207,19 @@ public class RunQueue {
                     throw new InputException("", "no specification could be fitted; the first reason: "
                             + result.results().status(0));
                 }
-                Map<String, Object> extra = sections.of(result, cancel);
+                Path folder = workspace.runFolder(analysis.id(), record.id());
+                if (plan.nullDraws() > 0) {
+                    phase = "null draws";
+                    workspace.log(record, String.format("null draws: %,d", plan.nullDraws()));
+                }
+                Map<String, Object> extra = sections.of(result, folder, (d, t) -> {
+                    drawsDone.set(d);
+                    drawsTotal.set(t);
+                }, cancel);
                 if (cancel.get()) {
                     throw new RunCancelledException();
                 }
-                RunOutputs.write(result, workspace.runFolder(analysis.id(), record.id()), planText, extra);
+                RunOutputs.write(result, folder, planText, extra);
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
                         summary.fitted(), summary.specifications(), result.seconds()))) {
                     events.publishEvent(new RunFinished(analysis.id(), record.id(), result));

@@ -3,8 +3,7 @@ package org.forkscape.web.system;
 import org.forkscape.data.CsvLimits;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.explore.InfluenceAnalysis;
-import org.forkscape.web.explore.LevelInfluence;
-import org.forkscape.web.run.SummarySections;
+import org.forkscape.web.explore.DecisionInfluence;
 import org.springframework.boot.context.properties.EnableConfigurationProperties;
 import org.springframework.context.annotation.Bean;
 import org.springframework.context.annotation.Configuration;
@@ -24,18 +23,10 @@ class WebConfiguration {
         return new CsvLimits(settings.data().maxColumns(), settings.data().maxCells());
     }
 
-    /** The influence panel's computation; an inference-backed bean of this type replaces it. */
+    /** The influence panel's computation: the inference package's, over the filtered set. */
     @Bean
     InfluenceAnalysis influenceAnalysis() {
-        return new LevelInfluence();
+        return new DecisionInfluence();
     }
 
-    /**
-     * The summary.json sections a run adds after its headline numbers. Without the inference stage wired in
-     * there are none, exactly as the batch command writes them.
-     */
-    @Bean
-    SummarySections summarySections() {
-        return SummarySections.NONE;
-    }
 }

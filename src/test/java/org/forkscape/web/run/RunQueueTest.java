@@ -44,7 +44,7 @@ class RunQueueTest {
                 .getBytes(StandardCharsets.UTF_8)), false);
         PlanService plans = new PlanService(workspace, analyses);
         // the first run's summary sections wait for the test, so the test decides when it ends
-        SummarySections gated = (run, cancel) -> {
+        SummarySections gated = (run, folder, progress, cancel) -> {
             inSections.countDown();
             try {
                 release.await(30, TimeUnit.SECONDS);

@@ -108,7 +108,7 @@ class ExplorerBrowserTest {
             WebElement p = d.findElement(By.cssSelector("[data-path='decisions[4].alternatives[1].keep'] .problem"));
             return p.isDisplayed() ? p : null;
         });
-        assertTrue(problem.getText().contains("is not an operator; use == or !="), problem.getText());
+        assertTrue(problem.getText().contains("\"=\" at character 7 is not an operator"), problem.getText());
         BrowserDriver.screenshot(driver, "2-plan-problem");
         WebElement keep = field(wait, "decisions[4].alternatives[1].keep");
         keep.clear();

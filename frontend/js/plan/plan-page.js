@@ -15,6 +15,7 @@ let columns = [];
 
 const countNode = el('span', { class: 'count', id: 'spec-count', 'aria-live': 'polite' });
 const statusNode = el('p', { class: 'plan-status', id: 'plan-status', role: 'status' });
+const noticeNode = el('p', { class: 'plan-status', id: 'plan-notice', role: 'status' });
 const saveButton = el('button', { type: 'button', id: 'save-plan' }, 'Save the plan');
 const runButton = el('button', { type: 'button', class: 'primary', id: 'run-plan' }, 'Save and run');
 const exportButton = el('button', { type: 'button', id: 'export-plan' }, 'Export plan.json');
@@ -103,7 +104,7 @@ async function saveAndRun() {
 
 function adopt(parsed, source) {
   if (parsed === null || typeof parsed !== 'object' || Array.isArray(parsed)) {
-    statusNode.textContent = `${source} is not a plan: a plan is a JSON object with "data" and "decisions".`;
+    noticeNode.textContent = `${source} is not a plan: a plan is a JSON object with "data" and "decisions".`;
     return;
   }
   let note = '';
@@ -113,7 +114,7 @@ function adopt(parsed, source) {
   }
   plan = parsed;
   restructured();
-  statusNode.textContent = `${source} is now the plan being edited (not saved yet).${note}`;
+  noticeNode.textContent = `${source} is now the plan being edited (not saved yet).${note}`;
 }
 
 function toolbar() {
@@ -126,7 +127,7 @@ function toolbar() {
     try {
       adopt(JSON.parse(content), file.name);
     } catch (e) {
-      statusNode.textContent = `${file.name} is not valid JSON: ${e.message}`;
+      noticeNode.textContent = `${file.name} is not valid JSON: ${e.message}`;
     }
     importInput.value = '';
   });
@@ -137,12 +138,12 @@ function toolbar() {
     try {
       adopt(JSON.parse(jsonBox.value), 'The JSON text');
     } catch (e) {
-      statusNode.textContent = `The JSON text is not valid JSON: ${e.message}`;
+      noticeNode.textContent = `The JSON text is not valid JSON: ${e.message}`;
     }
   });
   document.getElementById('save-json').after(' ', applyJson);
   const bar = el('div', { class: 'plan-toolbar', role: 'region', 'aria-label': 'Plan actions' },
-    countNode, saveButton, runButton, exportButton, importLabel, importInput, statusNode);
+    countNode, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode);
   root.after(bar);
   const plainRun = document.getElementById('run-saved-form');
   if (plainRun) plainRun.hidden = true;

@@ -6,6 +6,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.io.IOException;
 import java.net.URI;
+import org.forkscape.run.Json;
+import tools.jackson.databind.JsonNode;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
@@ -116,6 +118,12 @@ class ExplorerBrowserTest {
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
         assertEquals("128 specifications", driver.findElement(By.id("spec-count")).getText());
         BrowserDriver.screenshot(driver, "2-plan");
+        // the plan exported from the form is the plan file the batch command reads
+        click(driver.findElement(By.id("export-plan")));
+        JsonNode planJson = Json.MAPPER.readTree(Files.readString(waitForFile(TEMP.resolve("downloads").resolve("plan.json"))));
+        assertEquals("data.csv", planJson.path("data").asString());
+        assertEquals(5, planJson.path("decisions").size());
+        assertEquals("urban == 1", planJson.path("decisions").get(4).path("alternatives").get(1).path("keep").asString());
         driver.findElement(By.id("run-plan")).click();
 
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
@@ -172,15 +180,19 @@ class ExplorerBrowserTest {
     @Test
     void aLargeSetIsDrawnReducedAndStillAnswersAtThePointer() throws Exception {
         String id = upload();
-        HttpClient http = HttpClient.newHttpClient();
-        String plan = CivicTestData.plan(6);
-        HttpResponse<String> run = http.send(HttpRequest.newBuilder(URI.create(base() + "/api/analyses/" + id + "/runs"))
-                .header("Content-Type", "application/json").POST(HttpRequest.BodyPublishers.ofString(plan)).build(),
-                HttpResponse.BodyHandlers.ofString());
-        assertEquals(202, run.statusCode(), run.body());
-        String runId = match(run.body(), "\"id\":\"([0-9a-z-]+)\"");
+        // a plan written by hand, imported into the form and run from there
+        Path planFile = TEMP.resolve("hand-written.plan.json");
+        Files.writeString(planFile, CivicTestData.plan(6).replace("\"data\": \"data.csv\"", "\"data\": \"outreach.csv\""));
         WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(90));
-        driver.get(base() + "/analyses/" + id + "/runs/" + runId);
+        driver.get(base() + "/analyses/" + id + "/plan");
+        wait.until(ExpectedConditions.presenceOfElementLocated(By.id("import-plan"))).sendKeys(planFile.toString());
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-notice"),
+                "named the data file \"outreach.csv\"; here it uses this analysis's data"));
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
+        assertEquals("4,608 specifications", driver.findElement(By.id("spec-count")).getText());
+        assertEquals("turnout", new Select(field(wait, "decisions[0].alternatives[0].column")).getFirstSelectedOption()
+                .getAttribute("value"));
+        click(driver.findElement(By.id("run-plan")));
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
         new Actions(driver).moveToElement(driver.findElement(By.id("grid-canvas")), 200, 0).perform();

@@ -4,12 +4,17 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import java.util.Map;
+import java.util.logging.Level;
 import org.openqa.selenium.OutputType;
 import org.openqa.selenium.TakesScreenshot;
 import org.openqa.selenium.chrome.ChromeDriver;
 import org.openqa.selenium.chrome.ChromeDriverService;
 import org.openqa.selenium.chrome.ChromeOptions;
+import org.openqa.selenium.logging.LogEntry;
+import org.openqa.selenium.logging.LogType;
+import org.openqa.selenium.logging.LoggingPreferences;
 
 /**
  * Headless Debian Chromium driven through Debian's chromedriver, both named explicitly so that Selenium
@@ -31,11 +36,21 @@ public final class BrowserDriver {
                 "--disable-background-networking", "--disable-component-update", "--disable-sync",
                 "--disable-dev-shm-usage", "--user-data-dir=" + profile, "--window-size=" + width + "," + height,
                 "--force-device-scale-factor=1", "--lang=en-GB");
+        // the browser's console is read after each test: a script error or a blocked resource fails it
+        LoggingPreferences logs = new LoggingPreferences();
+        logs.enable(LogType.BROWSER, Level.ALL);
+        options.setCapability("goog:loggingPrefs", logs);
         options.setExperimentalOption("prefs", Map.of("download.default_directory", downloads.toString(),
                 "download.prompt_for_download", false, "safebrowsing.enabled", false));
         ChromeDriverService service = new ChromeDriverService.Builder().usingDriverExecutable(CHROMEDRIVER.toFile())
                 .usingAnyFreePort().build();
         return new ChromeDriver(service, options);
+    }
+
+    /** The console messages of level SEVERE since the last call (script errors, refused resources, CSP reports). */
+    public static List<String> severeConsoleMessages(ChromeDriver driver) {
+        return driver.manage().logs().get(LogType.BROWSER).getAll().stream()
+                .filter(e -> e.getLevel().intValue() >= Level.SEVERE.intValue()).map(LogEntry::getMessage).toList();
     }
 
     public static void screenshot(ChromeDriver driver, String name) {

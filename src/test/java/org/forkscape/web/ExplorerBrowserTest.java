@@ -20,6 +20,7 @@ import java.util.List;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.openqa.selenium.By;
@@ -58,6 +59,11 @@ class ExplorerBrowserTest {
     static void browser() throws IOException {
         Files.createDirectories(TEMP.resolve("downloads"));
         driver = BrowserDriver.start(TEMP.resolve("profile"), TEMP.resolve("downloads"), 1440, 1800);
+    }
+
+    @AfterEach
+    void noScriptErrors() {
+        assertEquals(List.of(), BrowserDriver.severeConsoleMessages(driver), "the browser console reported errors");
     }
 
     @AfterAll

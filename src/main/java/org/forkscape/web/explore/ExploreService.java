@@ -70,7 +70,8 @@ public class ExploreService {
     /** The ranked results of a finished run. */
     public RankedRun ranked(StoredAnalysis analysis, StoredRun run) {
         if (run.state() != RunState.FINISHED) {
-            throw new IllegalStateException("run " + run.id() + " is " + run.state().word());
+            throw new RunNotFinishedException("run " + run.id() + " is " + run.state().word()
+                    + "; only a finished run can be explored");
         }
         String key = analysis.id() + "/" + run.id();
         synchronized (runs) {

@@ -4,7 +4,6 @@ import org.forkscape.InputException;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.system.Lookup;
-import org.springframework.http.HttpStatus;
 import org.springframework.stereotype.Controller;
 import org.springframework.ui.Model;
 import org.springframework.web.bind.annotation.GetMapping;
@@ -19,7 +18,6 @@ import org.springframework.web.servlet.ModelAndView;
  */
 @Controller
 class PlanController {
-    static final String EDIT = "plan/edit";
 
     private final PlanService plans;
     private final Workspace workspace;
@@ -41,7 +39,7 @@ class PlanController {
         model.addAttribute("check", plans.check(a, text));
         model.addAttribute("saved", saved != null);
         model.addAttribute("runs", workspace.runs(a.id()));
-        return EDIT;
+        return PlanPage.VIEW;
     }
 
     @PostMapping("/analyses/{analysis}/plan")
@@ -51,14 +49,7 @@ class PlanController {
             plans.save(a, plan);
             return new ModelAndView("redirect:/analyses/" + a.id() + "/plan?saved");
         } catch (InputException e) {
-            ModelAndView page = new ModelAndView(EDIT);
-            page.setStatus(HttpStatus.BAD_REQUEST);
-            page.addObject("analysis", a);
-            page.addObject("planText", plan);
-            page.addObject("check", plans.check(a, plan));
-            page.addObject("saved", false);
-            page.addObject("runs", workspace.runs(a.id()));
-            return page;
+            return PlanPage.withProblem(a, plan, plans, workspace);
         }
     }
 }

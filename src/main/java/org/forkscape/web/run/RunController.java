@@ -12,6 +12,7 @@ import org.forkscape.run.RunState;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.StoredRun;
 import org.forkscape.run.Workspace;
+import org.forkscape.web.plan.PlanPage;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.Lookup;
 import org.forkscape.web.system.NotFoundException;
@@ -19,7 +20,6 @@ import org.springframework.core.io.FileSystemResource;
 import org.springframework.core.io.Resource;
 import org.springframework.http.ContentDisposition;
 import org.springframework.http.HttpHeaders;
-import org.springframework.http.HttpStatus;
 import org.springframework.http.MediaType;
 import org.springframework.http.ResponseEntity;
 import org.springframework.stereotype.Controller;
@@ -74,14 +74,7 @@ class RunController {
             StoredRun run = queue.submit(a, plan);
             return new ModelAndView("redirect:/analyses/" + a.id() + "/runs/" + run.id());
         } catch (InputException e) {
-            ModelAndView page = new ModelAndView("plan/edit");
-            page.setStatus(HttpStatus.BAD_REQUEST);
-            page.addObject("analysis", a);
-            page.addObject("planText", plan);
-            page.addObject("check", plans.check(a, plan));
-            page.addObject("saved", false);
-            page.addObject("runs", workspace.runs(a.id()));
-            return page;
+            return PlanPage.withProblem(a, plan, plans, workspace);
         }
     }
 

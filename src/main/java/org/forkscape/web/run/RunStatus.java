@@ -29,8 +29,4 @@ public record RunStatus(String id, String analysis, String state, String phase, 
                 String.valueOf(r.created()), r.started() == null ? null : r.started().toString(),
                 r.ended() == null ? null : r.ended().toString(), r.problemWhere(), r.problem());
     }
-
-    public boolean finished() {
-        return "finished".equals(state);
-    }
 }

@@ -2,6 +2,7 @@ package org.forkscape.web.system;
 
 import jakarta.servlet.http.HttpServletRequest;
 import org.forkscape.InputException;
+import org.forkscape.web.explore.RunNotFinishedException;
 import org.forkscape.web.run.RunQueueFullException;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -9,6 +10,7 @@ import org.springframework.http.HttpStatus;
 import org.springframework.http.ResponseEntity;
 import org.springframework.util.unit.DataSize;
 import org.springframework.beans.factory.annotation.Value;
+import org.springframework.web.ErrorResponse;
 import org.springframework.web.bind.MissingServletRequestParameterException;
 import org.springframework.web.bind.annotation.ControllerAdvice;
 import org.springframework.web.bind.annotation.ExceptionHandler;
@@ -69,14 +71,19 @@ class ErrorAdvice {
                 ? "is required" : "is not a value of the expected type");
     }
 
-    @ExceptionHandler(IllegalStateException.class)
-    Object conflict(IllegalStateException e, HttpServletRequest request) {
-        LOG.warn("{} {}: {}", request.getMethod(), request.getRequestURI(), e.getMessage());
+    @ExceptionHandler(RunNotFinishedException.class)
+    Object conflict(RunNotFinishedException e, HttpServletRequest request) {
         return answer(request, HttpStatus.CONFLICT, "", e.getMessage());
     }
 
     @ExceptionHandler(Exception.class)
     Object internal(Exception e, HttpServletRequest request) {
+        if (e instanceof ErrorResponse framework && framework.getStatusCode().is4xxClientError()) {
+            // the request itself is wrong (method, media type, ...): the framework's own sentence says how
+            String detail = framework.getBody().getDetail();
+            return answer(request, HttpStatus.valueOf(framework.getStatusCode().value()), "",
+                    detail == null ? "the request cannot be served as sent" : detail);
+        }
         LOG.error("{} {} failed", request.getMethod(), request.getRequestURI(), e);
         return answer(request, HttpStatus.INTERNAL_SERVER_ERROR, "", "internal error (" + e.getClass().getSimpleName()
                 + "); the server log has the details");

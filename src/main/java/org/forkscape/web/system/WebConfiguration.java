@@ -4,6 +4,8 @@ import org.forkscape.data.CsvLimits;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.explore.InfluenceAnalysis;
 import org.forkscape.web.explore.DecisionInfluence;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
 import org.springframework.boot.context.properties.EnableConfigurationProperties;
 import org.springframework.context.annotation.Bean;
 import org.springframework.context.annotation.Configuration;
@@ -12,10 +14,13 @@ import org.springframework.context.annotation.Configuration;
 @Configuration(proxyBeanMethods = false)
 @EnableConfigurationProperties(ForkscapeSettings.class)
 class WebConfiguration {
+    private static final Logger LOG = LoggerFactory.getLogger(WebConfiguration.class);
 
     @Bean
     Workspace workspace(ForkscapeSettings settings) {
-        return new Workspace(settings.workspace());
+        Workspace workspace = new Workspace(settings.workspace());
+        LOG.info("analyses and runs are kept in {}", workspace.root());
+        return workspace;
     }
 
     @Bean

@@ -93,7 +93,8 @@ class RunControllersTest extends WebTest {
         mvc.perform(get("/analyses/" + analysis + "/runs/" + run)).andExpect(status().isOk())
                 .andExpect(view().name("run/progress"))
                 .andExpect(content().string(containsString("The run stopped with a problem")));
-        mvc.perform(get("/api/analyses/" + analysis + "/runs/" + run + "/layout")).andExpect(status().isConflict());
+        mvc.perform(get("/api/analyses/" + analysis + "/runs/" + run + "/layout")).andExpect(status().isConflict())
+                .andExpect(jsonPath("$.message").value(containsString("only a finished run can be explored")));
         mvc.perform(post("/analyses/" + analysis + "/runs/" + run + "/again")).andExpect(status().is3xxRedirection());
     }
 

@@ -40,6 +40,17 @@ class SecurityTest extends WebTest {
     }
 
     @Test
+    void requestsTheFrameworkRefusesGetTheirStatusAndASentence() throws Exception {
+        String analysis = upload("methods.csv", CivicTestData.csv(40, 2));
+        mvc.perform(put("/api/analyses/" + analysis + "/plan").contentType(MediaType.TEXT_PLAIN).content("{}"))
+                .andExpect(status().isUnsupportedMediaType())
+                .andExpect(org.springframework.test.web.servlet.result.MockMvcResultMatchers.jsonPath("$.message")
+                        .value(containsString("text/plain")));
+        mvc.perform(org.springframework.test.web.servlet.request.MockMvcRequestBuilders.delete("/api/analyses/" + analysis))
+                .andExpect(status().isMethodNotAllowed());
+    }
+
+    @Test
     void requestsForAnotherHostNameAreRefusedWhileListeningOnLoopback() throws Exception {
         mvc.perform(get("/").header("Host", "attacker.example")).andExpect(status().isForbidden());
         mvc.perform(get("/").header("Host", "127.0.0.1:8080")).andExpect(status().isOk());

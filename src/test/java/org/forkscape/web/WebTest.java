@@ -37,6 +37,7 @@ public abstract class WebTest {
     static void settings(DynamicPropertyRegistry registry) {
         registry.add("forkscape.workspace", WORKSPACE::toString);
         registry.add("forkscape.demo.enabled", () -> "false");
+        registry.add("forkscape.allowed-hosts", () -> "forkscape.example.org");
     }
 
     /** Uploads a CSV through the JSON API and returns the new analysis's id. */

@@ -8,6 +8,8 @@ import java.io.IOException;
 import java.net.InetAddress;
 import java.net.URI;
 import java.nio.charset.StandardCharsets;
+import java.util.HashSet;
+import java.util.List;
 import java.util.Locale;
 import java.util.Set;
 import org.springframework.beans.factory.annotation.Value;
@@ -24,7 +26,9 @@ import org.springframework.web.filter.OncePerRequestFilter;
  * <li>requests that change something (POST, PUT, DELETE) from a page of another origin are refused, so a
  *     web page elsewhere cannot start runs or upload through the user's browser;</li>
  * <li>while the server listens on the loopback address only (the default), a request must name this
- *     machine in its Host header, which stops other sites from reaching it through DNS rebinding.</li>
+ *     machine in its Host header, which stops other sites from reaching it through DNS rebinding; a
+ *     reverse proxy on the same machine that passes its own public name lists it in
+ *     {@code forkscape.allowed-hosts}.</li>
  * </ul>
  */
 @Component
@@ -35,9 +39,14 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
     private static final Set<String> CHANGING = Set.of("POST", "PUT", "PATCH", "DELETE");
 
     private final boolean loopbackOnly;
+    private final Set<String> allowedHosts;
 
-    SecurityHeadersFilter(@Value("${server.address:}") String address) {
+    SecurityHeadersFilter(@Value("${server.address:}") String address,
+            @Value("${forkscape.allowed-hosts:}") List<String> allowedHosts) {
         this.loopbackOnly = isLoopback(address);
+        Set<String> names = new HashSet<>(LOOPBACK_NAMES);
+        allowedHosts.stream().map(h -> h.strip().toLowerCase(Locale.ROOT)).filter(h -> !h.isEmpty()).forEach(names::add);
+        this.allowedHosts = Set.copyOf(names);
     }
 
     @Override
@@ -48,7 +57,7 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
         response.setHeader("X-Frame-Options", "DENY");
         response.setHeader("Referrer-Policy", "same-origin");
         String host = request.getHeader("Host");
-        if (loopbackOnly && host != null && !LOOPBACK_NAMES.contains(hostName(host))) {
+        if (loopbackOnly && host != null && !allowedHosts.contains(hostName(host))) {
             refuse(response, "this server answers only requests addressed to localhost");
             return;
         }

@@ -55,5 +55,7 @@ class SecurityTest extends WebTest {
         mvc.perform(get("/").header("Host", "attacker.example")).andExpect(status().isForbidden());
         mvc.perform(get("/").header("Host", "127.0.0.1:8080")).andExpect(status().isOk());
         mvc.perform(get("/").header("Host", "[::1]:8080")).andExpect(status().isOk());
+        // listed in forkscape.allowed-hosts for this test (the name a reverse proxy would pass)
+        mvc.perform(get("/").header("Host", "forkscape.example.org")).andExpect(status().isOk());
     }
 }

@@ -159,6 +159,13 @@ async function start() {
     return;
   }
   toolbar();
+  // the live check below the form takes over from the problem the server printed for the JSON text
+  const panel = document.getElementById('plan-json-panel');
+  panel.querySelectorAll('.has-problem').forEach((n) => n.classList.remove('has-problem'));
+  const printed = document.getElementById('plan-json-problem');
+  if (printed) printed.remove();
+  jsonBox.removeAttribute('aria-describedby');
+  panel.open = false;
   restructured();
 }
 

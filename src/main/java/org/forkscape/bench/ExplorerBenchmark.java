@@ -29,7 +29,7 @@ final class ExplorerBenchmark {
     private ExplorerBenchmark() {
     }
 
-    /** Outcome 2 x key coding 4 x every subset of 14 controls x 2 samples x 2 error types = 1,048,576. */
+    /** Outcome 2 x key coding 4 x every subset of 14 controls x 4 samples x 2 error types = 1,048,576. */
     static String plan(String dataFile) {
         StringBuilder controls = new StringBuilder();
         for (int j = 1; j <= BenchData.CONTROLS; j++) {
@@ -44,7 +44,9 @@ final class ExplorerBenchmark {
                 + " {\"label\": \"x w5\", \"column\": \"x\", \"transform\": \"winsorize:0.05\"}]},"
                 + "{\"name\": \"controls\", \"kind\": \"controls\", \"optional\": [" + controls + "]},"
                 + "{\"name\": \"rows\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"all\"},"
-                + " {\"label\": \"trim\", \"trim\": {\"column\": \"y\", \"z\": 3}}]},"
+                + " {\"label\": \"trim 3\", \"trim\": {\"column\": \"y\", \"z\": 3}},"
+                + " {\"label\": \"trim 2.5\", \"trim\": {\"column\": \"y\", \"z\": 2.5}},"
+                + " {\"label\": \"c1 above -2\", \"keep\": \"c1 > -2\"}]},"
                 + "{\"name\": \"errors\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC1\"]}]}";
     }
 

@@ -19,7 +19,8 @@ for (n in c(1000, 100000)) {
       start <- proc.time()[["elapsed"]]
       repeat {
         mask <- sample.int(2^k, 1) - 1
-        chosen <- paste0("c", which(bitwAnd(mask, 2^(0:(k - 1))) > 0))
+        bits <- which(bitwAnd(mask, 2^(0:(k - 1))) > 0)
+        chosen <- if (length(bits) == 0) character(0) else paste0("c", bits)
         f <- reformulate(c(chosen, "x"), response = "y")
         m <- lm(f, data = d)
         se <- switch(errors,

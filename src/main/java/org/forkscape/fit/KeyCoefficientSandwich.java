@@ -11,8 +11,8 @@ import org.forkscape.plan.ErrorType;
  * covariance matrix estimators with improved finite sample properties", J. Econometrics 29(3)); CR1 =
  * G/(G-1) (N-1)/(N-K) sum over clusters of (sum e_i u_i)^2 (Cameron &amp; Miller 2015, "A practitioner's
  * guide to cluster-robust inference", J. Human Resources 50(2)). Leverages h_i = 1/n_level + ||M x_i||^2,
- * the hat matrix of the model with explicit intercept or dummies. Each row is read once: its within
- * values, residual, score and leverage are formed in registers, nothing is materialised.
+ * the hat matrix of the model with explicit intercept or dummies. Each row is read once, in blocks
+ * small enough to stay in cache; nothing is materialised beyond the block.
  */
 final class KeyCoefficientSandwich {
     /** A leverage this close to 1 makes HC2 and HC3 undefined. */
@@ -36,11 +36,26 @@ final class KeyCoefficientSandwich {
         int clusterCount;
     }
 
-    private double[] xc = new double[0];
+    /** Rows per block: the block's columns stay in the first-level cache. */
+    static final int BLOCK = 256;
+
+    private double[][] blockX = new double[0][];
+    private final int[] blockRow = new int[BLOCK];
+    private final int[] blockLevel = new int[BLOCK];
+    private final double[] blockE = new double[BLOCK];
+    private final double[] blockU = new double[BLOCK];
+    private final double[] blockH = new double[BLOCK];
+    private final double[] blockV = new double[BLOCK];
     private double[] m = new double[0];
     private double[] w = new double[0];
     private double[] clusterScore = new double[0];
     private boolean[] clusterSeen = new boolean[0];
+
+    private void ensureBlock(int p) {
+        if (blockX.length < p) {
+            blockX = new double[p][BLOCK];
+        }
+    }
 
     /** Result of one computation: the variance, or NaN with a reason; the cluster count for CR1. */
     record Variance(double value, int clusters, String failure) {
@@ -55,8 +70,7 @@ final class KeyCoefficientSandwich {
     Variance variance(RowView view, KeySolution s, ErrorType type, int k) {
         int p = s.p;
         int n = view.n;
-        if (xc.length < p) {
-            xc = new double[p];
+        if (w.length < p) {
             w = new double[p];
         }
         if (m.length < p * p) {
@@ -83,46 +97,96 @@ final class KeyCoefficientSandwich {
         boolean hc3 = type.kind() == ErrorType.Kind.HC3;
         double[] b = s.b;
         double[][] x = view.x;
+        ensureBlock(p);
         double sum = 0;
         int groups = 0;
-        for (int t = 0; t < n; t++) {
-            int r = view.rows == null ? t : view.rows[t];
-            int l = view.level[r];
-            double[] off = view.offset[l];
-            double e = view.y[r] - view.yOffset[l];
-            double u = 0;
-            for (int c = 0; c < p; c++) {
-                double v = x[c][r] - off[c];
-                xc[c] = v;
-                e -= b[c] * v;
-                u += w[c] * v;
+        // rows in blocks: gather the block's within values column by column, then every step is a
+        // loop over the block that the JIT vectorises (axpy form), instead of scalar work per row
+        for (int t0 = 0; t0 < n; t0 += BLOCK) {
+            int len = Math.min(BLOCK, n - t0);
+            for (int z = 0; z < len; z++) {
+                int r = view.rows == null ? t0 + z : view.rows[t0 + z];
+                blockRow[z] = r;
+                blockLevel[z] = view.level[r];
             }
-            double eu = e * u;
+            if (view.rows == null && view.offset.length == 1) {
+                // every row, one level: contiguous copies the JIT vectorises
+                for (int c = 0; c < p; c++) {
+                    double[] col = x[c];
+                    double[] xb = blockX[c];
+                    double off = view.offset[0][c];
+                    for (int z = 0; z < len; z++) {
+                        xb[z] = col[t0 + z] - off;
+                    }
+                }
+                double yOff = view.yOffset[0];
+                for (int z = 0; z < len; z++) {
+                    blockE[z] = view.y[t0 + z] - yOff;
+                    blockU[z] = 0;
+                }
+            } else {
+                for (int c = 0; c < p; c++) {
+                    double[] col = x[c];
+                    double[] xb = blockX[c];
+                    for (int z = 0; z < len; z++) {
+                        xb[z] = col[blockRow[z]] - view.offset[blockLevel[z]][c];
+                    }
+                }
+                for (int z = 0; z < len; z++) {
+                    blockE[z] = view.y[blockRow[z]] - view.yOffset[blockLevel[z]];
+                    blockU[z] = 0;
+                }
+            }
+            for (int c = 0; c < p; c++) {
+                double[] xb = blockX[c];
+                double bc = b[c];
+                double wc = w[c];
+                for (int z = 0; z < len; z++) {
+                    blockE[z] -= bc * xb[z];
+                    blockU[z] += wc * xb[z];
+                }
+            }
             if (cluster) {
-                int g = view.cluster[r];
-                clusterScore[g] += eu;
-                if (!clusterSeen[g]) {
-                    clusterSeen[g] = true;
-                    groups++;
+                for (int z = 0; z < len; z++) {
+                    int g = view.cluster[blockRow[z]];
+                    clusterScore[g] += blockE[z] * blockU[z];
+                    if (!clusterSeen[g]) {
+                        clusterSeen[g] = true;
+                        groups++;
+                    }
                 }
             } else if (leverage) {
-                double h = 1.0 / view.levelCount[l];
+                for (int z = 0; z < len; z++) {
+                    blockH[z] = 1.0 / view.levelCount[blockLevel[z]];
+                }
                 for (int i = 0; i < p; i++) {
-                    double v = 0;
-                    int row = i * p;
+                    java.util.Arrays.fill(blockV, 0, len, 0);
                     for (int j = 0; j <= i; j++) {
-                        v += m[row + j] * xc[j];
+                        double mij = this.m[i * p + j];
+                        double[] xb = blockX[j];
+                        for (int z = 0; z < len; z++) {
+                            blockV[z] += mij * xb[z];
+                        }
                     }
-                    h += v * v;
+                    for (int z = 0; z < len; z++) {
+                        blockH[z] += blockV[z] * blockV[z];
+                    }
                 }
-                if (h > LEVERAGE_ONE) {
-                    return new Variance(Double.NaN, 0, "undefined: leverage 1 for " + type.label()
-                            + " (a row fits perfectly, such as a fixed-effect level with one row)");
+                for (int z = 0; z < len; z++) {
+                    double h = blockH[z];
+                    if (h > LEVERAGE_ONE) {
+                        return new Variance(Double.NaN, 0, "undefined: leverage 1 for " + type.label()
+                                + " (a row fits perfectly, such as a fixed-effect level with one row)");
+                    }
+                    double eu = blockE[z] * blockU[z];
+                    double q = 1 - h;
+                    sum += eu * eu / (hc3 ? q * q : q);
                 }
-                double q = 1 - h;
-                sum += eu * eu / (hc3 ? q * q : q);
             } else {
-                sum += eu * eu;
+                for (int z = 0; z < len; z++) {
+                    double eu = blockE[z] * blockU[z];
+                    sum += eu * eu;
+                }
             }
         }
         if (cluster) {

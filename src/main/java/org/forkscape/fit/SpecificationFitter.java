@@ -124,7 +124,7 @@ public final class SpecificationFitter {
         for (int c = 0; c < p; c++) {
             view.x[c] = v.shifted[s.kept[c]];
         }
-        if (offsets.length < v.levels || offsets[0].length < p) {
+        if (offsets.length != v.levels || offsets[0].length < p) {
             offsets = new double[v.levels][p];
             yOffsets = new double[v.levels];
         }
@@ -136,7 +136,7 @@ public final class SpecificationFitter {
             yOffsets[l] = off[y];
         }
         view.y = v.shifted[y];
-        view.rows = mom.usableRows();
+        view.rows = mom.n == v.rows ? null : mom.usableRows();
         view.n = mom.n;
         view.level = v.level;
         view.offset = offsets;

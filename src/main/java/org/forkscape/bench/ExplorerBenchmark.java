@@ -52,7 +52,7 @@ final class ExplorerBenchmark {
 
     static List<Map<String, Object>> run(PrintStream out, Path folder, Table table, String dataFile, boolean quick) {
         List<Map<String, Object>> results = new ArrayList<>();
-        Plan full = new PlanReader(false).read(plan(dataFile), folder);
+        Plan full = new PlanReader(false).read(plan(dataFile), folder).withMaxSpecifications(2_000_000);
         long[] sizes = quick ? new long[] {100_000} : new long[] {100_000, 0};
         for (long size : sizes) {
             Plan plan = size > 0 ? full.withSample(size, 9) : full;

@@ -59,8 +59,8 @@ final class ClusterMoments {
     }
 
     /** Cost of building, in multiply-adds: one upper triangle per row. */
-    static long buildCost(DataVariant v) {
-        return (long) v.rows * v.columns * (v.columns + 1) / 2;
+    static long buildCost(int rows, int columns) {
+        return (long) rows * columns * (columns + 1) / 2;
     }
 
     static ClusterMoments build(DataVariant v, int[] clusterCodes) {

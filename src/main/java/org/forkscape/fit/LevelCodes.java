@@ -6,12 +6,12 @@ import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 
 /** Integer level codes for a grouping column (fixed effects, clusters): categorical or numeric identifiers. */
-final class LevelCodes {
+public final class LevelCodes {
     private LevelCodes() {
     }
 
     /** One code per row, 0..levels-1 in sorted order of the values, -1 where missing. */
-    static int[] of(Column column) {
+    public static int[] of(Column column) {
         if (column instanceof CategoricalColumn cat) {
             return cat.codes();
         }

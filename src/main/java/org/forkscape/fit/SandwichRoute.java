@@ -18,28 +18,42 @@ final class SandwichRoute {
     }
 
     static boolean fourthMomentsPay(DataVariant v, long specifications, double meanColumns) {
-        if (v.absorbs || specifications <= 0) {
+        return !v.absorbs && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
+    }
+
+    /**
+     * The same choice from the sizes alone (a variant without absorbed fixed effects), so that a run's
+     * memory can be estimated before any variant is built.
+     */
+    static boolean fourthMomentsPay(int rows, int columns, int groups, long specifications, double meanColumns) {
+        if (specifications <= 0) {
             return false;
         }
-        long perGroup = FourthMoments.distinctFourth(v.columns) + FourthMoments.distinctThird(v.columns);
-        if (perGroup * v.groupMissing.length > MAX_TENSOR_DOUBLES) {
+        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+        if (perGroup * groups > MAX_TENSOR_DOUBLES) {
             return false;
         }
         double p = meanColumns;
-        double build = (double) v.rows * FourthMoments.distinctFourth(v.columns);
-        double contract = (p + 1) * (p + 1) * p * p / 4 + (double) v.columns * v.columns * v.columns * v.columns / 24;
-        double rowPass = 3.0 * v.rows * p;
+        double build = (double) rows * FourthMoments.distinctFourth(columns);
+        double contract = (p + 1) * (p + 1) * p * p / 4 + (double) columns * columns * columns * columns / 24;
+        double rowPass = 3.0 * rows * p;
         return build + specifications * contract < specifications * rowPass;
     }
 
     static boolean clusterMomentsPay(DataVariant v, long specifications, double meanColumns, int clusters) {
+        return clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
+    }
+
+    /** The same choice from the sizes alone. */
+    static boolean clusterMomentsPay(int rows, int columns, int levels, long specifications, double meanColumns,
+            int clusters) {
         if (specifications <= 0) {
             return false;
         }
         double p = meanColumns;
-        double cells = Math.min((double) v.rows, (double) clusters * v.levels);
-        double build = ClusterMoments.buildCost(v);
-        return build + specifications * cells * (p + 1) * p < specifications * 3.0 * v.rows * p;
+        double cells = Math.min((double) rows, (double) clusters * levels);
+        double build = ClusterMoments.buildCost(rows, columns);
+        return build + specifications * cells * (p + 1) * p < specifications * 3.0 * rows * p;
     }
 
     static boolean safe(Moments mom, KeySolution s, int y) {

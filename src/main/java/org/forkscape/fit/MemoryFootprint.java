@@ -1,0 +1,139 @@
+package org.forkscape.fit;
+
+/**
+ * The bytes the engine's structures hold, from their sizes alone, so that a run's memory can be estimated
+ * before anything is built. Each figure counts the arrays the named class allocates (8 bytes a double or
+ * long, 4 an int, 16 an array header); small objects and maps are left out. The route choices are
+ * {@link SandwichRoute}'s own, so an estimate counts the row-free sandwich structures exactly when a run
+ * would build them.
+ */
+public final class MemoryFootprint {
+    private static final long DOUBLE = 8;
+    private static final long INT = 4;
+    private static final long ARRAY = 16;
+
+    private MemoryFootprint() {
+    }
+
+    /**
+     * A {@link DataVariant} once built: its columns shifted to level means (P doubles per row), each row's
+     * table row, level and group, cluster codes per cluster column, and per (group, level) cell the count,
+     * column sums and full cross-product matrix.
+     *
+     * @param cells  (missing-pattern group, fixed-effect level) cells that hold rows
+     * @param levels absorbed fixed-effect levels (1 without absorption)
+     */
+    public static long variant(int rows, int columns, long cells, int levels, int clusterColumns) {
+        return (long) rows * (DOUBLE * columns + INT * (3 + clusterColumns)) + ARRAY * columns
+                + cells * (DOUBLE * (columns + (long) columns * columns) + INT + 2 * ARRAY)
+                + DOUBLE * levels * columns;
+    }
+
+    /**
+     * What building a variant holds on top of it for a while: each row's missing-pattern mask and sample
+     * flags, the per-block partial sums of the cross-products, and each worker's copy of a block's rows.
+     */
+    public static long variantBuild(int rows, int columns, long cells, int threads) {
+        long blocks = Math.max(1, (rows + DataVariant.BLOCK_ROWS - 1L) / DataVariant.BLOCK_ROWS);
+        long partial = blocks * cells * (columns + 1L) * columns;
+        long partialBytes = blocks > 1 && partial <= DataVariant.MAX_BLOCK_DOUBLES ? DOUBLE * partial : 0;
+        long blockRows = Math.min(rows, DataVariant.BLOCK_ROWS);
+        long copies = Math.min(threads, blocks) * (DOUBLE * columns * blockRows + INT * blockRows);
+        return (long) rows * (DOUBLE + INT + 1) + partialBytes + copies;
+    }
+
+    /**
+     * One cached {@link Moments}: the within matrix, each level's mean offsets and count, the total sums
+     * of squares, and the list of its rows when a row pass reads them.
+     *
+     * @param rowPassRows the rows a row-pass sandwich lists for it, 0 when no row pass uses it
+     */
+    public static long moments(int columns, int levels, int rowPassRows) {
+        return DOUBLE * ((long) columns * columns + (levels + 1L) * columns) + INT * (levels + (long) rowPassRows)
+                + ARRAY * (levels + 4L);
+    }
+
+    /** What building one {@link Moments} holds for a while: each level's sums and cross-products. */
+    public static long momentsBuild(int columns, int levels) {
+        return DOUBLE * levels * (columns + (long) columns * columns) + ARRAY * 2L * levels;
+    }
+
+    /** Whether the run would build the fourth-moment route for a variant without absorbed fixed effects. */
+    public static boolean fourthMomentsPay(int rows, int columns, int groups, long hcSpecifications,
+            double meanColumns) {
+        return SandwichRoute.fourthMomentsPay(rows, columns, groups, hcSpecifications, meanColumns);
+    }
+
+    /**
+     * The per-group third- and fourth-order sums of a variant (C(P+3,4) + C(P+2,3) doubles a group), and,
+     * while they are summed, one partial sum per block of rows and each worker's copy of a block.
+     */
+    public static long fourthMomentTensors(int rows, int columns, int groups, int threads) {
+        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+        long blocks = (rows + FourthMoments.BLOCK_ROWS - 1L) / FourthMoments.BLOCK_ROWS + groups;
+        long block = Math.min(rows, FourthMoments.BLOCK_ROWS);
+        return DOUBLE * perGroup * (groups + blocks) + INT * rows
+                + threads * DOUBLE * (columns + 2L) * block;
+    }
+
+    /** One usable row set's {@link FourthMoments}: a symmetric matrix over column pairs and the lower orders. */
+    public static long fourthMoments(int columns) {
+        long pairs = (long) columns * (columns + 1) / 2;
+        return DOUBLE * (pairs * pairs + pairs * columns + (long) columns * columns + columns)
+                + INT * (long) columns * columns + 5 * ARRAY;
+    }
+
+    /** Whether the run would build the per-cluster route for a cluster column. */
+    public static boolean clusterMomentsPay(int rows, int columns, int levels, long clusterSpecifications,
+            double meanColumns, int clusters) {
+        return SandwichRoute.clusterMomentsPay(rows, columns, levels, clusterSpecifications, meanColumns, clusters);
+    }
+
+    /**
+     * A variant's {@link ClusterMoments} for one cluster column: sums and cross-products per (group,
+     * cluster, level) cell, and the cell and order of each row while they are formed.
+     *
+     * @param cells (group, cluster, level) cells that hold rows
+     */
+    public static long clusterCells(int rows, int columns, long cells) {
+        return cells * (DOUBLE * (columns + (long) columns * columns) + 2 * ARRAY + 32) + 2 * INT * rows;
+    }
+
+    /**
+     * One usable row set's cells of a cluster column, summed over its groups.
+     *
+     * @param cells (cluster, level) cells that hold rows
+     */
+    public static long usableClusterCells(int columns, long cells) {
+        return cells * (DOUBLE * (columns + (long) columns * columns) + 2 * ARRAY + 3 * INT);
+    }
+
+    /**
+     * A worker's fitter once it has refitted a specification by QR: the design rows and the
+     * factorisation's working columns, each as many doubles per row as the specification has columns
+     * (with the outcome), and each row's level and cluster.
+     *
+     * @param specificationColumns the most columns a specification has, outcome included
+     */
+    public static long fitterRows(int rows, int specificationColumns) {
+        return (long) rows * (2 * DOUBLE * specificationColumns + 2 * INT);
+    }
+
+    /**
+     * A null draw's copy of a variant ({@link ResampledVariant}) in one worker: reweighted cells, row
+     * weights, and, for permutation draws, the permuted key predictor columns.
+     *
+     * @param cells            (missing-pattern group, fixed-effect level) cells that hold rows
+     * @param predictorColumns key predictor alternatives (0 for bootstrap draws)
+     */
+    public static long resampledVariant(int rows, int columns, long cells, int levels, int predictorColumns) {
+        long permuted = predictorColumns == 0 ? 0 : (long) rows * (DOUBLE * predictorColumns + INT);
+        return cells * (DOUBLE * (columns + (long) columns * columns) + 2 * ARRAY) + INT * rows
+                + 4 * DOUBLE * levels * columns + permuted;
+    }
+
+    /** A null draw's list of one usable row set's rows, each repeated as often as it was drawn. */
+    public static long repeatedRows(int rows) {
+        return 2 * INT * (long) rows;
+    }
+}

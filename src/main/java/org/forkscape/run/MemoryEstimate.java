@@ -1,0 +1,470 @@
+package org.forkscape.run;
+
+import java.util.Collections;
+import java.util.HashMap;
+import java.util.HashSet;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.SplittableRandom;
+import org.forkscape.InputException;
+import org.forkscape.data.Column;
+import org.forkscape.data.Table;
+import org.forkscape.fit.LevelCodes;
+import org.forkscape.fit.MemoryFootprint;
+import org.forkscape.fit.ModelColumns;
+import org.forkscape.fit.SpecificationModel;
+import org.forkscape.fit.SpecificationModels;
+import org.forkscape.fit.VariantKey;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.SpecificationSpace;
+
+/**
+ * The memory a run will need at its peak, estimated from the plan and the table before any work, so that a
+ * run too large for the machine is refused with the estimate and the limit instead of failing halfway.
+ *
+ * <p>A run has two phases that hold different things beside the result table. While fitting, the runner
+ * keeps one data variant at a time: its columns and cross-products, the cached moments of each set of
+ * usable rows, the fourth-moment tensors and per-cluster cells when the sandwich routes would build them,
+ * and each worker's row buffers (every worker is taken to refit some specification by QR, as a collinear
+ * control makes it do). Afterwards the inference stage rebuilds every data variant at once and keeps a
+ * model per fitted specification, and each null-draw worker keeps a resampled copy of every variant, each
+ * with row buffers of its own. The estimate is the larger phase, each part counted from its arrays
+ * ({@link MemoryFootprint}); a variant is counted with all the table's rows (sample rules only remove
+ * rows). The missing-pattern groups and fixed-effect and cluster cells are counted in the table, and how
+ * many usable row sets and robust-error specifications each variant has from a seeded sample of the
+ * plan's specifications.
+ */
+public final class MemoryEstimate {
+    /**
+     * The share of the Java heap one run may take by default: the rest is left for the table, the
+     * program and the collector's headroom (common practice, no source).
+     */
+    public static final double DEFAULT_HEAP_SHARE = 0.8;
+    /**
+     * Specifications decoded to learn the plan's mix of errors, controls and usable row sets: all of them,
+     * or a seeded random sample of this many (an evenly spaced one would alias with the mixed radix).
+     */
+    private static final int PROFILE = 4096;
+    /** Results per fitted specification: the columns of {@link ResultTable}. */
+    private static final long RESULT_BYTES = 56;
+    /** With a random sample each result also keeps its specification number. */
+    private static final long SAMPLED_RESULT_BYTES = 64;
+    /** The runner's per-specification arrays: the specification numbers, each one's variant and its slot. */
+    private static final long RUNNER_BYTES = 16;
+    /** A sampled specification number while the sample is drawn (a boxed long in a hash set). */
+    private static final long SAMPLING_BYTES = 72;
+    /**
+     * The inference stage's per-specification objects and arrays besides the factor columns: a model with
+     * its control list, slot indices, and the estimates, p-values, sizes and weights of its summaries.
+     */
+    private static final long INFERENCE_BYTES = 140;
+    /** Per null-draw worker and fitted specification: estimates, errors, df and scratch of one draw. */
+    private static final long DRAW_WORKER_BYTES = 32;
+    /** Per null-draw worker and data row: its weights, unit draws and order. */
+    private static final long DRAW_ROW_BYTES = 12;
+
+    private final long bytes;
+    private final Map<String, Long> parts;
+    private final boolean nullDraws;
+
+    private MemoryEstimate(long bytes, Map<String, Long> parts, boolean nullDraws) {
+        this.bytes = bytes;
+        this.parts = parts;
+        this.nullDraws = nullDraws;
+    }
+
+    /** The bytes at the run's peak. */
+    public long bytes() {
+        return bytes;
+    }
+
+    /** What the peak is made of: a description of each part and its bytes, largest first. */
+    public Map<String, Long> parts() {
+        return parts;
+    }
+
+    /** {@link #DEFAULT_HEAP_SHARE} of the largest heap this Java process may use. */
+    public static long defaultLimit() {
+        return (long) (Runtime.getRuntime().maxMemory() * DEFAULT_HEAP_SHARE);
+    }
+
+    /**
+     * Refuses the run when the estimate is above {@code limit}.
+     *
+     * @param howToRaise how this door lets the user raise the limit, as the end of a sentence
+     * @throws InputException with the estimate, its largest part, the limit and the ways out
+     */
+    public void refuseAbove(long limit, String howToRaise) {
+        if (bytes <= limit) {
+            return;
+        }
+        Map.Entry<String, Long> largest = parts.entrySet().iterator().next();
+        throw new InputException("", "this run would need about " + format(bytes) + " of memory (the largest part, "
+                + format(largest.getValue()) + ", for " + largest.getKey() + "), above the limit of " + format(limit)
+                + "; fit a seeded random sample of the specifications (plan keys \"sample\" and \"seed\"), "
+                + (nullDraws ? "ask for fewer null draws, " : "") + "or " + howToRaise);
+    }
+
+    /** Bytes in binary units as people read them: 512 KB, 37 MB, 1.4 GB. */
+    public static String format(long bytes) {
+        double kb = bytes / 1024.0;
+        double mb = kb / 1024;
+        double gb = mb / 1024;
+        if (gb >= 1) {
+            return String.format(Locale.ROOT, "%.1f GB", gb);
+        }
+        if (mb >= 1) {
+            return String.format(Locale.ROOT, "%.0f MB", mb);
+        }
+        return String.format(Locale.ROOT, "%.0f KB", Math.max(1, kb));
+    }
+
+    /**
+     * Estimates a run of a plan that passed {@code PlanChecker.check} and the specification cap.
+     *
+     * @param threads the run's worker threads
+     */
+    public static MemoryEstimate of(Plan plan, Table table, int threads) {
+        SpecificationModels models = new SpecificationModels(plan, table);
+        ModelColumns layout = models.layout();
+        long inPlan = models.space().size();
+        long fitted = plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), inPlan) : inPlan;
+        boolean sampled = fitted < inPlan;
+        int rows = table.rowCount();
+        int columns = layout.size();
+        int workers = Math.max(1, threads);
+
+        Column[] variables = variableColumns(plan, table, layout);
+        long missingBits = 0;
+        for (int v = 0; v < variables.length; v++) {
+            if (anyMissing(variables[v])) {
+                missingBits |= 1L << v;
+            }
+        }
+        Cells cells = new Cells(table, variables, missingBits);
+        Map<String, int[]> clusterCodes = new LinkedHashMap<>();
+        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
+            for (ErrorType t : e.alternatives()) {
+                if (t.kind() == ErrorType.Kind.CLUSTER) {
+                    clusterCodes.put(t.clusterColumn(), LevelCodes.of(table.column(t.clusterColumn())));
+                }
+            }
+        }
+        Profile profile = Profile.of(models, fitted, missingBits);
+        int maxUsableSets = Long.bitCount(missingBits) >= 30 ? Integer.MAX_VALUE : 1 << Long.bitCount(missingBits);
+        long fitterRows = workers * MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
+
+        long largestVariant = 0;
+        Map<String, Long> largestVariantParts = Map.of();
+        long allVariants = 0;
+        long drawCopies = 0;
+        boolean permute = plan.nullMethod().equals("permute");
+        int predictors = plan.predictor().alternatives().size();
+        for (int v = 0; v < models.variantCount(); v++) {
+            Profile.Variant pv = profile.variant(v);
+            if (pv.specifications == 0) {
+                continue;
+            }
+            String absorbed = absorbedColumn(plan, models.variantKey(v));
+            int[] levelCodes = absorbed == null ? null : LevelCodes.of(table.column(absorbed));
+            int levels = levelCodes == null ? 1 : Math.max(1, count(levelCodes));
+            long variantCells = cells.distinct(levelCodes, null);
+            long base = MemoryFootprint.variant(rows, columns, variantCells, levels, clusterCodes.size());
+            allVariants += base;
+            long usable = Profile.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
+            long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
+                    + workers * MemoryFootprint.momentsBuild(columns, levels);
+            long fourth = 0;
+            if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
+                    profile.meanColumns)) {
+                fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
+                        + Profile.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
+                        * MemoryFootprint.fourthMoments(columns);
+            }
+            long clusterCells = 0;
+            for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
+                long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
+                if (count > 0 && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                        count(c.getValue()))) {
+                    clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
+                            + Profile.usableSets(pv.clusterMasks.get(c.getKey()),
+                                    pv.clusterSeen.getOrDefault(c.getKey(), 0L), count, maxUsableSets)
+                            * MemoryFootprint.usableClusterCells(columns, Cells.pairs(levelCodes, c.getValue()));
+                }
+            }
+            Map<String, Long> variantParts = new LinkedHashMap<>();
+            variantParts.put("the largest data variant's columns, cross-products and cached moments", base
+                    + MemoryFootprint.variantBuild(rows, columns, variantCells, workers) + moments);
+            variantParts.put("the fourth-moment tensors of the HC0/HC1 sandwich", fourth);
+            variantParts.put("the per-cluster cells of the cluster-robust sandwich", clusterCells);
+            variantParts.put("the fitting threads' row buffers for refits by QR", fitterRows);
+            long total = sum(variantParts);
+            if (total > largestVariant) {
+                largestVariant = total;
+                largestVariantParts = variantParts;
+            }
+            if (plan.nullDraws() > 0) {
+                // each resampled variant keeps its own row buffers for refits by QR and robust errors
+                drawCopies += MemoryFootprint.resampledVariant(rows, columns, variantCells, levels,
+                        permute ? predictors : 0) + usable * (MemoryFootprint.moments(columns, levels, 0)
+                        + (pv.robust > 0 ? MemoryFootprint.repeatedRows(rows) : 0))
+                        + MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
+            }
+        }
+
+        long results = fitted * (sampled ? SAMPLED_RESULT_BYTES : RESULT_BYTES);
+        Map<String, Long> fitting = new LinkedHashMap<>(largestVariantParts);
+        fitting.put("the result table", results);
+        fitting.put("the specification numbers and their variants", RUNNER_BYTES * fitted);
+
+        Map<String, Long> inference = new LinkedHashMap<>();
+        inference.put("the result table", results);
+        inference.put("every data variant, which the inference stage holds at once", allVariants);
+        inference.put("the inference stage's per-specification models and summaries",
+                fitted * (INFERENCE_BYTES + Math.round(4 * (profile.meanColumns + profile.factors))));
+        if (plan.nullDraws() > 0) {
+            int drawWorkers = Math.max(1, Math.min(workers, plan.nullDraws()));
+            long perWorker = DRAW_WORKER_BYTES * fitted + DRAW_ROW_BYTES * rows + drawCopies;
+            inference.put("the null draws' resampled copies of the variants", drawWorkers * perWorker);
+        }
+
+        Map<String, Long> drawing = new LinkedHashMap<>();
+        drawing.put("the sample of specification numbers while it is drawn", sampled ? SAMPLING_BYTES * fitted : 0);
+
+        Map<String, Long> peak = fitting;
+        for (Map<String, Long> phase : List.of(inference, drawing)) {
+            if (sum(phase) > sum(peak)) {
+                peak = phase;
+            }
+        }
+        Map<String, Long> sorted = new LinkedHashMap<>();
+        peak.entrySet().stream().filter(e -> e.getValue() > 0)
+                .sorted(Map.Entry.<String, Long>comparingByValue().reversed())
+                .forEach(e -> sorted.put(e.getKey(), e.getValue()));
+        return new MemoryEstimate(sum(peak), Collections.unmodifiableMap(sorted), plan.nullDraws() > 0);
+    }
+
+    private static long sum(Map<String, Long> parts) {
+        return parts.values().stream().mapToLong(Long::longValue).sum();
+    }
+
+    /** The column behind each model variable, in the layout's order. */
+    private static Column[] variableColumns(Plan plan, Table table, ModelColumns layout) {
+        Column[] out = new Column[layout.variableCount()];
+        for (int j = 0; j < plan.outcome().alternatives().size(); j++) {
+            out[layout.outcomeVariable(j)] = table.column(plan.outcome().alternatives().get(j).column());
+        }
+        for (int j = 0; j < plan.predictor().alternatives().size(); j++) {
+            out[layout.predictorVariable(j)] = table.column(plan.predictor().alternatives().get(j).column());
+        }
+        for (int v = 0; v < out.length; v++) {
+            if (out[v] == null) {
+                out[v] = table.column(layout.variables().get(v));
+            }
+        }
+        return out;
+    }
+
+    private static boolean anyMissing(Column column) {
+        for (int r = 0; r < column.size(); r++) {
+            if (column.isMissing(r)) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** The column whose fixed effects a variant absorbs, or null. */
+    private static String absorbedColumn(Plan plan, VariantKey key) {
+        if (key.absorbChoice() < 0) {
+            return null;
+        }
+        List<String> absorbed = plan.all(Decision.Absorb.class).get(0).alternatives().get(key.absorbChoice()).columns();
+        return absorbed.isEmpty() ? null : absorbed.get(0);
+    }
+
+    /** Number of codes 0..k-1 in a column of level codes (-1 missing): k. */
+    private static int count(int[] codes) {
+        int max = -1;
+        for (int c : codes) {
+            max = Math.max(max, c);
+        }
+        return max + 1;
+    }
+
+    /**
+     * The cells the table's rows fall into: each row's missing-pattern group (the set of model variables
+     * missing in it), crossed with fixed-effect levels and clusters. Counted over the whole table, which
+     * bounds every variant's count.
+     */
+    private static final class Cells {
+        private final int[] group;
+        private final int groups;
+
+        Cells(Table table, Column[] variables, long missingBits) {
+            int n = table.rowCount();
+            group = new int[n];
+            Map<Long, Integer> ids = new HashMap<>();
+            long last = -1;
+            int lastId = 0;
+            for (int r = 0; r < n; r++) {
+                long mask = 0;
+                for (long bits = missingBits; bits != 0; bits &= bits - 1) {
+                    int v = Long.numberOfTrailingZeros(bits);
+                    if (variables[v].isMissing(r)) {
+                        mask |= 1L << v;
+                    }
+                }
+                if (mask != last) {
+                    last = mask;
+                    lastId = ids.computeIfAbsent(mask, m -> ids.size());
+                }
+                group[r] = lastId;
+            }
+            groups = Math.max(1, ids.size());
+        }
+
+        int groups() {
+            return groups;
+        }
+
+        /**
+         * Distinct (group, level, cluster) combinations among the rows that have a level and a cluster.
+         *
+         * @param levels   level codes, or null without fixed effects
+         * @param clusters cluster codes, or null
+         */
+        long distinct(int[] levels, int[] clusters) {
+            if (levels == null && clusters == null) {
+                return groups;
+            }
+            Map<Long, Integer> cellOf = new HashMap<>();
+            Set<Long> seen = new HashSet<>();
+            for (int r = 0; r < group.length; r++) {
+                int l = levels == null ? 0 : levels[r];
+                int c = clusters == null ? 0 : clusters[r];
+                if (l >= 0 && c >= 0) {
+                    int cell = cellOf.computeIfAbsent((long) group[r] << 31 | l, k -> cellOf.size());
+                    seen.add((long) cell << 31 | c);
+                }
+            }
+            return Math.max(1, seen.size());
+        }
+
+        /** Distinct (level, cluster) pairs among the rows that have both. */
+        static long pairs(int[] levels, int[] clusters) {
+            Set<Long> seen = new HashSet<>();
+            for (int r = 0; r < clusters.length; r++) {
+                int l = levels == null ? 0 : levels[r];
+                if (l >= 0 && clusters[r] >= 0) {
+                    seen.add((long) l << 32 | clusters[r]);
+                }
+            }
+            return Math.max(1, seen.size());
+        }
+    }
+
+    /**
+     * The plan's mix, learnt from an even sample of its specifications: per variant how many
+     * specifications it fits, how many with robust errors of each route, and which sets of usable rows
+     * (variables that can be missing) they ask for; the mean number of coefficients; the factor count.
+     */
+    private static final class Profile {
+        final Map<Integer, Variant> variants = new HashMap<>();
+        double meanColumns;
+        int maxColumns;
+        int factors;
+
+        static final class Variant {
+            long specifications;
+            long hc;
+            long robust;
+            long seen;
+            long hcSeen;
+            final Set<Long> masks = new HashSet<>();
+            final Set<Long> hcMasks = new HashSet<>();
+            final Map<String, Long> clusterSpecifications = new HashMap<>();
+            final Map<String, Long> clusterSeen = new HashMap<>();
+            final Map<String, Set<Long>> clusterMasks = new HashMap<>();
+        }
+
+        /**
+         * Usable row sets among some specifications: those the sample met when it met each about twice or
+         * more (it has then found nearly all), else as many as the specifications and the variables that
+         * can be missing allow.
+         *
+         * @param seenSets       the sets the sample met
+         * @param seen           sampled specifications behind them
+         * @param specifications the run's specifications they stand for
+         */
+        static long usableSets(Set<Long> seenSets, long seen, long specifications, int maxSets) {
+            if (seenSets == null || seenSets.isEmpty()) {
+                return 0;
+            }
+            if (2L * seenSets.size() <= seen) {
+                return seenSets.size();
+            }
+            return Math.max(seenSets.size(), Math.min(specifications, maxSets));
+        }
+
+        Variant variant(int v) {
+            return variants.getOrDefault(v, new Variant());
+        }
+
+        static Profile of(SpecificationModels models, long fitted, long missingBits) {
+            SpecificationSpace space = models.space();
+            Profile p = new Profile();
+            for (Decision d : space.decisions()) {
+                p.factors += d instanceof Decision.Controls c && c.allSubsets() ? c.optional().size() : 1;
+            }
+            long size = space.size();
+            boolean every = size <= PROFILE;
+            int count = (int) (every ? size : PROFILE);
+            SplittableRandom random = new SplittableRandom(PROFILE);
+            long[] choices = new long[space.decisionCount()];
+            double columns = 0;
+            for (int i = 0; i < count; i++) {
+                space.decode(every ? i : random.nextLong(size), choices);
+                int ordinal = models.variantOrdinal(choices);
+                SpecificationModel m = models.model(choices);
+                Variant v = p.variants.computeIfAbsent(ordinal, k -> new Variant());
+                v.seen++;
+                long mask = m.variableMask() & missingBits;
+                v.masks.add(mask);
+                columns += m.controlColumns().length + 1;
+                p.maxColumns = Math.max(p.maxColumns, m.controlColumns().length + 1);
+                switch (m.errors().kind()) {
+                    case HC0, HC1 -> {
+                        v.hc++;
+                        v.hcSeen++;
+                        v.robust++;
+                        v.hcMasks.add(mask);
+                    }
+                    case HC2, HC3 -> v.robust++;
+                    case CLUSTER -> {
+                        v.robust++;
+                        v.clusterSpecifications.merge(m.errors().clusterColumn(), 1L, Long::sum);
+                        v.clusterSeen.merge(m.errors().clusterColumn(), 1L, Long::sum);
+                        v.clusterMasks.computeIfAbsent(m.errors().clusterColumn(), k -> new HashSet<>()).add(mask);
+                    }
+                    default -> {
+                    }
+                }
+            }
+            p.meanColumns = columns / Math.max(1, count);
+            double scale = (double) fitted / Math.max(1, count);
+            for (Variant v : p.variants.values()) {
+                v.specifications = Math.round(v.seen * scale);
+                v.hc = Math.round(v.hc * scale);
+                v.robust = Math.round(v.robust * scale);
+                v.clusterSpecifications.replaceAll((k, c) -> Math.round(c * scale));
+            }
+            return p;
+        }
+    }
+}

@@ -17,15 +17,18 @@ import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawResult;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
+import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
 import org.forkscape.run.RunSummary;
+import org.springframework.util.unit.DataSize;
 
 /**
  * {@code run PLAN --out DIR}: fits every specification of a plan, adds the joint inference (null draws
@@ -35,10 +38,10 @@ import org.forkscape.run.RunSummary;
  */
 final class RunCommand {
     static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications", "null-draws",
-            "null-method", "null-cluster", "max-null-draws");
+            "null-method", "null-cluster", "max-null-draws", "max-memory");
     static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
-            + "[--max-specifications N] [--null-draws R [--null-method bootstrap|permute] [--null-cluster COLUMN] "
-            + "[--max-null-draws N]]";
+            + "[--max-specifications N] [--max-memory SIZE] [--null-draws R [--null-method bootstrap|permute] "
+            + "[--null-cluster COLUMN] [--max-null-draws N]]";
 
     private RunCommand() {
     }
@@ -76,6 +79,17 @@ final class RunCommand {
                     + table.source() + hint);
         }
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
+        long memoryLimit = a.has("max-memory") ? size(a.text("max-memory")) : MemoryEstimate.defaultLimit();
+        try {
+            PlanChecker.check(plan, table);
+            MultiverseRunner.checkCount(plan);
+            MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit, "raise the limit with --max-memory SIZE "
+                    + "(now " + MemoryEstimate.format(memoryLimit) + ", " + (a.has("max-memory") ? "as given"
+                    : Math.round(100 * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap") + ") and the heap "
+                    + "with java -Xmx");
+        } catch (InputException e) {
+            throw located(planName, e);
+        }
         RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
         RunResult run;
         try {
@@ -129,6 +143,19 @@ final class RunCommand {
             p = p.withMaxSpecifications(a.whole("max-specifications", p.maxSpecifications(), 1, Long.MAX_VALUE));
         }
         return p;
+    }
+
+    /** A size such as 512MB or 2GB (binary units; a plain number is bytes). */
+    private static long size(String text) {
+        try {
+            long bytes = DataSize.parse(text.trim()).toBytes();
+            if (bytes > 0) {
+                return bytes;
+            }
+        } catch (IllegalArgumentException e) {
+            // reported below with the accepted forms
+        }
+        throw new UsageException("--max-memory must be a size such as 512MB or 2GB; found \"" + text + "\"");
     }
 
     /** Refuses, before any work, an output path that is an existing file or not a path at all. */

@@ -159,7 +159,7 @@ class CommandLineTest {
     void badOptionsAreRefusedBeforeAnythingIsRead() {
         String out = dir.resolve("o").toString();
         refused(run("run", plan.toString(), "--out", out, "--output", "x"), "unknown option --output; the options are "
-                + "--max-null-draws, --max-specifications, --null-cluster, --null-draws, --null-method, --out, --sample, "
+                + "--max-memory, --max-null-draws, --max-specifications, --null-cluster, --null-draws, --null-method, --out, --sample, "
                 + "--seed, --threads");
         refused(run("run", plan.toString(), "--out", out, "-o", "x"), "unknown option -o");
         refused(run("run", plan.toString()), "run needs --out DIR");

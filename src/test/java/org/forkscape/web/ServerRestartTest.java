@@ -161,7 +161,7 @@ class ServerRestartTest {
                 "org.forkscape.ForkscapeApplication", "--server.port=" + port, "--forkscape.workspace=" + workspace,
                 "--forkscape.demo.data=file:" + demo.resolve("civic-demo.csv"),
                 "--forkscape.demo.plan=file:" + demo.resolve("civic-demo.plan.json"),
-                "--spring.servlet.multipart.max-file-size=3MB", "--spring.servlet.multipart.max-request-size=4MB"));
+                "--forkscape.data.max-upload=3MB"));
         Path log = temp.resolve("server-" + System.nanoTime() + ".log");
         return new ProcessBuilder(command).redirectErrorStream(true).redirectOutput(log.toFile()).start();
     }

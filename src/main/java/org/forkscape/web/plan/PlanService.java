@@ -7,7 +7,6 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.SpecificationModels;
-import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.PlanException;
@@ -18,11 +17,13 @@ import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.analysis.AnalysisService;
+import org.forkscape.web.system.ServerLimits;
 import org.springframework.stereotype.Service;
 
 /**
  * Reads, checks and saves the plan of an analysis. A plan is checked the way a run would meet it: its
- * structure, its columns and their types against the analysis's data, the specification cap, and, when
+ * structure, its columns and their types against the analysis's data, the specification cap, this server's
+ * limits on one run (specifications, null draws, the memory estimate), and, when
  * the data are small enough to do it at once, the data variants themselves (a log of a value that is not
  * positive, a trim of a constant column), so that the form shows the problem next to its field before the
  * run starts. Plans are kept as the text the user gave, so a plan written by hand and a plan built in the
@@ -37,10 +38,12 @@ public class PlanService {
 
     private final Workspace workspace;
     private final AnalysisService analyses;
+    private final ServerLimits limits;
 
-    public PlanService(Workspace workspace, AnalysisService analyses) {
+    public PlanService(Workspace workspace, AnalysisService analyses, ServerLimits limits) {
         this.workspace = workspace;
         this.analyses = analyses;
+        this.limits = limits;
     }
 
     /** The plan being edited: the saved one, or a start with an outcome and a key predictor to fill in. */
@@ -91,7 +94,7 @@ public class PlanService {
         Table table = analyses.table(analysis);
         PlanChecker.check(plan, table);
         MultiverseRunner.checkCount(plan);
-        NullDrawSettings.of(plan).check(NullDrawSettings.DEFAULT_MAX_DRAWS, "nullDraws", "nullCluster");
+        limits.check(plan, table);
         SpecificationModels models = new SpecificationModels(plan, table);
         long columns = models.layout().size();
         if ((long) table.rowCount() * columns * columns * models.variantCount() <= VARIANT_CHECK_BUDGET) {

@@ -54,7 +54,7 @@ class ErrorAdvice {
     @ExceptionHandler(MaxUploadSizeExceededException.class)
     Object tooLarge(MaxUploadSizeExceededException e, HttpServletRequest request) {
         return answer(request, HttpStatus.PAYLOAD_TOO_LARGE, "file", "the file is larger than this server accepts ("
-                + maxUpload.toMegabytes() + " MB, setting spring.servlet.multipart.max-file-size)");
+                + maxUpload.toMegabytes() + " MB, setting forkscape.data.max-upload)");
     }
 
     @ExceptionHandler(MultipartException.class)

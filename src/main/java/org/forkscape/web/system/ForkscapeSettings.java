@@ -3,6 +3,7 @@ package org.forkscape.web.system;
 import java.nio.file.Path;
 import org.springframework.boot.context.properties.ConfigurationProperties;
 import org.springframework.core.io.Resource;
+import org.springframework.util.unit.DataSize;
 
 /**
  * The server's settings under {@code forkscape.*} (defaults in application.properties; any can be set on
@@ -11,7 +12,7 @@ import org.springframework.core.io.Resource;
  * @param workspace the folder of analyses and runs
  * @param demo      the bundled demo
  * @param data      limits on uploaded data
- * @param runs      how many runs compute at once, how many may wait, threads per run
+ * @param runs      how many runs compute at once, how many may wait, threads per run, and what one run may ask
  * @param explore   finished runs kept in memory
  */
 @ConfigurationProperties(prefix = "forkscape")
@@ -21,11 +22,23 @@ public record ForkscapeSettings(Path workspace, Demo demo, Data data, Runs runs,
     public record Demo(boolean enabled, Resource data, Resource plan) {
     }
 
-    public record Data(int maxColumns, long maxCells) {
+    /**
+     * @param maxUpload  the largest upload (the multipart limits are set from it, see application.properties)
+     * @param maxColumns columns in the header
+     * @param maxCells   rows times columns
+     */
+    public record Data(DataSize maxUpload, int maxColumns, long maxCells) {
     }
 
-    /** @param threads fitting threads per run, 0 for one per processor */
-    public record Runs(int concurrent, int queue, int threads) {
+    /**
+     * @param threads           fitting threads per run, 0 for one per processor
+     * @param maxSpecifications specifications one run may fit, whatever its plan's own cap
+     * @param maxNullDraws      null draws one run may ask for
+     * @param maxMemory         the memory one run's estimate may reach; 0 for a share of the Java heap
+     *                          divided among the runs that compute at once
+     */
+    public record Runs(int concurrent, int queue, int threads, long maxSpecifications, int maxNullDraws,
+            DataSize maxMemory) {
         public int fittingThreads() {
             return threads > 0 ? threads : Runtime.getRuntime().availableProcessors();
         }

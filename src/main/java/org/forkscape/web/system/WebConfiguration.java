@@ -28,6 +28,11 @@ class WebConfiguration {
         return new CsvLimits(settings.data().maxColumns(), settings.data().maxCells());
     }
 
+    @Bean
+    ServerLimits serverLimits(ForkscapeSettings settings) {
+        return ServerLimits.of(settings.runs());
+    }
+
     /** The influence panel's computation: the inference package's, over the filtered set. */
     @Bean
     InfluenceAnalysis influenceAnalysis() {

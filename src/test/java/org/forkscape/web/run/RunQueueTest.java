@@ -21,6 +21,7 @@ import org.forkscape.web.CivicTestData;
 import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.ForkscapeSettings;
+import org.forkscape.web.system.ServerLimits;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -42,7 +43,8 @@ class RunQueueTest {
         AnalysisService analyses = new AnalysisService(workspace, CsvLimits.DEFAULT);
         analysis = analyses.create("t", "t.csv", new ByteArrayInputStream(CivicTestData.csv(120, 4)
                 .getBytes(StandardCharsets.UTF_8)), false);
-        PlanService plans = new PlanService(workspace, analyses);
+        ForkscapeSettings.Runs runs = new ForkscapeSettings.Runs(1, 1, 2, 1_000_000, 10_000, null);
+        PlanService plans = new PlanService(workspace, analyses, ServerLimits.of(runs));
         // the first run's summary sections wait for the test, so the test decides when it ends
         SummarySections gated = (run, folder, progress, cancel) -> {
             inSections.countDown();
@@ -53,7 +55,7 @@ class RunQueueTest {
             }
             return Map.of();
         };
-        ForkscapeSettings settings = new ForkscapeSettings(root, null, null, new ForkscapeSettings.Runs(1, 1, 2), null);
+        ForkscapeSettings settings = new ForkscapeSettings(root, null, null, runs, null);
         queue = new RunQueue(workspace, analyses, plans, gated, event -> { }, settings);
     }
 

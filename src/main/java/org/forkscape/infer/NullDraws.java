@@ -17,6 +17,7 @@ import org.forkscape.fit.ResampledVariant;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunCancelledException;
 import org.forkscape.run.RunProgress;
+import org.forkscape.run.WorkerPools;
 
 /**
  * Null draws for the whole curve (Simonsohn, Simmons &amp; Nelson 2020, "Specification curve analysis",
@@ -100,7 +101,8 @@ public final class NullDraws {
                     int[] order = new int[design.rows()];
                     int d;
                     while ((d = next.getAndIncrement()) < draws) {
-                        if (cancel != null && cancel.get()) {
+                        // stopped by the cancel flag, or by the pool when another worker failed
+                        if (cancel != null && cancel.get() || Thread.currentThread().isInterrupted()) {
                             return;
                         }
                         if (bootstrap) {
@@ -147,7 +149,7 @@ public final class NullDraws {
                 await(f);
             }
         } finally {
-            pool.shutdownNow();
+            WorkerPools.stop(pool);
         }
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();

@@ -24,7 +24,8 @@ import org.forkscape.plan.SpecificationSpace;
  * unless a sample is asked for), groups them by data variant, builds each variant's cross-products once
  * and fits its specifications on the worker threads. Each specification is computed alone from shared
  * read-only state, so the results are identical whatever the number of threads. The command line and
- * the web pages both run plans through this class.
+ * the web pages both run plans through this class. It returns, finished or cancelled, only once its
+ * worker threads have ended.
  */
 public final class MultiverseRunner {
     /** Specifications handed to a worker at a time: large enough to amortise, small enough to balance. */
@@ -123,7 +124,8 @@ public final class MultiverseRunner {
                         long[] c = new long[space.decisionCount()];
                         int from;
                         while ((from = next.getAndAdd(CHUNK)) < slots.length) {
-                            if (cancel != null && cancel.get()) {
+                            // stopped by the cancel flag, or by the pool when another worker failed
+                            if (cancel != null && cancel.get() || Thread.currentThread().isInterrupted()) {
                                 return;
                             }
                             int to = Math.min(slots.length, from + CHUNK);
@@ -146,7 +148,7 @@ public final class MultiverseRunner {
                 checkCancel(cancel);
             }
         } finally {
-            pool.shutdownNow();
+            WorkerPools.stop(pool);
         }
         return new RunResult(plan, table, models, results, refits.get(), (System.nanoTime() - start) / 1e9);
     }

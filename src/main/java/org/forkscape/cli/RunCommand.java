@@ -4,15 +4,10 @@ import java.io.PrintStream;
 import java.nio.file.Files;
 import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
-import java.util.ArrayList;
-import java.util.LinkedHashMap;
-import java.util.List;
-import java.util.Map;
 import java.util.Set;
 import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
-import org.forkscape.plan.Decision;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawResult;
 import org.forkscape.infer.NullDrawSettings;
@@ -20,10 +15,9 @@ import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
-import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.MultiverseRunner;
-import org.forkscape.run.ResultTable;
+import org.forkscape.run.NothingFitted;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
@@ -105,7 +99,7 @@ final class RunCommand {
         }
         RunSummary summary = RunSummary.of(run.results(), plan.alpha());
         if (summary.fitted() == 0) {
-            throw new InputException(planName, noneFitted(run));
+            throw new InputException(planName, NothingFitted.reason(run));
         }
         RunProgress drawProgress = System.console() != null ? new TerminalProgress(err, "null draws") : RunProgress.SILENT;
         InferenceSections inference = InferenceSections.compute(run, nullSettings, threads, drawProgress, null);
@@ -172,34 +166,6 @@ final class RunCommand {
         } catch (InvalidPathException e) {
             throw new UsageException(what + " \"" + text + "\" is not a usable path");
         }
-    }
-
-    /**
-     * Why nothing came out: the most common reason among the specifications, how many it stopped, and the
-     * choices of the first of them, so the message points at the decision to revisit.
-     */
-    static String noneFitted(RunResult run) {
-        ResultTable results = run.results();
-        Map<String, Integer> count = new LinkedHashMap<>();
-        Map<String, Integer> firstSlot = new LinkedHashMap<>();
-        for (int slot = 0; slot < results.size(); slot++) {
-            count.merge(results.status(slot), 1, Integer::sum);
-            firstSlot.putIfAbsent(results.status(slot), slot);
-        }
-        Map.Entry<String, Integer> top = count.entrySet().stream().max(Map.Entry.comparingByValue()).orElseThrow();
-        String share = results.size() == 1 ? "the only specification failed"
-                : top.getValue() == results.size() ? String.format("all %,d failed", results.size())
-                : String.format("%,d of %,d failed", top.getValue(), results.size());
-        SpecificationSpace space = run.models().space();
-        long[] choices = new long[space.decisionCount()];
-        space.decode(results.specIndex(firstSlot.get(top.getKey())), choices);
-        List<String> chosen = new ArrayList<>();
-        for (int d = 0; d < choices.length; d++) {
-            Decision decision = space.decisions().get(d);
-            chosen.add(decision.name() + " = " + decision.label(choices[d]));
-        }
-        return "no specification could be fitted: " + share + " with \"" + top.getKey() + "\" (first: "
-                + String.join(", ", chosen) + "); nothing was written";
     }
 
     /** A p-value for the one-line result; a share of zero draws means below one over their number. */

@@ -41,8 +41,8 @@ class AnalysisApiController {
     @ResponseStatus(HttpStatus.CREATED)
     AnalysisView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
-        if (file == null || file.isEmpty()) {
-            throw new InputException("file", "send the CSV file as the form field \"file\"; it is missing or empty");
+        if (AnalysisService.noFileChosen(file)) {
+            throw new InputException("file", "send the CSV file as the form field \"file\"; it is missing");
         }
         try (InputStream in = file.getInputStream()) {
             StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);

@@ -17,6 +17,7 @@ import org.forkscape.data.Table;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.springframework.stereotype.Service;
+import org.springframework.web.multipart.MultipartFile;
 
 /**
  * Creates analyses from uploaded CSV files and serves their data. An upload is copied to the workspace,
@@ -100,6 +101,15 @@ public class AnalysisService {
             tables.put(analysis.id(), read);
         }
         return read;
+    }
+
+    /**
+     * Whether a form came without a file: no part, or a part with neither a name nor content (what a
+     * browser sends when nothing was chosen). A chosen file that is empty is read, and refused as empty.
+     */
+    static boolean noFileChosen(MultipartFile file) {
+        return file == null || file.isEmpty()
+                && (file.getOriginalFilename() == null || file.getOriginalFilename().isBlank());
     }
 
     /** The last segment of an uploaded file's name, without control characters, for messages and lists. */

@@ -42,7 +42,7 @@ class HomeController {
     @PostMapping("/analyses")
     ModelAndView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
-        if (file == null || file.isEmpty()) {
+        if (AnalysisService.noFileChosen(file)) {
             return homeWithProblem(title, "Choose a CSV file to upload.");
         }
         try (InputStream in = file.getInputStream()) {

@@ -20,6 +20,7 @@ import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.NothingFitted;
 import org.forkscape.run.RunCancelledException;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunResult;
@@ -204,8 +205,7 @@ public class RunQueue {
                 RunResult result = new MultiverseRunner(threads).run(plan, table, (d, t) -> done.set(d), cancel);
                 RunSummary summary = RunSummary.of(result.results(), plan.alpha());
                 if (summary.fitted() == 0) {
-                    throw new InputException("", "no specification could be fitted; the first reason: "
-                            + result.results().status(0));
+                    throw new InputException("", NothingFitted.reason(result));
                 }
                 Path folder = workspace.runFolder(analysis.id(), record.id());
                 if (plan.nullDraws() > 0) {

@@ -77,10 +77,10 @@ final class RunCommand {
         try {
             PlanChecker.check(plan, table);
             MultiverseRunner.checkCount(plan);
-            MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit, "raise the limit with --max-memory SIZE "
-                    + "(now " + MemoryEstimate.format(memoryLimit) + ", " + (a.has("max-memory") ? "as given"
-                    : Math.round(100 * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap") + ") and the heap "
-                    + "with java -Xmx");
+            MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit, "fit a seeded random sample of the "
+                    + "specifications (--sample N --seed S), use fewer --threads, or raise the limit with --max-memory "
+                    + "SIZE" + (a.has("max-memory") ? "" : " (by default " + Math.round(100
+                    * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap)") + " and the heap with java -Xmx");
         } catch (InputException e) {
             throw located(planName, e);
         }

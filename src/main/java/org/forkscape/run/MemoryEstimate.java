@@ -70,12 +70,10 @@ public final class MemoryEstimate {
 
     private final long bytes;
     private final Map<String, Long> parts;
-    private final boolean nullDraws;
 
-    private MemoryEstimate(long bytes, Map<String, Long> parts, boolean nullDraws) {
+    private MemoryEstimate(long bytes, Map<String, Long> parts) {
         this.bytes = bytes;
         this.parts = parts;
-        this.nullDraws = nullDraws;
     }
 
     /** The bytes at the run's peak. */
@@ -96,18 +94,17 @@ public final class MemoryEstimate {
     /**
      * Refuses the run when the estimate is above {@code limit}.
      *
-     * @param howToRaise how this door lets the user raise the limit, as the end of a sentence
-     * @throws InputException with the estimate, its largest part, the limit and the ways out
+     * @param wayOut what the user can do through this door, as the end of the sentence
+     * @throws InputException with the estimate, its largest part, the limit and the way out
      */
-    public void refuseAbove(long limit, String howToRaise) {
+    public void refuseAbove(long limit, String wayOut) {
         if (bytes <= limit) {
             return;
         }
         Map.Entry<String, Long> largest = parts.entrySet().iterator().next();
         throw new InputException("", "this run would need about " + format(bytes) + " of memory (the largest part, "
                 + format(largest.getValue()) + ", for " + largest.getKey() + "), above the limit of " + format(limit)
-                + "; fit a seeded random sample of the specifications (plan keys \"sample\" and \"seed\"), "
-                + (nullDraws ? "ask for fewer null draws, " : "") + "or " + howToRaise);
+                + "; " + wayOut);
     }
 
     /** Bytes in binary units as people read them: 512 KB, 37 MB, 1.4 GB. */
@@ -246,7 +243,7 @@ public final class MemoryEstimate {
         peak.entrySet().stream().filter(e -> e.getValue() > 0)
                 .sorted(Map.Entry.<String, Long>comparingByValue().reversed())
                 .forEach(e -> sorted.put(e.getKey(), e.getValue()));
-        return new MemoryEstimate(sum(peak), Collections.unmodifiableMap(sorted), plan.nullDraws() > 0);
+        return new MemoryEstimate(sum(peak), Collections.unmodifiableMap(sorted));
     }
 
     private static long sum(Map<String, Long> parts) {

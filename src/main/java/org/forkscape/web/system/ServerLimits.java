@@ -56,7 +56,8 @@ public record ServerLimits(long maxSpecifications, int maxNullDraws, long maxMem
                     + "per run (setting forkscape.runs.max-null-draws); ask for fewer", plan.nullDraws(), maxNullDraws));
         }
         NullDrawSettings.of(plan).check(Integer.MAX_VALUE, "nullDraws", "nullCluster");
-        MemoryEstimate.of(plan, table, threads).refuseAbove(maxMemory, "raise this server's limit (setting "
-                + "forkscape.runs.max-memory) or its Java heap (-Xmx)");
+        MemoryEstimate.of(plan, table, threads).refuseAbove(maxMemory, "fit a seeded random sample of the "
+                + "specifications (plan keys \"sample\" and \"seed\"), or have this server's limit raised (setting "
+                + "forkscape.runs.max-memory, and its Java heap with -Xmx)");
     }
 }

@@ -33,7 +33,7 @@ import org.junit.jupiter.api.Test;
 class MemoryEstimateTest {
     @Test
     void aRunWhosePeakIsFittingOneVariant() {
-        Table table = table(60_000);
+        Table table = table(40_000);
         Plan plan = plan(table, "[\"classical\", \"HC1\", \"cluster:district\"]",
                 "{\"label\": \"none\", \"columns\": []}", 0, 8);
         assertOfTheRightOrder(plan, table);
@@ -41,7 +41,7 @@ class MemoryEstimateTest {
 
     @Test
     void aRunWhosePeakIsTheInferenceStageWithNullDraws() {
-        Table table = table(60_000);
+        Table table = table(40_000);
         Plan plan = plan(table, "[\"classical\"]",
                 "{\"label\": \"none\", \"columns\": []}, {\"label\": \"region\", \"columns\": [\"region\"]}", 2, 6);
         assertOfTheRightOrder(plan, table);

@@ -86,7 +86,7 @@ class RunControllersTest extends WebTest {
                         "{\"label\": \"one row\", \"keep\": \"outreach_hours > 100\"}");
         String run = runToEnd(analysis, plan);
         mvc.perform(get("/api/analyses/" + analysis + "/runs/" + run)).andExpect(jsonPath("$.state").value("failed"))
-                .andExpect(jsonPath("$.problem").value(startsWith("no specification could be fitted: all 576 failed with \"too few rows")));
+                .andExpect(jsonPath("$.problem").value(startsWith("no specification could be fitted: all 192 failed with \"too few rows")));
         org.junit.jupiter.api.Assertions.assertFalse(Files.exists(workspace.runFolder(analysis, run)
                 .resolve("specifications.csv")));
         mvc.perform(get("/analyses/" + analysis + "/runs/" + run)).andExpect(status().isOk())

@@ -44,7 +44,7 @@ import tools.jackson.databind.JsonNode;
  * gives the response times, overall and per kind of request, with the 95th percentile. Bounded twice: by
  * the 30 seconds and by at most {@value #MAX_REQUESTS_PER_CLIENT} requests per client.
  *
- * <p>Not part of the default build (it takes about two minutes): run it with
+ * <p>Not part of the default build (it takes about a minute): run it with
  * {@code mvn -o test -Dtest=LoadTest -Dforkscape.load=true}; the report goes to
  * {@code target/load-test.txt}.
  */
@@ -226,8 +226,7 @@ class LoadTest {
         String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
         List<String> command = new ArrayList<>(Arrays.asList(java, "-Xmx2g", "-cp", System.getProperty("java.class.path"),
                 "org.forkscape.ForkscapeApplication", "--server.port=" + port,
-                "--forkscape.workspace=" + temp.resolve("workspace"), "--forkscape.demo.enabled=false",
-                "--server.tomcat.threads.max=" + (2 * CLIENTS)));
+                "--forkscape.workspace=" + temp.resolve("workspace"), "--forkscape.demo.enabled=false"));
         return new ProcessBuilder(command).redirectErrorStream(true).redirectOutput(temp.resolve("server.log").toFile())
                 .start();
     }

@@ -23,11 +23,13 @@ public record ForkscapeSettings(Path workspace, Demo demo, Data data, Runs runs,
     }
 
     /**
-     * @param maxUpload  the largest upload (the multipart limits are set from it, see application.properties)
+     * Limits on uploaded tables. (The largest upload, {@code forkscape.data.max-upload}, sets Spring's
+     * multipart limits in application.properties, which enforce it while the upload streams.)
+     *
      * @param maxColumns columns in the header
      * @param maxCells   rows times columns
      */
-    public record Data(DataSize maxUpload, int maxColumns, long maxCells) {
+    public record Data(int maxColumns, long maxCells) {
     }
 
     /**

@@ -1,27 +1,21 @@
 package org.forkscape.run;
 
 import java.util.Collections;
-import java.util.HashMap;
-import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import java.util.Set;
-import java.util.SplittableRandom;
 import org.forkscape.InputException;
 import org.forkscape.data.Column;
 import org.forkscape.data.Table;
 import org.forkscape.fit.LevelCodes;
 import org.forkscape.fit.MemoryFootprint;
 import org.forkscape.fit.ModelColumns;
-import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VariantKey;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.Plan;
-import org.forkscape.plan.SpecificationSpace;
 
 /**
  * The memory a run will need at its peak, estimated from the plan and the table before any work, so that a
@@ -45,11 +39,6 @@ public final class MemoryEstimate {
      * program and the collector's headroom (common practice, no source).
      */
     public static final double DEFAULT_HEAP_SHARE = 0.8;
-    /**
-     * Specifications decoded to learn the plan's mix of errors, controls and usable row sets: all of them,
-     * or a seeded random sample of this many (an evenly spaced one would alias with the mixed radix).
-     */
-    private static final int PROFILE = 4096;
     /** Results per fitted specification: the columns of {@link ResultTable}. */
     private static final long RESULT_BYTES = 56;
     /** With a random sample each result also keeps its specification number. */
@@ -143,7 +132,7 @@ public final class MemoryEstimate {
                 missingBits |= 1L << v;
             }
         }
-        Cells cells = new Cells(table, variables, missingBits);
+        RowCells cells = new RowCells(table, variables, missingBits);
         Map<String, int[]> clusterCodes = new LinkedHashMap<>();
         for (Decision.Errors e : plan.all(Decision.Errors.class)) {
             for (ErrorType t : e.alternatives()) {
@@ -152,7 +141,7 @@ public final class MemoryEstimate {
                 }
             }
         }
-        Profile profile = Profile.of(models, fitted, missingBits);
+        SpecificationMix profile = SpecificationMix.of(models, fitted, missingBits);
         int maxUsableSets = Long.bitCount(missingBits) >= 30 ? Integer.MAX_VALUE : 1 << Long.bitCount(missingBits);
         long fitterRows = workers * MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
 
@@ -163,7 +152,7 @@ public final class MemoryEstimate {
         boolean permute = plan.nullMethod().equals("permute");
         int predictors = plan.predictor().alternatives().size();
         for (int v = 0; v < models.variantCount(); v++) {
-            Profile.Variant pv = profile.variant(v);
+            SpecificationMix.Variant pv = profile.variant(v);
             if (pv.specifications == 0) {
                 continue;
             }
@@ -173,14 +162,14 @@ public final class MemoryEstimate {
             long variantCells = cells.distinct(levelCodes, null);
             long base = MemoryFootprint.variant(rows, columns, variantCells, levels, clusterCodes.size());
             allVariants += base;
-            long usable = Profile.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
+            long usable = SpecificationMix.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
             long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
                     + workers * MemoryFootprint.momentsBuild(columns, levels);
             long fourth = 0;
             if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
                 fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
-                        + Profile.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
+                        + SpecificationMix.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
                         * MemoryFootprint.fourthMoments(columns);
             }
             long clusterCells = 0;
@@ -189,9 +178,9 @@ public final class MemoryEstimate {
                 if (count > 0 && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
-                            + Profile.usableSets(pv.clusterMasks.get(c.getKey()),
+                            + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),
                                     pv.clusterSeen.getOrDefault(c.getKey(), 0L), count, maxUsableSets)
-                            * MemoryFootprint.usableClusterCells(columns, Cells.pairs(levelCodes, c.getValue()));
+                            * MemoryFootprint.usableClusterCells(columns, RowCells.pairs(levelCodes, c.getValue()));
                 }
             }
             Map<String, Long> variantParts = new LinkedHashMap<>();
@@ -292,176 +281,5 @@ public final class MemoryEstimate {
             max = Math.max(max, c);
         }
         return max + 1;
-    }
-
-    /**
-     * The cells the table's rows fall into: each row's missing-pattern group (the set of model variables
-     * missing in it), crossed with fixed-effect levels and clusters. Counted over the whole table, which
-     * bounds every variant's count.
-     */
-    private static final class Cells {
-        private final int[] group;
-        private final int groups;
-
-        Cells(Table table, Column[] variables, long missingBits) {
-            int n = table.rowCount();
-            group = new int[n];
-            Map<Long, Integer> ids = new HashMap<>();
-            long last = -1;
-            int lastId = 0;
-            for (int r = 0; r < n; r++) {
-                long mask = 0;
-                for (long bits = missingBits; bits != 0; bits &= bits - 1) {
-                    int v = Long.numberOfTrailingZeros(bits);
-                    if (variables[v].isMissing(r)) {
-                        mask |= 1L << v;
-                    }
-                }
-                if (mask != last) {
-                    last = mask;
-                    lastId = ids.computeIfAbsent(mask, m -> ids.size());
-                }
-                group[r] = lastId;
-            }
-            groups = Math.max(1, ids.size());
-        }
-
-        int groups() {
-            return groups;
-        }
-
-        /**
-         * Distinct (group, level, cluster) combinations among the rows that have a level and a cluster.
-         *
-         * @param levels   level codes, or null without fixed effects
-         * @param clusters cluster codes, or null
-         */
-        long distinct(int[] levels, int[] clusters) {
-            if (levels == null && clusters == null) {
-                return groups;
-            }
-            Map<Long, Integer> cellOf = new HashMap<>();
-            Set<Long> seen = new HashSet<>();
-            for (int r = 0; r < group.length; r++) {
-                int l = levels == null ? 0 : levels[r];
-                int c = clusters == null ? 0 : clusters[r];
-                if (l >= 0 && c >= 0) {
-                    int cell = cellOf.computeIfAbsent((long) group[r] << 31 | l, k -> cellOf.size());
-                    seen.add((long) cell << 31 | c);
-                }
-            }
-            return Math.max(1, seen.size());
-        }
-
-        /** Distinct (level, cluster) pairs among the rows that have both. */
-        static long pairs(int[] levels, int[] clusters) {
-            Set<Long> seen = new HashSet<>();
-            for (int r = 0; r < clusters.length; r++) {
-                int l = levels == null ? 0 : levels[r];
-                if (l >= 0 && clusters[r] >= 0) {
-                    seen.add((long) l << 32 | clusters[r]);
-                }
-            }
-            return Math.max(1, seen.size());
-        }
-    }
-
-    /**
-     * The plan's mix, learnt from an even sample of its specifications: per variant how many
-     * specifications it fits, how many with robust errors of each route, and which sets of usable rows
-     * (variables that can be missing) they ask for; the mean number of coefficients; the factor count.
-     */
-    private static final class Profile {
-        final Map<Integer, Variant> variants = new HashMap<>();
-        double meanColumns;
-        int maxColumns;
-        int factors;
-
-        static final class Variant {
-            long specifications;
-            long hc;
-            long robust;
-            long seen;
-            long hcSeen;
-            final Set<Long> masks = new HashSet<>();
-            final Set<Long> hcMasks = new HashSet<>();
-            final Map<String, Long> clusterSpecifications = new HashMap<>();
-            final Map<String, Long> clusterSeen = new HashMap<>();
-            final Map<String, Set<Long>> clusterMasks = new HashMap<>();
-        }
-
-        /**
-         * Usable row sets among some specifications: those the sample met when it met each about twice or
-         * more (it has then found nearly all), else as many as the specifications and the variables that
-         * can be missing allow.
-         *
-         * @param seenSets       the sets the sample met
-         * @param seen           sampled specifications behind them
-         * @param specifications the run's specifications they stand for
-         */
-        static long usableSets(Set<Long> seenSets, long seen, long specifications, int maxSets) {
-            if (seenSets == null || seenSets.isEmpty()) {
-                return 0;
-            }
-            if (2L * seenSets.size() <= seen) {
-                return seenSets.size();
-            }
-            return Math.max(seenSets.size(), Math.min(specifications, maxSets));
-        }
-
-        Variant variant(int v) {
-            return variants.getOrDefault(v, new Variant());
-        }
-
-        static Profile of(SpecificationModels models, long fitted, long missingBits) {
-            SpecificationSpace space = models.space();
-            Profile p = new Profile();
-            for (Decision d : space.decisions()) {
-                p.factors += d instanceof Decision.Controls c && c.allSubsets() ? c.optional().size() : 1;
-            }
-            long size = space.size();
-            boolean every = size <= PROFILE;
-            int count = (int) (every ? size : PROFILE);
-            SplittableRandom random = new SplittableRandom(PROFILE);
-            long[] choices = new long[space.decisionCount()];
-            double columns = 0;
-            for (int i = 0; i < count; i++) {
-                space.decode(every ? i : random.nextLong(size), choices);
-                int ordinal = models.variantOrdinal(choices);
-                SpecificationModel m = models.model(choices);
-                Variant v = p.variants.computeIfAbsent(ordinal, k -> new Variant());
-                v.seen++;
-                long mask = m.variableMask() & missingBits;
-                v.masks.add(mask);
-                columns += m.controlColumns().length + 1;
-                p.maxColumns = Math.max(p.maxColumns, m.controlColumns().length + 1);
-                switch (m.errors().kind()) {
-                    case HC0, HC1 -> {
-                        v.hc++;
-                        v.hcSeen++;
-                        v.robust++;
-                        v.hcMasks.add(mask);
-                    }
-                    case HC2, HC3 -> v.robust++;
-                    case CLUSTER -> {
-                        v.robust++;
-                        v.clusterSpecifications.merge(m.errors().clusterColumn(), 1L, Long::sum);
-                        v.clusterSeen.merge(m.errors().clusterColumn(), 1L, Long::sum);
-                        v.clusterMasks.computeIfAbsent(m.errors().clusterColumn(), k -> new HashSet<>()).add(mask);
-                    }
-                    default -> {
-                    }
-                }
-            }
-            p.meanColumns = columns / Math.max(1, count);
-            double scale = (double) fitted / Math.max(1, count);
-            for (Variant v : p.variants.values()) {
-                v.specifications = Math.round(v.seen * scale);
-                v.hc = Math.round(v.hc * scale);
-                v.robust = Math.round(v.robust * scale);
-                v.clusterSpecifications.replaceAll((k, c) -> Math.round(c * scale));
-            }
-            return p;
-        }
     }
 }

@@ -45,7 +45,7 @@ public final class InferenceSections {
         }
         BestSpecification best = BestSpecification.of(run.results(), all, draws);
         m.put("best", best == null ? null : best.toJson());
-        ExtremeBounds bounds = ExtremeBounds.of(run.results(), all, run.plan().confidence());
+        LeamerBounds bounds = LeamerBounds.of(run.results(), all, run.plan().confidence());
         m.put("extreme_bounds", bounds == null ? null : bounds.toJson());
         List<ComparableGroups.Group> groups = ComparableGroups.of(variants);
         m.put("comparable_groups", ComparableGroups.toJson(groups));

@@ -35,14 +35,14 @@ class SummariesTest {
     void extremeBoundsAreTheWidestIntervalEnds() {
         double t = new TDistribution(null, 20).inverseCumulativeProbability(0.975);
         ResultTable r = table(fit(1, 0.5, 20, 23, 3), fit(2, 0.25, 20, 23, 3), fit(0.5, 1, 20, 23, 3));
-        ExtremeBounds e = ExtremeBounds.of(r, ALL3, 0.95);
+        LeamerBounds e = LeamerBounds.of(r, ALL3, 0.95);
         // lower ends 1 - 0.5t, 2 - 0.25t, 0.5 - t: the third is lowest; upper ends likewise the third
         assertEquals(0.5 - t, e.lower(), 1e-12);
         assertEquals(0.5 + t, e.upper(), 1e-12);
         assertEquals(3, e.lowerSpec());
         assertEquals(3, e.upperSpec());
         assertFalse(e.sameSign());
-        ExtremeBounds positive = ExtremeBounds.of(table(fit(3, 0.5, 20, 23, 3), fit(2, 0.25, 20, 23, 3)),
+        LeamerBounds positive = LeamerBounds.of(table(fit(3, 0.5, 20, 23, 3), fit(2, 0.25, 20, 23, 3)),
                 new int[] {0, 1}, 0.95);
         assertEquals(2 - 0.25 * t, positive.lower(), 1e-12);
         assertTrue(positive.sameSign());
@@ -53,8 +53,8 @@ class SummariesTest {
         ResultTable r = new ResultTable(2, null);
         r.set(0, KeyFit.failed("too few rows", 2, 3));
         r.set(1, fit(1, 0.5, 20, 23, 3));
-        assertEquals(2, ExtremeBounds.of(r, new int[] {0, 1}, 0.95).lowerSpec());
-        assertNull(ExtremeBounds.of(r, new int[] {0}, 0.95));
+        assertEquals(2, LeamerBounds.of(r, new int[] {0, 1}, 0.95).lowerSpec());
+        assertNull(LeamerBounds.of(r, new int[] {0}, 0.95));
         assertNull(BestSpecification.of(r, new int[] {0}, null));
     }
 

@@ -17,10 +17,10 @@ import org.forkscape.run.ResultTable;
  * @param upperSpec  likewise for {@code upper}
  * @param confidence the interval level
  */
-public record ExtremeBounds(double lower, double upper, long lowerSpec, long upperSpec, double confidence) {
+public record LeamerBounds(double lower, double upper, long lowerSpec, long upperSpec, double confidence) {
 
     /** Over the fitted specifications among {@code slots}; null when none is fitted. */
-    public static ExtremeBounds of(ResultTable results, int[] slots, double confidence) {
+    public static LeamerBounds of(ResultTable results, int[] slots, double confidence) {
         double lower = Double.POSITIVE_INFINITY;
         double upper = Double.NEGATIVE_INFINITY;
         long lowerSpec = -1;
@@ -40,7 +40,7 @@ public record ExtremeBounds(double lower, double upper, long lowerSpec, long upp
                 upperSpec = results.specIndex(slot) + 1;
             }
         }
-        return lowerSpec < 0 ? null : new ExtremeBounds(lower, upper, lowerSpec, upperSpec, confidence);
+        return lowerSpec < 0 ? null : new LeamerBounds(lower, upper, lowerSpec, upperSpec, confidence);
     }
 
     /** Whether both bounds lie strictly on the same side of zero. */
@@ -48,7 +48,7 @@ public record ExtremeBounds(double lower, double upper, long lowerSpec, long upp
         return lower > 0 && upper > 0 || lower < 0 && upper < 0;
     }
 
-    /** The summary.json section {@code extreme_bounds}. */
+    /** The summary.json section for these bounds (its key is fixed by the summary contract). */
     public Map<String, Object> toJson() {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("lower", Json.number(lower));

@@ -3,7 +3,6 @@ package org.forkscape.infer;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
-import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
@@ -146,7 +145,7 @@ public final class NullDraws {
                 }));
             }
             for (Future<?> f : futures) {
-                await(f);
+                WorkerPools.await(f);
             }
         } finally {
             WorkerPools.stop(pool);
@@ -155,20 +154,5 @@ public final class NullDraws {
             throw new RunCancelledException();
         }
         return new NullDrawResult(settings, observed, out, failed.get(), (System.nanoTime() - start) / 1e9);
-    }
-
-    private static void await(Future<?> f) {
-        try {
-            f.get();
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
-            throw new RunCancelledException();
-        } catch (ExecutionException e) {
-            Throwable cause = e.getCause();
-            if (cause instanceof RuntimeException re) {
-                throw re;
-            }
-            throw new IllegalStateException(cause);
-        }
     }
 }

@@ -2,7 +2,6 @@ package org.forkscape.run;
 
 import java.util.ArrayList;
 import java.util.List;
-import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
@@ -143,7 +142,7 @@ public final class MultiverseRunner {
                     }));
                 }
                 for (Future<?> f : futures) {
-                    await(f);
+                    WorkerPools.await(f);
                 }
                 checkCancel(cancel);
             }
@@ -186,21 +185,6 @@ public final class MultiverseRunner {
     private static void checkCancel(AtomicBoolean cancel) {
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();
-        }
-    }
-
-    private static void await(Future<?> f) {
-        try {
-            f.get();
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
-            throw new RunCancelledException();
-        } catch (ExecutionException e) {
-            Throwable cause = e.getCause();
-            if (cause instanceof RuntimeException re) {
-                throw re;
-            }
-            throw new IllegalStateException(cause);
         }
     }
 }

@@ -34,6 +34,77 @@ final class KeyCoefficientSandwich {
         int[] levelCount;
         int[] cluster;
         int clusterCount;
+        private double[][] offsets = new double[0][];
+        private double[] yOffsets = new double[0];
+
+        /**
+         * Points the view at stored (level-shifted) columns: {@code columns[kept[c]]} for the kept
+         * columns and {@code columns[y]}, read through {@code rows} (null for every row in order) with
+         * the usable rows' level means of {@code mom} as offsets.
+         */
+        RowView over(double[][] columns, int[] kept, int p, int y, Moments mom, int[] rows, int[] clusterCodes,
+                int clusters) {
+            DataVariant v = mom.variant;
+            if (x.length < p) {
+                x = new double[p][];
+            }
+            for (int c = 0; c < p; c++) {
+                x[c] = columns[kept[c]];
+            }
+            if (offsets.length != v.levels || offsets[0].length < p) {
+                offsets = new double[v.levels][p];
+                yOffsets = new double[v.levels];
+            }
+            for (int l = 0; l < v.levels; l++) {
+                double[] off = mom.levelMeanOffset[l];
+                for (int c = 0; c < p; c++) {
+                    offsets[l][c] = off[kept[c]];
+                }
+                yOffsets[l] = off[y];
+            }
+            this.y = columns[y];
+            this.rows = rows;
+            this.n = mom.n;
+            this.level = v.level;
+            this.offset = offsets;
+            this.yOffset = yOffsets;
+            this.levelCount = mom.levelCount;
+            this.cluster = clusterCodes;
+            this.clusterCount = clusters;
+            return this;
+        }
+
+        /**
+         * Points the view at rows already materialised in within coordinates: column {@code positions[c]}
+         * of {@code design} for kept column c, every row in order, no offsets.
+         */
+        RowView overRows(DesignRows design, int[] positions, int p, Moments mom, int clusters) {
+            if (x.length < p) {
+                x = new double[p][];
+            }
+            for (int c = 0; c < p; c++) {
+                x[c] = design.x[positions[c]];
+            }
+            int levels = mom.levelCount.length;
+            if (offsets.length != levels || offsets[0].length < p) {
+                offsets = new double[levels][p];
+                yOffsets = new double[levels];
+            }
+            for (int l = 0; l < levels; l++) {
+                java.util.Arrays.fill(offsets[l], 0);
+            }
+            java.util.Arrays.fill(yOffsets, 0);
+            this.y = design.y;
+            this.rows = null;
+            this.n = design.n;
+            this.level = design.level;
+            this.offset = offsets;
+            this.yOffset = yOffsets;
+            this.levelCount = mom.levelCount;
+            this.cluster = design.cluster;
+            this.clusterCount = clusters;
+            return this;
+        }
     }
 
     /** Rows per block: the block's columns stay in the first-level cache. */

@@ -44,11 +44,6 @@ public final class ResampledVariant {
     private final DesignRows rows = new DesignRows();
     private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
-    /** Per level, zero offsets: the materialised rows are already within values. */
-    private final double[][] zeroOffsets;
-    private final double[] zeroLevelOffsets;
-    private final double[][] viewOffsets;
-    private final double[] viewLevelOffsets;
     /** Per variant row: the row whose key predictor values it carries in this draw (permutation draws). */
     private int[] source;
     /** The draw's value of each model column per variant row: the stored columns, or permuted copies. */
@@ -100,10 +95,6 @@ public final class ResampledVariant {
         }
         drawColumns = base.shifted.clone();
         weight = new int[base.rows];
-        zeroOffsets = new double[base.levels][p];
-        zeroLevelOffsets = new double[base.levels];
-        viewOffsets = new double[base.levels][p];
-        viewLevelOffsets = new double[base.levels];
         row = new double[p];
         weightedRow = new double[p];
     }
@@ -405,51 +396,12 @@ public final class ResampledVariant {
     /** The draw's columns as stored, read through the repeated row list and the usable rows' level means. */
     private KeyCoefficientSandwich.RowView variantView(Moments mom, KeySolution s, int y, int[] clusterCodes,
             int clusterCount) {
-        int width = s.p;
-        if (view.x.length < width) {
-            view.x = new double[width][];
-        }
-        for (int c = 0; c < width; c++) {
-            view.x[c] = drawColumns[s.kept[c]];
-        }
-        for (int l = 0; l < v.levels; l++) {
-            double[] off = mom.levelMeanOffset[l];
-            for (int c = 0; c < width; c++) {
-                viewOffsets[l][c] = off[s.kept[c]];
-            }
-            viewLevelOffsets[l] = off[y];
-        }
-        view.y = drawColumns[y];
-        view.rows = repeated(mom).rows();
-        view.n = mom.n;
-        view.level = v.level;
-        view.offset = viewOffsets;
-        view.yOffset = viewLevelOffsets;
-        view.levelCount = mom.levelCount;
-        view.cluster = clusterCodes;
-        view.clusterCount = clusterCount;
-        return view;
+        return view.over(drawColumns, s.kept, s.p, y, mom, repeated(mom).rows(), clusterCodes, clusterCount);
     }
 
     /** The materialised rows (already in within coordinates) as the sandwich reads them. */
     private KeyCoefficientSandwich.RowView rowView(KeySolution s, int[] positions, Moments mom, int clusterCount) {
-        int width = s.p;
-        if (view.x.length < width) {
-            view.x = new double[width][];
-        }
-        for (int c = 0; c < width; c++) {
-            view.x[c] = rows.x[positions[c]];
-        }
-        view.y = rows.y;
-        view.rows = null;
-        view.n = rows.n;
-        view.level = rows.level;
-        view.offset = zeroOffsets;
-        view.yOffset = zeroLevelOffsets;
-        view.levelCount = mom.levelCount;
-        view.cluster = rows.cluster;
-        view.clusterCount = clusterCount;
-        return view;
+        return view.overRows(rows, positions, s.p, mom, clusterCount);
     }
 
     private static int[] identity(int n) {

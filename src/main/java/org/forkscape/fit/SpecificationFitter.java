@@ -111,63 +111,17 @@ public final class SpecificationFitter {
 
     private int lastClusters;
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
-    private double[][] offsets = new double[0][];
-    private double[] yOffsets = new double[0];
 
     /** The variant's stored columns seen through the usable rows' level means. */
     private KeyCoefficientSandwich.RowView variantView(DataVariant v, Moments mom, KeySolution s, int y,
             int[] clusterCodes, int clusterCount) {
-        int p = s.p;
-        if (view.x.length < p) {
-            view.x = new double[p][];
-        }
-        for (int c = 0; c < p; c++) {
-            view.x[c] = v.shifted[s.kept[c]];
-        }
-        if (offsets.length != v.levels || offsets[0].length < p) {
-            offsets = new double[v.levels][p];
-            yOffsets = new double[v.levels];
-        }
-        for (int l = 0; l < v.levels; l++) {
-            double[] off = mom.levelMeanOffset[l];
-            for (int c = 0; c < p; c++) {
-                offsets[l][c] = off[s.kept[c]];
-            }
-            yOffsets[l] = off[y];
-        }
-        view.y = v.shifted[y];
-        view.rows = mom.n == v.rows ? null : mom.usableRows();
-        view.n = mom.n;
-        view.level = v.level;
-        view.offset = offsets;
-        view.yOffset = yOffsets;
-        view.levelCount = mom.levelCount;
-        view.cluster = clusterCodes;
-        view.clusterCount = clusterCount;
-        return view;
+        return view.over(v.shifted, s.kept, s.p, y, mom, mom.n == v.rows ? null : mom.usableRows(), clusterCodes,
+                clusterCount);
     }
 
     /** The QR route's materialised rows, already in within coordinates. */
     private KeyCoefficientSandwich.RowView rowsView(KeySolution s, int[] positions, Moments mom) {
-        int p = s.p;
-        if (view.x.length < p) {
-            view.x = new double[p][];
-        }
-        for (int c = 0; c < p; c++) {
-            view.x[c] = rows.x[positions[c]];
-        }
-        int levels = mom.levelCount.length;
-        double[][] zero = new double[levels][p];
-        view.y = rows.y;
-        view.rows = null;
-        view.n = rows.n;
-        view.level = rows.level;
-        view.offset = zero;
-        view.yOffset = new double[levels];
-        view.levelCount = mom.levelCount;
-        view.cluster = rows.cluster;
-        view.clusterCount = clusterCountOf(rows);
-        return view;
+        return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows));
     }
 
     private static int clusterCountOf(DesignRows rows) {

@@ -93,7 +93,7 @@ public final class CommandLine {
                 "usage:",
                 "  java -jar forkscape.jar                      start the explorer at http://localhost:8080",
                 "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
-                "                                               [--max-specifications N]",
+                "                                               [--max-specifications N] [--max-memory SIZE]",
                 "                                               [--null-draws R [--null-method bootstrap|permute]",
                 "                                                [--null-cluster COLUMN] [--max-null-draws N]]",
                 "                                               fit every specification, write",

@@ -2,14 +2,11 @@ package org.forkscape.infer;
 
 import java.io.IOException;
 import java.io.OutputStream;
-import java.io.OutputStreamWriter;
-import java.io.Writer;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.List;
-import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 import org.forkscape.run.AtomicFiles;
+import org.forkscape.run.CsvCells;
 
 /** Writes null-draws.csv: one row per null draw with its curve statistics. */
 public final class NullDrawsCsv {
@@ -25,15 +22,14 @@ public final class NullDrawsCsv {
     }
 
     static void write(NullDrawResult result, OutputStream stream) throws IOException {
-        Writer writer = new OutputStreamWriter(stream, StandardCharsets.UTF_8);
-        CSVPrinter csv = new CSVPrinter(writer, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get());
+        CSVPrinter csv = CsvCells.printer(stream);
         csv.printRecord(HEADER);
         for (int d = 0; d < result.drawCount(); d++) {
             CurveStatistics c = result.draw(d);
             boolean any = c.fitted() > 0;
-            csv.printRecord(d + 1, c.fitted(), Numbers.cell(c.median()), any ? c.dominantSignName() : "",
-                    any ? Integer.toString(c.significant()) : "", Numbers.cell(c.shareSignificant()),
-                    Numbers.cell(c.meanZ()), Numbers.cell(c.minP()));
+            csv.printRecord(d + 1, c.fitted(), CsvCells.number(c.median()), any ? c.dominantSignName() : "",
+                    any ? Integer.toString(c.significant()) : "", CsvCells.number(c.shareSignificant()),
+                    CsvCells.number(c.meanZ()), CsvCells.number(c.minP()));
         }
         csv.flush();
     }

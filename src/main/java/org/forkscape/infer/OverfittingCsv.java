@@ -2,14 +2,11 @@ package org.forkscape.infer;
 
 import java.io.IOException;
 import java.io.OutputStream;
-import java.io.OutputStreamWriter;
-import java.io.Writer;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.List;
-import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 import org.forkscape.run.AtomicFiles;
+import org.forkscape.run.CsvCells;
 import org.forkscape.run.ResultTable;
 
 /**
@@ -29,8 +26,7 @@ public final class OverfittingCsv {
     }
 
     static void write(ResultTable r, OutputStream stream) throws IOException {
-        Writer writer = new OutputStreamWriter(stream, StandardCharsets.UTF_8);
-        CSVPrinter csv = new CSVPrinter(writer, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get());
+        CSVPrinter csv = CsvCells.printer(stream);
         csv.printRecord(HEADER);
         for (int slot = 0; slot < r.size(); slot++) {
             String spec = Long.toString(r.specIndex(slot) + 1);
@@ -39,8 +35,8 @@ public final class OverfittingCsv {
                 continue;
             }
             Overfitting o = Overfitting.of(r, slot);
-            csv.printRecord(spec, Numbers.cell(o.r2()), Numbers.cell(o.r2NullExpectation()),
-                    Numbers.cell(o.adjustedR2()), Numbers.cell(o.modelPValue()), Numbers.cell(o.rowsPerCoefficient()),
+            csv.printRecord(spec, CsvCells.number(o.r2()), CsvCells.number(o.r2NullExpectation()),
+                    CsvCells.number(o.adjustedR2()), CsvCells.number(o.modelPValue()), CsvCells.number(o.rowsPerCoefficient()),
                     o.fewRows() ? "yes" : "no");
         }
         csv.flush();

@@ -2,13 +2,9 @@ package org.forkscape.run;
 
 import java.io.IOException;
 import java.io.OutputStream;
-import java.io.OutputStreamWriter;
-import java.io.Writer;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.SpecificationSpace;
@@ -41,9 +37,7 @@ public final class SpecificationsCsv {
         SpecificationSpace space = run.models().space();
         ResultTable r = run.results();
         double confidence = run.plan().confidence();
-        // a char buffer in front of the encoder: the printer writes cell by cell
-        Writer writer = new java.io.BufferedWriter(new OutputStreamWriter(stream, StandardCharsets.UTF_8), 1 << 16);
-        CSVPrinter csv = new CSVPrinter(writer, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get());
+        CSVPrinter csv = CsvCells.printer(stream);
         csv.printRecord(header(decisions).stream().map(SpreadsheetSafe::text).toList());
         long[] choices = new long[decisions.size()];
         List<String> row = new ArrayList<>(decisions.size() + 14);
@@ -56,32 +50,21 @@ public final class SpecificationsCsv {
                 row.add(SpreadsheetSafe.text(decisions.get(d).label(choices[d])));
             }
             boolean ok = r.fitted(slot);
-            row.add(number(r.estimate(slot)));
-            row.add(ok ? number(r.stdError(slot)) : "");
-            row.add(ok ? number(r.statistic(slot)) : "");
-            row.add(ok ? number(r.df(slot)) : "");
-            row.add(ok ? number(r.pValue(slot)) : "");
-            row.add(ok ? number(r.ciLow(slot, confidence)) : "");
-            row.add(ok ? number(r.ciHigh(slot, confidence)) : "");
+            row.add(CsvCells.number(r.estimate(slot)));
+            row.add(ok ? CsvCells.number(r.stdError(slot)) : "");
+            row.add(ok ? CsvCells.number(r.statistic(slot)) : "");
+            row.add(ok ? CsvCells.number(r.df(slot)) : "");
+            row.add(ok ? CsvCells.number(r.pValue(slot)) : "");
+            row.add(ok ? CsvCells.number(r.ciLow(slot, confidence)) : "");
+            row.add(ok ? CsvCells.number(r.ciHigh(slot, confidence)) : "");
             row.add(Integer.toString(r.nObs(slot)));
             row.add(Integer.toString(r.nParams(slot)));
-            row.add(number(r.r2(slot)));
-            row.add(number(r.adjustedR2(slot)));
-            row.add(number(r.modelPValue(slot)));
+            row.add(CsvCells.number(r.r2(slot)));
+            row.add(CsvCells.number(r.adjustedR2(slot)));
+            row.add(CsvCells.number(r.modelPValue(slot)));
             row.add(SpreadsheetSafe.text(r.status(slot)));
             csv.printRecord(row);
         }
         csv.flush();
-    }
-
-    /** Shortest decimal that reads back to the same double; empty for NaN. */
-    static String number(double v) {
-        if (Double.isNaN(v) || Double.isInfinite(v)) {
-            return "";
-        }
-        if (v == Math.rint(v) && Math.abs(v) < 1e15) {
-            return Long.toString((long) v);
-        }
-        return Double.toString(v);
     }
 }

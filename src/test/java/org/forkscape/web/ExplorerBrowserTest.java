@@ -130,7 +130,7 @@ class ExplorerBrowserTest {
         assertEquals("data.csv", planJson.path("data").asString());
         assertEquals(5, planJson.path("decisions").size());
         assertEquals("urban == 1", planJson.path("decisions").get(4).path("alternatives").get(1).path("keep").asString());
-        driver.findElement(By.id("run-plan")).click();
+        click(wait.until(ExpectedConditions.elementToBeClickable(By.id("run-plan"))));
 
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
         Thread.sleep(300);

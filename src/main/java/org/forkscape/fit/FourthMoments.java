@@ -317,4 +317,40 @@ final class FourthMoments {
                 - 2 * alpha * beta * beta * s1a + alpha * alpha * s2ww - 2 * alpha * alpha * beta * s1w
                 + n * alpha * alpha * beta * beta;
     }
+
+    /**
+     * An upper bound of the sum over the usable rows of (|z|'|a| + |alpha|)^2 (|z|'|w| + |beta|)^2, the
+     * absolute-value counterpart of {@link #meat}: ||(a s, alpha sqrt n)||^2 ||(w s, beta sqrt n)||^2 times
+     * the sum of ||(z / s, 1 / sqrt n)||^4 over rows, with s_j^2 the stored sum of squares of column j
+     * (Cauchy-Schwarz in scaled coordinates; see {@link RowFreeSandwich}). The last sum is
+     * sum_{i,j} Q[(i,i)][(j,j)] / (s_i^2 s_j^2) + (2 na + 1) / n.
+     *
+     * @param cols columns where a is non-zero, {@code aVal} its values; w lives on the first {@code nw} of
+     *             them with values {@code wVal} (none modified)
+     * @return the bound, or infinity when a column has no spread to scale by
+     */
+    double absoluteBound(int[] cols, double[] aVal, int na, double[] wVal, int nw, double alpha, double beta) {
+        int p = columns;
+        int np = pairs;
+        double aNorm = alpha * alpha * n;
+        double wNorm = beta * beta * n;
+        double fourth = (2.0 * na + 1) / n;
+        for (int x = 0; x < na; x++) {
+            int c = cols[x];
+            double sx = s2[c * p + c];
+            if (!(sx > 0)) {
+                return Double.POSITIVE_INFINITY;
+            }
+            aNorm += aVal[x] * aVal[x] * sx;
+            if (x < nw) {
+                wNorm += wVal[x] * wVal[x] * sx;
+            }
+            int row = pairIndex[c * p + c] * np;
+            for (int y = 0; y < na; y++) {
+                int d = cols[y];
+                fourth += q[row + pairIndex[d * p + d]] / (sx * s2[d * p + d]);
+            }
+        }
+        return aNorm * wNorm * fourth;
+    }
 }

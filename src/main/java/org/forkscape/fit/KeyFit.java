@@ -14,13 +14,14 @@ package org.forkscape.fit;
  * @param rss           residual sum of squares
  * @param modelF        statistic of the overall F test against the intercept-only model, on K - 1 and N - K df
  * @param refitByQr     true when the precision guard refit this specification from its rows
+ * @param route         how the standard error was computed
  */
 public record KeyFit(double estimate, double stdError, double df, int nObs, int nParams, double r2, double rss,
-        double modelF, String status, String note, boolean refitByQr) {
+        double modelF, String status, String note, boolean refitByQr, VarianceRoute route) {
 
     public static KeyFit failed(String status, int nObs, int nParams) {
         return new KeyFit(Double.NaN, Double.NaN, Double.NaN, nObs, nParams, Double.NaN, Double.NaN, Double.NaN,
-                status, "", false);
+                status, "", false, VarianceRoute.NONE);
     }
 
     /** p-value of the overall F test (computed on demand: the incomplete beta is not free). */

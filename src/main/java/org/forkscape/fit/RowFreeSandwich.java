@@ -4,15 +4,36 @@ package org.forkscape.fit;
  * The key coefficient's HC0 and CR1 meats from moments instead of rows (see {@link FourthMoments} and
  * {@link ClusterMoments}); the scalings are those of {@link KeyCoefficientSandwich}. One per worker
  * thread: it keeps its workspace.
+ *
+ * <p>Each meat comes with a bound on its rounding error, from the stored moments alone (see
+ * {@link SandwichRoute}): with z the stored columns, a the residual's coefficients and w the key row of
+ * the inverse, both meats are sums of products whose absolute values add up to at most a bound B of the
+ * sums over rows of (|z|'|a| + |alpha|)(|z|'|w| + |beta|) (squared for HC0). Writing each row as
+ * (z_j / s_j, 1 / sqrt(n)) and each coefficient vector as (a_j s_j, alpha sqrt(n)), with s_j^2 the
+ * column's stored sum of squares, the Cauchy-Schwarz inequality gives |z|'|a| + |alpha| at most the
+ * product of the two vectors' norms; the rows' scaled norms, squared or to the fourth power, sum to
+ * entries of the stored moments. A meat is declined, and the row pass used instead, when B exceeds
+ * {@link SandwichRoute#MAX_AMPLIFICATION} times the meat.
  */
 final class RowFreeSandwich {
+    /**
+     * A meat computed without rows.
+     *
+     * @param value    the meat, before the degrees-of-freedom scaling
+     * @param clusters clusters present in the rows (CR1 only, else 0)
+     */
+    record Meat(double value, int clusters, VarianceRoute route) {
+    }
+
     private int[] aCols = new int[0];
     private double[] aVal = new double[0];
     private double[] w = new double[0];
     private int[] wPairs = new int[0];
     private double[] wPairCoef = new double[0];
     private double[] clusterScore = new double[0];
+    private double[] clusterAbsolute = new double[0];
     private boolean[] clusterSeen = new boolean[0];
+    private double[] squares = new double[0];
 
     private void ensure(int p) {
         if (aCols.length < p + 1) {
@@ -45,33 +66,66 @@ final class RowFreeSandwich {
         return t;
     }
 
-    /** sum e_i^2 u_i^2 over the usable rows (the HC0 meat), or NaN when it came out non-positive. */
-    double hc0(Moments mom, KeySolution s, int y) {
+    /**
+     * sum e_i^2 u_i^2 over the usable rows (the HC0 meat), or {@code null} when it came out non-positive
+     * or its rounding error bound is too large.
+     */
+    Meat hc0(Moments mom, KeySolution s, int y) {
         load(s, y);
         int p = s.p;
         double[] off = mom.levelMeanOffset[0];
         double alpha = offset(off, aCols, aVal, p + 1);
         double beta = offset(off, s.kept, w, p);
-        double meat = mom.fourthMoments().meat(aCols, aVal, p + 1, s.kept, w, p, alpha, beta, wPairs, wPairCoef);
-        return meat > 0 ? meat : Double.NaN;
+        FourthMoments moments = mom.fourthMoments();
+        double meat = moments.meat(aCols, aVal, p + 1, s.kept, w, p, alpha, beta, wPairs, wPairCoef);
+        double bound = moments.absoluteBound(aCols, aVal, p + 1, w, p, alpha, beta);
+        if (!(meat > 0) || !(bound <= SandwichRoute.MAX_AMPLIFICATION * meat)) {
+            return null;
+        }
+        return new Meat(meat, 0, VarianceRoute.FOURTH_MOMENTS);
     }
 
     /**
-     * The CR1 meat, sum over clusters of (sum e_i u_i)^2, and the number of clusters in the rows.
-     *
-     * @return {meat, clusters}
+     * The CR1 meat, sum over clusters of (sum e_i u_i)^2, with the number of clusters in the rows; or
+     * {@code null} when its rounding error bound is too large. With e_i u_i summed over a cell of n_c
+     * rows, the absolute bound is sqrt(A_l W_l) T_c, where A_l and W_l are the scaled norms of (a, alpha_l)
+     * and (w, beta_l) and T_c the cell's sum of the rows' squared scaled norms; a cluster score's error
+     * is at most a multiple of the roundoff times the sum over its cells, so the meat's relative error
+     * is bounded by 2 sum_g |score_g| bound_g / meat.
      */
-    double[] cluster(Moments mom, KeySolution s, int y, String column) {
+    Meat cluster(Moments mom, KeySolution s, int y, String column) {
         load(s, y);
         int p = s.p;
         int stride = mom.variant.columns;
         ClusterMoments.Usable cells = mom.clusterCells(column);
         if (clusterScore.length < cells.clusters) {
             clusterScore = new double[cells.clusters];
+            clusterAbsolute = new double[cells.clusters];
             clusterSeen = new boolean[cells.clusters];
         }
+        if (squares.length < p + 1) {
+            squares = new double[p + 1];
+        }
         java.util.Arrays.fill(clusterScore, 0, cells.clusters, 0);
+        java.util.Arrays.fill(clusterAbsolute, 0, cells.clusters, 0);
         java.util.Arrays.fill(clusterSeen, 0, cells.clusters, false);
+        java.util.Arrays.fill(squares, 0, p + 1, 0);
+        double n = 0;
+        for (int c = 0; c < cells.n.length; c++) {
+            double[] cross = cells.cross[c];
+            for (int x = 0; x <= p; x++) {
+                squares[x] += cross[aCols[x] * stride + aCols[x]];
+            }
+            n += cells.n[c];
+        }
+        double aNorm = 0;
+        double wNorm = 0;
+        for (int x = 0; x <= p; x++) {
+            aNorm += aVal[x] * aVal[x] * squares[x];
+            if (x < p) {
+                wNorm += w[x] * w[x] * squares[x];
+            }
+        }
         int g = 0;
         for (int c = 0; c < cells.n.length; c++) {
             double[] off = mom.levelMeanOffset[cells.level[c]];
@@ -80,6 +134,7 @@ final class RowFreeSandwich {
             double[] cross = cells.cross[c];
             double[] sum = cells.sum[c];
             double asw = 0;
+            double rowNorms = cells.n[c] / n;
             for (int x = 0; x <= p; x++) {
                 int row = aCols[x] * stride;
                 double t = 0;
@@ -87,19 +142,31 @@ final class RowFreeSandwich {
                     t += cross[row + s.kept[k]] * w[k];
                 }
                 asw += aVal[x] * t;
+                rowNorms += cross[row + aCols[x]] / squares[x];
             }
             double as = offset(sum, aCols, aVal, p + 1);
             double ws = offset(sum, s.kept, w, p);
-            clusterScore[cells.cluster[c]] += asw - beta * as - alpha * ws + cells.n[c] * alpha * beta;
-            if (!clusterSeen[cells.cluster[c]]) {
-                clusterSeen[cells.cluster[c]] = true;
+            int cluster = cells.cluster[c];
+            clusterScore[cluster] += asw - beta * as - alpha * ws + cells.n[c] * alpha * beta;
+            clusterAbsolute[cluster] += Math.sqrt((aNorm + alpha * alpha * n) * (wNorm + beta * beta * n))
+                    * rowNorms;
+            if (!clusterSeen[cluster]) {
+                clusterSeen[cluster] = true;
                 g++;
             }
         }
+        if (g < 2) {
+            return new Meat(0, g, VarianceRoute.CLUSTER_CELLS);
+        }
         double meat = 0;
+        double bound = 0;
         for (int c = 0; c < cells.clusters; c++) {
             meat += clusterScore[c] * clusterScore[c];
+            bound += 2 * Math.abs(clusterScore[c]) * clusterAbsolute[c];
         }
-        return new double[] {meat, g};
+        if (!(meat > 0) || !(bound <= SandwichRoute.MAX_AMPLIFICATION * meat)) {
+            return null;
+        }
+        return new Meat(meat, g, VarianceRoute.CLUSTER_CELLS);
     }
 }

@@ -5,12 +5,28 @@ package org.forkscape.fit;
  * so that callers never choose kernels. The row pass costs about 3 n p per specification; the
  * fourth-moment route (HC0, HC1, no absorbed fixed effects) costs n C(P+3,4) once per variant plus
  * about (p+1)^2 p^2 / 4 per specification; the per-cluster route costs n P^2 / 2 once plus cells p^2.
- * A route that avoids the rows is also declined when the specification's numbers would cancel: the
- * moment expansions lose about log10((y'y / RSS) VIF_key) digits.
+ *
+ * <p>A route that avoids the rows is declined whenever its result could lose digits. Both routes compute
+ * a sum of products of stored sums: every rounding error, in forming those sums and in contracting them,
+ * is at most a small multiple of the unit roundoff times the same sum taken over absolute values
+ * (Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., 2002, section 3.1, the bound for sums
+ * of products). {@link RowFreeSandwich} bounds that absolute sum from the stored moments alone, by the
+ * Cauchy-Schwarz inequality over scaled coordinates, and the ratio of the bound to the meat is the
+ * amplification of rounding error. Near-collinear controls make it large (the key row of the inverse
+ * and the residual's coefficients grow with opposite signs on the near-copies), as do a well explained
+ * outcome and badly scaled columns; the ratio sees all of them, the key's variance inflation alone does
+ * not.
  */
 final class SandwichRoute {
-    /** Above this cancellation factor the moment routes could lose more than about four digits. */
-    static final double MAX_CANCELLATION = 1e4;
+    /**
+     * Largest accepted ratio of the absolute-value bound to the meat. With unit roundoff 1.1e-16 the
+     * rounding error is then about 1e-10 relative or less: the errors of the blocked sums grow with the
+     * square root of their length rather than the length (Higham &amp; Mary 2019, "A new approach to
+     * probabilistic rounding error analysis", SIAM Journal on Scientific Computing 41(5)), and the
+     * Cauchy-Schwarz bound itself exceeds the absolute sum several times over. Measured on the
+     * near-copy sweeps of the tests: the accepted specifications are within 1e-11 of exact arithmetic.
+     */
+    static final double MAX_AMPLIFICATION = 1e6;
     /** Memory bound for the per-group fourth-moment tensors, in doubles (256 MiB). */
     static final long MAX_TENSOR_DOUBLES = 1L << 25;
 
@@ -54,13 +70,5 @@ final class SandwichRoute {
         double cells = Math.min((double) rows, (double) clusters * levels);
         double build = ClusterMoments.buildCost(rows, columns);
         return build + specifications * cells * (p + 1) * p < specifications * 3.0 * rows * p;
-    }
-
-    static boolean safe(Moments mom, KeySolution s, int y) {
-        int stride = mom.variant.columns;
-        int key = s.kept[s.p - 1];
-        double vif = s.keyInverseDiagonal() * mom.within[key * stride + key];
-        double cancellation = mom.within[y * stride + y] / s.rss * vif;
-        return cancellation < MAX_CANCELLATION;
     }
 }

@@ -80,36 +80,43 @@ public final class SpecificationFitter {
         double r2 = 1 - s.rss / tss;
         double f = ((tss - s.rss) / (k - 1)) / (s.rss / dfResidual);
         double modelF = k > 1 ? f : Double.NaN;
-        double variance;
         double df = dfResidual;
         if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
-            variance = s.rss / dfResidual * s.keyInverseDiagonal();
-        } else if ((variance = rowFreeVariance(variant, mom, s, y, spec.errors(), k, n)) >= 0) {
-            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
-                df = lastClusters - 1;
-                if (lastClusters < 2) {
-                    return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
-                            "one cluster: cluster-robust errors need at least two", "", refit);
-                }
-            }
-        } else {
-            KeyCoefficientSandwich.RowView view = refit ? rowsView(s, positions, mom)
-                    : variantView(variant, mom, s, y, clusterCodes, clusterCount);
-            KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
-            if (v.failure() != null) {
-                return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), "",
-                        refit);
-            }
-            variance = v.value();
-            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
-                df = v.clusters() - 1;
-            }
+            double variance = s.rss / dfResidual * s.keyInverseDiagonal();
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                    VarianceRoute.CLASSICAL);
         }
-        String note = s.note();
-        return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", note, refit);
+        RowFreeSandwich.Meat free = rowFreeMeat(variant, mom, s, y, spec.errors());
+        if (free != null) {
+            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+                int g = free.clusters();
+                if (g < 2) {
+                    return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
+                            "one cluster: cluster-robust errors need at least two", "", refit, free.route());
+                }
+                df = g - 1;
+                double variance = free.value() * g / (g - 1) * (n - 1.0) / (n - k);
+                return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(),
+                        refit, free.route());
+            }
+            double variance = spec.errors().kind() == ErrorType.Kind.HC1 ? free.value() * n / (n - k) : free.value();
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                    free.route());
+        }
+        KeyCoefficientSandwich.RowView view = refit ? rowsView(s, positions, mom)
+                : variantView(variant, mom, s, y, clusterCodes, clusterCount);
+        KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
+        if (v.failure() != null) {
+            return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), "",
+                    refit, VarianceRoute.ROW_PASS);
+        }
+        if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+            df = v.clusters() - 1;
+        }
+        return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                VarianceRoute.ROW_PASS);
     }
 
-    private int lastClusters;
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
 
     /** The variant's stored columns seen through the usable rows' level means. */
@@ -133,32 +140,21 @@ public final class SpecificationFitter {
     }
 
     /**
-     * The variance by a route that needs no rows, or -1 when that route does not apply or pays here,
-     * or when it would lose digits to cancellation.
+     * The sandwich meat by a route that needs no rows, or {@code null} when no such route applies here,
+     * pays here, or could lose digits (the routes' own bounds, see {@link RowFreeSandwich}).
      */
-    private double rowFreeVariance(DataVariant variant, Moments mom, KeySolution s, int y, ErrorType type, int k,
-            int n) {
-        if (!allowRowFree || !SandwichRoute.safe(mom, s, y)) {
-            return -1;
+    private RowFreeSandwich.Meat rowFreeMeat(DataVariant variant, Moments mom, KeySolution s, int y,
+            ErrorType type) {
+        if (!allowRowFree) {
+            return null;
         }
-        double inverseKK = s.keyInverseDiagonal();
         if ((type.kind() == ErrorType.Kind.HC0 || type.kind() == ErrorType.Kind.HC1) && variant.useFourthMoments) {
-            double meat = rowFree.hc0(mom, s, y);
-            if (Double.isNaN(meat)) {
-                return -1;
-            }
-            return type.kind() == ErrorType.Kind.HC1 ? meat * n / (n - k) : meat;
+            return rowFree.hc0(mom, s, y);
         }
         if (type.kind() == ErrorType.Kind.CLUSTER && variant.usesClusterMoments(type.clusterColumn())) {
-            double[] meat = rowFree.cluster(mom, s, y, type.clusterColumn());
-            int g = (int) meat[1];
-            lastClusters = g;
-            if (g < 2) {
-                return 0;
-            }
-            return meat[0] * g / (g - 1) * (n - 1.0) / (n - k);
+            return rowFree.cluster(mom, s, y, type.clusterColumn());
         }
-        return -1;
+        return null;
     }
 
     private int[] identity = new int[0];

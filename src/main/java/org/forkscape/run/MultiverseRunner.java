@@ -1,19 +1,23 @@
 package org.forkscape.run;
 
 import java.util.ArrayList;
+import java.util.EnumMap;
 import java.util.List;
+import java.util.Map;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.AtomicLongArray;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.fit.SpecificationFitter;
 import org.forkscape.fit.SpecificationModels;
+import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.SpecificationSpace;
@@ -101,6 +105,7 @@ public final class MultiverseRunner {
 
         AtomicLong done = new AtomicLong();
         AtomicLong refits = new AtomicLong();
+        AtomicLongArray routes = new AtomicLongArray(VarianceRoute.values().length);
         ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
             Thread t = new Thread(r, "forkscape-fit");
             t.setDaemon(true);
@@ -136,6 +141,7 @@ public final class MultiverseRunner {
                                 if (fit.refitByQr()) {
                                     refits.incrementAndGet();
                                 }
+                                routes.incrementAndGet(fit.route().ordinal());
                             }
                             progress.update(done.addAndGet(to - from), indices.length);
                         }
@@ -149,7 +155,14 @@ public final class MultiverseRunner {
         } finally {
             WorkerPools.stop(pool);
         }
-        return new RunResult(plan, table, models, results, refits.get(), (System.nanoTime() - start) / 1e9);
+        Map<VarianceRoute, Long> routeCounts = new EnumMap<>(VarianceRoute.class);
+        for (VarianceRoute route : VarianceRoute.values()) {
+            if (route != VarianceRoute.NONE && routes.get(route.ordinal()) > 0) {
+                routeCounts.put(route, routes.get(route.ordinal()));
+            }
+        }
+        return new RunResult(plan, table, models, results, refits.get(), routeCounts,
+                (System.nanoTime() - start) / 1e9);
     }
 
     /**

@@ -16,6 +16,7 @@ import org.apache.commons.csv.CSVRecord;
 import org.forkscape.data.Table;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.fit.SpecificationModels;
+import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Plan;
 
 /**
@@ -65,9 +66,9 @@ public final class SpecificationsCsvReader {
                     status = "ok";
                 }
                 results.set(i, new KeyFit(c.estimate[i], c.stdError[i], c.df[i], c.nObs[i], c.nParams[i], c.r2[i],
-                        Double.NaN, modelF(c.r2[i], c.nObs[i], c.nParams[i]), status, note, false));
+                        Double.NaN, modelF(c.r2[i], c.nObs[i], c.nParams[i]), status, note, false, VarianceRoute.NONE));
             }
-            return new RunResult(plan, table, models, results, 0, seconds);
+            return new RunResult(plan, table, models, results, 0, Map.of(), seconds);
         } catch (IOException e) {
             throw new UncheckedIOException("cannot read " + file + ": " + e.getMessage(), e);
         }

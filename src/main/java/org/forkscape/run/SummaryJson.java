@@ -1,6 +1,7 @@
 package org.forkscape.run;
 
 import java.util.LinkedHashMap;
+import java.util.Locale;
 import java.util.Map;
 
 /**
@@ -22,6 +23,11 @@ public final class SummaryJson {
         }
         m.put("data_rows", run.table().rowCount());
         m.put("refit_by_qr", run.refitByQr());
+        if (!run.routes().isEmpty()) {
+            Map<String, Long> routes = new LinkedHashMap<>();
+            run.routes().forEach((route, count) -> routes.put(route.name().toLowerCase(Locale.ROOT), count));
+            m.put("standard_error_routes", routes);
+        }
         m.put("seconds", Math.round(run.seconds() * 1000) / 1000.0);
         m.putAll(sections);
         return m;

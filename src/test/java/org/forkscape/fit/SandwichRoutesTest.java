@@ -15,14 +15,16 @@ import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunResult;
 import org.forkscape.run.RunProgress;
 import org.junit.jupiter.api.Test;
 
 /**
  * The row-free sandwich routes (fourth moments for HC0/HC1, per-cluster cross-products for CR1) must
  * give the one-row-pass values, which the R reference tests hold against R's sandwich package. Tolerance
- * 1e-11 relative: both routes sum the same products in a different order; the routes are declined
- * where cancellation could cost more than about four digits.
+ * 1e-11 relative: both routes sum the same products in a different order, and a route is declined
+ * where its rounding error bound could cost more digits (held to exact arithmetic by
+ * {@link NearCopyExactArithmeticTest}).
  */
 class SandwichRoutesTest {
     private static Table table(int rows, long seed) {
@@ -71,8 +73,13 @@ class SandwichRoutesTest {
     void rowFreeRoutesMatchTheRowPass() {
         Table t = table(3000, 11);
         Plan plan = new PlanReader(false).read(PLAN, Path.of("."));
-        ResultTable fast = new MultiverseRunner(2, true).run(plan, t, RunProgress.SILENT, null).results();
-        ResultTable rows = new MultiverseRunner(2, false).run(plan, t, RunProgress.SILENT, null).results();
+        RunResult fastRun = new MultiverseRunner(2, true).run(plan, t, RunProgress.SILENT, null);
+        RunResult rowRun = new MultiverseRunner(2, false).run(plan, t, RunProgress.SILENT, null);
+        ResultTable fast = fastRun.results();
+        ResultTable rows = rowRun.results();
+        assertTrue(fastRun.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 100, "routes " + fastRun.routes());
+        assertTrue(fastRun.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 100, "routes " + fastRun.routes());
+        assertEquals(java.util.Set.of(VarianceRoute.ROW_PASS), rowRun.routes().keySet());
         int compared = 0;
         for (int i = 0; i < fast.size(); i++) {
             assertEquals(rows.status(i), fast.status(i));
@@ -99,5 +106,40 @@ class SandwichRoutesTest {
         DataVariant absorbed = new DataVariant(plan, t, models.layout(), models.variantKey(1));
         absorbed.expect(1000, java.util.Map.of(), 4, null);
         assertTrue(!absorbed.useFourthMoments, "absorbed fixed effects keep the row pass for HC");
+    }
+
+    /**
+     * One specification's standard error does not depend on the rest of the plan: alone, eight HC1
+     * specifications are too few for the fourth-moment route to pay and the row pass serves them; among
+     * 64 HC0 and HC1 specifications the route is built and serves them, except where near-copy controls
+     * (gap 1e-5) make its guard decline. Tolerance 1e-10 relative: the bound the route's guard keeps (see
+     * {@link SandwichRoute#MAX_AMPLIFICATION}).
+     */
+    @Test
+    void aSpecificationsNumbersDoNotDependOnTheRestOfThePlan() {
+        Table t = NearCopyExactArithmeticTest.stations(2000, 1e-5, 43);
+        String controls = "{\"name\": \"c\", \"kind\": \"controls\", \"optional\": [\"a\", \"b\", \"c\"]},";
+        Plan alone = new PlanReader(false).read("{\"data\": \"unused.csv\", \"decisions\": ["
+                + "{\"name\": \"o\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"y\", \"column\": \"y\"}]},"
+                + "{\"name\": \"k\", \"kind\": \"predictor\", \"alternatives\": [{\"label\": \"x\", \"column\": \"x\"}]},"
+                + controls + "{\"name\": \"e\", \"kind\": \"errors\", \"alternatives\": [\"HC1\"]}]}", Path.of("."));
+        Plan many = new PlanReader(false).read("{\"data\": \"unused.csv\", \"decisions\": ["
+                + "{\"name\": \"o\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"y\", \"column\": \"y\"},"
+                + "  {\"label\": \"ys\", \"column\": \"y\", \"transform\": \"standardize\"}]},"
+                + "{\"name\": \"k\", \"kind\": \"predictor\", \"alternatives\": [{\"label\": \"x\", \"column\": \"x\"},"
+                + "  {\"label\": \"xs\", \"column\": \"x\", \"transform\": \"standardize\"}]},"
+                + controls + "{\"name\": \"e\", \"kind\": \"errors\", \"alternatives\": [\"HC0\", \"HC1\"]}]}",
+                Path.of("."));
+        RunResult a = new MultiverseRunner(1).run(alone, t, RunProgress.SILENT, null);
+        RunResult b = new MultiverseRunner(1).run(many, t, RunProgress.SILENT, null);
+        assertEquals(java.util.Map.of(VarianceRoute.ROW_PASS, 8L), a.routes(), "eight HC1 specifications alone");
+        assertTrue(b.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "64 HC specifications: " + b.routes());
+        assertTrue(b.routes().getOrDefault(VarianceRoute.ROW_PASS, 0L) > 0, "near-copies declined: " + b.routes());
+        for (int i = 0; i < a.results().size(); i++) {
+            int j = i * 2 + 1;
+            assertEquals(b.results().estimate(j), a.results().estimate(i), 0.0, "estimate, specification " + (i + 1));
+            assertEquals(b.results().stdError(j), a.results().stdError(i), 1e-10 * b.results().stdError(j),
+                    "HC1 standard error, specification " + (i + 1));
+        }
     }
 }

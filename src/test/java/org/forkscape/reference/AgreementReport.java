@@ -14,13 +14,13 @@ import java.util.Map;
  * relative errors) to {@code target/reference-reports/}, so the margins behind each tolerance can be
  * read after a build without the tests printing anything.
  */
-final class AgreementReport {
+public final class AgreementReport {
     static final Path FOLDER = Path.of("target", "reference-reports");
 
     private AgreementReport() {
     }
 
-    static void write(String file, String source, Map<String, Double> figures) {
+    public static void write(String file, String source, Map<String, Double> figures) {
         List<String> lines = new ArrayList<>();
         lines.add("# " + source);
         figures.forEach((what, value) -> lines.add(String.format("%-50s %.4g", what, value)));

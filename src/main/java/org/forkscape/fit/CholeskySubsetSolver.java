@@ -8,7 +8,8 @@ package org.forkscape.fit;
  *
  * <p>Precision guard. Normal equations square the condition number (Golub &amp; Van Loan, Matrix
  * Computations, 4th ed., section 5.3.7), so this route declines, returning {@code null}, whenever the
- * answer could lose digits: a non-positive or small pivot, a trace of the scaled inverse above
+ * answer could lose digits, or the collinearity rule could drop a column: a column that the fixed
+ * effects nearly explain (below {@link #MIN_WITHIN_SHARE}), a non-positive or small pivot, a trace of the scaled inverse above
  * {@link #MAX_INVERSE_TRACE} (it bounds the scaled condition number by p times that value), or a
  * residual sum of squares below {@link #MIN_RESIDUAL_SHARE} of the outcome's (where RSS = y'y - z'z
  * cancels). The caller then refits that one specification from its rows by QR.
@@ -20,6 +21,15 @@ final class CholeskySubsetSolver {
      * 10.4), well inside the 1e-10 the engine promises against a QR refit.
      */
     static final double MAX_INVERSE_TRACE = 1e5;
+    /**
+     * A column whose within sum of squares is below this share of its total (about the overall mean) goes
+     * to the QR refit, which applies the one collinearity rule ({@link QrRefit#TOLERANCE}). An accepted
+     * pivot keeps at least 1 / {@link #MAX_INVERSE_TRACE} of the within square, so a column this route
+     * keeps has a remaining squared norm of at least 1e-13 of its total, above the rule's 1e-14
+     * (TOLERANCE squared): the two routes never disagree on which columns are dropped, near the fixed
+     * effects included.
+     */
+    static final double MIN_WITHIN_SHARE = 1e-8;
     /** Below this share the subtraction y'y - z'z leaves fewer than ten exact digits of the RSS. */
     static final double MIN_RESIDUAL_SHARE = 1e-6;
 
@@ -62,7 +72,7 @@ final class CholeskySubsetSolver {
         double dy = Math.sqrt(yy);
         for (int i = 0; i < p; i++) {
             double d = w[cols[i] * stride + cols[i]];
-            if (!(d > 0) || d < 1e-20 * mom.totalSquares[cols[i]]) {
+            if (!(d > 0) || d < MIN_WITHIN_SHARE * mom.totalSquares[cols[i]]) {
                 return null;
             }
             scale[i] = Math.sqrt(d);

@@ -246,8 +246,10 @@ public class RunQueue {
             if (!ended.compareAndSet(false, true)) {
                 return false;
             }
-            record = record.ending(state, Instant.now(), where, why);
-            workspace.update(record);
+            // on disk first: a status poll that sees the end in memory must find it in the workspace too
+            StoredRun ending = record.ending(state, Instant.now(), where, why);
+            workspace.update(ending);
+            record = ending;
             workspace.log(record, logLine);
             if (state == RunState.CANCELLED && record.started() == null) {
                 started(record.id());

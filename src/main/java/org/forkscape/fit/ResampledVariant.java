@@ -25,7 +25,7 @@ import org.forkscape.plan.ErrorType;
  * <p>Not thread safe: one instance per worker thread and variant, reused for every draw (its buffers are
  * allocated once).
  */
-public final class ResampledVariant {
+public final class ResampledVariant implements FitData {
     private final DataVariant v;
     private final int p;
     private final boolean[] isPredictor;
@@ -39,10 +39,8 @@ public final class ResampledVariant {
     private final double[] weightedRow;
     private final Map<Long, Moments> byVariables = new HashMap<>();
     private final Map<BitSet, Moments> byGroups = new HashMap<>();
-    private final CholeskySubsetSolver cholesky = new CholeskySubsetSolver();
-    private final QrRefit qr = new QrRefit();
+    private final Estimator estimator = new LeastSquares(false);
     private final DesignRows rows = new DesignRows();
-    private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
     /** Per variant row: the row whose key predictor values it carries in this draw (permutation draws). */
     private int[] source;
@@ -56,7 +54,7 @@ public final class ResampledVariant {
     private int[] tableUnits;
     /** Per cluster column: whether each of its clusters lies within one resampled unit. */
     private final Map<String, Boolean> nestedInUnits = new HashMap<>();
-    /** Whether, for the specification being fitted, each drawn copy of a row starts new clusters. */
+    /** Whether, for the rows last materialised or viewed, each drawn copy of a row starts new clusters. */
     private boolean copiesAreNewClusters;
     private int maxWeight;
     private PermutationBlocks blocks;
@@ -220,7 +218,13 @@ public final class ResampledVariant {
         }
     }
 
-    private Moments moments(long variableMask) {
+    @Override
+    public DataVariant variant() {
+        return v;
+    }
+
+    @Override
+    public Moments moments(long variableMask) {
         Moments m = byVariables.get(variableMask);
         if (m == null) {
             BitSet usable = UsableRows.groups(v, variableMask);
@@ -231,65 +235,56 @@ public final class ResampledVariant {
     }
 
     /**
-     * Refits one specification of this variant in the current draw, with the same route, precision
-     * guard and standard error type as the engine.
+     * Refits one specification of this variant in the current draw by the engine's estimator, with the
+     * same route, precision guard and standard error type (the routes without rows are not built for a
+     * draw's cells).
      *
      * @return the key estimate, its standard error and df; {@code null} when the specification cannot be
      *         fitted in this draw (too few rows, a key predictor that is constant or collinear, leverage 1)
      */
     public DrawFit fit(SpecificationModel spec) {
-        Moments mom = moments(spec.variableMask());
-        int n = mom.n;
-        int base = v.absorbs ? mom.levelsPresent : 1;
-        int[] cols = spec.factorOrder();
-        int y = spec.outcomeColumn();
-        if (n <= base || !(mom.totalSquares[y] > 0)) {
-            return null;
-        }
-        int[] clusterCodes = null;
-        int clusterCount = 0;
-        copiesAreNewClusters = false;
-        if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
-            clusterCodes = v.clusters.get(spec.errors().clusterColumn());
-            clusterCount = v.clusterCounts.get(spec.errors().clusterColumn());
-            copiesAreNewClusters = nestedInUnits(spec.errors().clusterColumn());
-        }
-        KeySolution s = cholesky.solve(mom, cols, y);
-        boolean refit = s == null;
-        int[] positions;
+        KeyFit fit = estimator.fit(spec, this);
+        return fit.ok() ? new DrawFit(fit.estimate(), fit.stdError(), fit.df()) : null;
+    }
+
+    @Override
+    public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
+        prepareClusters(errors);
+        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors));
+        return rows;
+    }
+
+    @Override
+    public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
+            ErrorType errors, boolean refit) {
+        prepareClusters(errors);
+        int[] clusterCodes = clusterCodes(errors);
+        int clusterCount = clusterCount(errors);
         if (refit) {
-            fillRows(mom, cols, y, clusterCodes, clusterCount);
-            s = qr.solve(rows, mom, cols);
-            if (s == null) {
-                return null;
-            }
-            positions = s.keptPositions;
-        } else {
-            positions = identity(s.p);
+            return rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
         }
-        int k = base + s.p;
-        int dfResidual = n - k;
-        if (dfResidual <= 0) {
-            return null;
-        }
-        if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
-            return new DrawFit(s.keyEstimate(), Math.sqrt(s.rss / dfResidual * s.keyInverseDiagonal()), dfResidual);
-        }
-        KeyCoefficientSandwich.RowView rowsToRead;
-        if (refit) {
-            rowsToRead = rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
-        } else if (clusterCodes != null && copiesAreNewClusters) {
+        if (clusterCodes != null && copiesAreNewClusters) {
             fillRows(mom, s.kept, y, clusterCodes, clusterCount);
-            rowsToRead = rowView(s, positions, mom, codeCount(clusterCount));
-        } else {
-            rowsToRead = variantView(mom, s, y, clusterCodes, clusterCount);
+            return rowView(s, positions, mom, codeCount(clusterCount));
         }
-        KeyCoefficientSandwich.Variance variance = sandwich.variance(rowsToRead, s, spec.errors(), k);
-        if (variance.failure() != null) {
-            return null;
-        }
-        double df = spec.errors().kind() == ErrorType.Kind.CLUSTER ? variance.clusters() - 1 : dfResidual;
-        return new DrawFit(s.keyEstimate(), Math.sqrt(variance.value()), df);
+        return variantView(mom, s, y, clusterCodes, clusterCount);
+    }
+
+    @Override
+    public boolean momentRoutes() {
+        return false;
+    }
+
+    private void prepareClusters(ErrorType errors) {
+        copiesAreNewClusters = errors.kind() == ErrorType.Kind.CLUSTER && nestedInUnits(errors.clusterColumn());
+    }
+
+    private int[] clusterCodes(ErrorType errors) {
+        return errors.kind() == ErrorType.Kind.CLUSTER ? v.clusters.get(errors.clusterColumn()) : null;
+    }
+
+    private int clusterCount(ErrorType errors) {
+        return errors.kind() == ErrorType.Kind.CLUSTER ? v.clusterCounts.get(errors.clusterColumn()) : 0;
     }
 
     /** Whether every cluster of the column lies within one resampled unit (false for single rows). */
@@ -404,13 +399,6 @@ public final class ResampledVariant {
         return view.overRows(rows, positions, s.p, mom, clusterCount);
     }
 
-    private static int[] identity(int n) {
-        int[] out = new int[n];
-        for (int i = 0; i < n; i++) {
-            out[i] = i;
-        }
-        return out;
-    }
 
     /** The variant's rows grouped by their missing pattern on the key predictor alternatives. */
     private static final class PermutationBlocks {

@@ -1,0 +1,35 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+
+/**
+ * What an estimator reads to fit one specification of a data variant: the sufficient statistics of the
+ * rows it may use, and those rows themselves where a route needs them (a QR refit, a pass over rows
+ * for the sandwich). The observed data ({@link ObservedRows}) and a null draw's resampled data
+ * ({@link ResampledVariant}) are the two sources; an estimator never knows which one it reads.
+ * Implementations keep workspaces: one per worker thread.
+ */
+public sealed interface FitData permits ObservedRows, ResampledVariant {
+    /** The variant whose layout, levels and clusters the data has. */
+    DataVariant variant();
+
+    /** The statistics of the rows complete on {@code variableMask}'s variables. */
+    Moments moments(long variableMask);
+
+    /**
+     * The rows of {@code mom} in within coordinates, columns {@code cols} (key last) and the outcome,
+     * with the cluster codes that {@code errors} needs; owned by this source, valid until its next call.
+     */
+    DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors);
+
+    /**
+     * The rows the sandwich of solution {@code s} reads: after a QR refit, those of the last
+     * {@link #refitRows} call ({@code positions} the kept columns' places in them); after a Cholesky
+     * solve, the stored rows.
+     */
+    KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y, ErrorType errors,
+            boolean refit);
+
+    /** Whether the routes without rows (fourth moments, cluster cells) were built for these statistics. */
+    boolean momentRoutes();
+}

@@ -1,0 +1,138 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+
+/**
+ * Least squares over sufficient statistics: the Cholesky route from the data's moments, with the QR
+ * refit from rows when the precision guard asks for it, then the requested standard error by the
+ * cheapest route that keeps its digits (see {@link SandwichRoute}). Not thread safe: one per worker
+ * thread, reused for every specification (its solvers keep their workspaces).
+ */
+public final class LeastSquares implements Estimator {
+    private final CholeskySubsetSolver cholesky = new CholeskySubsetSolver();
+    private final QrRefit qr = new QrRefit();
+    private final KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
+    private final RowFreeSandwich rowFree = new RowFreeSandwich();
+    private final boolean allowRowFree;
+
+    /**
+     * @param allowRowFree false forces the one-row-pass sandwich everywhere (for the benchmark's
+     *                     comparison and for tests that hold the routes against each other)
+     */
+    public LeastSquares(boolean allowRowFree) {
+        this.allowRowFree = allowRowFree;
+    }
+
+    @Override
+    public KeyFit fit(SpecificationModel spec, FitData data) {
+        DataVariant variant = data.variant();
+        Moments mom = data.moments(spec.variableMask());
+        int n = mom.n;
+        int base = variant.absorbs ? mom.levelsPresent : 1;
+        int[] cols = spec.factorOrder();
+        if (n <= base) {
+            return KeyFit.failed("too few rows: " + n + " row" + (n == 1 ? "" : "s") + " complete on this "
+                    + "specification's variables", n, base + cols.length);
+        }
+        int y = spec.outcomeColumn();
+        if (!(mom.totalSquares[y] > 0)) {
+            return KeyFit.failed("the outcome is constant in these rows", n, base + cols.length);
+        }
+        KeySolution s = cholesky.solve(mom, cols, y);
+        int[] positions;
+        boolean refit = s == null;
+        if (refit) {
+            s = qr.solve(data.refitRows(mom, cols, y, spec.errors()), mom, cols);
+            if (s == null) {
+                if (n < base + cols.length) {
+                    // with fewer rows than coefficients every column is a combination of the others
+                    return KeyFit.failed("too few rows: " + n + " rows for " + (base + cols.length) + " coefficients",
+                            n, base + cols.length);
+                }
+                String what = variant.layout.columnName(spec.keyColumn());
+                String reason = qr.keyDropReason;
+                String status = reason.contains("constant") ? "the key predictor " + what + " is constant in these rows"
+                        : reason.contains("fixed effects")
+                        ? "collinear: the key predictor " + what + " is a linear combination of the fixed effects"
+                        : "collinear: the key predictor " + what + " is a linear combination of the controls";
+                return KeyFit.failed(status, n, base + cols.length);
+            }
+            positions = s.keptPositions;
+        } else {
+            positions = identity(s.p);
+        }
+        int k = base + s.p;
+        int dfResidual = n - k;
+        if (dfResidual <= 0) {
+            return KeyFit.failed("too few rows: " + n + " rows for " + k + " coefficients", n, k);
+        }
+        double tss = mom.totalSquares[y];
+        double r2 = 1 - s.rss / tss;
+        double f = ((tss - s.rss) / (k - 1)) / (s.rss / dfResidual);
+        double modelF = k > 1 ? f : Double.NaN;
+        double df = dfResidual;
+        if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
+            double variance = s.rss / dfResidual * s.keyInverseDiagonal();
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                    VarianceRoute.CLASSICAL);
+        }
+        RowFreeSandwich.Meat free = data.momentRoutes() ? rowFreeMeat(variant, mom, s, y, spec.errors()) : null;
+        if (free != null) {
+            if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+                int g = free.clusters();
+                if (g < 2) {
+                    return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
+                            "one cluster: cluster-robust errors need at least two", "", refit, free.route());
+                }
+                df = g - 1;
+                double variance = free.value() * g / (g - 1) * (n - 1.0) / (n - k);
+                return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(),
+                        refit, free.route());
+            }
+            double variance = spec.errors().kind() == ErrorType.Kind.HC1 ? free.value() * n / (n - k) : free.value();
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                    free.route());
+        }
+        KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
+        KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
+        if (v.failure() != null) {
+            return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), "",
+                    refit, VarianceRoute.ROW_PASS);
+        }
+        if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
+            df = v.clusters() - 1;
+        }
+        return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+                VarianceRoute.ROW_PASS);
+    }
+
+    /**
+     * The sandwich meat by a route that needs no rows, or {@code null} when no such route applies here,
+     * pays here, or could lose digits (the routes' own bounds, see {@link RowFreeSandwich}).
+     */
+    private RowFreeSandwich.Meat rowFreeMeat(DataVariant variant, Moments mom, KeySolution s, int y,
+            ErrorType type) {
+        if (!allowRowFree) {
+            return null;
+        }
+        if ((type.kind() == ErrorType.Kind.HC0 || type.kind() == ErrorType.Kind.HC1) && variant.useFourthMoments) {
+            return rowFree.hc0(mom, s, y);
+        }
+        if (type.kind() == ErrorType.Kind.CLUSTER && variant.usesClusterMoments(type.clusterColumn())) {
+            return rowFree.cluster(mom, s, y, type.clusterColumn());
+        }
+        return null;
+    }
+
+    private int[] identity = new int[0];
+
+    private int[] identity(int p) {
+        if (identity.length < p) {
+            identity = new int[p];
+            for (int i = 0; i < p; i++) {
+                identity[i] = i;
+            }
+        }
+        return identity;
+    }
+}

@@ -1,0 +1,64 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+
+/**
+ * The observed data of one variant as an estimator reads it, with one worker's row buffers. Not thread
+ * safe: one per worker thread, pointed at each variant in turn.
+ */
+public final class ObservedRows implements FitData {
+    private DataVariant variant;
+    private final DesignRows rows = new DesignRows();
+    private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
+
+    /** Points this worker's view at {@code v}; returns this. */
+    ObservedRows of(DataVariant v) {
+        variant = v;
+        return this;
+    }
+
+    @Override
+    public DataVariant variant() {
+        return variant;
+    }
+
+    @Override
+    public Moments moments(long variableMask) {
+        return variant.moments(variableMask);
+    }
+
+    @Override
+    public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
+        rows.fill(mom, cols, y, clusterCodes(errors));
+        return rows;
+    }
+
+    @Override
+    public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
+            ErrorType errors, boolean refit) {
+        if (refit) {
+            return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows));
+        }
+        int[] codes = clusterCodes(errors);
+        int count = codes == null ? 0 : variant.clusterCounts.get(errors.clusterColumn());
+        return view.over(variant.shifted, s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
+                count);
+    }
+
+    @Override
+    public boolean momentRoutes() {
+        return true;
+    }
+
+    private int[] clusterCodes(ErrorType errors) {
+        return errors.kind() == ErrorType.Kind.CLUSTER ? variant.clusters.get(errors.clusterColumn()) : null;
+    }
+
+    private static int clusterCountOf(DesignRows rows) {
+        int max = -1;
+        for (int i = 0; i < rows.n; i++) {
+            max = Math.max(max, rows.cluster[i]);
+        }
+        return max + 1;
+    }
+}

@@ -338,13 +338,18 @@ function wholeRun(summary) {
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   const nul = summary.null;
   if (nul && typeof nul === 'object') {
-    const draws = `${count(nul.draws)} null draws (${nul.method})`;
+    const unit = nul.resampled === 'clusters' ? `, clusters of ${nul.cluster}`
+      : nul.resampled === 'rows' ? ', single rows' : '';
+    const draws = `${count(nul.draws)} null draws (${nul.method}${unit})`;
     if ('p_median' in nul) box.append(card('Joint test: median estimate', `p ${fmtP(nul.p_median)}`, draws));
     if ('p_share_significant' in nul) {
       box.append(card('Joint test: share significant', `p ${fmtP(nul.p_share_significant)}`, draws));
     }
     if ('p_stouffer' in nul) box.append(card('Joint test: mean z (Stouffer)', `p ${fmtP(nul.p_stouffer)}`, draws));
   }
+  const warning = document.getElementById('null-draw-warning');
+  warning.textContent = nul && typeof nul.warning === 'string' ? nul.warning : '';
+  warning.hidden = warning.textContent === '';
   const best = summary.best;
   if (best && typeof best === 'object') {
     box.append(card('Smallest p in the set', `p ${fmtP(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));

@@ -320,7 +320,12 @@ function addDecision(plan, hooks) {
 }
 
 function settings(f, plan) {
-  const columns = [{ value: '', text: 'none (resample rows)' }, ...f.columns.map((c) => ({ value: c.name, text: c.name }))];
+  // the word "rows" means single rows, so a column of that name is left to the default (see README)
+  const columns = [
+    { value: '', text: 'the clusters the errors use, if one column (else single rows)' },
+    { value: 'rows', text: 'single rows' },
+    ...f.columns.filter((c) => c.name !== 'rows').map((c) => ({ value: c.name, text: `whole clusters of ${c.name}` })),
+  ];
   return el('section', { class: 'panel', 'aria-labelledby': 'settings-title' },
     el('h2', { id: 'settings-title' }, 'How the run is made'),
     el('div', { class: 'plan-settings' },
@@ -338,10 +343,10 @@ function settings(f, plan) {
       f.number('nullDraws', 'Null draws for joint inference (0: none)', plan.nullDraws ?? '',
         (v) => set(plan, 'nullDraws', v), { step: '1', min: '0' }),
       f.select('nullMethod', 'Null draws by', [
-        { value: 'bootstrap', text: 'resampling rows (bootstrap)' },
+        { value: 'bootstrap', text: 'resampling (bootstrap)' },
         { value: 'permute', text: 'shuffling the key predictor' },
       ], plan.nullMethod || 'bootstrap', (v) => set(plan, 'nullMethod', v === 'bootstrap' ? '' : v)),
-      f.select('nullCluster', 'Resample whole clusters of', columns, plan.nullCluster || '',
+      f.select('nullCluster', 'The bootstrap resamples', columns, plan.nullCluster || '',
         (v) => set(plan, 'nullCluster', v))));
 }
 

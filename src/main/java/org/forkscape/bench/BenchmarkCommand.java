@@ -284,10 +284,10 @@ public final class BenchmarkCommand {
         org.forkscape.infer.RunVariants variants = org.forkscape.infer.RunVariants.of(run);
         int threads = Runtime.getRuntime().availableProcessors();
         org.forkscape.infer.NullDraws.run(variants, new org.forkscape.infer.NullDrawSettings(Math.min(20, draws),
-                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null), threads, RunProgress.SILENT, null);
+                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null, false), threads, RunProgress.SILENT, null);
         long start = System.nanoTime();
         org.forkscape.infer.NullDraws.run(variants, new org.forkscape.infer.NullDrawSettings(draws,
-                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null), threads, RunProgress.SILENT, null);
+                org.forkscape.infer.NullMethod.BOOTSTRAP, 1, null, false), threads, RunProgress.SILENT, null);
         double seconds = (System.nanoTime() - start) / 1e9;
         out.printf("null draws: %,d draws x %,d specifications x %,d rows (classical): %.1f s, %,.0f refits/s%n", draws,
                 run.results().size(), c.rows(), seconds, draws * (double) run.results().size() / seconds);

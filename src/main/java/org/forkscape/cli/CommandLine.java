@@ -95,7 +95,7 @@ public final class CommandLine {
                 "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
                 "                                               [--max-specifications N] [--max-memory SIZE]",
                 "                                               [--null-draws R [--null-method bootstrap|permute]",
-                "                                                [--null-cluster COLUMN] [--max-null-draws N]]",
+                "                                                [--null-cluster COLUMN|rows] [--max-null-draws N]]",
                 "                                               fit every specification, write",
                 "                                               DIR/specifications.csv and DIR/summary.json",
                 "                                               (with null draws also DIR/null-draws.csv)",

@@ -35,7 +35,7 @@ final class RunCommand {
             "null-method", "null-cluster", "max-null-draws", "max-memory");
     static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
             + "[--max-specifications N] [--max-memory SIZE] [--null-draws R [--null-method bootstrap|permute] "
-            + "[--null-cluster COLUMN] [--max-null-draws N]]";
+            + "[--null-cluster COLUMN|rows] [--max-null-draws N]]";
 
     private RunCommand() {
     }
@@ -66,7 +66,8 @@ final class RunCommand {
                 a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());
-        if (a.has("null-cluster") && table.find(nullSettings.clusterColumn()).isEmpty()) {
+        if (a.has("null-cluster") && nullSettings.clusterColumn() != null
+                && table.find(nullSettings.clusterColumn()).isEmpty()) {
             String hint = table.nearestName(nullSettings.clusterColumn()).map(n -> "; did you mean \"" + n + "\"?")
                     .orElse("");
             throw new UsageException("--null-cluster: \"" + nullSettings.clusterColumn() + "\" is not a column of "
@@ -117,6 +118,9 @@ final class RunCommand {
                         + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
                 String.format("%.4g", summary.medianEstimate()), 100 * summary.shareSignificantPositive(),
                 100 * summary.shareSignificantNegative(), joint, folder);
+        if (draws != null && draws.warning() != null) {
+            err.println("forkscape: warning: " + CommandLine.oneLine(draws.warning()));
+        }
     }
 
     private static Plan options(Plan plan, Arguments a) {

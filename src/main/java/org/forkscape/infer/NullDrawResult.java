@@ -15,14 +15,16 @@ import org.forkscape.run.Json;
  */
 public final class NullDrawResult {
     private final NullDrawSettings settings;
+    private final String warning;
     private final CurveStatistics observed;
     private final CurveStatistics[] draws;
     private final long failedFits;
     private final double seconds;
 
-    NullDrawResult(NullDrawSettings settings, CurveStatistics observed, CurveStatistics[] draws, long failedFits,
-            double seconds) {
+    NullDrawResult(NullDrawSettings settings, String warning, CurveStatistics observed, CurveStatistics[] draws,
+            long failedFits, double seconds) {
         this.settings = settings;
+        this.warning = warning;
         this.observed = observed;
         this.draws = draws.clone();
         this.failedFits = failedFits;
@@ -31,6 +33,14 @@ public final class NullDrawResult {
 
     public NullDrawSettings settings() {
         return settings;
+    }
+
+    /**
+     * One sentence when the draws split up clusters that the plan's standard errors use (see
+     * {@link IgnoredClustering}), otherwise {@code null}.
+     */
+    public String warning() {
+        return warning;
     }
 
     public CurveStatistics observed() {
@@ -123,6 +133,8 @@ public final class NullDrawResult {
         m.put("method", settings.method().spelling());
         m.put("seed", settings.seed());
         m.put("cluster", settings.clusterColumn());
+        m.put("resampled", settings.clusterColumn() == null ? "rows" : "clusters");
+        m.put("warning", warning);
         m.put("specifications", observed.fitted());
         m.put("p_median", Json.number(pMedian()));
         m.put("p_share_significant", Json.number(pShareSignificant()));

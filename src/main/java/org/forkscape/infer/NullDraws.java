@@ -43,7 +43,8 @@ public final class NullDraws {
      * Runs the draws.
      *
      * @param variants the fitted specifications to re-estimate
-     * @param settings how many draws, which method, the seed and the bootstrap's cluster column
+     * @param settings how many draws, which method, the seed and the bootstrap's cluster column; the result
+     *                 carries a warning when these draws split up clusters the plan's errors use
      * @param threads  worker threads (at least 1)
      * @param progress receives draws done / total
      * @param cancel   checked between draws; may be null
@@ -153,6 +154,8 @@ public final class NullDraws {
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();
         }
-        return new NullDrawResult(settings, observed, out, failed.get(), (System.nanoTime() - start) / 1e9);
+        String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns(),
+                variants.run().table(), design);
+        return new NullDrawResult(settings, warning, observed, out, failed.get(), (System.nanoTime() - start) / 1e9);
     }
 }

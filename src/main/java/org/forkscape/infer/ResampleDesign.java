@@ -75,6 +75,36 @@ final class ResampleDesign {
         }
     }
 
+    /**
+     * Whether every cluster of a grouping lies within one resampled unit, so that a draw moves its rows
+     * together; never for single rows (the same rule as {@code fit.ResampledVariant} applies to errors).
+     *
+     * @param clusterCodes one per table row, -1 where missing (such rows belong to no cluster)
+     */
+    boolean keepsWhole(int[] clusterCodes) {
+        if (unitOf == null) {
+            return false;
+        }
+        int levels = 0;
+        for (int c : clusterCodes) {
+            levels = Math.max(levels, c + 1);
+        }
+        int[] unitOfCluster = new int[levels];
+        java.util.Arrays.fill(unitOfCluster, -1);
+        for (int r = 0; r < rows; r++) {
+            int c = clusterCodes[r];
+            if (c < 0) {
+                continue;
+            }
+            if (unitOfCluster[c] < 0) {
+                unitOfCluster[c] = unitOf[r];
+            } else if (unitOfCluster[c] != unitOf[r]) {
+                return false;
+            }
+        }
+        return true;
+    }
+
     int unitCount() {
         return units;
     }

@@ -16,7 +16,9 @@ import java.util.List;
  * @param maxSpecifications  the cap above which the plan is refused unless a sample is asked for
  * @param nullDraws          number of null draws for joint inference (0 for none)
  * @param nullMethod         {@code bootstrap} or {@code permute}
- * @param nullCluster        column whose clusters are resampled whole in the bootstrap, or {@code null}
+ * @param nullCluster        as the plan or the command line names it: a column whose clusters the bootstrap
+ *                           resamples whole, {@link #NULL_CLUSTER_ROWS} for single rows, or {@code null} when
+ *                           neither names one (then the null draws choose, see {@code infer.NullDrawSettings})
  */
 public record Plan(
         Path dataFile,
@@ -31,6 +33,13 @@ public record Plan(
         String nullCluster) {
 
     public static final long DEFAULT_MAX_SPECIFICATIONS = 1_000_000L;
+
+    /**
+     * The {@code nullCluster} word for resampling single rows. It always means rows, even when the data
+     * have a column of that name: such a column is still resampled whole when it is the one column the
+     * standard errors cluster on and nothing else is named.
+     */
+    public static final String NULL_CLUSTER_ROWS = "rows";
 
     public Plan {
         decisions = List.copyOf(decisions);
@@ -50,6 +59,12 @@ public record Plan(
 
     private <T extends Decision> T only(Class<T> kind) {
         return all(kind).get(0);
+    }
+
+    /** The columns the errors decision's cluster-robust alternatives cluster on, distinct, in plan order. */
+    public List<String> errorClusterColumns() {
+        return all(Decision.Errors.class).stream().flatMap(e -> e.alternatives().stream())
+                .filter(t -> t.kind() == ErrorType.Kind.CLUSTER).map(ErrorType::clusterColumn).distinct().toList();
     }
 
     public double alpha() {

@@ -47,7 +47,7 @@ public final class PlanChecker {
                 }
             }
         }
-        if (plan.nullCluster() != null) {
+        if (plan.nullCluster() != null && !plan.nullCluster().equals(Plan.NULL_CLUSTER_ROWS)) {
             existing(plan.nullCluster(), "nullCluster", table);
         }
     }

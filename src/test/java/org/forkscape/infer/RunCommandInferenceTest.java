@@ -34,27 +34,63 @@ class RunCommandInferenceTest {
                {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "%s"}]},
                {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
                {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
-               {"name": "errors", "kind": "errors", "alternatives": ["classical", "cluster:g"]}
+               {"name": "errors", "kind": "errors", "alternatives": [%s]}
              ]}
             """;
+    private static final String CLUSTERED = "\"classical\", \"cluster:g\"";
 
     @BeforeEach
     void data() throws IOException {
         SplittableRandom r = new SplittableRandom(2);
-        List<String> lines = new ArrayList<>(List.of("y,x,a,b,g,flat"));
+        // district holds schools 0-2 and 3-5; zone cuts across schools; rows is a column named like the word
+        List<String> lines = new ArrayList<>(List.of("y,x,a,b,g,flat,district,zone,rows"));
         for (int i = 0; i < 60; i++) {
             double x = Scenarios.gaussian(r);
+            int school = r.nextInt(6);
             lines.add((0.4 * x + Scenarios.gaussian(r)) + "," + x + "," + Scenarios.gaussian(r) + ","
-                    + Scenarios.gaussian(r) + ",school" + r.nextInt(6) + ",3");
+                    + Scenarios.gaussian(r) + ",school" + school + ",3,district" + school / 3 + ",zone" + i % 2
+                    + ",room" + school);
         }
         Files.write(dir.resolve("data.csv"), lines);
         plan = writePlan("", "y");
     }
 
     private Path writePlan(String extraKeys, String outcome) throws IOException {
+        return writePlan(extraKeys, outcome, CLUSTERED);
+    }
+
+    private Path writePlan(String extraKeys, String outcome, String errors) throws IOException {
         Path p = dir.resolve("plan.json");
-        Files.writeString(p, String.format(PLAN, extraKeys, outcome));
+        Files.writeString(p, String.format(PLAN, extraKeys, outcome, errors));
         return p;
+    }
+
+    private JsonNode nullSection() {
+        return JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile()).get("null");
+    }
+
+    /** The draws resampled {@code cluster} (null for rows) and said nothing, on stderr or in summary.json. */
+    private void assertResampledQuietly(String cluster) {
+        JsonNode draws = nullSection();
+        assertEquals(cluster == null ? "rows" : "clusters", draws.get("resampled").stringValue());
+        if (cluster == null) {
+            assertTrue(draws.get("cluster").isNull());
+        } else {
+            assertEquals(cluster, draws.get("cluster").stringValue());
+        }
+        assertTrue(draws.get("warning").isNull(), draws.toString());
+        assertEquals("", err);
+    }
+
+    /** The warning in summary.json is the line on stderr, and says each thing listed. */
+    private void assertWarned(String... mustContain) {
+        JsonNode warning = nullSection().get("warning");
+        assertTrue(warning.isString(), nullSection().toString());
+        assertEquals("forkscape: warning: " + warning.stringValue() + System.lineSeparator(), err);
+        for (String s : mustContain) {
+            assertTrue(warning.stringValue().contains(s), "\"" + s + "\" in: " + warning.stringValue());
+        }
+        assertEquals(1, out.lines().count(), out);
     }
 
     private int run(String... options) {
@@ -146,5 +182,70 @@ class RunCommandInferenceTest {
         assertRefused("--null-cluster", "bootstrap only");
         assertEquals(2, run("--null-draws", "10", "--null-cluster", "school"));
         assertRefused("--null-cluster", "\"school\" is not a column");
+    }
+
+    @Test
+    void byDefaultTheDrawsResampleTheClustersTheErrorsUse() {
+        assertEquals(0, run("--null-draws", "20"), err);
+        assertResampledQuietly("g");
+    }
+
+    @Test
+    void rowsAreResampledWhenAskedForAndTheDrawsSayWhichClusteringTheyIgnore() throws IOException {
+        assertEquals(0, run("--null-draws", "20", "--null-cluster", "rows"), err);
+        assertEquals("rows", nullSection().get("resampled").stringValue());
+        assertWarned("The null draws resample single rows, as asked, so they split up the clusters of \"g\" that the "
+                + "standard errors use and the joint p-values may be too small; name a column whose clusters contain "
+                + "them in nullCluster (--null-cluster COLUMN).");
+        plan = writePlan("\"nullDraws\": 20, \"nullCluster\": \"rows\",", "y");
+        assertEquals(0, run(), err);
+        assertEquals("rows", nullSection().get("resampled").stringValue());
+        assertWarned("resample single rows, as asked");
+    }
+
+    @Test
+    void thePermutationMovesRowsAndSaysSo() {
+        assertEquals(0, run("--null-draws", "20", "--null-method", "permute"), err);
+        assertEquals("rows", nullSection().get("resampled").stringValue());
+        assertWarned("shuffle the key predictor between single rows", "\"g\"", "bootstrap");
+        assertEquals(0, run("--null-draws", "20", "--null-method", "permute", "--null-cluster", "rows"), err);
+        assertWarned("shuffle the key predictor");
+    }
+
+    @Test
+    void aColumnWhoseClustersContainTheErrorsClustersKeepsThem() {
+        assertEquals(0, run("--null-draws", "20", "--null-cluster", "district"), err);
+        assertResampledQuietly("district");
+        assertEquals(0, run("--null-draws", "20", "--null-cluster", "zone"), err);
+        assertEquals("zone", nullSection().get("cluster").stringValue());
+        assertWarned("resample whole clusters of \"zone\"", "the clusters of \"g\"");
+    }
+
+    @Test
+    void withSeveralClusterColumnsNoneIsChosen() throws IOException {
+        plan = writePlan("", "y", "\"cluster:g\", \"cluster:district\"");
+        assertEquals(0, run("--null-draws", "20"), err);
+        assertEquals("rows", nullSection().get("resampled").stringValue());
+        assertWarned("more than one column", "\"g\" and \"district\"");
+        assertEquals(0, run("--null-draws", "20", "--null-cluster", "district"), err);
+        assertResampledQuietly("district");
+    }
+
+    @Test
+    void theWordRowsMeansRowsAndAColumnNamedSoIsResampledByDefault() throws IOException {
+        plan = writePlan("", "y", "\"HC1\", \"cluster:rows\"");
+        assertEquals(0, run("--null-draws", "20"), err);
+        assertResampledQuietly("rows");
+        assertEquals(0, run("--null-draws", "20", "--null-cluster", "rows"), err);
+        assertWarned("resample single rows, as asked", "the clusters of \"rows\"");
+    }
+
+    @Test
+    void aPlanWithoutClusteredErrorsResamplesRowsWithoutAWarning() throws IOException {
+        plan = writePlan("", "y", "\"classical\", \"HC1\"");
+        assertEquals(0, run("--null-draws", "20"), err);
+        assertResampledQuietly(null);
+        assertEquals(0, run("--null-draws", "20", "--null-method", "permute"), err);
+        assertResampledQuietly(null);
     }
 }

@@ -70,6 +70,43 @@ final class Scenarios {
         return new Table("simulated.csv", cols);
     }
 
+    /**
+     * Pure noise with a clustered design: {@code clusters} groups of {@code size} rows (column "g"), in
+     * which the key predictor x and the outcomes y and y2 (a second measure, correlated 0.6 with y) each
+     * have the intra-cluster correlation {@code icc}; two controls "a" and "b" vary by row only. Nothing
+     * depends on x.
+     */
+    static Table clusteredTable(int clusters, int size, double icc, long seed) {
+        SplittableRandom r = new SplittableRandom(seed);
+        int n = clusters * size;
+        double[] x = new double[n];
+        double[] y = new double[n];
+        double[] y2 = new double[n];
+        double[] a = new double[n];
+        double[] b = new double[n];
+        int[] g = new int[n];
+        double shared = Math.sqrt(icc);
+        double own = Math.sqrt(1 - icc);
+        List<String> levels = new ArrayList<>();
+        for (int k = 0; k < clusters; k++) {
+            levels.add(String.format("g%03d", k));
+            double gx = gaussian(r);
+            double gy = gaussian(r);
+            double gy2 = gaussian(r);
+            for (int i = k * size; i < (k + 1) * size; i++) {
+                g[i] = k;
+                x[i] = shared * gx + own * gaussian(r);
+                y[i] = shared * gy + own * gaussian(r);
+                y2[i] = 0.6 * y[i] + 0.8 * (shared * gy2 + own * gaussian(r));
+                a[i] = gaussian(r);
+                b[i] = gaussian(r);
+            }
+        }
+        List<Column> cols = List.of(new NumericColumn("y", y), new NumericColumn("y2", y2), new NumericColumn("x", x),
+                new NumericColumn("a", a), new NumericColumn("b", b), new CategoricalColumn("g", g, levels));
+        return new Table("simulated.csv", cols);
+    }
+
     static double gaussian(SplittableRandom r) {
         // Box-Muller (Box & Muller 1958, Annals of Mathematical Statistics 29(2))
         double u = 1 - r.nextDouble();
@@ -86,7 +123,7 @@ final class Scenarios {
 
     static NullDrawResult nullDraws(RunResult run, int draws, NullMethod method, long seed, String cluster,
             int threads) {
-        return NullDraws.run(RunVariants.of(run), new NullDrawSettings(draws, method, seed, cluster), threads,
+        return NullDraws.run(RunVariants.of(run), new NullDrawSettings(draws, method, seed, cluster, false), threads,
                 RunProgress.SILENT, null);
     }
 }

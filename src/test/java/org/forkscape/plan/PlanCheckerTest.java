@@ -133,5 +133,9 @@ class PlanCheckerTest {
                 + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("attendance") + "]}, "
                 + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("tutoring") + "]}]}", Path.of("."));
         fails(p, "nullCluster", "did you mean \"district\"?");
+        Plan rows = new PlanReader(false).read("{\"data\": \"s.csv\", \"nullCluster\": \"rows\", \"decisions\": ["
+                + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("attendance") + "]}, "
+                + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("tutoring") + "]}]}", Path.of("."));
+        assertDoesNotThrow(() -> PlanChecker.check(rows, SCHOOLS), "\"rows\" is the word for single rows, not a column");
     }
 }

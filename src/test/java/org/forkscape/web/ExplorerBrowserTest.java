@@ -107,6 +107,8 @@ class ExplorerBrowserTest {
         }
         addDecision(wait, "errors");
         press(wait, "Add an alternative to errors");
+        choose(wait, "decisions[3].alternatives[1]", "cluster");
+        choose(wait, "decisions[3].alternatives[1].cluster", "district");
         addDecision(wait, "sample");
         press(wait, "Add an alternative to rows");
         type(wait, "decisions[4].alternatives[1].label", "urban");
@@ -121,6 +123,9 @@ class ExplorerBrowserTest {
         WebElement keep = field(wait, "decisions[4].alternatives[1].keep");
         keep.clear();
         keep.sendKeys("urban == 1");
+        // null draws of single rows under errors clustered on district: the explorer must say what they ignore
+        type(wait, "nullDraws", "20");
+        choose(wait, "nullCluster", "rows");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
         assertEquals("128 specifications", driver.findElement(By.id("spec-count")).getText());
         BrowserDriver.screenshot(driver, "2-plan");
@@ -130,9 +135,15 @@ class ExplorerBrowserTest {
         assertEquals("data.csv", planJson.path("data").asString());
         assertEquals(5, planJson.path("decisions").size());
         assertEquals("urban == 1", planJson.path("decisions").get(4).path("alternatives").get(1).path("keep").asString());
+        assertEquals("cluster:district", planJson.path("decisions").get(3).path("alternatives").get(1).asString());
+        assertEquals("rows", planJson.path("nullCluster").asString());
         click(wait.until(ExpectedConditions.elementToBeClickable(By.id("run-plan"))));
 
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
+        WebElement warning = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("null-draw-warning")));
+        assertTrue(warning.getText().startsWith("The null draws resample single rows, as asked, so they split up the "
+                + "clusters of \"district\""), warning.getText());
+        assertTrue(driver.findElement(By.id("whole-run-cards")).getText().contains("20 null draws (bootstrap, single rows)"));
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "3-explore");
 

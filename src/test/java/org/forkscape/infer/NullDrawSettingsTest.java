@@ -1,0 +1,49 @@
+package org.forkscape.infer;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import org.junit.jupiter.api.Test;
+
+/** Which unit the null draws take from the plan's keys and its errors decision. */
+class NullDrawSettingsTest {
+    private static NullDrawSettings of(String errors, String keys) {
+        return NullDrawSettings.of(Scenarios.plan("""
+                {"data": "simulated.csv", "nullDraws": 10, %s
+                 "decisions": [
+                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+                   {"name": "errors", "kind": "errors", "alternatives": [%s]}
+                 ]}
+                """.formatted(keys, errors)));
+    }
+
+    @Test
+    void theOneColumnTheErrorsClusterOnIsResampledByDefault() {
+        NullDrawSettings s = of("\"HC1\", \"cluster:g\", \"classical\"", "");
+        assertEquals("g", s.clusterColumn());
+        assertTrue(s.byDefault());
+    }
+
+    @Test
+    void aNamedColumnOrTheWordRowsIsHonoured() {
+        NullDrawSettings column = of("\"cluster:g\"", "\"nullCluster\": \"district\",");
+        assertEquals("district", column.clusterColumn());
+        assertFalse(column.byDefault());
+        NullDrawSettings rows = of("\"cluster:g\"", "\"nullCluster\": \"rows\",");
+        assertNull(rows.clusterColumn());
+        assertFalse(rows.byDefault());
+    }
+
+    @Test
+    void rowsWhenThereIsNoSingleColumnOrTheMethodCannotMoveClusters() {
+        assertNull(of("\"classical\", \"HC1\"", "").clusterColumn());
+        assertNull(of("\"cluster:g\", \"cluster:district\"", "").clusterColumn());
+        assertNull(of("\"cluster:g\"", "\"nullMethod\": \"permute\",").clusterColumn());
+        of("\"cluster:g\"", "\"nullMethod\": \"permute\",").check(100, "nullDraws", "nullCluster");
+        of("\"cluster:g\"", "\"nullMethod\": \"permute\", \"nullCluster\": \"rows\",").check(100, "nullDraws",
+                "nullCluster");
+    }
+}

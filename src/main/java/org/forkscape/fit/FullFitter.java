@@ -45,7 +45,7 @@ public final class FullFitter {
         KeyFit check = engine.fit(variant, spec);
         Moments mom = variant.moments(spec.variableMask());
         if (!check.ok()) {
-            return failed(errors, check.nObs(), check.nParams(), variant, check.status());
+            return failed(errors, check.nObs(), check.nParams(), variant, check.statusText());
         }
         int[] cols = spec.factorOrder();
         int yCol = spec.outcomeColumn();
@@ -58,7 +58,7 @@ public final class FullFitter {
         rows.fill(mom, cols, yCol, clusterCodes);
         KeySolution s = qr.solve(rows, mom, cols);
         if (s == null) {
-            return failed(errors, check.nObs(), check.nParams(), variant, check.status());
+            return failed(errors, check.nObs(), check.nParams(), variant, check.statusText());
         }
         int n = rows.n;
         int p = s.p;

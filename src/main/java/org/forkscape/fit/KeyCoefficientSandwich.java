@@ -128,8 +128,11 @@ final class KeyCoefficientSandwich {
         }
     }
 
-    /** Result of one computation: the variance, or NaN with a reason; the cluster count for CR1. */
-    record Variance(double value, int clusters, String failure) {
+    /**
+     * Result of one computation: the variance, or NaN with the status that says why (and its detail);
+     * the cluster count for CR1.
+     */
+    record Variance(double value, int clusters, FitStatus failure, String failureDetail) {
     }
 
     /**
@@ -246,8 +249,7 @@ final class KeyCoefficientSandwich {
                 for (int z = 0; z < len; z++) {
                     double h = blockH[z];
                     if (h > LEVERAGE_ONE) {
-                        return new Variance(Double.NaN, 0, "undefined: leverage 1 for " + type.label()
-                                + " (a row fits perfectly, such as a fixed-effect level with one row)");
+                        return new Variance(Double.NaN, 0, FitStatus.LEVERAGE_ONE, type.label());
                     }
                     double eu = blockE[z] * blockU[z];
                     double q = 1 - h;
@@ -262,14 +264,14 @@ final class KeyCoefficientSandwich {
         }
         if (cluster) {
             if (groups < 2) {
-                return new Variance(Double.NaN, groups, "one cluster: cluster-robust errors need at least two");
+                return new Variance(Double.NaN, groups, FitStatus.ONE_CLUSTER, "");
             }
             double meat = 0;
             for (int g = 0; g < view.clusterCount; g++) {
                 meat += clusterScore[g] * clusterScore[g];
             }
-            return new Variance(meat * groups / (groups - 1) * (n - 1.0) / (n - k), groups, null);
+            return new Variance(meat * groups / (groups - 1) * (n - 1.0) / (n - k), groups, null, "");
         }
-        return new Variance(type.kind() == ErrorType.Kind.HC1 ? sum * n / (n - k) : sum, 0, null);
+        return new Variance(type.kind() == ErrorType.Kind.HC1 ? sum * n / (n - k) : sum, 0, null, "");
     }
 }

@@ -2,8 +2,9 @@ package org.forkscape.fit;
 
 /**
  * The key coefficient of one specification and the fit statistics reported beside it. Undefined numbers
- * are NaN; {@code status} is {@code ok} or the reason there is no estimate; {@code note} says what was
- * adjusted (for example a dropped collinear control) and may be empty.
+ * are NaN; {@code status} is {@link FitStatus#OK} or the reason there is no estimate, completed by
+ * {@code detail}; {@code note} says what was adjusted (for example a dropped collinear control) and may be
+ * empty.
  *
  * @param estimate      the key coefficient
  * @param stdError      its standard error of the requested type
@@ -17,11 +18,17 @@ package org.forkscape.fit;
  * @param route         how the standard error was computed
  */
 public record KeyFit(double estimate, double stdError, double df, int nObs, int nParams, double r2, double rss,
-        double modelF, String status, String note, boolean refitByQr, VarianceRoute route) {
+        double modelF, FitStatus status, String detail, String note, boolean refitByQr, VarianceRoute route) {
 
-    public static KeyFit failed(String status, int nObs, int nParams) {
+    public static KeyFit failed(FitStatus status, String detail, int nObs, int nParams) {
         return new KeyFit(Double.NaN, Double.NaN, Double.NaN, nObs, nParams, Double.NaN, Double.NaN, Double.NaN,
-                status, "", false, VarianceRoute.NONE);
+                status, detail, "", false, VarianceRoute.NONE);
+    }
+
+    /** The status as written: its sentence, and "; " and the note when there is one. */
+    public String statusText() {
+        String sentence = status.describe(detail);
+        return note.isEmpty() ? sentence : sentence + "; " + note;
     }
 
     /** p-value of the overall F test (computed on demand: the incomplete beta is not free). */
@@ -30,6 +37,6 @@ public record KeyFit(double estimate, double stdError, double df, int nObs, int 
     }
 
     public boolean ok() {
-        return "ok".equals(status);
+        return status == FitStatus.OK;
     }
 }

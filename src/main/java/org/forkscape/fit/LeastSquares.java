@@ -31,12 +31,12 @@ public final class LeastSquares implements Estimator {
         int base = variant.absorbs ? mom.levelsPresent : 1;
         int[] cols = spec.factorOrder();
         if (n <= base) {
-            return KeyFit.failed("too few rows: " + n + " row" + (n == 1 ? "" : "s") + " complete on this "
+            return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on this "
                     + "specification's variables", n, base + cols.length);
         }
         int y = spec.outcomeColumn();
         if (!(mom.totalSquares[y] > 0)) {
-            return KeyFit.failed("the outcome is constant in these rows", n, base + cols.length);
+            return KeyFit.failed(FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
         }
         KeySolution s = cholesky.solve(mom, cols, y);
         int[] positions;
@@ -46,16 +46,15 @@ public final class LeastSquares implements Estimator {
             if (s == null) {
                 if (n < base + cols.length) {
                     // with fewer rows than coefficients every column is a combination of the others
-                    return KeyFit.failed("too few rows: " + n + " rows for " + (base + cols.length) + " coefficients",
-                            n, base + cols.length);
+                    return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " rows for " + (base + cols.length)
+                            + " coefficients", n, base + cols.length);
                 }
-                String what = variant.layout.columnName(spec.keyColumn());
-                String reason = qr.keyDropReason;
-                String status = reason.contains("constant") ? "the key predictor " + what + " is constant in these rows"
-                        : reason.contains("fixed effects")
-                        ? "collinear: the key predictor " + what + " is a linear combination of the fixed effects"
-                        : "collinear: the key predictor " + what + " is a linear combination of the controls";
-                return KeyFit.failed(status, n, base + cols.length);
+                FitStatus status = switch (qr.keyDropReason) {
+                    case CONSTANT -> FitStatus.CONSTANT_KEY;
+                    case FIXED_EFFECTS -> FitStatus.KEY_IN_FIXED_EFFECTS;
+                    case OTHER_COLUMNS -> FitStatus.KEY_IN_CONTROLS;
+                };
+                return KeyFit.failed(status, variant.layout.columnName(spec.keyColumn()), n, base + cols.length);
             }
             positions = s.keptPositions;
         } else {
@@ -64,7 +63,7 @@ public final class LeastSquares implements Estimator {
         int k = base + s.p;
         int dfResidual = n - k;
         if (dfResidual <= 0) {
-            return KeyFit.failed("too few rows: " + n + " rows for " + k + " coefficients", n, k);
+            return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " rows for " + k + " coefficients", n, k);
         }
         double tss = mom.totalSquares[y];
         double r2 = 1 - s.rss / tss;
@@ -73,7 +72,7 @@ public final class LeastSquares implements Estimator {
         double df = dfResidual;
         if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
             double variance = s.rss / dfResidual * s.keyInverseDiagonal();
-            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     VarianceRoute.CLASSICAL);
         }
         RowFreeSandwich.Meat free = data.momentRoutes() ? rowFreeMeat(variant, mom, s, y, spec.errors()) : null;
@@ -82,27 +81,27 @@ public final class LeastSquares implements Estimator {
                 int g = free.clusters();
                 if (g < 2) {
                     return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
-                            "one cluster: cluster-robust errors need at least two", "", refit, free.route());
+                            FitStatus.ONE_CLUSTER, "", "", refit, free.route());
                 }
                 df = g - 1;
                 double variance = free.value() * g / (g - 1) * (n - 1.0) / (n - k);
-                return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(),
+                return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(),
                         refit, free.route());
             }
             double variance = spec.errors().kind() == ErrorType.Kind.HC1 ? free.value() * n / (n - k) : free.value();
-            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+            return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     free.route());
         }
         KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
         KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
         if (v.failure() != null) {
-            return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), "",
+            return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), v.failureDetail(), "",
                     refit, VarianceRoute.ROW_PASS);
         }
         if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
             df = v.clusters() - 1;
         }
-        return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, "ok", s.note(), refit,
+        return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                 VarianceRoute.ROW_PASS);
     }
 

@@ -12,7 +12,7 @@ final class QrRefit {
 
     private double[][] work = new double[0][];
     /** Why the key column was dropped in the last call that returned {@code null}. */
-    String keyDropReason = "";
+    DropReason keyDropReason = DropReason.CONSTANT;
     private double[] qty = new double[0];
 
     /**
@@ -57,7 +57,7 @@ final class QrRefit {
                     keyDropReason = why(mom, cols[j], stride, reference);
                     return null;
                 }
-                s.drop(mom.variant.layout.columnName(cols[j]), why(mom, cols[j], stride, reference));
+                s.drop(mom.variant.layout.columnName(cols[j]), why(mom, cols[j], stride, reference).words);
                 continue;
             }
             // Householder vector v = col[rank..] + sign * norm * e_rank, stored in place
@@ -138,14 +138,14 @@ final class QrRefit {
         }
     }
 
-    private static String why(Moments mom, int col, int stride, double reference) {
+    private static DropReason why(Moments mom, int col, int stride, double reference) {
         if (!(reference > 0)) {
-            return "constant in these rows";
+            return DropReason.CONSTANT;
         }
         double withinNorm = Math.sqrt(Math.max(0, mom.within[col * stride + col]));
         if (mom.variant.absorbs && withinNorm <= TOLERANCE * reference * 10) {
-            return "collinear with the fixed effects";
+            return DropReason.FIXED_EFFECTS;
         }
-        return "collinear with the other columns";
+        return DropReason.OTHER_COLUMNS;
     }
 }

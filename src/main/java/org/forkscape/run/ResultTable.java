@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 import org.forkscape.fit.Distributions;
+import org.forkscape.fit.FitStatus;
 import org.forkscape.fit.KeyFit;
 
 /**
@@ -44,7 +45,7 @@ public final class ResultTable {
         nObs = new int[size];
         nParams = new int[size];
         status = new int[size];
-        code("ok");
+        code(FitStatus.OK.describe(""), true);
     }
 
     /** Stores one fit; safe to call from several threads for distinct slots. */
@@ -57,11 +58,11 @@ public final class ResultTable {
         df[slot] = Double.isNaN(fit.df()) ? -1 : (int) fit.df();
         nObs[slot] = fit.nObs();
         nParams[slot] = fit.nParams();
-        String text = fit.note().isEmpty() ? fit.status() : fit.status() + "; " + fit.note();
-        status[slot] = code(text);
+        status[slot] = code(fit.statusText(), fit.ok());
     }
 
-    private int code(String text) {
+    /** The code of a status text, numbered on first sight; whether it is a fitted one is the fit's own word. */
+    private int code(String text, boolean fitted) {
         Integer c = statusCode.get(text);
         if (c != null) {
             return c;
@@ -70,7 +71,7 @@ public final class ResultTable {
             return statusCode.computeIfAbsent(text, t -> {
                 statusText.add(t);
                 boolean[] ok = java.util.Arrays.copyOf(statusOk, statusText.size());
-                ok[ok.length - 1] = t.equals("ok") || t.startsWith("ok;");
+                ok[ok.length - 1] = fitted;
                 statusOk = ok;
                 return statusText.size() - 1;
             });

@@ -14,6 +14,7 @@ import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
 import org.forkscape.data.Table;
+import org.forkscape.fit.FitStatus;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
@@ -59,14 +60,21 @@ public final class SpecificationsCsvReader {
             int rows = c.size;
             ResultTable results = new ResultTable(rows, rows == inPlan ? null : Arrays.copyOf(c.index, rows));
             for (int i = 0; i < rows; i++) {
-                String status = c.status[i];
+                String text = c.status[i];
                 String note = "";
-                if (status.startsWith("ok; ")) {
-                    note = status.substring(4);
-                    status = "ok";
+                if (text.startsWith("ok; ")) {
+                    note = text.substring(4);
+                    text = "ok";
+                }
+                FitStatus.Read status;
+                try {
+                    status = FitStatus.read(text);
+                } catch (IllegalArgumentException e) {
+                    throw new IllegalStateException(file + ", line " + (i + 2) + ": " + e.getMessage(), e);
                 }
                 results.set(i, new KeyFit(c.estimate[i], c.stdError[i], c.df[i], c.nObs[i], c.nParams[i], c.r2[i],
-                        Double.NaN, modelF(c.r2[i], c.nObs[i], c.nParams[i]), status, note, false, VarianceRoute.NONE));
+                        Double.NaN, modelF(c.r2[i], c.nObs[i], c.nParams[i]), status.status(), status.detail(), note,
+                        false, VarianceRoute.NONE));
             }
             return new RunResult(plan, table, models, results, 0, Map.of(), seconds);
         } catch (IOException e) {

@@ -113,7 +113,7 @@ class BadlyScaledExactArithmeticTest {
                     new SpecificationFitter(false)}) {
                 KeyFit fit = fitter.fit(variant, model);
                 String where = String.format("specification %d (%s, route %s)", index + 1, type, fit.route());
-                assertEquals("ok", fit.status(), where);
+                assertEquals(FitStatus.OK, fit.status(), where);
                 routes.merge(fit.route(), 1, Integer::sum);
                 double exactError = Math.max(relative(fit.estimate(), exact.estimate()),
                         relative(fit.stdError(), exact.stdError(type)));

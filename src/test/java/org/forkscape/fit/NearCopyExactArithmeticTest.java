@@ -135,7 +135,7 @@ class NearCopyExactArithmeticTest {
                 SpecificationModel model = models.model(choices);
                 for (SpecificationFitter fitter : new SpecificationFitter[] {fast, rowPass}) {
                     KeyFit fit = fitter.fit(variant, model);
-                    assertEquals("ok", fit.status(), "specification " + (index + 1));
+                    assertEquals(FitStatus.OK, fit.status(), "specification " + (index + 1));
                     assertEquals(exact.k(), fit.nParams(), "coefficients, specification " + (index + 1));
                     routes.merge(fit.route(), 1, Integer::sum);
                     if (fit.refitByQr()) {

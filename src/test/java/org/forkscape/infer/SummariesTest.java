@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.util.Map;
 import org.apache.commons.math3.distribution.FDistribution;
 import org.apache.commons.math3.distribution.TDistribution;
+import org.forkscape.fit.FitStatus;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.fit.VarianceRoute;
 import org.forkscape.run.ResultTable;
@@ -19,7 +20,7 @@ import org.junit.jupiter.api.Test;
  */
 class SummariesTest {
     private static KeyFit fit(double b, double se, int df, int n, int k) {
-        return new KeyFit(b, se, df, n, k, 0.3, 10, 5, "ok", "", false, VarianceRoute.NONE);
+        return new KeyFit(b, se, df, n, k, 0.3, 10, 5, FitStatus.OK, "", "", false, VarianceRoute.NONE);
     }
 
     private static ResultTable table(KeyFit... fits) {
@@ -52,7 +53,7 @@ class SummariesTest {
     @Test
     void failedSpecificationsAreLeftOut() {
         ResultTable r = new ResultTable(2, null);
-        r.set(0, KeyFit.failed("too few rows", 2, 3));
+        r.set(0, KeyFit.failed(FitStatus.TOO_FEW_ROWS, "2 rows for 3 coefficients", 2, 3));
         r.set(1, fit(1, 0.5, 20, 23, 3));
         assertEquals(2, LeamerBounds.of(r, new int[] {0, 1}, 0.95).lowerSpec());
         assertNull(LeamerBounds.of(r, new int[] {0}, 0.95));
@@ -110,8 +111,8 @@ class SummariesTest {
     @Test
     void overfittingYardstick() {
         // overall F statistics 0.6 on (2, 17) df and 30 on (2, 97) df: p about 0.56 and below 1e-9
-        ResultTable r = table(new KeyFit(1, 0.5, 17, 20, 3, 0.05, 10, 0.6, "ok", "", false, VarianceRoute.NONE),
-                new KeyFit(1, 0.5, 97, 100, 3, 0.4, 10, 30, "ok", "", false, VarianceRoute.NONE));
+        ResultTable r = table(new KeyFit(1, 0.5, 17, 20, 3, 0.05, 10, 0.6, FitStatus.OK, "", "", false, VarianceRoute.NONE),
+                new KeyFit(1, 0.5, 97, 100, 3, 0.4, 10, 30, FitStatus.OK, "", "", false, VarianceRoute.NONE));
         Overfitting small = Overfitting.of(r, 0);
         assertEquals(2.0 / 19, small.r2NullExpectation(), 1e-15);
         assertEquals(20.0 / 3, small.rowsPerCoefficient(), 1e-15);

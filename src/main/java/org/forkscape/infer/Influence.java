@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
+import org.forkscape.plan.Factor;
 import org.forkscape.run.RunResult;
 
 /**
@@ -136,11 +137,10 @@ public final class Influence {
                     sig[l]++;
                 }
             }
-            for (int l = 0; l < levels; l++) {
+            for (int l : factors.get(f).reportOrder()) {
                 if (count[l] > 0 && count[l] < grid.size() && turns((double) sig[l] / count[l], below)) {
-                    found.add(new InfluenceReport.Restriction(
-                            List.of(new InfluenceReport.Condition(factors.get(f).name(), factors.get(f).levels().get(l))),
-                            count[l], (double) sig[l] / count[l]));
+                    found.add(new InfluenceReport.Restriction(List.of(condition(factors.get(f), l)), count[l],
+                            (double) sig[l] / count[l]));
                 }
             }
         }
@@ -164,14 +164,13 @@ public final class Influence {
                         sig[cell]++;
                     }
                 }
-                for (int a = 0; a < lf; a++) {
-                    for (int b = 0; b < lg; b++) {
+                for (int a : factors.get(f).reportOrder()) {
+                    for (int b : factors.get(g).reportOrder()) {
                         int cell = a * lg + b;
                         if (count[cell] > 0 && count[cell] < grid.size()
                                 && turns((double) sig[cell] / count[cell], below)) {
-                            found.add(new InfluenceReport.Restriction(List.of(
-                                    new InfluenceReport.Condition(factors.get(f).name(), factors.get(f).levels().get(a)),
-                                    new InfluenceReport.Condition(factors.get(g).name(), factors.get(g).levels().get(b))),
+                            found.add(new InfluenceReport.Restriction(
+                                    List.of(condition(factors.get(f), a), condition(factors.get(g), b)),
                                     count[cell], (double) sig[cell] / count[cell]));
                         }
                     }
@@ -179,6 +178,10 @@ public final class Influence {
             }
         }
         return found;
+    }
+
+    private static InfluenceReport.Condition condition(Factor factor, int level) {
+        return new InfluenceReport.Condition(factor.name(), factor.reportLabel(level));
     }
 
     private static String sentence(int sign, double overall, int n, boolean below, int level,

@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.forkscape.plan.Factor;
 import org.forkscape.run.Json;
 
 /**
@@ -26,14 +27,15 @@ public record InfluenceReport(List<FactorInfluence> factors, double mainEffectsS
         String sentence) {
 
     /**
-     * One factor: per level, the mean estimate, the number of specifications and the share significant
-     * in the dominant sign (NaN for a level no specification has), and its variance share.
+     * One factor: per level (indexed by the factor's level numbers), the mean estimate, the number of
+     * specifications and the share significant in the dominant sign (NaN for a level no specification
+     * has), and its variance share.
      */
     public record FactorInfluence(Factor factor, double[] mean, int[] count, double[] shareSignificant,
             double varianceShare) {
     }
 
-    /** One level of one factor. */
+    /** One level of one factor, named as {@link Factor#reportLabel(int)} names it. */
     public record Condition(String factor, String level) {
     }
 
@@ -59,8 +61,8 @@ public record InfluenceReport(List<FactorInfluence> factors, double mainEffectsS
             Map<String, Object> levels = new LinkedHashMap<>();
             Map<String, Object> counts = new LinkedHashMap<>();
             Map<String, Object> shares = new LinkedHashMap<>();
-            for (int l = 0; l < f.factor().levels().size(); l++) {
-                String label = f.factor().levels().get(l);
+            for (int l : f.factor().reportOrder()) {
+                String label = f.factor().reportLabel(l);
                 levels.put(label, Json.number(f.mean()[l]));
                 counts.put(label, f.count()[l]);
                 shares.put(label, Json.number(f.shareSignificant()[l]));

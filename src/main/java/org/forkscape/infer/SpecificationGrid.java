@@ -1,8 +1,7 @@
 package org.forkscape.infer;
 
-import java.util.ArrayList;
 import java.util.List;
-import org.forkscape.plan.Decision;
+import org.forkscape.plan.Factor;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunResult;
@@ -19,7 +18,7 @@ public final class SpecificationGrid {
     private final double alpha;
 
     /**
-     * @param factors  the factors
+     * @param factors  the factors, as {@link Factor#listOf} lists a plan's, whose level numbers {@code levelOf} holds
      * @param levelOf  {@code levelOf[f][i]}: level of specification i on factor f (copied)
      * @param estimate key estimates (copied)
      * @param pValue   their p-values (copied)
@@ -45,21 +44,7 @@ public final class SpecificationGrid {
 
     /** The fitted specifications among {@code slots} of a run. */
     public static SpecificationGrid of(RunResult run, int[] slots) {
-        List<Decision> decisions = run.plan().decisions();
-        List<Factor> factors = new ArrayList<>();
-        for (Decision d : decisions) {
-            if (d instanceof Decision.Controls c && c.allSubsets()) {
-                for (String control : c.optional()) {
-                    factors.add(new Factor(control, d.name(), List.of(Factor.IN, Factor.OUT)));
-                }
-            } else {
-                List<String> labels = new ArrayList<>();
-                for (long a = 0; a < d.alternativeCount(); a++) {
-                    labels.add(d.label(a));
-                }
-                factors.add(new Factor(d.name(), d.name(), labels));
-            }
-        }
+        List<Factor> factors = Factor.listOf(run.plan());
         ResultTable r = run.results();
         int fitted = 0;
         for (int slot : slots) {
@@ -71,22 +56,15 @@ public final class SpecificationGrid {
         double[] estimate = new double[fitted];
         double[] p = new double[fitted];
         SpecificationSpace space = run.models().space();
-        long[] choices = new long[decisions.size()];
+        long[] choices = new long[space.decisionCount()];
         int i = 0;
         for (int slot : slots) {
             if (!r.fitted(slot)) {
                 continue;
             }
             space.decode(r.specIndex(slot), choices);
-            int f = 0;
-            for (int d = 0; d < decisions.size(); d++) {
-                if (decisions.get(d) instanceof Decision.Controls c && c.allSubsets()) {
-                    for (int j = 0; j < c.optional().size(); j++) {
-                        levelOf[f++][i] = (choices[d] >>> j & 1L) != 0 ? 0 : 1;
-                    }
-                } else {
-                    levelOf[f++][i] = (int) choices[d];
-                }
+            for (Factor f : factors) {
+                levelOf[f.id()][i] = f.levelOf(choices);
             }
             estimate[i] = r.estimate(slot);
             p[i] = r.pValue(slot);

@@ -15,6 +15,7 @@ import java.util.Map;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVRecord;
 import org.forkscape.data.CsvTableReader;
+import org.forkscape.plan.Factor;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.MultiverseRunner;
@@ -70,7 +71,7 @@ class InfluenceAgainstRTest {
                 continue;
             }
             InfluenceReport.FactorInfluence f = byName.get(r.get("factor"));
-            int l = f.factor().levels().indexOf(r.get("level"));
+            int l = levelNamed(f.factor(), r.get("level"));
             assertTrue(l >= 0, "level " + r.get("level") + " of " + r.get("factor"));
             String what = r.get("factor") + " = " + r.get("level");
             double mean = Double.parseDouble(r.get("mean_estimate"));
@@ -82,6 +83,16 @@ class InfluenceAgainstRTest {
         }
         assertEquals(14, levels, "every level of the seven factors was compared");
         assertEquals(7, report.factors().size());
+    }
+
+    /** The level the report names {@code label} (R's data use the report's {@code in}/{@code out}), or -1. */
+    private static int levelNamed(Factor factor, String label) {
+        for (int l = 0; l < factor.levels().size(); l++) {
+            if (factor.reportLabel(l).equals(label)) {
+                return l;
+            }
+        }
+        return -1;
     }
 
     static int[] allSlots(int n) {

@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
+import org.forkscape.plan.Factor;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -12,7 +13,8 @@ import org.junit.jupiter.api.Test;
  */
 class InfluencePairLimitTest {
     private static SpecificationGrid grid() {
-        List<Factor> factors = List.of(new Factor("a", "a", List.of("a0", "a1")), new Factor("b", "b", List.of("b0", "b1")));
+        List<Factor> factors = List.of(new Factor(0, "a", 0, null, -1, List.of("a0", "a1")),
+                new Factor(1, "b", 1, null, -1, List.of("b0", "b1")));
         int[][] levels = {{0, 0, 1, 1}, {0, 1, 0, 1}};
         return new SpecificationGrid(factors, levels, new double[] {1, 1, 1, 1}, new double[] {0.01, 0.01, 0.01, 0.5}, 0.05);
     }

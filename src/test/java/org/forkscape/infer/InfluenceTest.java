@@ -5,13 +5,14 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import java.util.ArrayList;
 import java.util.List;
+import org.forkscape.plan.Factor;
 import org.junit.jupiter.api.Test;
 
 /** Influence on small grids whose answers can be worked out by hand. */
 class InfluenceTest {
-    private static final Factor A = new Factor("A", "A", List.of("a1", "a2"));
-    private static final Factor B = new Factor("B", "B", List.of("b1", "b2"));
-    private static final Factor C = new Factor("C", "C", List.of("c1", "c2"));
+    private static final Factor A = new Factor(0, "A", 0, null, -1, List.of("a1", "a2"));
+    private static final Factor B = new Factor(1, "B", 1, null, -1, List.of("b1", "b2"));
+    private static final Factor C = new Factor(2, "C", 2, null, -1, List.of("c1", "c2"));
 
     /** A full 2 x 2 x 2 factorial in row-major order (A slowest), with the given estimates and p-values. */
     private static SpecificationGrid cube(double[] estimate, double[] p) {

@@ -2,6 +2,7 @@ package org.forkscape.web.explore;
 
 import java.util.Arrays;
 import java.util.List;
+import org.forkscape.plan.Factor;
 
 /**
  * Shapes a set of specifications for drawing. Up to {@link #POINT_LIMIT} specifications are sent one by

@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 import org.forkscape.infer.InfluenceReport;
 import org.forkscape.infer.SpecificationGrid;
+import org.forkscape.plan.Factor;
 
 /**
  * The influence panel from the inference package's {@link org.forkscape.infer.Influence} (variance shares,
@@ -43,42 +44,25 @@ public final class DecisionInfluence implements InfluenceAnalysis {
             estimate[i] = estimates[kept[i]];
             p[i] = run.pValue(kept[i]);
         }
-        List<org.forkscape.infer.Factor> inferFactors = new ArrayList<>();
         int[][] levelOf = new int[factors.size()][n];
         for (Factor f : factors) {
             int[] level = run.levels(f.id());
             int[] out = levelOf[f.id()];
-            if (f.isControl()) {
-                // the inference package orders a control's levels in, out; the explorer without, with
-                inferFactors.add(new org.forkscape.infer.Factor(f.control(), f.decision(),
-                        List.of(org.forkscape.infer.Factor.IN, org.forkscape.infer.Factor.OUT)));
-                for (int i = 0; i < n; i++) {
-                    out[i] = 1 - level[kept[i]];
-                }
-            } else {
-                inferFactors.add(new org.forkscape.infer.Factor(f.decision(), f.decision(), f.levels()));
-                for (int i = 0; i < n; i++) {
-                    out[i] = level[kept[i]];
-                }
+            for (int i = 0; i < n; i++) {
+                out[i] = level[kept[i]];
             }
         }
-        InfluenceReport report = org.forkscape.infer.Influence.of(new SpecificationGrid(inferFactors, levelOf, estimate,
+        InfluenceReport report = org.forkscape.infer.Influence.of(new SpecificationGrid(factors, levelOf, estimate,
                 p, run.run().plan().alpha()), maxPairWork);
         List<Influence.FactorInfluence> out = new ArrayList<>();
         for (int f = 0; f < factors.size() && !report.factors().isEmpty(); f++) {
             Factor factor = factors.get(f);
             InfluenceReport.FactorInfluence r = report.factors().get(f);
-            int levels = factor.levels().size();
-            int[] count = new int[levels];
-            for (int l = 0; l < levels; l++) {
-                count[l] = r.count()[factor.isControl() ? 1 - l : l];
-            }
-            double[][] quartiles = quartiles(estimates, kept, run.levels(f), count);
+            double[][] quartiles = quartiles(estimates, kept, run.levels(f), r.count());
             List<Influence.LevelEstimates> stats = new ArrayList<>();
-            for (int l = 0; l < levels; l++) {
-                int at = factor.isControl() ? 1 - l : l;
-                stats.add(new Influence.LevelEstimates(l, factor.levels().get(l), r.count()[at], r.mean()[at],
-                        quartiles[l][0], quartiles[l][1], quartiles[l][2], r.shareSignificant()[at]));
+            for (int l = 0; l < factor.levels().size(); l++) {
+                stats.add(new Influence.LevelEstimates(l, factor.levels().get(l), r.count()[l], r.mean()[l],
+                        quartiles[l][0], quartiles[l][1], quartiles[l][2], r.shareSignificant()[l]));
             }
             out.add(new Influence.FactorInfluence(f, factor.name(), factor.decision(), r.varianceShare(), stats));
         }

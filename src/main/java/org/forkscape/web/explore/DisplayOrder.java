@@ -2,6 +2,7 @@ package org.forkscape.web.explore;
 
 import java.util.ArrayList;
 import java.util.List;
+import org.forkscape.plan.Factor;
 
 /**
  * The left-to-right order of the curve: by estimate, or grouped by the levels of one factor (in level

@@ -13,6 +13,7 @@ import org.forkscape.data.Table;
 import org.forkscape.fit.FullFit;
 import org.forkscape.fit.FullFitter;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.Factor;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;

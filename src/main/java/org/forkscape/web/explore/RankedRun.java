@@ -5,7 +5,7 @@ import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import org.forkscape.plan.Decision;
+import org.forkscape.plan.Factor;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunResult;
@@ -69,15 +69,14 @@ public final class RankedRun {
             p[k] = r.pValue(s);
             significance[k] = (byte) (p[k] < alpha ? (b > 0 ? 1 : b < 0 ? -1 : 0) : 0);
         }
-        this.factors = factorsOf(run.plan().decisions());
+        this.factors = Factor.listOf(run.plan());
         this.level = new int[factors.size()][size];
         SpecificationSpace space = run.models().space();
         long[] choices = new long[space.decisionCount()];
         for (int k = 0; k < size; k++) {
             space.decode(r.specIndex(slot[k]), choices);
             for (Factor f : factors) {
-                long c = choices[f.decisionIndex()];
-                level[f.id()][k] = f.isControl() ? (int) (c >>> f.controlBit() & 1L) : (int) c;
+                level[f.id()][k] = f.levelOf(choices);
             }
         }
         List<GridRow> rows = new ArrayList<>();
@@ -133,25 +132,6 @@ public final class RankedRun {
             }
         }
         return lo;
-    }
-
-    private static List<Factor> factorsOf(List<Decision> decisions) {
-        List<Factor> out = new ArrayList<>();
-        for (int d = 0; d < decisions.size(); d++) {
-            Decision decision = decisions.get(d);
-            if (decision instanceof Decision.Controls c && c.allSubsets()) {
-                for (int j = 0; j < c.optional().size(); j++) {
-                    out.add(new Factor(out.size(), c.name(), d, c.optional().get(j), j, List.of("without", "with")));
-                }
-            } else {
-                List<String> labels = new ArrayList<>();
-                for (long a = 0; a < decision.alternativeCount(); a++) {
-                    labels.add(decision.label(a));
-                }
-                out.add(new Factor(out.size(), decision.name(), d, null, -1, labels));
-            }
-        }
-        return List.copyOf(out);
     }
 
     public RunResult run() {

@@ -3,6 +3,7 @@ package org.forkscape.web.explore;
 import java.util.Arrays;
 import java.util.List;
 import org.forkscape.InputException;
+import org.forkscape.plan.Factor;
 
 /**
  * Which levels of each factor stay in the set: the explorer's filter. A specification stays when every

@@ -1,5 +1,7 @@
 package org.forkscape.web.explore;
 
+import org.forkscape.plan.Factor;
+
 /**
  * Applies a {@link Selection} to a ranked run: one sequential pass over the level column of each
  * restricted factor, then one pass collecting the ranks that stay. Callable without HTTP (the benchmark

@@ -19,6 +19,7 @@ import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.Factor;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
@@ -162,9 +163,11 @@ class ExplorerComputationTest {
         for (int f = 0; f < report.factors().size(); f++) {
             assertEquals(report.factors().get(f).varianceShare(), influence.factors().get(f).varianceShare(), 1e-12);
         }
-        // a control's "with" level is the inference package's "in"
+        // a control's level 1 is the explorer's "with" and the inference report's "in"
         Influence.LevelEstimates with = influence.factors().get(2).levels().get(1);
-        assertEquals(report.factors().get(2).mean()[0], with.mean(), 1e-12);
+        assertEquals("with", with.label());
+        assertEquals("in", report.factors().get(2).factor().reportLabel(1));
+        assertEquals(report.factors().get(2).mean()[1], with.mean(), 1e-12);
         assertEquals("No specification has an estimate.", new DecisionInfluence().of(ranked, new int[0]).sentence());
     }
 

@@ -12,4 +12,12 @@ public interface Estimator {
      * @return the fit; a specification that cannot be fitted is a result with its status, never an exception
      */
     KeyFit fit(SpecificationModel spec, FitData data);
+
+    /**
+     * The same fit with every coefficient, for the reader who opens one specification.
+     *
+     * @param confidence the coverage of the intervals
+     * @param keyTerm    how the key predictor is named among the coefficients
+     */
+    FullFit fitAll(SpecificationModel spec, FitData data, double confidence, String keyTerm);
 }

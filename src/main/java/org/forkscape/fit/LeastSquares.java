@@ -105,6 +105,24 @@ public final class LeastSquares implements Estimator {
                 VarianceRoute.ROW_PASS);
     }
 
+    /** Every coefficient from a QR refit of the specification's rows ({@link EveryCoefficient}). */
+    @Override
+    public FullFit fitAll(SpecificationModel spec, FitData data, double confidence, String keyTerm) {
+        KeyFit check = fit(spec, data);
+        DataVariant variant = data.variant();
+        if (!check.ok()) {
+            return EveryCoefficient.failed(spec.errors(), check.nObs(), check.nParams(), variant, check.statusText());
+        }
+        Moments mom = data.moments(spec.variableMask());
+        int[] cols = spec.factorOrder();
+        DesignRows rows = data.refitRows(mom, cols, spec.outcomeColumn(), spec.errors());
+        KeySolution s = qr.solve(rows, mom, cols);
+        if (s == null) {
+            return EveryCoefficient.failed(spec.errors(), check.nObs(), check.nParams(), variant, check.statusText());
+        }
+        return EveryCoefficient.of(variant, mom, rows, s, spec.errors(), spec.outcomeColumn(), confidence, keyTerm);
+    }
+
     /**
      * The sandwich meat by a route that needs no rows, or {@code null} when no such route applies here,
      * pays here, or could lose digits (the routes' own bounds, see {@link RowFreeSandwich}).

@@ -166,6 +166,10 @@ public final class CsvTableReader {
             return new DataException(source + ", line " + bad.line, "is not UTF-8 text: " + value
                     + "; save the file as UTF-8 (files in Latin-1 or Windows-1252 need converting)");
         }
+        if (e instanceof StrictUtf8Reader.NulCharacterException nul) {
+            return new DataException(source + ", line " + nul.line, "contains a NUL character, which CSV text never "
+                    + "holds (a binary file, or a name or cell with a NUL in it); export the data as CSV in UTF-8");
+        }
         String message = e == null ? "unreadable" : String.valueOf(e.getMessage());
         Matcher unclosed = UNCLOSED_QUOTE.matcher(message);
         if (unclosed.find()) {

@@ -32,6 +32,16 @@ final class StrictUtf8Reader extends Reader {
         }
     }
 
+    /** A NUL character, which no CSV text holds (a binary file, or a name with a NUL in it). */
+    static final class NulCharacterException extends IOException {
+        final long line;
+
+        NulCharacterException(long line) {
+            super("NUL character at line " + line);
+            this.line = line;
+        }
+    }
+
     private final InputStream in;
     private final CharsetDecoder decoder = StandardCharsets.UTF_8.newDecoder()
             .onMalformedInput(CodingErrorAction.REPORT)
@@ -96,9 +106,12 @@ final class StrictUtf8Reader extends Reader {
         }
     }
 
-    private void countLines(int upTo) {
+    private void countLines(int upTo) throws NulCharacterException {
         for (int i = 0; i < upTo; i++) {
             char c = chars.get(i);
+            if (c == '\0') {
+                throw new NulCharacterException(line);
+            }
             if (c == '\r' || c == '\n' && previous != '\r') {
                 line++;
             }

@@ -256,6 +256,18 @@ class CsvTableReaderTest {
     }
 
     @Test
+    void aNulCharacterAnywhereIsRefusedWithItsLine() {
+        StringBuilder text = new StringBuilder("site,ozone\n");
+        for (int i = 0; i < 2000; i++) {
+            text.append("s").append(i).append(',').append(i % 7).append('\n');
+        }
+        text.append("late\u0000,3\n");
+        DataException late = failure(text.toString());
+        assertEquals("t.csv, line 2002", late.where());
+        assertTrue(late.problem().contains("NUL character"), late.problem());
+    }
+
+    @Test
     void headerNamesMustBeUniqueAndNonEmpty() {
         DataException twice = failure("x,y,x\n1,2,3\n");
         assertEquals("t.csv, line 1", twice.where());

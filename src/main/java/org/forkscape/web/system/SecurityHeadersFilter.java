@@ -61,8 +61,11 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
             refuse(response, "this server answers only requests addressed to localhost");
             return;
         }
+        // without an Origin header (some clients leave it out), a Referer names the page that sent the request
         String origin = request.getHeader("Origin");
-        if (CHANGING.contains(request.getMethod()) && origin != null && !sameOrigin(origin, host(request, host))) {
+        String referer = request.getHeader("Referer");
+        String sender = origin != null ? origin : referer;
+        if (CHANGING.contains(request.getMethod()) && sender != null && !sameOrigin(sender, host(request, host))) {
             refuse(response, "a page of another site cannot change anything here");
             return;
         }

@@ -31,6 +31,11 @@ class SecurityTest extends WebTest {
                 .contentType(MediaType.APPLICATION_JSON).content(CivicTestData.plan()))
                 .andExpect(status().isForbidden()).andExpect(content().string(containsString("another site")));
         mvc.perform(post("/analyses/" + analysis + "/runs").header("Origin", "null")).andExpect(status().isForbidden());
+        // a foreign Referer without an Origin is refused too; one of this server is not
+        mvc.perform(post("/analyses/" + analysis + "/runs").header("Referer", "https://elsewhere.example/page"))
+                .andExpect(status().isForbidden());
+        mvc.perform(put("/api/analyses/" + analysis + "/plan").header("Referer", "http://localhost/analyses/" + analysis)
+                .contentType(MediaType.APPLICATION_JSON).content(CivicTestData.plan())).andExpect(status().isOk());
         // the same origin is served
         mvc.perform(put("/api/analyses/" + analysis + "/plan").header("Origin", "http://localhost")
                 .contentType(MediaType.APPLICATION_JSON).content(CivicTestData.plan())).andExpect(status().isOk());

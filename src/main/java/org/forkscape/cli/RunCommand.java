@@ -12,21 +12,18 @@ import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawResult;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
-import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
-import org.forkscape.run.MultiverseRunner;
-import org.forkscape.run.NothingFitted;
-import org.forkscape.run.RunOutputs;
-import org.forkscape.run.RunProgress;
-import org.forkscape.run.RunResult;
+import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
 import org.springframework.util.unit.DataSize;
 
 /**
  * {@code run PLAN --out DIR}: fits every specification of a plan, adds the joint inference (null draws
- * when asked for), and writes the results. Every check runs before the first file is written, and a run
+ * when asked for), and writes the results, through the {@link RunPipeline} the web's run queue calls too;
+ * this class reads the arguments, locates problems in the plan file, and prints. Every check runs before the first file is written, and a run
  * in which no specification could be fitted writes nothing: the output folder holds either a whole
  * result or what it held before.
  */
@@ -75,51 +72,29 @@ final class RunCommand {
         }
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         long memoryLimit = a.has("max-memory") ? size(a.text("max-memory")) : MemoryEstimate.defaultLimit();
-        try {
-            PlanChecker.check(plan, table);
-            MultiverseRunner.checkCount(plan);
-            MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit, "fit a seeded random sample of the "
-                    + "specifications (--sample N --seed S), use fewer --threads, or raise the limit with --max-memory "
-                    + "SIZE" + (a.has("max-memory") ? "" : " (by default " + Math.round(100
-                    * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap)") + " and the heap with java -Xmx");
-        } catch (InputException e) {
-            throw located(planName, e);
-        }
-        RunProgress progress = System.console() != null ? new TerminalProgress(err) : RunProgress.SILENT;
-        RunResult run;
-        try {
-            run = new MultiverseRunner(threads).run(plan, table, progress, null);
-        } catch (PlanException e) {
-            throw located(planName, e);
-        } catch (InputException e) {
-            throw located(planName, e);
-        } finally {
-            if (progress instanceof TerminalProgress t) {
-                t.finish();
-            }
-        }
-        RunSummary summary = RunSummary.of(run.results(), plan.alpha());
-        if (summary.fitted() == 0) {
-            throw new InputException(planName, NothingFitted.reason(run));
-        }
-        RunProgress drawProgress = System.console() != null ? new TerminalProgress(err, "null draws") : RunProgress.SILENT;
-        InferenceSections inference = InferenceSections.compute(run, nullSettings, threads, drawProgress, null);
-        if (drawProgress instanceof TerminalProgress t) {
-            t.finish();
-        }
+        RunPipeline pipeline = new RunPipeline(threads).refusingMemoryAbove(memoryLimit, "fit a seeded random sample "
+                + "of the specifications (--sample N --seed S), use fewer --threads, or raise the limit with "
+                + "--max-memory SIZE" + (a.has("max-memory") ? "" : " (by default " + Math.round(100
+                * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap)") + " and the heap with java -Xmx");
         Path folder = Path.of(a.text("out"));
-        RunOutputs.write(run, folder, planText, inference.sections());
-        inference.writeFiles(folder);
-        NullDrawResult draws = inference.nullDraws();
+        CompletedRun<InferenceSections> completed;
+        try {
+            completed = pipeline.run(plan, table, planText, folder, (run, progress, cancel) -> InferenceSections
+                    .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
+        } catch (InputException e) {
+            throw located(planName, e);
+        }
+        RunSummary summary = completed.summary();
+        NullDrawResult draws = completed.inference().nullDraws();
         String joint = draws == null ? "" : String.format("; %,d null draws: p(median) = %s, p(share significant) = "
                 + "%s, p(Stouffer) = %s", draws.drawCount(), p(draws.pMedian(), draws.drawCount()),
                 p(draws.pShareSignificant(), draws.drawCount()), p(draws.pStouffer(), draws.drawCount()));
         out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
-                        + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(), run.seconds(),
-                String.format("%.4g", summary.medianEstimate()), 100 * summary.shareSignificantPositive(),
-                100 * summary.shareSignificantNegative(), joint, folder);
-        if (draws != null && draws.warning() != null) {
-            err.println("forkscape: warning: " + CommandLine.oneLine(draws.warning()));
+                        + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(),
+                completed.result().seconds(), String.format("%.4g", summary.medianEstimate()),
+                100 * summary.shareSignificantPositive(), 100 * summary.shareSignificantNegative(), joint, folder);
+        for (String warning : completed.inference().warnings()) {
+            err.println("forkscape: warning: " + CommandLine.oneLine(warning));
         }
     }
 

@@ -5,6 +5,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
+import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
 
@@ -12,9 +13,11 @@ import org.forkscape.run.RunResult;
  * The joint-inference layer of one finished run, as the batch command writes it: the null draws (when
  * asked for), the selection-adjusted p of the best-looking specification, the extreme bounds, the
  * weights within comparable groups, the overfitting yardstick and the influence of the decisions, as
- * summary.json sections, plus the files null-draws.csv and overfitting.csv.
+ * summary.json sections, plus the files null-draws.csv and overfitting.csv. {@link #compute} is the
+ * inference stage that the batch command, and the web's run queue through its summary sections, hand to
+ * {@link org.forkscape.run.RunPipeline}.
  */
-public final class InferenceSections {
+public final class InferenceSections implements InferenceStage.Outcome {
     private final RunResult run;
     private final NullDrawResult nullDraws;
     private final Map<String, Object> sections;
@@ -56,7 +59,7 @@ public final class InferenceSections {
         return new InferenceSections(run, draws, m);
     }
 
-    /** The summary.json sections, in their documented order. */
+    @Override
     public Map<String, Object> sections() {
         return sections;
     }
@@ -66,7 +69,14 @@ public final class InferenceSections {
         return nullDraws;
     }
 
+    /** The null draws' warning about the resampled unit ({@link IgnoredClustering}), when there is one. */
+    @Override
+    public List<String> warnings() {
+        return nullDraws == null || nullDraws.warning() == null ? List.of() : List.of(nullDraws.warning());
+    }
+
     /** Writes null-draws.csv (when there are draws) and overfitting.csv into the run's folder. */
+    @Override
     public void writeFiles(Path folder) {
         if (nullDraws != null) {
             NullDrawsCsv.write(nullDraws, folder);

@@ -19,14 +19,15 @@ import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
-import org.forkscape.run.MultiverseRunner;
-import org.forkscape.run.NothingFitted;
+import org.forkscape.run.CompletedRun;
+import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunCancelledException;
-import org.forkscape.run.RunOutputs;
-import org.forkscape.run.RunResult;
+import org.forkscape.run.RunPipeline;
+import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunState;
 import org.forkscape.run.RunSummary;
 import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.StageListener;
 import org.forkscape.run.StoredRun;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.analysis.AnalysisService;
@@ -39,10 +40,13 @@ import org.springframework.stereotype.Service;
 
 /**
  * Runs plans in the background: at most {@code forkscape.runs.concurrent} at once, up to
- * {@code forkscape.runs.queue} waiting in order, each fitted by the same {@link MultiverseRunner} the
- * batch command uses. Progress is counted as the runner reports it; cancelling sets the runner's cancel
- * flag, which stops its workers at the next chunk and frees their threads. A run's files are written only
- * when it finishes, so a failed or cancelled run leaves its plan, record and log and nothing else.
+ * {@code forkscape.runs.queue} waiting in order, each through the same {@link RunPipeline} the batch
+ * command uses, with the {@link SummarySections} as its inference stage. A plan beyond this server's
+ * limits, memory included, is refused at {@link #submit} ({@code PlanService}), so the queue's pipeline
+ * sets no memory limit of its own. Progress is counted as the pipeline reports it; cancelling sets the
+ * run's cancel flag, which stops the fitting workers at the next chunk and frees their threads. A run's
+ * files are written only when it finishes, so a failed or cancelled run leaves its plan, record and log and
+ * nothing else.
  */
 @Service
 public class RunQueue {
@@ -54,6 +58,7 @@ public class RunQueue {
     private final SummarySections sections;
     private final ApplicationEventPublisher events;
     private final int threads;
+    private final RunPipeline pipeline;
     private final int capacity;
     private final ThreadPoolExecutor executor;
     private final Map<String, Job> active = new ConcurrentHashMap<>();
@@ -67,6 +72,7 @@ public class RunQueue {
         this.sections = sections;
         this.events = events;
         this.threads = settings.runs().fittingThreads();
+        this.pipeline = new RunPipeline(threads);
         this.capacity = Math.max(0, settings.runs().queue());
         int concurrent = Math.max(1, settings.runs().concurrent());
         this.executor = new ThreadPoolExecutor(concurrent, concurrent, 0, TimeUnit.MILLISECONDS,
@@ -146,6 +152,21 @@ public class RunQueue {
         return Duration.between(from, to == null ? Instant.now() : to).toMillis() / 1000.0;
     }
 
+    /**
+     * The summary sections as the pipeline's inference stage gives them back: the sections have written
+     * their files into the run's folder themselves, and their warnings are inside the sections.
+     */
+    private record WrittenSections(Map<String, Object> sections) implements InferenceStage.Outcome {
+        @Override
+        public void writeFiles(Path folder) {
+        }
+
+        @Override
+        public List<String> warnings() {
+            return List.of();
+        }
+    }
+
     private final class Job implements Runnable {
         private final StoredAnalysis analysis;
         private final String planText;
@@ -202,27 +223,14 @@ public class RunQueue {
             try {
                 Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
                 Table table = analyses.table(analysis);
-                RunResult result = new MultiverseRunner(threads).run(plan, table, (d, t) -> done.set(d), cancel);
-                RunSummary summary = RunSummary.of(result.results(), plan.alpha());
-                if (summary.fitted() == 0) {
-                    throw new InputException("", NothingFitted.reason(result));
-                }
                 Path folder = workspace.runFolder(analysis.id(), record.id());
-                if (plan.nullDraws() > 0) {
-                    phase = "null draws";
-                    workspace.log(record, String.format("null draws: %,d", plan.nullDraws()));
-                }
-                Map<String, Object> extra = sections.of(result, folder, (d, t) -> {
-                    drawsDone.set(d);
-                    drawsTotal.set(t);
-                }, cancel);
-                if (cancel.get()) {
-                    throw new RunCancelledException();
-                }
-                RunOutputs.write(result, folder, planText, extra);
+                CompletedRun<WrittenSections> completed = pipeline.run(plan, table, planText, folder,
+                        (result, progress, c) -> new WrittenSections(sections.of(result, folder, progress, c)),
+                        stages(plan), cancel);
+                RunSummary summary = completed.summary();
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
-                        summary.fitted(), summary.specifications(), result.seconds()))) {
-                    events.publishEvent(new RunFinished(analysis.id(), record.id(), result));
+                        summary.fitted(), summary.specifications(), completed.result().seconds()))) {
+                    events.publishEvent(new RunFinished(analysis.id(), record.id(), completed.result()));
                 }
             } catch (RunCancelledException e) {
                 end(stopAs, "", "", stopAs == RunState.CANCELLED ? "cancelled" : "interrupted");
@@ -239,6 +247,30 @@ public class RunQueue {
             } finally {
                 active.remove(record.id());
             }
+        }
+
+        /** Counts the fit's and the null draws' progress for the status, and records the null draws' start. */
+        private StageListener stages(Plan plan) {
+            return new StageListener() {
+                @Override
+                public RunProgress started(Stage stage) {
+                    if (stage == Stage.FITTING) {
+                        return (d, t) -> done.set(d);
+                    }
+                    if (plan.nullDraws() > 0) {
+                        phase = "null draws";
+                        workspace.log(record, String.format("null draws: %,d", plan.nullDraws()));
+                    }
+                    return (d, t) -> {
+                        drawsDone.set(d);
+                        drawsTotal.set(t);
+                    };
+                }
+
+                @Override
+                public void ended(Stage stage) {
+                }
+            };
         }
 
         /** Records the end once; later calls (a cancel racing a finish) do nothing. */

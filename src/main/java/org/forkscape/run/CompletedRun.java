@@ -1,0 +1,11 @@
+package org.forkscape.run;
+
+/**
+ * What a {@link RunPipeline} gives back once a run's files are written.
+ *
+ * @param result    the fitted run
+ * @param summary   its headline numbers
+ * @param inference what the inference stage gave back
+ */
+public record CompletedRun<O extends InferenceStage.Outcome>(RunResult result, RunSummary summary, O inference) {
+}

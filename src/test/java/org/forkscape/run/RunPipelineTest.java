@@ -1,0 +1,167 @@
+package org.forkscape.run;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.SplittableRandom;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.forkscape.InputException;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.Table;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * The pipeline's order as DEVELOPERS.md ("A run, end to end") states it: check, fit, refuse nothing
+ * fitted, the inference stage, then the files, the run's before the stage's; and no file at all from a
+ * run that is refused, fits nothing or is cancelled.
+ */
+class RunPipelineTest {
+    private static final String PLAN = """
+            {"data": "data.csv",
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a"]},
+               {"name": "errors", "kind": "errors", "alternatives": [%s]}
+             ]}
+            """;
+
+    @TempDir
+    Path dir;
+    private final List<String> events = new ArrayList<>();
+
+    @Test
+    void theStagesRunInOrderAndTheFilesComeLast() throws IOException {
+        Path folder = dir.resolve("out");
+        String text = PLAN.formatted("\"classical\", \"HC1\"");
+        CompletedRun<Recorded> completed = new RunPipeline(2).run(plan(text), table(4), text, folder, (run, progress,
+                cancel) -> {
+            events.add("inference, folder exists: " + Files.exists(folder));
+            return new Recorded(folder);
+        }, recording(), null);
+        assertEquals(List.of("started FITTING", "ended FITTING", "started INFERENCE", "inference, folder exists: false",
+                "ended INFERENCE", "stage files, summary.json written: true"), events);
+        assertEquals(4, completed.summary().specifications());
+        assertEquals(4, completed.summary().fitted());
+        assertEquals(text, Files.readString(folder.resolve(RunOutputs.PLAN)));
+        assertEquals(5, Files.readAllLines(folder.resolve(RunOutputs.SPECIFICATIONS)).size());
+        assertTrue(Files.readString(folder.resolve(RunOutputs.SUMMARY)).contains("\"stage\" : \"recorded\""),
+                Files.readString(folder.resolve(RunOutputs.SUMMARY)));
+    }
+
+    @Test
+    void aRunThatFitsNothingIsRefusedBeforeTheInferenceStageAndWritesNothing() {
+        Path folder = dir.resolve("out");
+        String text = PLAN.formatted("\"cluster:one\"");
+        InputException e = assertThrows(InputException.class, () -> new RunPipeline(2).run(plan(text), table(4), text,
+                folder, (run, progress, cancel) -> {
+                    events.add("inference");
+                    return new Recorded(folder);
+                }, recording(), null));
+        assertEquals("", e.where());
+        assertEquals("no specification could be fitted: all 2 failed with \"one cluster: cluster-robust errors need at "
+                + "least two\" (first: outcome = y, key = x, controls = none, errors = cluster:one); nothing was "
+                + "written", e.problem());
+        assertEquals(List.of("started FITTING", "ended FITTING"), events);
+        assertFalse(Files.exists(folder));
+    }
+
+    @Test
+    void aRunCancelledDuringTheInferenceStageWritesNothing() {
+        Path folder = dir.resolve("out");
+        String text = PLAN.formatted("\"classical\"");
+        AtomicBoolean cancel = new AtomicBoolean();
+        assertThrows(RunCancelledException.class, () -> new RunPipeline(1).run(plan(text), table(4), text, folder,
+                (run, progress, c) -> {
+                    c.set(true);
+                    return new Recorded(folder);
+                }, recording(), cancel));
+        assertEquals(List.of("started FITTING", "ended FITTING", "started INFERENCE", "ended INFERENCE"), events);
+        assertFalse(Files.exists(folder));
+    }
+
+    @Test
+    void aPlanAboveTheMemoryLimitIsRefusedBeforeTheFit() {
+        Path folder = dir.resolve("out");
+        String text = PLAN.formatted("\"classical\"");
+        InputException e = assertThrows(InputException.class, () -> new RunPipeline(1).refusingMemoryAbove(1,
+                "ask for less").run(plan(text), table(4), text, folder, (run, progress, c) -> new Recorded(folder),
+                recording(), null));
+        assertTrue(e.problem().endsWith("above the limit of " + MemoryEstimate.format(1) + "; ask for less"),
+                e.problem());
+        assertEquals(List.of(), events);
+        assertFalse(Files.exists(folder));
+    }
+
+    private StageListener recording() {
+        return new StageListener() {
+            @Override
+            public RunProgress started(Stage stage) {
+                events.add("started " + stage);
+                return RunProgress.SILENT;
+            }
+
+            @Override
+            public void ended(Stage stage) {
+                events.add("ended " + stage);
+            }
+        };
+    }
+
+    /** A stage's outcome that notes when its files are asked for. */
+    private final class Recorded implements InferenceStage.Outcome {
+        private final Path folder;
+
+        Recorded(Path folder) {
+            this.folder = folder;
+        }
+
+        @Override
+        public Map<String, Object> sections() {
+            return Map.of("stage", "recorded");
+        }
+
+        @Override
+        public void writeFiles(Path target) {
+            events.add("stage files, summary.json written: " + Files.exists(folder.resolve(RunOutputs.SUMMARY)));
+        }
+
+        @Override
+        public List<String> warnings() {
+            return List.of();
+        }
+    }
+
+    private Plan plan(String text) {
+        return new PlanReader(false).read(text, dir);
+    }
+
+    /** 60 rows of a small invented design; the column {@code one} has a single cluster. */
+    private Table table(long seed) {
+        SplittableRandom r = new SplittableRandom(seed);
+        StringBuilder csv = new StringBuilder("y,x,a,one\n");
+        for (int i = 0; i < 60; i++) {
+            double x = r.nextDouble();
+            csv.append(String.format(Locale.ROOT, "%.6f,%.6f,%.6f,s%n", 0.5 * x + r.nextDouble(), x, r.nextDouble()));
+        }
+        try {
+            Files.writeString(dir.resolve("data.csv"), csv);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return new CsvTableReader().read(dir.resolve("data.csv"));
+    }
+}

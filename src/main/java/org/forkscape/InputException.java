@@ -13,6 +13,25 @@ public class InputException extends RuntimeException {
         this.where = where == null ? "" : where;
     }
 
+    /** Longest piece of the user's own text a message repeats; past it the text is cut. */
+    public static final int MAX_ECHO = 60;
+
+    /**
+     * The user's text in double quotes, cut to {@value #MAX_ECHO} characters (with "..." and its full
+     * length) so that a message never repeats an unbounded input.
+     */
+    public static String quoted(String text) {
+        return "\"" + cut(text) + "\"";
+    }
+
+    /** The user's text cut as {@link #quoted} cuts it, without quotes (for keys in JSON paths). */
+    public static String cut(String text) {
+        if (text == null || text.length() <= MAX_ECHO) {
+            return text;
+        }
+        return text.substring(0, MAX_ECHO) + String.format("... (%,d characters)", text.length());
+    }
+
     /** The file, line, field or JSON path the problem is about ({@code ""} when it is about the whole input). */
     public String where() {
         return where;

@@ -1,5 +1,7 @@
 package org.forkscape.plan;
 
+import org.forkscape.InputException;
+
 /**
  * How the key coefficient's standard error is computed.
  *
@@ -36,7 +38,7 @@ public record ErrorType(Kind kind, String clusterColumn) {
         if (t.equals("cluster") || t.equals("cluster:")) {
             throw new PlanException(path, "cluster errors name their column, as in cluster:school");
         }
-        throw new PlanException(path, "unknown standard error type \"" + text
-                + "\"; use classical, HC0, HC1, HC2, HC3 or cluster:COLUMN");
+        throw new PlanException(path, "unknown standard error type " + InputException.quoted(text)
+                + "; use classical, HC0, HC1, HC2, HC3 or cluster:COLUMN");
     }
 }

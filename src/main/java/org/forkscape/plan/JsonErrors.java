@@ -2,6 +2,7 @@ package org.forkscape.plan;
 
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
+import org.forkscape.InputException;
 
 /**
  * The JSON parser's messages in the words of someone who edits a plan by hand. The parser's own
@@ -61,7 +62,7 @@ final class JsonErrors {
         }
         Matcher unrecognized = UNRECOGNIZED.matcher(m);
         if (unrecognized.find()) {
-            return "\"" + unrecognized.group(1) + "\" is not a JSON value; text goes in double quotes";
+            return InputException.quoted(unrecognized.group(1)) + " is not a JSON value; text goes in double quotes";
         }
         int cut = m.indexOf(" (start marker");
         return cut > 0 ? m.substring(0, cut) : m;

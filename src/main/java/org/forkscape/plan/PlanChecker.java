@@ -2,6 +2,7 @@ package org.forkscape.plan;
 
 import java.util.List;
 import java.util.Optional;
+import org.forkscape.InputException;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.data.CsvTableReader;
@@ -135,7 +136,7 @@ public final class PlanChecker {
         Optional<Column> c = table.find(name);
         if (c.isEmpty()) {
             String hint = table.nearestName(name).map(n -> "; did you mean \"" + n + "\"?").orElse("");
-            throw new PlanException(path, "\"" + name + "\" is not a column of " + table.source() + hint);
+            throw new PlanException(path, InputException.quoted(name) + " is not a column of " + table.source() + hint);
         }
         return c.get();
     }

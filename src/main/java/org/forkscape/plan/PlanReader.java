@@ -16,6 +16,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
+import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import tools.jackson.core.JacksonException;
 import tools.jackson.core.StreamReadFeature;
@@ -104,7 +105,7 @@ public final class PlanReader {
         }
         for (String key : root.propertyNames()) {
             if (!TOP_KEYS.contains(key)) {
-                throw new PlanException(key, "unknown key" + suggest(key, TOP_KEYS));
+                throw new PlanException(InputException.cut(key), "unknown key" + suggest(key, TOP_KEYS));
             }
         }
         text(root, "title", "title", null);
@@ -143,11 +144,11 @@ public final class PlanReader {
             absolute = Path.of(data).isAbsolute();
             resolved = folder.resolve(data).normalize();
         } catch (InvalidPathException e) {
-            throw new PlanException("data", "\"" + data + "\" is not a usable file path");
+            throw new PlanException("data", InputException.quoted(data) + " is not a usable file path");
         }
         if (confineDataToPlanFolder && (absolute || !resolved.startsWith(folder.normalize())
                 || leavesThroughLink(resolved, folder))) {
-            throw new PlanException("data", "\"" + data + "\" leaves the analysis folder; give a file name inside it");
+            throw new PlanException("data", InputException.quoted(data) + " leaves the analysis folder; give a file name inside it");
         }
         return resolved;
     }
@@ -211,12 +212,12 @@ public final class PlanReader {
             }
             List<String> keys = DECISION_KEYS.get(kind);
             if (keys == null) {
-                throw new PlanException(path + ".kind", "unknown kind \"" + kind + "\"" + suggest(kind, KINDS)
+                throw new PlanException(path + ".kind", "unknown kind " + InputException.quoted(kind) + suggest(kind, KINDS)
                         + " (the kinds are " + String.join(", ", KINDS) + ")");
             }
             for (String key : d.propertyNames()) {
                 if (!keys.contains(key)) {
-                    throw new PlanException(path + "." + key, "unknown key for a decision of kind \"" + kind + "\""
+                    throw new PlanException(path + "." + InputException.cut(key), "unknown key for a decision of kind \"" + kind + "\""
                             + suggest(key, keys) + " (its keys are " + String.join(", ", keys) + ")");
                 }
             }
@@ -355,7 +356,7 @@ public final class PlanReader {
             }
             ErrorType e = ErrorType.parse(a.stringValue(), p);
             if (!seen.add(e.label())) {
-                throw new PlanException(p, "\"" + e.label() + "\" is listed twice");
+                throw new PlanException(p, InputException.quoted(e.label()) + " is listed twice");
             }
             out.add(e);
         }
@@ -406,7 +407,7 @@ public final class PlanReader {
     private static void onlyKeys(JsonNode n, String path, Set<String> allowed) {
         for (String key : n.propertyNames()) {
             if (!allowed.contains(key)) {
-                throw new PlanException(path + "." + key, "unknown key" + suggest(key, allowed));
+                throw new PlanException(path + "." + InputException.cut(key), "unknown key" + suggest(key, allowed));
             }
         }
     }
@@ -437,7 +438,7 @@ public final class PlanReader {
                         + typeOf(c));
             }
             if (out.contains(c.stringValue())) {
-                throw new PlanException(path + "[" + j + "]", "\"" + c.stringValue() + "\" is listed twice");
+                throw new PlanException(path + "[" + j + "]", InputException.quoted(c.stringValue()) + " is listed twice");
             }
             out.add(c.stringValue());
         }

@@ -1,6 +1,7 @@
 package org.forkscape.plan;
 
 import java.util.Locale;
+import org.forkscape.InputException;
 
 /**
  * A recoding of an outcome or predictor column, applied within each data variant.
@@ -82,7 +83,7 @@ public sealed interface Transform {
             }
             return new Winsorize(fraction);
         }
-        throw new PlanException(path, "unknown transform \"" + text
-                + "\"; use log, log1p, sqrt, standardize or winsorize:F (0 < F < 0.5)");
+        throw new PlanException(path, "unknown transform " + InputException.quoted(text)
+                + "; use log, log1p, sqrt, standardize or winsorize:F (0 < F < 0.5)");
     }
 }

@@ -268,6 +268,23 @@ class PlanReaderTest {
     }
 
     @Test
+    void messagesCutTheUsersLongTextsInsteadOfRepeatingThem() {
+        String longKind = "k".repeat(2000);
+        PlanException kind = failure(plan("", "{\"name\": \"x\", \"kind\": \"" + longKind + "\", \"alternatives\": []}"));
+        assertTrue(kind.getMessage().length() < 400, kind.getMessage());
+        assertTrue(kind.problem().startsWith("unknown kind \"" + "k".repeat(60) + "... (2,000 characters)\""),
+                kind.problem());
+        String longKey = "q".repeat(5000);
+        PlanException key = failure("{\"data\": \"d.csv\", \"" + longKey + "\": 1, \"decisions\": [" + OUTCOME + ", "
+                + PREDICTOR + "]}");
+        assertEquals("q".repeat(60) + "... (5,000 characters)", key.where());
+        PlanException transform = failure("{\"data\": \"d.csv\", \"decisions\": [" + OUTCOME + ", {\"name\": \"key\", "
+                + "\"kind\": \"predictor\", \"alternatives\": [{\"label\": \"m\", \"column\": \"mailers\", "
+                + "\"transform\": \"" + "t".repeat(3000) + "\"}]}]}");
+        assertTrue(transform.getMessage().length() < 400, transform.getMessage());
+    }
+
+    @Test
     void decisionKindsAndTheirCountsAreChecked() {
         fails(plan("", "{\"name\": \"x\", \"kind\": \"outcomes\", \"alternatives\": []}"), "decisions[2].kind",
                 "unknown kind \"outcomes\"; did you mean \"outcome\"?");

@@ -198,9 +198,26 @@ public class RunQueue {
 
         void cancel() {
             cancel.set(true);
-            if (record.state() == RunState.QUEUED) {
-                end(RunState.CANCELLED, "", "", "cancelled before it started");
+            synchronized (this) {
+                if (record.state() == RunState.QUEUED) {
+                    end(RunState.CANCELLED, "", "", "cancelled before it started");
+                }
             }
+        }
+
+        /**
+         * QUEUED to RUNNING, unless a cancel or a stop came first: the check and the transition hold the
+         * job's lock, as every end does, so a cancel can never be overwritten by a late start.
+         */
+        private synchronized boolean start() {
+            if (cancel.get() || ended.get() || record.state() != RunState.QUEUED) {
+                return false;
+            }
+            record = record.starting(Instant.now(), total);
+            workspace.update(record);
+            workspace.log(record, String.format("started: %,d specifications on %d thread%s", total, threads,
+                    threads == 1 ? "" : "s"));
+            return true;
         }
 
         void interrupt() {
@@ -212,14 +229,10 @@ public class RunQueue {
         @Override
         public void run() {
             started(record.id());
-            if (cancel.get()) {
+            if (!start()) {
                 active.remove(record.id());
                 return;
             }
-            record = record.starting(Instant.now(), total);
-            workspace.update(record);
-            workspace.log(record, String.format("started: %,d specifications on %d thread%s", total, threads,
-                    threads == 1 ? "" : "s"));
             try {
                 Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
                 Table table = analyses.table(analysis);
@@ -274,7 +287,7 @@ public class RunQueue {
         }
 
         /** Records the end once; later calls (a cancel racing a finish) do nothing. */
-        private boolean end(RunState state, String where, String why, String logLine) {
+        private synchronized boolean end(RunState state, String where, String why, String logLine) {
             if (!ended.compareAndSet(false, true)) {
                 return false;
             }

@@ -63,6 +63,9 @@ public final class Workspace {
     private final Path incoming;
     private final SecureRandom random = new SecureRandom();
 
+    /** The folder of the embedded web server's working files, inside the workspace. */
+    public static final String SERVER_FILES = ".server";
+
     /** Opens (creating if needed) the workspace folder and clears what an interrupted upload left behind. */
     public Workspace(Path root) {
         this.root = root.toAbsolutePath().normalize();
@@ -76,6 +79,7 @@ public final class Workspace {
                     deleteTree(p);
                 }
             }
+            Files.createDirectories(uploadParts());
             try (Stream<Path> half = Files.list(analyses)) {
                 for (Path p : half.filter(p -> p.getFileName().toString().startsWith(".")).toList()) {
                     deleteTree(p);
@@ -88,6 +92,11 @@ public final class Workspace {
 
     public Path root() {
         return root;
+    }
+
+    /** Where the web server spools large upload parts; cleared with the rest of the incoming folder at start. */
+    public Path uploadParts() {
+        return incoming.resolve("parts");
     }
 
     /** Whether {@code id} has the shape of a generated identifier (and so is safe in a path). */

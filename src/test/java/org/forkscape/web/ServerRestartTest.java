@@ -41,7 +41,14 @@ class ServerRestartTest {
     @TempDir
     Path temp;
     private Process server;
+    /** The server process's system temporary folder, which must stay empty. */
+    private Path systemTemp;
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
+
+    @org.junit.jupiter.api.BeforeEach
+    void temporaryFolder() {
+        systemTemp = temp.resolve("system-tmp");
+    }
 
     @AfterEach
     void stop() throws InterruptedException {
@@ -91,6 +98,9 @@ class ServerRestartTest {
         assertEquals("running", state);
         server.destroyForcibly();
         server.waitFor();
+        // what a killed upload leaves: a spooled part in the workspace, which the next start clears
+        Path part = workspace.resolve(".incoming").resolve("parts").resolve("upload_left_by_a_kill.tmp");
+        Files.writeString(part, "a,b\n1,2\n");
 
         server = start(workspace, demo, port);
         waitForDemo(base);
@@ -109,6 +119,13 @@ class ServerRestartTest {
         assertTrue(text(base + "/analyses/" + big + "/runs/" + bigRun).contains("Run this plan again"));
         assertFalse(Files.exists(workspace.resolve("analyses").resolve(big).resolve("runs").resolve(bigRun)
                 .resolve("specifications.csv")));
+        assertFalse(Files.exists(part), "a spooled part left by a kill is cleared at start");
+        // the server's own files (uploads larger than the 1 MB threshold were spooled) stay in the workspace
+        try (java.util.stream.Stream<Path> left = Files.list(systemTemp)) {
+            assertEquals(List.of(), left.map(q -> q.getFileName().toString()).toList(),
+                    "nothing of the server's in the system temporary folder");
+        }
+        assertTrue(Files.isDirectory(workspace.resolve(".server")));
     }
 
     private void refusesWhatItMust(String base, String analysis, String run) throws Exception {
@@ -157,7 +174,9 @@ class ServerRestartTest {
 
     private Process start(Path workspace, Path demo, int port) throws IOException {
         String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
-        List<String> command = new ArrayList<>(List.of(java, "-Xmx1g", "-cp", System.getProperty("java.class.path"),
+        Files.createDirectories(systemTemp);
+        List<String> command = new ArrayList<>(List.of(java, "-Xmx1g", "-Djava.io.tmpdir=" + systemTemp, "-cp",
+                System.getProperty("java.class.path"),
                 "org.forkscape.ForkscapeApplication", "--server.port=" + port, "--forkscape.workspace=" + workspace,
                 "--forkscape.demo.data=file:" + demo.resolve("civic-demo.csv"),
                 "--forkscape.demo.plan=file:" + demo.resolve("civic-demo.plan.json"),

@@ -14,8 +14,7 @@ import org.forkscape.plan.PlanChecker;
  * ({@link MultiverseRunner}), refuse a run that fitted nothing ({@link NothingFitted}), run the inference
  * stage, and write the run's files ({@link RunOutputs}, each atomically) followed by the stage's own
  * ({@link InferenceStage.Outcome#writeFiles}). The pipeline writes nothing before that last step, so a
- * refused, failed or cancelled run leaves the folder as the stage left it: as it was, unless the stage
- * wrote there itself (the web's {@code SummarySections} may, and its inference sections do).
+ * refused, failed or cancelled run leaves the folder as it was.
  *
  * <p>The inference stage is passed in rather than called here: it lives in {@code org.forkscape.infer},
  * which works on this package's {@link RunResult}, so calling it from here would make the two packages

@@ -1,10 +1,9 @@
 package org.forkscape.web.run;
 
-import java.nio.file.Path;
-import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawSettings;
+import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
 import org.forkscape.web.system.ForkscapeSettings;
@@ -24,10 +23,7 @@ class InferenceSummary implements SummarySections {
     }
 
     @Override
-    public Map<String, Object> of(RunResult run, Path folder, RunProgress progress, AtomicBoolean cancel) {
-        InferenceSections inference = InferenceSections.compute(run, NullDrawSettings.of(run.plan()), threads, progress,
-                cancel);
-        inference.writeFiles(folder);
-        return inference.sections();
+    public InferenceStage.Outcome of(RunResult run, RunProgress progress, AtomicBoolean cancel) {
+        return InferenceSections.compute(run, NullDrawSettings.of(run.plan()), threads, progress, cancel);
     }
 }

@@ -152,21 +152,6 @@ public class RunQueue {
         return Duration.between(from, to == null ? Instant.now() : to).toMillis() / 1000.0;
     }
 
-    /**
-     * The summary sections as the pipeline's inference stage gives them back: the sections have written
-     * their files into the run's folder themselves, and their warnings are inside the sections.
-     */
-    private record WrittenSections(Map<String, Object> sections) implements InferenceStage.Outcome {
-        @Override
-        public void writeFiles(Path folder) {
-        }
-
-        @Override
-        public List<String> warnings() {
-            return List.of();
-        }
-    }
-
     private final class Job implements Runnable {
         private final StoredAnalysis analysis;
         private final String planText;
@@ -237,9 +222,8 @@ public class RunQueue {
                 Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
                 Table table = analyses.table(analysis);
                 Path folder = workspace.runFolder(analysis.id(), record.id());
-                CompletedRun<WrittenSections> completed = pipeline.run(plan, table, planText, folder,
-                        (result, progress, c) -> new WrittenSections(sections.of(result, folder, progress, c)),
-                        stages(plan), cancel);
+                CompletedRun<InferenceStage.Outcome> completed = pipeline.run(plan, table, planText, folder,
+                        sections::of, stages(plan), cancel);
                 RunSummary summary = completed.summary();
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
                         summary.fitted(), summary.specifications(), completed.result().seconds()))) {

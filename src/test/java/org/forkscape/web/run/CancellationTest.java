@@ -56,7 +56,7 @@ class CancellationTest {
         StoredAnalysis analysis = analyses.create("streams", "streams.csv",
                 new ByteArrayInputStream(csv(400).getBytes(StandardCharsets.UTF_8)), false);
         analyses.table(analysis);
-        queue = queue(workspace, analyses, (run, folder, progress, cancel) -> Map.of());
+        queue = queue(workspace, analyses, (run, progress, cancel) -> RunQueueTest.sections(Map.of()));
         MemoryMXBean memory = ManagementFactory.getMemoryMXBean();
         long before = liveHeap(memory);
 
@@ -89,7 +89,7 @@ class CancellationTest {
         CountDownLatch inSections = new CountDownLatch(1);
         CountDownLatch release = new CountDownLatch(1);
         WeakReference<?>[] refs = new WeakReference<?>[2];
-        queue = queue(workspace, analyses, (result, folder, progress, cancel) -> {
+        queue = queue(workspace, analyses, (result, progress, cancel) -> {
             refs[0] = new WeakReference<RunResult>(result);
             refs[1] = new WeakReference<Object>(result.results());
             inSections.countDown();
@@ -98,7 +98,7 @@ class CancellationTest {
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
             }
-            return Map.of();
+            return RunQueueTest.sections(Map.of());
         });
         StoredRun run = queue.submit(analysis, plan(10));
         assertTrue(inSections.await(60, TimeUnit.SECONDS));

@@ -9,10 +9,12 @@ import java.io.ByteArrayInputStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import java.util.Map;
 import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
 import org.forkscape.data.CsvLimits;
+import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunState;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.StoredRun;
@@ -36,26 +38,29 @@ class RunQueueTest {
     private final CountDownLatch release = new CountDownLatch(1);
     private final CountDownLatch inSections = new CountDownLatch(1);
     private RunQueue queue;
+    private AnalysisService analyses;
+    private PlanService plans;
+    private ForkscapeSettings settings;
 
     @BeforeEach
     void setUp() {
         workspace = new Workspace(root);
-        AnalysisService analyses = new AnalysisService(workspace, CsvLimits.DEFAULT);
+        analyses = new AnalysisService(workspace, CsvLimits.DEFAULT);
         analysis = analyses.create("t", "t.csv", new ByteArrayInputStream(CivicTestData.csv(120, 4)
                 .getBytes(StandardCharsets.UTF_8)), false);
         ForkscapeSettings.Runs runs = new ForkscapeSettings.Runs(1, 1, 2, 1_000_000, 10_000, null);
-        PlanService plans = new PlanService(workspace, analyses, ServerLimits.of(runs));
+        plans = new PlanService(workspace, analyses, ServerLimits.of(runs));
         // the first run's summary sections wait for the test, so the test decides when it ends
-        SummarySections gated = (run, folder, progress, cancel) -> {
+        SummarySections gated = (run, progress, cancel) -> {
             inSections.countDown();
             try {
                 release.await(30, TimeUnit.SECONDS);
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
             }
-            return Map.of();
+            return sections(Map.of());
         };
-        ForkscapeSettings settings = new ForkscapeSettings(root, null, null, runs, null);
+        settings = new ForkscapeSettings(root, null, null, runs, null);
         queue = new RunQueue(workspace, analyses, plans, gated, event -> { }, settings);
     }
 
@@ -103,6 +108,71 @@ class RunQueueTest {
         assertTrue(Files.exists(folder.resolve("specifications.csv")));
         assertTrue(Files.exists(folder.resolve("summary.json")));
         assertEquals(576, queue.status(analysis.id(), run.id()).orElseThrow().done());
+    }
+
+    /**
+     * A cancel that arrives after the inference stage has computed (here the stage sets the flag itself,
+     * as a cancel in that moment would): the stage's files are written by the pipeline after the run's
+     * own, so none of them is left in the cancelled run's folder.
+     */
+    @Test
+    void aCancelAfterTheInferenceStageLeavesNoFiles() throws Exception {
+        RunQueue late = new RunQueue(workspace, analyses, plans, (run, progress, cancel) -> {
+            cancel.set(true);
+            return new InferenceStage.Outcome() {
+                @Override
+                public Map<String, Object> sections() {
+                    return Map.of();
+                }
+
+                @Override
+                public void writeFiles(Path folder) {
+                    try {
+                        Files.writeString(folder.resolve("null-draws.csv"), "draw\n");
+                    } catch (java.io.IOException e) {
+                        throw new java.io.UncheckedIOException(e);
+                    }
+                }
+
+                @Override
+                public List<String> warnings() {
+                    return List.of();
+                }
+            };
+        }, event -> { }, settings);
+        try {
+            StoredRun run = late.submit(analysis, CivicTestData.plan());
+            StoredRun ended = null;
+            for (int i = 0; i < 600 && (ended == null || !ended.state().ended()); i++) {
+                Thread.sleep(50);
+                ended = workspace.run(analysis.id(), run.id()).orElseThrow();
+            }
+            assertEquals(RunState.CANCELLED, ended.state());
+            Path folder = workspace.runFolder(analysis.id(), run.id());
+            assertFalse(Files.exists(folder.resolve("null-draws.csv")));
+            assertFalse(Files.exists(folder.resolve("specifications.csv")));
+        } finally {
+            late.stop();
+        }
+    }
+
+    /** An inference stage's outcome with these sections, no files and no warnings. */
+    static InferenceStage.Outcome sections(Map<String, Object> sections) {
+        return new InferenceStage.Outcome() {
+            @Override
+            public Map<String, Object> sections() {
+                return sections;
+            }
+
+            @Override
+            public void writeFiles(Path folder) {
+            }
+
+            @Override
+            public List<String> warnings() {
+                return List.of();
+            }
+        };
     }
 
     private StoredRun waitForEnd(StoredRun run) throws InterruptedException {

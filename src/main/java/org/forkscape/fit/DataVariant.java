@@ -1,21 +1,14 @@
 package org.forkscape.fit;
 
-import java.util.ArrayList;
 import java.util.BitSet;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
-import java.util.List;
 import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
-import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
-import org.forkscape.plan.MissingRows;
-import org.forkscape.plan.Plan;
-import org.forkscape.plan.VariableChoice;
 
 /**
  * One data variant: the rows kept by its sample alternatives, its coded outcome and predictor columns,
@@ -71,25 +64,16 @@ public final class DataVariant {
     /** Variables missing in at least one row: only these can change a specification's usable rows. */
     private final long everMissing;
 
-    /**
-     * Builds the variant. Plan errors that only the data reveal (a log of a non-positive value, a trim
-     * on a constant column) are thrown here as {@link org.forkscape.plan.PlanException}.
-     */
-    public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key) {
-        this(plan, table, layout, key, null);
-    }
-
-    /** As above, summing row blocks on {@code pool} when given (the result does not depend on it). */
-    public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key,
-            java.util.concurrent.ExecutorService pool) {
-        this.layout = layout;
+    /** Builds the variant of {@code key}; see {@link SpecificationModels#variant(VariantKey)}. */
+    DataVariant(CompiledPlan plan, VariantKey key, java.util.concurrent.ExecutorService pool) {
+        this.layout = plan.layout;
         this.columns = layout.size();
+        Table table = plan.table;
         int n = table.rowCount();
         boolean[] keep = new boolean[n];
         java.util.Arrays.fill(keep, true);
-        if (plan.missing() == MissingRows.COMMON) {
-            for (String name : rawVariables(plan)) {
-                Column c = table.column(name);
+        if (plan.commonMissing) {
+            for (Column c : plan.rawVariables) {
                 for (int r = 0; r < n; r++) {
                     if (c.isMissing(r)) {
                         keep[r] = false;
@@ -97,37 +81,29 @@ public final class DataVariant {
                 }
             }
         }
-        int[] sampleIndex = decisionIndices(plan, Decision.Sample.class);
-        RowSelection.apply(plan, table, sampleIndex, key.sampleChoices(), keep);
+        RowSelection.apply(plan, key.sampleChoices(), keep);
         int[] sampled = indicesOf(keep);
-        String rowsDescription = describeRows(plan, key);
+        String rowsDescription = plan.describeRows(key.sampleChoices());
 
         double[][] raw = new double[columns][];
-        int outcomeDecision = decisionIndices(plan, Decision.Outcome.class)[0];
-        int predictorDecision = decisionIndices(plan, Decision.Predictor.class)[0];
-        List<VariableChoice> outcomes = plan.outcome().alternatives();
-        for (int j = 0; j < outcomes.size(); j++) {
-            VariableChoice v = outcomes.get(j);
-            raw[layout.outcomeColumn(j)] = Transforms.apply(table.column(v.column()), v.transform(), sampled,
-                    "decisions[" + outcomeDecision + "].alternatives[" + j + "].transform", rowsDescription);
+        for (CompiledPlan.CodedVariable v : plan.outcomes) {
+            raw[v.modelColumn()] = Transforms.apply(v.column(), v.transform(), sampled, v.transformPath(),
+                    rowsDescription);
         }
-        List<VariableChoice> predictors = plan.predictor().alternatives();
-        for (int j = 0; j < predictors.size(); j++) {
-            VariableChoice v = predictors.get(j);
-            raw[layout.predictorColumn(j)] = Transforms.apply(table.column(v.column()), v.transform(), sampled,
-                    "decisions[" + predictorDecision + "].alternatives[" + j + "].transform", rowsDescription);
+        for (CompiledPlan.CodedVariable v : plan.predictors) {
+            raw[v.modelColumn()] = Transforms.apply(v.column(), v.transform(), sampled, v.transformPath(),
+                    rowsDescription);
         }
 
         // absorbed fixed effects: rows missing the column cannot be in any specification of this variant
-        absorbColumn = key.absorbChoice() < 0 ? null
-                : plan.all(Decision.Absorb.class).get(0).alternatives().get(key.absorbChoice()).columns().stream()
-                        .findFirst().orElse(null);
+        Column absorbed = key.absorbChoice() < 0 ? null : plan.absorbColumns[key.absorbChoice()];
+        absorbColumn = absorbed == null ? null : absorbed.name();
         absorbs = absorbColumn != null;
         int[] levelCodes = new int[sampled.length];
         int levelCount = 1;
         int[] kept = sampled;
         if (absorbs) {
-            int[] codes = LevelCodes.of(table.column(absorbColumn));
+            int[] codes = LevelCodes.of(absorbed);
             int m = 0;
             for (int i = 0; i < sampled.length; i++) {
                 if (codes[sampled[i]] >= 0) {
@@ -174,7 +150,7 @@ public final class DataVariant {
         this.level = levelCodes;
         this.levels = levelCount;
 
-        fillControls(plan, table, kept, raw);
+        fillControls(plan, kept, raw);
 
         // missing patterns over model variables, numbered in order of first appearance
         long[] rowMissing = new long[rows];
@@ -187,24 +163,20 @@ public final class DataVariant {
                 }
             }
         }
-        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
-            for (ErrorType t : e.alternatives()) {
-                if (t.kind() == ErrorType.Kind.CLUSTER && !clusters.containsKey(t.clusterColumn())) {
-                    int[] all = LevelCodes.of(table.column(t.clusterColumn()));
-                    int[] codes = new int[rows];
-                    long bit = 1L << layout.variable(t.clusterColumn(), true);
-                    int max = -1;
-                    for (int i = 0; i < rows; i++) {
-                        codes[i] = all[kept[i]];
-                        max = Math.max(max, codes[i]);
-                        if (codes[i] < 0) {
-                            rowMissing[i] |= bit;
-                        }
-                    }
-                    clusters.put(t.clusterColumn(), codes);
-                    clusterCounts.put(t.clusterColumn(), max + 1);
+        for (CompiledPlan.ClusterColumn cluster : plan.clusterColumns) {
+            int[] all = LevelCodes.of(cluster.column());
+            int[] codes = new int[rows];
+            long bit = cluster.bit();
+            int max = -1;
+            for (int i = 0; i < rows; i++) {
+                codes[i] = all[kept[i]];
+                max = Math.max(max, codes[i]);
+                if (codes[i] < 0) {
+                    rowMissing[i] |= bit;
                 }
             }
+            clusters.put(cluster.column().name(), codes);
+            clusterCounts.put(cluster.column().name(), max + 1);
         }
         Map<Long, Integer> patterns = new LinkedHashMap<>();
         group = new int[rows];
@@ -403,66 +375,31 @@ public final class DataVariant {
         }
     }
 
-    private void fillControls(Plan plan, Table table, int[] kept, double[][] raw) {
-        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
-            List<String> names = new ArrayList<>(c.required());
-            names.addAll(c.optional());
-            if (c.sets() != null) {
-                c.sets().values().forEach(names::addAll);
+    private static void fillControls(CompiledPlan plan, int[] kept, double[][] raw) {
+        for (CompiledPlan.CodedControl control : plan.codedControls) {
+            int[] cols = control.modelColumns();
+            if (cols.length == 0) {
+                continue;
             }
-            for (String name : names) {
-                int[] cols = layout.controlColumns(name);
-                if (cols.length == 0 || raw[cols[0]] != null) {
-                    continue;
-                }
-                Column column = table.column(name);
-                if (column instanceof CategoricalColumn cat) {
-                    int[] codes = cat.codes();
-                    for (int k = 0; k < cols.length; k++) {
-                        double[] d = new double[kept.length];
-                        for (int i = 0; i < kept.length; i++) {
-                            int code = codes[kept[i]];
-                            d[i] = code < 0 ? Double.NaN : code == k + 1 ? 1 : 0;
-                        }
-                        raw[cols[k]] = d;
-                    }
-                } else {
-                    double[] x = ((NumericColumn) column).values();
+            if (control.column() instanceof CategoricalColumn cat) {
+                int[] codes = cat.codes();
+                for (int k = 0; k < cols.length; k++) {
                     double[] d = new double[kept.length];
                     for (int i = 0; i < kept.length; i++) {
-                        d[i] = x[kept[i]];
+                        int code = codes[kept[i]];
+                        d[i] = code < 0 ? Double.NaN : code == k + 1 ? 1 : 0;
                     }
-                    raw[cols[0]] = d;
+                    raw[cols[k]] = d;
                 }
+            } else {
+                double[] x = ((NumericColumn) control.column()).values();
+                double[] d = new double[kept.length];
+                for (int i = 0; i < kept.length; i++) {
+                    d[i] = x[kept[i]];
+                }
+                raw[cols[0]] = d;
             }
         }
-    }
-
-    /** Every raw column the plan names as a model variable (outcome, predictor, controls, clusters, fixed effects). */
-    static List<String> rawVariables(Plan plan) {
-        List<String> out = new ArrayList<>();
-        plan.outcome().alternatives().forEach(v -> out.add(v.column()));
-        plan.predictor().alternatives().forEach(v -> out.add(v.column()));
-        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
-            out.addAll(c.required());
-            out.addAll(c.optional());
-            if (c.sets() != null) {
-                c.sets().values().forEach(out::addAll);
-            }
-        }
-        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
-            e.alternatives().stream().filter(t -> t.kind() == ErrorType.Kind.CLUSTER)
-                    .forEach(t -> out.add(t.clusterColumn()));
-        }
-        for (Decision.Absorb a : plan.all(Decision.Absorb.class)) {
-            a.alternatives().forEach(choice -> out.addAll(choice.columns()));
-        }
-        return out.stream().distinct().toList();
-    }
-
-    static int[] decisionIndices(Plan plan, Class<? extends Decision> kind) {
-        List<Decision> ds = plan.decisions();
-        return java.util.stream.IntStream.range(0, ds.size()).filter(i -> kind.isInstance(ds.get(i))).toArray();
     }
 
     private static int[] indicesOf(boolean[] keep) {
@@ -480,21 +417,6 @@ public final class DataVariant {
             }
         }
         return out;
-    }
-
-    private static String describeRows(Plan plan, VariantKey key) {
-        List<Decision.Sample> samples = plan.all(Decision.Sample.class);
-        if (samples.isEmpty()) {
-            return "over all rows";
-        }
-        StringBuilder b = new StringBuilder("in the rows kept by ");
-        for (int s = 0; s < samples.size(); s++) {
-            if (s > 0) {
-                b.append(", ");
-            }
-            b.append(samples.get(s).name()).append(" = ").append(samples.get(s).label(key.sampleChoices()[s]));
-        }
-        return b.toString();
     }
 
     /**

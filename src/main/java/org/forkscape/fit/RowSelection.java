@@ -1,11 +1,8 @@
 package org.forkscape.fit;
 
-import java.util.List;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
-import org.forkscape.plan.Decision;
-import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.SampleRule;
 
@@ -14,16 +11,12 @@ final class RowSelection {
     private RowSelection() {
     }
 
-    /**
-     * Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place).
-     *
-     * @param sampleDecisionIndex position of each sample decision in the plan, for messages
-     */
-    static void apply(Plan plan, Table table, int[] sampleDecisionIndex, int[] choices, boolean[] keep) {
-        List<Decision.Sample> samples = plan.all(Decision.Sample.class);
-        for (int s = 0; s < samples.size(); s++) {
-            SampleRule rule = samples.get(s).alternatives().get(choices[s]);
-            String path = "decisions[" + sampleDecisionIndex[s] + "].alternatives[" + choices[s] + "]";
+    /** Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place). */
+    static void apply(CompiledPlan plan, int[] choices, boolean[] keep) {
+        Table table = plan.table;
+        for (int s = 0; s < plan.samples.length; s++) {
+            SampleRule rule = plan.samples[s].alternatives().get(choices[s]);
+            String path = "decisions[" + plan.sampleAt[s] + "].alternatives[" + choices[s] + "]";
             if (rule instanceof SampleRule.KeepRows k) {
                 var predicate = k.expression().bind(table, path + ".keep");
                 for (int r = 0; r < keep.length; r++) {

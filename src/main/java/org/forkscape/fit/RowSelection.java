@@ -6,13 +6,54 @@ import org.forkscape.data.Table;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.SampleRule;
 
-/** Applies a variant's sample decisions, in declared order, to the rows of the table. */
+/**
+ * Which table rows a data variant starts from: those a {@code "missing": "common"} rule keeps, then those its
+ * sample decisions keep, applied in declared order.
+ */
 final class RowSelection {
     private RowSelection() {
     }
 
+    /**
+     * The table rows of the variant {@code key}, ascending. A trim on a column without spread in the rows
+     * kept so far is a {@link PlanException} at the trim's JSON path.
+     */
+    static int[] of(CompiledPlan plan, VariantKey key) {
+        int n = plan.table.rowCount();
+        boolean[] keep = new boolean[n];
+        java.util.Arrays.fill(keep, true);
+        if (plan.commonMissing) {
+            for (Column c : plan.rawVariables) {
+                for (int r = 0; r < n; r++) {
+                    if (c.isMissing(r)) {
+                        keep[r] = false;
+                    }
+                }
+            }
+        }
+        apply(plan, key.sampleChoices(), keep);
+        return indicesOf(keep);
+    }
+
+    private static int[] indicesOf(boolean[] keep) {
+        int m = 0;
+        for (boolean k : keep) {
+            if (k) {
+                m++;
+            }
+        }
+        int[] out = new int[m];
+        m = 0;
+        for (int r = 0; r < keep.length; r++) {
+            if (keep[r]) {
+                out[m++] = r;
+            }
+        }
+        return out;
+    }
+
     /** Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place). */
-    static void apply(CompiledPlan plan, int[] choices, boolean[] keep) {
+    private static void apply(CompiledPlan plan, int[] choices, boolean[] keep) {
         Table table = plan.table;
         for (int s = 0; s < plan.samples.length; s++) {
             SampleRule rule = plan.samples[s].alternatives().get(choices[s]);

@@ -87,7 +87,7 @@ public final class SpecificationModels {
 
     /** As above, summing row blocks on {@code pool} when given (the result does not depend on it). */
     public DataVariant variant(VariantKey key, ExecutorService pool) {
-        return new DataVariant(plan, key, pool);
+        return VariantBuilder.build(plan, key, pool);
     }
 
     /** The model of a specification from its decoded choices. */

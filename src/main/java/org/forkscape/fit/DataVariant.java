@@ -69,10 +69,10 @@ public final class DataVariant {
         this.groupMissing = coded.groupMissing;
         this.clusters = coded.clusters;
         this.clusterCounts = coded.clusterCounts;
-        this.cellCount = cells.cellCount;
-        this.cellSum = cells.cellSum;
-        this.cellCross = cells.cellCross;
         this.statistics = new VariantStatistics(this, cells);
+        this.cellCount = statistics.cells.cellCount;
+        this.cellSum = statistics.cells.cellSum;
+        this.cellCross = statistics.cells.cellCross;
     }
 
     public int rowCount() {

@@ -66,10 +66,6 @@ final class FixedEffectLevels {
         return new FixedEffectLevels(absorbed.name(), kept, dense, Math.max(1, next), keptAt);
     }
 
-    boolean absorbs() {
-        return column != null;
-    }
-
     /** Replaces each non-null column of {@code columns} (modified), given over the sampled rows, by its kept rows. */
     void compact(double[][] columns) {
         if (keptAt == null) {

@@ -1,25 +1,13 @@
 package org.forkscape.fit;
 
-import java.util.ArrayList;
-import java.util.BitSet;
-import java.util.HashMap;
-import java.util.LinkedHashMap;
-import java.util.List;
 import java.util.Map;
+import java.util.Set;
 import java.util.concurrent.ConcurrentHashMap;
-import org.forkscape.data.CategoricalColumn;
-import org.forkscape.data.Column;
-import org.forkscape.data.NumericColumn;
-import org.forkscape.data.Table;
-import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
-import org.forkscape.plan.MissingRows;
-import org.forkscape.plan.Plan;
-import org.forkscape.plan.VariableChoice;
 
 /**
- * One data variant: the rows kept by its sample alternatives, its coded outcome and predictor columns,
- * its absorbed fixed-effect levels, and the cross-products of every model column, accumulated once.
+ * One data variant: its coded rows (the rows kept by its sample alternatives, its coded outcome, predictor
+ * and control columns, its absorbed fixed-effect levels; {@link CodedRows}) and the sufficient statistics
+ * summed from them once ({@link VariantStatistics}). Built by {@link VariantBuilder}.
  *
  * <p>Rows are grouped by their pattern of missing model variables, and within a group by fixed-effect
  * level; each (group, level) cell keeps its count, column sums and cross-product matrix around the
@@ -28,13 +16,13 @@ import org.forkscape.plan.VariableChoice;
  * (sum x)(sum x)'/n: the within matrix, identical to including the dummies (Frisch &amp; Waugh 1933,
  * Econometrica 1(4); Lovell 1963, JASA 58(304)). Accumulating around level means instead of raw values
  * keeps the normal equations' cancellation small. Read-only after construction, except for the
- * {@link Moments} cache, which is safe for concurrent use and deterministic.
+ * statistics' caches, which are safe for concurrent use and deterministic.
+ *
+ * <p>The fields below name the arrays of the coded rows and of the cells as the fitting routes read them.
  */
 public final class DataVariant {
-    /** Rows per block of the cross-product sums. */
-    static final int BLOCK_ROWS = 8192;
-    /** Beyond this many doubles of partial sums (many fixed-effect levels), rows are summed in one block. */
-    static final long MAX_BLOCK_DOUBLES = 1L << 24;
+    final CodedRows coded;
+    final VariantStatistics statistics;
 
     final ModelColumns layout;
     final int rows;
@@ -59,466 +47,32 @@ public final class DataVariant {
     final double[][][] cellSum;
     final double[][][] cellCross;
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
-    final Map<String, int[]> clusters = new HashMap<>();
-    final Map<String, Integer> clusterCounts = new HashMap<>();
-    private final Map<BitSet, Moments> momentsByGroups = new ConcurrentHashMap<>();
-    private final Map<String, ClusterMoments> clusterMoments = new ConcurrentHashMap<>();
-    private volatile double[][][] groupTensors;
+    final Map<String, int[]> clusters;
+    final Map<String, Integer> clusterCounts;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
-    private final java.util.Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
-    private final Map<Long, Moments> momentsByVariables = new ConcurrentHashMap<>();
-    /** Variables missing in at least one row: only these can change a specification's usable rows. */
-    private final long everMissing;
+    private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
 
-    /**
-     * Builds the variant. Plan errors that only the data reveal (a log of a non-positive value, a trim
-     * on a constant column) are thrown here as {@link org.forkscape.plan.PlanException}.
-     */
-    public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key) {
-        this(plan, table, layout, key, null);
-    }
-
-    /** As above, summing row blocks on {@code pool} when given (the result does not depend on it). */
-    public DataVariant(Plan plan, Table table, ModelColumns layout, VariantKey key,
-            java.util.concurrent.ExecutorService pool) {
-        this.layout = layout;
-        this.columns = layout.size();
-        int n = table.rowCount();
-        boolean[] keep = new boolean[n];
-        java.util.Arrays.fill(keep, true);
-        if (plan.missing() == MissingRows.COMMON) {
-            for (String name : rawVariables(plan)) {
-                Column c = table.column(name);
-                for (int r = 0; r < n; r++) {
-                    if (c.isMissing(r)) {
-                        keep[r] = false;
-                    }
-                }
-            }
-        }
-        int[] sampleIndex = decisionIndices(plan, Decision.Sample.class);
-        RowSelection.apply(plan, table, sampleIndex, key.sampleChoices(), keep);
-        int[] sampled = indicesOf(keep);
-        String rowsDescription = describeRows(plan, key);
-
-        double[][] raw = new double[columns][];
-        int outcomeDecision = decisionIndices(plan, Decision.Outcome.class)[0];
-        int predictorDecision = decisionIndices(plan, Decision.Predictor.class)[0];
-        List<VariableChoice> outcomes = plan.outcome().alternatives();
-        for (int j = 0; j < outcomes.size(); j++) {
-            VariableChoice v = outcomes.get(j);
-            raw[layout.outcomeColumn(j)] = Transforms.apply(table.column(v.column()), v.transform(), sampled,
-                    "decisions[" + outcomeDecision + "].alternatives[" + j + "].transform", rowsDescription);
-        }
-        List<VariableChoice> predictors = plan.predictor().alternatives();
-        for (int j = 0; j < predictors.size(); j++) {
-            VariableChoice v = predictors.get(j);
-            raw[layout.predictorColumn(j)] = Transforms.apply(table.column(v.column()), v.transform(), sampled,
-                    "decisions[" + predictorDecision + "].alternatives[" + j + "].transform", rowsDescription);
-        }
-
-        // absorbed fixed effects: rows missing the column cannot be in any specification of this variant
-        absorbColumn = key.absorbChoice() < 0 ? null
-                : plan.all(Decision.Absorb.class).get(0).alternatives().get(key.absorbChoice()).columns().stream()
-                        .findFirst().orElse(null);
-        absorbs = absorbColumn != null;
-        int[] levelCodes = new int[sampled.length];
-        int levelCount = 1;
-        int[] kept = sampled;
-        if (absorbs) {
-            int[] codes = LevelCodes.of(table.column(absorbColumn));
-            int m = 0;
-            for (int i = 0; i < sampled.length; i++) {
-                if (codes[sampled[i]] >= 0) {
-                    m++;
-                }
-            }
-            int[] keepIdx = new int[m];
-            m = 0;
-            for (int i = 0; i < sampled.length; i++) {
-                if (codes[sampled[i]] >= 0) {
-                    keepIdx[m++] = i;
-                }
-            }
-            kept = new int[keepIdx.length];
-            for (int i = 0; i < keepIdx.length; i++) {
-                kept[i] = sampled[keepIdx[i]];
-            }
-            for (int j = 0; j < columns; j++) {
-                if (raw[j] != null) {
-                    double[] compact = new double[keepIdx.length];
-                    for (int i = 0; i < keepIdx.length; i++) {
-                        compact[i] = raw[j][keepIdx[i]];
-                    }
-                    raw[j] = compact;
-                }
-            }
-            int[] dense = new int[keepIdx.length];
-            Map<Integer, Integer> remap = new java.util.TreeMap<>();
-            for (int r : kept) {
-                remap.put(codes[r], 0);
-            }
-            int next = 0;
-            for (Map.Entry<Integer, Integer> e : remap.entrySet()) {
-                e.setValue(next++);
-            }
-            for (int i = 0; i < kept.length; i++) {
-                dense[i] = remap.get(codes[kept[i]]);
-            }
-            levelCodes = dense;
-            levelCount = Math.max(1, next);
-        }
-        this.rows = kept.length;
-        this.tableRows = kept;
-        this.level = levelCodes;
-        this.levels = levelCount;
-
-        fillControls(plan, table, kept, raw);
-
-        // missing patterns over model variables, numbered in order of first appearance
-        long[] rowMissing = new long[rows];
-        for (int j = 0; j < columns; j++) {
-            long bit = 1L << layout.variableOf(j);
-            double[] x = raw[j];
-            for (int i = 0; i < rows; i++) {
-                if (Double.isNaN(x[i])) {
-                    rowMissing[i] |= bit;
-                }
-            }
-        }
-        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
-            for (ErrorType t : e.alternatives()) {
-                if (t.kind() == ErrorType.Kind.CLUSTER && !clusters.containsKey(t.clusterColumn())) {
-                    int[] all = LevelCodes.of(table.column(t.clusterColumn()));
-                    int[] codes = new int[rows];
-                    long bit = 1L << layout.variable(t.clusterColumn(), true);
-                    int max = -1;
-                    for (int i = 0; i < rows; i++) {
-                        codes[i] = all[kept[i]];
-                        max = Math.max(max, codes[i]);
-                        if (codes[i] < 0) {
-                            rowMissing[i] |= bit;
-                        }
-                    }
-                    clusters.put(t.clusterColumn(), codes);
-                    clusterCounts.put(t.clusterColumn(), max + 1);
-                }
-            }
-        }
-        Map<Long, Integer> patterns = new LinkedHashMap<>();
-        group = new int[rows];
-        long lastMask = 0;
-        int lastGroup = -1;
-        for (int i = 0; i < rows; i++) {
-            // consecutive rows usually share a pattern: skip the map (and its boxing) for them
-            if (lastGroup < 0 || rowMissing[i] != lastMask) {
-                lastMask = rowMissing[i];
-                lastGroup = patterns.computeIfAbsent(lastMask, p -> patterns.size());
-            }
-            group[i] = lastGroup;
-        }
-        groupMissing = new long[patterns.size()];
-        patterns.forEach((mask, g) -> groupMissing[g] = mask);
-        long any = 0;
-        for (long mask : groupMissing) {
-            any |= mask;
-        }
-        everMissing = any;
-
-        levelShift = new double[levels][columns];
-        shifted = new double[columns][];
-        double[] levelSum = new double[levels];
-        int[] levelN = new int[levels];
-        for (int j = 0; j < columns; j++) {
-            double[] x = raw[j];
-            java.util.Arrays.fill(levelSum, 0);
-            java.util.Arrays.fill(levelN, 0);
-            if (levels == 1) {
-                double sum = 0;
-                int count = 0;
-                for (int i = 0; i < rows; i++) {
-                    double v = x[i];
-                    if (v == v) {
-                        sum += v;
-                        count++;
-                    }
-                }
-                levelSum[0] = sum;
-                levelN[0] = count;
-            } else {
-                for (int i = 0; i < rows; i++) {
-                    double v = x[i];
-                    if (v == v) {
-                        levelSum[level[i]] += v;
-                        levelN[level[i]]++;
-                    }
-                }
-            }
-            for (int l = 0; l < levels; l++) {
-                levelShift[l][j] = levelN[l] == 0 ? 0 : levelSum[l] / levelN[l];
-            }
-            correctShifts(x, j, levelN);
-            // the raw column is not needed after this: shift it in place
-            double shift0 = levelShift[0][j];
-            for (int i = 0; i < rows; i++) {
-                double v = x[i];
-                x[i] = v != v ? 0 : v - (levels == 1 ? shift0 : levelShift[level[i]][j]);
-            }
-            shifted[j] = x;
-        }
-        int groups = groupMissing.length;
-        cellCount = new int[groups][levels];
-        cellSum = new double[groups][levels][];
-        cellCross = new double[groups][levels][];
-        accumulate(pool);
-    }
-
-    /**
-     * Sums each (group, level) cell's column sums and cross-products. Rows are taken in fixed blocks
-     * whose partial sums are added in block order, so the result is the same whatever the number of
-     * threads, and blocked (pairwise-like) summation also bounds the rounding error's growth (Higham,
-     * Accuracy and Stability of Numerical Algorithms, 2nd ed., section 4.2).
-     */
-    private void accumulate(java.util.concurrent.ExecutorService pool) {
-        int p = columns;
-        int groups = groupMissing.length;
-        int cells = groups * levels;
-        int blocks = Math.max(1, (rows + BLOCK_ROWS - 1) / BLOCK_ROWS);
-        if ((long) blocks * cells * (p + 1L) * p > MAX_BLOCK_DOUBLES) {
-            blocks = 1;
-        }
-        int blockRows = blocks == 1 ? rows : BLOCK_ROWS;
-        double[][][] partialSum = new double[blocks][][];
-        double[][][] partialCross = new double[blocks][][];
-        int[][] partialCount = new int[blocks][];
-        java.util.function.IntConsumer block = b -> {
-            double[][] sum = new double[cells][];
-            double[][] cross = new double[cells][];
-            int[] count = new int[cells];
-            int from = b * blockRows;
-            int to = Math.min(rows, from + blockRows);
-            // rows of one cell contiguous: a counting sort of the block by cell
-            int[] start = new int[cells + 1];
-            for (int i = from; i < to; i++) {
-                start[group[i] * levels + level[i] + 1]++;
-            }
-            for (int c = 0; c < cells; c++) {
-                start[c + 1] += start[c];
-            }
-            int[] order = new int[to - from];
-            int[] fill = start.clone();
-            for (int i = from; i < to; i++) {
-                order[fill[group[i] * levels + level[i]]++] = i;
-            }
-            // cells is 0 when no row survives the sample rules: then there is nothing to sum
-            boolean oneCell = cells <= 1 || start[cells] == start[1];
-            double[][] z = new double[p][];
-            for (int cell = 0; cell < cells; cell++) {
-                int m = start[cell + 1] - start[cell];
-                if (m == 0) {
-                    continue;
-                }
-                for (int j = 0; j < p; j++) {
-                    if (oneCell && m == to - from) {
-                        z[j] = java.util.Arrays.copyOfRange(shifted[j], from, to);
-                    } else {
-                        double[] col = shifted[j];
-                        double[] zj = new double[m];
-                        for (int k = 0; k < m; k++) {
-                            zj[k] = col[order[start[cell] + k]];
-                        }
-                        z[j] = zj;
-                    }
-                }
-                count[cell] = m;
-                double[] s = new double[p];
-                double[] c = new double[p * p];
-                for (int a = 0; a < p; a++) {
-                    s[a] = Kernels.sum(z[a], m);
-                    for (int k = a; k < p; k++) {
-                        c[a * p + k] = Kernels.dot(z[a], z[k], m);
-                    }
-                }
-                sum[cell] = s;
-                cross[cell] = c;
-            }
-            partialSum[b] = sum;
-            partialCross[b] = cross;
-            partialCount[b] = count;
-        };
-        if (pool == null || blocks == 1) {
-            for (int b = 0; b < blocks; b++) {
-                block.accept(b);
-            }
-        } else {
-            java.util.List<java.util.concurrent.Future<?>> futures = new java.util.ArrayList<>();
-            for (int b = 0; b < blocks; b++) {
-                int index = b;
-                futures.add(pool.submit(() -> block.accept(index)));
-            }
-            for (java.util.concurrent.Future<?> f : futures) {
-                try {
-                    f.get();
-                } catch (InterruptedException e) {
-                    Thread.currentThread().interrupt();
-                    throw new IllegalStateException("interrupted while summing cross-products", e);
-                } catch (java.util.concurrent.ExecutionException e) {
-                    throw new IllegalStateException(e.getCause());
-                }
-            }
-        }
-        for (int cell = 0; cell < cells; cell++) {
-            int g = cell / levels;
-            int l = cell % levels;
-            for (int b = 0; b < blocks; b++) {
-                double[] s = partialSum[b][cell];
-                if (s == null) {
-                    continue;
-                }
-                cellCount[g][l] += partialCount[b][cell];
-                if (cellSum[g][l] == null) {
-                    cellSum[g][l] = s;
-                    cellCross[g][l] = partialCross[b][cell];
-                } else {
-                    double[] ts = cellSum[g][l];
-                    double[] tc = cellCross[g][l];
-                    double[] c = partialCross[b][cell];
-                    for (int j = 0; j < p; j++) {
-                        ts[j] += s[j];
-                    }
-                    for (int k = 0; k < tc.length; k++) {
-                        tc[k] += c[k];
-                    }
-                }
-            }
-            double[] c = cellCross[g][l];
-            if (c != null) {
-                for (int a = 0; a < p; a++) {
-                    for (int k = a + 1; k < p; k++) {
-                        c[k * p + a] = c[a * p + k];
-                    }
-                }
-            }
-        }
-    }
-
-    private void fillControls(Plan plan, Table table, int[] kept, double[][] raw) {
-        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
-            List<String> names = new ArrayList<>(c.required());
-            names.addAll(c.optional());
-            if (c.sets() != null) {
-                c.sets().values().forEach(names::addAll);
-            }
-            for (String name : names) {
-                int[] cols = layout.controlColumns(name);
-                if (cols.length == 0 || raw[cols[0]] != null) {
-                    continue;
-                }
-                Column column = table.column(name);
-                if (column instanceof CategoricalColumn cat) {
-                    int[] codes = cat.codes();
-                    for (int k = 0; k < cols.length; k++) {
-                        double[] d = new double[kept.length];
-                        for (int i = 0; i < kept.length; i++) {
-                            int code = codes[kept[i]];
-                            d[i] = code < 0 ? Double.NaN : code == k + 1 ? 1 : 0;
-                        }
-                        raw[cols[k]] = d;
-                    }
-                } else {
-                    double[] x = ((NumericColumn) column).values();
-                    double[] d = new double[kept.length];
-                    for (int i = 0; i < kept.length; i++) {
-                        d[i] = x[kept[i]];
-                    }
-                    raw[cols[0]] = d;
-                }
-            }
-        }
-    }
-
-    /** Every raw column the plan names as a model variable (outcome, predictor, controls, clusters, fixed effects). */
-    static List<String> rawVariables(Plan plan) {
-        List<String> out = new ArrayList<>();
-        plan.outcome().alternatives().forEach(v -> out.add(v.column()));
-        plan.predictor().alternatives().forEach(v -> out.add(v.column()));
-        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
-            out.addAll(c.required());
-            out.addAll(c.optional());
-            if (c.sets() != null) {
-                c.sets().values().forEach(out::addAll);
-            }
-        }
-        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
-            e.alternatives().stream().filter(t -> t.kind() == ErrorType.Kind.CLUSTER)
-                    .forEach(t -> out.add(t.clusterColumn()));
-        }
-        for (Decision.Absorb a : plan.all(Decision.Absorb.class)) {
-            a.alternatives().forEach(choice -> out.addAll(choice.columns()));
-        }
-        return out.stream().distinct().toList();
-    }
-
-    static int[] decisionIndices(Plan plan, Class<? extends Decision> kind) {
-        List<Decision> ds = plan.decisions();
-        return java.util.stream.IntStream.range(0, ds.size()).filter(i -> kind.isInstance(ds.get(i))).toArray();
-    }
-
-    private static int[] indicesOf(boolean[] keep) {
-        int m = 0;
-        for (boolean k : keep) {
-            if (k) {
-                m++;
-            }
-        }
-        int[] out = new int[m];
-        m = 0;
-        for (int r = 0; r < keep.length; r++) {
-            if (keep[r]) {
-                out[m++] = r;
-            }
-        }
-        return out;
-    }
-
-    private static String describeRows(Plan plan, VariantKey key) {
-        List<Decision.Sample> samples = plan.all(Decision.Sample.class);
-        if (samples.isEmpty()) {
-            return "over all rows";
-        }
-        StringBuilder b = new StringBuilder("in the rows kept by ");
-        for (int s = 0; s < samples.size(); s++) {
-            if (s > 0) {
-                b.append(", ");
-            }
-            b.append(samples.get(s).name()).append(" = ").append(samples.get(s).label(key.sampleChoices()[s]));
-        }
-        return b.toString();
-    }
-
-    /**
-     * Adds to each level's shift of column {@code j} the mean of the values minus the shift: the
-     * corrected two-pass mean (Chan, Golub &amp; LeVeque 1983, "Algorithms for computing the sample
-     * variance: analysis and recommendations", The American Statistician 37(3)). A one-pass mean of
-     * values far from zero can miss by more than their spread (the sum's rounding grows with the offset
-     * and the row count); every cross-product is then formed around a shift that is off, and the
-     * offsets that undo it cancel. Corrected, the shift is within a few units of roundoff of the mean.
-     */
-    private void correctShifts(double[] x, int j, int[] levelN) {
-        double[] residualSum = new double[levels];
-        for (int i = 0; i < rows; i++) {
-            double v = x[i];
-            if (v == v) {
-                int l = levels == 1 ? 0 : level[i];
-                residualSum[l] += v - levelShift[l][j];
-            }
-        }
-        for (int l = 0; l < levels; l++) {
-            if (levelN[l] > 0) {
-                levelShift[l][j] += residualSum[l] / levelN[l];
-            }
-        }
+    DataVariant(CodedRows coded, CellSums cells) {
+        this.coded = coded;
+        this.layout = coded.layout;
+        this.rows = coded.rows;
+        this.columns = coded.columns;
+        this.tableRows = coded.tableRows;
+        this.shifted = coded.shifted;
+        this.level = coded.level;
+        this.levels = coded.levels;
+        this.absorbColumn = coded.absorbColumn;
+        this.absorbs = absorbColumn != null;
+        this.levelShift = coded.levelShift;
+        this.group = coded.group;
+        this.groupMissing = coded.groupMissing;
+        this.clusters = coded.clusters;
+        this.clusterCounts = coded.clusterCounts;
+        this.statistics = new VariantStatistics(this, cells);
+        this.cellCount = statistics.cells.cellCount;
+        this.cellSum = statistics.cells.cellSum;
+        this.cellCross = statistics.cells.cellCross;
     }
 
     public int rowCount() {
@@ -538,7 +92,7 @@ public final class DataVariant {
             java.util.concurrent.ExecutorService pool) {
         useFourthMoments = SandwichRoute.fourthMomentsPay(this, hcSpecifications, meanColumns);
         if (useFourthMoments) {
-            groupTensors = FourthMoments.groupTensors(this, pool);
+            statistics.buildGroupTensors(pool);
         }
         clusterSpecifications.forEach((column, count) -> {
             Integer g = clusterCounts.get(column);
@@ -554,21 +108,11 @@ public final class DataVariant {
 
     /** The per-group third and fourth moments, built on first use. */
     double[][][] groupTensors() {
-        double[][][] t = groupTensors;
-        if (t == null) {
-            synchronized (this) {
-                t = groupTensors;
-                if (t == null) {
-                    t = FourthMoments.groupTensors(this, null);
-                    groupTensors = t;
-                }
-            }
-        }
-        return t;
+        return statistics.groupTensors();
     }
 
     ClusterMoments clusterMoments(String column) {
-        return clusterMoments.computeIfAbsent(column, c -> ClusterMoments.build(this, clusters.get(c)));
+        return statistics.clusterMoments(column);
     }
 
     public ModelColumns layout() {
@@ -580,19 +124,6 @@ public final class DataVariant {
      * v). Cached: specifications with the same usable rows share one.
      */
     public Moments moments(long variables) {
-        long variableMask = variables & everMissing;
-        Moments cached = momentsByVariables.get(variableMask);
-        if (cached != null) {
-            return cached;
-        }
-        BitSet usable = new BitSet(groupMissing.length);
-        for (int g = 0; g < groupMissing.length; g++) {
-            if ((groupMissing[g] & variableMask) == 0) {
-                usable.set(g);
-            }
-        }
-        Moments m = momentsByGroups.computeIfAbsent(usable, u -> new Moments(this, u));
-        momentsByVariables.putIfAbsent(variableMask, m);
-        return m;
+        return statistics.moments(variables);
     }
 }

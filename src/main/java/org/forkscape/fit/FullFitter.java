@@ -3,7 +3,6 @@ package org.forkscape.fit;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
-import org.forkscape.plan.VariableChoice;
 
 /**
  * Fits one specification in full, for the reader who opens it: every coefficient with its standard error
@@ -20,12 +19,11 @@ public final class FullFitter {
     public FullFit fit(Plan plan, Table table, SpecificationModels models, long index) {
         long[] choices = new long[models.space().decisionCount()];
         models.space().decode(index, choices);
-        DataVariant variant = new DataVariant(plan, table, models.layout(),
-                models.variantKey(models.variantOrdinal(choices)));
-        int predictorAt = plan.decisions().indexOf(plan.predictor());
-        VariableChoice key = plan.predictor().alternatives().get((int) choices[predictorAt]);
-        String keyTerm = key.transform() instanceof Transform.Identity ? key.column()
-                : key.transform().spelling() + "(" + key.column() + ")";
+        DataVariant variant = models.variant(models.variantKey(models.variantOrdinal(choices)));
+        CompiledPlan compiled = models.compiled();
+        CompiledPlan.CodedVariable key = compiled.predictors[(int) choices[compiled.predictorAt]];
+        String keyTerm = key.transform() instanceof Transform.Identity ? key.column().name()
+                : key.transform().spelling() + "(" + key.column().name() + ")";
         return fit(variant, models.model(choices), plan.confidence(), keyTerm);
     }
 

@@ -34,10 +34,10 @@ public final class MemoryFootprint {
      * flags, the per-block partial sums of the cross-products, and each worker's copy of a block's rows.
      */
     public static long variantBuild(int rows, int columns, long cells, int threads) {
-        long blocks = Math.max(1, (rows + DataVariant.BLOCK_ROWS - 1L) / DataVariant.BLOCK_ROWS);
+        long blocks = Math.max(1, (rows + CellSums.BLOCK_ROWS - 1L) / CellSums.BLOCK_ROWS);
         long partial = blocks * cells * (columns + 1L) * columns;
-        long partialBytes = blocks > 1 && partial <= DataVariant.MAX_BLOCK_DOUBLES ? DOUBLE * partial : 0;
-        long blockRows = Math.min(rows, DataVariant.BLOCK_ROWS);
+        long partialBytes = blocks > 1 && partial <= CellSums.MAX_BLOCK_DOUBLES ? DOUBLE * partial : 0;
+        long blockRows = Math.min(rows, CellSums.BLOCK_ROWS);
         long copies = Math.min(threads, blocks) * (DOUBLE * columns * blockRows + INT * blockRows);
         return (long) rows * (DOUBLE + INT + 1) + partialBytes + copies;
     }

@@ -6,12 +6,6 @@ import java.util.List;
 import java.util.Map;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
-import org.forkscape.data.Table;
-import org.forkscape.plan.AbsorbChoice;
-import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
-import org.forkscape.plan.Plan;
-import org.forkscape.plan.VariableChoice;
 
 /**
  * The layout shared by every data variant of a plan: the model columns (every outcome and predictor
@@ -28,52 +22,37 @@ public final class ModelColumns {
     private final int[] predictorColumns;
     private final Map<String, int[]> controlColumns = new LinkedHashMap<>();
 
-    public ModelColumns(Plan plan, Table table) {
-        List<VariableChoice> outcomes = plan.outcome().alternatives();
-        List<VariableChoice> predictors = plan.predictor().alternatives();
+    /**
+     * @param outcomes   the column of each outcome alternative
+     * @param predictors the column of each predictor alternative
+     * @param controls   each control once, in plan order
+     * @param clusters   each cluster column once
+     * @param absorbed   each fixed-effect column once
+     */
+    ModelColumns(List<String> outcomes, List<String> predictors, Map<String, Column> controls,
+            List<String> clusters, List<String> absorbed) {
         outcomeColumns = new int[outcomes.size()];
         for (int j = 0; j < outcomes.size(); j++) {
-            outcomeColumns[j] = add(outcomes.get(j).column(), variable("outcome:" + j));
+            outcomeColumns[j] = add(outcomes.get(j), variable("outcome:" + j));
         }
         predictorColumns = new int[predictors.size()];
         for (int j = 0; j < predictors.size(); j++) {
-            predictorColumns[j] = add(predictors.get(j).column(), variable("predictor:" + j));
+            predictorColumns[j] = add(predictors.get(j), variable("predictor:" + j));
         }
-        for (Decision.Controls c : plan.all(Decision.Controls.class)) {
-            List<String> all = new ArrayList<>(c.required());
-            all.addAll(c.optional());
-            if (c.sets() != null) {
-                c.sets().values().forEach(all::addAll);
-            }
-            for (String name : all) {
-                if (controlColumns.containsKey(name)) {
-                    continue;
+        controls.forEach((name, column) -> {
+            int v = variable(name);
+            if (column instanceof CategoricalColumn cat) {
+                int[] cols = new int[Math.max(0, cat.levels().size() - 1)];
+                for (int k = 1; k < cat.levels().size(); k++) {
+                    cols[k - 1] = add(name + "=" + cat.levels().get(k), v);
                 }
-                int v = variable(name);
-                Column column = table.column(name);
-                if (column instanceof CategoricalColumn cat) {
-                    int[] cols = new int[Math.max(0, cat.levels().size() - 1)];
-                    for (int k = 1; k < cat.levels().size(); k++) {
-                        cols[k - 1] = add(name + "=" + cat.levels().get(k), v);
-                    }
-                    controlColumns.put(name, cols);
-                } else {
-                    controlColumns.put(name, new int[] {add(name, v)});
-                }
+                controlColumns.put(name, cols);
+            } else {
+                controlColumns.put(name, new int[] {add(name, v)});
             }
-        }
-        for (Decision.Errors e : plan.all(Decision.Errors.class)) {
-            for (ErrorType t : e.alternatives()) {
-                if (t.kind() == ErrorType.Kind.CLUSTER) {
-                    variable(t.clusterColumn());
-                }
-            }
-        }
-        for (Decision.Absorb a : plan.all(Decision.Absorb.class)) {
-            for (AbsorbChoice choice : a.alternatives()) {
-                choice.columns().forEach(this::variable);
-            }
-        }
+        });
+        clusters.forEach(this::variable);
+        absorbed.forEach(this::variable);
         if (variables.size() > 64) {
             throw new org.forkscape.plan.PlanException("decisions", "uses " + variables.size()
                     + " distinct model variables; at most 64 are supported");

@@ -1,29 +1,63 @@
 package org.forkscape.fit;
 
-import java.util.List;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
-import org.forkscape.plan.Decision;
-import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanException;
 import org.forkscape.plan.SampleRule;
 
-/** Applies a variant's sample decisions, in declared order, to the rows of the table. */
+/**
+ * Which table rows a data variant starts from: those a {@code "missing": "common"} rule keeps, then those its
+ * sample decisions keep, applied in declared order.
+ */
 final class RowSelection {
     private RowSelection() {
     }
 
     /**
-     * Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place).
-     *
-     * @param sampleDecisionIndex position of each sample decision in the plan, for messages
+     * The table rows of the variant {@code key}, ascending. A trim on a column without spread in the rows
+     * kept so far is a {@link PlanException} at the trim's JSON path.
      */
-    static void apply(Plan plan, Table table, int[] sampleDecisionIndex, int[] choices, boolean[] keep) {
-        List<Decision.Sample> samples = plan.all(Decision.Sample.class);
-        for (int s = 0; s < samples.size(); s++) {
-            SampleRule rule = samples.get(s).alternatives().get(choices[s]);
-            String path = "decisions[" + sampleDecisionIndex[s] + "].alternatives[" + choices[s] + "]";
+    static int[] of(CompiledPlan plan, VariantKey key) {
+        int n = plan.table.rowCount();
+        boolean[] keep = new boolean[n];
+        java.util.Arrays.fill(keep, true);
+        if (plan.commonMissing) {
+            for (Column c : plan.rawVariables) {
+                for (int r = 0; r < n; r++) {
+                    if (c.isMissing(r)) {
+                        keep[r] = false;
+                    }
+                }
+            }
+        }
+        apply(plan, key.sampleChoices(), keep);
+        return indicesOf(keep);
+    }
+
+    private static int[] indicesOf(boolean[] keep) {
+        int m = 0;
+        for (boolean k : keep) {
+            if (k) {
+                m++;
+            }
+        }
+        int[] out = new int[m];
+        m = 0;
+        for (int r = 0; r < keep.length; r++) {
+            if (keep[r]) {
+                out[m++] = r;
+            }
+        }
+        return out;
+    }
+
+    /** Rows kept by the chosen sample alternatives, starting from {@code keep} (modified in place). */
+    private static void apply(CompiledPlan plan, int[] choices, boolean[] keep) {
+        Table table = plan.table;
+        for (int s = 0; s < plan.samples.length; s++) {
+            SampleRule rule = plan.samples[s].alternatives().get(choices[s]);
+            String path = "decisions[" + plan.sampleAt[s] + "].alternatives[" + choices[s] + "]";
             if (rule instanceof SampleRule.KeepRows k) {
                 var predicate = k.expression().bind(table, path + ".keep");
                 for (int r = 0; r < keep.length; r++) {

@@ -64,7 +64,7 @@ public final class RunVariants {
         for (int v = 0; v < variantCount; v++) {
             byVariant[v] = new int[perVariant[v]];
             if (perVariant[v] > 0) {
-                variants[v] = new DataVariant(run.plan(), run.table(), m.layout(), m.variantKey(v));
+                variants[v] = m.variant(m.variantKey(v));
             }
             perVariant[v] = 0;
         }

@@ -117,7 +117,7 @@ public final class MultiverseRunner {
                     continue;
                 }
                 checkCancel(cancel);
-                DataVariant variant = new DataVariant(plan, table, models.layout(), models.variantKey(v), pool);
+                DataVariant variant = models.variant(models.variantKey(v), pool);
                 int[] slots = slotsByVariant[v];
                 describeWork(variant, slots, indices, space, models, pool);
                 AtomicInteger next = new AtomicInteger();

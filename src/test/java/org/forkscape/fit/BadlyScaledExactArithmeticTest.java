@@ -85,7 +85,7 @@ class BadlyScaledExactArithmeticTest {
         Table t = sensors();
         Plan plan = new PlanReader(false).read(PLAN, Path.of("."));
         SpecificationModels models = new SpecificationModels(plan, t);
-        DataVariant variant = new DataVariant(plan, t, models.layout(), models.variantKey(0));
+        DataVariant variant = models.variant(models.variantKey(0));
         variant.expect(1L << 40, Map.of("sensor", 1L << 40), 3, null);
         assertTrue(variant.useFourthMoments && variant.usesClusterMoments("sensor"));
         String[] errors = {"classical", "HC0", "HC1", "HC2", "HC3", "cluster:sensor"};

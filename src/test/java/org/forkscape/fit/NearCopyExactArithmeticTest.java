@@ -109,7 +109,7 @@ class NearCopyExactArithmeticTest {
         long[] choices = new long[models.space().decisionCount()];
         double[][] columns = {values(t, "a"), values(t, "b"), values(t, "c")};
         for (int v = 0; v < models.variantCount(); v++) {
-            DataVariant variant = new DataVariant(plan, t, models.layout(), models.variantKey(v));
+            DataVariant variant = models.variant(models.variantKey(v));
             // tell the variant that the moment routes pay, so that only their guards can decline them
             variant.expect(1L << 40, Map.of("site", 1L << 40), 3, null);
             assertEquals(v == 0, variant.useFourthMoments, "fourth moments serve the variant without fixed effects");

@@ -99,11 +99,11 @@ class SandwichRoutesTest {
         Table t = table(3000, 12);
         Plan plan = new PlanReader(false).read(PLAN, Path.of("."));
         SpecificationModels models = new SpecificationModels(plan, t);
-        DataVariant plain = new DataVariant(plan, t, models.layout(), models.variantKey(0));
+        DataVariant plain = models.variant(models.variantKey(0));
         plain.expect(1000, java.util.Map.of("cluster", 1000L), 4, null);
         assertTrue(plain.useFourthMoments, "many HC1 specifications on 3,000 rows: fourth moments pay");
         assertTrue(plain.usesClusterMoments("cluster"));
-        DataVariant absorbed = new DataVariant(plan, t, models.layout(), models.variantKey(1));
+        DataVariant absorbed = models.variant(models.variantKey(1));
         absorbed.expect(1000, java.util.Map.of(), 4, null);
         assertTrue(!absorbed.useFourthMoments, "absorbed fixed effects keep the row pass for HC");
     }

@@ -142,7 +142,7 @@ class ResampledVariantTest {
         Plan plan = Scenarios.plan(PLAN);
         SpecificationModels models = new SpecificationModels(plan, table);
         for (int v = 0; v < models.variantCount(); v++) {
-            DataVariant base = new DataVariant(plan, table, models.layout(), models.variantKey(v));
+            DataVariant base = models.variant(models.variantKey(v));
             boolean[] inVariant = rowsOf(plan, table, models, v);
             Table permuted = permuteKey(table, order, inVariant);
             ResampledVariant rv = new ResampledVariant(base, 2);
@@ -201,7 +201,7 @@ class ResampledVariantTest {
         int compared = 0;
         for (int v = 0; v < models.variantCount(); v++) {
             ResampledVariant rv = new ResampledVariant(
-                    new DataVariant(plan, table, models.layout(), models.variantKey(v)), 2);
+                    models.variant(models.variantKey(v)), 2);
             draw.accept(rv);
             compared += compareVariant(models, expected.results(), rv, v);
         }

@@ -5,7 +5,6 @@ import java.util.List;
 import java.util.Map;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
-import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
@@ -99,7 +98,7 @@ public class PlanService {
         long columns = models.layout().size();
         if ((long) table.rowCount() * columns * columns * models.variantCount() <= VARIANT_CHECK_BUDGET) {
             for (int v = 0; v < models.variantCount(); v++) {
-                new DataVariant(plan, table, models.layout(), models.variantKey(v));
+                models.variant(models.variantKey(v));
             }
         }
         return plan;

@@ -1,0 +1,52 @@
+package org.forkscape.fit;
+
+import java.util.Map;
+
+/**
+ * A variant's coded rows: which table rows it holds, their absorbed fixed-effect levels and missing-pattern
+ * groups, every model column shifted by its level's mean, and the cluster codes. What the passes over rows
+ * read (the QR refit, the sandwich row pass, resampling), and what the sufficient statistics are summed from.
+ */
+final class CodedRows {
+    final ModelColumns layout;
+    final int rows;
+    final int columns;
+    /** The table row of each variant row (null draws reweight and permute rows by their table row). */
+    final int[] tableRows;
+    /** Model column values at the variant's rows, minus the row's level shift; 0 where missing. */
+    final double[][] shifted;
+    /** Fixed-effect level of each row, 0..levels-1 (all 0 without absorption). */
+    final int[] level;
+    final int levels;
+    /** The absorbed fixed-effect column, null when nothing is absorbed. */
+    final String absorbColumn;
+    /** Per level and column: the shift (mean over the level's non-missing rows). */
+    final double[][] levelShift;
+    /** Missing-pattern group of each row. */
+    final int[] group;
+    /** Per group: bit v set when variable v is missing in the group's rows. */
+    final long[] groupMissing;
+    /** Variables missing in at least one row: only these can change a specification's usable rows. */
+    final long everMissing;
+    /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
+    final Map<String, int[]> clusters;
+    final Map<String, Integer> clusterCounts;
+
+    CodedRows(ModelColumns layout, FixedEffectLevels levels, LevelShifts shifts, MissingPatterns patterns,
+            ClusterCodes clusters) {
+        this.layout = layout;
+        this.columns = layout.size();
+        this.rows = levels.tableRows.length;
+        this.tableRows = levels.tableRows;
+        this.level = levels.level;
+        this.levels = levels.levels;
+        this.absorbColumn = levels.column;
+        this.shifted = shifts.shifted;
+        this.levelShift = shifts.levelShift;
+        this.group = patterns.group;
+        this.groupMissing = patterns.groupMissing;
+        this.everMissing = patterns.everMissing;
+        this.clusters = clusters.codes;
+        this.clusterCounts = clusters.counts;
+    }
+}

@@ -1,0 +1,84 @@
+package org.forkscape.fit;
+
+import java.util.Map;
+import java.util.TreeMap;
+import org.forkscape.data.Column;
+
+/**
+ * The absorbed fixed effect over a variant's rows: rows missing its column cannot be in any specification of
+ * the variant and drop out; the others get dense level codes, 0..levels-1 in the order of the column's codes.
+ * Without absorption every row is kept, at level 0.
+ */
+final class FixedEffectLevels {
+    /** The absorbed column's name, null when nothing is absorbed. */
+    final String column;
+    /** The table row of each kept row. */
+    final int[] tableRows;
+    /** The level of each kept row. */
+    final int[] level;
+    final int levels;
+    /** Position of each kept row among the rows it was built from; null when every row is kept. */
+    private final int[] keptAt;
+
+    private FixedEffectLevels(String column, int[] tableRows, int[] level, int levels, int[] keptAt) {
+        this.column = column;
+        this.tableRows = tableRows;
+        this.level = level;
+        this.levels = levels;
+        this.keptAt = keptAt;
+    }
+
+    /** The levels of {@code absorbed} (null for none) at the table rows {@code sampled}. */
+    static FixedEffectLevels of(Column absorbed, int[] sampled) {
+        if (absorbed == null) {
+            return new FixedEffectLevels(null, sampled, new int[sampled.length], 1, null);
+        }
+        int[] codes = LevelCodes.of(absorbed);
+        int m = 0;
+        for (int i = 0; i < sampled.length; i++) {
+            if (codes[sampled[i]] >= 0) {
+                m++;
+            }
+        }
+        int[] keptAt = new int[m];
+        m = 0;
+        for (int i = 0; i < sampled.length; i++) {
+            if (codes[sampled[i]] >= 0) {
+                keptAt[m++] = i;
+            }
+        }
+        int[] kept = new int[keptAt.length];
+        for (int i = 0; i < keptAt.length; i++) {
+            kept[i] = sampled[keptAt[i]];
+        }
+        int[] dense = new int[keptAt.length];
+        Map<Integer, Integer> remap = new TreeMap<>();
+        for (int r : kept) {
+            remap.put(codes[r], 0);
+        }
+        int next = 0;
+        for (Map.Entry<Integer, Integer> e : remap.entrySet()) {
+            e.setValue(next++);
+        }
+        for (int i = 0; i < kept.length; i++) {
+            dense[i] = remap.get(codes[kept[i]]);
+        }
+        return new FixedEffectLevels(absorbed.name(), kept, dense, Math.max(1, next), keptAt);
+    }
+
+    /** Replaces each non-null column of {@code columns} (modified), given over the sampled rows, by its kept rows. */
+    void compact(double[][] columns) {
+        if (keptAt == null) {
+            return;
+        }
+        for (int j = 0; j < columns.length; j++) {
+            if (columns[j] != null) {
+                double[] compact = new double[keptAt.length];
+                for (int i = 0; i < keptAt.length; i++) {
+                    compact[i] = columns[j][keptAt[i]];
+                }
+                columns[j] = compact;
+            }
+        }
+    }
+}

@@ -1,0 +1,36 @@
+package org.forkscape.fit;
+
+import java.util.concurrent.ExecutorService;
+import org.forkscape.data.Column;
+
+/**
+ * Assembles a data variant, one job after another: the table rows it keeps ({@link RowSelection}), the
+ * outcome and predictor alternatives coded over them ({@link ColumnCoding}), the absorbed fixed effect's
+ * levels, which drop rows missing it ({@link FixedEffectLevels}), the controls, the cluster codes
+ * ({@link ClusterCodes}), the missing-pattern groups ({@link MissingPatterns}) and the level shifts
+ * ({@link LevelShifts}): the {@link CodedRows}; then the cell sums of its statistics ({@link CellSums}).
+ */
+final class VariantBuilder {
+    private VariantBuilder() {
+    }
+
+    /**
+     * The variant {@code key} of the compiled plan. Plan errors that only the data reveal (a log of a
+     * non-positive value, a trim on a constant column) are thrown as {@link org.forkscape.plan.PlanException}.
+     *
+     * @param pool where to sum row blocks (the result does not depend on it), or null
+     */
+    static DataVariant build(CompiledPlan plan, VariantKey key, ExecutorService pool) {
+        int[] sampled = RowSelection.of(plan, key);
+        double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()));
+        Column absorbed = key.absorbChoice() < 0 ? null : plan.absorbColumns[key.absorbChoice()];
+        FixedEffectLevels levels = FixedEffectLevels.of(absorbed, sampled);
+        levels.compact(raw);
+        ColumnCoding.controls(plan, levels.tableRows, raw);
+        ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows);
+        MissingPatterns patterns = new MissingPatterns(plan, raw, clusters, levels.tableRows.length);
+        LevelShifts shifts = new LevelShifts(raw, levels);
+        CodedRows coded = new CodedRows(plan.layout, levels, shifts, patterns, clusters);
+        return new DataVariant(coded, new CellSums(coded, pool));
+    }
+}

@@ -1,0 +1,70 @@
+package org.forkscape.fit;
+
+import java.util.BitSet;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.ExecutorService;
+
+/**
+ * A variant's sufficient statistics: the cell sums, and built from them when first asked for and then kept,
+ * the {@link Moments} of each set of usable rows, the per-group fourth-moment tensors and the per-cluster
+ * cells. Safe for concurrent use, and deterministic: a structure is the same numbers whichever thread builds
+ * it.
+ */
+final class VariantStatistics {
+    final CellSums cells;
+    private final DataVariant variant;
+    private final Map<BitSet, Moments> momentsByGroups = new ConcurrentHashMap<>();
+    private final Map<Long, Moments> momentsByVariables = new ConcurrentHashMap<>();
+    private final Map<String, ClusterMoments> clusterMoments = new ConcurrentHashMap<>();
+    private volatile double[][][] groupTensors;
+
+    /** @param variant the variant whose coded rows the structures built later read */
+    VariantStatistics(DataVariant variant, CellSums cells) {
+        this.variant = variant;
+        this.cells = cells;
+    }
+
+    /** See {@link DataVariant#moments(long)}. */
+    Moments moments(long variables) {
+        long[] groupMissing = variant.groupMissing;
+        long variableMask = variables & variant.coded.everMissing;
+        Moments cached = momentsByVariables.get(variableMask);
+        if (cached != null) {
+            return cached;
+        }
+        BitSet usable = new BitSet(groupMissing.length);
+        for (int g = 0; g < groupMissing.length; g++) {
+            if ((groupMissing[g] & variableMask) == 0) {
+                usable.set(g);
+            }
+        }
+        Moments m = momentsByGroups.computeIfAbsent(usable, u -> new Moments(variant, u));
+        momentsByVariables.putIfAbsent(variableMask, m);
+        return m;
+    }
+
+    /** Builds the per-group fourth-moment tensors now, summing on {@code pool} when given. */
+    void buildGroupTensors(ExecutorService pool) {
+        groupTensors = FourthMoments.groupTensors(variant, pool);
+    }
+
+    /** The per-group third and fourth moments, built on first use. */
+    double[][][] groupTensors() {
+        double[][][] t = groupTensors;
+        if (t == null) {
+            synchronized (this) {
+                t = groupTensors;
+                if (t == null) {
+                    t = FourthMoments.groupTensors(variant, null);
+                    groupTensors = t;
+                }
+            }
+        }
+        return t;
+    }
+
+    ClusterMoments clusterMoments(String column) {
+        return clusterMoments.computeIfAbsent(column, c -> ClusterMoments.build(variant, variant.clusters.get(c)));
+    }
+}

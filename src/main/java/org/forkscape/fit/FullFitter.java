@@ -1,6 +1,5 @@
 package org.forkscape.fit;
 
-import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
 
@@ -16,7 +15,7 @@ public final class FullFitter {
     private final ObservedRows rows = new ObservedRows();
 
     /** Fits specification {@code index} (0-based, in the plan's full space) of the plan over its data. */
-    public FullFit fit(Plan plan, Table table, SpecificationModels models, long index) {
+    public FullFit fit(Plan plan, SpecificationModels models, long index) {
         long[] choices = new long[models.space().decisionCount()];
         models.space().decode(index, choices);
         DataVariant variant = models.variant(models.variantKey(models.variantOrdinal(choices)));

@@ -107,7 +107,7 @@ class BadlyScaledExactArithmeticTest {
             ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(regressors.toArray(new double[0][]),
                     values(t, "y"), null, sensor);
             String type = errors[(int) choices[3]];
-            FullFit refit = full.fit(plan, t, models, index);
+            FullFit refit = full.fit(plan, models, index);
             SpecificationModel model = models.model(choices);
             for (SpecificationFitter fitter : new SpecificationFitter[] {new SpecificationFitter(true),
                     new SpecificationFitter(false)}) {

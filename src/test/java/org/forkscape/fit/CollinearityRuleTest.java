@@ -90,7 +90,7 @@ class CollinearityRuleTest {
         int[] station = ((CategoricalColumn) t.column("station")).codes();
         int droppedRounded = 0;
         for (int i = 0; i < run.size(); i++) {
-            FullFit f = full.fit(plan, t, models, run.specIndex(i));
+            FullFit f = full.fit(plan, models, run.specIndex(i));
             String where = "specification " + (i + 1);
             assertEquals(f.status(), run.status(i).startsWith("ok") ? "ok" : run.status(i), where);
             assertEquals(f.nParams(), run.nParams(i), "K, " + where);

@@ -88,7 +88,7 @@ class FullFitterTest {
         Path folder = resources();
         Plan p = new PlanReader(false).read(plan, folder);
         Table table = new CsvTableReader().read(p.dataFile());
-        FullFit fit = new FullFitter().fit(p, table, new SpecificationModels(p, table), 0);
+        FullFit fit = new FullFitter().fit(p, new SpecificationModels(p, table), 0);
         assertFalse(fit.ok());
         assertTrue(fit.coefficients().isEmpty());
         assertTrue(fit.status().startsWith("too few rows"), fit.status());
@@ -104,7 +104,7 @@ class FullFitterTest {
         FullFitter fitter = new FullFitter();
         for (int spec = 0; spec < ERRORS.size(); spec++) {
             String errors = ERRORS.get(spec);
-            FullFit fit = fitter.fit(plan, table, models, spec);
+            FullFit fit = fitter.fit(plan, models, spec);
             assertTrue(fit.ok(), fit.status());
             List<CSVRecord> rows = reference.stream().filter(r -> r.get("errors").equals(errors)).toList();
             CSVRecord first = rows.get(0);

@@ -171,7 +171,7 @@ public class ExploreService {
             throw new InputException("spec", "specification " + spec + " is not among the "
                     + String.format("%,d", result.results().size()) + " this run fitted");
         }
-        FullFit fit = new FullFitter().fit(result.plan(), result.table(), result.models(), index);
+        FullFit fit = new FullFitter().fit(result.plan(), result.models(), index);
         return new ExploreViews.FullFitView(spec, result.plan().confidence(), choices(result, index), fit);
     }
 

@@ -332,7 +332,7 @@ function legend() {
 function wholeRun(summary) {
   const known = new Set(['specifications', 'fitted', 'failed', 'median_estimate', 'share_positive',
     'share_significant_positive', 'share_significant_negative', 'confidence', 'specifications_in_plan', 'sampled',
-    'sample_seed', 'data_rows', 'refit_by_qr', 'seconds']);
+    'sample_seed', 'data_rows', 'refit_by_qr', 'seconds', 'median_mixes_units', 'scales']);
   const box = clear(document.getElementById('whole-run-cards'));
   const card = (label, value, detail) => el('div', { class: 'summary-card' },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));

@@ -58,6 +58,22 @@ export function clear(node) {
 }
 
 /** JSON numbers may arrive as null or as the strings "NaN"/"Infinity" for undefined values. */
+/** Text broken at spaces into lines of at most about `width` characters (for long axis titles). */
+export function wrap(text, width) {
+  const lines = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    if (line && line.length + 1 + word.length > width) {
+      lines.push(line);
+      line = word;
+    } else {
+      line = line ? `${line} ${word}` : word;
+    }
+  }
+  if (line) lines.push(line);
+  return lines;
+}
+
 export function num(x) {
   if (x === null || x === undefined) return NaN;
   return typeof x === 'number' ? x : Number(x);

@@ -1,13 +1,19 @@
 // What happens to the curve: a new set arrives (filter or order changed), or a position is highlighted.
 import { curveData } from './curve-data.js';
 import { xScale } from './highlight.js';
+import { wrap } from '../helpers.js';
 
-export function showSet(chart, state, xTitle) {
-  const shaped = curveData(state.view);
+// a rotated axis title runs along the plot's height; longer units take a second or third line
+const Y_TITLE_CHARACTERS = 40;
+
+export function showSet(chart, state, xTitle, yTitle, withIntervals) {
+  const shaped = curveData(state.view, withIntervals);
   state.shaped = shaped;
   chart.data.datasets = shaped.datasets;
   Object.assign(chart.options.scales.x, xScale(shaped.size));
   chart.options.scales.x.title.text = xTitle;
+  chart.options.scales.y.title.text = wrap(yTitle, Y_TITLE_CHARACTERS);
+  chart.canvas.setAttribute('aria-label', `Each specification's key estimate, ordered; vertical axis: ${yTitle}`);
   // suggested, not fixed: Chart.js then rounds the range out to tidy ticks
   chart.options.scales.y.suggestedMin = shaped.yRange.min;
   chart.options.scales.y.suggestedMax = shaped.yRange.max;

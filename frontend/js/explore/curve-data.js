@@ -1,23 +1,35 @@
 // Shapes the curve part of a /curve answer into Chart.js datasets (points or bins) and the numbers the
-// plugins draw (intervals, reference lines, groups).
+// plugins draw (intervals, reference lines, groups). On a scale without intervals (the t statistic) the
+// answer's interval ends are null and nothing is drawn for them.
 import { PALETTE, SIGNIFICANCE, num } from '../helpers.js';
 
-export function curveData(view) {
+export function curveData(view, withIntervals) {
   const curve = view.curve;
   const size = curve.count;
-  if (curve.mode === 'points') return pointsData(view, size);
-  return binsData(view, size);
+  if (curve.mode === 'points') return pointsData(view, size, withIntervals);
+  return binsData(view, size, withIntervals);
 }
 
-function pointsData(view, size) {
+/** Widens [lo, hi] to a value, ignoring undefined ones. */
+function widen(range, value) {
+  const v = num(value);
+  if (Number.isFinite(v)) {
+    range.lo = Math.min(range.lo, v);
+    range.hi = Math.max(range.hi, v);
+  }
+}
+
+function pointsData(view, size, withIntervals) {
   const p = view.curve.points;
   const byClass = new Map(SIGNIFICANCE.map((s) => [s.value, []]));
-  let lo = 0;
-  let hi = 0;
+  const range = { lo: 0, hi: 0 };
   for (let i = 0; i < size; i++) {
     byClass.get(p.significance[i]).push({ x: i, y: num(p.estimate[i]) });
-    lo = Math.min(lo, num(p.low[i]));
-    hi = Math.max(hi, num(p.high[i]));
+    widen(range, p.estimate[i]);
+    if (withIntervals) {
+      widen(range, p.low[i]);
+      widen(range, p.high[i]);
+    }
   }
   const radius = size <= 150 ? 3.6 : size <= 600 ? 2.8 : size <= 1500 ? 2.1 : 1.6;
   const datasets = SIGNIFICANCE.map((s) => ({
@@ -38,21 +50,24 @@ function pointsData(view, size) {
     mode: 'points',
     size,
     datasets,
-    intervals: { low: p.low, high: p.high, significance: p.significance },
-    yRange: padded(lo, hi),
+    intervals: withIntervals ? { low: p.low, high: p.high, significance: p.significance } : null,
+    yRange: padded(range.lo, range.hi),
   };
 }
 
-function binsData(view, size) {
+function binsData(view, size, withIntervals) {
   const b = view.curve.bins;
   const n = b.from.length;
   const centre = (i) => (b.from[i] + b.to[i] - 1) / 2;
   const series = (values) => Array.from({ length: n }, (_, i) => ({ x: centre(i), y: num(values[i]) }));
-  let lo = 0;
-  let hi = 0;
+  const range = { lo: 0, hi: 0 };
   for (let i = 0; i < n; i++) {
-    lo = Math.min(lo, num(b.low[i]));
-    hi = Math.max(hi, num(b.high[i]));
+    widen(range, b.min[i]);
+    widen(range, b.max[i]);
+    if (withIntervals) {
+      widen(range, b.low[i]);
+      widen(range, b.high[i]);
+    }
   }
   // the bin's dominant class colours its stretch of the median line
   const dominant = Array.from({ length: n }, (_, i) => {
@@ -65,9 +80,12 @@ function binsData(view, size) {
     return 0;
   });
   const line = { showLine: true, pointRadius: 0, parsing: false, normalized: true, borderWidth: 0, tension: 0 };
-  const datasets = [
+  const envelope = withIntervals ? [
     { ...line, label: 'interval envelope, low', data: series(b.low), fill: false, order: 5 },
     { ...line, label: 'interval envelope', data: series(b.high), fill: '-1', backgroundColor: PALETTE.envelope, order: 5 },
+  ] : [];
+  const datasets = [
+    ...envelope,
     { ...line, label: 'lowest estimate', data: series(b.min), fill: false, order: 4 },
     { ...line, label: 'range of estimates', data: series(b.max), fill: '-1', backgroundColor: PALETTE.band, order: 4 },
     {
@@ -84,7 +102,7 @@ function binsData(view, size) {
       order: 1,
     },
   ];
-  return { mode: 'bins', size, datasets, intervals: null, yRange: padded(lo, hi), binWidth: size / n };
+  return { mode: 'bins', size, datasets, intervals: null, yRange: padded(range.lo, range.hi), binWidth: size / n };
 }
 
 function colourOf(value) {

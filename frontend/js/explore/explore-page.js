@@ -1,4 +1,6 @@
-// The explorer page: filter panel, summary cards, curve and choice grid, influence, full fits, exports.
+// The explorer page: scale, filter panel, summary cards, curve and choice grid, influence, full fits, exports.
+// Estimates of different units never share an axis: as fitted, one comparable group (an outcome alternative
+// with a key-predictor alternative) is shown at a time; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
 import { SIGNIFICANCE, PALETTE, append, clear, count, debounce, download, el, fmt, fmtP, num, pct } from '../helpers.js';
@@ -20,14 +22,29 @@ const state = { layout: null, view: null, shaped: null, grid: null, marks: null,
 const influenceState = { influence: null };
 const dropped = new Set();
 let sort = 'estimate';
+let scale = 'fitted';
+let group = null;
 let inFlight = null;
 let detailsFor = null;
 
 const setCount = document.getElementById('set-count');
 
 function query(extra = {}) {
-  const params = new URLSearchParams({ drop: [...dropped].join(','), sort, ...extra });
+  const params = new URLSearchParams({ drop: [...dropped].join(','), sort, scale,
+    ...(scale === 'fitted' && group !== null ? { group } : {}), ...extra });
   return params.toString();
+}
+
+function scaleInfo() {
+  return state.layout.scales.find((s) => s.id === scale);
+}
+
+/** The chosen scale in words: its title and, as fitted with several groups, the group shown. */
+function scaleName() {
+  const info = scaleInfo();
+  if (info.unitFree) return info.title;
+  const g = state.layout.groups[state.view ? state.view.group : group];
+  return state.layout.unitsDiffer ? `as fitted, ${g.outcome} on ${g.predictor}` : 'as fitted';
 }
 
 function confidenceLabel() {
@@ -59,13 +76,12 @@ function onClick(event, _elements, chart) {
 
 function makeCharts() {
   const layout = state.layout;
-  const yTitle = `Estimate: ${layout.keyPredictor} on ${layout.outcome}`;
-  curveChart = new Chart(document.getElementById('curve-canvas'), curveConfig(state, yTitle, onHover, onClick));
+  curveChart = new Chart(document.getElementById('curve-canvas'), curveConfig(state, '', onHover, onClick));
   state.grid = gridRows(layout);
   sizeGrid(document.getElementById('grid-box'), state.grid.rows);
   gridChart = new Chart(document.getElementById('grid-canvas'), gridConfig(state, onHover, onClick));
   influenceChart = new Chart(document.getElementById('influence-canvas'),
-    influenceConfig(influenceState, `Estimate: ${layout.keyPredictor} on ${layout.outcome}`));
+    influenceConfig(influenceState, ''));
   for (const canvas of [curveChart.canvas, gridChart.canvas]) {
     canvas.addEventListener('mouseleave', () => {
       state.highlight = null;
@@ -96,9 +112,11 @@ async function refresh() {
   noDetails();
   const ordered = sort === 'estimate' ? 'ordered by estimate'
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
-  showSet(curveChart, state, `Specifications, ${ordered}`);
+  const interval = scaleInfo().interval;
+  showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
-  showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence);
+  showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
+  scaleNote(view);
   setCount.textContent = `Showing ${count(view.summary.count)} of ${count(view.total)} specifications`
     + (view.summary.count === 0 ? ': no specification is left; tick an alternative again.' : '');
   summaryCards(view.summary);
@@ -112,15 +130,40 @@ function factorName(id) {
   return f.control ? `${f.name} in or out` : f.name;
 }
 
+function scaleNote(view) {
+  const info = scaleInfo();
+  let text = `Shown on the scale ${scaleName()}: the vertical axis is ${view.unit}. `;
+  if (!info.unitFree) {
+    text += state.layout.unitsDiffer
+      ? `The plan codes its outcome or key predictor in several ways, so estimates as fitted come in ${count(
+        state.layout.groups.filter((g) => g.fitted > 0).length)} sets of units; only one comparable group is shown. `
+        + 'Choose another group, or a unit-free scale to see every specification together.'
+      : 'Every specification has the same outcome and key-predictor coding, so their estimates share these units.';
+  } else if (!info.interval) {
+    text += 'The t statistic has no interval: it is itself the test, and a specification is significant where |t| '
+      + 'exceeds its critical value; no extreme bounds either.';
+  } else if (scale === 'partial') {
+    text += 'Each interval is the interval of the estimate mapped through t / \u221a(t\u00b2 + df), so it excludes zero '
+      + 'exactly when the estimate\u2019s interval does.';
+  } else {
+    text += 'Each interval is the interval of the estimate times the specification\u2019s sd(predictor) / sd(outcome).';
+  }
+  document.getElementById('scale-note').textContent = text;
+}
+
 function summaryCards(s) {
   const box = clear(document.getElementById('summary-cards'));
   const alpha = fmt(1 - state.layout.confidence, 2);
+  const bounds = scaleInfo().interval
+    ? `${fmt(s.lowestBound)} to ${fmt(s.highestBound)}` : '\u2013';
   const card = (label, value, detail, id) => el('div', { class: 'summary-card', id },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   append(box,
     card('Specifications', count(s.count), `of ${count(state.view.total)} fitted`, 'card-count'),
-    card('Median estimate', fmt(s.median), `interquartile range ${fmt(s.lowerQuartile)} to ${fmt(s.upperQuartile)}`,
+    card(`Median, ${scaleName()}`, fmt(s.median), `interquartile range ${fmt(s.lowerQuartile)} to ${fmt(s.upperQuartile)}`,
       'card-median'),
+    card(`Extreme bounds, ${scaleName()}`, bounds, scaleInfo().interval
+      ? 'lowest and highest interval bound in the set' : 'no intervals on this scale', 'card-bounds'),
     card('Significant, positive', pct(s.shareSignificantPositive), `p < ${alpha}, estimate above 0`, 'card-positive'),
     card('Significant, negative', pct(s.shareSignificantNegative), `p < ${alpha}, estimate below 0`, 'card-negative'),
     card('Positive estimate', pct(s.sharePositive), `range ${fmt(s.min)} to ${fmt(s.max)}`, 'card-sign'));
@@ -129,14 +172,18 @@ function summaryCards(s) {
 function caption(view) {
   const c = document.getElementById('figure-caption');
   const n = view.curve.count;
+  const interval = scaleInfo().interval;
+  const on = `Scale: ${scaleName()} (${view.unit}). `;
   if (view.curve.mode === 'points') {
-    c.textContent = `Each of the ${count(n)} specifications is one mark: its key estimate with its ${confidenceLabel()} `
-      + 'confidence interval (vertical bar); the solid line is zero and the dashed line the median of the set. Below, '
+    c.textContent = `${on}Each of the ${count(n)} specifications is one mark: its key estimate`
+      + (interval ? ` with its ${confidenceLabel()} confidence interval (vertical bar)` : '')
+      + '; the solid line is zero and the dashed line the median of the set. Below, '
       + 'a mark in a row means the specification uses that alternative or control.';
   } else {
     const per = Math.round(n / view.curve.bins.from.length);
-    c.textContent = `${count(n)} specifications, about ${count(per)} per pixel column: the dark band spans their `
-      + `estimates, the pale band their ${confidenceLabel()} intervals, the line is the median estimate (solid where `
+    c.textContent = `${on}${count(n)} specifications, about ${count(per)} per pixel column: the dark band spans their `
+      + (interval ? `estimates, the pale band their ${confidenceLabel()} intervals, ` : 'estimates, ')
+      + 'the line is the median estimate (solid where '
       + 'most are significant, coloured by sign; dashed where most are not). Below, the shade of a row is the share of '
       + 'the column\u2019s specifications that use the alternative.';
   }
@@ -171,7 +218,11 @@ function showDetails(s) {
     el('p', { class: 'pair', id: 'spec-numbers' },
       `Estimate ${fmt(s.estimate, 4)}, ${confidenceLabel()} interval ${fmt(s.ciLow, 4)} to ${fmt(s.ciHigh, 4)}, `
       + `SE ${fmt(s.stdError, 3)}, p ${fmtP(s.pValue)}, N ${count(s.nObs)}, R\u00b2 ${fmt(s.r2, 3)}`
-      + (s.status !== 'ok' ? `; ${s.status}` : '')));
+      + (s.status !== 'ok' ? `; ${s.status}` : '')),
+    el('p', { class: 'pair', id: 'spec-scales' },
+      `Standardized ${fmt(s.standardized, 4)} (${fmt(s.standardizedLow, 4)} to ${fmt(s.standardizedHigh, 4)}), `
+      + `partial correlation ${fmt(s.partialCorrelation, 4)} (${fmt(s.partialLow, 4)} to ${fmt(s.partialHigh, 4)}), `
+      + `t ${fmt(s.statistic, 4)} on ${fmt(s.df, 6)} df`));
 }
 
 async function openFit(position) {
@@ -305,6 +356,45 @@ function sortSelect(layout) {
   });
 }
 
+function scaleSelect(layout) {
+  const select = document.getElementById('scale');
+  for (const s of layout.scales) {
+    select.append(el('option', { value: s.id }, s.unitFree ? s.title
+      : layout.unitsDiffer ? 'as fitted, one comparable group at a time' : 'as fitted'));
+  }
+  const groups = document.getElementById('group');
+  for (const g of layout.groups) {
+    groups.append(el('option', { value: String(g.id), disabled: g.fitted === 0 },
+      `${g.outcome} on ${g.predictor} (${count(g.fitted)})`));
+  }
+  select.value = scale;
+  groups.value = String(group);
+  select.addEventListener('change', () => {
+    scale = select.value;
+    scaleControls();
+    refresh();
+  });
+  groups.addEventListener('change', () => {
+    group = Number(groups.value);
+    refresh();
+  });
+  scaleControls();
+}
+
+/** As fitted with several groups: the group selector shows, and the group fixes the outcome and coding filters. */
+function scaleControls() {
+  const layout = state.layout;
+  const oneGroup = scale === 'fitted' && layout.unitsDiffer;
+  document.getElementById('group').hidden = !oneGroup;
+  document.getElementById('group-label').hidden = !oneGroup;
+  for (const f of [layout.outcomeFactor, layout.predictorFactor]) {
+    document.querySelectorAll(`input[id^="f${f}-l"]`).forEach((box) => {
+      box.disabled = oneGroup;
+      box.title = oneGroup ? 'fixed by the comparable group shown' : '';
+    });
+  }
+}
+
 function legend() {
   const list = clear(document.getElementById('legend'));
   for (const s of SIGNIFICANCE) {
@@ -332,7 +422,7 @@ function legend() {
 function wholeRun(summary) {
   const known = new Set(['specifications', 'fitted', 'failed', 'median_estimate', 'share_positive',
     'share_significant_positive', 'share_significant_negative', 'confidence', 'specifications_in_plan', 'sampled',
-    'sample_seed', 'data_rows', 'refit_by_qr', 'seconds']);
+    'sample_seed', 'data_rows', 'refit_by_qr', 'seconds', 'median_mixes_units', 'scales']);
   const box = clear(document.getElementById('whole-run-cards'));
   const card = (label, value, detail) => el('div', { class: 'summary-card' },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
@@ -358,7 +448,8 @@ function wholeRun(summary) {
       best.p_adjusted === null ? best.adjustment : 'share of null draws whose smallest p is as small'));
   }
   const bounds = summary.extreme_bounds;
-  if (bounds && typeof bounds === 'object') {
+  // the run's bounds are over every estimate as fitted: shown only when those share their units
+  if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
     box.append(card('Extreme bounds', `${fmt(bounds.lower)} to ${fmt(bounds.upper)}`,
       bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
   }
@@ -414,8 +505,8 @@ function unfitted(layout) {
 function exportPng() {
   const top = curveChart.canvas;
   const bottom = gridChart.canvas;
-  const scale = top.width / top.clientWidth;
-  const band = Math.round(30 * scale);
+  const ratio = top.width / top.clientWidth;
+  const band = Math.round(52 * ratio);
   const canvas = document.createElement('canvas');
   canvas.width = Math.max(top.width, bottom.width);
   canvas.height = band + top.height + bottom.height;
@@ -423,27 +514,29 @@ function exportPng() {
   ctx.fillStyle = PALETTE.paper;
   ctx.fillRect(0, 0, canvas.width, canvas.height);
   // the legend, as on the page, above the panels
-  ctx.font = `${Math.round(12 * scale)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  ctx.font = `${Math.round(12 * ratio)}px ${getComputedStyle(document.documentElement).fontFamily}`;
   ctx.textBaseline = 'middle';
-  let x = Math.round(16 * scale);
-  const y = band / 2;
+  let x = Math.round(16 * ratio);
+  const y = band / 4 + 2 * ratio;
   const entries = SIGNIFICANCE.map((s) => ({ s, text: `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
     + `${fmt(1 - state.layout.confidence, 2)})` }));
   for (const { s, text } of entries) {
-    drawMark(ctx, s.shape, s.filled, s.color, x + 5 * scale, y, 4.5 * scale);
+    drawMark(ctx, s.shape, s.filled, s.color, x + 5 * ratio, y, 4.5 * ratio);
     ctx.fillStyle = PALETTE.ink;
-    ctx.fillText(text, x + 14 * scale, y);
-    x += ctx.measureText(text).width + 34 * scale;
+    ctx.fillText(text, x + 14 * ratio, y);
+    x += ctx.measureText(text).width + 34 * ratio;
   }
   ctx.strokeStyle = PALETTE.neutralSoft;
-  ctx.lineWidth = 2 * scale;
+  ctx.lineWidth = 2 * ratio;
   ctx.beginPath();
-  ctx.moveTo(x + 5 * scale, y - 7 * scale);
-  ctx.lineTo(x + 5 * scale, y + 7 * scale);
+  ctx.moveTo(x + 5 * ratio, y - 7 * ratio);
+  ctx.lineTo(x + 5 * ratio, y + 7 * ratio);
   ctx.stroke();
   ctx.fillStyle = PALETTE.ink;
-  ctx.fillText(`${confidenceLabel()} confidence interval; ${count(state.view.curve.count)} specifications`,
-    x + 14 * scale, y);
+  ctx.fillText(scaleInfo().interval ? `${confidenceLabel()} confidence interval` : 'no interval on this scale',
+    x + 14 * ratio, y);
+  ctx.fillText(`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: ${state.view.unit}`,
+    Math.round(16 * ratio), band * 3 / 4);
   ctx.drawImage(top, 0, band);
   ctx.drawImage(bottom, 0, band + top.height);
   canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');
@@ -454,6 +547,8 @@ function exportPng() {
 async function start() {
   const params = new URLSearchParams(location.search);
   if (params.get('sort')) sort = params.get('sort');
+  if (params.get('scale')) scale = params.get('scale');
+  if (params.get('group')) group = Number(params.get('group'));
   (params.get('drop') || '').split(',').filter(Boolean).forEach((d) => dropped.add(d));
   let layout;
   try {
@@ -463,10 +558,13 @@ async function start() {
     return;
   }
   state.layout = layout;
+  if (!params.get('scale')) scale = layout.defaultScale;
+  if (group === null) group = layout.defaultGroup;
   document.getElementById('run-meta').textContent = `${count(layout.fitted)} specifications fitted`
     + (layout.sampled ? ` (a seeded random sample of the plan's ${count(layout.inPlan)})` : '')
     + (layout.unfitted > 0 ? `, ${count(layout.unfitted)} without an estimate` : '') + '.';
   filterPanel(layout);
+  scaleSelect(layout);
   sortSelect(layout);
   legend();
   wholeRun(layout.summary);

@@ -16,13 +16,27 @@ package org.forkscape.fit;
  * @param modelF        statistic of the overall F test against the intercept-only model, on K - 1 and N - K df
  * @param refitByQr     true when the precision guard refit this specification from its rows
  * @param route         how the standard error was computed
+ * @param sdRatio       sd(key predictor) / sd(outcome) over the rows used, each about its overall mean (with
+ *                      absorbed fixed effects too, as R's {@code sd()} on those rows gives them); NaN without
+ *                      an estimate
  */
 public record KeyFit(double estimate, double stdError, double df, int nObs, int nParams, double r2, double rss,
-        double modelF, FitStatus status, String detail, String note, boolean refitByQr, VarianceRoute route) {
+        double modelF, FitStatus status, String detail, String note, boolean refitByQr, VarianceRoute route,
+        double sdRatio) {
 
     public static KeyFit failed(FitStatus status, String detail, int nObs, int nParams) {
         return new KeyFit(Double.NaN, Double.NaN, Double.NaN, nObs, nParams, Double.NaN, Double.NaN, Double.NaN,
-                status, detail, "", false, VarianceRoute.NONE);
+                status, detail, "", false, VarianceRoute.NONE, Double.NaN);
+    }
+
+    /**
+     * The standardized coefficient, b sd(x) / sd(y) over the specification's own rows: the coefficient of
+     * the same regression with the outcome and the key predictor in standard deviations (Cohen, Cohen,
+     * West &amp; Aiken 2003, Applied Multiple Regression/Correlation Analysis for the Behavioral Sciences,
+     * 3rd ed., Lawrence Erlbaum, chapter 3). NaN without an estimate.
+     */
+    public double standardizedEstimate() {
+        return estimate * sdRatio;
     }
 
     /** The status as written: its sentence, and "; " and the note when there is one. */

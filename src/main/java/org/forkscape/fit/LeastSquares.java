@@ -38,6 +38,8 @@ public final class LeastSquares implements Estimator {
         if (!(mom.totalSquares[y] > 0)) {
             return KeyFit.failed(FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
         }
+        // the n - 1 of both standard deviations cancels in their ratio
+        double sdRatio = Math.sqrt(mom.totalSquares[spec.keyColumn()] / mom.totalSquares[y]);
         KeySolution s = cholesky.solve(mom, cols, y);
         int[] positions;
         boolean refit = s == null;
@@ -73,7 +75,7 @@ public final class LeastSquares implements Estimator {
         if (spec.errors().kind() == ErrorType.Kind.CLASSICAL) {
             double variance = s.rss / dfResidual * s.keyInverseDiagonal();
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
-                    VarianceRoute.CLASSICAL);
+                    VarianceRoute.CLASSICAL, sdRatio);
         }
         RowFreeSandwich.Meat free = data.momentRoutes() ? rowFreeMeat(variant, mom, s, y, spec.errors()) : null;
         if (free != null) {
@@ -81,28 +83,28 @@ public final class LeastSquares implements Estimator {
                 int g = free.clusters();
                 if (g < 2) {
                     return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
-                            FitStatus.ONE_CLUSTER, "", "", refit, free.route());
+                            FitStatus.ONE_CLUSTER, "", "", refit, free.route(), sdRatio);
                 }
                 df = g - 1;
                 double variance = free.value() * g / (g - 1) * (n - 1.0) / (n - k);
                 return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(),
-                        refit, free.route());
+                        refit, free.route(), sdRatio);
             }
             double variance = spec.errors().kind() == ErrorType.Kind.HC1 ? free.value() * n / (n - k) : free.value();
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
-                    free.route());
+                    free.route(), sdRatio);
         }
         KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
         KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
         if (v.failure() != null) {
             return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), v.failureDetail(), "",
-                    refit, VarianceRoute.ROW_PASS);
+                    refit, VarianceRoute.ROW_PASS, sdRatio);
         }
         if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
             df = v.clusters() - 1;
         }
         return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
-                VarianceRoute.ROW_PASS);
+                VarianceRoute.ROW_PASS, sdRatio);
     }
 
     /** Every coefficient from a QR refit of the specification's rows ({@link EveryCoefficient}). */

@@ -47,7 +47,7 @@ public final class PlanReader {
             "absorb", List.of("name", "kind", "alternatives"));
     /** Output columns of specifications.csv that a decision name must not shadow. */
     public static final Set<String> RESERVED_NAMES = Set.of("spec", "estimate", "std_error", "statistic", "df",
-            "p_value", "ci_low", "ci_high", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+            "p_value", "ci_low", "ci_high", "std_estimate", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
     /** Optional controls in one all-subsets decision: 2^40 subsets is beyond any specification cap already. */
     static final int MAX_OPTIONAL_CONTROLS = 40;
 

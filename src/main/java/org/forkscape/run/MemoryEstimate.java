@@ -40,9 +40,9 @@ public final class MemoryEstimate {
      */
     public static final double DEFAULT_HEAP_SHARE = 0.8;
     /** Results per fitted specification: the columns of {@link ResultTable}. */
-    private static final long RESULT_BYTES = 56;
+    private static final long RESULT_BYTES = 64;
     /** With a random sample each result also keeps its specification number. */
-    private static final long SAMPLED_RESULT_BYTES = 64;
+    private static final long SAMPLED_RESULT_BYTES = 72;
     /** The runner's per-specification arrays: the specification numbers, each one's variant and its slot. */
     private static final long RUNNER_BYTES = 16;
     /** A sampled specification number while the sample is drawn (a boxed long in a hash set). */

@@ -9,14 +9,16 @@ import org.forkscape.fit.FitStatus;
 import org.forkscape.fit.KeyFit;
 
 /**
- * The results of a run, one slot per fitted specification, stored column by column: 56 bytes per
- * specification when every specification of the plan is fitted (the index is then the position), 64
- * with a random sample. The t statistic, p-value and interval are derived from these on demand.
+ * The results of a run, one slot per fitted specification, stored column by column: 64 bytes per
+ * specification when every specification of the plan is fitted (the index is then the position), 72
+ * with a random sample. The t statistic, p-value, interval and the other scales' values
+ * ({@link Scale}) are derived from these on demand.
  */
 public final class ResultTable {
     private final int size;
     private final long[] index;
     private final double[] estimate;
+    private final double[] stdEstimate;
     private final double[] stdError;
     private final double[] r2;
     private final double[] rss;
@@ -37,6 +39,7 @@ public final class ResultTable {
         this.size = size;
         this.index = indices;
         estimate = new double[size];
+        stdEstimate = new double[size];
         stdError = new double[size];
         r2 = new double[size];
         rss = new double[size];
@@ -51,6 +54,7 @@ public final class ResultTable {
     /** Stores one fit; safe to call from several threads for distinct slots. */
     public void set(int slot, KeyFit fit) {
         estimate[slot] = fit.estimate();
+        stdEstimate[slot] = fit.standardizedEstimate();
         stdError[slot] = fit.stdError();
         r2[slot] = fit.r2();
         rss[slot] = fit.rss();
@@ -88,6 +92,11 @@ public final class ResultTable {
 
     public double estimate(int slot) {
         return estimate[slot];
+    }
+
+    /** The standardized coefficient, b sd(x) / sd(y) over the specification's rows ({@link KeyFit#standardizedEstimate}). */
+    public double standardizedEstimate(int slot) {
+        return stdEstimate[slot];
     }
 
     public double stdError(int slot) {
@@ -155,6 +164,6 @@ public final class ResultTable {
 
     /** Bytes held per specification by the numeric columns (for the benchmark's storage figure). */
     public int bytesPerSpecification() {
-        return 5 * Double.BYTES + 4 * Integer.BYTES + (index == null ? 0 : Long.BYTES);
+        return 6 * Double.BYTES + 4 * Integer.BYTES + (index == null ? 0 : Long.BYTES);
     }
 }

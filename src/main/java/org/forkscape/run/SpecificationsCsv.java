@@ -11,11 +11,11 @@ import org.forkscape.plan.SpecificationSpace;
 
 /**
  * Writes specifications.csv: one row per specification, a column per decision holding the chosen
- * alternative's label, then the key estimate and the fit statistics. Undefined numbers are empty cells.
+ * alternative's label, then the key estimate, the fit statistics and the standardized estimate. Undefined numbers are empty cells.
  */
 public final class SpecificationsCsv {
     public static final List<String> STAT_COLUMNS = List.of("estimate", "std_error", "statistic", "df", "p_value",
-            "ci_low", "ci_high", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+            "ci_low", "ci_high", "std_estimate", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
 
     private SpecificationsCsv() {
     }
@@ -40,7 +40,7 @@ public final class SpecificationsCsv {
         CSVPrinter csv = CsvCells.printer(stream);
         csv.printRecord(header(decisions).stream().map(SpreadsheetSafe::text).toList());
         long[] choices = new long[decisions.size()];
-        List<String> row = new ArrayList<>(decisions.size() + 14);
+        List<String> row = new ArrayList<>(decisions.size() + 15);
         for (int slot = 0; slot < r.size(); slot++) {
             row.clear();
             long index = r.specIndex(slot);
@@ -57,6 +57,7 @@ public final class SpecificationsCsv {
             row.add(ok ? CsvCells.number(r.pValue(slot)) : "");
             row.add(ok ? CsvCells.number(r.ciLow(slot, confidence)) : "");
             row.add(ok ? CsvCells.number(r.ciHigh(slot, confidence)) : "");
+            row.add(CsvCells.number(r.standardizedEstimate(slot)));
             row.add(Integer.toString(r.nObs(slot)));
             row.add(Integer.toString(r.nParams(slot)));
             row.add(CsvCells.number(r.r2(slot)));

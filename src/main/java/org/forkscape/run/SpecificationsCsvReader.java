@@ -25,7 +25,9 @@ import org.forkscape.plan.Plan;
  * run opens after a restart exactly as it was: numbers are written as the shortest decimal that reads
  * back to the same double, and the t statistic, p-value and interval are derived from the stored
  * estimate, standard error and degrees of freedom just as for a fresh run. The residual sum of squares is
- * not in the file and reads back as NaN; the model F statistic is derived from R-squared.
+ * not in the file and reads back as NaN; the model F statistic is derived from R-squared; the ratio of
+ * standard deviations from the standardized estimate over the estimate (so the standardized estimate
+ * reads back to within rounding, about 1e-16 relative).
  */
 public final class SpecificationsCsvReader {
     private SpecificationsCsvReader() {
@@ -74,7 +76,7 @@ public final class SpecificationsCsvReader {
                 }
                 results.set(i, new KeyFit(c.estimate[i], c.stdError[i], c.df[i], c.nObs[i], c.nParams[i], c.r2[i],
                         Double.NaN, modelF(c.r2[i], c.nObs[i], c.nParams[i]), status.status(), status.detail(), note,
-                        false, VarianceRoute.NONE));
+                        false, VarianceRoute.NONE, c.stdEstimate[i] / c.estimate[i]));
             }
             return new RunResult(plan, table, models, results, 0, Map.of(), seconds);
         } catch (IOException e) {
@@ -87,6 +89,7 @@ public final class SpecificationsCsvReader {
         int size;
         long[] index = new long[1024];
         double[] estimate = new double[1024];
+        double[] stdEstimate = new double[1024];
         double[] stdError = new double[1024];
         double[] df = new double[1024];
         int[] nObs = new int[1024];
@@ -100,6 +103,7 @@ public final class SpecificationsCsvReader {
                 int n = size * 2;
                 index = Arrays.copyOf(index, n);
                 estimate = Arrays.copyOf(estimate, n);
+                stdEstimate = Arrays.copyOf(stdEstimate, n);
                 stdError = Arrays.copyOf(stdError, n);
                 df = Arrays.copyOf(df, n);
                 nObs = Arrays.copyOf(nObs, n);
@@ -111,10 +115,11 @@ public final class SpecificationsCsvReader {
             estimate[size] = number(r.get(from));
             stdError[size] = number(r.get(from + 1));
             df[size] = number(r.get(from + 3));
-            nObs[size] = Integer.parseInt(r.get(from + 7));
-            nParams[size] = Integer.parseInt(r.get(from + 8));
-            r2[size] = number(r.get(from + 9));
-            status[size] = statuses.computeIfAbsent(r.get(from + 12), s -> s);
+            stdEstimate[size] = number(r.get(from + 7));
+            nObs[size] = Integer.parseInt(r.get(from + 8));
+            nParams[size] = Integer.parseInt(r.get(from + 9));
+            r2[size] = number(r.get(from + 10));
+            status[size] = statuses.computeIfAbsent(r.get(from + 13), s -> s);
             size++;
         }
     }

@@ -1,6 +1,8 @@
 package org.forkscape.run;
 
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
+import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 
@@ -12,8 +14,21 @@ public final class SummaryJson {
     private SummaryJson() {
     }
 
+    /** Said under {@code scales}. */
+    public static final String SCALES_NOTE = "Estimates as fitted are in units of their outcome per unit of their "
+            + "key predictor, so they are summarised per comparable group (one outcome alternative with one "
+            + "key-predictor alternative); across groups only the unit-free scales compare. Shares positive and "
+            + "significant are the same on every scale.";
+
     public static Map<String, Object> of(RunResult run, Map<String, Object> sections) {
-        Map<String, Object> m = new LinkedHashMap<>(RunSummary.of(run.results(), run.plan().alpha()).toJson());
+        UnitGroups units = UnitGroups.of(run);
+        Map<String, Object> m = new LinkedHashMap<>();
+        RunSummary.of(run.results(), run.plan().alpha()).toJson().forEach((key, value) -> {
+            m.put(key, value);
+            if (key.equals("median_estimate")) {
+                m.put("median_mixes_units", units.unitsDiffer());
+            }
+        });
         m.put("confidence", run.plan().confidence());
         long inPlan = run.models().space().size();
         m.put("specifications_in_plan", inPlan);
@@ -29,7 +44,48 @@ public final class SummaryJson {
             m.put("standard_error_routes", routes);
         }
         m.put("seconds", Math.round(run.seconds() * 1000) / 1000.0);
+        m.put("scales", scales(run, units));
         m.putAll(sections);
         return m;
+    }
+
+    /** The section {@code scales}: the headline numbers per comparable group and on each unit-free scale. */
+    static Map<String, Object> scales(RunResult run, UnitGroups units) {
+        ResultTable r = run.results();
+        double alpha = run.plan().alpha();
+        List<List<Integer>> byGroup = new ArrayList<>();
+        units.groups().forEach(g -> byGroup.add(new ArrayList<>()));
+        List<Integer> all = new ArrayList<>();
+        for (int slot = 0; slot < r.size(); slot++) {
+            if (r.fitted(slot)) {
+                byGroup.get(units.groupOf(slot)).add(slot);
+                all.add(slot);
+            }
+        }
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("note", SCALES_NOTE);
+        List<Map<String, Object>> groups = new ArrayList<>();
+        for (UnitGroups.Group g : units.groups()) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("group", g.id());
+            e.put("outcome", g.outcome());
+            e.put("predictor", g.predictor());
+            e.put("unit", units.unit(Scale.AS_FITTED, g));
+            e.putAll(ScaleSummary.of(r, slots(byGroup.get(g.id())), Scale.AS_FITTED, alpha).toJson());
+            groups.add(e);
+        }
+        m.put("groups", groups);
+        int[] fitted = slots(all);
+        for (Scale scale : List.of(Scale.STANDARDIZED, Scale.PARTIAL_CORRELATION, Scale.T_STATISTIC)) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("unit", units.unit(scale, null));
+            e.putAll(ScaleSummary.of(r, fitted, scale, alpha).toJson());
+            m.put(scale.name().toLowerCase(Locale.ROOT), e);
+        }
+        return m;
+    }
+
+    private static int[] slots(List<Integer> list) {
+        return list.stream().mapToInt(Integer::intValue).toArray();
     }
 }

@@ -20,7 +20,7 @@ import org.junit.jupiter.api.Test;
  */
 class SummariesTest {
     private static KeyFit fit(double b, double se, int df, int n, int k) {
-        return new KeyFit(b, se, df, n, k, 0.3, 10, 5, FitStatus.OK, "", "", false, VarianceRoute.NONE);
+        return new KeyFit(b, se, df, n, k, 0.3, 10, 5, FitStatus.OK, "", "", false, VarianceRoute.NONE, 1);
     }
 
     private static ResultTable table(KeyFit... fits) {
@@ -111,8 +111,8 @@ class SummariesTest {
     @Test
     void overfittingYardstick() {
         // overall F statistics 0.6 on (2, 17) df and 30 on (2, 97) df: p about 0.56 and below 1e-9
-        ResultTable r = table(new KeyFit(1, 0.5, 17, 20, 3, 0.05, 10, 0.6, FitStatus.OK, "", "", false, VarianceRoute.NONE),
-                new KeyFit(1, 0.5, 97, 100, 3, 0.4, 10, 30, FitStatus.OK, "", "", false, VarianceRoute.NONE));
+        ResultTable r = table(new KeyFit(1, 0.5, 17, 20, 3, 0.05, 10, 0.6, FitStatus.OK, "", "", false, VarianceRoute.NONE, 1),
+                new KeyFit(1, 0.5, 97, 100, 3, 0.4, 10, 30, FitStatus.OK, "", "", false, VarianceRoute.NONE, 1));
         Overfitting small = Overfitting.of(r, 0);
         assertEquals(2.0 / 19, small.r2NullExpectation(), 1e-15);
         assertEquals(20.0 / 3, small.rowsPerCoefficient(), 1e-15);

@@ -244,7 +244,7 @@ class CommonsMathOlsReferenceTest {
         }
     }
 
-    private static double[] column(double[] values, List<Integer> rows) {
+    static double[] column(double[] values, List<Integer> rows) {
         double[] out = new double[rows.size()];
         for (int i = 0; i < out.length; i++) {
             out[i] = values[rows.get(i)];
@@ -253,7 +253,7 @@ class CommonsMathOlsReferenceTest {
     }
 
     /** One 0/1 column per level present in the rows except the first present (the reference level). */
-    private static List<double[]> dummies(int[] codes, List<Integer> rows) {
+    static List<double[]> dummies(int[] codes, List<Integer> rows) {
         TreeSet<Integer> present = new TreeSet<>();
         rows.forEach(i -> present.add(codes[i]));
         present.pollFirst();

@@ -53,6 +53,13 @@ class SpecificationsCsvReaderTest {
             assertEquals(a.nObs(s), b.nObs(s));
             assertEquals(a.nParams(s), b.nParams(s));
             assertEquals(a.estimate(s), b.estimate(s));
+            // the ratio of standard deviations is read back as the written quotient: equal up to its rounding
+            if (Double.isNaN(a.standardizedEstimate(s))) {
+                assertTrue(Double.isNaN(b.standardizedEstimate(s)));
+            } else {
+                assertEquals(a.standardizedEstimate(s), b.standardizedEstimate(s),
+                        4e-16 * Math.abs(a.standardizedEstimate(s)));
+            }
             assertEquals(a.r2(s), b.r2(s));
             // the file keeps the model p-value; the statistic is derived back from R-squared
             if (Double.isNaN(a.modelPValue(s))) {

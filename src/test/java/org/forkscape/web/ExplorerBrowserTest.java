@@ -2,6 +2,7 @@ package org.forkscape.web;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.io.IOException;
@@ -139,7 +140,13 @@ class ExplorerBrowserTest {
         assertEquals("rows", planJson.path("nullCluster").asString());
         click(wait.until(ExpectedConditions.elementToBeClickable(By.id("run-plan"))));
 
-        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
+        // two outcomes times two codings of the key predictor: as fitted, one comparable group at a time
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 32 of 128"));
+        assertEquals("fitted", new Select(driver.findElement(By.id("scale"))).getFirstSelectedOption().getAttribute("value"));
+        assertTrue(driver.findElement(By.id("scale-note")).getText().contains(
+                "the vertical axis is turnout per unit of predictor (hours)"), driver.findElement(By.id("scale-note")).getText());
+        assertTrue(driver.findElement(By.id("curve-canvas")).getAttribute("aria-label")
+                .endsWith("vertical axis: turnout per unit of predictor (hours)"));
         WebElement warning = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("null-draw-warning")));
         assertTrue(warning.getText().startsWith("The null draws resample single rows, as asked, so they split up the "
                 + "clusters of \"district\""), warning.getText());
@@ -172,6 +179,27 @@ class ExplorerBrowserTest {
         driver.findElement(By.id("fit-close")).click();
         wait.until(d -> !d.findElement(By.id("fit-dialog")).isDisplayed());
 
+        String fittedMedian = driver.findElement(By.id("card-median")).getText();
+        assertTrue(fittedMedian.startsWith("Median, as fitted, turnout on hours"), fittedMedian);
+        new Select(driver.findElement(By.id("group"))).selectByVisibleText("turnout change on log hours (32)");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("scale-note"),
+                "the vertical axis is turnout change per unit of predictor (log hours)"));
+        new Select(driver.findElement(By.id("scale"))).selectByValue("standardized");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 128 of 128"));
+        assertTrue(driver.findElement(By.id("scale-note")).getText().contains(
+                "the vertical axis is standard deviations of outcome per standard deviation of predictor"));
+        assertTrue(driver.findElement(By.id("curve-canvas")).getAttribute("aria-label")
+                .endsWith("vertical axis: standard deviations of outcome per standard deviation of predictor"));
+        String standardizedMedian = driver.findElement(By.id("card-median")).getText();
+        assertTrue(standardizedMedian.startsWith("Median, standardized coefficient"), standardizedMedian);
+        assertNotEquals(fittedMedian.split("\n")[1], standardizedMedian.split("\n")[1], "the median follows the scale");
+        assertTrue(!driver.findElement(By.id("group")).isDisplayed(), "no group selector on a unit-free scale");
+        new Select(driver.findElement(By.id("scale"))).selectByValue("t");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("scale-note"), "has no interval"));
+        assertTrue(driver.findElement(By.id("card-bounds")).getText().contains("no intervals on this scale"));
+        new Select(driver.findElement(By.id("scale"))).selectByValue("standardized");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("card-median"), "standardized"));
+
         driver.findElement(By.id("f0-l1")).click();
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 64 of 128"));
         assertTrue(driver.findElement(By.id("card-count")).getText().contains("64"));
@@ -183,7 +211,7 @@ class ExplorerBrowserTest {
         driver.findElement(By.id("export-csv")).click();
         Path exported = waitForFile(TEMP.resolve("downloads").resolve("specifications.csv"));
         List<String> lines = Files.readAllLines(exported, StandardCharsets.UTF_8);
-        assertEquals("spec,outcome,predictor,controls,errors,rows,estimate,std_error,statistic,df,p_value,ci_low,ci_high,"
+        assertEquals("spec,outcome,predictor,controls,errors,rows,estimate,std_error,statistic,df,p_value,ci_low,ci_high,std_estimate,"
                 + "n_obs,n_params,r2,adj_r2,model_p_value,status", lines.get(0));
         assertEquals(129, lines.size());
         driver.findElement(By.id("export-png")).click();
@@ -210,6 +238,8 @@ class ExplorerBrowserTest {
         assertEquals("turnout", new Select(field(wait, "decisions[0].alternatives[0].column")).getFirstSelectedOption()
                 .getAttribute("value"));
         click(driver.findElement(By.id("run-plan")));
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 1,152 of 4,608"));
+        new Select(driver.findElement(By.id("scale"))).selectByValue("partial");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
         new Actions(driver).moveToElement(driver.findElement(By.id("grid-canvas")), 200, 0).perform();

@@ -11,7 +11,8 @@ import org.springframework.web.bind.annotation.RestController;
 
 /**
  * The explorer's data. Every request that depends on the filter takes {@code drop} (the unticked levels,
- * {@code F.L,F.L}) and {@code sort} ({@code estimate} or {@code factor:F}).
+ * {@code F.L,F.L}), {@code sort} ({@code estimate} or {@code factor:F}), {@code scale} ({@code fitted},
+ * {@code standardized}, {@code partial} or {@code t}) and, as fitted, {@code group} (the comparable group).
  */
 @RestController
 @RequestMapping("/api/analyses/{analysis}/runs/{run}")
@@ -34,19 +35,23 @@ class ExploreApiController {
     ExploreViews.CurveView curve(@PathVariable String analysis, @PathVariable String run,
             @RequestParam(name = "drop", defaultValue = "") String drop,
             @RequestParam(name = "sort", defaultValue = "estimate") String sort,
+            @RequestParam(name = "scale", defaultValue = "fitted") String scale,
+            @RequestParam(name = "group", defaultValue = "") String group,
             @RequestParam(name = "width", defaultValue = "1000") int width) {
         StoredAnalysis a = lookup.analysis(analysis);
         StoredRun r = lookup.run(a, run);
-        return explore.curve(a, r, drop, sort, width);
+        return explore.curve(a, r, drop, sort, scale, group, width);
     }
 
     @GetMapping("/at")
     ExploreViews.SpecificationView at(@PathVariable String analysis, @PathVariable String run,
             @RequestParam(name = "position") int position,
             @RequestParam(name = "drop", defaultValue = "") String drop,
-            @RequestParam(name = "sort", defaultValue = "estimate") String sort) {
+            @RequestParam(name = "sort", defaultValue = "estimate") String sort,
+            @RequestParam(name = "scale", defaultValue = "fitted") String scale,
+            @RequestParam(name = "group", defaultValue = "") String group) {
         StoredAnalysis a = lookup.analysis(analysis);
-        return explore.at(a, lookup.run(a, run), drop, sort, position);
+        return explore.at(a, lookup.run(a, run), drop, sort, scale, group, position);
     }
 
     @GetMapping("/specifications/{spec}/fit")

@@ -22,9 +22,11 @@ import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunResult;
 import org.forkscape.run.RunState;
+import org.forkscape.run.Scale;
 import org.forkscape.run.SpecificationsCsvReader;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.StoredRun;
+import org.forkscape.run.UnitGroups;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.run.RunFinished;
@@ -34,10 +36,11 @@ import org.springframework.stereotype.Service;
 import tools.jackson.core.type.TypeReference;
 
 /**
- * Serves finished runs to the explorer. A run is ranked once (from the run that just finished, or read back
- * from its specifications.csv) and kept while in use; each filter and order the browser asks for is then a
- * few columnar passes, and the last few are kept so that hovering, which asks for the specification at a
- * position, does not repeat them.
+ * Serves finished runs to the explorer. A run is ranked once per scale (from the run that just finished,
+ * or read back from its specifications.csv) and kept while in use; each filter and order the browser asks
+ * for is then a few columnar passes, and the last few are kept so that hovering, which asks for the
+ * specification at a position, does not repeat them. As fitted, estimates are shown one comparable group
+ * at a time (an outcome alternative with a key-predictor alternative), never pooled across units.
  */
 @Service
 public class ExploreService {
@@ -52,6 +55,13 @@ public class ExploreService {
     private record View(int[] kept, DisplayOrder order) {
     }
 
+    /** A scale and, as fitted, the one comparable group shown (-1 on a unit-free scale). */
+    record ScaleChoice(Scale scale, int group) {
+        String text() {
+            return scale.word() + (group < 0 ? "" : ":" + group);
+        }
+    }
+
     public ExploreService(Workspace workspace, AnalysisService analyses, InfluenceAnalysis influence,
             ForkscapeSettings settings) {
         this.workspace = workspace;
@@ -64,21 +74,33 @@ public class ExploreService {
     void finished(RunFinished e) {
         RankedRun ranked = RankedRun.of(e.result());
         synchronized (runs) {
-            runs.put(e.analysisId() + "/" + e.runId(), ranked);
+            runs.put(e.analysisId() + "/" + e.runId() + "#" + Scale.AS_FITTED.word(), ranked);
         }
     }
 
-    /** The ranked results of a finished run. */
+    /** The results of a finished run ranked as fitted. */
     public RankedRun ranked(StoredAnalysis analysis, StoredRun run) {
+        return ranked(analysis, run, Scale.AS_FITTED);
+    }
+
+    /** The results of a finished run ranked on a scale. */
+    public RankedRun ranked(StoredAnalysis analysis, StoredRun run, Scale scale) {
         if (run.state() != RunState.FINISHED) {
             throw new RunNotFinishedException("run " + run.id() + " is " + run.state().word()
                     + "; only a finished run can be explored");
         }
-        String key = analysis.id() + "/" + run.id();
+        String key = analysis.id() + "/" + run.id() + "#" + scale.word();
         synchronized (runs) {
             RankedRun cached = runs.get(key);
             if (cached != null) {
                 return cached;
+            }
+            if (scale != Scale.AS_FITTED) {
+                // every scale ranks the same results: read them once
+                RankedRun fitted = ranked(analysis, run, Scale.AS_FITTED);
+                RankedRun ranked = RankedRun.of(fitted.run(), scale);
+                runs.put(key, ranked);
+                return ranked;
             }
             Path folder = workspace.runFolder(analysis.id(), run.id());
             Plan plan = new PlanReader(true).read(workspace.runPlan(analysis.id(), run.id()),
@@ -127,26 +149,39 @@ public class ExploreService {
                 .map(e -> new ExploreViews.ReasonCount(e.getKey(), e.getValue())).toList();
         int unfitted = reasons.stream().mapToInt(ExploreViews.ReasonCount::count).sum();
         long inPlan = r.run().models().space().size();
+        UnitGroups units = r.units();
+        List<ExploreViews.ScaleView> scales = new ArrayList<>();
+        for (Scale s : Scale.values()) {
+            scales.add(new ExploreViews.ScaleView(s.word(), s.title(), s.unitFree(), s.hasInterval(),
+                    s.unitFree() ? units.unit(s, null) : null));
+        }
+        List<ExploreViews.GroupView> groups = units.groups().stream().map(g -> new ExploreViews.GroupView(g.id(),
+                g.outcome(), g.predictor(), g.fitted(), units.unit(Scale.AS_FITTED, g))).toList();
         return new ExploreViews.Layout(analysis.id(), run.id(), analysis.title(), plan.confidence(),
                 plan.outcome().name(), plan.predictor().name(), r.size(), unfitted, inPlan,
-                r.run().results().size() < inPlan, factors, r.gridRows(), required, reasons, summary(analysis, run));
+                r.run().results().size() < inPlan, factors, r.gridRows(), required, reasons, scales, groups,
+                units.unitsDiffer(), Scale.AS_FITTED.word(), units.firstFitted(), factorOfDecision(r, plan.outcome()),
+                factorOfDecision(r, plan.predictor()), summary(analysis, run));
     }
 
-    public ExploreViews.CurveView curve(StoredAnalysis analysis, StoredRun run, String drop, String sort, int width) {
-        RankedRun r = ranked(analysis, run);
-        View view = view(analysis, run, r, drop, sort);
+    public ExploreViews.CurveView curve(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
+            String group, int width) {
+        RankedRun r = ranked(analysis, run, scaleOf(scale));
+        ScaleChoice choice = choice(r, group);
+        View view = view(analysis, run, r, choice, drop, sort);
         Selection selection = Selection.parse(r.factors(), drop);
         boolean grouped = !sortText(sort).equals("estimate");
-        return new ExploreViews.CurveView(r.size(), selection.dropText(), sortText(sort), CurveSummary.of(r, view.kept),
-                influence.of(r, view.kept), grouped ? view.order.groups() : List.of(),
-                CurveReducer.reduce(r, view.order, width));
+        String unit = r.units().unit(choice.scale(), choice.group() < 0 ? null : r.units().groups().get(choice.group()));
+        return new ExploreViews.CurveView(r.size(), selection.dropText(), sortText(sort), choice.scale().word(),
+                choice.group(), unit, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
+                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width));
     }
 
-    /** The specification at a position of the curve under the given filter and order. */
+    /** The specification at a position of the curve under the given filter, order and scale. */
     public ExploreViews.SpecificationView at(StoredAnalysis analysis, StoredRun run, String drop, String sort,
-            int position) {
-        RankedRun r = ranked(analysis, run);
-        View view = view(analysis, run, r, drop, sort);
+            String scale, String group, int position) {
+        RankedRun r = ranked(analysis, run, scaleOf(scale));
+        View view = view(analysis, run, r, choice(r, group), drop, sort);
         if (position < 0 || position >= view.order.size()) {
             throw new InputException("position", "there is no position " + position + " in a set of "
                     + view.order.size() + " specifications (positions start at 0)");
@@ -158,8 +193,54 @@ public class ExploreService {
         long index = t.specIndex(slot);
         return new ExploreViews.SpecificationView(position, index + 1, choices(r.run(), index), t.estimate(slot),
                 t.stdError(slot), t.statistic(slot), t.df(slot), t.pValue(slot), t.ciLow(slot, confidence),
-                t.ciHigh(slot, confidence), t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot),
-                t.modelPValue(slot), t.status(slot));
+                t.ciHigh(slot, confidence), t.standardizedEstimate(slot), Scale.STANDARDIZED.low(t, slot, confidence),
+                Scale.STANDARDIZED.high(t, slot, confidence), Scale.PARTIAL_CORRELATION.value(t, slot),
+                Scale.PARTIAL_CORRELATION.low(t, slot, confidence), Scale.PARTIAL_CORRELATION.high(t, slot, confidence),
+                t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot), t.modelPValue(slot), t.status(slot));
+    }
+
+    private static Scale scaleOf(String word) {
+        if (word == null || word.isBlank()) {
+            return Scale.AS_FITTED;
+        }
+        Scale s = Scale.named(word);
+        if (s == null) {
+            throw new InputException("scale", "\"" + word.strip() + "\" is not a scale; use fitted, standardized, "
+                    + "partial or t");
+        }
+        return s;
+    }
+
+    /**
+     * As fitted, the comparable group shown: the one asked for, or the first with a fitted specification;
+     * on a unit-free scale, none (every group shares the scale).
+     */
+    private static ScaleChoice choice(RankedRun r, String group) {
+        if (r.scale().unitFree()) {
+            return new ScaleChoice(r.scale(), -1);
+        }
+        UnitGroups units = r.units();
+        if (group == null || group.isBlank()) {
+            return new ScaleChoice(r.scale(), units.firstFitted());
+        }
+        int count = units.groups().size();
+        try {
+            int g = Integer.parseInt(group.strip());
+            if (g >= 0 && g < count) {
+                return new ScaleChoice(r.scale(), g);
+            }
+        } catch (NumberFormatException e) {
+            // answered below with the accepted range
+        }
+        throw new InputException("group", "\"" + group.strip() + "\" is not a comparable group of this run; use a "
+                + "number from 0 to " + (count - 1) + " (outcome alternative times key-predictor alternatives, see "
+                + "the layout's groups)");
+    }
+
+    /** The factor of a decision that is one factor (the outcome's, the key predictor's). */
+    private static int factorOfDecision(RankedRun r, Decision decision) {
+        return r.factors().stream().filter(f -> !f.isControl() && f.decision().equals(decision.name()))
+                .mapToInt(Factor::id).findFirst().orElseThrow();
     }
 
     /** Every coefficient of specification {@code spec} (1-based, as in specifications.csv) of the run. */
@@ -175,15 +256,21 @@ public class ExploreService {
         return new ExploreViews.FullFitView(spec, result.plan().confidence(), choices(result, index), fit);
     }
 
-    private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, String drop, String sort) {
+    private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, ScaleChoice choice, String drop,
+            String sort) {
         Selection selection = Selection.parse(r.factors(), drop);
         String order = sortText(sort);
-        String key = analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + order;
+        String key = analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + order + "&" + choice.text();
         synchronized (views) {
             View cached = views.get(key);
             if (cached != null) {
                 return cached;
             }
+        }
+        if (choice.group() >= 0) {
+            UnitGroups.Group g = r.units().groups().get(choice.group());
+            selection = selection.only(factorOfDecision(r, r.run().plan().outcome()), g.outcomeChoice())
+                    .only(factorOfDecision(r, r.run().plan().predictor()), g.predictorChoice());
         }
         int[] kept = SpecificationFilter.keep(r, selection);
         DisplayOrder display = order.equals("estimate") ? DisplayOrder.byEstimate(kept)

@@ -15,12 +15,31 @@ public final class ExploreViews {
      * @param factors   the filterable factors; their ids are the F of {@code drop=F.L}
      * @param gridRows  the choice grid's rows, top to bottom
      * @param required  per controls decision, the controls in every specification
+     * @param scales    the scales the curve can be drawn on
+     * @param groups    the comparable groups of units, the {@code group} of a curve as fitted
+     * @param unitsDiffer whether fitted specifications come from more than one group
+     * @param defaultScale the scale the curve is drawn on when not told
+     * @param defaultGroup the group it shows as fitted when not told: the first with a fitted specification
+     * @param outcomeFactor   the factor whose level a group fixes to its outcome alternative
+     * @param predictorFactor the factor whose level a group fixes to its key-predictor alternative
      * @param summary   the run's summary.json as written (headline numbers and any further sections)
      */
     public record Layout(String analysis, String run, String title, double confidence, String outcome,
             String keyPredictor, int fitted, int unfitted, long inPlan, boolean sampled, List<FactorView> factors,
             List<RankedRun.GridRow> gridRows, Map<String, List<String>> required, List<ReasonCount> unfittedReasons,
-            Map<String, Object> summary) {
+            List<ScaleView> scales, List<GroupView> groups, boolean unitsDiffer, String defaultScale, int defaultGroup,
+            int outcomeFactor, int predictorFactor, Map<String, Object> summary) {
+    }
+
+    /**
+     * A scale: its request word, its title, whether it is common to every group, whether it has intervals,
+     * and (for the common ones) its unit in words.
+     */
+    public record ScaleView(String id, String title, boolean unitFree, boolean interval, String unit) {
+    }
+
+    /** A comparable group: one outcome alternative with one key-predictor alternative, and its unit in words. */
+    public record GroupView(int id, String outcome, String predictor, int fitted, String unit) {
     }
 
     /** A factor and, per level, how many fitted specifications use it. */
@@ -35,20 +54,28 @@ public final class ExploreViews {
      * The set after a filter, drawn in the chosen order.
      *
      * @param total  fitted specifications in the run
+     * @param scale  the scale of every estimate, interval and statistic in the view
+     * @param group  the comparable group shown as fitted, -1 on a unit-free scale
+     * @param unit   one unit of the scale, in words (the y axis)
      * @param groups the curve's groups when grouped by a factor
      */
-    public record CurveView(int total, String drop, String sort, CurveSummary summary, Influence influence,
-            List<DisplayOrder.Group> groups, Curve curve) {
+    public record CurveView(int total, String drop, String sort, String scale, int group, String unit,
+            CurveSummary summary, Influence influence, List<DisplayOrder.Group> groups, Curve curve) {
     }
 
     /** One alternative of one decision as a specification uses it. */
     public record Choice(String decision, String kind, String label) {
     }
 
-    /** The specification at a position of the curve, with the numbers of specifications.csv. */
+    /**
+     * The specification at a position of the curve, with the numbers of specifications.csv and its values
+     * and intervals on the standardized and partial-correlation scales.
+     */
     public record SpecificationView(int position, long spec, List<Choice> choices, double estimate, double stdError,
-            double statistic, double df, double pValue, double ciLow, double ciHigh, int nObs, int nParams, double r2,
-            double adjustedR2, double modelPValue, String status) {
+            double statistic, double df, double pValue, double ciLow, double ciHigh, double standardized,
+            double standardizedLow, double standardizedHigh, double partialCorrelation, double partialLow,
+            double partialHigh, int nObs, int nParams, double r2, double adjustedR2, double modelPValue,
+            String status) {
     }
 
     /** A specification's full fit. */

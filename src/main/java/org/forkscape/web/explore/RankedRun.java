@@ -9,15 +9,21 @@ import org.forkscape.plan.Factor;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunResult;
+import org.forkscape.run.Scale;
+import org.forkscape.run.UnitGroups;
 
 /**
- * A run's fitted specifications in order of their key estimate, column by column, built once per run so
- * that every filter, summary and reduction afterwards is a sequential pass over primitive arrays (no
- * object per specification). Position {@code r} in these arrays is the specification's <em>rank</em>;
- * ties keep the run's order. Immutable after construction and safe to share between requests.
+ * A run's fitted specifications in order of their key estimate on one {@link Scale}, column by column,
+ * built once per run and scale so that every filter, summary and reduction afterwards is a sequential pass
+ * over primitive arrays (no object per specification). Position {@code r} in these arrays is the
+ * specification's <em>rank</em>; ties keep the run's order. "Estimate" below means the value on the
+ * ranking's scale, and the interval is that scale's (NaN on the t scale). Immutable after construction
+ * and safe to share between requests.
  */
 public final class RankedRun {
     private final RunResult run;
+    private final Scale scale;
+    private final UnitGroups units;
     private final int size;
     private final int[] slot;
     private final double[] estimate;
@@ -38,8 +44,10 @@ public final class RankedRun {
     public record GridRow(int factor, int level, String label, String group) {
     }
 
-    private RankedRun(RunResult run) {
+    private RankedRun(RunResult run, Scale scale) {
         this.run = run;
+        this.scale = scale;
+        this.units = UnitGroups.of(run);
         ResultTable r = run.results();
         double confidence = run.plan().confidence();
         double alpha = run.plan().alpha();
@@ -54,7 +62,7 @@ public final class RankedRun {
         }
         this.unfittedReasons = java.util.Collections.unmodifiableMap(reasons);
         this.size = fitted;
-        this.slot = rankOrder(r, fitted);
+        this.slot = rankOrder(r, fitted, scale);
         estimate = new double[size];
         low = new double[size];
         high = new double[size];
@@ -62,10 +70,10 @@ public final class RankedRun {
         significance = new byte[size];
         for (int k = 0; k < size; k++) {
             int s = slot[k];
-            double b = r.estimate(s);
+            double b = scale.value(r, s);
             estimate[k] = b;
-            low[k] = r.ciLow(s, confidence);
-            high[k] = r.ciHigh(s, confidence);
+            low[k] = scale.low(r, s, confidence);
+            high[k] = scale.high(r, s, confidence);
             p[k] = r.pValue(s);
             significance[k] = (byte) (p[k] < alpha ? (b > 0 ? 1 : b < 0 ? -1 : 0) : 0);
         }
@@ -92,20 +100,26 @@ public final class RankedRun {
         this.gridRows = List.copyOf(rows);
     }
 
+    /** Ranked by the estimates as fitted. */
     public static RankedRun of(RunResult run) {
-        return new RankedRun(run);
+        return new RankedRun(run, Scale.AS_FITTED);
+    }
+
+    public static RankedRun of(RunResult run, Scale scale) {
+        return new RankedRun(run, scale);
     }
 
     /**
-     * Fitted slots in order of estimate. Sorting the estimates and placing each slot at its value's first
-     * position plus the ties already placed gives a stable order without boxing a million indices.
+     * Fitted slots in order of their value on the scale. Sorting the values and placing each slot at its
+     * value's first position plus the ties already placed gives a stable order without boxing a million
+     * indices.
      */
-    private static int[] rankOrder(ResultTable r, int fitted) {
+    private static int[] rankOrder(ResultTable r, int fitted, Scale scale) {
         double[] sorted = new double[fitted];
         int m = 0;
         for (int s = 0; s < r.size(); s++) {
             if (r.fitted(s)) {
-                sorted[m++] = r.estimate(s);
+                sorted[m++] = scale.value(r, s);
             }
         }
         Arrays.sort(sorted);
@@ -113,7 +127,7 @@ public final class RankedRun {
         int[] order = new int[fitted];
         for (int s = 0; s < r.size(); s++) {
             if (r.fitted(s)) {
-                int first = firstAtLeast(sorted, r.estimate(s));
+                int first = firstAtLeast(sorted, scale.value(r, s));
                 order[first + placed[first]++] = s;
             }
         }
@@ -136,6 +150,16 @@ public final class RankedRun {
 
     public RunResult run() {
         return run;
+    }
+
+    /** The scale of the estimates and intervals of this ranking. */
+    public Scale scale() {
+        return scale;
+    }
+
+    /** The run's comparable groups of units. */
+    public UnitGroups units() {
+        return units;
     }
 
     /** Number of fitted specifications (the ranks are 0..size-1). */

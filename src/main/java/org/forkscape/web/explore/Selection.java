@@ -46,6 +46,18 @@ public final class Selection {
         return new Selection(copy);
     }
 
+    /** The same selection with every level of the factor but {@code level} dropped. */
+    public Selection only(int factor, int level) {
+        boolean[][] copy = new boolean[allowed.length][];
+        for (int f = 0; f < allowed.length; f++) {
+            copy[f] = allowed[f].clone();
+        }
+        for (int l = 0; l < copy[factor].length; l++) {
+            copy[factor][l] &= l == level;
+        }
+        return new Selection(copy);
+    }
+
     /**
      * Parses the {@code drop} parameter; an empty or missing one allows everything. Unknown factors or
      * levels are an {@link InputException} at {@code drop}.

@@ -79,6 +79,7 @@ class ServerRestartTest {
         String layoutBefore = text(base + "/api/analyses/" + demoId + "/runs/" + demoRun + "/curve?drop=0.1");
 
         refusesWhatItMust(base, demoId, demoRun);
+        answersWhatTheContainerRefusesInPlainWords(port);
         assertListensOnLoopbackOnly(port);
 
         // a run long enough to be caught in the middle: 20,000 rows, row-pass errors, 4,608 specifications
@@ -126,6 +127,32 @@ class ServerRestartTest {
                     "nothing of the server's in the system temporary folder");
         }
         assertTrue(Files.isDirectory(workspace.resolve(".server")));
+    }
+
+    /**
+     * What the servlet container answers itself: an address that is not a valid URL, a method an
+     * address does not take, the error dispatch address asked for directly. Each carries the security
+     * headers, and none is the container's HTML report.
+     */
+    private void answersWhatTheContainerRefusesInPlainWords(int port) throws IOException {
+        String invalid = raw(port, "GET /analyses/%zz HTTP/1.1");
+        assertTrue(invalid.startsWith("HTTP/1.1 400"), invalid);
+        assertTrue(invalid.contains("Content-Security-Policy: default-src 'self'"), invalid);
+        assertTrue(invalid.contains("cannot be served as sent") && !invalid.contains("<html"), invalid);
+        String trace = raw(port, "TRACE / HTTP/1.1");
+        assertTrue(trace.startsWith("HTTP/1.1 405") && trace.contains("Content-Security-Policy: "), trace);
+        String error = raw(port, "GET /error HTTP/1.1");
+        assertTrue(error.startsWith("HTTP/1.1 404") && error.contains("X-Frame-Options: DENY"), error);
+    }
+
+    /** One request as written, on its own connection; the whole answer as text. */
+    private static String raw(int port, String requestLine) throws IOException {
+        try (Socket socket = new Socket(InetAddress.getLoopbackAddress(), port)) {
+            socket.setSoTimeout(10_000);
+            socket.getOutputStream().write((requestLine + "\r\nHost: localhost:" + port + "\r\nConnection: close\r\n\r\n")
+                    .getBytes(java.nio.charset.StandardCharsets.US_ASCII));
+            return new String(socket.getInputStream().readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
+        }
     }
 
     private void refusesWhatItMust(String base, String analysis, String run) throws Exception {

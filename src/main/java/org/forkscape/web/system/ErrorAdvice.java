@@ -90,7 +90,12 @@ class ErrorAdvice {
     }
 
     private static Object answer(HttpServletRequest request, HttpStatus status, String where, String message) {
-        if (request.getRequestURI().startsWith(request.getContextPath() + "/api/")) {
+        return answer(request.getRequestURI().startsWith(request.getContextPath() + "/api/"), status, where, message);
+    }
+
+    /** A problem for the JSON API ({@code api} true) or the error page. */
+    static Object answer(boolean api, HttpStatus status, String where, String message) {
+        if (api) {
             return ResponseEntity.status(status).body(new Problem(where == null ? "" : where, message));
         }
         ModelAndView page = new ModelAndView("error");

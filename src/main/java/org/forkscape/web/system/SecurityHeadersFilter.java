@@ -52,10 +52,7 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
     @Override
     protected void doFilterInternal(HttpServletRequest request, HttpServletResponse response, FilterChain chain)
             throws ServletException, IOException {
-        response.setHeader("Content-Security-Policy", POLICY);
-        response.setHeader("X-Content-Type-Options", "nosniff");
-        response.setHeader("X-Frame-Options", "DENY");
-        response.setHeader("Referrer-Policy", "same-origin");
+        addHeaders(response);
         String host = request.getHeader("Host");
         if (loopbackOnly && host != null && !allowedHosts.contains(hostName(host))) {
             refuse(response, "this server answers only requests addressed to localhost");
@@ -70,6 +67,20 @@ class SecurityHeadersFilter extends OncePerRequestFilter {
             return;
         }
         chain.doFilter(request, response);
+    }
+
+    /** The headers every answer carries, the container's own error reports included. */
+    static void addHeaders(HttpServletResponse response) {
+        response.setHeader("Content-Security-Policy", POLICY);
+        response.setHeader("X-Content-Type-Options", "nosniff");
+        response.setHeader("X-Frame-Options", "DENY");
+        response.setHeader("Referrer-Policy", "same-origin");
+    }
+
+    /** Error dispatches (a method an address does not take, ...) carry the same headers as every answer. */
+    @Override
+    protected boolean shouldNotFilterErrorDispatch() {
+        return false;
     }
 
     /** The Host header, or (HTTP/1.0 clients) the server name and port the request reached. */

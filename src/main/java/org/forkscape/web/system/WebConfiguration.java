@@ -1,5 +1,6 @@
 package org.forkscape.web.system;
 
+import org.apache.catalina.core.StandardHost;
 import org.forkscape.data.CsvLimits;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.explore.InfluenceAnalysis;
@@ -46,7 +47,10 @@ class WebConfiguration {
                 (int) threshold.toBytes());
     }
 
-    /** The embedded server keeps its working files in the workspace, one folder reused at every start. */
+    /**
+     * The embedded server keeps its working files in the workspace, one folder reused at every start, and
+     * answers what it refuses itself in plain words ({@link PlainErrorReport}).
+     */
     @Bean
     WebServerFactoryCustomizer<TomcatServletWebServerFactory> serverFilesInWorkspace(ForkscapeSettings settings) {
         Path folder = settings.workspace().toAbsolutePath().normalize().resolve(Workspace.SERVER_FILES);
@@ -60,6 +64,8 @@ class WebConfiguration {
             }
             factory.setBaseDirectory(folder.toFile());
             factory.setDocumentRoot(documents.toFile());
+            factory.addContextCustomizers(context -> ((StandardHost) context.getParent())
+                    .setErrorReportValveClass(PlainErrorReport.class.getName()));
         };
     }
 

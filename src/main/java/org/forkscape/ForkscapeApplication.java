@@ -4,7 +4,7 @@ import org.forkscape.cli.CommandLine;
 import org.springframework.boot.SpringApplication;
 import org.springframework.boot.autoconfigure.SpringBootApplication;
 
-/** Starts the explorer, or runs a batch command when the first argument names one. */
+/** Starts the explorer when given nothing but its settings ({@code --name=value}); else runs a batch command. */
 @SpringBootApplication
 public class ForkscapeApplication {
     public static void main(String[] args) {

@@ -2,22 +2,34 @@ package org.forkscape.cli;
 
 import java.io.PrintStream;
 import java.io.UncheckedIOException;
+import java.util.Arrays;
+import java.util.Optional;
 import java.util.Set;
 import org.forkscape.InputException;
 
 /**
- * The batch commands. Every problem the user can cause ends with one plain line on stderr and exit
- * code 2; anything else with one line and exit code 1; never a stack trace (set FORKSCAPE_DEBUG=1 to
+ * The batch commands, {@code help} and {@code --version}. Every problem the user can cause ends with one
+ * plain line on stderr (an unknown command adds the usage) and exit code 2; anything else with one line and exit code 1; never a stack trace (set FORKSCAPE_DEBUG=1 to
  * see one).
  */
 public final class CommandLine {
-    public static final Set<String> COMMANDS = Set.of("run", "bench", "demo-data", "help", "--help", "-h");
+    private static final Set<String> HELP = Set.of("help", "--help", "-h");
+    private static final Set<String> VERSION = Set.of("version", "--version");
 
     private CommandLine() {
     }
 
+    /**
+     * Whether the arguments are for a batch command rather than for the web server. The server takes no
+     * arguments or only its settings, each {@code --name=value}; anything else is a command, or a
+     * mistake that {@link #execute} reports, so a typing error never starts the server.
+     */
     public static boolean handles(String[] args) {
-        return args.length > 0 && COMMANDS.contains(args[0]);
+        return Arrays.stream(args).anyMatch(a -> !isServerSetting(a));
+    }
+
+    private static boolean isServerSetting(String argument) {
+        return argument.startsWith("--") && argument.indexOf('=') > 2;
     }
 
     public static int execute(String[] args, PrintStream out, PrintStream err) {
@@ -25,18 +37,54 @@ public final class CommandLine {
             err.println("forkscape: no command given; java -jar forkscape.jar help lists the commands");
             return 2;
         }
+        String command = args[0];
+        if (isServerSetting(command)) {
+            String other = Arrays.stream(args).filter(a -> !isServerSetting(a)).findFirst().orElse(command);
+            return unknown(other, " after the web server's settings (the server takes only --name=value "
+                    + "settings; a command comes first)", err);
+        }
+        if (!(CommandHelp.isCommand(command) || HELP.contains(command) || VERSION.contains(command))) {
+            return unknown(command, "", err);
+        }
         try {
-            switch (args[0]) {
+            if (VERSION.contains(command)) {
+                if (args.length > 1) {
+                    throw new UsageException(command + " takes no arguments; found " + String.join(" ",
+                            Arrays.asList(args).subList(1, args.length)));
+                }
+                out.println("forkscape " + Version.current());
+                return 0;
+            }
+            if (HELP.contains(command)) {
+                if (args.length > 2) {
+                    throw new UsageException(command + " takes at most one command; found " + String.join(" ",
+                            Arrays.asList(args).subList(1, args.length)));
+                }
+                if (args.length == 2) {
+                    Optional<String> help = CommandHelp.of(args[1]);
+                    if (help.isEmpty()) {
+                        return unknown(args[1], "", err);
+                    }
+                    out.println(help.get());
+                    return 0;
+                }
+                out.println(CommandHelp.all());
+                return 0;
+            }
+            if (asksForHelp(args)) {
+                out.println(CommandHelp.of(command).orElseThrow());
+                return 0;
+            }
+            switch (command) {
                 case "run" -> RunCommand.execute(args, out, err);
                 case "bench" -> {
-                    boolean quick = java.util.Arrays.asList(args).contains("--quick");
-                    String[] rest = java.util.Arrays.stream(args).filter(s -> !s.equals("--quick")).toArray(String[]::new);
-                    Arguments a = new Arguments(rest, 1, java.util.Set.of("out"));
+                    boolean quick = Arrays.asList(args).contains("--quick");
+                    String[] rest = Arrays.stream(args).filter(s -> !s.equals("--quick")).toArray(String[]::new);
+                    Arguments a = new Arguments(rest, 1, Set.of("out"));
                     new org.forkscape.bench.BenchmarkCommand(out, java.nio.file.Path.of(
                             a.has("out") ? a.text("out") : "target/bench"), quick).execute();
                 }
-                case "demo-data" -> DemoDataCommand.execute(args, out);
-                default -> out.println(usage());
+                default -> DemoDataCommand.execute(args, out);
             }
             return 0;
         } catch (InputException e) {
@@ -88,21 +136,14 @@ public final class CommandLine {
         return b.toString();
     }
 
-    static String usage() {
-        return String.join("\n",
-                "usage:",
-                "  java -jar forkscape.jar                      start the explorer at http://localhost:8080",
-                "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
-                "                                               [--max-specifications N] [--max-memory SIZE]",
-                "                                               [--null-draws R [--null-method bootstrap|permute]",
-                "                                                [--null-cluster COLUMN|rows] [--max-null-draws N]]",
-                "                                               fit every specification, write",
-                "                                               DIR/specifications.csv and DIR/summary.json",
-                "                                               (with null draws also DIR/null-draws.csv)",
-                "  java -jar forkscape.jar demo-data DIR [--replace yes]",
-                "                                               write the demo's data and plans into DIR",
-                "  java -jar forkscape.jar bench [--quick] [--out DIR]",
-                "                                               time the engine against a per-specification",
-                "                                               refit; figures to DIR (target/bench)");
+    /** {@code --help} or {@code -h} anywhere after the command asks for that command's usage. */
+    private static boolean asksForHelp(String[] args) {
+        return Arrays.stream(args).skip(1).anyMatch(a -> a.equals("--help") || a.equals("-h"));
+    }
+
+    private static int unknown(String command, String after, PrintStream err) {
+        err.println("forkscape: unknown command " + oneLine(InputException.quoted(command)) + after);
+        err.println(CommandHelp.all());
+        return 2;
     }
 }

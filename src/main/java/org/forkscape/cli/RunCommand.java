@@ -84,6 +84,7 @@ final class RunCommand {
         } catch (InputException e) {
             throw located(planName, e);
         }
+        EarlierResultFiles.removeBesides(folder, completed.inference().fileNames());
         RunSummary summary = completed.summary();
         NullDrawResult draws = completed.inference().nullDraws();
         String joint = draws == null ? "" : String.format("; %,d null draws: p(median) = %s, p(share significant) = "

@@ -75,6 +75,14 @@ public final class InferenceSections implements InferenceStage.Outcome {
         return nullDraws == null || nullDraws.warning() == null ? List.of() : List.of(nullDraws.warning());
     }
 
+    /** Every file {@link #writeFiles} may write, whether or not this run writes it. */
+    public static final List<String> FILE_NAMES = List.of(NullDrawsCsv.FILE, OverfittingCsv.FILE);
+
+    /** The files {@link #writeFiles} writes for this run. */
+    public List<String> fileNames() {
+        return nullDraws == null ? List.of(OverfittingCsv.FILE) : FILE_NAMES;
+    }
+
     /** Writes null-draws.csv (when there are draws) and overfitting.csv into the run's folder. */
     @Override
     public void writeFiles(Path folder) {

@@ -1,6 +1,7 @@
 package org.forkscape.run;
 
 import java.nio.file.Path;
+import java.util.List;
 import java.util.Map;
 
 /**
@@ -11,6 +12,8 @@ public final class RunOutputs {
     public static final String SPECIFICATIONS = "specifications.csv";
     public static final String SUMMARY = "summary.json";
     public static final String PLAN = "plan.json";
+    /** The files {@link #write} writes when it is given the plan's text. */
+    public static final List<String> FILES = List.of(SPECIFICATIONS, SUMMARY, PLAN);
 
     private RunOutputs() {
     }

@@ -247,6 +247,40 @@ class CommandLineTest {
     }
 
     @Test
+    void aRerunRemovesTheEarlierRunsResultFilesItDoesNotWriteAndNothingElse() throws IOException {
+        Path out = dir.resolve("rerun");
+        Outcome first = run("run", plan.toString(), "--out", out.toString(), "--null-draws", "20", "--seed", "3");
+        assertEquals(0, first.code(), first.err());
+        try (var files = Files.list(out)) {
+            assertEquals(EarlierResultFiles.NAMES.stream().sorted().toList(),
+                    files.map(f -> f.getFileName().toString()).sorted().toList(), "every file a run writes is listed");
+        }
+        Files.writeString(out.resolve("notes.txt"), "the reviewer's notes\n");
+        Files.createDirectories(out.resolve("older"));
+        Files.writeString(out.resolve("older").resolve("null-draws.csv"), "kept\n");
+        refused(run("run", plan.toString(), "--out", out.toString(), "--sample", "0"), "--sample must be between");
+        assertTrue(Files.exists(out.resolve("null-draws.csv")), "a refused rerun leaves the earlier result whole");
+
+        Outcome second = run("run", plan.toString(), "--out", out.toString());
+        assertEquals(0, second.code(), second.err());
+        try (var files = Files.list(out)) {
+            assertEquals(List.of("notes.txt", "older", "overfitting.csv", "plan.json", "specifications.csv",
+                    "summary.json"), files.map(f -> f.getFileName().toString()).sorted().toList());
+        }
+        assertFalse(JsonMapper.builder().build().readTree(out.resolve("summary.json").toFile()).has("null"));
+        assertEquals("the reviewer's notes\n", Files.readString(out.resolve("notes.txt")));
+        assertEquals("kept\n", Files.readString(out.resolve("older").resolve("null-draws.csv")));
+    }
+
+    @Test
+    void aRerunLeavesAFolderOfAResultFilesNameAlone() throws IOException {
+        Path out = Files.createDirectories(dir.resolve("odd").resolve("null-draws.csv")).getParent();
+        Outcome o = run("run", plan.toString(), "--out", out.toString());
+        assertEquals(0, o.code(), o.err());
+        assertTrue(Files.isDirectory(out.resolve("null-draws.csv")));
+    }
+
+    @Test
     void aMessageQuotingALineBreakStaysOneLine() throws IOException {
         Files.writeString(dir.resolve("wards.csv"), "\"y\nmeasured\",x\n1,2\n3,4\n5,7\n");
         Files.writeString(plan, Files.readString(plan).replace("\"column\": \"y\"", "\"column\": \"y measured\"")

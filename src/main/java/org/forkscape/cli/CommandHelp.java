@@ -1,0 +1,51 @@
+package org.forkscape.cli;
+
+import java.util.LinkedHashMap;
+import java.util.Map;
+import java.util.Optional;
+
+/** The usage of each batch command, and of all of them together, as {@code help} prints it. */
+final class CommandHelp {
+    private static final Map<String, String> COMMANDS = new LinkedHashMap<>();
+
+    static {
+        COMMANDS.put("run", String.join("\n",
+                "  java -jar forkscape.jar run PLAN.json --out DIR [--sample N --seed S] [--threads T]",
+                "                                               [--max-specifications N] [--max-memory SIZE]",
+                "                                               [--null-draws R [--null-method bootstrap|permute]",
+                "                                                [--null-cluster COLUMN|rows] [--max-null-draws N]]",
+                "                                               fit every specification, write",
+                "                                               DIR/specifications.csv, DIR/summary.json,",
+                "                                               DIR/plan.json and DIR/overfitting.csv",
+                "                                               (with null draws also DIR/null-draws.csv)"));
+        COMMANDS.put("demo-data", String.join("\n",
+                "  java -jar forkscape.jar demo-data DIR [--replace yes]",
+                "                                               write the demo's data and plans into DIR"));
+        COMMANDS.put("bench", String.join("\n",
+                "  java -jar forkscape.jar bench [--quick] [--out DIR]",
+                "                                               time the engine against a per-specification",
+                "                                               refit; figures to DIR (target/bench)"));
+    }
+
+    private CommandHelp() {
+    }
+
+    static boolean isCommand(String name) {
+        return COMMANDS.containsKey(name);
+    }
+
+    /** One command's usage, or empty when there is no such command. */
+    static Optional<String> of(String command) {
+        return Optional.ofNullable(COMMANDS.get(command)).map(block -> "usage:\n" + block);
+    }
+
+    static String all() {
+        return String.join("\n",
+                "usage:",
+                "  java -jar forkscape.jar [--name=value ...]   start the explorer at http://localhost:8080",
+                "                                               (settings such as --server.port=8081)",
+                String.join("\n", COMMANDS.values()),
+                "  java -jar forkscape.jar help [COMMAND]       this text, or one command's (also COMMAND --help)",
+                "  java -jar forkscape.jar --version            the version");
+    }
+}

@@ -101,10 +101,6 @@ export function pct(x) {
   return Number.isFinite(v) ? `${Math.round(v * 100)}%` : '\u2013';
 }
 
-export function count(n) {
-  return Number(n).toLocaleString('en');
-}
-
 export function debounce(fn, ms) {
   let timer = null;
   return (...args) => {

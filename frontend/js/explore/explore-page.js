@@ -3,7 +3,8 @@
 // with a key-predictor alternative) is shown at a time; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
-import { SIGNIFICANCE, PALETTE, append, clear, count, debounce, download, el, fmt, fmtP, num, pct } from '../helpers.js';
+import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, fmt, fmtP, num, pct } from '../helpers.js';
+import { count, drawClaim, drawTally } from '../numbers.js';
 import { curveConfig } from './curve-config.js';
 import { showSet, redraw } from './curve-actions.js';
 import { gridRows } from './grid-data.js';
@@ -427,15 +428,21 @@ function wholeRun(summary) {
   const card = (label, value, detail) => el('div', { class: 'summary-card' },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   const nul = summary.null;
+  // runs stored before the tallies were written: each p is exceedances over the draws that were not empty
+  const compared = nul && typeof nul === 'object' ? num(nul.draws) - (num(nul.empty_draws) || 0) : NaN;
+  const tally = (t, p) => t ?? (Number.isFinite(num(p)) && compared > 0
+    ? { exceedances: Math.round(num(p) * compared), draws: compared } : null);
   if (nul && typeof nul === 'object') {
     const unit = nul.resampled === 'clusters' ? `, clusters of ${nul.cluster}`
       : nul.resampled === 'rows' ? ', single rows' : '';
     const draws = `${count(nul.draws)} null draws (${nul.method}${unit})`;
-    if ('p_median' in nul) box.append(card('Joint test: median estimate', `p ${fmtP(nul.p_median)}`, draws));
-    if ('p_share_significant' in nul) {
-      box.append(card('Joint test: share significant', `p ${fmtP(nul.p_share_significant)}`, draws));
+    const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
+    for (const [key, label] of [['median', 'median estimate'], ['share_significant', 'share significant'],
+      ['stouffer', 'mean z (Stouffer)']]) {
+      const t = tally(tests[key], nul[`p_${key}`]);
+      if (t) box.append(card(`Joint test: ${label}`, drawClaim(t.exceedances, t.draws),
+        `${drawTally(t.exceedances, t.draws)}; ${draws}`));
     }
-    if ('p_stouffer' in nul) box.append(card('Joint test: mean z (Stouffer)', `p ${fmtP(nul.p_stouffer)}`, draws));
   }
   const warning = document.getElementById('null-draw-warning');
   warning.textContent = nul && typeof nul.warning === 'string' ? nul.warning : '';
@@ -443,9 +450,9 @@ function wholeRun(summary) {
   const best = summary.best;
   if (best && typeof best === 'object') {
     box.append(card('Smallest p in the set', `p ${fmtP(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
-    box.append(card('The same, adjusted for choosing it',
-      best.p_adjusted === null ? '\u2013' : `p ${fmtP(best.p_adjusted)}`,
-      best.p_adjusted === null ? best.adjustment : 'share of null draws whose smallest p is as small'));
+    const t = tally(best.adjusted_test, best.p_adjusted);
+    box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
+      t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
   }
   const bounds = summary.extreme_bounds;
   // the run's bounds are over every estimate as fitted: shown only when those share their units

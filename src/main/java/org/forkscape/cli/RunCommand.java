@@ -18,6 +18,7 @@ import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
+import org.forkscape.text.HumanNumbers;
 import org.springframework.util.unit.DataSize;
 
 /**
@@ -86,9 +87,9 @@ final class RunCommand {
         }
         RunSummary summary = completed.summary();
         NullDrawResult draws = completed.inference().nullDraws();
-        String joint = draws == null ? "" : String.format("; %,d null draws: p(median) = %s, p(share significant) = "
-                + "%s, p(Stouffer) = %s", draws.drawCount(), p(draws.pMedian(), draws.drawCount()),
-                p(draws.pShareSignificant(), draws.drawCount()), p(draws.pStouffer(), draws.drawCount()));
+        String joint = draws == null ? "" : "; " + HumanNumbers.count(draws.drawCount()) + " null draws: median "
+                + draws.medianTally().text() + ", share significant " + draws.shareSignificantTally().text()
+                + ", Stouffer " + draws.stoufferTally().text();
         out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
                         + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(),
                 completed.result().seconds(), String.format("%.4g", summary.medianEstimate()),
@@ -145,14 +146,6 @@ final class RunCommand {
         } catch (InvalidPathException e) {
             throw new UsageException(what + " \"" + text + "\" is not a usable path");
         }
-    }
-
-    /** A p-value for the one-line result; a share of zero draws means below one over their number. */
-    private static String p(double value, int draws) {
-        if (Double.isNaN(value)) {
-            return "undefined";
-        }
-        return value == 0 ? String.format("< %.2g", 1.0 / draws) : String.format("%.3g", value);
     }
 
     private static InputException located(String planName, InputException e) {

@@ -1,5 +1,47 @@
-// Numbers for people, by the same rules as the server's HumanNumbers: counts with thousands separators,
-// p-values read off null draws with two significant digits and the draws behind them.
+// Numbers for people, by the same rules as the server's HumanNumbers: counts with thousands separators;
+// shares as percentages with one decimal, never 0% or 100% unless exact; other numbers with four
+// significant digits, written out between 1e-4 and 1e6 and as a power of ten beyond; p-values with two
+// significant digits, "< 0.001" below that, and those read off null draws with the draws behind them.
+// Undefined numbers are a dash.
+
+import { num } from './helpers.js';
+
+const DASH = '\u2013';
+const SUPERSCRIPTS = '\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079';
+
+function superscript(exponent) {
+  return (exponent < 0 ? '\u207b' : '') + [...String(Math.abs(exponent))].map((d) => SUPERSCRIPTS[d]).join('');
+}
+
+/** A number with `digits` significant digits, trailing zeros dropped: -0.000203, 4,608, 1, -1.301×10⁻⁵. */
+export function number(x, digits = 4) {
+  const v = num(x);
+  if (!Number.isFinite(v)) return DASH;
+  if (v === 0) return '0';
+  const rounded = Number(v.toPrecision(digits));
+  const size = Math.abs(rounded);
+  if (size >= 1e-4 && size < 1e6) return rounded.toLocaleString('en', { maximumSignificantDigits: digits });
+  const [mantissa, exponent] = v.toExponential(digits - 1).split('e');
+  return `${Number(mantissa)}\u00d710${superscript(Number(exponent))}`;
+}
+
+/** A share as a percentage with one decimal, ".0" dropped; 0% and 100% only when exact, else < 0.1% and > 99.9%. */
+export function share(x) {
+  const v = num(x);
+  if (!Number.isFinite(v)) return DASH;
+  if (v === 0 || v === 1) return v === 0 ? '0%' : '100%';
+  const text = (100 * v).toFixed(1);
+  if (text === '0.0' || text === '-0.0') return '< 0.1%';
+  if (text === '100.0') return '> 99.9%';
+  return `${text.endsWith('.0') ? text.slice(0, -2) : text}%`;
+}
+
+/** A nominal p-value: two significant digits, or "< 0.001", a bound that is true as written. */
+export function pValue(x) {
+  const v = num(x);
+  if (!Number.isFinite(v)) return DASH;
+  return v < 0.001 ? '< 0.001' : twoDigits(v);
+}
 
 /** A whole number with thousands separators: 4,608. */
 export function count(n) {

@@ -90,10 +90,11 @@ final class RunCommand {
         String joint = draws == null ? "" : "; " + HumanNumbers.count(draws.drawCount()) + " null draws: median "
                 + draws.medianTally().text() + ", share significant " + draws.shareSignificantTally().text()
                 + ", Stouffer " + draws.stoufferTally().text();
-        out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
-                        + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(),
-                completed.result().seconds(), String.format("%.4g", summary.medianEstimate()),
-                100 * summary.shareSignificantPositive(), 100 * summary.shareSignificantNegative(), joint, folder);
+        out.printf("fitted %s of %s specifications in %.2f s; median estimate %s; significant: %s positive, "
+                        + "%s negative%s; results in %s%n", HumanNumbers.count(summary.fitted()),
+                HumanNumbers.count(summary.specifications()), completed.result().seconds(),
+                HumanNumbers.number(summary.medianEstimate()), HumanNumbers.share(summary.shareSignificantPositive()),
+                HumanNumbers.share(summary.shareSignificantNegative()), joint, folder);
         for (String warning : completed.inference().warnings()) {
             err.println("forkscape: warning: " + CommandLine.oneLine(warning));
         }

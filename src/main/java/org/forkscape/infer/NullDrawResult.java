@@ -9,10 +9,10 @@ import org.forkscape.run.Json;
  * The null draws of a run: the observed curve's statistics, each draw's, and the p-values. A p-value
  * is the share of draws whose statistic is at least as extreme as the observed one, over the draws in
  * which at least one specification could be fitted; a share of 0 is reported as below 1 / (draws + 1)
- * (see {@link DrawTally}). Because the dominant sign
- * is read from the data rather than declared in advance, each statistic is computed the same way on
- * every draw (its own median, its own dominant sign) and the median and the mean score are compared in
- * absolute value: the tests are two-sided and keep their level.
+ * (see {@link DrawTally}). Because the dominant sign is read from the data rather than declared in
+ * advance, each statistic is computed the same way on every draw (its own median, its own dominant sign)
+ * and the median and the mean score are compared in absolute value: the tests are two-sided and keep
+ * their level.
  */
 public final class NullDrawResult {
     private final NullDrawSettings settings;
@@ -82,6 +82,7 @@ public final class NullDrawResult {
         return medianTally().p();
     }
 
+    /** The draws behind {@link #pMedian}. */
     public DrawTally medianTally() {
         return tally(c -> Math.abs(c.median()) >= Math.abs(observed.median()));
     }
@@ -91,6 +92,7 @@ public final class NullDrawResult {
         return shareSignificantTally().p();
     }
 
+    /** The draws behind {@link #pShareSignificant}. */
     public DrawTally shareSignificantTally() {
         return tally(c -> c.shareSignificant() >= observed.shareSignificant());
     }
@@ -100,6 +102,7 @@ public final class NullDrawResult {
         return stoufferTally().p();
     }
 
+    /** The draws behind {@link #pStouffer}. */
     public DrawTally stoufferTally() {
         return tally(c -> Math.abs(c.meanZ()) >= Math.abs(observed.meanZ()));
     }
@@ -112,6 +115,7 @@ public final class NullDrawResult {
         return minPAdjustedTally(nominal).p();
     }
 
+    /** The draws behind {@link #minPAdjusted}. */
     public DrawTally minPAdjustedTally(double nominal) {
         return tally(c -> c.minP() <= nominal);
     }

@@ -1,4 +1,4 @@
-// Shared helpers for every page: the palette, DOM building (text only, never HTML), number formats.
+// Shared helpers for every page: the palette, DOM building (text only, never HTML); number formats are in numbers.js.
 
 // Okabe & Ito (2008), "Color Universal Design": hues that stay distinct under the common colour-vision
 // deficiencies. Significance is also carried by shape and fill, so the figure reads in greyscale.
@@ -57,7 +57,6 @@ export function clear(node) {
   return node;
 }
 
-/** JSON numbers may arrive as null or as the strings "NaN"/"Infinity" for undefined values. */
 /** Text broken at spaces into lines of at most about `width` characters (for long axis titles). */
 export function wrap(text, width) {
   const lines = [];
@@ -74,35 +73,10 @@ export function wrap(text, width) {
   return lines;
 }
 
+/** JSON numbers may arrive as null or as the strings "NaN"/"Infinity" for undefined values. */
 export function num(x) {
   if (x === null || x === undefined) return NaN;
   return typeof x === 'number' ? x : Number(x);
-}
-
-/** A number with `digits` significant digits, or a dash when undefined. */
-export function fmt(x, digits = 3) {
-  const v = num(x);
-  if (!Number.isFinite(v)) return '\u2013';
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e6 || a < 1e-4) return v.toExponential(digits - 1);
-  return Number(v.toPrecision(digits)).toLocaleString('en', { maximumSignificantDigits: digits });
-}
-
-/** p-values: three decimals, or "< 0.001". */
-export function fmtP(x) {
-  const v = num(x);
-  if (!Number.isFinite(v)) return '\u2013';
-  return v < 0.001 ? '< 0.001' : v.toFixed(3);
-}
-
-export function pct(x) {
-  const v = num(x);
-  return Number.isFinite(v) ? `${Math.round(v * 100)}%` : '\u2013';
-}
-
-export function count(n) {
-  return Number(n).toLocaleString('en');
 }
 
 export function debounce(fn, ms) {

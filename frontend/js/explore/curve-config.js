@@ -1,7 +1,8 @@
 // Presentation of the curve: axes, reference lines, interval bars, group separators. No data here; the
 // plugins read the shared state that curve-actions.js fills.
 import { LEFT_AXIS, RIGHT_PAD } from '../chart-setup.js';
-import { PALETTE, SIGNIFICANCE, fmt, num } from '../helpers.js';
+import { PALETTE, SIGNIFICANCE, num } from '../helpers.js';
+import { number } from '../numbers.js';
 import { highlightPlugin, positionTicks, xScale } from './highlight.js';
 
 /** Vertical interval bars under the points, in a softer tone of each point's class. */
@@ -62,7 +63,7 @@ function referencePlugin(state) {
           ctx.font = `12px ${chart.options.font?.family || 'sans-serif'}`;
           ctx.textAlign = 'left';
           ctx.textBaseline = 'bottom';
-          ctx.fillText(`median ${fmt(median)}`, chartArea.left + 6, py - 3);
+          ctx.fillText(`median ${number(median)}`, chartArea.left + 6, py - 3);
           ctx.restore();
         }
       }

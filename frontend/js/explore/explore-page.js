@@ -3,7 +3,8 @@
 // with a key-predictor alternative) is shown at a time; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
-import { SIGNIFICANCE, PALETTE, append, clear, count, debounce, download, el, fmt, fmtP, num, pct } from '../helpers.js';
+import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num } from '../helpers.js';
+import { count, drawClaim, drawTally, number, pValue, share } from '../numbers.js';
 import { curveConfig } from './curve-config.js';
 import { showSet, redraw } from './curve-actions.js';
 import { gridRows } from './grid-data.js';
@@ -153,20 +154,20 @@ function scaleNote(view) {
 
 function summaryCards(s) {
   const box = clear(document.getElementById('summary-cards'));
-  const alpha = fmt(1 - state.layout.confidence, 2);
+  const alpha = number(1 - state.layout.confidence, 2);
   const bounds = scaleInfo().interval
-    ? `${fmt(s.lowestBound)} to ${fmt(s.highestBound)}` : '\u2013';
+    ? `${number(s.lowestBound)} to ${number(s.highestBound)}` : '\u2013';
   const card = (label, value, detail, id) => el('div', { class: 'summary-card', id },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   append(box,
     card('Specifications', count(s.count), `of ${count(state.view.total)} fitted`, 'card-count'),
-    card(`Median, ${scaleName()}`, fmt(s.median), `interquartile range ${fmt(s.lowerQuartile)} to ${fmt(s.upperQuartile)}`,
+    card(`Median, ${scaleName()}`, number(s.median), `interquartile range ${number(s.lowerQuartile)} to ${number(s.upperQuartile)}`,
       'card-median'),
     card(`Extreme bounds, ${scaleName()}`, bounds, scaleInfo().interval
       ? 'lowest and highest interval bound in the set' : 'no intervals on this scale', 'card-bounds'),
-    card('Significant, positive', pct(s.shareSignificantPositive), `p < ${alpha}, estimate above 0`, 'card-positive'),
-    card('Significant, negative', pct(s.shareSignificantNegative), `p < ${alpha}, estimate below 0`, 'card-negative'),
-    card('Positive estimate', pct(s.sharePositive), `range ${fmt(s.min)} to ${fmt(s.max)}`, 'card-sign'));
+    card('Significant, positive', share(s.shareSignificantPositive), `p < ${alpha}, estimate above 0`, 'card-positive'),
+    card('Significant, negative', share(s.shareSignificantNegative), `p < ${alpha}, estimate below 0`, 'card-negative'),
+    card('Positive estimate', share(s.sharePositive), `range ${number(s.min)} to ${number(s.max)}`, 'card-sign'));
 }
 
 function caption(view) {
@@ -216,13 +217,13 @@ function showDetails(s) {
       ` (position ${count(s.position + 1)} of ${count(state.view.curve.count)}) `, open),
     el('dl', {}, s.choices.map((c) => el('div', {}, el('dt', {}, `${c.decision}:`), el('dd', {}, c.label)))),
     el('p', { class: 'pair', id: 'spec-numbers' },
-      `Estimate ${fmt(s.estimate, 4)}, ${confidenceLabel()} interval ${fmt(s.ciLow, 4)} to ${fmt(s.ciHigh, 4)}, `
-      + `SE ${fmt(s.stdError, 3)}, p ${fmtP(s.pValue)}, N ${count(s.nObs)}, R\u00b2 ${fmt(s.r2, 3)}`
+      `Estimate ${number(s.estimate, 4)}, ${confidenceLabel()} interval ${number(s.ciLow, 4)} to ${number(s.ciHigh, 4)}, `
+      + `SE ${number(s.stdError, 3)}, p ${pValue(s.pValue)}, N ${count(s.nObs)}, R\u00b2 ${number(s.r2, 3)}`
       + (s.status !== 'ok' ? `; ${s.status}` : '')),
     el('p', { class: 'pair', id: 'spec-scales' },
-      `Standardized ${fmt(s.standardized, 4)} (${fmt(s.standardizedLow, 4)} to ${fmt(s.standardizedHigh, 4)}), `
-      + `partial correlation ${fmt(s.partialCorrelation, 4)} (${fmt(s.partialLow, 4)} to ${fmt(s.partialHigh, 4)}), `
-      + `t ${fmt(s.statistic, 4)} on ${fmt(s.df, 6)} df`));
+      `Standardized ${number(s.standardized, 4)} (${number(s.standardizedLow, 4)} to ${number(s.standardizedHigh, 4)}), `
+      + `partial correlation ${number(s.partialCorrelation, 4)} (${number(s.partialLow, 4)} to ${number(s.partialHigh, 4)}), `
+      + `t ${number(s.statistic, 4)} on ${number(s.df, 6)} df`));
 }
 
 async function openFit(position) {
@@ -255,16 +256,16 @@ function fitBody(body, view) {
     .map((h) => el('th', { scope: 'col' }, h)));
   const rows = f.coefficients.map((c) => el('tr', { class: c.role === 'key' ? 'key-row' : null },
     el('th', { scope: 'row' }, c.role === 'key' ? `${c.term} (key predictor)` : c.term),
-    ...[fmt(c.estimate, 5), fmt(c.stdError, 4), fmt(c.statistic, 3), fmtP(c.pValue), fmt(c.ciLow, 4),
-      fmt(c.ciHigh, 4)].map((v) => el('td', { class: 'num' }, v))));
+    ...[number(c.estimate, 5), number(c.stdError, 4), number(c.statistic, 3), pValue(c.pValue), number(c.ciLow, 4),
+      number(c.ciHigh, 4)].map((v) => el('td', { class: 'num' }, v))));
   append(body,
     el('div', { class: 'table-scroll' }, el('table', { class: 'fit-table', id: 'fit-table' },
       el('caption', { class: 'visually-hidden' }, 'Coefficients'), el('thead', {}, head), el('tbody', {}, rows))),
     el('div', { class: 'fit-facts' },
       el('p', {}, `Standard errors: ${f.errors}`),
-      el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}, df = ${fmt(f.df, 6)}`),
-      el('p', {}, `R\u00b2 = ${fmt(f.r2, 4)}, adjusted R\u00b2 = ${fmt(f.adjustedR2, 4)}`),
-      el('p', {}, `Model F = ${fmt(f.modelF, 4)}, p ${fmtP(f.modelPValue)}`),
+      el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}, df = ${number(f.df, 6)}`),
+      el('p', {}, `R\u00b2 = ${number(f.r2, 4)}, adjusted R\u00b2 = ${number(f.adjustedR2, 4)}`),
+      el('p', {}, `Model F = ${number(f.modelF, 4)}, p ${pValue(f.modelPValue)}`),
       f.absorbed ? el('p', {}, `Fixed effects of ${f.absorbed} absorbed (${count(f.absorbedLevels)} levels)`) : null,
       f.clusters > 0 ? el('p', {}, `${count(f.clusters)} clusters`) : null,
       f.note ? el('p', {}, f.note) : null));
@@ -404,7 +405,7 @@ function legend() {
     const ctx = canvas.getContext('2d');
     drawMark(ctx, s.shape, s.filled, s.color, 14, 15, 8);
     list.append(el('li', {}, canvas, `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-      + `${fmt(1 - state.layout.confidence, 2)})`));
+      + `${number(1 - state.layout.confidence, 2)})`));
   }
   const bar = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
   bar.style.width = '14px';
@@ -427,30 +428,36 @@ function wholeRun(summary) {
   const card = (label, value, detail) => el('div', { class: 'summary-card' },
     el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   const nul = summary.null;
+  // runs stored before the tallies were written: each p is exceedances over the draws that were not empty
+  const compared = nul && typeof nul === 'object' ? num(nul.draws) - (num(nul.empty_draws) || 0) : NaN;
+  const tally = (t, p) => t ?? (Number.isFinite(num(p)) && compared > 0
+    ? { exceedances: Math.round(num(p) * compared), draws: compared } : null);
   if (nul && typeof nul === 'object') {
     const unit = nul.resampled === 'clusters' ? `, clusters of ${nul.cluster}`
       : nul.resampled === 'rows' ? ', single rows' : '';
     const draws = `${count(nul.draws)} null draws (${nul.method}${unit})`;
-    if ('p_median' in nul) box.append(card('Joint test: median estimate', `p ${fmtP(nul.p_median)}`, draws));
-    if ('p_share_significant' in nul) {
-      box.append(card('Joint test: share significant', `p ${fmtP(nul.p_share_significant)}`, draws));
+    const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
+    for (const [key, label] of [['median', 'median estimate'], ['share_significant', 'share significant'],
+      ['stouffer', 'mean z (Stouffer)']]) {
+      const t = tally(tests[key], nul[`p_${key}`]);
+      if (t) box.append(card(`Joint test: ${label}`, drawClaim(t.exceedances, t.draws),
+        `${drawTally(t.exceedances, t.draws)}; ${draws}`));
     }
-    if ('p_stouffer' in nul) box.append(card('Joint test: mean z (Stouffer)', `p ${fmtP(nul.p_stouffer)}`, draws));
   }
   const warning = document.getElementById('null-draw-warning');
   warning.textContent = nul && typeof nul.warning === 'string' ? nul.warning : '';
   warning.hidden = warning.textContent === '';
   const best = summary.best;
   if (best && typeof best === 'object') {
-    box.append(card('Smallest p in the set', `p ${fmtP(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
-    box.append(card('The same, adjusted for choosing it',
-      best.p_adjusted === null ? '\u2013' : `p ${fmtP(best.p_adjusted)}`,
-      best.p_adjusted === null ? best.adjustment : 'share of null draws whose smallest p is as small'));
+    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
+    const t = tally(best.adjusted_test, best.p_adjusted);
+    box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
+      t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
   }
   const bounds = summary.extreme_bounds;
   // the run's bounds are over every estimate as fitted: shown only when those share their units
   if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
-    box.append(card('Extreme bounds', `${fmt(bounds.lower)} to ${fmt(bounds.upper)}`,
+    box.append(card('Extreme bounds', `${number(bounds.lower)} to ${number(bounds.upper)}`,
       bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
   }
   const shown = new Set(['null', 'best', 'extreme_bounds', 'influence', 'influence_overall']);
@@ -460,7 +467,7 @@ function wholeRun(summary) {
     if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
     const rows = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object')
       .map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, k.replaceAll('_', ' ')),
-        el('td', {}, typeof v === 'number' ? fmt(v, 4) : String(v ?? '\u2013'))));
+        el('td', {}, typeof v === 'number' ? number(v, 4) : String(v ?? '\u2013'))));
     more.append(el('table', { class: 'sections-table' }, el('caption', {}, key.replaceAll('_', ' ')),
       el('tbody', {}, rows)));
   }
@@ -476,18 +483,18 @@ function influenceTable(influence) {
     `Significant in the dominant sign (${influence.dominantSign}) by alternative`]
     .map((h) => el('th', { scope: 'col' }, h)));
   const rows = influence.factors.map((f) => {
-    const share = num(f.varianceShare);
+    const variance = num(f.varianceShare);
     const bar = el('span', { class: 'share-bar', 'aria-hidden': 'true' });
-    bar.style.width = `${Math.max(0, Math.min(1, Number.isFinite(share) ? share : 0)) * 80}px`;
+    bar.style.width = `${Math.max(0, Math.min(1, Number.isFinite(variance) ? variance : 0)) * 80}px`;
     return el('tr', {},
       el('th', { scope: 'row' }, f.name === f.decision ? f.name : `${f.name} (${f.decision})`),
-      el('td', { class: 'num' }, bar, pct(share)),
-      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${fmt(l.median)} (${fmt(l.lowerQuartile)} to `
-        + `${fmt(l.upperQuartile)}), ${count(l.count)}`))),
-      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${pct(l.shareSignificant)}`))));
+      el('td', { class: 'num' }, bar, share(variance)),
+      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${number(l.median)} (${number(l.lowerQuartile)} to `
+        + `${number(l.upperQuartile)}), ${count(l.count)}`))),
+      el('td', {}, f.levels.map((l) => el('div', {}, `${l.label}: ${share(l.shareSignificant)}`))));
   });
   rows.push(el('tr', {}, el('th', { scope: 'row' }, 'Interactions (the rest)'),
-    el('td', { class: 'num' }, pct(influence.interactions)), el('td', {}), el('td', {})));
+    el('td', { class: 'num' }, share(influence.interactions)), el('td', {}), el('td', {})));
   box.append(el('table', { class: 'influence-table', id: 'influence-factors' },
     el('caption', { class: 'visually-hidden' }, 'Influence of each decision'), el('thead', {}, head),
     el('tbody', {}, rows)));
@@ -519,7 +526,7 @@ function exportPng() {
   let x = Math.round(16 * ratio);
   const y = band / 4 + 2 * ratio;
   const entries = SIGNIFICANCE.map((s) => ({ s, text: `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-    + `${fmt(1 - state.layout.confidence, 2)})` }));
+    + `${number(1 - state.layout.confidence, 2)})` }));
   for (const { s, text } of entries) {
     drawMark(ctx, s.shape, s.filled, s.color, x + 5 * ratio, y, 4.5 * ratio);
     ctx.fillStyle = PALETTE.ink;

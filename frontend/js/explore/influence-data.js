@@ -1,14 +1,14 @@
 // Shapes the influence part of a /curve answer: a header row per factor, a row per level with its
 // quartiles, and the range that holds them all.
-import { num, pct } from '../helpers.js';
+import { num } from '../helpers.js';
+import { share } from '../numbers.js';
 
 export function influenceRows(influence) {
   const rows = [];
   let lo = 0;
   let hi = 0;
   for (const f of influence.factors) {
-    const share = num(f.varianceShare);
-    rows.push({ header: true, label: `${f.name}: ${Number.isFinite(share) ? pct(share) : '\u2013'} of the variance` });
+    rows.push({ header: true, label: `${f.name}: ${share(f.varianceShare)} of the variance` });
     for (const l of f.levels) {
       const row = {
         header: false,

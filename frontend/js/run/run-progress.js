@@ -1,7 +1,7 @@
 // Follows a queued or running run by polling its status, and reloads the page when it ends (the server
 // then shows the explorer, or what happened).
 import { getJson } from '../api.js';
-import { count } from '../helpers.js';
+import { count } from '../numbers.js';
 
 const box = document.getElementById('run-progress');
 const api = `/api/analyses/${encodeURIComponent(box.dataset.analysis)}/runs/${encodeURIComponent(box.dataset.run)}`;

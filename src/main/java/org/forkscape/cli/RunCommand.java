@@ -18,6 +18,7 @@ import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
+import org.forkscape.text.HumanNumbers;
 import org.springframework.util.unit.DataSize;
 
 /**
@@ -87,13 +88,14 @@ final class RunCommand {
         EarlierResultFiles.removeBesides(folder, completed.inference().fileNames());
         RunSummary summary = completed.summary();
         NullDrawResult draws = completed.inference().nullDraws();
-        String joint = draws == null ? "" : String.format("; %,d null draws: p(median) = %s, p(share significant) = "
-                + "%s, p(Stouffer) = %s", draws.drawCount(), p(draws.pMedian(), draws.drawCount()),
-                p(draws.pShareSignificant(), draws.drawCount()), p(draws.pStouffer(), draws.drawCount()));
-        out.printf("fitted %,d of %,d specifications in %.2f s; median estimate %s; significant: %.0f%% positive, "
-                        + "%.0f%% negative%s; results in %s%n", summary.fitted(), summary.specifications(),
-                completed.result().seconds(), String.format("%.4g", summary.medianEstimate()),
-                100 * summary.shareSignificantPositive(), 100 * summary.shareSignificantNegative(), joint, folder);
+        String joint = draws == null ? "" : "; " + HumanNumbers.count(draws.drawCount()) + " null draws: median "
+                + draws.medianTally().text() + ", share significant " + draws.shareSignificantTally().text()
+                + ", Stouffer " + draws.stoufferTally().text();
+        out.printf("fitted %s of %s specifications in %.2f s; median estimate %s; significant: %s positive, "
+                        + "%s negative%s; results in %s%n", HumanNumbers.count(summary.fitted()),
+                HumanNumbers.count(summary.specifications()), completed.result().seconds(),
+                HumanNumbers.number(summary.medianEstimate()), HumanNumbers.share(summary.shareSignificantPositive()),
+                HumanNumbers.share(summary.shareSignificantNegative()), joint, folder);
         for (String warning : completed.inference().warnings()) {
             err.println("forkscape: warning: " + CommandLine.oneLine(warning));
         }
@@ -146,14 +148,6 @@ final class RunCommand {
         } catch (InvalidPathException e) {
             throw new UsageException(what + " \"" + text + "\" is not a usable path");
         }
-    }
-
-    /** A p-value for the one-line result; a share of zero draws means below one over their number. */
-    private static String p(double value, int draws) {
-        if (Double.isNaN(value)) {
-            return "undefined";
-        }
-        return value == 0 ? String.format("< %.2g", 1.0 / draws) : String.format("%.3g", value);
     }
 
     private static InputException located(String planName, InputException e) {

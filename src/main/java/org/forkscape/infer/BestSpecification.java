@@ -14,9 +14,9 @@ import org.forkscape.run.ResultTable;
  *                  specifications.csv)
  * @param row       1-based data row of specifications.csv (the header not counted)
  * @param pNominal  its own p-value
- * @param pAdjusted the min-p adjusted p-value; NaN without null draws
+ * @param adjusted  the draws behind the min-p adjusted p-value; null without null draws
  */
-public record BestSpecification(long spec, int row, double pNominal, double pAdjusted) {
+public record BestSpecification(long spec, int row, double pNominal, DrawTally adjusted) {
 
     /**
      * The best of the given slots; ties keep the first slot. Returns null when none is fitted.
@@ -39,8 +39,13 @@ public record BestSpecification(long spec, int row, double pNominal, double pAdj
         if (best < 0) {
             return null;
         }
-        double adjusted = draws == null ? Double.NaN : draws.minPAdjusted(bestP);
+        DrawTally adjusted = draws == null ? null : draws.minPAdjustedTally(bestP);
         return new BestSpecification(results.specIndex(best) + 1, best + 1, bestP, adjusted);
+    }
+
+    /** The min-p adjusted p-value; NaN without null draws. */
+    public double pAdjusted() {
+        return adjusted == null ? Double.NaN : adjusted.p();
     }
 
     /** The summary.json section {@code best}. */
@@ -49,8 +54,9 @@ public record BestSpecification(long spec, int row, double pNominal, double pAdj
         m.put("spec", spec);
         m.put("row", row);
         m.put("p_nominal", Json.number(pNominal));
-        m.put("p_adjusted", Json.number(pAdjusted));
-        m.put("adjustment", Double.isNaN(pAdjusted) ? "none: ask for null draws (--null-draws R) to adjust it"
+        m.put("p_adjusted", Json.number(pAdjusted()));
+        m.put("adjusted_test", adjusted == null ? null : adjusted.toJson());
+        m.put("adjustment", adjusted == null ? "none: ask for null draws (--null-draws R) to adjust it"
                 : "min-p over the null draws (Westfall & Young 1993)");
         return m;
     }

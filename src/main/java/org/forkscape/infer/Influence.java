@@ -6,6 +6,7 @@ import java.util.Comparator;
 import java.util.List;
 import org.forkscape.plan.Factor;
 import org.forkscape.run.RunResult;
+import org.forkscape.text.HumanNumbers;
 
 /**
  * Which decisions move the estimate: for each factor, the mean estimate and the share significant in
@@ -188,7 +189,7 @@ public final class Influence {
             List<InfluenceReport.Restriction> found) {
         StringBuilder s = new StringBuilder("significant in the dominant sign (")
                 .append(sign > 0 ? "positive" : "negative").append(") in ").append(percent(overall)).append(" of ")
-                .append(n).append(n == 1 ? " specification" : " specifications").append("; ");
+                .append(HumanNumbers.count(n)).append(n == 1 ? " specification" : " specifications").append("; ");
         String turn = below ? "below half" : "at least half";
         String reach = below ? "brings it below half" : "brings it to half or more";
         if (level == 0) {
@@ -208,24 +209,24 @@ public final class Influence {
                 s.append(", or when ");
             }
             InfluenceReport.Restriction r = found.get(k);
-            s.append(r.describe()).append(" (").append(percent(r.share())).append(" of ").append(r.specifications())
+            s.append(r.describe()).append(" (").append(percent(r.share())).append(" of ").append(HumanNumbers.count(r.specifications()))
                     .append(')');
         }
         int more = found.size() - shown;
         if (more > 0) {
-            s.append(", and under ").append(more).append(" more ").append(level == 1 ? "single choice" : "pair")
+            s.append(", and under ").append(HumanNumbers.count(more)).append(" more ").append(level == 1 ? "single choice" : "pair")
                     .append(more == 1 ? "" : "s");
         }
         return s.toString();
     }
 
-    /** A share as a whole percentage; just below one half, with the decimals that keep it below 50%. */
+    /** A share as {@link HumanNumbers#share} writes it; just below one half, with the decimals that keep it below 50%. */
     static String percent(double share) {
-        long rounded = Math.round(100 * share);
-        if (share < 0.5 && rounded >= 50) {
+        String text = HumanNumbers.share(share);
+        if (share < 0.5 && text.equals("50%")) {
             String two = String.format(java.util.Locale.ROOT, "%.2f%%", 100 * share);
             return two.startsWith("50") ? "just under 50%" : two;
         }
-        return rounded + "%";
+        return text;
     }
 }

@@ -8,10 +8,11 @@ import org.forkscape.run.Json;
 /**
  * The null draws of a run: the observed curve's statistics, each draw's, and the p-values. A p-value
  * is the share of draws whose statistic is at least as extreme as the observed one, over the draws in
- * which at least one specification could be fitted; 0 means below 1 / draws. Because the dominant sign
- * is read from the data rather than declared in advance, each statistic is computed the same way on
- * every draw (its own median, its own dominant sign) and the median and the mean score are compared in
- * absolute value: the tests are two-sided and keep their level.
+ * which at least one specification could be fitted; a share of 0 is reported as below 1 / (draws + 1)
+ * (see {@link DrawTally}). Because the dominant sign is read from the data rather than declared in
+ * advance, each statistic is computed the same way on every draw (its own median, its own dominant sign)
+ * and the median and the mean score are compared in absolute value: the tests are two-sided and keep
+ * their level.
  */
 public final class NullDrawResult {
     private final NullDrawSettings settings;
@@ -78,17 +79,32 @@ public final class NullDrawResult {
 
     /** Share of draws with |median| at least the observed |median|. */
     public double pMedian() {
-        return share(c -> Math.abs(c.median()) >= Math.abs(observed.median()));
+        return medianTally().p();
+    }
+
+    /** The draws behind {@link #pMedian}. */
+    public DrawTally medianTally() {
+        return tally(c -> Math.abs(c.median()) >= Math.abs(observed.median()));
     }
 
     /** Share of draws with at least the observed share significant in the dominant sign. */
     public double pShareSignificant() {
-        return share(c -> c.shareSignificant() >= observed.shareSignificant());
+        return shareSignificantTally().p();
+    }
+
+    /** The draws behind {@link #pShareSignificant}. */
+    public DrawTally shareSignificantTally() {
+        return tally(c -> c.shareSignificant() >= observed.shareSignificant());
     }
 
     /** Share of draws with |mean z| at least the observed |mean z|. */
     public double pStouffer() {
-        return share(c -> Math.abs(c.meanZ()) >= Math.abs(observed.meanZ()));
+        return stoufferTally().p();
+    }
+
+    /** The draws behind {@link #pStouffer}. */
+    public DrawTally stoufferTally() {
+        return tally(c -> Math.abs(c.meanZ()) >= Math.abs(observed.meanZ()));
     }
 
     /**
@@ -96,10 +112,15 @@ public final class NullDrawResult {
      * Testing, algorithm 2.8): the share of draws whose smallest p is at most it.
      */
     public double minPAdjusted(double nominal) {
-        return share(c -> c.minP() <= nominal);
+        return minPAdjustedTally(nominal).p();
     }
 
-    private double share(java.util.function.Predicate<CurveStatistics> extreme) {
+    /** The draws behind {@link #minPAdjusted}. */
+    public DrawTally minPAdjustedTally(double nominal) {
+        return tally(c -> c.minP() <= nominal);
+    }
+
+    private DrawTally tally(java.util.function.Predicate<CurveStatistics> extreme) {
         int valid = 0;
         int hits = 0;
         for (CurveStatistics c : draws) {
@@ -111,7 +132,7 @@ public final class NullDrawResult {
                 hits++;
             }
         }
-        return valid == 0 ? Double.NaN : (double) hits / valid;
+        return new DrawTally(hits, valid);
     }
 
     /** The 2.5, 50 and 97.5 percentiles of a statistic over the draws (R type 7: Hyndman &amp; Fan 1996). */
@@ -139,6 +160,11 @@ public final class NullDrawResult {
         m.put("p_median", Json.number(pMedian()));
         m.put("p_share_significant", Json.number(pShareSignificant()));
         m.put("p_stouffer", Json.number(pStouffer()));
+        Map<String, Object> tests = new LinkedHashMap<>();
+        tests.put("median", medianTally().toJson());
+        tests.put("share_significant", shareSignificantTally().toJson());
+        tests.put("stouffer", stoufferTally().toJson());
+        m.put("tests", tests);
         Map<String, Object> obs = new LinkedHashMap<>();
         obs.put("median_estimate", Json.number(observed.median()));
         obs.put("dominant_sign", observed.dominantSignName());

@@ -93,7 +93,7 @@ class InfluenceTest {
         InfluenceReport r = Influence.of(cube(b, p));
         assertEquals(-1, r.dominantSign());
         assertEquals(5.0 / 8, r.shareSignificant(), 0);
-        assertEquals("significant in the dominant sign (negative) in 63% of 8 specifications",
+        assertEquals("significant in the dominant sign (negative) in 62.5% of 8 specifications",
                 r.sentence().substring(0, r.sentence().indexOf(';')));
     }
 
@@ -111,10 +111,12 @@ class InfluenceTest {
 
     @Test
     void percentagesBelowHalfNeverRoundToHalf() {
-        assertEquals("49.60%", Influence.percent(0.496));
+        assertEquals("49.6%", Influence.percent(0.496));
+        assertEquals("49.97%", Influence.percent(0.4997));
         assertEquals("just under 50%", Influence.percent(0.499999));
         assertEquals("50%", Influence.percent(0.5));
-        assertEquals("84%", Influence.percent(0.8412));
+        assertEquals("84.1%", Influence.percent(0.8412));
+        assertEquals("> 99.9%", Influence.percent(0.9996));
     }
 
     /** A small real run (the simulated scenario) and the slots of its first outcome. */

@@ -43,13 +43,15 @@ class RunCommandInferenceTest {
     void data() throws IOException {
         SplittableRandom r = new SplittableRandom(2);
         // district holds schools 0-2 and 3-5; zone cuts across schools; rows is a column named like the word
-        List<String> lines = new ArrayList<>(List.of("y,x,a,b,g,flat,district,zone,rows"));
+        // strong carries the same noise as y beside a key effect five times larger
+        List<String> lines = new ArrayList<>(List.of("y,x,a,b,g,flat,district,zone,rows,strong"));
         for (int i = 0; i < 60; i++) {
             double x = Scenarios.gaussian(r);
             int school = r.nextInt(6);
-            lines.add((0.4 * x + Scenarios.gaussian(r)) + "," + x + "," + Scenarios.gaussian(r) + ","
+            double noise = Scenarios.gaussian(r);
+            lines.add((0.4 * x + noise) + "," + x + "," + Scenarios.gaussian(r) + ","
                     + Scenarios.gaussian(r) + ",school" + school + ",3,district" + school / 3 + ",zone" + i % 2
-                    + ",room" + school);
+                    + ",room" + school + "," + (2 * x + noise));
         }
         Files.write(dir.resolve("data.csv"), lines);
         plan = writePlan("", "y");
@@ -135,7 +137,26 @@ class RunCommandInferenceTest {
         assertEquals(5, summary.get("influence").size(), "outcome, key, the two optional controls, errors");
         assertEquals(31, Files.readAllLines(dir.resolve("out/null-draws.csv")).size());
         assertEquals(9, Files.readAllLines(dir.resolve("out/overfitting.csv")).size());
-        assertTrue(out.contains("30 null draws: p(median) = "), out);
+        assertTrue(out.contains("30 null draws: median p "), out);
+    }
+
+    @Test
+    void noDrawAsExtremeIsReportedAsABoundWithTheDraws() throws IOException {
+        plan = writePlan("", "strong");
+        assertEquals(0, run("--null-draws", "19", "--seed", "5", "--null-cluster", "g"), err);
+        // 19 draws cannot show a p below 1/20 (North, Curtis & Sham 2002, American Journal of Human Genetics 71(2))
+        String bound = "p < 0.05 (1/20; none of 19 draws as extreme)";
+        assertTrue(out.contains("; 19 null draws: median " + bound + ", share significant " + bound + ", Stouffer "
+                + bound + "; results in "), out);
+        JsonNode draws = JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile()).get("null");
+        assertEquals(0.0, draws.get("p_median").doubleValue(), 0, "the share of draws, as before");
+        for (String test : List.of("median", "share_significant", "stouffer")) {
+            JsonNode t = draws.get("tests").get(test);
+            assertEquals(0, t.get("exceedances").intValue(), test);
+            assertEquals(19, t.get("draws").intValue(), test);
+            assertEquals(0.0, t.get("p").doubleValue(), 0, test);
+            assertEquals(0.05, t.get("p_bound").doubleValue(), 1e-15, test);
+        }
     }
 
     @Test

@@ -152,7 +152,20 @@ class ExplorerBrowserTest {
         WebElement warning = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("null-draw-warning")));
         assertTrue(warning.getText().startsWith("The null draws resample single rows, as asked, so they split up the "
                 + "clusters of \"district\""), warning.getText());
-        assertTrue(driver.findElement(By.id("whole-run-cards")).getText().contains("20 null draws (bootstrap, single rows)"));
+        // 20 draws cannot show a p below 1/21 = 0.0476..., shown rounded up
+        String cards = driver.findElement(By.id("whole-run-cards")).getText();
+        assertTrue(cards.contains("Joint test: median estimate\np < 0.048\n1/21; none of 20 draws as extreme; "
+                + "20 null draws (bootstrap, single rows)"), cards);
+        // the page's own number module, in the browser, on values worked out by hand
+        Object formatted = driver.executeAsyncScript("const done = arguments[arguments.length - 1];"
+                + "import('/js/numbers.js').then((n) => done([n.number(-1.301e-5), n.number(-0.000203), n.number(4608),"
+                + " n.number(1), n.number(2.5e6), n.share(0.9965), n.share(0.9999), n.share(0.0004), n.share(1),"
+                + " n.share(0.625), n.pValue(0.0123), n.pValue(0.0004), n.count(4608), n.drawP(0, 300), n.drawP(4, 300),"
+                + " n.drawP(0, 99)]))");
+        assertEquals(List.of("-1.301\u00d710\u207b\u2075", "-0.000203", "4,608", "1", "2.5\u00d710\u2076", "99.7%",
+                "> 99.9%", "< 0.1%", "100%", "62.5%", "0.012", "< 0.001", "4,608",
+                "p < 0.0034 (1/301; none of 300 draws as extreme)", "p = 0.013 (4 of 300 draws)",
+                "p < 0.01 (1/100; none of 99 draws as extreme)"), formatted);
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "3-explore");
 

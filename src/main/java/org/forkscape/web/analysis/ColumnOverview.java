@@ -3,11 +3,11 @@ package org.forkscape.web.analysis;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
-import java.util.Locale;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
+import org.forkscape.text.HumanNumbers;
 
 /**
  * What the data page shows of one column: its type, how many cells are missing, the usual summaries for a
@@ -33,6 +33,11 @@ public record ColumnOverview(String name, String type, int missing, double mean,
      * tooltip.
      */
     public record Bar(double x, double y, double width, double height, String label, int count) {
+    }
+
+    /** One of this column's summaries for the page (see {@link HumanNumbers#number}); empty when undefined. */
+    public String text(double summary) {
+        return Double.isNaN(summary) ? "" : HumanNumbers.number(summary);
     }
 
     public static List<ColumnOverview> of(Table table) {
@@ -77,8 +82,9 @@ public record ColumnOverview(String name, String type, int missing, double mean,
         }
         List<String> labels = new ArrayList<>();
         for (int b = 0; b < BINS; b++) {
-            labels.add(width > 0 ? String.format(Locale.ROOT, "%.4g to %.4g", min + b * width, min + (b + 1) * width)
-                    : String.format(Locale.ROOT, "%.4g", min));
+            labels.add(width > 0
+                    ? HumanNumbers.number(min + b * width) + " to " + HumanNumbers.number(min + (b + 1) * width)
+                    : HumanNumbers.number(min));
         }
         return new ColumnOverview(c.name(), "numeric", missing, mean, n > 1 ? Math.sqrt(m2 / (n - 1)) : Double.NaN,
                 min, max, List.of(), 0, bars(counts, labels));

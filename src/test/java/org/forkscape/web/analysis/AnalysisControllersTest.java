@@ -51,6 +51,21 @@ class AnalysisControllersTest extends WebTest {
     }
 
     @Test
+    void theDataPageWritesSummariesForPeople() throws Exception {
+        // by hand: urban is 1 in every row, so its mean is 1, not 1.000; hours' mean (1200 + 4608 + 9000) / 3 =
+        // 4936 takes a separator; budget's mean 2500000 is from 1e6 up, so a power of ten; change's minimum
+        // -0.000013 is below 1e-4 in size, so a power of ten
+        String id = upload("grants.csv", "urban,hours,budget,change\n1,1200,1500000,-0.000013\n1,4608,2500000,0.5\n"
+                + "1,9000,3500000,0.25\n");
+        mvc.perform(get("/analyses/" + id)).andExpect(status().isOk())
+                .andExpect(content().string(containsString("<td class=\"num\">1</td>")))
+                .andExpect(content().string(not(containsString("1.000"))))
+                .andExpect(content().string(containsString("<td class=\"num\">4,936</td>")))
+                .andExpect(content().string(containsString("<td class=\"num\">2.5\u00d710\u2076</td>")))
+                .andExpect(content().string(containsString("<td class=\"num\">-1.3\u00d710\u207b\u2075</td>")));
+    }
+
+    @Test
     void aBadFileIsRefusedWithItsLineAndNothingIsKept() throws Exception {
         int before = workspace.analyses().size();
         MockMultipartFile file = new MockMultipartFile("file", "ragged.csv", "text/csv",

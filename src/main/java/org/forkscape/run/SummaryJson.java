@@ -44,10 +44,22 @@ public final class SummaryJson {
             m.put("standard_error_routes", routes);
         }
         m.put("seconds", Math.round(run.seconds() * 1000) / 1000.0);
-        m.put("scales", scales(run, units));
+        Map<String, Object> scales = scales(run, units);
+        m.put("scales", scales);
         m.putAll(sections);
+        if (units.unitsDiffer()) {
+            scales.put("pooled_as_fitted", POOLED.stream().filter(m::containsKey).toList());
+        }
         return m;
     }
+
+    /**
+     * The sections that summarise estimates as fitted over every specification: when the units differ
+     * they pool them, and {@code scales.pooled_as_fitted} names those present, so that no statistic
+     * mixes units without saying so.
+     */
+    static final List<String> POOLED = List.of("median_estimate", "null", "best", "extreme_bounds", "influence",
+            "influence_overall");
 
     /** The section {@code scales}: the headline numbers per comparable group and on each unit-free scale. */
     static Map<String, Object> scales(RunResult run, UnitGroups units) {

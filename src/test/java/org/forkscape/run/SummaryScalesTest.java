@@ -77,6 +77,12 @@ class SummaryScalesTest {
         assertEquals(32, partial.get("specifications"));
         assertEquals(summary.get("share_positive"), partial.get("share_positive"));
         assertEquals(summary.get("share_significant_positive"), partial.get("share_significant_positive"));
+        // the pooled sections present are named: here only the headline median (no inference sections given)
+        assertEquals(List.of("median_estimate"), scales.get("pooled_as_fitted"));
+        Map<String, Object> withSections = SummaryJson.of(run, Map.of("extreme_bounds", Map.of(), "null",
+                Map.of(), "comparable_groups", List.of()));
+        assertEquals(List.of("median_estimate", "null", "extreme_bounds"),
+                ((Map<?, ?>) withSections.get("scales")).get("pooled_as_fitted"));
     }
 
     @Test
@@ -87,6 +93,7 @@ class SummaryScalesTest {
         assertEquals(1, groups.size());
         assertEquals(summary.get("median_estimate"), ((Map<?, ?>) groups.get(0)).get("median"));
         assertNull(((Map<?, ?>) summary.get("scales")).get("as_fitted"));
+        assertNull(((Map<?, ?>) summary.get("scales")).get("pooled_as_fitted"), "one group pools nothing");
     }
 
     private static void checkQuartiles(Map<?, ?> section, List<Double> values) {

@@ -6,6 +6,7 @@ import java.util.Arrays;
 import java.util.Optional;
 import java.util.Set;
 import org.forkscape.InputException;
+import org.forkscape.Version;
 
 /**
  * The batch commands, {@code help} and {@code --version}. Every problem the user can cause ends with one

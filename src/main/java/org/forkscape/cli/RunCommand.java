@@ -16,6 +16,7 @@ import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
+import org.forkscape.run.RunOrigin;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
 import org.forkscape.text.HumanNumbers;
@@ -50,7 +51,8 @@ final class RunCommand {
         }
         checkOutputFolder(a.text("out"));
         Path planFile = path(a.positional().get(0), "the plan file");
-        String planText = PlanReader.readText(planFile);
+        byte[] planBytes = PlanReader.readBytes(planFile);
+        String planText = PlanReader.text(planBytes, planFile);
         String planName = planFile.getFileName() == null ? planFile.toString() : planFile.getFileName().toString();
         Plan plan;
         try {
@@ -80,7 +82,8 @@ final class RunCommand {
         Path folder = Path.of(a.text("out"));
         CompletedRun<InferenceSections> completed;
         try {
-            completed = pipeline.run(plan, table, planText, folder, (run, progress, cancel) -> InferenceSections
+            completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
+                    plan.dataFile()), folder, (run, progress, cancel) -> InferenceSections
                     .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
         } catch (InputException e) {
             throw located(planName, e);

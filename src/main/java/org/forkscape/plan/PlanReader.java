@@ -70,23 +70,35 @@ public final class PlanReader {
      * that is not UTF-8, is a {@link PlanException} whose message names the file.
      */
     public static String readText(Path planFile) {
+        return text(readBytes(planFile), planFile);
+    }
+
+    /** A plan file's bytes as they are on disk; a missing or unreadable file is a {@link PlanException}. */
+    public static byte[] readBytes(Path planFile) {
         if (!Files.isRegularFile(planFile)) {
             throw new PlanException("", "no plan file at " + planFile);
         }
-        String text;
         try {
-            byte[] bytes = Files.readAllBytes(planFile);
-            text = StandardCharsets.UTF_8.newDecoder()
-                    .onMalformedInput(CodingErrorAction.REPORT)
-                    .onUnmappableCharacter(CodingErrorAction.REPORT)
-                    .decode(ByteBuffer.wrap(bytes))
-                    .toString();
-        } catch (CharacterCodingException e) {
-            throw new PlanException("", "the plan file " + planFile + " is not UTF-8 text; save it as UTF-8");
+            return Files.readAllBytes(planFile);
         } catch (IOException e) {
             throw new PlanException("", "cannot read the plan file " + planFile + ": " + e.getMessage());
         }
-        return withoutByteOrderMark(text);
+    }
+
+    /**
+     * The text of a plan file's bytes (not modified), without a leading byte-order mark; bytes that are
+     * not UTF-8 are a {@link PlanException} whose message names the file.
+     */
+    public static String text(byte[] bytes, Path planFile) {
+        try {
+            return withoutByteOrderMark(StandardCharsets.UTF_8.newDecoder()
+                    .onMalformedInput(CodingErrorAction.REPORT)
+                    .onUnmappableCharacter(CodingErrorAction.REPORT)
+                    .decode(ByteBuffer.wrap(bytes))
+                    .toString());
+        } catch (CharacterCodingException e) {
+            throw new PlanException("", "the plan file " + planFile + " is not UTF-8 text; save it as UTF-8");
+        }
     }
 
     /** Reads plan JSON whose relative {@code data} path is resolved against {@code folder}. */

@@ -18,9 +18,10 @@ public final class RunOutputs {
     private RunOutputs() {
     }
 
-    public static void write(RunResult run, Path folder, String planText, Map<String, Object> sections) {
+    public static void write(RunResult run, Path folder, String planText, Map<String, Object> sections,
+            Provenance provenance) {
         SpecificationsCsv.write(run, folder.resolve(SPECIFICATIONS));
-        Json.write(folder.resolve(SUMMARY), SummaryJson.of(run, sections));
+        Json.write(folder.resolve(SUMMARY), SummaryJson.of(run, sections, provenance));
         if (planText != null) {
             AtomicFiles.writeString(folder.resolve(PLAN), planText);
         }

@@ -12,7 +12,7 @@ import org.forkscape.plan.PlanChecker;
  * run queue), in this order: check the plan against the table (columns and types, the specification
  * cap, and the memory estimate when the door sets a limit), fit every specification
  * ({@link MultiverseRunner}), refuse a run that fitted nothing ({@link NothingFitted}), run the inference
- * stage, and write the run's files ({@link RunOutputs}, each atomically) followed by the stage's own
+ * stage, and write the run's files (summary.json ending with the run's {@link Provenance}) ({@link RunOutputs}, each atomically) followed by the stage's own
  * ({@link InferenceStage.Outcome#writeFiles}). The pipeline writes nothing before that last step, so a
  * refused, failed or cancelled run leaves the folder as it was.
  *
@@ -59,6 +59,7 @@ public final class RunPipeline {
      *
      * @param plan      a plan read for its structure; it is checked against the table here
      * @param planText  the plan as given, copied into the folder
+     * @param origin    the door's part of the run's provenance (its command, the plan's bytes, the data file)
      * @param folder    where the files go
      * @param inference the stage after the fit
      * @param listener  told of each long stage and its progress
@@ -66,9 +67,10 @@ public final class RunPipeline {
      * @throws InputException         when the plan cannot run on the table or fitted nothing
      * @throws RunCancelledException  when the cancel flag was set before the files were written
      */
-    public <O extends InferenceStage.Outcome> CompletedRun<O> run(Plan plan, Table table, String planText, Path folder,
-            InferenceStage<O> inference, StageListener listener, AtomicBoolean cancel) {
+    public <O extends InferenceStage.Outcome> CompletedRun<O> run(Plan plan, Table table, String planText, RunOrigin origin,
+            Path folder, InferenceStage<O> inference, StageListener listener, AtomicBoolean cancel) {
         check(plan, table);
+        Provenance provenance = Provenance.of(origin, plan.seed(), threads);
         RunResult result = fit(plan, table, listener, cancel);
         RunSummary summary = RunSummary.of(result.results(), plan.alpha());
         if (summary.fitted() == 0) {
@@ -78,7 +80,7 @@ public final class RunPipeline {
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();
         }
-        RunOutputs.write(result, folder, planText, outcome.sections());
+        RunOutputs.write(result, folder, planText, outcome.sections(), provenance);
         outcome.writeFiles(folder);
         return new CompletedRun<>(result, summary, outcome);
     }

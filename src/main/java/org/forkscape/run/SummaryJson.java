@@ -8,7 +8,8 @@ import java.util.Map;
 
 /**
  * Assembles summary.json: the run's headline numbers, then how it was run, then any sections that
- * later stages add (joint inference, influence), each under its own documented key.
+ * later stages add (joint inference, influence), each under its own documented key, and last the run's
+ * {@code provenance}.
  */
 public final class SummaryJson {
     private SummaryJson() {
@@ -20,7 +21,7 @@ public final class SummaryJson {
             + "key-predictor alternative); across groups only the unit-free scales compare. Shares positive and "
             + "significant are the same on every scale.";
 
-    public static Map<String, Object> of(RunResult run, Map<String, Object> sections) {
+    public static Map<String, Object> of(RunResult run, Map<String, Object> sections, Provenance provenance) {
         UnitGroups units = UnitGroups.of(run);
         Map<String, Object> m = new LinkedHashMap<>();
         RunSummary.of(run.results(), run.plan().alpha()).toJson().forEach((key, value) -> {
@@ -50,6 +51,7 @@ public final class SummaryJson {
         if (units.unitsDiffer()) {
             scales.put("pooled_as_fitted", POOLED.stream().filter(m::containsKey).toList());
         }
+        m.put("provenance", provenance.toJson());
         return m;
     }
 

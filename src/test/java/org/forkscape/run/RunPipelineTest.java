@@ -7,9 +7,13 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.io.IOException;
 import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HexFormat;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
@@ -22,6 +26,8 @@ import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import tools.jackson.databind.JsonNode;
+import tools.jackson.databind.json.JsonMapper;
 
 /**
  * The pipeline's order as DEVELOPERS.md ("A run, end to end") states it: check, fit, refuse nothing
@@ -47,7 +53,7 @@ class RunPipelineTest {
     void theStagesRunInOrderAndTheFilesComeLast() throws IOException {
         Path folder = dir.resolve("out");
         String text = PLAN.formatted("\"classical\", \"HC1\"");
-        CompletedRun<Recorded> completed = new RunPipeline(2).run(plan(text), table(4), text, folder, (run, progress,
+        CompletedRun<Recorded> completed = new RunPipeline(2).run(plan(text), table(4), text, origin(text), folder, (run, progress,
                 cancel) -> {
             events.add("inference, folder exists: " + Files.exists(folder));
             return new Recorded(folder);
@@ -63,11 +69,38 @@ class RunPipelineTest {
     }
 
     @Test
+    void summaryJsonEndsWithTheRunsProvenance() throws Exception {
+        Path folder = dir.resolve("out");
+        String text = PLAN.formatted("\"classical\"").replace("{\"data\"", "{\"seed\": 42, \"data\"");
+        new RunPipeline(3).run(plan(text), table(4), text, origin(text), folder,
+                (run, progress, cancel) -> new Recorded(folder), recording(), null);
+        JsonNode summary = JsonMapper.builder().build().readTree(Files.readString(folder.resolve(RunOutputs.SUMMARY)));
+        List<String> keys = new ArrayList<>(summary.propertyNames());
+        assertEquals("provenance", keys.get(keys.size() - 1));
+        JsonNode p = summary.get("provenance");
+        assertEquals(List.of("version", "plan_sha256", "data_sha256", "seed", "command", "started", "java", "threads"),
+                new ArrayList<>(p.propertyNames()));
+        // java.security.MessageDigest on the same bytes
+        MessageDigest sha = MessageDigest.getInstance("SHA-256");
+        assertEquals(HexFormat.of().formatHex(sha.digest(text.getBytes(StandardCharsets.UTF_8))),
+                p.get("plan_sha256").asString());
+        assertEquals(HexFormat.of().formatHex(sha.digest(Files.readAllBytes(dir.resolve("data.csv")))),
+                p.get("data_sha256").asString());
+        assertEquals(42, p.get("seed").asLong());
+        assertEquals("run plan.json --out out", p.get("command").asString());
+        assertEquals(3, p.get("threads").asInt());
+        assertEquals(System.getProperty("java.version"), p.get("java").asString());
+        assertEquals(org.forkscape.Version.current(), p.get("version").asString());
+        assertTrue(p.get("started").asString().endsWith("Z"), p.get("started").asString());
+        Instant.parse(p.get("started").asString());
+    }
+
+    @Test
     void aRunThatFitsNothingIsRefusedBeforeTheInferenceStageAndWritesNothing() {
         Path folder = dir.resolve("out");
         String text = PLAN.formatted("\"cluster:one\"");
         InputException e = assertThrows(InputException.class, () -> new RunPipeline(2).run(plan(text), table(4), text,
-                folder, (run, progress, cancel) -> {
+                origin(text), folder, (run, progress, cancel) -> {
                     events.add("inference");
                     return new Recorded(folder);
                 }, recording(), null));
@@ -84,7 +117,7 @@ class RunPipelineTest {
         Path folder = dir.resolve("out");
         String text = PLAN.formatted("\"classical\"");
         AtomicBoolean cancel = new AtomicBoolean();
-        assertThrows(RunCancelledException.class, () -> new RunPipeline(1).run(plan(text), table(4), text, folder,
+        assertThrows(RunCancelledException.class, () -> new RunPipeline(1).run(plan(text), table(4), text, origin(text), folder,
                 (run, progress, c) -> {
                     c.set(true);
                     return new Recorded(folder);
@@ -98,7 +131,7 @@ class RunPipelineTest {
         Path folder = dir.resolve("out");
         String text = PLAN.formatted("\"classical\"");
         InputException e = assertThrows(InputException.class, () -> new RunPipeline(1).refusingMemoryAbove(1,
-                "ask for less").run(plan(text), table(4), text, folder, (run, progress, c) -> new Recorded(folder),
+                "ask for less").run(plan(text), table(4), text, origin(text), folder, (run, progress, c) -> new Recorded(folder),
                 recording(), null));
         assertTrue(e.problem().endsWith("above the limit of " + MemoryEstimate.format(1) + "; ask for less"),
                 e.problem());
@@ -143,6 +176,10 @@ class RunPipelineTest {
         public List<String> warnings() {
             return List.of();
         }
+    }
+
+    private RunOrigin origin(String text) {
+        return new RunOrigin("run plan.json --out out", text.getBytes(StandardCharsets.UTF_8), dir.resolve("data.csv"));
     }
 
     private Plan plan(String text) {

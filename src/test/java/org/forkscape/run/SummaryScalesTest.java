@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 
 import java.nio.file.Path;
+import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
@@ -37,14 +38,16 @@ class SummaryScalesTest {
     private static final String SECOND_CODING = ", {\"label\": \"hours, standardized\", \"column\": \"hours\", "
             + "\"transform\": \"standardize\"}";
 
+    private static final Provenance PROVENANCE = new Provenance("0", "a", "b", 7, "test", Instant.EPOCH, "17", 1);
+
     @Test
     void headlineKeysStayAndEachGroupAndScaleHasItsOwnNumbers() {
         RunResult run = run(PLAN.formatted(SECOND_OUTCOME, SECOND_CODING));
-        Map<String, Object> summary = SummaryJson.of(run, Map.of());
+        Map<String, Object> summary = SummaryJson.of(run, Map.of(), PROVENANCE);
         assertEquals(List.of("specifications", "fitted", "failed", "median_estimate", "median_mixes_units",
                 "share_positive", "share_significant_positive", "share_significant_negative", "confidence",
                 "specifications_in_plan", "sampled", "data_rows", "refit_by_qr", "standard_error_routes", "seconds",
-                "scales"), new ArrayList<>(summary.keySet()));
+                "scales", "provenance"), new ArrayList<>(summary.keySet()));
         assertEquals(true, summary.get("median_mixes_units"));
         Map<?, ?> scales = (Map<?, ?>) summary.get("scales");
         List<?> groups = (List<?>) scales.get("groups");
@@ -80,14 +83,14 @@ class SummaryScalesTest {
         // the pooled sections present are named: here only the headline median (no inference sections given)
         assertEquals(List.of("median_estimate"), scales.get("pooled_as_fitted"));
         Map<String, Object> withSections = SummaryJson.of(run, Map.of("extreme_bounds", Map.of(), "null",
-                Map.of(), "comparable_groups", List.of()));
+                Map.of(), "comparable_groups", List.of()), PROVENANCE);
         assertEquals(List.of("median_estimate", "null", "extreme_bounds"),
                 ((Map<?, ?>) withSections.get("scales")).get("pooled_as_fitted"));
     }
 
     @Test
     void oneOutcomeAndOneCodingDoNotMixUnits() {
-        Map<String, Object> summary = SummaryJson.of(run(PLAN.formatted("", "")), Map.of());
+        Map<String, Object> summary = SummaryJson.of(run(PLAN.formatted("", "")), Map.of(), PROVENANCE);
         assertEquals(false, summary.get("median_mixes_units"));
         List<?> groups = (List<?>) ((Map<?, ?>) summary.get("scales")).get("groups");
         assertEquals(1, groups.size());

@@ -1,6 +1,7 @@
 package org.forkscape.web.run;
 
 import jakarta.annotation.PreDestroy;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
@@ -22,6 +23,7 @@ import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.CompletedRun;
 import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunCancelledException;
+import org.forkscape.run.RunOrigin;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunState;
@@ -222,7 +224,10 @@ public class RunQueue {
                 Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
                 Table table = analyses.table(analysis);
                 Path folder = workspace.runFolder(analysis.id(), record.id());
-                CompletedRun<InferenceStage.Outcome> completed = pipeline.run(plan, table, planText, folder,
+                // the run's plan.json holds planText as UTF-8 (Workspace.createRun), so these are its bytes
+                RunOrigin origin = new RunOrigin("web: run of analysis " + analysis.id(),
+                        planText.getBytes(StandardCharsets.UTF_8), workspace.dataFile(analysis.id()));
+                CompletedRun<InferenceStage.Outcome> completed = pipeline.run(plan, table, planText, origin, folder,
                         sections::of, stages(plan), cancel);
                 RunSummary summary = completed.summary();
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",

@@ -33,7 +33,8 @@ import tools.jackson.databind.node.ObjectNode;
 /**
  * The batch command and the run queue run a plan through one pipeline: for the same plan text, data and
  * thread count, the queue's files are the batch command's byte for byte (the batch command's output,
- * documented in README's "Results", is the reference), summary.json apart from its wall times.
+ * documented in README's "Results", is the reference), summary.json apart from its wall times and the
+ * provenance's command and start.
  */
 class BothDoorsTest {
     private static final List<String> FILES = List.of("specifications.csv", "null-draws.csv", "overfitting.csv",
@@ -76,15 +77,26 @@ class BothDoorsTest {
             assertArrayEquals(Files.readAllBytes(batch.resolve("out").resolve(file)), Files.readAllBytes(web.resolve(file)),
                     file);
         }
-        assertTrue(withoutSeconds(batch.resolve("out/summary.json")).equals(withoutSeconds(web.resolve("summary.json"))),
-                "summary.json differs beyond its wall times");
+        JsonNode batchSummary = withoutTimesAndDoors(batch.resolve("out/summary.json"));
+        assertTrue(batchSummary.equals(withoutTimesAndDoors(web.resolve("summary.json"))),
+                "summary.json differs beyond its wall times, its start and its command");
+        // what is left of the provenance is the same from both doors: the same plan bytes (the test writes the
+        // plan file as the queue writes plan.json, UTF-8), the same data bytes, seed, threads, version and Java
+        assertEquals(List.of("version", "plan_sha256", "data_sha256", "seed", "java", "threads"),
+                List.copyOf(batchSummary.get("provenance").propertyNames()));
     }
 
-    /** The summary with the fit's and the null draws' wall times left out. */
-    private static JsonNode withoutSeconds(Path summary) throws IOException {
+    /**
+     * The summary with the fit's and the null draws' wall times left out, and the parts of its provenance that
+     * belong to the door or the moment: the command (a command line, a web action) and the start.
+     */
+    private static JsonNode withoutTimesAndDoors(Path summary) throws IOException {
         ObjectNode tree = (ObjectNode) JsonMapper.builder().build().readTree(Files.readString(summary));
         tree.remove("seconds");
         ((ObjectNode) tree.get("null")).remove("seconds");
+        ObjectNode provenance = (ObjectNode) tree.get("provenance");
+        provenance.remove("command");
+        provenance.remove("started");
         return tree;
     }
 

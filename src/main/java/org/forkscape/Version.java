@@ -1,4 +1,4 @@
-package org.forkscape.cli;
+package org.forkscape;
 
 import java.io.IOException;
 import java.io.InputStream;
@@ -7,16 +7,17 @@ import java.util.Properties;
 
 /**
  * Forkscape's version: the Maven project version, which the build filters into application.properties
- * as {@code forkscape.version}, so the jar and the test classpath read the same value.
+ * as {@code forkscape.version}, so the jar and the test classpath read the same value. It sits at the root
+ * because the command line prints it and every run records it in its provenance.
  */
-final class Version {
+public final class Version {
     private static final String RESOURCE = "/application.properties";
     private static final String KEY = "forkscape.version";
 
     private Version() {
     }
 
-    static String current() {
+    public static String current() {
         Properties properties = new Properties();
         try (InputStream in = Version.class.getResourceAsStream(RESOURCE)) {
             if (in == null) {

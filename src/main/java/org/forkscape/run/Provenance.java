@@ -1,0 +1,73 @@
+package org.forkscape.run;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.time.Instant;
+import java.time.temporal.ChronoUnit;
+import java.util.HexFormat;
+import java.util.LinkedHashMap;
+import java.util.Map;
+import org.forkscape.InputException;
+import org.forkscape.Version;
+
+/**
+ * How a run was made, written under {@code provenance} in summary.json: Forkscape's version, the SHA-256
+ * of the plan's and the data's bytes (FIPS 180-4, Secure Hash Standard), the seed, the command, the start
+ * in UTC, the Java version and the fitting threads (which do not change results).
+ */
+public record Provenance(String version, String planSha256, String dataSha256, long seed, String command,
+        Instant started, String java, int threads) {
+
+    /** The provenance of a run starting now, from what the door gave and what the pipeline knows. */
+    public static Provenance of(RunOrigin origin, long seed, int threads) {
+        return new Provenance(Version.current(), sha256(origin.planBytes()), sha256(origin.dataFile()), seed,
+                origin.command(), Instant.now().truncatedTo(ChronoUnit.SECONDS), System.getProperty("java.version"),
+                threads);
+    }
+
+    public Map<String, Object> toJson() {
+        Map<String, Object> m = new LinkedHashMap<>();
+        m.put("version", version);
+        m.put("plan_sha256", planSha256);
+        m.put("data_sha256", dataSha256);
+        m.put("seed", seed);
+        m.put("command", command);
+        m.put("started", started.toString());
+        m.put("java", java);
+        m.put("threads", threads);
+        return m;
+    }
+
+    /** Lower-case hex SHA-256 of the bytes. */
+    static String sha256(byte[] bytes) {
+        return HexFormat.of().formatHex(digest().digest(bytes));
+    }
+
+    /** Lower-case hex SHA-256 of a file's bytes, read in blocks so a large data file is not held twice. */
+    static String sha256(Path file) {
+        MessageDigest digest = digest();
+        byte[] block = new byte[1 << 16];
+        try (InputStream in = Files.newInputStream(file)) {
+            for (int n = in.read(block); n >= 0; n = in.read(block)) {
+                digest.update(block, 0, n);
+            }
+        } catch (IOException e) {
+            throw new InputException(file.toString(), "cannot read the data file to record its SHA-256: "
+                    + e.getMessage());
+        }
+        return HexFormat.of().formatHex(digest.digest());
+    }
+
+    private static MessageDigest digest() {
+        try {
+            return MessageDigest.getInstance("SHA-256");
+        } catch (NoSuchAlgorithmException e) {
+            // every Java platform must provide SHA-256 (java.security.MessageDigest's Javadoc)
+            throw new IllegalStateException(e);
+        }
+    }
+}

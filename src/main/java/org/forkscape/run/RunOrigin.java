@@ -1,0 +1,14 @@
+package org.forkscape.run;
+
+import java.nio.file.Path;
+
+/**
+ * What only the door knows about a run, for its provenance: how it was asked for, the plan's bytes and
+ * where the data file is.
+ *
+ * @param command   the command line as given, or a short description of the web action
+ * @param planBytes the plan file's bytes as the door read them (not modified)
+ * @param dataFile  the data file the table was read from
+ */
+public record RunOrigin(String command, byte[] planBytes, Path dataFile) {
+}

@@ -10,8 +10,11 @@ import java.io.PrintStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.HexFormat;
 import java.util.List;
 import java.util.SplittableRandom;
 import org.apache.commons.csv.CSVFormat;
@@ -144,6 +147,36 @@ class CommandLineTest {
         assertEquals(Arrays.stream(expected).mapToObj(i -> String.valueOf(i + 1)).toList(), specs);
         assertEquals(Files.readString(a.resolve("specifications.csv")), Files.readString(b.resolve("specifications.csv")));
         assertEquals(3, records(c.resolve("specifications.csv")).size());
+    }
+
+    @Test
+    void summaryJsonRecordsTheRunsProvenance() throws Exception {
+        // a byte-order mark, which the plan's text drops: the hash is of the file's bytes as read
+        byte[] planBytes = ("\uFEFF" + Files.readString(plan)).getBytes(StandardCharsets.UTF_8);
+        Files.write(plan, planBytes);
+        Path out = dir.resolve("results");
+        Outcome o = run("run", plan.toString(), "--out", out.toString(), "--threads", "1", "--seed", "13");
+        assertEquals(0, o.code(), o.err());
+        JsonNode summary = JsonMapper.builder().build().readTree(out.resolve("summary.json").toFile());
+        List<String> keys = new ArrayList<>(summary.propertyNames());
+        assertEquals("provenance", keys.get(keys.size() - 1));
+        JsonNode p = summary.get("provenance");
+        assertEquals(List.of("version", "plan_sha256", "data_sha256", "seed", "command", "started", "java", "threads"),
+                new ArrayList<>(p.propertyNames()));
+        // java.security.MessageDigest on the same bytes
+        assertEquals(sha256(planBytes), p.get("plan_sha256").asString());
+        assertEquals(sha256(Files.readAllBytes(dir.resolve("wards.csv"))), p.get("data_sha256").asString());
+        assertEquals(13, p.get("seed").asLong());
+        assertEquals("run " + plan + " --out " + out + " --threads 1 --seed 13", p.get("command").asString());
+        assertEquals(1, p.get("threads").asInt());
+        assertEquals(System.getProperty("java.version"), p.get("java").asString());
+        assertEquals(run("--version").out().trim(), "forkscape " + p.get("version").asString());
+        assertTrue(p.get("started").asString().matches("\\d{4}-\\d\\d-\\d\\dT\\d\\d:\\d\\d:\\d\\dZ"),
+                p.get("started").asString());
+    }
+
+    private static String sha256(byte[] bytes) throws NoSuchAlgorithmException {
+        return HexFormat.of().formatHex(MessageDigest.getInstance("SHA-256").digest(bytes));
     }
 
     @Test

@@ -3,6 +3,7 @@ package org.forkscape.web.run;
 import static org.hamcrest.Matchers.containsString;
 import static org.hamcrest.Matchers.matchesPattern;
 import static org.hamcrest.Matchers.startsWith;
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.get;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.post;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.put;
@@ -14,24 +15,57 @@ import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.
 import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.status;
 import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.view;
 
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
+import java.security.MessageDigest;
+import java.util.HexFormat;
+import java.util.List;
+import org.forkscape.Version;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.CivicTestData;
 import org.forkscape.web.WebTest;
+import org.forkscape.web.system.ForkscapeSettings;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.springframework.beans.factory.annotation.Autowired;
 import org.springframework.http.MediaType;
+import tools.jackson.databind.JsonNode;
 
 /** Starting, following and downloading runs, through the pages and the JSON API. */
 class RunControllersTest extends WebTest {
     @Autowired
     Workspace workspace;
+    @Autowired
+    ForkscapeSettings settings;
     private String analysis;
 
     @BeforeEach
     void data() throws Exception {
         analysis = upload("runs.csv", CivicTestData.csv(150, 9));
+    }
+
+    @Test
+    void theDownloadedSummaryRecordsTheWebRunsProvenance() throws Exception {
+        String plan = CivicTestData.plan();
+        String run = runToEnd(analysis, plan);
+        JsonNode summary = json(mvc.perform(get("/analyses/" + analysis + "/runs/" + run + "/files/summary.json"))
+                .andExpect(status().isOk()).andReturn().getResponse().getContentAsString());
+        List<String> keys = List.copyOf(summary.propertyNames());
+        assertEquals("provenance", keys.get(keys.size() - 1));
+        JsonNode p = summary.get("provenance");
+        assertEquals(List.of("version", "plan_sha256", "data_sha256", "seed", "command", "started", "java", "threads"),
+                List.copyOf(p.propertyNames()));
+        // java.security.MessageDigest on the plan as posted and the data as uploaded
+        MessageDigest sha = MessageDigest.getInstance("SHA-256");
+        assertEquals(HexFormat.of().formatHex(sha.digest(plan.getBytes(StandardCharsets.UTF_8))),
+                p.get("plan_sha256").asString());
+        assertEquals(HexFormat.of().formatHex(sha.digest(CivicTestData.csv(150, 9).getBytes(StandardCharsets.UTF_8))),
+                p.get("data_sha256").asString());
+        assertEquals("web: run of analysis " + analysis, p.get("command").asString());
+        assertEquals(json(plan).get("seed").asLong(), p.get("seed").asLong());
+        assertEquals(settings.runs().fittingThreads(), p.get("threads").asInt());
+        assertEquals(System.getProperty("java.version"), p.get("java").asString());
+        assertEquals(Version.current(), p.get("version").asString());
     }
 
     @Test

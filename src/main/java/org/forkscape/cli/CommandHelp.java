@@ -18,6 +18,11 @@ final class CommandHelp {
                 "                                               DIR/specifications.csv, DIR/summary.json,",
                 "                                               DIR/plan.json and DIR/overfitting.csv",
                 "                                               (with null draws also DIR/null-draws.csv)"));
+        COMMANDS.put("verify", String.join("\n",
+                "  java -jar forkscape.jar verify RUN_DIR       re-run a run folder from its plan.json, data and",
+                "                                               seed; exit 0 when specifications.csv and",
+                "                                               summary.json come out identical, 3 at the first",
+                "                                               difference, 2 when the data's SHA-256 changed"));
         COMMANDS.put("demo-data", String.join("\n",
                 "  java -jar forkscape.jar demo-data DIR [--replace yes]",
                 "                                               write the demo's data and plans into DIR"));

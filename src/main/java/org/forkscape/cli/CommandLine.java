@@ -11,7 +11,7 @@ import org.forkscape.Version;
 /**
  * The batch commands, {@code help} and {@code --version}. Every problem the user can cause ends with one
  * plain line on stderr (an unknown command adds the usage) and exit code 2; anything else with one line and exit code 1; never a stack trace (set FORKSCAPE_DEBUG=1 to
- * see one).
+ * see one). {@code verify} alone has a third outcome: exit code 3 when the recomputed results differ.
  */
 public final class CommandLine {
     private static final Set<String> HELP = Set.of("help", "--help", "-h");
@@ -78,6 +78,9 @@ public final class CommandLine {
             }
             switch (command) {
                 case "run" -> RunCommand.execute(args, out, err);
+                case "verify" -> {
+                    return VerifyCommand.execute(args, out, err);
+                }
                 case "bench" -> {
                     boolean quick = Arrays.asList(args).contains("--quick");
                     String[] rest = Arrays.stream(args).filter(s -> !s.equals("--quick")).toArray(String[]::new);

@@ -48,7 +48,7 @@ public record Provenance(String version, String planSha256, String dataSha256, l
     }
 
     /** Lower-case hex SHA-256 of a file's bytes, read in blocks so a large data file is not held twice. */
-    static String sha256(Path file) {
+    public static String sha256(Path file) {
         MessageDigest digest = digest();
         byte[] block = new byte[1 << 16];
         try (InputStream in = Files.newInputStream(file)) {

@@ -63,7 +63,7 @@ class CommandNamesTest {
 
     @Test
     void eachCommandPrintsItsOwnUsageOnHelp() {
-        for (String command : List.of("run", "bench", "demo-data")) {
+        for (String command : List.of("run", "verify", "bench", "demo-data")) {
             String first = "usage:" + NL + "  java -jar forkscape.jar " + command + " ";
             for (String[] args : List.of(new String[] {command, "--help"}, new String[] {command, "-h"},
                     new String[] {"help", command}, new String[] {command, "plan.json", "--help"})) {
@@ -75,6 +75,7 @@ class CommandNamesTest {
             }
         }
         assertTrue(run("run", "--help").out().contains("--null-draws R"));
+        assertTrue(run("verify", "--help").out().contains("verify RUN_DIR"));
         assertTrue(run("bench", "--help").out().contains("--quick"));
         assertTrue(run("demo-data", "--help").out().contains("--replace yes"));
     }
@@ -84,7 +85,7 @@ class CommandNamesTest {
         for (String name : List.of("help", "--help", "-h")) {
             Outcome o = run(name);
             assertEquals(0, o.code(), o.err());
-            for (String command : List.of(" run PLAN.json", " demo-data DIR", " bench [--quick]", " --version",
+            for (String command : List.of(" run PLAN.json", " verify RUN_DIR", " demo-data DIR", " bench [--quick]", " --version",
                     " help [COMMAND]")) {
                 assertTrue(o.out().contains("java -jar forkscape.jar" + command), command + " in " + o.out());
             }

@@ -45,6 +45,11 @@ final class VerifyCommand {
     }
 
     static int execute(String[] args, PrintStream out, PrintStream err) {
+        for (int i = 1; i < args.length; i++) {
+            if (args[i].startsWith("-") && args[i].length() > 1) {
+                throw new UsageException("verify takes no options; found " + args[i] + "; " + USAGE);
+            }
+        }
         Arguments a = new Arguments(args, 1, Set.of());
         if (a.positional().size() != 1) {
             throw new UsageException((a.positional().isEmpty() ? "verify needs a run folder" : "verify takes one "

@@ -129,12 +129,14 @@ class VerifyCommandTest {
     }
 
     @Test
-    void aFolderWithoutSummaryJsonIsRefused() throws IOException {
+    void aFolderWithoutSummaryJsonOrWithAnOptionIsRefused() throws IOException {
         Path copy = copyOf(runInto("results"), "copy");
         Files.delete(copy.resolve("summary.json"));
         CommandLineTest.refused(run("verify", copy.toString()), copy + ": has no summary.json");
         CommandLineTest.refused(run("verify", dir.resolve("absent").toString()), "is not a folder");
         CommandLineTest.refused(run("verify"), "verify needs a run folder");
+        CommandLineTest.refused(run("verify", copy.toString(), "--threads", "2"), "verify takes no options; found "
+                + "--threads; usage: verify RUN_DIR");
     }
 
     private Path copyOf(Path folder, String name) throws IOException {

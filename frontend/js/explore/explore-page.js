@@ -454,13 +454,13 @@ function wholeRun(summary) {
     box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
       t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
   }
-  const bounds = summary.extreme_bounds;
+  const bounds = summary.interval_bounds;
   // the run's bounds are over every estimate as fitted: shown only when those share their units
   if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
     box.append(card('Extreme bounds', `${number(bounds.lower)} to ${number(bounds.upper)}`,
       bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
   }
-  const shown = new Set(['null', 'best', 'extreme_bounds', 'influence', 'influence_overall']);
+  const shown = new Set(['null', 'best', 'interval_bounds', 'influence', 'influence_overall']);
   const more = el('details', { class: 'more-sections', id: 'more-sections' },
     el('summary', {}, 'Further sections of summary.json'));
   for (const [key, value] of Object.entries(summary)) {

@@ -49,7 +49,7 @@ public final class InferenceSections implements InferenceStage.Outcome {
         BestSpecification best = BestSpecification.of(run.results(), all, draws);
         m.put("best", best == null ? null : best.toJson());
         LeamerBounds bounds = LeamerBounds.of(run.results(), all, run.plan().confidence());
-        m.put("extreme_bounds", bounds == null ? null : bounds.toJson());
+        m.put("interval_bounds", bounds == null ? null : bounds.toJson());
         List<ComparableGroups.Group> groups = ComparableGroups.of(variants);
         m.put("comparable_groups", ComparableGroups.toJson(groups));
         m.put("overfitting", Overfitting.summary(run.results(), all, run.plan().alpha()));

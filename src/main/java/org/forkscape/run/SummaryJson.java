@@ -60,7 +60,7 @@ public final class SummaryJson {
      * they pool them, and {@code scales.pooled_as_fitted} names those present, so that no statistic
      * mixes units without saying so.
      */
-    static final List<String> POOLED = List.of("median_estimate", "null", "best", "extreme_bounds", "influence",
+    static final List<String> POOLED = List.of("median_estimate", "null", "best", "interval_bounds", "influence",
             "influence_overall");
 
     /** The section {@code scales}: the headline numbers per comparable group and on each unit-free scale. */

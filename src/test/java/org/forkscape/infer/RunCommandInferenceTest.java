@@ -120,7 +120,7 @@ class RunCommandInferenceTest {
     void writesTheInferenceSectionsAndFiles() throws IOException {
         assertEquals(0, run("--null-draws", "30", "--seed", "5", "--threads", "2", "--null-cluster", "g"), err);
         JsonNode summary = JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile());
-        for (String key : List.of("null", "best", "extreme_bounds", "comparable_groups", "overfitting", "influence",
+        for (String key : List.of("null", "best", "interval_bounds", "comparable_groups", "overfitting", "influence",
                 "influence_overall")) {
             assertTrue(summary.has(key), key);
         }

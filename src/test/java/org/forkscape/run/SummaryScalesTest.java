@@ -82,9 +82,9 @@ class SummaryScalesTest {
         assertEquals(summary.get("share_significant_positive"), partial.get("share_significant_positive"));
         // the pooled sections present are named: here only the headline median (no inference sections given)
         assertEquals(List.of("median_estimate"), scales.get("pooled_as_fitted"));
-        Map<String, Object> withSections = SummaryJson.of(run, Map.of("extreme_bounds", Map.of(), "null",
+        Map<String, Object> withSections = SummaryJson.of(run, Map.of("interval_bounds", Map.of(), "null",
                 Map.of(), "comparable_groups", List.of()), PROVENANCE);
-        assertEquals(List.of("median_estimate", "null", "extreme_bounds"),
+        assertEquals(List.of("median_estimate", "null", "interval_bounds"),
                 ((Map<?, ?>) withSections.get("scales")).get("pooled_as_fitted"));
     }
 

@@ -126,6 +126,8 @@ public final class MultiverseRunner {
                     futures.add(pool.submit(() -> {
                         SpecificationFitter fitter = new SpecificationFitter(allowRowFree);
                         long[] c = new long[space.decisionCount()];
+                        // counted per worker and added once per chunk: no shared counter in the per-fit loop
+                        long[] routed = new long[VarianceRoute.values().length];
                         int from;
                         while ((from = next.getAndAdd(CHUNK)) < slots.length) {
                             // stopped by the cancel flag, or by the pool when another worker failed
@@ -141,7 +143,13 @@ public final class MultiverseRunner {
                                 if (fit.refitByQr()) {
                                     refits.incrementAndGet();
                                 }
-                                routes.incrementAndGet(fit.route().ordinal());
+                                routed[fit.route().ordinal()]++;
+                            }
+                            for (int r = 0; r < routed.length; r++) {
+                                if (routed[r] > 0) {
+                                    routes.addAndGet(r, routed[r]);
+                                    routed[r] = 0;
+                                }
                             }
                             progress.update(done.addAndGet(to - from), indices.length);
                         }

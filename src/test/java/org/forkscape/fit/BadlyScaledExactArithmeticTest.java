@@ -16,6 +16,7 @@ import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.Agreement;
 import org.forkscape.reference.AgreementReport;
 import org.forkscape.reference.ExactLeastSquares;
 import org.junit.jupiter.api.Test;
@@ -100,12 +101,12 @@ class BadlyScaledExactArithmeticTest {
             List<double[]> regressors = new ArrayList<>();
             for (int j = 0; j < 3; j++) {
                 if ((choices[2] & (1L << j)) != 0) {
-                    regressors.add(values(t, controls[j]));
+                    regressors.add(NearCopyExactArithmeticTest.values(t, controls[j]));
                 }
             }
-            regressors.add(values(t, "x"));
+            regressors.add(NearCopyExactArithmeticTest.values(t, "x"));
             ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(regressors.toArray(new double[0][]),
-                    values(t, "y"), null, sensor);
+                    NearCopyExactArithmeticTest.values(t, "y"), null, sensor);
             String type = errors[(int) choices[3]];
             FullFit refit = full.fit(plan, models, index);
             SpecificationModel model = models.model(choices);
@@ -115,9 +116,9 @@ class BadlyScaledExactArithmeticTest {
                 String where = String.format("specification %d (%s, route %s)", index + 1, type, fit.route());
                 assertEquals(FitStatus.OK, fit.status(), where);
                 routes.merge(fit.route(), 1, Integer::sum);
-                double exactError = Math.max(relative(fit.estimate(), exact.estimate()),
-                        relative(fit.stdError(), exact.stdError(type)));
-                double refitError = relative(fit.stdError(), refit.key().stdError());
+                double exactError = Math.max(Agreement.relativeError(fit.estimate(), exact.estimate()),
+                        Agreement.relativeError(fit.stdError(), exact.stdError(type)));
+                double refitError = Agreement.relativeError(fit.stdError(), refit.key().stdError());
                 worst.merge("against exact arithmetic, " + fit.route(), exactError, Math::max);
                 worst.merge("against the QR refit, " + fit.route(), refitError, Math::max);
                 assertTrue(exactError <= 1e-9, where + ": relative error " + exactError + " against 90-digit arithmetic");
@@ -128,13 +129,5 @@ class BadlyScaledExactArithmeticTest {
                 + "and spreads 1e-6 to 1e9, by route", worst);
         assertTrue(routes.getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0) > 0, "routes " + routes);
         assertTrue(routes.getOrDefault(VarianceRoute.CLUSTER_CELLS, 0) > 0, "routes " + routes);
-    }
-
-    static double relative(double actual, double expected) {
-        return actual == expected ? 0 : Math.abs(actual - expected) / Math.abs(expected);
-    }
-
-    static double[] values(Table t, String column) {
-        return ((NumericColumn) t.column(column)).values();
     }
 }

@@ -16,6 +16,7 @@ import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.Agreement;
 import org.forkscape.reference.AgreementReport;
 import org.forkscape.reference.ExactLeastSquares;
 import org.junit.jupiter.params.ParameterizedTest;
@@ -141,8 +142,8 @@ class NearCopyExactArithmeticTest {
                     if (fit.refitByQr()) {
                         refits++;
                     }
-                    double e = Math.max(relative(fit.estimate(), exact.estimate()),
-                            relative(fit.stdError(), exact.stdError(type)));
+                    double e = Math.max(Agreement.relativeError(fit.estimate(), exact.estimate()),
+                            Agreement.relativeError(fit.stdError(), exact.stdError(type)));
                     worstByRoute.merge(fit.route() + (fit.refitByQr() ? " after a QR refit" : " after Cholesky"),
                             e, Math::max);
                     if (e > worst) {
@@ -167,10 +168,6 @@ class NearCopyExactArithmeticTest {
         if (gap <= 1e-4) {
             assertTrue(refits > 0, "near-copies this close are refit by QR");
         }
-    }
-
-    static double relative(double actual, double expected) {
-        return actual == expected ? 0 : Math.abs(actual - expected) / Math.abs(expected);
     }
 
     static double[] values(Table t, String column) {

@@ -1,12 +1,12 @@
 package org.forkscape.reference;
 
 /** Relative and absolute agreement of two numbers, and the log relative error of McCullough (1998). */
-final class Agreement {
+public final class Agreement {
     private Agreement() {
     }
 
     /** |actual - expected| / |expected|; the absolute difference when expected is 0; 0 when both are equal. */
-    static double relativeError(double actual, double expected) {
+    public static double relativeError(double actual, double expected) {
         if (actual == expected) {
             return 0;
         }

@@ -17,6 +17,7 @@ import org.forkscape.reference.ExactLeastSquares;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunProgress;
+import org.forkscape.run.RunResult;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -84,7 +85,8 @@ class CollinearityRuleTest {
     void theRunAndTheFullFitDropTheSameColumns() {
         Table t = weather();
         Plan plan = new PlanReader(false).read(PLAN, Path.of("."));
-        ResultTable run = new MultiverseRunner(1).run(plan, t, RunProgress.SILENT, null).results();
+        RunResult result = new MultiverseRunner(1).run(plan, t, RunProgress.SILENT, null);
+        ResultTable run = result.results();
         SpecificationModels models = new SpecificationModels(plan, t);
         FullFitter full = new FullFitter();
         int[] station = ((CategoricalColumn) t.column("station")).codes();
@@ -102,11 +104,11 @@ class CollinearityRuleTest {
             long[] choices = new long[models.space().decisionCount()];
             models.space().decode(run.specIndex(i), choices);
             List<double[]> kept = new ArrayList<>();
-            kept.add(values(t, "rain"));
+            kept.add(NearCopyExactArithmeticTest.values(t, "rain"));
             String[] optional = {"elevation", "elevation_noisy", "elevation_rounded"};
             for (int j = 0; j < 3; j++) {
                 if ((choices[2] & (1L << j)) != 0 && !f.note().contains(optional[j])) {
-                    kept.add(values(t, optional[j]));
+                    kept.add(NearCopyExactArithmeticTest.values(t, optional[j]));
                 }
             }
             if ((choices[2] & 4L) != 0) {
@@ -116,8 +118,8 @@ class CollinearityRuleTest {
             if ((choices[2] & 2L) != 0) {
                 assertTrue(!f.note().contains("elevation_noisy"), "a ratio of 1e-5 is kept: " + f.note());
             }
-            kept.add(values(t, "x"));
-            ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(kept.toArray(new double[0][]), values(t, "y"),
+            kept.add(NearCopyExactArithmeticTest.values(t, "x"));
+            ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(kept.toArray(new double[0][]), NearCopyExactArithmeticTest.values(t, "y"),
                     station, station);
             String type = plan.decisions().get(3).label(choices[3]);
             assertEquals(exact.k(), run.nParams(i), "K against the model without the dropped columns, " + where);
@@ -125,14 +127,12 @@ class CollinearityRuleTest {
             assertEquals(exact.stdError(type), run.stdError(i), 1e-9 * exact.stdError(type), type + ", " + where);
         }
         assertEquals(run.size() / 2, droppedRounded);
+        // the route: every specification whose column the rule drops was declined by the Cholesky solve
+        assertTrue(result.refitByQr() >= droppedRounded, "refit by QR: " + result.refitByQr());
     }
 
     /** The note of a status "ok; note" or "ok", as the result table keeps them together. */
     private static String note(String status) {
         return status.startsWith("ok; ") ? status.substring(4) : "";
-    }
-
-    static double[] values(Table t, String column) {
-        return ((NumericColumn) t.column(column)).values();
     }
 }

@@ -74,6 +74,7 @@ final class Irls {
     private double[] trialAlpha = new double[0];
     private double[] trialBeta = new double[0];
     private double[] trialEta = new double[0];
+    private double[] trialMu = new double[0];
     private double[] centred = new double[0];
 
     /**
@@ -98,7 +99,7 @@ final class Irls {
         }
         Arrays.fill(kept, 0, p, true);
         linearPredictor(alpha, beta, eta);
-        deviance = deviance(eta);
+        deviance = family.deviance(rows.y, eta, mu, n);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= MAX_ITERATIONS; iterations++) {
@@ -127,7 +128,7 @@ final class Irls {
                     trialBeta[j] = kept[j] ? beta[j] + t * step[j] : 0;
                 }
                 linearPredictor(trialAlpha, trialBeta, trialEta);
-                trial = deviance(trialEta);
+                trial = family.deviance(rows.y, trialEta, trialMu, n);
                 if (Double.isFinite(trial) && trial <= before * (1 + 1e-12) + 1e-300) {
                     break;
                 }
@@ -138,7 +139,12 @@ final class Irls {
             }
             System.arraycopy(trialAlpha, 0, alpha, 0, levels);
             System.arraycopy(trialBeta, 0, beta, 0, p);
-            System.arraycopy(trialEta, 0, eta, 0, n);
+            double[] swap = eta;
+            eta = trialEta;
+            trialEta = swap;
+            swap = mu;
+            mu = trialMu;
+            trialMu = swap;
             deviance = trial;
             double enough = family == GlmFamily.PROBIT ? SCORING_DECREMENT : CANONICAL_DECREMENT;
             if (Math.abs(trial - before) / (Math.abs(trial) + 0.1) < TOLERANCE && decrement < enough) {
@@ -151,7 +157,6 @@ final class Irls {
         }
         boundaryRows = 0;
         for (int i = 0; i < n; i++) {
-            mu[i] = family.mean(eta[i]);
             if (family.atBoundary(mu[i]) && (family != GlmFamily.POISSON || rows.y[i] == 0)) {
                 boundaryRows++;
             }
@@ -197,18 +202,9 @@ final class Irls {
         }
     }
 
-    private double deviance(double[] e) {
-        double d = 0;
-        double[] y = rows.y;
-        for (int i = 0; i < rows.n; i++) {
-            d += family.unitDeviance(y[i], family.mean(e[i]));
-        }
-        return d;
-    }
-
     /**
-     * The weights, the score and the within cross-products at the current linear predictor: first the
-     * level sums (weights, weighted column means, score), then the cross-products of the columns around
+     * The weights, the score and the within cross-products at the current linear predictor and means: first
+     * the level sums (weights, weighted column means, score), then the cross-products of the columns around
      * those weighted means (two passes, so that no sum is taken of values far from their mean).
      *
      * @param withScore whether to sum the score as well (not needed for the information at the estimate)
@@ -223,14 +219,9 @@ final class Irls {
         Arrays.fill(levelWeight, 0, levels, 0);
         Arrays.fill(levelMean, 0, levels * p, 0);
         Arrays.fill(levelScore, 0, levels, 0);
+        family.weightsAndScores(y, eta, mu, weight, score, n);
         for (int i = 0, at = 0; i < n; i++, at += p) {
-            double m = family.mean(eta[i]);
-            double slope = family.meanSlope(eta[i]);
-            double v = family.variance(m);
-            double w = slope * slope / v;
-            mu[i] = m;
-            weight[i] = w;
-            score[i] = (y[i] - m) * slope / v;
+            double w = weight[i];
             int l = level[i];
             levelWeight[l] += w;
             levelScore[l] += score[i];
@@ -399,6 +390,7 @@ final class Irls {
             weight = new double[n];
             score = new double[n];
             trialEta = new double[n];
+            trialMu = new double[n];
         }
         if (beta.length < p) {
             beta = new double[p];

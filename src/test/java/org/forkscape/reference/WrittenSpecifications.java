@@ -26,14 +26,12 @@ import org.forkscape.run.SpecificationsCsv;
  */
 final class WrittenSpecifications {
     private final List<String> decisionNames;
-    private final List<String> header;
     private final Map<String, Map<String, String>> byLabels = new LinkedHashMap<>();
 
     private WrittenSpecifications(Plan plan, String csv) {
         decisionNames = plan.decisions().stream().map(Decision::name).toList();
         CSVFormat format = CSVFormat.RFC4180.builder().setHeader().setSkipHeaderRecord(true).get();
         try (CSVParser parser = CSVParser.builder().setReader(new StringReader(csv)).setFormat(format).get()) {
-            header = parser.getHeaderNames();
             for (CSVRecord r : parser) {
                 Map<String, String> row = new LinkedHashMap<>(r.toMap());
                 byLabels.put(key(row), row);
@@ -60,10 +58,6 @@ final class WrittenSpecifications {
     /** The decision labels of a row (of this file or of a reference file with the same decision columns). */
     String key(Map<String, String> row) {
         return String.join(" | ", decisionNames.stream().map(row::get).toList());
-    }
-
-    List<String> header() {
-        return header;
     }
 
     /** The written row with the same decision labels as {@code reference}, or null. */

@@ -10,7 +10,8 @@
 #     Rscript src/test/r/glm-reference.R
 #
 # It rewrites every file in src/test/resources/reference/glm/ except the plan files (*-plan.json), which
-# are written by hand, and statsmodels-margins.csv, which src/test/python/glm-margins-reference.py writes.
+# are written by hand, and statsmodels-margins.csv and statsmodels-versions.txt, which
+# src/test/python/glm-margins-reference.py writes.
 # The tests read only the committed output, so R is not needed to run them.
 #
 # What it writes:

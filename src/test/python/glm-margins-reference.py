@@ -7,9 +7,12 @@ the 9th Python in Science Conference), a second reference beside R for two of th
 
 For each of those specifications it fits the model by Newton's method and asks
 get_margeff(at="overall", dummy=True): the mean over rows of F(x_i with the key at 1) - F(x_i with the key
-at 0), with the analytic gradient of that mean for the delta method. statsmodels' cluster covariance
-applies G/(G-1) (N-1)/(N-K) by default, the correction Forkscape's cluster errors use; its HC1 to HC3 for
-these models are not the regression corrections, so only HC0 is taken. For Probit, statsmodels' covariance
+at 0), with the analytic gradient of that mean for the delta method. Forkscape's cluster errors for a GLM
+are sandwich::vcovCL's default for a glm, the cluster sandwich times G/(G-1); statsmodels' cluster
+covariance is taken without its own correction (use_correction=False; its default G/(G-1) (N-1)/(N-K) is
+least squares' CR1) and both standard errors are multiplied by sqrt(G/(G-1)), which is exact, each being the
+square root of a quadratic form in that covariance. statsmodels' HC1 to HC3 for these models are not the
+regression corrections, so only HC0 is taken. For Probit, statsmodels' covariance
 is built on the observed information (the Newton Hessian), where Forkscape and R use the expected (Fisher)
 information; the two differ for a non-canonical link (by up to 2% here), so the Probit rows carry the
 estimate and the marginal effect only, and their standard-error cells are empty.
@@ -63,14 +66,16 @@ def fit(model, y, x, errors, groups):
     elif errors == "HC0":
         kwargs = {"cov_type": "HC0"}
     else:
-        kwargs = {"cov_type": "cluster", "cov_kwds": {"groups": groups}}
+        kwargs = {"cov_type": "cluster", "cov_kwds": {"groups": groups, "use_correction": False}}
     r = model(y, x).fit(disp=0, method="newton", tol=1e-12, maxiter=100, **kwargs)
     if not r.mle_retvals["converged"]:
         sys.exit("statsmodels did not converge")
     m = r.get_margeff(at="overall", dummy=True)
     k = list(x.columns).index("key")
+    clusters = len(np.unique(groups)) if errors.startswith("cluster:") else 0
+    scale = np.sqrt(clusters / (clusters - 1)) if clusters else 1.0
     # margeff has no entry for the constant
-    return r.params["key"], r.bse["key"], m.margeff[k - 1], m.margeff_se[k - 1]
+    return r.params["key"], scale * r.bse["key"], m.margeff[k - 1], scale * m.margeff_se[k - 1]
 
 
 def subset_of(optional, mask):

@@ -2,10 +2,13 @@ package org.forkscape.reference;
 
 /**
  * How closely Forkscape's fit of one specification must match a reference computed far past convergence,
- * by the model the specification uses. Each figure rests on {@code src/test/resources/reference/glm/stopping-gap.txt},
- * which {@code src/test/r/glm-reference.R} measures: the largest relative change of each quantity, over every
- * GLM specification of the committed plans, between R's glm stopped at the engine's rule (relative deviance
- * change below 1e-10) and at 1e-14, each evaluated at the coefficients it stopped at.
+ * by the model the specification uses. The GLM figures rest on the engine's stopping rule (a relative change
+ * in deviance below 1e-10 and a Newton decrement d'I d of the step below 1e-8 for logit and Poisson, 1e-15
+ * for probit) and on {@code src/test/resources/reference/glm/stopping-gap.txt}, in which
+ * {@code src/test/r/glm-reference.R} measures the largest relative change of each quantity, over every GLM
+ * specification of the committed plans, between the reference and glm stopped by that rule (epsilon 1e-10,
+ * then scoring steps until the decrement is below the threshold), each evaluated at the coefficients it
+ * stopped at.
  */
 enum GlmTolerance {
     /**
@@ -14,30 +17,26 @@ enum GlmTolerance {
      */
     OLS(1e-9),
     /**
-     * Logit and Poisson with the log link are canonical: scoring is Newton's method and converges
-     * quadratically, so the step after a 1e-10 change in deviance is already below rounding in most fits;
-     * measured: at most 5.0e-10 relative in the key estimate, 1.6e-10 in its classical error, 3.5e-10 in
-     * the marginal effect. 1e-7 leaves a margin of 200.
+     * Logit, probit and Poisson: 1e-7 relative. A decrement below 1e-8 bounds the last Newton step (logit and
+     * Poisson: canonical links, quadratic convergence) at 1e-4 standard errors, leaving about its square; a
+     * decrement below 1e-15 bounds probit's last scoring step (linear convergence) at 3.2e-8 standard errors,
+     * leaving no more than that at a rate up to 1/2. With |z| at least 1.1 in every committed plan, an error
+     * in standard errors is at most as large relative to the estimate. Measured: at most 1.5e-8 relative in
+     * the key estimate, 1.4e-8 in the marginal effect, 2.2e-9 in the classical error (all probit; logit and
+     * Poisson below 5e-10).
      */
-    CANONICAL(1e-7),
-    /**
-     * Probit is not canonical: scoring with the expected information converges linearly, and a 1e-10 change
-     * in deviance still leaves a coefficient some 6e-6 of its standard error from the maximum; measured: at
-     * most 2.7e-6 relative in the key estimate, 2.5e-6 in the marginal effect, 4.9e-7 in the classical
-     * error. 1e-5 leaves a margin of about 4 and is what the stopping rule allows; an engine that iterated
-     * further would meet {@link #CANONICAL}'s 1e-7 here too.
-     */
-    PROBIT(1e-5);
+    GLM(1e-7);
 
     /**
-     * Deviance and McFadden's R-squared: the stopping rule bounds the deviance's own relative change at 1e-10,
-     * and the measured gaps are below 6.1e-13 and 9.0e-12; 1e-9 for both.
+     * Deviance and McFadden's R-squared (whose log-likelihoods differ from minus half the deviance by a
+     * constant of the data): measured deviance gaps are below 2.3e-15; 1e-9 for both allows for the
+     * R-squared's division when the fit improves little on its null.
      */
     static final double LIKELIHOOD = 1e-9;
     /**
-     * The likelihood-ratio test's p-value: the statistic is a difference of log-likelihoods known to about
-     * 1.4e-10 (deviance 230 times 6.1e-13), and d ln p / d LR is about -1/2; the chi-square tail itself
-     * differs between R's pchisq and Commons Math's regularized gamma by rounding. 1e-8 relative.
+     * The likelihood-ratio test's p-value: its statistic is a difference of deviances, d ln p / d LR is about
+     * -1/2, and the chi-square tail differs between R's pchisq and Commons Math's regularized gamma by
+     * rounding. 1e-8 relative.
      */
     static final double MODEL_P = 1e-8;
 
@@ -52,10 +51,9 @@ enum GlmTolerance {
             case "ols":
                 return OLS;
             case "logit":
-            case "poisson":
-                return CANONICAL;
             case "probit":
-                return PROBIT;
+            case "poisson":
+                return GLM;
             default:
                 throw new IllegalArgumentException("no tolerance for model " + model);
         }

@@ -23,8 +23,8 @@ import org.junit.jupiter.params.provider.ValueSource;
  * <p>What each column is compared with (the R expression that produced it):
  * <ul>
  * <li>estimate: coef(glm)[key]; std_error: sqrt of vcov(glm) (dispersion 1), sandwich::vcovHC(type = HC0..HC3)
- * or sandwich::vcovCL(cluster, type = "HC1", cadjust = TRUE), G/(G-1) (N-1)/(N-K); for least squares as in
- * {@link RLmSandwichReferenceTest}.</li>
+ * or sandwich::vcovCL(cluster) with its default for a glm (type HC0: the cluster sandwich times G/(G-1));
+ * for least squares as in {@link RLmSandwichReferenceTest} (CR1, G/(G-1) (N-1)/(N-K)).</li>
  * <li>statistic, p_value, ci_low, ci_high: estimate / se, 2 pnorm(-|z|), estimate -/+ qnorm() se (t and qt
  * for least squares).</li>
  * <li>effect, effect_std_error: the average marginal effect, mean mu'(eta_i) b for a continuous key and the
@@ -39,7 +39,7 @@ import org.junit.jupiter.params.provider.ValueSource;
  * probabilities of 0 or 1 and its deviance goes to 0); then every number R leaves empty must be empty.</li>
  * </ul>
  *
- * <p>Tolerances: {@link GlmTolerance} by model (1e-7 relative for logit and Poisson, 1e-5 for probit, 1e-9 for
+ * <p>Tolerances: {@link GlmTolerance} by model (1e-7 relative for logit, probit and Poisson, 1e-9 for
  * least squares) for the estimate, its error, the statistic, the interval and the marginal effect and its
  * error; {@link GlmTolerance#pValue} for p_value; {@link GlmTolerance#LIKELIHOOD} for r2 and deviance;
  * {@link GlmTolerance#MODEL_P} for model_p_value. The largest errors measured are written to

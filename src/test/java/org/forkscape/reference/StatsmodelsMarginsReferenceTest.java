@@ -17,14 +17,14 @@ import org.junit.jupiter.params.provider.CsvSource;
  * {@code src/test/python/glm-margins-reference.py} with the versions in {@code glm/statsmodels-versions.txt}
  * (statsmodels 0.13.5, Debian's python3-statsmodels). Logit, Probit and Poisson fitted by Newton's method,
  * {@code get_margeff(at="overall", dummy=True)}: the mean over rows of F(x_i with the key at 1) - F(x_i with
- * the key at 0) and its analytic gradient; errors classical, HC0 and cluster by age (statsmodels' default
- * correction G/(G-1) (N-1)/(N-K)). Probit standard errors are absent from the file: statsmodels builds them
+ * the key at 0) and its analytic gradient; errors classical, HC0 and cluster by age (statsmodels' cluster
+ * sandwich without its own correction, both errors times sqrt(G/(G-1)): sandwich::vcovCL's default for a glm). Probit standard errors are absent from the file: statsmodels builds them
  * on the observed information, Forkscape on the expected information. Rows are matched by spec number, and
  * the labels the script wrote must be the run's.
  *
- * <p>Tolerances: {@link GlmTolerance} by model (1e-7 relative for logit and Poisson, 1e-5 for probit), for the
- * same reason as in {@link RGlmReferenceTest}: Forkscape stops at a relative deviance change of 1e-10, while
- * statsmodels went to a Newton step below 1e-12 (it agrees with R's glm to 3e-14 on these rows).
+ * <p>Tolerances: {@link GlmTolerance#GLM}, 1e-7 relative, for the reason given there: Forkscape stops by its
+ * deviance and Newton-decrement rule, while statsmodels went to a Newton step below 1e-12 (it agrees with R's
+ * glm to 3e-14 on these rows).
  */
 class StatsmodelsMarginsReferenceTest {
     private static final List<String> LABELS = List.of("model", "controls", "fixed effects", "errors");

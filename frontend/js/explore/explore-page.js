@@ -139,9 +139,9 @@ function scaleNote(view) {
   const groups = info.groups.filter((g) => g.fitted > 0).length;
   if (scale === 'fitted') {
     if (info.unitsDiffer) {
-      text += `The plan codes its outcome or key predictor in several ways${state.layout.modelFactor >= 0
-        ? ', or fits several models (a logit coefficient is in log-odds, a least-squares one in the outcome itself)'
-        : ''}, so estimates as fitted come in ${count(groups)} sets of units; only one comparable group is shown. `
+      text += `Estimates as fitted come in ${count(groups)} sets of units (the plan has several outcome alternatives, `
+        + `key-predictor codings${state.layout.modelFactor >= 0 ? ' or models: a logit coefficient is in log-odds, a '
+          + 'least-squares one in the outcome itself' : ''}); only one comparable group is shown. `
         + (state.layout.modelFactor >= 0 ? 'Choose another group, the average marginal effect (every model in the '
           + 'units of the outcome), or a unit-free scale to see more specifications together.'
           : 'Choose another group, or a unit-free scale to see every specification together.');

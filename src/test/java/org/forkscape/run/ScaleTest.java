@@ -71,4 +71,22 @@ class ScaleTest {
         assertEquals(Scale.AVERAGE_MARGINAL_EFFECT, Scale.named("effect"));
         assertThrows(IllegalArgumentException.class, () -> UnitGroups.of(run, Scale.STANDARDIZED));
     }
+
+    @Test
+    void eachModelsCoefficientIsNamedOnItsLinkScale() {
+        // a 0/1 outcome is also a non-negative one, so every model can fit it
+        RunResult run = SummaryScalesTest.run(SummaryScalesTest.GLM_PLAN.replace("[\"ols\", \"logit\"]",
+                "[\"ols\", \"logit\", \"probit\", \"poisson\"]"));
+        UnitGroups fitted = UnitGroups.of(run);
+        assertEquals(java.util.List.of("passed per unit of tutoring (hours)",
+                "log-odds of passed per unit of tutoring (hours)",
+                "probit index (normal quantile of the probability) of passed per unit of tutoring (hours)",
+                "log of the expected passed per unit of tutoring (hours)"),
+                fitted.groups().stream().map(g -> fitted.unit(Scale.AS_FITTED, g)).toList());
+        fitted.groups().forEach(g -> assertEquals(8, g.fitted(), g.title()));
+        UnitGroups effects = UnitGroups.of(run, Scale.AVERAGE_MARGINAL_EFFECT);
+        assertEquals(32, effects.groups().get(0).fitted());
+        assertEquals("t or z statistic of tutoring (estimate / standard error; z for logit, probit and Poisson)",
+                fitted.unit(Scale.T_STATISTIC, null));
+    }
 }

@@ -136,4 +136,28 @@ public final class MemoryFootprint {
     public static long repeatedRows(int rows) {
         return 2 * INT * (long) rows;
     }
+
+    /**
+     * A worker's estimator of generalized linear models: the specification's rows row by row (columns,
+     * recorded outcome, level, cluster, source row) and the iterations' per-row state (linear predictor, mean,
+     * weight, score and the trial step's two); the design rows it transposes them from are the worker's
+     * {@link #fitterRows}.
+     *
+     * @param specificationColumns the most columns a specification has, outcome included
+     * @param levels               fixed-effect levels (1 without), each with a row of weighted means
+     */
+    public static long glmFitter(int rows, int specificationColumns, int levels) {
+        return (long) rows * (DOUBLE * (specificationColumns + 7L) + 3 * INT)
+                + (long) levels * DOUBLE * (specificationColumns + 6);
+    }
+
+    /** One fit's start kept for its children ({@link GlmStarts}): a coefficient per column and per level, and the key. */
+    public static long glmStart(int specificationColumns, int levels) {
+        return DOUBLE * ((long) specificationColumns + levels) + 4L * INT * specificationColumns + 6 * ARRAY;
+    }
+
+    /** The outcome and predictor alternatives as recorded, kept beside the shifted columns for these models. */
+    public static long recordedColumns(int rows, int alternatives) {
+        return (long) rows * DOUBLE * alternatives;
+    }
 }

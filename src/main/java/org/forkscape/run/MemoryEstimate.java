@@ -43,6 +43,8 @@ public final class MemoryEstimate {
     private static final long RESULT_BYTES = 64;
     /** With a random sample each result also keeps its specification number. */
     private static final long SAMPLED_RESULT_BYTES = 72;
+    /** The generalized linear models' own result columns: effect, its error, the likelihood-ratio p, the model. */
+    private static final long GENERALIZED_RESULT_BYTES = 25;
     /** The runner's per-specification arrays: the specification numbers, each one's variant and its slot. */
     private static final long RUNNER_BYTES = 16;
     /** A sampled specification number while the sample is drawn (a boxed long in a hash set). */
@@ -144,6 +146,9 @@ public final class MemoryEstimate {
         SpecificationMix profile = SpecificationMix.of(models, fitted, missingBits);
         int maxUsableSets = Long.bitCount(missingBits) >= 30 ? Integer.MAX_VALUE : 1 << Long.bitCount(missingBits);
         long fitterRows = workers * MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
+        boolean generalized = plan.generalized();
+        long recorded = generalized ? MemoryFootprint.recordedColumns(rows,
+                plan.outcome().alternatives().size() + plan.predictor().alternatives().size()) : 0;
 
         long largestVariant = 0;
         Map<String, Long> largestVariantParts = Map.of();
@@ -160,8 +165,13 @@ public final class MemoryEstimate {
             int[] levelCodes = absorbed == null ? null : LevelCodes.of(table.column(absorbed));
             int levels = levelCodes == null ? 1 : Math.max(1, count(levelCodes));
             long variantCells = cells.distinct(levelCodes, null);
-            long base = MemoryFootprint.variant(rows, columns, variantCells, levels, clusterCodes.size());
-            allVariants += base;
+            long base = MemoryFootprint.variant(rows, columns, variantCells, levels, clusterCodes.size()) + recorded;
+            // at most every specification of the variant a generalized linear fit, each keeping its start
+            long starts = generalized ? pv.specifications * MemoryFootprint.glmStart(profile.maxColumns + 1, levels)
+                    : 0;
+            long glmFitters = generalized ? workers * MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels)
+                    : 0;
+            allVariants += base + starts;
             long usable = SpecificationMix.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
             long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
                     + workers * MemoryFootprint.momentsBuild(columns, levels);
@@ -189,6 +199,7 @@ public final class MemoryEstimate {
             variantParts.put("the fourth-moment tensors of the HC0/HC1 sandwich", fourth);
             variantParts.put("the per-cluster cells of the cluster-robust sandwich", clusterCells);
             variantParts.put("the fitting threads' row buffers for refits by QR", fitterRows);
+            variantParts.put("the generalized linear models' rows, iteration state and starts", glmFitters + starts);
             long total = sum(variantParts);
             if (total > largestVariant) {
                 largestVariant = total;
@@ -199,11 +210,13 @@ public final class MemoryEstimate {
                 drawCopies += MemoryFootprint.resampledVariant(rows, columns, variantCells, levels,
                         permute ? predictors : 0) + usable * (MemoryFootprint.moments(columns, levels, 0)
                         + (pv.robust > 0 ? MemoryFootprint.repeatedRows(rows) : 0))
-                        + MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
+                        + MemoryFootprint.fitterRows(rows, profile.maxColumns + 1)
+                        + (generalized ? MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels) : 0);
             }
         }
 
-        long results = fitted * (sampled ? SAMPLED_RESULT_BYTES : RESULT_BYTES);
+        long results = fitted * ((sampled ? SAMPLED_RESULT_BYTES : RESULT_BYTES)
+                + (generalized ? GENERALIZED_RESULT_BYTES : 0));
         Map<String, Long> fitting = new LinkedHashMap<>(largestVariantParts);
         fitting.put("the result table", results);
         fitting.put("the specification numbers and their variants", RUNNER_BYTES * fitted);

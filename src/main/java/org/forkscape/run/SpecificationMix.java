@@ -8,6 +8,7 @@ import java.util.SplittableRandom;
 import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.SpecificationSpace;
 
 /**
@@ -85,7 +86,8 @@ final class SpecificationMix {
             v.masks.add(mask);
             columns += m.controlColumns().length + 1;
             p.maxColumns = Math.max(p.maxColumns, m.controlColumns().length + 1);
-            switch (m.errors().kind()) {
+            // the sandwich structures counted below are least squares'; a generalized linear model reads rows
+            switch (m.family().leastSquares() ? m.errors().kind() : ErrorType.Kind.CLASSICAL) {
                 case HC0, HC1 -> {
                     v.hc++;
                     v.hcSeen++;

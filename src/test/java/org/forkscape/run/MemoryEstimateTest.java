@@ -47,6 +47,25 @@ class MemoryEstimateTest {
         assertOfTheRightOrder(plan, table);
     }
 
+    /** Logistic regressions: each worker's rows and iteration state, and every fit's start for its children. */
+    @Test
+    void aRunOfGeneralizedLinearModels() {
+        Table table = table(40_000);
+        String json = """
+                {"data": "air.csv", "decisions": [
+                  {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "alert", "column": "alert"}]},
+                  {"name": "trees", "kind": "predictor", "alternatives": [{"label": "cover", "column": "tree_cover"}]},
+                  {"name": "controls", "kind": "controls", "required": ["band"],
+                   "optional": ["c1", "c3", "c4", "c5", "c6", "c7"]},
+                  {"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:district"]},
+                  {"name": "model", "kind": "model", "alternatives": ["logit"]}]}
+                """;
+        Plan plan = new PlanReader(false).read(json, Path.of("."));
+        PlanChecker.check(plan, table);
+        assertTrue(MemoryEstimate.of(plan, table, 2).parts().keySet().stream().anyMatch(k -> k.contains("generalized")));
+        assertOfTheRightOrder(plan, table);
+    }
+
     @Test
     void aRunAboveTheLimitIsRefusedWithTheEstimateAndTheLimit() {
         Table table = table(2_000);
@@ -112,7 +131,7 @@ class MemoryEstimateTest {
      */
     private static Table table(int rows) {
         SplittableRandom r = new SplittableRandom(rows);
-        StringBuilder b = new StringBuilder("district,region,band,tree_cover,pm25,no2");
+        StringBuilder b = new StringBuilder("district,region,band,tree_cover,pm25,no2,alert");
         for (int j = 1; j <= 10; j++) {
             b.append(",c").append(j);
         }
@@ -125,9 +144,12 @@ class MemoryEstimateTest {
                 c[j] = Math.round(r.nextGaussian() * 1e4) / 1e4;
             }
             c[10] = c[3] + c[4];
-            b.append(String.format(Locale.ROOT, "d%02d,r%02d,b%d,%.3f,%.3f,%s", district, district % 20, r.nextInt(5),
-                    cover, 20 - 0.1 * cover + c[1] + 3 * r.nextGaussian(), r.nextDouble() < 0.03 ? ""
-                            : String.format(Locale.ROOT, "%.3f", 30 - 0.2 * cover + c[2] + 5 * r.nextGaussian())));
+            int band = r.nextInt(5);
+            double pm25 = 20 - 0.1 * cover + c[1] + 3 * r.nextGaussian();
+            b.append(String.format(Locale.ROOT, "d%02d,r%02d,b%d,%.3f,%.3f,%s,%d", district, district % 20, band,
+                    cover, pm25, r.nextDouble() < 0.03 ? ""
+                            : String.format(Locale.ROOT, "%.3f", 30 - 0.2 * cover + c[2] + 5 * r.nextGaussian()),
+                    pm25 > 19 ? 1 : 0));
             for (int j = 1; j <= 10; j++) {
                 b.append(',');
                 if (j > 2 || r.nextDouble() >= 0.05) {

@@ -15,7 +15,8 @@ import org.apache.commons.csv.CSVPrinter;
 
 /**
  * The bundled demo's files: the tutoring data with a planted effect, the same pupils in a world where
- * tutoring does nothing, and a plan for each. Generated from {@link TutoringScenario#SEED}, so the
+ * tutoring does nothing, a plan for each, and a plan that fits the first world's fluency by least squares
+ * and by Poisson regression. Generated from {@link TutoringScenario#SEED}, so the
  * committed copies under {@code sample-data/} can be checked byte for byte against this code.
  */
 public final class DemoDataGenerator {
@@ -23,6 +24,7 @@ public final class DemoDataGenerator {
     public static final String NULL_DATA = "civic-demo-null.csv";
     public static final String PLAN = "civic-demo.plan.json";
     public static final String NULL_PLAN = "civic-demo-null.plan.json";
+    public static final String MODELS_PLAN = "civic-demo-models.plan.json";
 
     static final List<String> COLUMNS = List.of("pupil", "school", "zone", "year_group", "free_meals",
             "english_additional", "prior_score", "attendance", "home_reading", "class_size", "tutoring_hours",
@@ -45,6 +47,11 @@ public final class DemoDataGenerator {
         files.put(NULL_PLAN, DemoPlan.json(NULL_DATA, "After-school tutoring and reading, null world (invented demo)",
                 "The same invented pupils, but tutoring has no effect on either outcome: what a multiverse "
                         + "looks like when there is nothing to find.").getBytes(StandardCharsets.UTF_8));
+        files.put(MODELS_PLAN, DemoPlan.modelsJson(DATA, "Tutoring and reading fluency, least squares and Poisson "
+                + "(invented demo)", "The same invented pupils: words read correctly per minute, fitted by least "
+                + "squares and by Poisson regression. On the log link the Poisson coefficient is the planted "
+                + plain(TutoringScenario.LOG_FLUENCY_EFFECT_PER_HOUR) + " log words per minute per hour of tutoring; "
+                + "the average marginal effect puts both models in words per minute.").getBytes(StandardCharsets.UTF_8));
         return files;
     }
 

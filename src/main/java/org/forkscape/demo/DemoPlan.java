@@ -84,4 +84,71 @@ final class DemoPlan {
                 }
                 """.formatted(title, description, dataFile);
     }
+
+    /**
+     * The models plan over the demo's data: reading fluency as recorded (words per minute) by least squares
+     * and by Poisson regression, whose log link makes its coefficient the planted effect on the logarithm;
+     * the average marginal effect puts both on the outcome's own scale.
+     */
+    static String modelsJson(String dataFile, String title, String description) {
+        return """
+                {
+                  "title": "%s",
+                  "description": "%s",
+                  "data": "%s",
+                  "confidence": 0.95,
+                  "missing": "per-specification",
+                  "decisions": [
+                    {
+                      "name": "outcome",
+                      "kind": "outcome",
+                      "alternatives": [
+                        {"label": "reading fluency", "column": "reading_fluency"}
+                      ]
+                    },
+                    {
+                      "name": "tutoring",
+                      "kind": "predictor",
+                      "alternatives": [
+                        {"label": "hours", "column": "tutoring_hours"},
+                        {"label": "hours, winsorized 5%%", "column": "tutoring_hours", "transform": "winsorize:0.05"}
+                      ]
+                    },
+                    {
+                      "name": "pupil controls",
+                      "kind": "controls",
+                      "required": ["prior_score", "year_group", "english_additional"],
+                      "optional": ["free_meals", "attendance", "home_reading"],
+                      "combine": "all-subsets"
+                    },
+                    {
+                      "name": "register errors",
+                      "kind": "sample",
+                      "alternatives": [
+                        {"label": "keep all"},
+                        {"label": "within the 60-hour cap", "keep": "tutoring_hours <= 60"}
+                      ]
+                    },
+                    {
+                      "name": "standard errors",
+                      "kind": "errors",
+                      "alternatives": ["HC1", "cluster:school"]
+                    },
+                    {
+                      "name": "fixed effects",
+                      "kind": "absorb",
+                      "alternatives": [
+                        {"label": "none", "columns": []},
+                        {"label": "zone", "columns": ["zone"]}
+                      ]
+                    },
+                    {
+                      "name": "model",
+                      "kind": "model",
+                      "alternatives": ["ols", "poisson"]
+                    }
+                  ]
+                }
+                """.formatted(title, description, dataFile);
+    }
 }

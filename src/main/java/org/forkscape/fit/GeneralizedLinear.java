@@ -16,11 +16,20 @@ import org.forkscape.plan.ModelFamily;
  */
 public final class GeneralizedLinear implements Estimator {
     private final GlmRows rows = new GlmRows();
-    private final Irls irls = new Irls();
+    private final Irls irls;
     private final GlmCovariance covariance = new GlmCovariance();
     private final ObservedRows observed = new ObservedRows();
     private double[] startAlpha = new double[0];
     private double[] startBeta = new double[0];
+
+    public GeneralizedLinear() {
+        irls = new Irls();
+    }
+
+    /** An estimator that gives up after {@code maxIterations} (for the test of that status). */
+    GeneralizedLinear(int maxIterations) {
+        irls = new Irls(maxIterations);
+    }
 
     @Override
     public KeyFit fit(SpecificationModel spec, FitData data) {
@@ -137,7 +146,7 @@ public final class GeneralizedLinear implements Estimator {
                         levels + p);
             }
             case NOT_CONVERGED -> {
-                return KeyFit.failed(family, FitStatus.NOT_CONVERGED, Integer.toString(Irls.MAX_ITERATIONS), n,
+                return KeyFit.failed(family, FitStatus.NOT_CONVERGED, Integer.toString(irls.iterations), n,
                         levels + p);
             }
             case SEPARATION -> {

@@ -29,6 +29,7 @@ import java.util.Arrays;
 final class Irls {
     static final double TOLERANCE = 1e-10;
     static final int MAX_ITERATIONS = 100;
+    private final int maxIterations;
     private static final int MAX_HALVINGS = 30;
     /** Newton steps: a last step of 1e-4 standard errors leaves about 1e-8. */
     static final double CANONICAL_DECREMENT = 1e-8;
@@ -42,6 +43,15 @@ final class Irls {
     static final double MIN_PIVOT_SHARE = CholeskySubsetSolver.MIN_WITHIN_SHARE;
 
     enum Outcome { CONVERGED, NOT_CONVERGED, SEPARATION, KEY_COLLINEAR }
+
+    Irls() {
+        this(MAX_ITERATIONS);
+    }
+
+    /** @param maxIterations the iterations after which a fit that has not converged is given up */
+    Irls(int maxIterations) {
+        this.maxIterations = maxIterations;
+    }
 
     // the state of the last fit, read by GlmCovariance and the estimator
     GlmRows rows;
@@ -103,7 +113,7 @@ final class Irls {
         deviance = family.deviance(rows.y, eta, mu, n);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
-        for (iterations = 1; iterations <= MAX_ITERATIONS; iterations++) {
+        for (iterations = 1; iterations <= maxIterations; iterations++) {
             information(true);
             if (!decided) {
                 decideColumns(p);
@@ -154,7 +164,7 @@ final class Irls {
             }
         }
         if (outcome == Outcome.NOT_CONVERGED) {
-            iterations = MAX_ITERATIONS;
+            iterations = maxIterations;
         }
         boundaryRows = 0;
         for (int i = 0; i < n; i++) {

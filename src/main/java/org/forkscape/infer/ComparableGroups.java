@@ -37,13 +37,15 @@ public final class ComparableGroups {
 
     /** One group: its labels, its members (indices into the {@link RunVariants}) and its weights. */
     public record Group(String outcome, String predictor, String model, Map<String, String> rows, int nObs,
-            int[] members, GroupWeights weights, Map<String, Double> inclusion, long bestSpec, double bestWeight) {
+            int[] members, GroupWeights weights, Map<String, Double> inclusion, long bestSpec, double bestWeight,
+            LeamerBounds bounds) {
     }
 
     private record Key(int outcomeColumn, int keyColumn, ModelFamily family, int variant, BitSet usable) {
     }
 
-    public static List<Group> of(RunVariants variants) {
+    /** The groups, with Leamer's bounds of each at the interval level {@code confidence}. */
+    public static List<Group> of(RunVariants variants, double confidence) {
         Map<Key, List<Integer>> byKey = new LinkedHashMap<>();
         for (int i = 0; i < variants.size(); i++) {
             int v = variants.variantOf(i);
@@ -101,9 +103,10 @@ public final class ComparableGroups {
                     best = j;
                 }
             }
+            int[] slots = members.stream().mapToInt(variants::slot).toArray();
             groups.add(new Group(outcome, predictor, model, rows, n[0], members.stream().mapToInt(Integer::intValue).toArray(), w,
                     inclusion(controls, w.bicWeights()), r.specIndex(variants.slot(members.get(best))) + 1,
-                    w.bicWeights()[best]));
+                    w.bicWeights()[best], LeamerBounds.of(r, slots, confidence)));
         }
         return groups;
     }
@@ -171,6 +174,7 @@ public final class ComparableGroups {
             g.inclusion().forEach((c, p) -> inclusion.put(c, Json.number(p)));
             bic.put("inclusion", inclusion);
             e.put("bic", bic);
+            e.put("interval_bounds", g.bounds() == null ? null : g.bounds().toJson());
             list.add(e);
         }
         m.put("groups", list);

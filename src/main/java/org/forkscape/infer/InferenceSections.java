@@ -50,7 +50,7 @@ public final class InferenceSections implements InferenceStage.Outcome {
         m.put("best", best == null ? null : best.toJson());
         LeamerBounds bounds = LeamerBounds.of(run.results(), all, run.plan().confidence());
         m.put("interval_bounds", bounds == null ? null : bounds.toJson());
-        List<ComparableGroups.Group> groups = ComparableGroups.of(variants);
+        List<ComparableGroups.Group> groups = ComparableGroups.of(variants, run.plan().confidence());
         m.put("comparable_groups", ComparableGroups.toJson(groups));
         m.put("overfitting", Overfitting.summary(run.results(), all, run.plan().alpha()));
         InfluenceReport influence = Influence.of(run, all);

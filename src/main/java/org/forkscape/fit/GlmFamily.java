@@ -42,12 +42,12 @@ abstract class GlmFamily {
     abstract boolean atBoundary(double mu);
 
     /**
-     * The deviance of rows 0..n-1 at linear predictors {@code eta}, writing each row's mean into {@code mu}:
-     * one pass, the hot loop of every iteration (overridden where a family can share its exponentials).
+     * The deviance of rows from..to-1 at linear predictors {@code eta}, writing each row's mean into
+     * {@code mu}: the hot loop of every iteration (overridden where a family can share its exponentials).
      */
-    double deviance(double[] y, double[] eta, double[] mu, int n) {
+    double deviance(double[] y, double[] eta, double[] mu, int from, int to) {
         double d = 0;
-        for (int i = 0; i < n; i++) {
+        for (int i = from; i < to; i++) {
             double m = mean(eta[i]);
             mu[i] = m;
             d += unitDeviance(y[i], m);
@@ -107,9 +107,9 @@ abstract class GlmFamily {
 
         /** One exponential and one logarithm per row: -2 log mu = 2 log(1 + 1/t), -2 log(1 - mu) = 2 log(1 + t). */
         @Override
-        double deviance(double[] y, double[] eta, double[] mu, int n) {
+        double deviance(double[] y, double[] eta, double[] mu, int from, int to) {
             double d = 0;
-            for (int i = 0; i < n; i++) {
+            for (int i = from; i < to; i++) {
                 double e = eta[i];
                 double t = e < -THRESHOLD ? EPS : e > THRESHOLD ? 1 / EPS : Math.exp(e);
                 mu[i] = t / (1 + t);

@@ -109,8 +109,7 @@ final class Irls {
             System.arraycopy(startBeta, 0, beta, 0, p);
         }
         Arrays.fill(kept, 0, p, true);
-        linearPredictor(alpha, beta, eta);
-        deviance = family.deviance(rows.y, eta, mu, n);
+        deviance = predictAndDeviance(alpha, beta, eta, mu);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= maxIterations; iterations++) {
@@ -138,8 +137,7 @@ final class Irls {
                 for (int j = 0; j < p; j++) {
                     trialBeta[j] = kept[j] ? beta[j] + t * step[j] : 0;
                 }
-                linearPredictor(trialAlpha, trialBeta, trialEta);
-                trial = family.deviance(rows.y, trialEta, trialMu, n);
+                trial = predictAndDeviance(trialAlpha, trialBeta, trialEta, trialMu);
                 if (Double.isFinite(trial) && trial <= before * (1 + 1e-12) + 1e-300) {
                     break;
                 }
@@ -199,18 +197,31 @@ final class Irls {
         Arrays.fill(beta, 0, rows.p, 0);
     }
 
-    private void linearPredictor(double[] a, double[] b, double[] out) {
+    /** Rows per chunk of the pass that forms linear predictors and deviance together, so each stays in cache. */
+    private static final int CHUNK = 512;
+
+    /**
+     * The linear predictors (into {@code etaOut}), the means (into {@code muOut}) and the deviance at
+     * coefficients {@code a}, {@code b}, chunk by chunk in row order.
+     */
+    private double predictAndDeviance(double[] a, double[] b, double[] etaOut, double[] muOut) {
         int n = rows.n;
         int p = rows.p;
         double[] x = rows.x;
         int[] level = rows.level;
-        for (int i = 0, at = 0; i < n; i++, at += p) {
-            double e = a[level[i]];
-            for (int j = 0; j < p; j++) {
-                e += x[at + j] * b[j];
+        double d = 0;
+        for (int from = 0; from < n; from += CHUNK) {
+            int to = Math.min(n, from + CHUNK);
+            for (int i = from, at = from * p; i < to; i++, at += p) {
+                double e = a[level[i]];
+                for (int j = 0; j < p; j++) {
+                    e += x[at + j] * b[j];
+                }
+                etaOut[i] = e;
             }
-            out[i] = e;
+            d += family.deviance(rows.y, etaOut, muOut, from, to);
         }
+        return d;
     }
 
     /**

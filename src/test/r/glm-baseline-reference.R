@@ -6,16 +6,16 @@
 #
 #     Rscript src/test/r/glm-baseline-reference.R
 #
-# It reads src/test/resources/bench/glm-baseline-data.csv (400 rows written by the benchmark's data
+# It reads src/test/resources/reference/glm-baseline-data.csv (400 rows written by the benchmark's data
 # generator; GlmBaselineTest checks that the committed file is the generator's output) and writes, in the
 # same folder:
 #   glm-baseline-expected.csv   for every subset of the first six controls (mask bit j = control j + 1 is
 #                               in), the key coefficient, its HC1 standard error and glm's iteration count
-#   versions.txt                the R and sandwich versions that produced it
+#   glm-baseline-versions.txt   the R and sandwich versions that produced it
 
 suppressPackageStartupMessages(library(sandwich))
 
-folder <- file.path("src", "test", "resources", "bench")
+folder <- file.path("src", "test", "resources", "reference")
 if (!dir.exists(folder)) {
   stop("run this script from the repository root (", folder, " not found)")
 }
@@ -33,4 +33,4 @@ for (mask in 0:(2^length(controls) - 1)) {
 }
 writeLines(c("mask,estimate,std_error,iterations", rows), file.path(folder, "glm-baseline-expected.csv"))
 writeLines(c(paste("R:", R.version.string), paste("sandwich:", as.character(packageVersion("sandwich"))),
-             "script: src/test/r/glm-baseline-reference.R"), file.path(folder, "versions.txt"))
+             "script: src/test/r/glm-baseline-reference.R"), file.path(folder, "glm-baseline-versions.txt"))

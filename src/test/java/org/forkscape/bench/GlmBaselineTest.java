@@ -19,10 +19,10 @@ import org.junit.jupiter.api.io.TempDir;
 /**
  * The benchmark's logit baseline against R's {@code glm} and {@code sandwich::vcovHC(type = "HC1")},
  * values written by {@code src/test/r/glm-baseline-reference.R} (R and sandwich versions in
- * {@code src/test/resources/bench/versions.txt}), on data written by the benchmark's own generator.
+ * {@code src/test/resources/reference/glm-baseline-versions.txt}), on data written by the benchmark's own generator.
  */
 class GlmBaselineTest {
-    private static final Path FOLDER = Path.of("src/test/resources/bench");
+    private static final Path FOLDER = Path.of("src/test/resources/reference");
     private static final Path DATA = FOLDER.resolve("glm-baseline-data.csv");
 
     @TempDir

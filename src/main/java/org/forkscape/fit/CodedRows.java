@@ -31,9 +31,14 @@ final class CodedRows {
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
     final Map<String, int[]> clusters;
     final Map<String, Integer> clusterCounts;
+    /**
+     * The outcome and predictor columns as coded, before the shifts (NaN where missing), by model column;
+     * null when the plan fits least squares alone (which reads only the shifted columns).
+     */
+    final double[][] recorded;
 
     CodedRows(ModelColumns layout, FixedEffectLevels levels, LevelShifts shifts, MissingPatterns patterns,
-            ClusterCodes clusters) {
+            ClusterCodes clusters, double[][] recorded) {
         this.layout = layout;
         this.columns = layout.size();
         this.rows = levels.tableRows.length;
@@ -48,5 +53,6 @@ final class CodedRows {
         this.everMissing = patterns.everMissing;
         this.clusters = clusters.codes;
         this.clusterCounts = clusters.counts;
+        this.recorded = recorded;
     }
 }

@@ -10,6 +10,7 @@ import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.MissingRows;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
 import org.forkscape.plan.VariableChoice;
@@ -55,6 +56,12 @@ final class CompiledPlan {
     final int errorsAt;
     /** Position of the absorb decision, -1 without one. */
     final int absorbAt;
+    /** Position of the model decision, -1 without one (every specification is then least squares). */
+    final int modelAt;
+    /** The model decision's alternatives ({@code ols} alone without one). */
+    final ModelFamily[] families;
+    /** Whether some specification fits a generalized linear model. */
+    final boolean generalized;
     /** Position of each sample decision, in declared order. */
     final int[] sampleAt;
     final Decision.Sample[] samples;
@@ -81,6 +88,7 @@ final class CompiledPlan {
         int predictor = -1;
         int errors = -1;
         int absorb = -1;
+        int model = -1;
         List<Integer> controlPositions = new ArrayList<>();
         List<Integer> samplePositions = new ArrayList<>();
         for (int d = 0; d < ds.size(); d++) {
@@ -97,12 +105,17 @@ final class CompiledPlan {
                 errors = d;
             } else if (decision instanceof Decision.Absorb) {
                 absorb = d;
+            } else if (decision instanceof Decision.Model) {
+                model = d;
             }
         }
         outcomeAt = outcome;
         predictorAt = predictor;
         errorsAt = errors;
         absorbAt = absorb;
+        modelAt = model;
+        families = plan.modelFamilies().toArray(new ModelFamily[0]);
+        generalized = plan.generalized();
         sampleAt = samplePositions.stream().mapToInt(Integer::intValue).toArray();
         samples = samplePositions.stream().map(d -> (Decision.Sample) ds.get(d)).toArray(Decision.Sample[]::new);
 

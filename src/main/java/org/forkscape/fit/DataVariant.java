@@ -49,6 +49,8 @@ public final class DataVariant {
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
     final Map<String, int[]> clusters;
     final Map<String, Integer> clusterCounts;
+    /** Where each generalized linear fit of this variant starts, and the fits already made. */
+    final GlmStarts glmStarts = new GlmStarts();
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();

@@ -14,6 +14,8 @@ final class DesignRows {
     /** Fixed-effect level (or 0) of each row, and the level's usable count. */
     int[] level = new int[0];
     int[] cluster = new int[0];
+    /** The variant row each row is (a bootstrap draw repeats one). */
+    int[] source = new int[0];
 
     void fill(Moments mom, int[] cols, int yCol, int[] clusterCodes) {
         DataVariant v = mom.variant;
@@ -33,6 +35,7 @@ final class DesignRows {
             y = new double[cap];
             level = new int[cap];
             cluster = new int[cap];
+            source = new int[cap];
         }
         int k = 0;
         double[] yz = v.shifted[yCol];
@@ -48,6 +51,7 @@ final class DesignRows {
             }
             y[k] = yz[r] - off[yCol];
             level[k] = l;
+            source[k] = r;
             if (clusterCodes != null) {
                 cluster[k] = clusterCodes[r];
             }

@@ -1,13 +1,17 @@
 package org.forkscape.fit;
 
 import java.util.concurrent.ConcurrentHashMap;
+import org.apache.commons.math3.distribution.NormalDistribution;
 import org.apache.commons.math3.distribution.TDistribution;
 import org.apache.commons.math3.special.Beta;
+import org.apache.commons.math3.special.Erf;
+import org.apache.commons.math3.special.Gamma;
 
 /**
  * Student t and F tail probabilities through the regularized incomplete beta function of Commons Math
  * (the same function its TDistribution and FDistribution use, without their per-instance random
- * generator), and cached t critical values.
+ * generator), and cached t critical values. Infinite degrees of freedom stand for the standard normal
+ * reference that generalized linear models use (as R's summary.glm does with the dispersion fixed at 1).
  */
 public final class Distributions {
     private static final ConcurrentHashMap<Key, Double> CRITICAL = new ConcurrentHashMap<>();
@@ -26,7 +30,22 @@ public final class Distributions {
         if (Double.isInfinite(t)) {
             return 0;
         }
+        if (Double.isInfinite(df)) {
+            // P(|Z| >= |t|) = erfc(|t| / sqrt 2), without the cancellation of 2 (1 - Phi(|t|))
+            return Erf.erfc(Math.abs(t) / Math.sqrt(2));
+        }
         return Beta.regularizedBeta(df / (df + t * t), df / 2, 0.5);
+    }
+
+    /** Upper tail of the chi-square distribution on {@code df} degrees of freedom at {@code x}: Q(df/2, x/2). */
+    public static double chiSquareUpperP(double x, double df) {
+        if (Double.isNaN(x) || !(df > 0)) {
+            return Double.NaN;
+        }
+        if (x <= 0) {
+            return 1;
+        }
+        return Gamma.regularizedGammaQ(df / 2, x / 2);
     }
 
     /** Upper tail of F(d1, d2) at f: I_{d2/(d2 + d1 f)}(d2/2, d1/2). */
@@ -50,10 +69,14 @@ public final class Distributions {
      */
     static final double QUANTILE_ACCURACY = 1e-15;
 
-    /** The t quantile at 1 - alpha/2, cached by (df, alpha). */
+    /** The t quantile at 1 - alpha/2 (the normal one for infinite df), cached by (df, alpha). */
     public static double critical(double df, double alpha) {
         if (!(df > 0)) {
             return Double.NaN;
+        }
+        if (Double.isInfinite(df)) {
+            return CRITICAL.computeIfAbsent(new Key(df, alpha), k -> new NormalDistribution(null, 0, 1,
+                    QUANTILE_ACCURACY).inverseCumulativeProbability(1 - alpha / 2));
         }
         return CRITICAL.computeIfAbsent(new Key(df, alpha),
                 k -> new TDistribution(null, df, QUANTILE_ACCURACY).inverseCumulativeProbability(1 - alpha / 2));

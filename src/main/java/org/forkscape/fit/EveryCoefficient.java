@@ -176,7 +176,7 @@ final class EveryCoefficient {
                 modelP, "ok", s.note());
     }
 
-    private static FullFit.Coefficient coefficient(String term, String role, double b, double se, double df,
+    static FullFit.Coefficient coefficient(String term, String role, double b, double se, double df,
             double critical) {
         double statistic = b / se;
         return new FullFit.Coefficient(term, role, b, se, statistic, Distributions.twoSidedP(statistic, df),

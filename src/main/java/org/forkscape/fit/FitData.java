@@ -30,6 +30,9 @@ public sealed interface FitData permits ObservedRows, ResampledVariant {
     KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y, ErrorType errors,
             boolean refit);
 
+    /** Whether these are the observed rows (not a null draw's resample). */
+    boolean observed();
+
     /** Whether the routes without rows (fourth moments, cluster cells) were built for these statistics. */
     boolean momentRoutes();
 }

@@ -11,7 +11,7 @@ import org.forkscape.plan.Transform;
  * agree with the engine's to rounding.
  */
 public final class FullFitter {
-    private final Estimator estimator = new LeastSquares(true);
+    private final Estimator estimator = new ModelDispatch(true);
     private final ObservedRows rows = new ObservedRows();
 
     /** Fits specification {@code index} (0-based, in the plan's full space) of the plan over its data. */

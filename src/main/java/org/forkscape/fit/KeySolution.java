@@ -53,16 +53,6 @@ final class KeySolution {
 
     /** "dropped a, b: reason; c: other reason", or empty. */
     String note() {
-        if (dropped == null) {
-            return "";
-        }
-        StringBuilder b = new StringBuilder("dropped ");
-        dropped.forEach((reason, cols) -> {
-            if (b.length() > "dropped ".length()) {
-                b.append("; ");
-            }
-            b.append(String.join(", ", cols)).append(": ").append(reason);
-        });
-        return b.toString();
+        return DropReason.note(dropped);
     }
 }

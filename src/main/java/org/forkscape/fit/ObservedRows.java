@@ -46,6 +46,11 @@ public final class ObservedRows implements FitData {
     }
 
     @Override
+    public boolean observed() {
+        return true;
+    }
+
+    @Override
     public boolean momentRoutes() {
         return true;
     }

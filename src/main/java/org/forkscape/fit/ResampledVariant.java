@@ -39,7 +39,7 @@ public final class ResampledVariant implements FitData {
     private final double[] weightedRow;
     private final Map<Long, Moments> byVariables = new HashMap<>();
     private final Map<BitSet, Moments> byGroups = new HashMap<>();
-    private final Estimator estimator = new LeastSquares(false);
+    private final Estimator estimator = new ModelDispatch(false);
     private final DesignRows rows = new DesignRows();
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
     /** Per variant row: the row whose key predictor values it carries in this draw (permutation draws). */
@@ -271,6 +271,11 @@ public final class ResampledVariant implements FitData {
     }
 
     @Override
+    public boolean observed() {
+        return false;
+    }
+
+    @Override
     public boolean momentRoutes() {
         return false;
     }
@@ -365,6 +370,7 @@ public final class ResampledVariant implements FitData {
             rows.y = new double[n];
             rows.level = new int[n];
             rows.cluster = new int[n];
+            rows.source = new int[n];
         }
         int[] list = repeat.rows();
         double[][] offset = mom.levelMeanOffset;
@@ -380,6 +386,7 @@ public final class ResampledVariant implements FitData {
         for (int k = 0; k < n; k++) {
             int r = list[k];
             rows.level[k] = v.level[r];
+            rows.source[k] = r;
             if (clusterCodes != null) {
                 rows.cluster[k] = clusterCodes[r] + (copiesAreNewClusters ? repeat.copy()[k] * clusterCount : 0);
             }

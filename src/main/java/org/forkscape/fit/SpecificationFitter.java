@@ -1,9 +1,9 @@
 package org.forkscape.fit;
 
 /**
- * One worker's fitter of the observed data: the {@link LeastSquares} estimator and the worker's view of
- * the rows of the variant being fitted. Not thread safe: one per worker thread, reused for every
- * specification and variant.
+ * One worker's fitter of the observed data: the estimator of each specification's model
+ * ({@link ModelDispatch}) and the worker's view of the rows of the variant being fitted. Not thread safe:
+ * one per worker thread, reused for every specification and variant.
  */
 public final class SpecificationFitter {
     private final Estimator estimator;
@@ -19,7 +19,7 @@ public final class SpecificationFitter {
      *                     comparison and for tests that hold the routes against each other)
      */
     public SpecificationFitter(boolean allowRowFree) {
-        estimator = new LeastSquares(allowRowFree);
+        estimator = new ModelDispatch(allowRowFree);
     }
 
     public KeyFit fit(DataVariant variant, SpecificationModel spec) {

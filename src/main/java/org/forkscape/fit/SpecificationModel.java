@@ -1,6 +1,7 @@
 package org.forkscape.fit;
 
 import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
 
 /**
  * What one specification fits inside its data variant: an outcome column, control columns and the key
@@ -12,9 +13,10 @@ import org.forkscape.plan.ErrorType;
  * @param keyColumn      model column of the key predictor alternative
  * @param variableMask   bit v set for every model variable the specification uses
  * @param errors         the standard error type
+ * @param family         the model fitted
  */
 public record SpecificationModel(int outcomeColumn, int[] controlColumns, int keyColumn, long variableMask,
-        ErrorType errors) {
+        ErrorType errors, ModelFamily family) {
     /** Controls first, key predictor last: the order in which the solver factors the columns. */
     int[] factorOrder() {
         int[] order = java.util.Arrays.copyOf(controlColumns, controlColumns.length + 1);

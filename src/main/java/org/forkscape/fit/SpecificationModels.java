@@ -3,6 +3,7 @@ package org.forkscape.fit;
 import java.util.concurrent.ExecutorService;
 import org.forkscape.data.Table;
 import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.SpecificationSpace;
 
@@ -128,8 +129,9 @@ public final class SpecificationModels {
         if (plan.absorbAt >= 0) {
             mask |= plan.absorbBits[(int) choices[plan.absorbAt]];
         }
+        ModelFamily family = plan.modelAt < 0 ? ModelFamily.OLS : plan.families[(int) choices[plan.modelAt]];
         return new SpecificationModel(plan.outcomes[outcome].modelColumn(), java.util.Arrays.copyOf(buffer, count),
-                plan.predictors[predictor].modelColumn(), mask, errors);
+                plan.predictors[predictor].modelColumn(), mask, errors, family);
     }
 
     private static int append(int[] columns, int[] buffer, boolean[] taken, int count) {

@@ -29,8 +29,25 @@ final class VariantBuilder {
         ColumnCoding.controls(plan, levels.tableRows, raw);
         ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows);
         MissingPatterns patterns = new MissingPatterns(plan, raw, clusters, levels.tableRows.length);
+        double[][] recorded = plan.generalized ? recorded(plan, raw) : null;
         LevelShifts shifts = new LevelShifts(raw, levels);
-        CodedRows coded = new CodedRows(plan.layout, levels, shifts, patterns, clusters);
+        CodedRows coded = new CodedRows(plan.layout, levels, shifts, patterns, clusters, recorded);
         return new DataVariant(coded, new CellSums(coded, pool));
+    }
+
+    /**
+     * Copies of the outcome and predictor columns as coded, before the level shifts replace them: a
+     * generalized linear model fits the outcome's own 0/1 or count values, and a 0/1 key predictor's
+     * discrete change is taken from 0 to 1 (the other entries are null).
+     */
+    private static double[][] recorded(CompiledPlan plan, double[][] raw) {
+        double[][] copy = new double[raw.length][];
+        for (CompiledPlan.CodedVariable v : plan.outcomes) {
+            copy[v.modelColumn()] = raw[v.modelColumn()].clone();
+        }
+        for (CompiledPlan.CodedVariable v : plan.predictors) {
+            copy[v.modelColumn()] = raw[v.modelColumn()].clone();
+        }
+        return copy;
     }
 }

@@ -170,4 +170,23 @@ public sealed interface Decision {
             return alternatives.get((int) choice).label();
         }
     }
+
+    /** The model each specification fits: {@code ols}, {@code logit}, {@code probit} or {@code poisson}. */
+    record Model(String name, List<ModelFamily> alternatives) implements Decision {
+        public Model {
+            alternatives = List.copyOf(alternatives);
+        }
+
+        public String kind() {
+            return "model";
+        }
+
+        public long alternativeCount() {
+            return alternatives.size();
+        }
+
+        public String label(long choice) {
+            return alternatives.get((int) choice).spelling();
+        }
+    }
 }

@@ -67,6 +67,17 @@ public record Plan(
                 .filter(t -> t.kind() == ErrorType.Kind.CLUSTER).map(ErrorType::clusterColumn).distinct().toList();
     }
 
+    /** The models the specifications fit: the model decision's alternatives, or least squares alone. */
+    public List<ModelFamily> modelFamilies() {
+        List<Decision.Model> models = all(Decision.Model.class);
+        return models.isEmpty() ? List.of(ModelFamily.OLS) : models.get(0).alternatives();
+    }
+
+    /** Whether any specification fits a generalized linear model. */
+    public boolean generalized() {
+        return modelFamilies().stream().anyMatch(f -> !f.leastSquares());
+    }
+
     public double alpha() {
         return 1 - confidence;
     }

@@ -39,11 +39,16 @@ public final class PlanChecker {
                         existing(t.clusterColumn(), path + ".alternatives[" + j + "]", table);
                     }
                 }
+            } else if (d instanceof Decision.Model m) {
+                for (int j = 0; j < m.alternatives().size(); j++) {
+                    outcomeFits(m.alternatives().get(j), path + ".alternatives[" + j + "]", plan, table);
+                }
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
                     for (int k = 0; k < cols.size(); k++) {
-                        existing(cols.get(k), path + ".alternatives[" + j + "].columns[" + k + "]", table);
+                        Column c = existing(cols.get(k), path + ".alternatives[" + j + "].columns[" + k + "]", table);
+                        levelsForModels(c, path + ".alternatives[" + j + "].columns[" + k + "]", plan);
                     }
                 }
             }
@@ -82,6 +87,77 @@ public final class PlanChecker {
                             "\"" + c.name() + "\" is categorical; transforms apply to numeric columns only");
                 }
             }
+        }
+    }
+
+    /**
+     * A logit or probit model needs every outcome alternative coded 0/1 (numeric 0 and 1, or a two-level
+     * categorical), a Poisson model a non-negative numeric one; both fit the outcome as recorded, without a
+     * transform. Anything else is an error at the model alternative's path naming the column and rows.
+     */
+    private static void outcomeFits(ModelFamily family, String path, Plan plan, Table table) {
+        if (family.leastSquares()) {
+            return;
+        }
+        List<VariableChoice> outcomes = plan.outcome().alternatives();
+        for (VariableChoice v : outcomes) {
+            String name = InputException.quoted(v.column());
+            if (!(v.transform() instanceof Transform.Identity)) {
+                throw new PlanException(path, family.spelling() + " fits the outcome as recorded, but the outcome "
+                        + name + " has the transform " + v.transform().spelling() + "; drop the transform, or fit "
+                        + "that alternative with ols");
+            }
+            Column c = table.column(v.column());
+            if (c instanceof CategoricalColumn) {
+                if (!family.binary()) {
+                    throw new PlanException(path, family.spelling() + " needs a numeric outcome of counts or "
+                            + "non-negative amounts; " + name + " is categorical");
+                }
+                continue;
+            }
+            double[] values = ((NumericColumn) c).values();
+            List<Integer> bad = new java.util.ArrayList<>();
+            int count = 0;
+            for (int r = 0; r < values.length; r++) {
+                double y = values[r];
+                boolean wrong = !Double.isNaN(y) && (family.binary() ? y != 0 && y != 1 : y < 0);
+                if (wrong) {
+                    count++;
+                    if (bad.size() < 5) {
+                        bad.add(r + 1);
+                    }
+                }
+            }
+            if (count > 0) {
+                String rows = String.join(", ", bad.stream().map(String::valueOf).toList())
+                        + (count > bad.size() ? " and " + (count - bad.size()) + " more" : "");
+                throw new PlanException(path, family.spelling() + " needs " + (family.binary()
+                        ? "an outcome coded 0/1" : "a non-negative outcome") + "; " + name + " has "
+                        + (family.binary() ? "other values" : "negative values") + " in data row"
+                        + (count == 1 ? " " : "s ") + rows + " (counting data rows from 1)");
+            }
+        }
+    }
+
+    /** A generalized linear model enters absorbed fixed effects as coefficients: at most so many levels. */
+    private static void levelsForModels(Column c, String path, Plan plan) {
+        if (!plan.generalized()) {
+            return;
+        }
+        long levels;
+        if (c instanceof CategoricalColumn cat) {
+            levels = cat.levels().size();
+        } else {
+            levels = java.util.Arrays.stream(((NumericColumn) c).values()).filter(v -> !Double.isNaN(v)).distinct()
+                    .count();
+        }
+        if (levels > ModelFamily.MAX_ABSORBED_LEVELS) {
+            String model = plan.modelFamilies().stream().filter(f -> !f.leastSquares()).findFirst().orElseThrow()
+                    .spelling();
+            throw new PlanException(path, String.format("%s enters fixed effects as one coefficient per level, and "
+                    + "\"%s\" has %,d levels, above the limit of %,d; absorb a coarser column for the "
+                    + "generalized linear models, or fit these fixed effects with ols alone", model, c.name(), levels,
+                    ModelFamily.MAX_ABSORBED_LEVELS));
         }
     }
 

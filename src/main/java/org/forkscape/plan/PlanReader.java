@@ -37,17 +37,20 @@ public final class PlanReader {
             .build();
     private static final Set<String> TOP_KEYS = Set.of("title", "description", "data", "confidence", "missing",
             "decisions", "sample", "seed", "maxSpecifications", "nullDraws", "nullMethod", "nullCluster");
-    private static final List<String> KINDS = List.of("outcome", "predictor", "controls", "sample", "errors", "absorb");
+    private static final List<String> KINDS = List.of("outcome", "predictor", "controls", "sample", "errors", "absorb",
+            "model");
     private static final Map<String, List<String>> DECISION_KEYS = Map.of(
             "outcome", List.of("name", "kind", "alternatives"),
             "predictor", List.of("name", "kind", "alternatives"),
             "controls", List.of("name", "kind", "required", "optional", "combine", "sets"),
             "sample", List.of("name", "kind", "alternatives"),
             "errors", List.of("name", "kind", "alternatives"),
-            "absorb", List.of("name", "kind", "alternatives"));
+            "absorb", List.of("name", "kind", "alternatives"),
+            "model", List.of("name", "kind", "alternatives"));
     /** Output columns of specifications.csv that a decision name must not shadow. */
     public static final Set<String> RESERVED_NAMES = Set.of("spec", "estimate", "std_error", "statistic", "df",
-            "p_value", "ci_low", "ci_high", "std_estimate", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+            "p_value", "ci_low", "ci_high", "std_estimate", "effect", "effect_std_error", "n_obs", "n_params", "r2", "adj_r2",
+            "model_p_value", "deviance", "status");
     /** Optional controls in one all-subsets decision: 2^40 subsets is beyond any specification cap already. */
     static final int MAX_OPTIONAL_CONTROLS = 40;
 
@@ -239,6 +242,7 @@ public final class PlanReader {
                 case "controls" -> controls(d, name, path);
                 case "sample" -> sample(d, name, path);
                 case "errors" -> errors(d, name, path);
+                case "model" -> model(d, name, path);
                 default -> absorb(d, name, path);
             });
         }
@@ -246,6 +250,7 @@ public final class PlanReader {
         requireCount(out, Decision.Predictor.class, "predictor", 1, 1);
         requireCount(out, Decision.Errors.class, "errors", 0, 1);
         requireCount(out, Decision.Absorb.class, "absorb", 0, 1);
+        requireCount(out, Decision.Model.class, "model", 0, 1);
         return out;
     }
 
@@ -373,6 +378,29 @@ public final class PlanReader {
             out.add(e);
         }
         return new Decision.Errors(name, out);
+    }
+
+    private static Decision.Model model(JsonNode d, String name, String path) {
+        JsonNode alts = alternatives(d, path);
+        List<ModelFamily> out = new ArrayList<>();
+        for (int j = 0; j < alts.size(); j++) {
+            String p = path + ".alternatives[" + j + "]";
+            JsonNode a = alts.get(j);
+            if (!a.isString()) {
+                throw new PlanException(p, "each model is text: " + String.join(", ", ModelFamily.spellings())
+                        + "; found " + typeOf(a));
+            }
+            String text = a.stringValue().trim();
+            ModelFamily family = java.util.Arrays.stream(ModelFamily.values())
+                    .filter(f -> f.spelling().equalsIgnoreCase(text)).findFirst()
+                    .orElseThrow(() -> new PlanException(p, "unknown model " + InputException.quoted(a.stringValue())
+                            + suggest(text, ModelFamily.spellings()) + "; use " + String.join(", ", ModelFamily.spellings())));
+            if (out.contains(family)) {
+                throw new PlanException(p, InputException.quoted(family.spelling()) + " is listed twice");
+            }
+            out.add(family);
+        }
+        return new Decision.Model(name, out);
     }
 
     private static Decision.Absorb absorb(JsonNode d, String name, String path) {

@@ -81,7 +81,7 @@ public final class MultiverseRunner {
         SpecificationSpace space = models.space();
         long[] indices = space.indices(plan.sampleSize(), plan.seed());
         boolean all = plan.sampleSize() <= 0 || plan.sampleSize() >= space.size();
-        ResultTable results = new ResultTable(indices.length, all ? null : indices);
+        ResultTable results = new ResultTable(indices.length, all ? null : indices, plan.generalized());
 
         // bucket the slots by data variant, keeping slot order inside each bucket
         int variants = (int) models.variantCount();

@@ -11,11 +11,14 @@ import org.forkscape.plan.SpecificationSpace;
 
 /**
  * Writes specifications.csv: one row per specification, a column per decision holding the chosen
- * alternative's label, then the key estimate, the fit statistics and the standardized estimate. Undefined numbers are empty cells.
+ * alternative's label, then the key estimate, the fit statistics, the standardized estimate and the average
+ * marginal effect. Undefined numbers are empty cells; so is df under the standard normal reference of a
+ * generalized linear model.
  */
 public final class SpecificationsCsv {
     public static final List<String> STAT_COLUMNS = List.of("estimate", "std_error", "statistic", "df", "p_value",
-            "ci_low", "ci_high", "std_estimate", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status");
+            "ci_low", "ci_high", "std_estimate", "effect", "effect_std_error", "n_obs", "n_params", "r2", "adj_r2",
+            "model_p_value", "deviance", "status");
 
     private SpecificationsCsv() {
     }
@@ -53,16 +56,19 @@ public final class SpecificationsCsv {
             row.add(CsvCells.number(r.estimate(slot)));
             row.add(ok ? CsvCells.number(r.stdError(slot)) : "");
             row.add(ok ? CsvCells.number(r.statistic(slot)) : "");
-            row.add(ok ? CsvCells.number(r.df(slot)) : "");
+            row.add(ok && Double.isFinite(r.df(slot)) ? CsvCells.number(r.df(slot)) : "");
             row.add(ok ? CsvCells.number(r.pValue(slot)) : "");
             row.add(ok ? CsvCells.number(r.ciLow(slot, confidence)) : "");
             row.add(ok ? CsvCells.number(r.ciHigh(slot, confidence)) : "");
             row.add(CsvCells.number(r.standardizedEstimate(slot)));
+            row.add(CsvCells.number(r.effect(slot)));
+            row.add(ok ? CsvCells.number(r.effectStdError(slot)) : "");
             row.add(Integer.toString(r.nObs(slot)));
             row.add(Integer.toString(r.nParams(slot)));
             row.add(CsvCells.number(r.r2(slot)));
             row.add(CsvCells.number(r.adjustedR2(slot)));
             row.add(CsvCells.number(r.modelPValue(slot)));
+            row.add(CsvCells.number(r.deviance(slot)));
             row.add(SpreadsheetSafe.text(r.status(slot)));
             csv.printRecord(row);
         }

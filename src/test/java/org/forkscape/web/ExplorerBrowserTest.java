@@ -227,7 +227,7 @@ class ExplorerBrowserTest {
         Path exported = waitForFile(TEMP.resolve("downloads").resolve("specifications.csv"));
         List<String> lines = Files.readAllLines(exported, StandardCharsets.UTF_8);
         assertEquals("spec,outcome,predictor,controls,errors,rows,estimate,std_error,statistic,df,p_value,ci_low,ci_high,std_estimate,"
-                + "n_obs,n_params,r2,adj_r2,model_p_value,status", lines.get(0));
+                + "effect,effect_std_error,n_obs,n_params,r2,adj_r2,model_p_value,deviance,status", lines.get(0));
         assertEquals(129, lines.size());
         driver.findElement(By.id("export-png")).click();
         Path png = waitForSuffix(".png");

@@ -1,0 +1,284 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
+
+/**
+ * Logit, probit and Poisson regression of one specification by maximum likelihood ({@link Irls}) over its
+ * rows, with absorbed fixed effects entered exactly as one coefficient per level (conditional or demeaned
+ * estimators are not equivalent for these models), started where the plan fixes ({@link GlmStarts}). Reports
+ * the key coefficient with its standard error of the specification's type ({@link GlmCovariance}) on the
+ * standard normal reference, the average marginal effect with its delta-method error, the residual deviance,
+ * McFadden's pseudo-R-squared 1 - log L / log L0 (McFadden 1974, "Conditional logit analysis of
+ * qualitative choice behavior", in Zarembka (ed.), Frontiers in Econometrics, Academic Press) and the
+ * likelihood-ratio test against the model with the intercept (or the fixed effects) alone, whose fitted
+ * means are the levels' mean outcomes. Not thread safe: one per worker thread.
+ */
+public final class GeneralizedLinear implements Estimator {
+    private final GlmRows rows = new GlmRows();
+    private final Irls irls = new Irls();
+    private final GlmCovariance covariance = new GlmCovariance();
+    private final ObservedRows observed = new ObservedRows();
+    private double[] startAlpha = new double[0];
+    private double[] startBeta = new double[0];
+
+    @Override
+    public KeyFit fit(SpecificationModel spec, FitData data) {
+        DataVariant variant = data.variant();
+        Moments mom = data.moments(spec.variableMask());
+        ModelFamily family = spec.family();
+        int n = mom.n;
+        int[] cols = spec.factorOrder();
+        int base = variant.absorbs ? mom.levelsPresent : 1;
+        if (n <= base) {
+            return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on "
+                    + "this specification's variables", n, base + cols.length);
+        }
+        int y = spec.outcomeColumn();
+        if (!(mom.totalSquares[y] > 0)) {
+            return KeyFit.failed(family, FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
+        }
+        GlmStarts.Key key = new GlmStarts.Key(family, y, spec.variableMask(), cols);
+        GlmStarts.Start start = data.observed() ? startOf(key, data, mom, spec.errors())
+                : observedFit(key, variant, spec.errors());
+        fitRows(key, data, mom, spec.errors(), start);
+        if (data.observed()) {
+            variant.glmStarts.put(key, startFor(key, mom, start));
+        }
+        return report(spec, mom, family, data.observed());
+    }
+
+    /** Every coefficient, from the state of the fit just made ({@link GlmFullFit}). */
+    @Override
+    public FullFit fitAll(SpecificationModel spec, FitData data, double confidence, String keyTerm) {
+        KeyFit check = fit(spec, data);
+        if (!check.ok()) {
+            return EveryCoefficient.failed(spec.errors(), check.nObs(), check.nParams(), data.variant(),
+                    check.statusText());
+        }
+        return GlmFullFit.of(irls, rows, covariance, spec, data.variant(), data.moments(spec.variableMask()), check,
+                confidence, keyTerm);
+    }
+
+    /** The start of {@code key}: its parent's fit, fitting the missing ancestors first (nearest first). */
+    private GlmStarts.Start startOf(GlmStarts.Key key, FitData data, Moments mom, ErrorType errors) {
+        java.util.ArrayDeque<GlmStarts.Key> missing = new java.util.ArrayDeque<>();
+        GlmStarts.Key parent = key.parent();
+        GlmStarts.Start start = null;
+        while (parent != null) {
+            start = data.variant().glmStarts.get(parent);
+            if (start != null) {
+                break;
+            }
+            missing.push(parent);
+            parent = parent.parent();
+        }
+        while (!missing.isEmpty()) {
+            GlmStarts.Key ancestor = missing.pop();
+            fitRows(ancestor, data, mom, errors, start);
+            start = startFor(ancestor, mom, start);
+            data.variant().glmStarts.put(ancestor, start);
+        }
+        return start;
+    }
+
+    /** The observed fit's coefficients, as the start of a null draw's refit. */
+    private GlmStarts.Start observedFit(GlmStarts.Key key, DataVariant variant, ErrorType errors) {
+        GlmStarts.Start start = variant.glmStarts.get(key);
+        if (start != null) {
+            return start;
+        }
+        ObservedRows view = observed.of(variant);
+        Moments mom = view.moments(key.variables());
+        GlmStarts.Start parent = startOf(key, view, mom, errors);
+        fitRows(key, view, mom, errors, parent);
+        start = startFor(key, mom, parent);
+        variant.glmStarts.put(key, start);
+        return start;
+    }
+
+    /** What a fit passes on as a start: its own coefficients when it converged, else the start it had. */
+    private GlmStarts.Start startFor(GlmStarts.Key key, Moments mom, GlmStarts.Start previous) {
+        if (irls.outcome == Irls.Outcome.CONVERGED) {
+            return GlmStarts.of(irls, rows, key.columns(), mom.levelMeanOffset, mom.variant.levels);
+        }
+        return previous;
+    }
+
+    private void fitRows(GlmStarts.Key key, FitData data, Moments mom, ErrorType errors, GlmStarts.Start start) {
+        DataVariant variant = data.variant();
+        DesignRows design = data.refitRows(mom, key.columns(), key.outcome(), errors);
+        rows.fill(design, variant.coded.recorded[key.outcome()], variant.levels);
+        GlmFamily family = GlmFamily.of(key.family());
+        if (startAlpha.length < rows.levels || startBeta.length < rows.p) {
+            startAlpha = new double[Math.max(rows.levels, startAlpha.length)];
+            startBeta = new double[Math.max(rows.p, startBeta.length)];
+        }
+        if (start != null && GlmStarts.apply(start, rows, key.columns(), mom.levelMeanOffset, startAlpha, startBeta)) {
+            irls.fit(rows, family, startAlpha, startBeta);
+        } else {
+            irls.fit(rows, family, null, null);
+        }
+    }
+
+    /** @param margins whether to compute the average marginal effect (observed data; not a null draw's) */
+    private KeyFit report(SpecificationModel spec, Moments mom, ModelFamily family, boolean margins) {
+        DataVariant variant = mom.variant;
+        int n = rows.n;
+        int p = rows.p;
+        int levels = rows.levels;
+        int keyColumn = spec.keyColumn();
+        switch (irls.outcome) {
+            case KEY_COLLINEAR -> {
+                return KeyFit.failed(family, keyStatus(mom, keyColumn), variant.layout.columnName(keyColumn), n,
+                        levels + p);
+            }
+            case NOT_CONVERGED -> {
+                return KeyFit.failed(family, FitStatus.NOT_CONVERGED, Integer.toString(Irls.MAX_ITERATIONS), n,
+                        levels + p);
+            }
+            case SEPARATION -> {
+                return KeyFit.failed(family, FitStatus.SEPARATION, separation(family), n, levels + p);
+            }
+            default -> {
+            }
+        }
+        int k = levels + irls.keptCount;
+        if (n - k <= 0) {
+            return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " rows for " + k + " coefficients", n, k);
+        }
+        GlmFamily f = irls.family;
+        double b = irls.beta[p - 1];
+        double[][] levelGradient = new double[2][levels];
+        double[][] columnGradient = new double[2][p];
+        columnGradient[0][p - 1] = 1;
+        double effect = margins ? marginalEffect(f, keyColumn, mom, levelGradient[1], columnGradient[1], b)
+                : Double.NaN;
+        double[] v = covariance.variances(irls, spec.errors(), levelGradient, columnGradient, margins ? 2 : 1);
+        double logLik = 0;
+        double nullDeviance = 0;
+        double nullLogLik = 0;
+        double[] levelSum = new double[levels];
+        int[] levelCount = new int[levels];
+        for (int i = 0; i < n; i++) {
+            levelSum[rows.level[i]] += rows.y[i];
+            levelCount[rows.level[i]]++;
+            logLik += f.logLikelihood(rows.y[i], irls.mu[i]);
+        }
+        for (int i = 0; i < n; i++) {
+            int l = rows.level[i];
+            double m0 = levelSum[l] / levelCount[l];
+            nullDeviance += f.unitDeviance(rows.y[i], m0);
+            nullLogLik += f.logLikelihood(rows.y[i], m0);
+        }
+        double r2 = 1 - logLik / nullLogLik;
+        double lr = Distributions.chiSquareUpperP(Math.max(0, nullDeviance - irls.deviance), irls.keptCount);
+        String note = droppedNote(mom, spec);
+        if (v == null) {
+            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN, covariance.failure,
+                    covariance.failureDetail, "", false, VarianceRoute.ROW_PASS, Double.NaN, family, effect,
+                    Double.NaN, lr);
+        }
+        VarianceRoute route = spec.errors().kind() == ErrorType.Kind.CLASSICAL ? VarianceRoute.CLASSICAL
+                : VarianceRoute.ROW_PASS;
+        return new KeyFit(b, Math.sqrt(v[0]), Double.POSITIVE_INFINITY, n, k, r2, irls.deviance, Double.NaN,
+                FitStatus.OK, "", note, false, route, Double.NaN, family, effect, margins ? Math.sqrt(v[1]) : Double.NaN,
+                lr);
+    }
+
+    /**
+     * The average marginal effect of the key predictor (Bartus 2005, "Estimation of marginal effects using
+     * margeff", Stata Journal 5(3); Cameron &amp; Trivedi 2005, Microeconometrics, Cambridge University Press,
+     * section 14.3): for a key predictor recorded as 0 and 1 alone, the mean over the rows of
+     * mu(eta_i at 1) - mu(eta_i at 0); otherwise the mean of d mu / d x = mu'(eta_i) b. Fills its gradient
+     * in the coefficients (levels, columns) for the delta method.
+     */
+    private double marginalEffect(GlmFamily f, int keyColumn, Moments mom, double[] levelGradient,
+            double[] columnGradient, double b) {
+        int n = rows.n;
+        int p = rows.p;
+        int key = p - 1;
+        double[] recorded = mom.variant.coded.recorded[keyColumn];
+        boolean twoValued = true;
+        for (int i = 0; i < n && twoValued; i++) {
+            double x = recorded[rows.source[i]];
+            twoValued = x == 0 || x == 1;
+        }
+        double sum = 0;
+        double[] x = rows.x;
+        for (int i = 0, at = 0; i < n; i++, at += p) {
+            int l = rows.level[i];
+            double eta = irls.eta[i];
+            if (twoValued) {
+                double raw = recorded[rows.source[i]];
+                double eta1 = eta + b * (1 - raw);
+                double eta0 = eta - b * raw;
+                double s1 = f.meanSlope(eta1);
+                double s0 = f.meanSlope(eta0);
+                sum += f.mean(eta1) - f.mean(eta0);
+                levelGradient[l] += s1 - s0;
+                for (int j = 0; j < key; j++) {
+                    columnGradient[j] += (s1 - s0) * x[at + j];
+                }
+                columnGradient[key] += s1 * (x[at + key] + 1 - raw) - s0 * (x[at + key] - raw);
+            } else {
+                double slope = f.meanSlope(eta);
+                double curvature = f.meanCurvature(eta) * b;
+                sum += slope;
+                levelGradient[l] += curvature;
+                for (int j = 0; j < p; j++) {
+                    columnGradient[j] += curvature * x[at + j];
+                }
+                columnGradient[key] += slope;
+            }
+        }
+        for (int l = 0; l < rows.levels; l++) {
+            levelGradient[l] /= n;
+        }
+        for (int j = 0; j < p; j++) {
+            columnGradient[j] = irls.kept[j] ? columnGradient[j] / n : 0;
+        }
+        return twoValued ? sum / n : b * sum / n;
+    }
+
+    private static FitStatus keyStatus(Moments mom, int keyColumn) {
+        double total = mom.totalSquares[keyColumn];
+        if (!(total > 0)) {
+            return FitStatus.CONSTANT_KEY;
+        }
+        int stride = mom.variant.columns;
+        if (mom.variant.absorbs && mom.within[keyColumn * stride + keyColumn] < CholeskySubsetSolver.MIN_WITHIN_SHARE * total) {
+            return FitStatus.KEY_IN_FIXED_EFFECTS;
+        }
+        return FitStatus.KEY_IN_CONTROLS;
+    }
+
+    private String separation(ModelFamily family) {
+        int count = irls.boundaryRows;
+        String rowsText = count + " row" + (count == 1 ? "" : "s");
+        return family == ModelFamily.POISSON
+                ? "the fitted means of " + rowsText + " with outcome 0 are 0; the maximum likelihood estimate does "
+                        + "not exist"
+                : "the fitted probabilities of " + rowsText + " are 0 or 1; the maximum likelihood estimate does "
+                        + "not exist";
+    }
+
+    /** The controls dropped as collinear, in the words of the least-squares note. */
+    private String droppedNote(Moments mom, SpecificationModel spec) {
+        int[] cols = spec.factorOrder();
+        java.util.Map<String, java.util.List<String>> dropped = new java.util.LinkedHashMap<>();
+        int stride = mom.variant.columns;
+        for (int j = 0; j < cols.length - 1; j++) {
+            if (irls.kept[j]) {
+                continue;
+            }
+            int c = cols[j];
+            double total = mom.totalSquares[c];
+            DropReason reason = !(total > 0) ? DropReason.CONSTANT
+                    : mom.variant.absorbs && mom.within[c * stride + c] < CholeskySubsetSolver.MIN_WITHIN_SHARE * total
+                            ? DropReason.FIXED_EFFECTS : DropReason.OTHER_COLUMNS;
+            dropped.computeIfAbsent(reason.words, r -> new java.util.ArrayList<>()).add(mom.variant.layout.columnName(c));
+        }
+        return DropReason.note(dropped);
+    }
+}

@@ -1,0 +1,189 @@
+package org.forkscape.fit;
+
+import org.forkscape.plan.ErrorType;
+
+/**
+ * The variance of linear combinations g'theta of a fitted generalized linear model's coefficients (the key
+ * coefficient, the average marginal effect's delta-method gradient), of the specification's error type,
+ * at the estimate:
+ * <ul>
+ * <li>classical: g' I^-1 g, I the expected information with the dispersion fixed at 1 (R's
+ * {@code summary.glm} for the binomial and Poisson families);</li>
+ * <li>HC0..HC3: the sandwich I^-1 (sum_i s_i s_i' omega_i) I^-1 with the score s_i = x_i (y_i - mu_i)
+ * mu'(eta_i) / V(mu_i), omega_i = 1, n / (n - K), 1 / (1 - h_i) or 1 / (1 - h_i)^2 with the weighted hat
+ * values h_i (White 1980, Econometrica 48(4); MacKinnon &amp; White 1985, Journal of Econometrics 29(3); as
+ * Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical Software
+ * 16(9), computes them for a {@code glm});</li>
+ * <li>cluster: the scores summed per cluster, times G / (G - 1), as {@code sandwich::vcovCL} computes for a
+ * {@code glm} by default (Zeileis, Koell &amp; Graham 2020, "Various versatile variances", Journal of
+ * Statistical Software 95(1)): its default type is HC0 for every model but {@code lm}, so the (n - 1) /
+ * (n - K) factor of least squares' CR1 does not enter.</li>
+ * </ul>
+ * Each combination needs only c = I^-1 g: the meat then reads c'x_i for each row, one pass of n p.
+ */
+final class GlmCovariance {
+    /** Why the last call gave no variance, or null. */
+    FitStatus failure;
+    String failureDetail;
+    int clusters;
+
+    private double[][] along = new double[0][];
+    private double[][] alongLevels = new double[0][];
+    private double[] meat = new double[0];
+    private double[][] clusterSums = new double[0][];
+    private boolean[] clusterSeen = new boolean[0];
+    private double[] centred = new double[0];
+
+    /**
+     * The variances of {@code count} combinations, gradient {@code levelGradients[m]} over the levels and
+     * {@code columnGradients[m]} over the columns (dropped columns ignored); null with {@link #failure} set
+     * when undefined.
+     */
+    double[] variances(Irls fit, ErrorType errors, double[][] levelGradients, double[][] columnGradients,
+            int count) {
+        failure = null;
+        failureDetail = "";
+        clusters = 0;
+        GlmRows rows = fit.rows;
+        int n = rows.n;
+        int p = rows.p;
+        int levels = rows.levels;
+        grow(count, p, levels);
+        double[] out = new double[count];
+        for (int m = 0; m < count; m++) {
+            double[] v = along[m];
+            double[] ga = levelGradients[m];
+            double[] gb = columnGradients[m];
+            for (int j = 0; j < p; j++) {
+                double s = gb[j];
+                for (int l = 0; l < levels; l++) {
+                    s -= fit.levelMean[l * p + j] * ga[l];
+                }
+                v[j] = s;
+            }
+            fit.solveFactored(v, p);
+            double[] u = alongLevels[m];
+            double classical = 0;
+            for (int l = 0; l < levels; l++) {
+                double s = ga[l] / fit.levelWeight[l];
+                for (int j = 0; j < p; j++) {
+                    s -= fit.levelMean[l * p + j] * v[j];
+                }
+                u[l] = s;
+                classical += ga[l] * s;
+            }
+            for (int j = 0; j < p; j++) {
+                classical += gb[j] * v[j];
+            }
+            out[m] = classical;
+        }
+        ErrorType.Kind kind = errors.kind();
+        if (kind == ErrorType.Kind.CLASSICAL) {
+            return out;
+        }
+        int k = levels + fit.keptCount;
+        boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
+        boolean cluster = kind == ErrorType.Kind.CLUSTER;
+        int codes = 0;
+        if (cluster) {
+            for (int i = 0; i < n; i++) {
+                codes = Math.max(codes, rows.cluster[i] + 1);
+            }
+            growClusters(codes, count);
+        }
+        java.util.Arrays.fill(meat, 0, count, 0);
+        double[] x = rows.x;
+        for (int i = 0, at = 0; i < n; i++, at += p) {
+            int l = rows.level[i];
+            double s = fit.score[i];
+            double omega = 1;
+            if (leverage) {
+                double h = fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit, x, at, l, p));
+                if (!(h < 1 - 1e-10)) {
+                    failure = FitStatus.LEVERAGE_ONE;
+                    failureDetail = errors.label();
+                    return null;
+                }
+                omega = kind == ErrorType.Kind.HC2 ? 1 / (1 - h) : 1 / ((1 - h) * (1 - h));
+            }
+            for (int m = 0; m < count; m++) {
+                double[] v = along[m];
+                double c = alongLevels[m][l];
+                for (int j = 0; j < p; j++) {
+                    c += x[at + j] * v[j];
+                }
+                double e = c * s;
+                if (cluster) {
+                    int g = rows.cluster[i];
+                    clusterSums[m][g] += e;
+                    clusterSeen[g] = true;
+                } else {
+                    meat[m] += e * e * omega;
+                }
+            }
+        }
+        double factor = kind == ErrorType.Kind.HC1 ? n / (double) (n - k) : 1;
+        if (cluster) {
+            for (int g = 0; g < codes; g++) {
+                if (clusterSeen[g]) {
+                    clusters++;
+                    for (int m = 0; m < count; m++) {
+                        meat[m] += clusterSums[m][g] * clusterSums[m][g];
+                    }
+                }
+            }
+            if (clusters < 2) {
+                failure = FitStatus.ONE_CLUSTER;
+                return null;
+            }
+            factor = clusters / (clusters - 1.0);
+        }
+        for (int m = 0; m < count; m++) {
+            out[m] = meat[m] * factor;
+        }
+        return out;
+    }
+
+    /** (x_i - xbar_l)' S^-1 (x_i - xbar_l) over the kept columns, S the factored within information. */
+    private double withinLeverage(Irls fit, double[] x, int at, int l, int p) {
+        double sum = 0;
+        for (int j = 0; j < p; j++) {
+            if (!fit.kept[j]) {
+                centred[j] = 0;
+                continue;
+            }
+            double s = x[at + j] - fit.levelMean[l * p + j];
+            for (int k = 0; k < j; k++) {
+                if (fit.kept[k]) {
+                    s -= fit.factor[j * p + k] * centred[k];
+                }
+            }
+            centred[j] = s / fit.factor[j * p + j];
+            sum += centred[j] * centred[j];
+        }
+        return sum;
+    }
+
+    private void grow(int count, int p, int levels) {
+        if (along.length < count || along[0].length < p || alongLevels[0].length < levels) {
+            int c = Math.max(count, along.length);
+            along = new double[c][Math.max(p, along.length == 0 ? 0 : along[0].length)];
+            alongLevels = new double[c][Math.max(levels, alongLevels.length == 0 ? 0 : alongLevels[0].length)];
+            meat = new double[c];
+        }
+        if (centred.length < p) {
+            centred = new double[p];
+        }
+    }
+
+    private void growClusters(int codes, int count) {
+        if (clusterSeen.length < codes || clusterSums.length < count) {
+            clusterSeen = new boolean[Math.max(codes, clusterSeen.length)];
+            clusterSums = new double[Math.max(count, clusterSums.length)][clusterSeen.length];
+        }
+        java.util.Arrays.fill(clusterSeen, 0, codes, false);
+        for (int m = 0; m < count; m++) {
+            java.util.Arrays.fill(clusterSums[m], 0, codes, 0);
+        }
+    }
+}

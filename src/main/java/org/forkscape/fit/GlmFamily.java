@@ -1,0 +1,233 @@
+package org.forkscape.fit;
+
+import org.apache.commons.math3.special.Erf;
+import org.apache.commons.math3.special.Gamma;
+import org.forkscape.plan.ModelFamily;
+
+/**
+ * The link, variance and deviance of a generalized linear model's family (McCullagh &amp; Nelder 1989,
+ * Generalized Linear Models, 2nd ed., Chapman &amp; Hall, chapters 2, 4 and 6), with the numerical guards of
+ * R's {@code binomial()}, {@code binomial(link = "probit")} and {@code poisson()} families so that fitted
+ * values agree with R's {@code glm}: the logit's inverse is held to [eps, 1 - eps] beyond |eta| = 30,
+ * the probit's linear predictor to |eta| &lt;= -qnorm(eps), the Poisson mean to at least eps (eps the double
+ * machine epsilon).
+ */
+abstract class GlmFamily {
+    static final double EPS = Math.ulp(1.0);
+
+    /** The mean at linear predictor {@code eta}. */
+    abstract double mean(double eta);
+
+    /** d mu / d eta at {@code eta}. */
+    abstract double meanSlope(double eta);
+
+    /** d^2 mu / d eta^2 at {@code eta}, for the delta method of the average marginal effect. */
+    abstract double meanCurvature(double eta);
+
+    /** Var(y) / dispersion at mean {@code mu}. */
+    abstract double variance(double mu);
+
+    /** The unit deviance 2 (l(y; y) - l(mu; y)) of one row. */
+    abstract double unitDeviance(double y, double mu);
+
+    /** The log-likelihood of one row at mean {@code mu}. */
+    abstract double logLikelihood(double y, double mu);
+
+    /** The link: the linear predictor whose mean is {@code mu}. */
+    abstract double link(double mu);
+
+    /**
+     * A level's starting mean from its outcome sum and row count: pulled half a row away from 0 and 1 for
+     * a binary outcome, 0.1 above the mean for counts (R's {@code mustart} for these families, per level).
+     */
+    abstract double startingMean(double sum, int count);
+
+    /** Whether {@code mu} sits at the edge of the parameter space (a fitted probability of 0 or 1, a mean of 0). */
+    abstract boolean atBoundary(double mu);
+
+    static GlmFamily of(ModelFamily family) {
+        return switch (family) {
+            case LOGIT -> LOGIT;
+            case PROBIT -> PROBIT;
+            case POISSON -> POISSON;
+            case OLS -> throw new IllegalArgumentException("least squares is not fitted by iterations");
+        };
+    }
+
+    /**
+     * Fitted means closer than this to 0 or 1 mark a linear predictor running away: the maximum
+     * likelihood estimate does not exist (Albert &amp; Anderson 1984, "On the existence of maximum likelihood
+     * estimates in logistic regression models", Biometrika 71(1); for counts, Santos Silva &amp; Tenreyro
+     * 2010, "On the existence of the maximum likelihood estimates in Poisson regression", Economics
+     * Letters 107(2)). The threshold itself is common practice: at convergence to 1e-10 in relative
+     * deviance, separated rows stop with |eta| above about 23, a legitimately fitted row almost never.
+     */
+    static final double BOUNDARY = 1e-10;
+
+    private static double binomialDeviance(double y, double mu) {
+        return y > 0 ? -2 * Math.log(mu) : -2 * Math.log1p(-mu);
+    }
+
+    private static double binomialStart(double sum, int count) {
+        return (sum + 0.5) / (count + 1);
+    }
+
+    static final GlmFamily LOGIT = new GlmFamily() {
+        private static final double THRESHOLD = 30;
+
+        @Override
+        double mean(double eta) {
+            double t = eta < -THRESHOLD ? EPS : eta > THRESHOLD ? 1 / EPS : Math.exp(eta);
+            return t / (1 + t);
+        }
+
+        @Override
+        double meanSlope(double eta) {
+            if (eta > THRESHOLD || eta < -THRESHOLD) {
+                return EPS;
+            }
+            double e = Math.exp(eta);
+            double d = 1 + e;
+            return e / (d * d);
+        }
+
+        @Override
+        double meanCurvature(double eta) {
+            double mu = mean(eta);
+            return meanSlope(eta) * (1 - 2 * mu);
+        }
+
+        @Override
+        double variance(double mu) {
+            return mu * (1 - mu);
+        }
+
+        @Override
+        double unitDeviance(double y, double mu) {
+            return binomialDeviance(y, mu);
+        }
+
+        @Override
+        double logLikelihood(double y, double mu) {
+            return -binomialDeviance(y, mu) / 2;
+        }
+
+        @Override
+        double link(double mu) {
+            return Math.log(mu / (1 - mu));
+        }
+
+        @Override
+        double startingMean(double sum, int count) {
+            return binomialStart(sum, count);
+        }
+
+        @Override
+        boolean atBoundary(double mu) {
+            return mu < BOUNDARY || mu > 1 - BOUNDARY;
+        }
+    };
+
+    static final GlmFamily PROBIT = new GlmFamily() {
+        /** -qnorm(eps): R's bound on the probit's linear predictor. */
+        private final double threshold = -new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1)
+                .inverseCumulativeProbability(EPS);
+        private final double invSqrt2Pi = 1 / Math.sqrt(2 * Math.PI);
+
+        @Override
+        double mean(double eta) {
+            double e = Math.min(Math.max(eta, -threshold), threshold);
+            return 0.5 * Erf.erfc(-e / Math.sqrt(2));
+        }
+
+        @Override
+        double meanSlope(double eta) {
+            return Math.max(invSqrt2Pi * Math.exp(-eta * eta / 2), EPS);
+        }
+
+        @Override
+        double meanCurvature(double eta) {
+            return -eta * invSqrt2Pi * Math.exp(-eta * eta / 2);
+        }
+
+        @Override
+        double variance(double mu) {
+            return mu * (1 - mu);
+        }
+
+        @Override
+        double unitDeviance(double y, double mu) {
+            return binomialDeviance(y, mu);
+        }
+
+        @Override
+        double logLikelihood(double y, double mu) {
+            return -binomialDeviance(y, mu) / 2;
+        }
+
+        @Override
+        double link(double mu) {
+            return new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1)
+                    .inverseCumulativeProbability(mu);
+        }
+
+        @Override
+        double startingMean(double sum, int count) {
+            return binomialStart(sum, count);
+        }
+
+        @Override
+        boolean atBoundary(double mu) {
+            return mu < BOUNDARY || mu > 1 - BOUNDARY;
+        }
+    };
+
+    static final GlmFamily POISSON = new GlmFamily() {
+        @Override
+        double mean(double eta) {
+            return Math.max(Math.exp(eta), EPS);
+        }
+
+        @Override
+        double meanSlope(double eta) {
+            return Math.max(Math.exp(eta), EPS);
+        }
+
+        @Override
+        double meanCurvature(double eta) {
+            return Math.exp(eta);
+        }
+
+        @Override
+        double variance(double mu) {
+            return mu;
+        }
+
+        @Override
+        double unitDeviance(double y, double mu) {
+            // y log(y / mu) is 0 at y = 0
+            return 2 * ((y > 0 ? y * Math.log(y / mu) : 0) - (y - mu));
+        }
+
+        @Override
+        double logLikelihood(double y, double mu) {
+            // quasi-likelihood for amounts that are not whole numbers: the same formula with Gamma(y + 1)
+            return (y > 0 ? y * Math.log(mu) : 0) - mu - Gamma.logGamma(y + 1);
+        }
+
+        @Override
+        double link(double mu) {
+            return Math.log(mu);
+        }
+
+        @Override
+        double startingMean(double sum, int count) {
+            return sum / count + 0.1;
+        }
+
+        @Override
+        boolean atBoundary(double mu) {
+            return mu < BOUNDARY;
+        }
+    };
+}

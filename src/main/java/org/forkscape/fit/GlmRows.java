@@ -1,0 +1,70 @@
+package org.forkscape.fit;
+
+import java.util.Arrays;
+
+/**
+ * One specification's rows as a generalized linear model reads them: the columns in within coordinates
+ * (each value minus its fixed-effect level's mean over the usable rows, or the overall mean), row by row,
+ * so that one pass over the rows reads memory in order; the outcome as recorded; each row's level among
+ * the levels present (the fixed effects enter as one coefficient per level, the intercept when nothing is
+ * absorbed); and the cluster codes. One instance per worker thread; buffers grow and are reused.
+ */
+final class GlmRows {
+    int n;
+    int p;
+    /** x[i * p + j]: row i, column j (controls first, key last). */
+    double[] x = new double[0];
+    double[] y = new double[0];
+    /** Level of each row among the levels present, 0..levels-1. */
+    int[] level = new int[0];
+    int levels;
+    /** The variant's level of each compact level, for carrying starts between specifications. */
+    int[] variantLevel = new int[0];
+    int[] cluster = new int[0];
+    /** The variant row of each row. */
+    int[] source = new int[0];
+
+    /**
+     * Copies {@code rows} (the specification's rows in within coordinates), replacing their centred outcome
+     * by the recorded one.
+     *
+     * @param recordedOutcome the outcome column as recorded, indexed by variant row
+     * @param variantLevels   the variant's number of fixed-effect levels
+     */
+    void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
+        n = rows.n;
+        p = rows.p;
+        if (x.length < n * p) {
+            x = new double[n * p];
+        }
+        if (y.length < n) {
+            y = new double[n];
+            level = new int[n];
+            cluster = new int[n];
+            source = new int[n];
+        }
+        for (int j = 0; j < p; j++) {
+            double[] column = rows.x[j];
+            for (int i = 0, at = j; i < n; i++, at += p) {
+                x[at] = column[i];
+            }
+        }
+        int[] compact = new int[variantLevels];
+        Arrays.fill(compact, -1);
+        if (variantLevel.length < variantLevels) {
+            variantLevel = new int[variantLevels];
+        }
+        levels = 0;
+        for (int i = 0; i < n; i++) {
+            int l = rows.level[i];
+            if (compact[l] < 0) {
+                compact[l] = levels;
+                variantLevel[levels++] = l;
+            }
+            level[i] = compact[l];
+            source[i] = rows.source[i];
+            y[i] = recordedOutcome[source[i]];
+            cluster[i] = rows.cluster[i];
+        }
+    }
+}

@@ -1,0 +1,424 @@
+package org.forkscape.fit;
+
+import java.util.Arrays;
+
+/**
+ * Maximum likelihood for a generalized linear model by iteratively reweighted least squares (Nelder &amp;
+ * Wedderburn 1972, JRSS A 135(3); Green 1984, "Iteratively reweighted least squares for maximum likelihood
+ * estimation", JRSS B 46(2)): Fisher scoring, each step solving the weighted normal equations of one pass
+ * over the rows. The coefficients are one per fixed-effect level (the intercept when nothing is absorbed)
+ * and one per column; the level coefficients are eliminated exactly (their block of the information is
+ * diagonal), leaving the weighted within-level cross-products of the columns, accumulated around the
+ * weighted level means and factored by Cholesky.
+ *
+ * <p>Each step is written as a correction, coefficients += I^-1 U (U the score, I the expected
+ * information), not as a fresh weighted solve: the score is summed from the rows each time, so rounding in
+ * the factored information slows the iteration at worst and does not move the point it converges to. The
+ * iteration stops at R's criterion |D - D_old| / (|D| + 0.1) &lt; 1e-10 on the deviance D (R's
+ * {@code glm.control} default is 1e-8) once the step is also small in the metric of the information: its
+ * quadratic form d'I d (the Newton decrement, Boyd &amp; Vandenberghe 2004, Convex Optimization, Cambridge
+ * University Press, section 9.5.1; about the sum of the squared changes in standard errors) below
+ * {@link #CANONICAL_DECREMENT} for the logit and Poisson links, whose scoring steps are Newton's and converge
+ * quadratically (the next change is about that square), and below {@link #SCORING_DECREMENT} for the
+ * probit's Fisher scoring, which converges only linearly. On large data a relative deviance criterion alone
+ * stops while a probit's coefficients are still off by 1e-4 of their standard errors. A step that leaves
+ * the deviance undefined or larger is halved. The information is then computed once more at the estimate,
+ * for the covariance. Not thread safe: one per
+ * worker thread, buffers reused.
+ */
+final class Irls {
+    static final double TOLERANCE = 1e-10;
+    static final int MAX_ITERATIONS = 100;
+    private static final int MAX_HALVINGS = 30;
+    /** Newton steps: a last step of 1e-4 standard errors leaves about 1e-8. */
+    static final double CANONICAL_DECREMENT = 1e-8;
+    /** Linear convergence: the last step itself must be about 3e-8 standard errors. */
+    static final double SCORING_DECREMENT = 1e-15;
+    /**
+     * A column whose weighted within sum of squares, after the columns before it, is below this share of its
+     * own is collinear with them and dropped (the bound of the least-squares Cholesky route,
+     * {@link CholeskySubsetSolver#MIN_WITHIN_SHARE}).
+     */
+    static final double MIN_PIVOT_SHARE = CholeskySubsetSolver.MIN_WITHIN_SHARE;
+
+    enum Outcome { CONVERGED, NOT_CONVERGED, SEPARATION, KEY_COLLINEAR }
+
+    // the state of the last fit, read by GlmCovariance and the estimator
+    GlmRows rows;
+    GlmFamily family;
+    Outcome outcome;
+    int iterations;
+    /** Coefficients: per compact level, and per column (0 for a dropped column). */
+    double[] alpha = new double[0];
+    double[] beta = new double[0];
+    boolean[] kept = new boolean[0];
+    int keptCount;
+    double[] eta = new double[0];
+    double[] mu = new double[0];
+    double deviance;
+    /** Rows whose fitted mean ended at the boundary (separation). */
+    int boundaryRows;
+    // the information at the estimate: level weight sums, weighted level means, the factored within part
+    double[] levelWeight = new double[0];
+    double[] levelMean = new double[0];
+    /** Lower Cholesky factor of the weighted within cross-products of the kept columns, p x p, row-major. */
+    double[] factor = new double[0];
+    double[] weight = new double[0];
+    double[] score = new double[0];
+
+    private double[] gram = new double[0];
+    private double[] levelScore = new double[0];
+    private double[] rhs = new double[0];
+    private double[] step = new double[0];
+    private double[] stepAlpha = new double[0];
+    private double[] trialAlpha = new double[0];
+    private double[] trialBeta = new double[0];
+    private double[] trialEta = new double[0];
+    private double[] centred = new double[0];
+
+    /**
+     * Fits {@code rows} (kept by reference until the next call).
+     *
+     * @param startAlpha per compact level, or null for the cold start (each level at its link-scale mean,
+     *                   the columns at 0)
+     * @param startBeta  per column, or null
+     */
+    void fit(GlmRows rows, GlmFamily family, double[] startAlpha, double[] startBeta) {
+        this.rows = rows;
+        this.family = family;
+        int n = rows.n;
+        int p = rows.p;
+        int levels = rows.levels;
+        grow(n, p, levels);
+        if (startAlpha == null) {
+            coldStart(rows, family);
+        } else {
+            System.arraycopy(startAlpha, 0, alpha, 0, levels);
+            System.arraycopy(startBeta, 0, beta, 0, p);
+        }
+        Arrays.fill(kept, 0, p, true);
+        linearPredictor(alpha, beta, eta);
+        deviance = deviance(eta);
+        boolean decided = false;
+        outcome = Outcome.NOT_CONVERGED;
+        for (iterations = 1; iterations <= MAX_ITERATIONS; iterations++) {
+            information(true);
+            if (!decided) {
+                decideColumns(p);
+                decided = true;
+                if (!kept[p - 1]) {
+                    outcome = Outcome.KEY_COLLINEAR;
+                    return;
+                }
+            }
+            if (!factorKept(p)) {
+                outcome = Outcome.KEY_COLLINEAR;
+                return;
+            }
+            double decrement = solveStep(p, levels);
+            double before = deviance;
+            double t = 1;
+            double trial = Double.NaN;
+            for (int h = 0; h <= MAX_HALVINGS; h++) {
+                for (int l = 0; l < levels; l++) {
+                    trialAlpha[l] = alpha[l] + t * stepAlpha[l];
+                }
+                for (int j = 0; j < p; j++) {
+                    trialBeta[j] = kept[j] ? beta[j] + t * step[j] : 0;
+                }
+                linearPredictor(trialAlpha, trialBeta, trialEta);
+                trial = deviance(trialEta);
+                if (Double.isFinite(trial) && trial <= before * (1 + 1e-12) + 1e-300) {
+                    break;
+                }
+                t /= 2;
+            }
+            if (!Double.isFinite(trial)) {
+                break;
+            }
+            System.arraycopy(trialAlpha, 0, alpha, 0, levels);
+            System.arraycopy(trialBeta, 0, beta, 0, p);
+            System.arraycopy(trialEta, 0, eta, 0, n);
+            deviance = trial;
+            double enough = family == GlmFamily.PROBIT ? SCORING_DECREMENT : CANONICAL_DECREMENT;
+            if (Math.abs(trial - before) / (Math.abs(trial) + 0.1) < TOLERANCE && decrement < enough) {
+                outcome = Outcome.CONVERGED;
+                break;
+            }
+        }
+        if (outcome == Outcome.NOT_CONVERGED) {
+            iterations = MAX_ITERATIONS;
+        }
+        boundaryRows = 0;
+        for (int i = 0; i < n; i++) {
+            mu[i] = family.mean(eta[i]);
+            if (family.atBoundary(mu[i]) && (family != GlmFamily.POISSON || rows.y[i] == 0)) {
+                boundaryRows++;
+            }
+        }
+        if (boundaryRows > 0) {
+            outcome = Outcome.SEPARATION;
+            return;
+        }
+        if (outcome == Outcome.CONVERGED) {
+            information(false);
+            if (!factorKept(p)) {
+                outcome = Outcome.KEY_COLLINEAR;
+            }
+        }
+    }
+
+    /** Levels at the link of their starting mean ({@link GlmFamily#startingMean}), columns at 0. */
+    private void coldStart(GlmRows rows, GlmFamily family) {
+        int levels = rows.levels;
+        double[] sum = new double[levels];
+        int[] count = new int[levels];
+        for (int i = 0; i < rows.n; i++) {
+            sum[rows.level[i]] += rows.y[i];
+            count[rows.level[i]]++;
+        }
+        for (int l = 0; l < levels; l++) {
+            alpha[l] = family.link(family.startingMean(sum[l], count[l]));
+        }
+        Arrays.fill(beta, 0, rows.p, 0);
+    }
+
+    private void linearPredictor(double[] a, double[] b, double[] out) {
+        int n = rows.n;
+        int p = rows.p;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        for (int i = 0, at = 0; i < n; i++, at += p) {
+            double e = a[level[i]];
+            for (int j = 0; j < p; j++) {
+                e += x[at + j] * b[j];
+            }
+            out[i] = e;
+        }
+    }
+
+    private double deviance(double[] e) {
+        double d = 0;
+        double[] y = rows.y;
+        for (int i = 0; i < rows.n; i++) {
+            d += family.unitDeviance(y[i], family.mean(e[i]));
+        }
+        return d;
+    }
+
+    /**
+     * The weights, the score and the within cross-products at the current linear predictor: first the
+     * level sums (weights, weighted column means, score), then the cross-products of the columns around
+     * those weighted means (two passes, so that no sum is taken of values far from their mean).
+     *
+     * @param withScore whether to sum the score as well (not needed for the information at the estimate)
+     */
+    private void information(boolean withScore) {
+        int n = rows.n;
+        int p = rows.p;
+        int levels = rows.levels;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        double[] y = rows.y;
+        Arrays.fill(levelWeight, 0, levels, 0);
+        Arrays.fill(levelMean, 0, levels * p, 0);
+        Arrays.fill(levelScore, 0, levels, 0);
+        for (int i = 0, at = 0; i < n; i++, at += p) {
+            double m = family.mean(eta[i]);
+            double slope = family.meanSlope(eta[i]);
+            double v = family.variance(m);
+            double w = slope * slope / v;
+            mu[i] = m;
+            weight[i] = w;
+            score[i] = (y[i] - m) * slope / v;
+            int l = level[i];
+            levelWeight[l] += w;
+            levelScore[l] += score[i];
+            int lo = l * p;
+            for (int j = 0; j < p; j++) {
+                levelMean[lo + j] += w * x[at + j];
+            }
+        }
+        for (int l = 0; l < levels; l++) {
+            double s = levelWeight[l];
+            for (int j = 0; j < p; j++) {
+                levelMean[l * p + j] /= s;
+            }
+        }
+        Arrays.fill(gram, 0, p * p, 0);
+        Arrays.fill(rhs, 0, p, 0);
+        double[] c = centred;
+        for (int i = 0, at = 0; i < n; i++, at += p) {
+            int lo = level[i] * p;
+            double w = weight[i];
+            double u = score[i];
+            for (int j = 0; j < p; j++) {
+                c[j] = x[at + j] - levelMean[lo + j];
+            }
+            if (withScore) {
+                for (int j = 0; j < p; j++) {
+                    rhs[j] += c[j] * u;
+                }
+            }
+            for (int j = 0; j < p; j++) {
+                double wc = w * c[j];
+                int go = j * p;
+                for (int k = 0; k <= j; k++) {
+                    gram[go + k] += wc * c[k];
+                }
+            }
+        }
+    }
+
+    /** Drops, in order, each column nearly spanned by the levels and the kept columns before it. */
+    private void decideColumns(int p) {
+        System.arraycopy(gram, 0, factor, 0, p * p);
+        keptCount = 0;
+        for (int j = 0; j < p; j++) {
+            double own = gram[j * p + j];
+            double pivot = own;
+            for (int k = 0; k < j; k++) {
+                if (kept[k]) {
+                    double f = factor[j * p + k];
+                    pivot -= f * f;
+                }
+            }
+            if (!(own > 0) || !(pivot > MIN_PIVOT_SHARE * own)) {
+                kept[j] = false;
+                beta[j] = 0;
+                continue;
+            }
+            kept[j] = true;
+            keptCount++;
+            double d = Math.sqrt(pivot);
+            factor[j * p + j] = d;
+            for (int i = j + 1; i < p; i++) {
+                double s = gram[i * p + j];
+                for (int k = 0; k < j; k++) {
+                    if (kept[k]) {
+                        s -= factor[i * p + k] * factor[j * p + k];
+                    }
+                }
+                factor[i * p + j] = s / d;
+            }
+        }
+    }
+
+    /** Cholesky of the kept columns' block; false when it is no longer positive definite. */
+    private boolean factorKept(int p) {
+        for (int j = 0; j < p; j++) {
+            if (!kept[j]) {
+                continue;
+            }
+            double pivot = gram[j * p + j];
+            for (int k = 0; k < j; k++) {
+                if (kept[k]) {
+                    double f = factor[j * p + k];
+                    pivot -= f * f;
+                }
+            }
+            if (!(pivot > 0)) {
+                return false;
+            }
+            double d = Math.sqrt(pivot);
+            factor[j * p + j] = d;
+            for (int i = j + 1; i < p; i++) {
+                if (!kept[i]) {
+                    continue;
+                }
+                double s = gram[i * p + j];
+                for (int k = 0; k < j; k++) {
+                    if (kept[k]) {
+                        s -= factor[i * p + k] * factor[j * p + k];
+                    }
+                }
+                factor[i * p + j] = s / d;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * The correction: columns from the within system, then each level's from its own equation. Returns its
+     * quadratic form d'I d = d_b'r + sum_l U_l^2 / s_l (r the within score, U_l a level's score, s_l its
+     * weight), without forming I.
+     */
+    private double solveStep(int p, int levels) {
+        System.arraycopy(rhs, 0, step, 0, p);
+        solveFactored(step, p);
+        double decrement = 0;
+        for (int j = 0; j < p; j++) {
+            decrement += step[j] * rhs[j];
+        }
+        for (int l = 0; l < levels; l++) {
+            double s = levelScore[l] / levelWeight[l];
+            for (int j = 0; j < p; j++) {
+                if (kept[j]) {
+                    s -= levelMean[l * p + j] * step[j];
+                }
+            }
+            stepAlpha[l] = s;
+            decrement += levelScore[l] * levelScore[l] / levelWeight[l];
+        }
+        return decrement;
+    }
+
+    /** Solves (L L') v = b in place over the kept columns (dropped entries set to 0). */
+    void solveFactored(double[] v, int p) {
+        for (int j = 0; j < p; j++) {
+            if (!kept[j]) {
+                v[j] = 0;
+                continue;
+            }
+            double s = v[j];
+            for (int k = 0; k < j; k++) {
+                if (kept[k]) {
+                    s -= factor[j * p + k] * v[k];
+                }
+            }
+            v[j] = s / factor[j * p + j];
+        }
+        for (int j = p - 1; j >= 0; j--) {
+            if (!kept[j]) {
+                continue;
+            }
+            double s = v[j];
+            for (int k = j + 1; k < p; k++) {
+                if (kept[k]) {
+                    s -= factor[k * p + j] * v[k];
+                }
+            }
+            v[j] = s / factor[j * p + j];
+        }
+    }
+
+    private void grow(int n, int p, int levels) {
+        if (eta.length < n) {
+            eta = new double[n];
+            mu = new double[n];
+            weight = new double[n];
+            score = new double[n];
+            trialEta = new double[n];
+        }
+        if (beta.length < p) {
+            beta = new double[p];
+            kept = new boolean[p];
+            step = new double[p];
+            rhs = new double[p];
+            trialBeta = new double[p];
+            centred = new double[p];
+        }
+        if (gram.length < p * p) {
+            gram = new double[p * p];
+            factor = new double[p * p];
+        }
+        if (alpha.length < levels || levelMean.length < levels * p) {
+            alpha = new double[levels];
+            stepAlpha = new double[levels];
+            trialAlpha = new double[levels];
+            levelWeight = new double[levels];
+            levelScore = new double[levels];
+            levelMean = new double[levels * p];
+        }
+    }
+}

@@ -6,6 +6,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -21,13 +22,19 @@ import org.forkscape.run.RunResult;
 /**
  * Logit with HC1 errors on every subset of 10 and 14 controls: the engine, the per-specification IRLS
  * baseline ({@link GlmBaseline}) and R's {@code glm} + {@code sandwich::vcovHC} ({@link RGlmTiming}), in
- * one process run after run. The baseline and R fit seeded random samples of the specifications and are
- * extrapolated; both are compared with the engine on the specifications they fitted.
+ * one process run after run. Each fits a seeded random sample of the specifications, extrapolated; the
+ * baseline and R are compared with the engine on the specifications they fitted.
  */
 final class GlmBenchmark {
     private static final long DATA_SEED = 20261201L;
     private static final long SAMPLE_SEED = 11L;
     private static final String ERRORS = "HC1";
+    /**
+     * How many specifications of each plan the engine fits, a seeded sample extrapolated like the baseline's
+     * and R's: at the engine's first logit rate (about 2 spec/s at 100,000 rows on two cores) the 1,024 and
+     * 16,384 specifications would take 9 minutes and 2 hours.
+     */
+    private static final int ENGINE_SAMPLE = 128;
 
     private final PrintStream out;
     private final Path folder;
@@ -45,7 +52,7 @@ final class GlmBenchmark {
     }
 
     private List<Map<String, Object>> cases() {
-        int rows = quick ? 5_000 : 100_000;
+        int rows = quick ? 1_000 : 100_000;
         Path data = folder.resolve("glm-data-" + rows + ".csv");
         Table table;
         try {
@@ -56,17 +63,13 @@ final class GlmBenchmark {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
-        out.printf("%n%-20s %15s %15s %9s %13s %9s %13s %11s %11s%n", "logit case", "Forkscape spec/s",
+        out.printf("%n%-20s %7s %16s %15s %7s %13s %7s %13s %10s %11s%n", "logit case", "fitted", "Forkscape spec/s",
                 "baseline spec/s", "ratio", "R glm spec/s", "ratio", "R glm.fit", "iterations", "max relerr");
         List<Map<String, Object>> results = new ArrayList<>();
-        int largest = quick ? 10 : 14;
-        double iterations = Double.NaN;
         for (int k : quick ? new int[] {10} : new int[] {10, 14}) {
-            Map<String, Object> json = compare(table, data, k);
-            iterations = (double) json.get("baseline_mean_iterations");
-            results.add(json);
+            results.add(compare(table, data, k));
         }
-        results.add(passBound(table, data, largest, iterations));
+        results.add(passBound(table, data, 10, (double) results.get(0).get("baseline_mean_iterations")));
         return results;
     }
 
@@ -74,49 +77,46 @@ final class GlmBenchmark {
         String name = "logit-n" + table.rowCount() + "-k" + optional + "-" + ERRORS;
         Plan plan = new PlanReader(false).read(GlmBenchData.plan(data.getFileName().toString(), optional, ERRORS),
                 folder);
+        plan = plan.withSample(ENGINE_SAMPLE, SAMPLE_SEED);
         MultiverseRunner runner = new MultiverseRunner();
-        runner.run(plan.withSample(Math.min(256, 1L << optional), 3), table, RunProgress.SILENT, null);
-        GlmBaseline baseline = new GlmBaseline(table);
-        int reps = quick ? 2 : 3;
-        double budget = quick ? 0.3 : 1.5;
-        SplittableRandom pick = new SplittableRandom(SAMPLE_SEED);
-        List<Double> engineRates = new ArrayList<>();
-        List<Double> baselineRates = new ArrayList<>();
-        Agreement baselineAgreement = new Agreement();
-        RunResult last = null;
-        long baselineIterations = 0;
-        long baselineColumns = 0;
-        int baselineFits = 0;
-        for (int r = 0; r < reps; r++) {
-            long start = System.nanoTime();
-            last = runner.run(plan, table, RunProgress.SILENT, null);
-            engineRates.add(last.results().size() / ((System.nanoTime() - start) / 1e9));
-            int fitted = 0;
-            long baselineStart = System.nanoTime();
-            while (fitted < 2 || (System.nanoTime() - baselineStart) / 1e9 < budget) {
-                long mask = pick.nextLong(1L << optional);
-                GlmBaseline.Fit fit = baseline.fit(mask);
-                baselineAgreement.add(last, mask, fit.estimate(), fit.stdError());
-                baselineIterations += fit.iterations();
-                baselineColumns += Long.bitCount(mask) + 2;
-                fitted++;
-            }
-            baselineRates.add(fitted / ((System.nanoTime() - baselineStart) / 1e9));
-            baselineFits += fitted;
+        runner.run(plan.withSample(16, 3), table, RunProgress.SILENT, null);
+        long start = System.nanoTime();
+        RunResult run = runner.run(plan, table, RunProgress.SILENT, null);
+        double engine = run.results().size() / ((System.nanoTime() - start) / 1e9);
+        Map<Long, Integer> slots = new HashMap<>();
+        for (int i = 0; i < run.results().size(); i++) {
+            slots.put(run.results().specIndex(i), i);
         }
-        double engine = median(engineRates);
-        double base = median(baselineRates);
-        RGlmTiming.Outcome r = RGlmTiming.time(data, sampleMasks(optional), quick ? 2 : 20, folder);
-        Agreement rAgreement = new Agreement();
+        long[] masks = shuffled(slots.keySet());
+        GlmBaseline baseline = new GlmBaseline(table);
+        double budget = quick ? 0.3 : 3;
+        Agreement baselineAgreement = new Agreement(run, slots);
+        long baselineIterations = 0;
+        int baselineFits = 0;
+        long warm = System.nanoTime();
+        for (int w = 0; w < 2 || (System.nanoTime() - warm) / 1e9 < budget / 3; w++) {
+            baseline.fit(masks[w % masks.length]);
+        }
+        long baselineStart = System.nanoTime();
+        while (baselineFits < 2 || (System.nanoTime() - baselineStart) / 1e9 < budget) {
+            long mask = masks[baselineFits % masks.length];
+            GlmBaseline.Fit fit = baseline.fit(mask);
+            baselineAgreement.add(mask, fit.estimate(), fit.stdError());
+            baselineIterations += fit.iterations();
+            baselineFits++;
+        }
+        double base = baselineFits / ((System.nanoTime() - baselineStart) / 1e9);
+        RGlmTiming.Outcome r = RGlmTiming.time(data, masks, quick ? 1 : 20, folder);
+        Agreement rAgreement = new Agreement(run, slots);
         if (r.skipped() == null) {
             for (RGlmTiming.Spec s : r.specs()) {
-                rAgreement.add(last, s.mask(), s.estimate(), s.stdError());
+                rAgreement.add(s.mask(), s.estimate(), s.stdError());
             }
         }
         double iterations = (double) baselineIterations / baselineFits;
-        out.printf("%-20s %,15.0f %,15.2f %,9.0f %13s %9s %13s %11.1f %11.1e%n", name, engine, base, engine / base,
-                r.skipped() == null ? String.format("%,.2f", r.glmRate()) : "skipped",
-                r.skipped() == null ? String.format("%,.0f", engine / r.glmRate()) : "-",
+        out.printf("%-20s %,7d %,16.1f %,15.2f %,7.1f %13s %7s %13s %10.1f %11.1e%n", name, run.results().size(), engine,
+                base, engine / base, r.skipped() == null ? String.format("%,.2f", r.glmRate()) : "skipped",
+                r.skipped() == null ? String.format("%,.1f", engine / r.glmRate()) : "-",
                 r.skipped() == null ? String.format("%,.2f", r.glmFitRate()) : "-", iterations,
                 Math.max(baselineAgreement.max, rAgreement.max));
         if (r.skipped() != null) {
@@ -125,18 +125,19 @@ final class GlmBenchmark {
         Map<String, Object> json = new LinkedHashMap<>();
         json.put("case", name);
         json.put("rows", table.rowCount());
-        json.put("specifications", last.results().size());
+        json.put("specifications", 1L << optional);
+        json.put("engine_specifications_fitted", run.results().size());
         json.put("model", "logit");
         json.put("errors", ERRORS);
         json.put("engine_specs_per_second", engine);
-        json.put("engine_specs_per_second_runs", engineRates);
+        json.put("engine_measures", "loaded table to filled result table, one run after a warm-up on 16 specifications");
         json.put("baseline_specs_per_second", base);
         json.put("baseline_note", "per-specification IRLS from mu = (y + 0.5) / 2, Commons Math Householder QR "
-                + "for each weighted least-squares step, HC1 sandwich; timed on a seeded random sample for about "
-                + budget + " s per repetition and extrapolated");
+                + "for each weighted least-squares step, HC1 sandwich; timed on a seeded random order of the "
+                + "engine's specifications for about " + budget + " s and extrapolated");
+        json.put("baseline_specifications_timed", baselineFits);
         json.put("ratio_to_baseline", engine / base);
         json.put("baseline_mean_iterations", iterations);
-        json.put("baseline_mean_columns", (double) baselineColumns / baselineFits);
         json.put("max_relative_difference_vs_baseline", baselineAgreement.max);
         if (r.skipped() == null) {
             json.put("r_version", r.version());
@@ -160,7 +161,7 @@ final class GlmBenchmark {
      */
     private Map<String, Object> passBound(Table table, Path data, int optional, double iterations) {
         String name = "logit-n" + table.rowCount() + "-k" + optional + "-" + ERRORS + "-passes";
-        int sample = quick ? 64 : 512;
+        int sample = 16;
         Plan plan = new PlanReader(false).read(GlmBenchData.plan(data.getFileName().toString(), optional, ERRORS),
                 folder).withSample(sample, 5);
         MultiverseRunner runner = new MultiverseRunner(1);
@@ -184,9 +185,10 @@ final class GlmBenchmark {
         double multiplyAdds = passes * n * products;
         double bandwidth = MemoryBandwidth.readBytesPerSecond();
         double bound = bandwidth / bytes;
-        out.printf("%s (one thread, sample of %d): %,.0f spec/s; %.1f IRLS iterations + 1 score pass over %,d rows x "
-                + "%.1f columns = %.0f MB read and %.0f M multiply-adds per specification; streaming-read bound "
-                + "%,.0f spec/s at %.1f GB/s: %.0f%% of it; %.2f G multiply-adds/s%n", name, sample, rate, iterations,
+        out.printf("%s (one thread, sample of %d): %,.2f spec/s; a plain IRLS needs %.1f iterations + 1 score pass "
+                + "over %,d rows x %.1f columns = %.1f MB read and %.1f M multiply-adds per specification: "
+                + "streaming-read bound %,.0f spec/s at %.1f GB/s, the engine at %.1f%% of it; %.3f G multiply-adds/s%n",
+                name, sample, rate, iterations,
                 n, columns, bytes / 1e6, multiplyAdds / 1e6, bound, bandwidth / 1e9, 100 * rate / bound,
                 rate * multiplyAdds / 1e9);
         Map<String, Object> json = new LinkedHashMap<>();
@@ -206,37 +208,35 @@ final class GlmBenchmark {
         return json;
     }
 
-    /** A seeded random order of distinct specifications for R, which fits a prefix of it. */
-    private static long[] sampleMasks(int optional) {
-        long[] masks = new long[Math.min(1 << optional, 400)];
-        SplittableRandom random = new SplittableRandom(SAMPLE_SEED + optional);
-        java.util.Set<Long> seen = new java.util.HashSet<>();
-        for (int i = 0; i < masks.length; i++) {
-            long m;
-            do {
-                m = random.nextLong(1L << optional);
-            } while (!seen.add(m));
-            masks[i] = m;
+    /** The engine's specifications in a seeded random order, for the baseline and R to fit a prefix of. */
+    private static long[] shuffled(java.util.Set<Long> indices) {
+        long[] masks = indices.stream().mapToLong(Long::longValue).sorted().toArray();
+        SplittableRandom random = new SplittableRandom(SAMPLE_SEED);
+        for (int i = masks.length - 1; i > 0; i--) {
+            int j = random.nextInt(i + 1);
+            long t = masks[i];
+            masks[i] = masks[j];
+            masks[j] = t;
         }
         return masks;
     }
 
     /** The largest relative difference of key estimates and standard errors from the engine's. */
     private static final class Agreement {
+        private final RunResult run;
+        private final Map<Long, Integer> slots;
         private double max;
 
-        void add(RunResult run, long mask, double estimate, double stdError) {
-            int slot = (int) mask;
+        Agreement(RunResult run, Map<Long, Integer> slots) {
+            this.run = run;
+            this.slots = slots;
+        }
+
+        void add(long mask, double estimate, double stdError) {
+            int slot = slots.get(mask);
             max = Math.max(max, Math.abs(run.results().estimate(slot) - estimate)
                     / Math.max(Math.abs(estimate), stdError));
             max = Math.max(max, Math.abs(run.results().stdError(slot) - stdError) / stdError);
         }
-    }
-
-    private static double median(List<Double> v) {
-        List<Double> s = new ArrayList<>(v);
-        s.sort(null);
-        int n = s.size();
-        return n % 2 == 1 ? s.get(n / 2) : (s.get(n / 2 - 1) + s.get(n / 2)) / 2;
     }
 }

@@ -1,6 +1,7 @@
 // The explorer page: scale, filter panel, summary cards, curve and choice grid, influence, full fits, exports.
 // Estimates of different units never share an axis: as fitted, one comparable group (an outcome alternative
-// with a key-predictor alternative) is shown at a time; the other scales are unit-free.
+// with a key-predictor alternative and, with a model decision, a model) is shown at a time; the average
+// marginal effects one outcome and coding at a time, every model together; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
 import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num } from '../helpers.js';
@@ -32,7 +33,7 @@ const setCount = document.getElementById('set-count');
 
 function query(extra = {}) {
   const params = new URLSearchParams({ drop: [...dropped].join(','), sort, scale,
-    ...(scale === 'fitted' && group !== null ? { group } : {}), ...extra });
+    ...(!scaleInfo().unitFree && group !== null ? { group } : {}), ...extra });
   return params.toString();
 }
 
@@ -40,12 +41,12 @@ function scaleInfo() {
   return state.layout.scales.find((s) => s.id === scale);
 }
 
-/** The chosen scale in words: its title and, as fitted with several groups, the group shown. */
+/** The chosen scale in words: its title and, on a scale with units and several groups, the group shown. */
 function scaleName() {
   const info = scaleInfo();
   if (info.unitFree) return info.title;
-  const g = state.layout.groups[state.view ? state.view.group : group];
-  return state.layout.unitsDiffer ? `as fitted, ${g.outcome} on ${g.predictor}` : 'as fitted';
+  const g = info.groups[state.view ? state.view.group : group];
+  return info.unitsDiffer ? `${info.title}, ${g.title}` : info.title;
 }
 
 function confidenceLabel() {
@@ -119,6 +120,7 @@ async function refresh() {
   showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
   scaleNote(view);
   setCount.textContent = `Showing ${count(view.summary.count)} of ${count(view.total)} specifications`
+    + (view.leftOut > 0 ? ` (${count(view.leftOut)} more have no value on this scale)` : '')
     + (view.summary.count === 0 ? ': no specification is left; tick an alternative again.' : '');
   summaryCards(view.summary);
   influenceTable(view.influence);
@@ -134,20 +136,40 @@ function factorName(id) {
 function scaleNote(view) {
   const info = scaleInfo();
   let text = `Shown on the scale ${scaleName()}: the vertical axis is ${view.unit}. `;
-  if (!info.unitFree) {
-    text += state.layout.unitsDiffer
-      ? `The plan codes its outcome or key predictor in several ways, so estimates as fitted come in ${count(
-        state.layout.groups.filter((g) => g.fitted > 0).length)} sets of units; only one comparable group is shown. `
-        + 'Choose another group, or a unit-free scale to see every specification together.'
-      : 'Every specification has the same outcome and key-predictor coding, so their estimates share these units.';
+  const groups = info.groups.filter((g) => g.fitted > 0).length;
+  if (scale === 'fitted') {
+    if (info.unitsDiffer) {
+      text += `Estimates as fitted come in ${count(groups)} sets of units (the plan has several outcome alternatives, `
+        + `key-predictor codings${state.layout.modelFactor >= 0 ? ' or models: a logit coefficient is in log-odds, a '
+          + 'least-squares one in the outcome itself' : ''}); only one comparable group is shown. `
+        + (state.layout.modelFactor >= 0 ? 'Choose another group, the average marginal effect (every model in the '
+          + 'units of the outcome), or a unit-free scale to see more specifications together.'
+          : 'Choose another group, or a unit-free scale to see every specification together.');
+    } else {
+      text += 'Every specification has the same outcome and key-predictor coding, so their estimates share these units.';
+    }
+  } else if (scale === 'effect') {
+    text += 'Each specification\u2019s average marginal effect of the key predictor, in units of the outcome itself, so '
+      + 'that least-squares, logit, probit and Poisson fits of one outcome share the axis (for least squares it is the '
+      + 'coefficient). Each interval is the effect \u00b1 the critical value times its delta-method standard error; the '
+      + 'marks\u2019 significance is the key coefficient\u2019s own test. '
+      + (info.unitsDiffer ? `The plan codes its outcome or key predictor in several ways, so the effects come in ${
+        count(groups)} sets of units; only one group is shown.` : '');
   } else if (!info.interval) {
     text += 'The t statistic has no interval: it is itself the test, and a specification is significant where |t| '
-      + 'exceeds its critical value; no extreme bounds either.';
+      + 'exceeds its critical value; no extreme bounds either.'
+      + (state.layout.modelFactor >= 0 ? ' For logit, probit and Poisson fits it is a z statistic.' : '');
   } else if (scale === 'partial') {
     text += 'Each interval is the interval of the estimate mapped through t / \u221a(t\u00b2 + df), so it excludes zero '
       + 'exactly when the estimate\u2019s interval does.';
   } else {
     text += 'Each interval is the interval of the estimate times the specification\u2019s sd(predictor) / sd(outcome).';
+  }
+  if (view.leftOut > 0) {
+    text += ` ${count(view.leftOut)} specification${view.leftOut === 1 ? '' : 's'} of the set fit a logit, probit or `
+      + 'Poisson model, for which this scale is not defined (it needs least squares\u2019 residual degrees of freedom '
+      + 'and standard deviations): they are left out of the curve, the cards and the influence panel, not shown as 0. '
+      + 'The t statistic and the average marginal effect show every specification.';
   }
   document.getElementById('scale-note').textContent = text;
 }
@@ -218,12 +240,18 @@ function showDetails(s) {
     el('dl', {}, s.choices.map((c) => el('div', {}, el('dt', {}, `${c.decision}:`), el('dd', {}, c.label)))),
     el('p', { class: 'pair', id: 'spec-numbers' },
       `Estimate ${number(s.estimate, 4)}, ${confidenceLabel()} interval ${number(s.ciLow, 4)} to ${number(s.ciHigh, 4)}, `
-      + `SE ${number(s.stdError, 3)}, p ${pValue(s.pValue)}, N ${count(s.nObs)}, R\u00b2 ${number(s.r2, 3)}`
+      + `SE ${number(s.stdError, 3)}, p ${pValue(s.pValue)}, N ${count(s.nObs)}, `
+      + `${s.model === 'ols' ? 'R\u00b2' : 'McFadden R\u00b2'} ${number(s.r2, 3)}`
+      + (state.layout.modelFactor >= 0 ? `; model ${s.model}` : '')
       + (s.status !== 'ok' ? `; ${s.status}` : '')),
     el('p', { class: 'pair', id: 'spec-scales' },
-      `Standardized ${number(s.standardized, 4)} (${number(s.standardizedLow, 4)} to ${number(s.standardizedHigh, 4)}), `
-      + `partial correlation ${number(s.partialCorrelation, 4)} (${number(s.partialLow, 4)} to ${number(s.partialHigh, 4)}), `
-      + `t ${number(s.statistic, 4)} on ${number(s.df, 6)} df`));
+      (state.layout.modelFactor >= 0 ? `Average marginal effect ${number(s.effect, 4)} (${number(s.effectLow, 4)} to `
+        + `${number(s.effectHigh, 4)}), ` : '')
+      + (s.model === 'ols'
+        ? `standardized ${number(s.standardized, 4)} (${number(s.standardizedLow, 4)} to ${number(s.standardizedHigh, 4)}), `
+        + `partial correlation ${number(s.partialCorrelation, 4)} (${number(s.partialLow, 4)} to ${number(s.partialHigh, 4)}), `
+        + `t ${number(s.statistic, 4)} on ${number(s.df, 6)} df`
+        : `standardized and partial correlation not defined for ${s.model}, z ${number(s.statistic, 4)} (standard normal)`)));
 }
 
 async function openFit(position) {
@@ -246,27 +274,46 @@ async function openFit(position) {
 
 function fitBody(body, view) {
   const f = view.fit;
+  const glm = view.model !== 'ols';
   append(body, el('p', {}, view.choices.map((c) => `${c.decision} = ${c.label}`).join('; ')));
   if (f.status !== 'ok') {
     append(body, el('p', { class: 'problem' }, `No fit: ${f.status}`));
     return;
   }
   const level = `${Math.round(view.confidence * 100)}%`;
-  const head = el('tr', {}, ['Term', 'Estimate', 'Std. error', 't', 'p', `${level} low`, `${level} high`]
+  const head = el('tr', {}, ['Term', 'Estimate', 'Std. error', glm ? 'z' : 't', 'p', `${level} low`, `${level} high`]
     .map((h) => el('th', { scope: 'col' }, h)));
   const rows = f.coefficients.map((c) => el('tr', { class: c.role === 'key' ? 'key-row' : null },
     el('th', { scope: 'row' }, c.role === 'key' ? `${c.term} (key predictor)` : c.term),
     ...[number(c.estimate, 5), number(c.stdError, 4), number(c.statistic, 3), pValue(c.pValue), number(c.ciLow, 4),
       number(c.ciHigh, 4)].map((v) => el('td', { class: 'num' }, v))));
+  const against = f.absorbed ? 'the fixed effects alone' : 'the intercept alone';
+  const facts = glm ? [
+    el('p', { id: 'fit-model' }, `Model: ${view.modelTitle} (${view.model}), fitted by maximum likelihood; coefficients on `
+      + `the ${view.model === 'logit' ? 'log-odds' : view.model === 'probit' ? 'probit (normal quantile)' : 'log'} scale, `
+      + 'z statistics, p-values and intervals on the standard normal reference (no degrees of freedom)'),
+    el('p', {}, `Standard errors: ${f.errors}`),
+    el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}`),
+    el('p', {}, `McFadden R\u00b2 = ${number(f.r2, 4)}`),
+    el('p', {}, `Likelihood-ratio test against ${against}: p ${pValue(f.modelPValue)}`),
+    el('p', {}, `Residual deviance = ${number(view.deviance, 6)}`),
+  ] : [
+    el('p', {}, `Standard errors: ${f.errors}`),
+    el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}, df = ${number(f.df, 6)}`),
+    el('p', {}, `R\u00b2 = ${number(f.r2, 4)}, adjusted R\u00b2 = ${number(f.adjustedR2, 4)}`),
+    el('p', {}, `Model F = ${number(f.modelF, 4)}, p ${pValue(f.modelPValue)}`),
+  ];
+  if (glm || state.layout.modelFactor >= 0) {
+    facts.push(el('p', { id: 'fit-effect' }, `Average marginal effect of the key predictor: ${number(view.effect, 5)} `
+      + `(SE ${number(view.effectStdError, 4)}; ${level} interval ${number(view.effectLow, 4)} to `
+      + `${number(view.effectHigh, 4)})${glm ? ', in units of the outcome itself' : ', the coefficient itself for least squares'}`));
+  }
   append(body,
     el('div', { class: 'table-scroll' }, el('table', { class: 'fit-table', id: 'fit-table' },
       el('caption', { class: 'visually-hidden' }, 'Coefficients'), el('thead', {}, head), el('tbody', {}, rows))),
-    el('div', { class: 'fit-facts' },
-      el('p', {}, `Standard errors: ${f.errors}`),
-      el('p', {}, `N = ${count(f.nObs)}, K = ${count(f.nParams)}, df = ${number(f.df, 6)}`),
-      el('p', {}, `R\u00b2 = ${number(f.r2, 4)}, adjusted R\u00b2 = ${number(f.adjustedR2, 4)}`),
-      el('p', {}, `Model F = ${number(f.modelF, 4)}, p ${pValue(f.modelPValue)}`),
-      f.absorbed ? el('p', {}, `Fixed effects of ${f.absorbed} absorbed (${count(f.absorbedLevels)} levels)`) : null,
+    el('div', { class: 'fit-facts', id: 'fit-facts' }, ...facts,
+      f.absorbed ? el('p', {}, `Fixed effects of ${f.absorbed} ${glm ? 'entered as one coefficient per level'
+        : 'absorbed'} (${count(f.absorbedLevels)} levels)`) : null,
       f.clusters > 0 ? el('p', {}, `${count(f.clusters)} clusters`) : null,
       f.note ? el('p', {}, f.note) : null));
 }
@@ -360,18 +407,15 @@ function sortSelect(layout) {
 function scaleSelect(layout) {
   const select = document.getElementById('scale');
   for (const s of layout.scales) {
-    select.append(el('option', { value: s.id }, s.unitFree ? s.title
-      : layout.unitsDiffer ? 'as fitted, one comparable group at a time' : 'as fitted'));
+    const words = s.unitFree ? s.title + (s.leftOut > 0 ? ' (least squares only)' : '')
+      : s.unitsDiffer ? `${s.title}, one ${s.id === 'fitted' ? 'comparable ' : ''}group at a time` : s.title;
+    select.append(el('option', { value: s.id }, words));
   }
   const groups = document.getElementById('group');
-  for (const g of layout.groups) {
-    groups.append(el('option', { value: String(g.id), disabled: g.fitted === 0 },
-      `${g.outcome} on ${g.predictor} (${count(g.fitted)})`));
-  }
   select.value = scale;
-  groups.value = String(group);
   select.addEventListener('change', () => {
     scale = select.value;
+    group = scaleInfo().unitFree ? null : scaleInfo().defaultGroup;
     scaleControls();
     refresh();
   });
@@ -382,16 +426,28 @@ function scaleSelect(layout) {
   scaleControls();
 }
 
-/** As fitted with several groups: the group selector shows, and the group fixes the outcome and coding filters. */
+/**
+ * On a scale with units and several groups: the group selector shows the scale's groups, and the group fixes
+ * the outcome and coding filters (and, as fitted, the model's).
+ */
 function scaleControls() {
   const layout = state.layout;
-  const oneGroup = scale === 'fitted' && layout.unitsDiffer;
-  document.getElementById('group').hidden = !oneGroup;
+  const info = scaleInfo();
+  const oneGroup = !info.unitFree && info.unitsDiffer;
+  const groups = clear(document.getElementById('group'));
+  for (const g of info.groups) {
+    groups.append(el('option', { value: String(g.id), disabled: g.fitted === 0 }, `${g.title} (${count(g.fitted)})`));
+  }
+  if (oneGroup) groups.value = String(group);
+  groups.hidden = !oneGroup;
   document.getElementById('group-label').hidden = !oneGroup;
-  for (const f of [layout.outcomeFactor, layout.predictorFactor]) {
-    document.querySelectorAll(`input[id^="f${f}-l"]`).forEach((box) => {
-      box.disabled = oneGroup;
-      box.title = oneGroup ? 'fixed by the comparable group shown' : '';
+  const fixed = [layout.outcomeFactor, layout.predictorFactor];
+  for (const f of layout.factors) {
+    const byGroup = oneGroup && (fixed.includes(f.id) || (scale === 'fitted' && f.id === layout.modelFactor));
+    document.querySelectorAll(`input[id^="f${f.id}-l"]`).forEach((box) => {
+      if (!fixed.includes(f.id) && f.id !== layout.modelFactor) return;
+      box.disabled = byGroup;
+      box.title = byGroup ? 'fixed by the comparable group shown' : '';
     });
   }
 }
@@ -565,8 +621,8 @@ async function start() {
     return;
   }
   state.layout = layout;
-  if (!params.get('scale')) scale = layout.defaultScale;
-  if (group === null) group = layout.defaultGroup;
+  if (!params.get('scale') || !layout.scales.some((s) => s.id === scale)) scale = layout.defaultScale;
+  if (group === null && !scaleInfo().unitFree) group = scaleInfo().defaultGroup;
   document.getElementById('run-meta').textContent = `${count(layout.fitted)} specifications fitted`
     + (layout.sampled ? ` (a seeded random sample of the plan's ${count(layout.inPlan)})` : '')
     + (layout.unfitted > 0 ? `, ${count(layout.unfitted)} without an estimate` : '') + '.';

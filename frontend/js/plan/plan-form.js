@@ -2,7 +2,7 @@
 // path the plan reader uses in its messages (data-path), so a problem is shown beside the field it names.
 import { clear, el } from '../helpers.js';
 import {
-  ERROR_TYPES, KINDS, KIND_TITLES, TRANSFORMS, alternativeCount, newAlternative, newDecision, parentPath,
+  ERROR_TYPES, KINDS, KIND_TITLES, MODELS, TRANSFORMS, alternativeCount, newAlternative, newDecision, parentPath,
   parseTransform,
 } from './plan-model.js';
 
@@ -145,7 +145,7 @@ function decision(f, plan, d, i) {
   box.append(head, el('p', { class: 'problem', hidden: true, role: 'alert' }));
   if (d.kind === 'controls') {
     box.append(controls(f, d, path));
-  } else if (['outcome', 'predictor', 'sample', 'errors', 'absorb'].includes(d.kind)) {
+  } else if (['outcome', 'predictor', 'sample', 'errors', 'absorb', 'model'].includes(d.kind)) {
     box.append(alternatives(f, d, path));
   }
   return box;
@@ -174,6 +174,7 @@ function alternatives(f, d, path) {
     if (d.kind === 'outcome' || d.kind === 'predictor') variable(f, d, a, p, row);
     else if (d.kind === 'sample') sampleRule(f, a, p, row);
     else if (d.kind === 'errors') errorType(f, d, j, p, row);
+    else if (d.kind === 'model') modelChoice(f, d, j, p, row);
     else absorbChoice(f, a, p, row);
     row.append(button('Remove', `Remove alternative ${j + 1} of ${d.name}`, false, () => {
       d.alternatives.splice(j, 1);
@@ -182,7 +183,7 @@ function alternatives(f, d, path) {
     list.append(row);
   });
   list.append(el('div', { class: 'add-row' }, button('Add an alternative', `Add an alternative to ${d.name}`, false, () => {
-    d.alternatives.push(newAlternative(d.kind));
+    d.alternatives.push(newAlternative(d.kind, d));
     f.hooks.restructured();
   })));
   return list;
@@ -242,6 +243,22 @@ function errorType(f, d, j, p, row) {
       d.alternatives[j] = `cluster:${v}`;
     }));
   }
+}
+
+/** One model of a model decision, with what it is for beside it; the server says when the outcome does not fit it. */
+function modelChoice(f, d, j, p, row) {
+  const text = String(d.alternatives[j] || '');
+  const known = MODELS.find((m) => m.value === text.trim().toLowerCase());
+  const options = MODELS.map((m) => ({ value: m.value, text: m.text }));
+  if (!known) options.push({ value: text, text: `${text || 'no model'} (not a model: choose one)` });
+  const field = f.select(p, 'Model', options, known ? known.value : text, (v) => {
+    d.alternatives[j] = v;
+  }, true);
+  const control = field.querySelector('select');
+  const note = el('p', { class: 'hint model-note', id: `${control.id}-note` }, known ? known.note : '');
+  control.setAttribute('aria-describedby', note.id);
+  field.insertBefore(note, field.querySelector('.problem'));
+  row.append(field);
 }
 
 function absorbChoice(f, a, p, row) {

@@ -1,7 +1,7 @@
 // The plan as the form edits it: the plan JSON itself (the same object the batch command reads), with the
 // rules the form needs to count specifications and to start new decisions and alternatives.
 
-export const KINDS = Object.freeze(['outcome', 'predictor', 'controls', 'sample', 'errors', 'absorb']);
+export const KINDS = Object.freeze(['outcome', 'predictor', 'controls', 'sample', 'errors', 'absorb', 'model']);
 
 export const KIND_TITLES = Object.freeze({
   outcome: 'Outcome: which measure of the result',
@@ -10,10 +10,23 @@ export const KIND_TITLES = Object.freeze({
   sample: 'Rows: which observations are used',
   errors: 'Standard errors: how uncertainty is computed',
   absorb: 'Fixed effects: which groupings are absorbed',
+  model: 'Model: which estimator each specification fits',
 });
 
 export const TRANSFORMS = Object.freeze(['none', 'log', 'log1p', 'sqrt', 'standardize', 'winsorize']);
 export const ERROR_TYPES = Object.freeze(['classical', 'HC0', 'HC1', 'HC2', 'HC3', 'cluster']);
+
+/** The models of a model decision, as plans spell them, each with what it is for. */
+export const MODELS = Object.freeze([
+  { value: 'ols', text: 'ols: least squares', note: 'Least squares, for any numeric outcome; on a 0/1 outcome it is '
+    + 'the linear probability model.' },
+  { value: 'logit', text: 'logit: logistic regression', note: 'For an outcome coded 0/1; the coefficient is in '
+    + 'log-odds.' },
+  { value: 'probit', text: 'probit: probit regression', note: 'For an outcome coded 0/1; the coefficient is on the '
+    + 'scale of a standard normal quantile.' },
+  { value: 'poisson', text: 'poisson: Poisson regression', note: 'For counts or other non-negative outcomes; the '
+    + 'coefficient is on the log scale of the expected outcome.' },
+]);
 
 /** Alternatives of one decision, as the engine counts them (every subset of the optional controls). */
 export function alternativeCount(d) {
@@ -44,13 +57,21 @@ export function newDecision(kind, plan) {
       return { name, kind, alternatives: ['classical'] };
     case 'absorb':
       return { name, kind, alternatives: [{ label: 'none', columns: [] }] };
+    case 'model':
+      return { name, kind, alternatives: ['ols'] };
     default:
       return { name, kind, alternatives: [{ label: '', column: '' }] };
   }
 }
 
-export function newAlternative(kind) {
+/** A new alternative of a decision: for a model decision, the first model it does not list yet. */
+export function newAlternative(kind, decision = null) {
   switch (kind) {
+    case 'model': {
+      const listed = new Set((decision && decision.alternatives) || []);
+      const next = MODELS.find((m) => !listed.has(m.value));
+      return next ? next.value : 'ols';
+    }
     case 'sample':
       return { label: '', keep: '' };
     case 'errors':

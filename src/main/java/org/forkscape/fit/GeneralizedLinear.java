@@ -38,9 +38,10 @@ public final class GeneralizedLinear implements Estimator {
         if (!(mom.totalSquares[y] > 0)) {
             return KeyFit.failed(family, FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
         }
-        GlmStarts.Key key = new GlmStarts.Key(family, y, spec.variableMask(), cols);
-        GlmStarts.Start start = data.observed() ? startOf(key, data, mom, spec.errors())
-                : observedFit(key, variant, spec.errors());
+        GlmStarts.Start start = data.observed()
+                ? startOf(new GlmStarts.Key(family, y, mom, cols), data, mom, spec.errors())
+                : observedFit(family, y, cols, spec.variableMask(), variant, spec.errors());
+        GlmStarts.Key key = new GlmStarts.Key(family, y, mom, cols);
         fitRows(key, data, mom, spec.errors(), start);
         if (data.observed()) {
             variant.glmStarts.put(key, startFor(key, mom, start));
@@ -83,13 +84,15 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     /** The observed fit's coefficients, as the start of a null draw's refit. */
-    private GlmStarts.Start observedFit(GlmStarts.Key key, DataVariant variant, ErrorType errors) {
+    private GlmStarts.Start observedFit(ModelFamily family, int y, int[] cols, long variables, DataVariant variant,
+            ErrorType errors) {
+        ObservedRows view = observed.of(variant);
+        Moments mom = view.moments(variables);
+        GlmStarts.Key key = new GlmStarts.Key(family, y, mom, cols);
         GlmStarts.Start start = variant.glmStarts.get(key);
         if (start != null) {
             return start;
         }
-        ObservedRows view = observed.of(variant);
-        Moments mom = view.moments(key.variables());
         GlmStarts.Start parent = startOf(key, view, mom, errors);
         fitRows(key, view, mom, errors, parent);
         start = startFor(key, mom, parent);
@@ -155,24 +158,10 @@ public final class GeneralizedLinear implements Estimator {
         double effect = margins ? marginalEffect(f, keyColumn, mom, levelGradient[1], columnGradient[1], b)
                 : Double.NaN;
         double[] v = covariance.variances(irls, spec.errors(), levelGradient, columnGradient, margins ? 2 : 1);
-        double logLik = 0;
-        double nullDeviance = 0;
-        double nullLogLik = 0;
-        double[] levelSum = new double[levels];
-        int[] levelCount = new int[levels];
-        for (int i = 0; i < n; i++) {
-            levelSum[rows.level[i]] += rows.y[i];
-            levelCount[rows.level[i]]++;
-            logLik += f.logLikelihood(rows.y[i], irls.mu[i]);
-        }
-        for (int i = 0; i < n; i++) {
-            int l = rows.level[i];
-            double m0 = levelSum[l] / levelCount[l];
-            nullDeviance += f.unitDeviance(rows.y[i], m0);
-            nullLogLik += f.logLikelihood(rows.y[i], m0);
-        }
-        double r2 = 1 - logLik / nullLogLik;
-        double lr = Distributions.chiSquareUpperP(Math.max(0, nullDeviance - irls.deviance), irls.keptCount);
+        GlmLikelihoods likelihoods = GlmLikelihoods.of(rows, f, irls.deviance);
+        double r2 = 1 - likelihoods.logLik() / likelihoods.nullLogLik();
+        double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - irls.deviance),
+                irls.keptCount);
         String note = droppedNote(mom, spec);
         if (v == null) {
             return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN, covariance.failure,

@@ -1,7 +1,6 @@
 package org.forkscape.fit;
 
 import org.apache.commons.math3.special.Erf;
-import org.apache.commons.math3.special.Gamma;
 import org.forkscape.plan.ModelFamily;
 
 /**
@@ -30,9 +29,6 @@ abstract class GlmFamily {
     /** The unit deviance 2 (l(y; y) - l(mu; y)) of one row. */
     abstract double unitDeviance(double y, double mu);
 
-    /** The log-likelihood of one row at mean {@code mu}. */
-    abstract double logLikelihood(double y, double mu);
-
     /** The link: the linear predictor whose mean is {@code mu}. */
     abstract double link(double mu);
 
@@ -44,6 +40,34 @@ abstract class GlmFamily {
 
     /** Whether {@code mu} sits at the edge of the parameter space (a fitted probability of 0 or 1, a mean of 0). */
     abstract boolean atBoundary(double mu);
+
+    /**
+     * The deviance of rows 0..n-1 at linear predictors {@code eta}, writing each row's mean into {@code mu}:
+     * one pass, the hot loop of every iteration (overridden where a family can share its exponentials).
+     */
+    double deviance(double[] y, double[] eta, double[] mu, int n) {
+        double d = 0;
+        for (int i = 0; i < n; i++) {
+            double m = mean(eta[i]);
+            mu[i] = m;
+            d += unitDeviance(y[i], m);
+        }
+        return d;
+    }
+
+    /**
+     * Each row's working weight mu'(eta)^2 / V(mu) and score (y - mu) mu'(eta) / V(mu), from its linear
+     * predictor and its mean (already in {@code mu}).
+     */
+    void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
+        for (int i = 0; i < n; i++) {
+            double m = mu[i];
+            double slope = meanSlope(eta[i]);
+            double v = variance(m);
+            weight[i] = slope * slope / v;
+            score[i] = (y[i] - m) * slope / v;
+        }
+    }
 
     static GlmFamily of(ModelFamily family) {
         return switch (family) {
@@ -81,6 +105,36 @@ abstract class GlmFamily {
             return t / (1 + t);
         }
 
+        /** One exponential and one logarithm per row: -2 log mu = 2 log(1 + 1/t), -2 log(1 - mu) = 2 log(1 + t). */
+        @Override
+        double deviance(double[] y, double[] eta, double[] mu, int n) {
+            double d = 0;
+            for (int i = 0; i < n; i++) {
+                double e = eta[i];
+                double t = e < -THRESHOLD ? EPS : e > THRESHOLD ? 1 / EPS : Math.exp(e);
+                mu[i] = t / (1 + t);
+                d += 2 * Math.log(y[i] > 0 ? 1 + 1 / t : 1 + t);
+            }
+            return d;
+        }
+
+        /** The canonical link: mu'(eta) = V(mu) = mu (1 - mu), so the weight is mu (1 - mu) and the score y - mu. */
+        @Override
+        void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
+            for (int i = 0; i < n; i++) {
+                double e = eta[i];
+                double m = mu[i];
+                double v = m * (1 - m);
+                if (e > THRESHOLD || e < -THRESHOLD) {
+                    weight[i] = EPS * EPS / v;
+                    score[i] = (y[i] - m) * EPS / v;
+                } else {
+                    weight[i] = v;
+                    score[i] = y[i] - m;
+                }
+            }
+        }
+
         @Override
         double meanSlope(double eta) {
             if (eta > THRESHOLD || eta < -THRESHOLD) {
@@ -105,11 +159,6 @@ abstract class GlmFamily {
         @Override
         double unitDeviance(double y, double mu) {
             return binomialDeviance(y, mu);
-        }
-
-        @Override
-        double logLikelihood(double y, double mu) {
-            return -binomialDeviance(y, mu) / 2;
         }
 
         @Override
@@ -161,11 +210,6 @@ abstract class GlmFamily {
         }
 
         @Override
-        double logLikelihood(double y, double mu) {
-            return -binomialDeviance(y, mu) / 2;
-        }
-
-        @Override
         double link(double mu) {
             return new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1)
                     .inverseCumulativeProbability(mu);
@@ -188,6 +232,16 @@ abstract class GlmFamily {
             return Math.max(Math.exp(eta), EPS);
         }
 
+        /** The canonical link: mu'(eta) = V(mu) = mu, so the weight is mu and the score y - mu. */
+        @Override
+        void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
+            for (int i = 0; i < n; i++) {
+                double m = mu[i];
+                weight[i] = m;
+                score[i] = y[i] - m;
+            }
+        }
+
         @Override
         double meanSlope(double eta) {
             return Math.max(Math.exp(eta), EPS);
@@ -207,12 +261,6 @@ abstract class GlmFamily {
         double unitDeviance(double y, double mu) {
             // y log(y / mu) is 0 at y = 0
             return 2 * ((y > 0 ? y * Math.log(y / mu) : 0) - (y - mu));
-        }
-
-        @Override
-        double logLikelihood(double y, double mu) {
-            // quasi-likelihood for amounts that are not whole numbers: the same formula with Gamma(y + 1)
-            return (y > 0 ? y * Math.log(mu) : 0) - mu - Gamma.logGamma(y + 1);
         }
 
         @Override

@@ -17,17 +17,22 @@ import org.forkscape.plan.ModelFamily;
  * concurrent use.
  */
 final class GlmStarts {
-    /** A fit's identity: the model, the outcome, the columns in order (key last) and the usable rows. */
-    record Key(ModelFamily family, int outcome, long variables, int[] columns) {
+    /**
+     * A fit's identity: the model, the outcome, the usable rows (the variant's one statistics object per
+     * set of usable rows, compared by identity) and the columns in order (key last). The parent of a
+     * specification is then itself a specification whenever dropping a control leaves the rows as they are.
+     */
+    record Key(ModelFamily family, int outcome, Moments rows, int[] columns) {
         @Override
         public boolean equals(Object o) {
-            return o instanceof Key k && k.family == family && k.outcome == outcome && k.variables == variables
+            return o instanceof Key k && k.family == family && k.outcome == outcome && k.rows == rows
                     && Arrays.equals(k.columns, columns);
         }
 
         @Override
         public int hashCode() {
-            return (family.hashCode() * 31 + outcome) * 31 + Long.hashCode(variables) * 31 + Arrays.hashCode(columns);
+            return ((family.hashCode() * 31 + outcome) * 31 + System.identityHashCode(rows)) * 31
+                    + Arrays.hashCode(columns);
         }
 
         /** The parent: without the last control column; null for a fit with no controls. */
@@ -37,7 +42,7 @@ final class GlmStarts {
             }
             int[] c = Arrays.copyOf(columns, columns.length - 1);
             c[c.length - 1] = columns[columns.length - 1];
-            return new Key(family, outcome, variables, c);
+            return new Key(family, outcome, rows, c);
         }
     }
 

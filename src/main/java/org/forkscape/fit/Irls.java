@@ -74,7 +74,9 @@ final class Irls {
     private double[] trialAlpha = new double[0];
     private double[] trialBeta = new double[0];
     private double[] trialEta = new double[0];
-    private double[] centred = new double[0];
+    private double[] trialMu = new double[0];
+    /** Rows per block of the cross-product pass. */
+    private static final int BLOCK = 4;
 
     /**
      * Fits {@code rows} (kept by reference until the next call).
@@ -98,7 +100,7 @@ final class Irls {
         }
         Arrays.fill(kept, 0, p, true);
         linearPredictor(alpha, beta, eta);
-        deviance = deviance(eta);
+        deviance = family.deviance(rows.y, eta, mu, n);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= MAX_ITERATIONS; iterations++) {
@@ -127,7 +129,7 @@ final class Irls {
                     trialBeta[j] = kept[j] ? beta[j] + t * step[j] : 0;
                 }
                 linearPredictor(trialAlpha, trialBeta, trialEta);
-                trial = deviance(trialEta);
+                trial = family.deviance(rows.y, trialEta, trialMu, n);
                 if (Double.isFinite(trial) && trial <= before * (1 + 1e-12) + 1e-300) {
                     break;
                 }
@@ -138,7 +140,12 @@ final class Irls {
             }
             System.arraycopy(trialAlpha, 0, alpha, 0, levels);
             System.arraycopy(trialBeta, 0, beta, 0, p);
-            System.arraycopy(trialEta, 0, eta, 0, n);
+            double[] swap = eta;
+            eta = trialEta;
+            trialEta = swap;
+            swap = mu;
+            mu = trialMu;
+            trialMu = swap;
             deviance = trial;
             double enough = family == GlmFamily.PROBIT ? SCORING_DECREMENT : CANONICAL_DECREMENT;
             if (Math.abs(trial - before) / (Math.abs(trial) + 0.1) < TOLERANCE && decrement < enough) {
@@ -151,7 +158,6 @@ final class Irls {
         }
         boundaryRows = 0;
         for (int i = 0; i < n; i++) {
-            mu[i] = family.mean(eta[i]);
             if (family.atBoundary(mu[i]) && (family != GlmFamily.POISSON || rows.y[i] == 0)) {
                 boundaryRows++;
             }
@@ -197,19 +203,14 @@ final class Irls {
         }
     }
 
-    private double deviance(double[] e) {
-        double d = 0;
-        double[] y = rows.y;
-        for (int i = 0; i < rows.n; i++) {
-            d += family.unitDeviance(y[i], family.mean(e[i]));
-        }
-        return d;
-    }
-
     /**
-     * The weights, the score and the within cross-products at the current linear predictor: first the
-     * level sums (weights, weighted column means, score), then the cross-products of the columns around
-     * those weighted means (two passes, so that no sum is taken of values far from their mean).
+     * The weights, the score and the within cross-products at the current linear predictor and means, in
+     * one pass: the weighted sums of each level (weight, score, columns), the weighted cross-products and
+     * the columns' score, from which the levels' parts are then removed, S = sum w x x' - sum_l s_l m_l m_l'
+     * and r = sum x u - sum_l m_l U_l (m_l the level's weighted column means). The rows are in within
+     * coordinates already (each column's mean over its level's rows is 0), so the weighted means are of
+     * the order of the columns' spread and the subtraction cancels little. Rows go four at a time, so that
+     * each cross-product entry is loaded and stored once per four rows.
      *
      * @param withScore whether to sum the score as well (not needed for the information at the estimate)
      */
@@ -219,54 +220,99 @@ final class Irls {
         int levels = rows.levels;
         double[] x = rows.x;
         int[] level = rows.level;
-        double[] y = rows.y;
         Arrays.fill(levelWeight, 0, levels, 0);
         Arrays.fill(levelMean, 0, levels * p, 0);
         Arrays.fill(levelScore, 0, levels, 0);
-        for (int i = 0, at = 0; i < n; i++, at += p) {
-            double m = family.mean(eta[i]);
-            double slope = family.meanSlope(eta[i]);
-            double v = family.variance(m);
-            double w = slope * slope / v;
-            mu[i] = m;
-            weight[i] = w;
-            score[i] = (y[i] - m) * slope / v;
-            int l = level[i];
-            levelWeight[l] += w;
-            levelScore[l] += score[i];
-            int lo = l * p;
+        Arrays.fill(gram, 0, p * p, 0);
+        Arrays.fill(rhs, 0, p, 0);
+        family.weightsAndScores(rows.y, eta, mu, weight, score, n);
+        boolean oneLevel = levels == 1;
+        int blocks = n - n % BLOCK;
+        for (int i = 0; i < blocks; i += BLOCK) {
+            int b0 = i * p;
+            int b1 = b0 + p;
+            int b2 = b1 + p;
+            int b3 = b2 + p;
+            double w0 = weight[i];
+            double w1 = weight[i + 1];
+            double w2 = weight[i + 2];
+            double w3 = weight[i + 3];
+            double u0 = score[i];
+            double u1 = score[i + 1];
+            double u2 = score[i + 2];
+            double u3 = score[i + 3];
+            if (oneLevel) {
+                levelWeight[0] += w0 + w1 + w2 + w3;
+                levelScore[0] += u0 + u1 + u2 + u3;
+            } else {
+                for (int r = 0; r < BLOCK; r++) {
+                    addToLevel(level[i + r], weight[i + r], score[i + r], x, (i + r) * p, p);
+                }
+            }
             for (int j = 0; j < p; j++) {
-                levelMean[lo + j] += w * x[at + j];
+                double x0 = x[b0 + j];
+                double x1 = x[b1 + j];
+                double x2 = x[b2 + j];
+                double x3 = x[b3 + j];
+                double a0 = w0 * x0;
+                double a1 = w1 * x1;
+                double a2 = w2 * x2;
+                double a3 = w3 * x3;
+                if (oneLevel) {
+                    levelMean[j] += a0 + a1 + a2 + a3;
+                }
+                if (withScore) {
+                    rhs[j] += x0 * u0 + x1 * u1 + x2 * u2 + x3 * u3;
+                }
+                int go = j * p;
+                for (int k = 0; k <= j; k++) {
+                    gram[go + k] += a0 * x[b0 + k] + a1 * x[b1 + k] + a2 * x[b2 + k] + a3 * x[b3 + k];
+                }
+            }
+        }
+        for (int i = blocks; i < n; i++) {
+            int at = i * p;
+            double w = weight[i];
+            double u = score[i];
+            addToLevel(level[i], w, u, x, at, p);
+            for (int j = 0; j < p; j++) {
+                double a = w * x[at + j];
+                if (withScore) {
+                    rhs[j] += x[at + j] * u;
+                }
+                int go = j * p;
+                for (int k = 0; k <= j; k++) {
+                    gram[go + k] += a * x[at + k];
+                }
             }
         }
         for (int l = 0; l < levels; l++) {
             double s = levelWeight[l];
+            int lo = l * p;
             for (int j = 0; j < p; j++) {
-                levelMean[l * p + j] /= s;
+                levelMean[lo + j] /= s;
             }
-        }
-        Arrays.fill(gram, 0, p * p, 0);
-        Arrays.fill(rhs, 0, p, 0);
-        double[] c = centred;
-        for (int i = 0, at = 0; i < n; i++, at += p) {
-            int lo = level[i] * p;
-            double w = weight[i];
-            double u = score[i];
+            double u = levelScore[l];
             for (int j = 0; j < p; j++) {
-                c[j] = x[at + j] - levelMean[lo + j];
-            }
-            if (withScore) {
-                for (int j = 0; j < p; j++) {
-                    rhs[j] += c[j] * u;
+                double m = levelMean[lo + j];
+                if (withScore) {
+                    rhs[j] -= m * u;
                 }
-            }
-            for (int j = 0; j < p; j++) {
-                double wc = w * c[j];
+                double sm = s * m;
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {
-                    gram[go + k] += wc * c[k];
+                    gram[go + k] -= sm * levelMean[lo + k];
                 }
             }
+        }
+    }
+
+    private void addToLevel(int l, double w, double u, double[] x, int at, int p) {
+        levelWeight[l] += w;
+        levelScore[l] += u;
+        int lo = l * p;
+        for (int j = 0; j < p; j++) {
+            levelMean[lo + j] += w * x[at + j];
         }
     }
 
@@ -399,6 +445,7 @@ final class Irls {
             weight = new double[n];
             score = new double[n];
             trialEta = new double[n];
+            trialMu = new double[n];
         }
         if (beta.length < p) {
             beta = new double[p];
@@ -406,7 +453,6 @@ final class Irls {
             step = new double[p];
             rhs = new double[p];
             trialBeta = new double[p];
-            centred = new double[p];
         }
         if (gram.length < p * p) {
             gram = new double[p * p];

@@ -7,36 +7,40 @@ import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.UsableRows;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.Json;
 import org.forkscape.run.ResultTable;
 
 /**
- * Groups the fitted specifications whose likelihoods can be compared, the same outcome alternative on
- * exactly the same rows (the same sample and fixed-effect alternatives and the same usable missing-value
- * groups), and computes {@link GroupWeights} within each: Sala-i-Martin's CDF(0) and the BIC weights,
+ * Groups the fitted specifications whose likelihoods can be compared and whose key coefficients share one
+ * scale: the same outcome alternative, key-predictor alternative and model on exactly the same rows (the
+ * same sample and fixed-effect alternatives and the same usable missing-value groups), and computes
+ * {@link GroupWeights} within each: Sala-i-Martin's CDF(0) and the BIC weights,
  * estimate and posterior inclusion probabilities. Likelihoods of different outcomes or different rows
  * are not on one scale, so nothing is weighed across groups.
  */
 public final class ComparableGroups {
     /** Said in the output beside the groups. */
     public static final String NOTE = "Likelihoods and BIC compare models of the same outcome on the same rows "
-            + "only, so weights are computed within groups of specifications that share the outcome alternative "
-            + "and exactly the same rows (sample and fixed-effect alternatives and missing values); they say "
-            + "nothing across groups. Specifications that differ only in their standard errors are the same "
+            + "only, and an average of coefficients needs one coefficient on one scale, so weights are computed "
+            + "within groups of specifications that share the outcome alternative, the key-predictor alternative, "
+            + "the model and exactly the same rows (sample and fixed-effect alternatives and missing values); "
+            + "they say nothing across groups. Specifications that differ only in their standard errors are the same "
             + "model and share its weight equally.";
 
     private ComparableGroups() {
     }
 
     /** One group: its labels, its members (indices into the {@link RunVariants}) and its weights. */
-    public record Group(String outcome, Map<String, String> rows, int nObs, int[] members, GroupWeights weights,
-            Map<String, Double> inclusion, long bestSpec, double bestWeight) {
+    public record Group(String outcome, String predictor, String model, Map<String, String> rows, int nObs,
+            int[] members, GroupWeights weights, Map<String, Double> inclusion, long bestSpec, double bestWeight) {
     }
 
-    private record Key(int outcomeColumn, int variant, BitSet usable) {
+    private record Key(int outcomeColumn, int keyColumn, ModelFamily family, int variant, BitSet usable) {
     }
 
     public static List<Group> of(RunVariants variants) {
@@ -44,7 +48,9 @@ public final class ComparableGroups {
         for (int i = 0; i < variants.size(); i++) {
             int v = variants.variantOf(i);
             BitSet usable = UsableRows.groups(variants.variant(v), variants.model(i).variableMask());
-            byKey.computeIfAbsent(new Key(variants.model(i).outcomeColumn(), v, usable), k -> new ArrayList<>()).add(i);
+            SpecificationModel model = variants.model(i);
+            byKey.computeIfAbsent(new Key(model.outcomeColumn(), model.keyColumn(), model.family(), v, usable),
+                    k -> new ArrayList<>()).add(i);
         }
         ResultTable r = variants.run().results();
         SpecificationSpace space = variants.run().models().space();
@@ -55,7 +61,7 @@ public final class ComparableGroups {
             int m = members.size();
             double[] b = new double[m];
             double[] s = new double[m];
-            double[] rss = new double[m];
+            double[] logL = new double[m];
             int[] n = new int[m];
             int[] k = new int[m];
             List<Set<String>> controls = new ArrayList<>();
@@ -63,21 +69,28 @@ public final class ComparableGroups {
                 int slot = variants.slot(members.get(j));
                 b[j] = r.estimate(slot);
                 s[j] = r.stdError(slot);
-                rss[j] = r.rss(slot);
                 n[j] = r.nObs(slot);
+                logL[j] = r.family(slot).leastSquares() ? GroupWeights.logLikelihood(r.rss(slot), n[j])
+                        : -r.deviance(slot) / 2;
                 k[j] = r.nParams(slot);
                 space.decode(r.specIndex(slot), choices);
                 controls.add(controlsOf(decisions, choices));
             }
-            GroupWeights w = GroupWeights.of(b, s, rss, n, k);
+            GroupWeights w = GroupWeights.ofLikelihoods(b, s, logL, n, k);
             int first = variants.slot(members.get(0));
             space.decode(r.specIndex(first), choices);
             String outcome = "";
+            String predictor = "";
+            String model = ModelFamily.OLS.spelling();
             Map<String, String> rows = new LinkedHashMap<>();
             for (int d = 0; d < decisions.size(); d++) {
                 Decision dec = decisions.get(d);
                 if (dec instanceof Decision.Outcome) {
                     outcome = dec.label(choices[d]);
+                } else if (dec instanceof Decision.Predictor) {
+                    predictor = dec.label(choices[d]);
+                } else if (dec instanceof Decision.Model) {
+                    model = dec.label(choices[d]);
                 } else if (dec instanceof Decision.Sample || dec instanceof Decision.Absorb) {
                     rows.put(dec.name(), dec.label(choices[d]));
                 }
@@ -88,7 +101,7 @@ public final class ComparableGroups {
                     best = j;
                 }
             }
-            groups.add(new Group(outcome, rows, n[0], members.stream().mapToInt(Integer::intValue).toArray(), w,
+            groups.add(new Group(outcome, predictor, model, rows, n[0], members.stream().mapToInt(Integer::intValue).toArray(), w,
                     inclusion(controls, w.bicWeights()), r.specIndex(variants.slot(members.get(best))) + 1,
                     w.bicWeights()[best]));
         }
@@ -138,6 +151,8 @@ public final class ComparableGroups {
         for (Group g : groups) {
             Map<String, Object> e = new LinkedHashMap<>();
             e.put("outcome", g.outcome());
+            e.put("predictor", g.predictor());
+            e.put("model", g.model());
             e.put("rows", g.rows());
             e.put("n_obs", g.nObs());
             e.put("specifications", g.members().length);

@@ -47,12 +47,23 @@ public record GroupWeights(double[] likelihoodWeights, double[] bicWeights, doub
      * @param k        coefficients K_j
      */
     public static GroupWeights of(double[] estimate, double[] stdError, double[] rss, int[] n, int[] k) {
+        double[] logL = new double[estimate.length];
+        for (int j = 0; j < logL.length; j++) {
+            logL[j] = logLikelihood(rss[j], n[j]);
+        }
+        return ofLikelihoods(estimate, stdError, logL, n, k);
+    }
+
+    /**
+     * The same from the members' maximised log-likelihoods (for a generalized linear model -deviance / 2,
+     * which differs from the log-likelihood by a constant of the outcome and rows alone, the same for every
+     * member of a group, so the weights are those of the log-likelihoods).
+     */
+    public static GroupWeights ofLikelihoods(double[] estimate, double[] stdError, double[] logL, int[] n, int[] k) {
         int m = estimate.length;
-        double[] logL = new double[m];
         double[] minusHalfBic = new double[m];
         for (int j = 0; j < m; j++) {
-            logL[j] = logLikelihood(rss[j], n[j]);
-            minusHalfBic[j] = -bic(rss[j], n[j], k[j]) / 2;
+            minusHalfBic[j] = logL[j] - k[j] * Math.log(n[j]) / 2;
         }
         double[] lw = normalizedExp(logL);
         double[] bw = normalizedExp(minusHalfBic);

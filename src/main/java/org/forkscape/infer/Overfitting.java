@@ -10,7 +10,9 @@ import org.forkscape.run.ResultTable;
  * on average, (K - 1) / (N - 1) for K - 1 regressors besides the intercept on N rows (common practice, no
  * source: the expectation of R-squared under the null of no relation), its adjusted R-squared and overall
  * F-test p-value, and its rows per estimated coefficient, flagged below {@link #MIN_ROWS_PER_COEFFICIENT}
- * (a rule of thumb of the trade; common practice, no source).
+ * (a rule of thumb of the trade; common practice, no source). For a generalized linear model R-squared is
+ * McFadden's, whose expectation under noise has no such closed form: its yardstick is undefined (NaN) and
+ * it is never counted as no better than noise; its test is the likelihood-ratio test.
  *
  * @param r2                 R-squared
  * @param r2NullExpectation  (K - 1) / (N - 1)
@@ -26,8 +28,8 @@ public record Overfitting(double r2, double r2NullExpectation, double adjustedR2
     public static Overfitting of(ResultTable r, int slot) {
         int n = r.nObs(slot);
         int k = r.nParams(slot);
-        return new Overfitting(r.r2(slot), (k - 1.0) / (n - 1.0), r.adjustedR2(slot), r.modelPValue(slot),
-                (double) n / k);
+        double noise = r.family(slot).leastSquares() ? (k - 1.0) / (n - 1.0) : Double.NaN;
+        return new Overfitting(r.r2(slot), noise, r.adjustedR2(slot), r.modelPValue(slot), (double) n / k);
     }
 
     public boolean fewRows() {
@@ -36,7 +38,7 @@ public record Overfitting(double r2, double r2NullExpectation, double adjustedR2
 
     /** Whether R-squared is no larger than what noise regressors give on average. */
     public boolean noBetterThanNoise() {
-        return !(r2 > r2NullExpectation);
+        return !Double.isNaN(r2NullExpectation) && !(r2 > r2NullExpectation);
     }
 
     /** The summary.json section {@code overfitting}: counts over the fitted specifications among {@code slots}. */

@@ -174,9 +174,9 @@ public final class MultiverseRunner {
     }
 
     /**
-     * Tells the variant what it is about to fit (counts of robust-error specifications and their mean
-     * size, from an even sample of at most 512 of its specifications), so that it builds the row-free
-     * sandwich structures only where they pay.
+     * Tells the variant what it is about to fit (counts of robust-error least-squares specifications and
+     * their mean size, from an even sample of at most 512 of its specifications), so that it builds the
+     * row-free sandwich structures only where they pay.
      */
     private static void describeWork(DataVariant variant, int[] slots, long[] indices, SpecificationSpace space,
             SpecificationModels models, ExecutorService pool) {
@@ -190,6 +190,10 @@ public final class MultiverseRunner {
             space.decode(indices[slots[i]], c);
             org.forkscape.fit.SpecificationModel m = models.model(c);
             seen++;
+            if (!m.family().leastSquares()) {
+                // a generalized linear model reads its rows; the row-free sandwich structures are least squares'
+                continue;
+            }
             columns += m.controlColumns().length + 1;
             switch (m.errors().kind()) {
                 case HC0, HC1 -> hc++;

@@ -5,37 +5,42 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 
 /**
- * Headline numbers of a set of fitted specifications on one scale: how many, the median with its
- * quartiles (type 7 of Hyndman &amp; Fan 1996, "Sample quantiles in statistical packages", The American
- * Statistician 50(4), R's default), and the shares positive and significant in each sign at level alpha.
- * Undefined numbers are NaN.
+ * Headline numbers of a set of fitted specifications on one scale: how many have a value on it, how many
+ * are left out because the scale is not defined for their model ({@link Scale#defined}), the median with
+ * its quartiles (type 7 of Hyndman &amp; Fan 1996, "Sample quantiles in statistical packages", The American
+ * Statistician 50(4), R's default), and the shares positive and significant in each sign at level alpha,
+ * all over those with a value. Undefined numbers are NaN.
  */
-public record ScaleSummary(int count, double median, double lowerQuartile, double upperQuartile,
+public record ScaleSummary(int count, int leftOut, double median, double lowerQuartile, double upperQuartile,
         double sharePositive, double shareSignificantPositive, double shareSignificantNegative) {
 
     /** @param slots fitted slots of {@code r} */
     public static ScaleSummary of(ResultTable r, int[] slots, Scale scale, double alpha) {
-        int n = slots.length;
-        double[] v = new double[n];
+        double[] v = new double[slots.length];
+        int n = 0;
         int positive = 0;
         int sigPositive = 0;
         int sigNegative = 0;
-        for (int i = 0; i < n; i++) {
-            int s = slots[i];
-            v[i] = scale.value(r, s);
+        for (int s : slots) {
+            double value = scale.value(r, s);
+            if (Double.isNaN(value)) {
+                continue;
+            }
+            v[n++] = value;
             boolean significant = r.pValue(s) < alpha;
-            if (v[i] > 0) {
+            if (value > 0) {
                 positive++;
                 if (significant) {
                     sigPositive++;
                 }
-            } else if (v[i] < 0 && significant) {
+            } else if (value < 0 && significant) {
                 sigNegative++;
             }
         }
+        v = Arrays.copyOf(v, n);
         Arrays.sort(v);
         double f = n;
-        return new ScaleSummary(n, quantile(v, 0.5), quantile(v, 0.25), quantile(v, 0.75),
+        return new ScaleSummary(n, slots.length - n, quantile(v, 0.5), quantile(v, 0.25), quantile(v, 0.75),
                 n == 0 ? Double.NaN : positive / f, n == 0 ? Double.NaN : sigPositive / f,
                 n == 0 ? Double.NaN : sigNegative / f);
     }
@@ -53,6 +58,7 @@ public record ScaleSummary(int count, double median, double lowerQuartile, doubl
     public Map<String, Object> toJson() {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("specifications", count);
+        m.put("left_out", leftOut);
         m.put("median", Json.number(median));
         m.put("lower_quartile", Json.number(lowerQuartile));
         m.put("upper_quartile", Json.number(upperQuartile));

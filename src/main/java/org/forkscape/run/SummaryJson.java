@@ -17,9 +17,13 @@ public final class SummaryJson {
 
     /** Said under {@code scales}. */
     public static final String SCALES_NOTE = "Estimates as fitted are in units of their outcome per unit of their "
-            + "key predictor, so they are summarised per comparable group (one outcome alternative with one "
-            + "key-predictor alternative); across groups only the unit-free scales compare. Shares positive and "
-            + "significant are the same on every scale.";
+            + "key predictor, on their model's link scale, so they are summarised per comparable group (one outcome "
+            + "alternative with one key-predictor alternative and, when the plan has a model decision, one model); "
+            + "average marginal effects are in units of the outcome itself whatever the model, so they are "
+            + "summarised per outcome and key-predictor alternative; across groups only the unit-free scales "
+            + "compare. The standardized coefficient and the partial correlation are defined for least squares "
+            + "only: generalized linear models are left out of them and counted under left_out. Shares positive "
+            + "and significant are the same on every scale.";
 
     public static Map<String, Object> of(RunResult run, Map<String, Object> sections, Provenance provenance) {
         UnitGroups units = UnitGroups.of(run);
@@ -63,32 +67,24 @@ public final class SummaryJson {
     static final List<String> POOLED = List.of("median_estimate", "null", "best", "interval_bounds", "influence",
             "influence_overall");
 
-    /** The section {@code scales}: the headline numbers per comparable group and on each unit-free scale. */
+    /**
+     * The section {@code scales}: the headline numbers per comparable group as fitted, per group of the
+     * average marginal effects, and on each unit-free scale.
+     */
     static Map<String, Object> scales(RunResult run, UnitGroups units) {
         ResultTable r = run.results();
         double alpha = run.plan().alpha();
-        List<List<Integer>> byGroup = new ArrayList<>();
-        units.groups().forEach(g -> byGroup.add(new ArrayList<>()));
         List<Integer> all = new ArrayList<>();
         for (int slot = 0; slot < r.size(); slot++) {
             if (r.fitted(slot)) {
-                byGroup.get(units.groupOf(slot)).add(slot);
                 all.add(slot);
             }
         }
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("note", SCALES_NOTE);
-        List<Map<String, Object>> groups = new ArrayList<>();
-        for (UnitGroups.Group g : units.groups()) {
-            Map<String, Object> e = new LinkedHashMap<>();
-            e.put("group", g.id());
-            e.put("outcome", g.outcome());
-            e.put("predictor", g.predictor());
-            e.put("unit", units.unit(Scale.AS_FITTED, g));
-            e.putAll(ScaleSummary.of(r, slots(byGroup.get(g.id())), Scale.AS_FITTED, alpha).toJson());
-            groups.add(e);
-        }
-        m.put("groups", groups);
+        m.put("groups", groups(r, units, Scale.AS_FITTED, all, alpha));
+        m.put("average_marginal_effect", groups(r, UnitGroups.of(run, Scale.AVERAGE_MARGINAL_EFFECT),
+                Scale.AVERAGE_MARGINAL_EFFECT, all, alpha));
         int[] fitted = slots(all);
         for (Scale scale : List.of(Scale.STANDARDIZED, Scale.PARTIAL_CORRELATION, Scale.T_STATISTIC)) {
             Map<String, Object> e = new LinkedHashMap<>();
@@ -97,6 +93,30 @@ public final class SummaryJson {
             m.put(scale.name().toLowerCase(Locale.ROOT), e);
         }
         return m;
+    }
+
+    /** One entry per group of a scale with units, in group order, each with its numbers on the scale. */
+    private static List<Map<String, Object>> groups(ResultTable r, UnitGroups units, Scale scale, List<Integer> fitted,
+            double alpha) {
+        List<List<Integer>> byGroup = new ArrayList<>();
+        units.groups().forEach(g -> byGroup.add(new ArrayList<>()));
+        for (int slot : fitted) {
+            byGroup.get(units.groupOf(slot)).add(slot);
+        }
+        List<Map<String, Object>> out = new ArrayList<>();
+        for (UnitGroups.Group g : units.groups()) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("group", g.id());
+            e.put("outcome", g.outcome());
+            e.put("predictor", g.predictor());
+            if (g.model() != null) {
+                e.put("model", g.model().spelling());
+            }
+            e.put("unit", units.unit(scale, g));
+            e.putAll(ScaleSummary.of(r, slots(byGroup.get(g.id())), scale, alpha).toJson());
+            out.add(e);
+        }
+        return out;
     }
 
     private static int[] slots(List<Integer> list) {

@@ -103,7 +103,8 @@ class CommandLineTest {
         assertEquals("", o.err());
         assertTrue(o.out().startsWith("fitted 8 of 8 specifications in "), o.out());
         assertEquals(List.of("spec", "outcome", "key", "controls", "errors", "estimate", "std_error", "statistic", "df",
-                "p_value", "ci_low", "ci_high", "std_estimate", "n_obs", "n_params", "r2", "adj_r2", "model_p_value", "status"),
+                "p_value", "ci_low", "ci_high", "std_estimate", "effect", "effect_std_error", "n_obs", "n_params", "r2", "adj_r2",
+                "model_p_value", "deviance", "status"),
                 Arrays.asList(Files.readAllLines(out.resolve("specifications.csv")).get(0).split(",")));
         List<CSVRecord> rows = records(out.resolve("specifications.csv"));
         assertEquals(8, rows.size());

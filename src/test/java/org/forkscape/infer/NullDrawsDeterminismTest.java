@@ -2,8 +2,14 @@ package org.forkscape.infer;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import org.forkscape.data.Table;
+import org.forkscape.plan.ModelFamily;
+import org.forkscape.plan.Plan;
+import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
 import org.junit.jupiter.api.Test;
 
@@ -41,6 +47,39 @@ class NullDrawsDeterminismTest {
         NullDrawResult one = Scenarios.nullDraws(run, 40, NullMethod.BOOTSTRAP, 99, "g", 1);
         NullDrawResult two = Scenarios.nullDraws(run, 40, NullMethod.BOOTSTRAP, 99, "g", 2);
         assertSameDraws(one, two);
+    }
+
+    /** The generalized linear models: their fits, warm-started from the plan's tree, and their refits in draws. */
+    @Test
+    void generalizedLinearFitsAndDrawsDoNotDependOnTheThreadCount() {
+        String plan = PLAN.replace("""
+                {"label": "score", "column": "y"}, {"label": "score (standardized)", "column": "y2"}]},""", """
+                {"label": "passed", "column": "pass"}]},""").replace("""
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC3", "cluster:g"]}""", """
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC3", "cluster:g"]},
+               {"name": "model", "kind": "model", "alternatives": ["logit", "probit"]}""");
+        Table table = Scenarios.table(120, 0.4, 11, 12);
+        Plan parsed = Scenarios.plan(plan);
+        ResultTable one = new MultiverseRunner(1).run(parsed, table, RunProgress.SILENT, null).results();
+        RunResult run = new MultiverseRunner(3).run(parsed, table, RunProgress.SILENT, null);
+        ResultTable three = run.results();
+        assertEquals(96, three.size(), "2 codings x 8 control sets x 3 error types x 2 models");
+        for (int s = 0; s < one.size(); s++) {
+            assertEquals(ModelFamily.values()[1 + s % 2], three.family(s));
+            assertEquals(one.status(s), three.status(s));
+            assertTrue(three.fitted(s), three.status(s));
+            assertEquals(Double.doubleToRawLongBits(one.estimate(s)), Double.doubleToRawLongBits(three.estimate(s)));
+            assertEquals(Double.doubleToRawLongBits(one.stdError(s)), Double.doubleToRawLongBits(three.stdError(s)));
+            assertEquals(Double.doubleToRawLongBits(one.effect(s)), Double.doubleToRawLongBits(three.effect(s)));
+            assertEquals(Double.doubleToRawLongBits(one.effectStdError(s)),
+                    Double.doubleToRawLongBits(three.effectStdError(s)));
+        }
+        for (NullMethod method : NullMethod.values()) {
+            NullDrawResult a = Scenarios.nullDraws(run, 12, method, 3, null, 1);
+            NullDrawResult b = Scenarios.nullDraws(run, 12, method, 3, null, 2);
+            assertSameDraws(a, b);
+            assertEquals(0, a.failedFits(), "every refit converges on these data");
+        }
     }
 
     @Test

@@ -17,7 +17,7 @@ import org.forkscape.run.RunResult;
 /**
  * Simulated data sets for the inference tests (generated from a seed, not a demo scenario): an outcome
  * with two codings, a key predictor with two codings, three optional controls, a categorical cluster
- * column, and a planted effect of chosen size.
+ * column, and a planted effect of chosen size; {@link #table} also has a 0/1 outcome, whether y > 0.
  */
 final class Scenarios {
     /** Two outcomes x two predictor codings x all subsets of three controls = 32 specifications. */
@@ -64,9 +64,14 @@ final class Scenarios {
         for (int k = 0; k < groups; k++) {
             levels.add(String.format("g%03d", k));
         }
+        // a binary outcome for the generalized linear models, from the draws already made
+        double[] pass = new double[n];
+        for (int i = 0; i < n; i++) {
+            pass[i] = y[i] > 0 ? 1 : 0;
+        }
         List<Column> cols = List.of(new NumericColumn("y", y), new NumericColumn("y2", y2), new NumericColumn("x", x),
                 new NumericColumn("a", a), new NumericColumn("b", b), new NumericColumn("c", c),
-                new CategoricalColumn("g", g, levels));
+                new CategoricalColumn("g", g, levels), new NumericColumn("pass", pass));
         return new Table("simulated.csv", cols);
     }
 

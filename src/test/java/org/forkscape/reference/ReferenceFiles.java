@@ -69,8 +69,13 @@ final class ReferenceFiles {
 
     /** The R and sandwich versions that produced the committed values, as one line for messages. */
     static String versions() {
+        return versions("versions.txt");
+    }
+
+    /** A committed version record (one tool a line), as one line for messages. */
+    static String versions(String name) {
         try {
-            return String.join("; ", Files.readAllLines(path("versions.txt"), StandardCharsets.UTF_8));
+            return String.join("; ", Files.readAllLines(path(name), StandardCharsets.UTF_8));
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }

@@ -2,6 +2,7 @@ package org.forkscape.run;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
 import java.time.Instant;
@@ -13,6 +14,7 @@ import org.apache.commons.math3.stat.descriptive.rank.Percentile;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.junit.jupiter.api.Test;
@@ -20,7 +22,9 @@ import org.junit.jupiter.api.Test;
 /**
  * summary.json's scales: today's headline keys unchanged and in order, the mark that the overall median
  * mixes units, and the numbers per comparable group and on each unit-free scale against Commons Math's
- * {@link Percentile} (type 7, as R's default) over the specifications.csv columns of the same run.
+ * {@link Percentile} (type 7, as R's default) over the specifications.csv columns of the same run; with
+ * a model decision, the least-squares and logit coefficients kept apart and their average marginal
+ * effects summarised together, the scales defined for least squares only over its specifications.
  */
 class SummaryScalesTest {
     private static final String PLAN = """
@@ -37,6 +41,16 @@ class SummaryScalesTest {
             + "\"transform\": \"log\"}";
     private static final String SECOND_CODING = ", {\"label\": \"hours, standardized\", \"column\": \"hours\", "
             + "\"transform\": \"standardize\"}";
+
+    /** A 0/1 outcome fitted by least squares (a linear probability model) and by a logit. */
+    static final String GLM_PLAN = """
+            {"data": "unused.csv", "decisions": [
+              {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "passed", "column": "passed"}]},
+              {"name": "tutoring", "kind": "predictor", "alternatives": [{"label": "hours", "column": "hours"}]},
+              {"name": "controls", "kind": "controls", "optional": ["prior", "attendance"]},
+              {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1"]},
+              {"name": "model", "kind": "model", "alternatives": ["ols", "logit"]}
+            ]}""";
 
     private static final Provenance PROVENANCE = new Provenance("0", "a", "b", 7, "test", Instant.EPOCH, "17", 1);
 
@@ -99,6 +113,59 @@ class SummaryScalesTest {
         assertNull(((Map<?, ?>) summary.get("scales")).get("pooled_as_fitted"), "one group pools nothing");
     }
 
+    @Test
+    void modelsAreKeptApartAsFittedAndShareTheEffectScale() {
+        RunResult run = run(GLM_PLAN);
+        ResultTable r = run.results();
+        List<Double> effects = new ArrayList<>();
+        List<Double> leastSquaresStandardized = new ArrayList<>();
+        List<Double> leastSquaresPartial = new ArrayList<>();
+        int logit = 0;
+        for (int slot = 0; slot < r.size(); slot++) {
+            assertTrue(r.fitted(slot), r.status(slot));
+            effects.add(r.effect(slot));
+            if (r.family(slot) == ModelFamily.LOGIT) {
+                logit++;
+                assertTrue(Double.isNaN(Scale.PARTIAL_CORRELATION.value(r, slot)), "no partial correlation on the normal reference");
+                assertTrue(Double.isNaN(Scale.STANDARDIZED.value(r, slot)));
+            } else {
+                leastSquaresStandardized.add(r.standardizedEstimate(slot));
+                double t = r.statistic(slot);
+                leastSquaresPartial.add(t / Math.sqrt(t * t + r.df(slot)));
+            }
+        }
+        assertEquals(8, logit, "half the specifications took the logit route");
+        Map<String, Object> summary = SummaryJson.of(run, Map.of(), PROVENANCE);
+        assertEquals(true, summary.get("median_mixes_units"), "least-squares and logit coefficients pooled");
+        Map<?, ?> scales = (Map<?, ?>) summary.get("scales");
+        assertEquals(List.of("median_estimate"), scales.get("pooled_as_fitted"));
+        List<?> groups = (List<?>) scales.get("groups");
+        assertEquals(2, groups.size());
+        assertEquals(List.of("ols", "logit"), groups.stream().map(g -> ((Map<?, ?>) g).get("model")).toList());
+        assertEquals(List.of("passed per unit of tutoring (hours)", "log-odds of passed per unit of tutoring (hours)"),
+                groups.stream().map(g -> ((Map<?, ?>) g).get("unit")).toList());
+        for (Object g : groups) {
+            assertEquals(8, ((Map<?, ?>) g).get("specifications"));
+        }
+        List<?> effectGroups = (List<?>) scales.get("average_marginal_effect");
+        assertEquals(1, effectGroups.size(), "the effects of both models share one group");
+        Map<?, ?> effect = (Map<?, ?>) effectGroups.get(0);
+        assertNull(effect.get("model"));
+        assertEquals("change in the probability of passed per unit of tutoring (hours)", effect.get("unit"));
+        assertEquals(16, effect.get("specifications"));
+        checkQuartiles(effect, effects);
+        Map<?, ?> standardized = (Map<?, ?>) scales.get("standardized");
+        assertEquals(8, standardized.get("specifications"));
+        assertEquals(8, standardized.get("left_out"));
+        checkQuartiles(standardized, leastSquaresStandardized);
+        Map<?, ?> partial = (Map<?, ?>) scales.get("partial_correlation");
+        assertEquals(8, partial.get("left_out"));
+        checkQuartiles(partial, leastSquaresPartial);
+        Map<?, ?> t = (Map<?, ?>) scales.get("t_statistic");
+        assertEquals(16, t.get("specifications"));
+        assertEquals(0, t.get("left_out"));
+    }
+
     private static void checkQuartiles(Map<?, ?> section, List<Double> values) {
         double[] v = values.stream().mapToDouble(Double::doubleValue).toArray();
         Percentile type7 = new Percentile().withEstimationType(Percentile.EstimationType.R_7);
@@ -109,24 +176,29 @@ class SummaryScalesTest {
         assertEquals(positive / (double) values.size(), (Double) section.get("share_positive"), 1e-15);
     }
 
-    private static RunResult run(String planText) {
+    static RunResult run(String planText) {
         Random random = new Random(17);
+        // the 0/1 outcome from its own stream, so that the other columns stay as they were
+        Random passing = new Random(18);
         int n = 300;
         double[] hours = new double[n];
         double[] prior = new double[n];
         double[] attendance = new double[n];
         double[] score = new double[n];
         double[] fluency = new double[n];
+        double[] passed = new double[n];
         for (int i = 0; i < n; i++) {
             prior[i] = 50 + 10 * random.nextGaussian();
             attendance[i] = 90 + 5 * random.nextGaussian();
             hours[i] = Math.max(0, 20 - 0.3 * (prior[i] - 50) + 8 * random.nextGaussian());
             score[i] = 40 + 0.1 * hours[i] + 0.6 * prior[i] + 0.2 * attendance[i] + 6 * random.nextGaussian();
             fluency[i] = Math.exp(4 + 0.002 * hours[i] + 0.01 * prior[i] + 0.2 * random.nextGaussian());
+            double eta = -1.5 + 0.06 * hours[i] + 0.04 * (prior[i] - 50);
+            passed[i] = passing.nextDouble() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
         }
         List<Column> columns = List.of(new NumericColumn("hours", hours), new NumericColumn("prior", prior),
                 new NumericColumn("attendance", attendance), new NumericColumn("score", score),
-                new NumericColumn("fluency", fluency));
+                new NumericColumn("fluency", fluency), new NumericColumn("passed", passed));
         Plan plan = new PlanReader(false).read(planText, Path.of("."));
         return new MultiverseRunner(1).run(plan, new Table("invented", columns), RunProgress.SILENT, null);
     }

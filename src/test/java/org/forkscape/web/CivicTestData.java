@@ -6,18 +6,34 @@ import java.util.SplittableRandom;
 /**
  * A small invented civic data set for the explorer's tests (not a reference for any number: the tests
  * that check numbers compare the explorer with a direct computation on the same run). Districts hold
- * neighbourhood assemblies; the question is whether outreach hours raise turnout. Seeded, so every run of
- * the tests sees the same file.
+ * neighbourhood assemblies; the question is whether outreach hours raise turnout (and, in
+ * {@link #csvWithFollowUp}, whether an assembly goes on to schedule a follow-up meeting, a 0/1 outcome).
+ * Seeded, so every run of the tests sees the same file.
  */
 public final class CivicTestData {
     private CivicTestData() {
     }
 
     public static String csv(int rows, long seed) {
+        return csv(rows, seed, false);
+    }
+
+    /**
+     * The same rows with one more column, {@code follow_up}: 1 when the district's assembly scheduled a
+     * follow-up meeting, more often with more outreach hours (a logistic model). It is drawn from a stream of
+     * its own, so every other column is as {@link #csv} writes it.
+     */
+    public static String csvWithFollowUp(int rows, long seed) {
+        return csv(rows, seed, true);
+    }
+
+    private static String csv(int rows, long seed, boolean followUp) {
         SplittableRandom random = new SplittableRandom(seed);
+        SplittableRandom meetings = new SplittableRandom(seed + 1);
         String[] regions = {"north", "south", "east", "west"};
         StringBuilder b = new StringBuilder(
-                "district,region,urban,outreach_hours,mailers,median_age,density,income_index,rainfall,turnout,turnout_change\n");
+                "district,region,urban,outreach_hours,mailers,median_age,density,income_index,rainfall,turnout,turnout_change"
+                        + (followUp ? ",follow_up\n" : "\n"));
         for (int i = 0; i < rows; i++) {
             int district = random.nextInt(12);
             String region = regions[district % 4];
@@ -33,8 +49,13 @@ public final class CivicTestData {
                     + 6 * random.nextGaussian();
             double change = 0.15 * hours - 0.1 * rain + 4 * random.nextGaussian();
             String rainCell = random.nextDouble() < 0.05 ? "" : String.format(Locale.ROOT, "%.2f", rain);
-            b.append(String.format(Locale.ROOT, "d%02d,%s,%d,%.3f,%.0f,%.1f,%.1f,%.2f,%s,%.2f,%.2f%n", district + 1,
+            b.append(String.format(Locale.ROOT, "d%02d,%s,%d,%.3f,%.0f,%.1f,%.1f,%.2f,%s,%.2f,%.2f", district + 1,
                     region, urban, hours, mailers, age, density, income, rainCell, turnout, change));
+            if (followUp) {
+                double eta = -2 + 0.15 * hours + 0.03 * (age - 42);
+                b.append(meetings.nextDouble() < 1 / (1 + Math.exp(-eta)) ? ",1" : ",0");
+            }
+            b.append('\n');
         }
         return b.toString();
     }
@@ -42,6 +63,28 @@ public final class CivicTestData {
     /** A plan over {@link #csv} with every decision kind: 2 x 2 x 2^3 x 3 x 3 x 2 = 576 specifications. */
     public static String plan() {
         return plan(3);
+    }
+
+    /**
+     * A plan over {@link #csvWithFollowUp} with a model decision: the 0/1 follow-up outcome by least squares
+     * (a linear probability model) and by a logit, 2^2 x 2 x 2 = 16 specifications.
+     */
+    public static String modelPlan() {
+        return """
+                {
+                  "title": "Outreach and follow-up meetings",
+                  "data": "data.csv",
+                  "decisions": [
+                    {"name": "outcome", "kind": "outcome", "alternatives": [
+                      {"label": "follow-up", "column": "follow_up"}]},
+                    {"name": "outreach", "kind": "predictor", "alternatives": [
+                      {"label": "hours", "column": "outreach_hours"}]},
+                    {"name": "controls", "kind": "controls", "optional": ["median_age", "rainfall"]},
+                    {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1"]},
+                    {"name": "model", "kind": "model", "alternatives": ["ols", "logit"]}
+                  ]
+                }
+                """;
     }
 
     /** The same plan with {@code optionalControls} (up to 6) optional controls. */

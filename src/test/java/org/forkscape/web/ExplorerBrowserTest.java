@@ -40,7 +40,9 @@ import org.springframework.test.context.DynamicPropertySource;
  * The whole way through the tool in a real browser (headless Chromium): upload a CSV, build a plan in
  * the form (with a mistake shown beside its field, then corrected), run it, hover and click a
  * specification, untick an alternative, change the order, export the CSV and the figure; then a run large
- * enough to be drawn reduced. Screenshots go to target/screenshots.
+ * enough to be drawn reduced; then a plan with a model decision (least squares and logit of a 0/1
+ * outcome) built in the form and explored as fitted, one model at a time, and on the average-marginal-effect
+ * scale. Screenshots go to target/screenshots.
  */
 @SpringBootTest(webEnvironment = SpringBootTest.WebEnvironment.RANDOM_PORT)
 class ExplorerBrowserTest {
@@ -263,10 +265,94 @@ class ExplorerBrowserTest {
         BrowserDriver.screenshot(driver, "8-explore-reduced");
     }
 
+    @Test
+    void aModelDecisionIsAddedInTheFormAndTheEffectsOfBothModelsShareOneScale() throws Exception {
+        String id = upload(CivicTestData.csvWithFollowUp(300, 21));
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(90));
+        driver.get(base() + "/analyses/" + id + "/plan");
+        wait.until(ExpectedConditions.presenceOfElementLocated(By.id("spec-count")));
+        type(wait, "decisions[0].alternatives[0].label", "follow-up");
+        // first the outcome a logit cannot fit, to see the engine's message at the model
+        choose(wait, "decisions[0].alternatives[0].column", "turnout");
+        type(wait, "decisions[1].alternatives[0].label", "hours");
+        choose(wait, "decisions[1].alternatives[0].column", "outreach_hours");
+        addDecision(wait, "controls");
+        for (String control : List.of("median_age", "rainfall")) {
+            click(wait.until(d -> d.findElement(By.cssSelector("[data-path='decisions[2].optional'] input[value='"
+                    + control + "']"))));
+        }
+        addDecision(wait, "model");
+        assertEquals("ols", new Select(field(wait, "decisions[3].alternatives[0]")).getFirstSelectedOption()
+                .getAttribute("value"));
+        press(wait, "Add an alternative to model");
+        assertEquals("logit", new Select(field(wait, "decisions[3].alternatives[1]")).getFirstSelectedOption()
+                .getAttribute("value"), "the next model not yet listed");
+        assertTrue(driver.findElement(By.cssSelector("[data-path='decisions[3].alternatives[1]'] .model-note")).getText()
+                .contains("For an outcome coded 0/1"));
+        String expected = "logit needs an outcome coded 0/1; \"turnout\" has other values";
+        WebElement problem = wait.until(d -> d.findElements(By.cssSelector("[data-path='decisions[3].alternatives[1]'] "
+                + ".problem")).stream().filter(p -> p.isDisplayed() && p.getText().contains(expected)).findFirst()
+                .orElse(null));
+        assertTrue(problem.getText().contains(expected), problem.getText());
+        BrowserDriver.screenshot(driver, "9-plan-model-problem");
+        choose(wait, "decisions[0].alternatives[0].column", "follow_up");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
+        assertEquals("8 specifications", driver.findElement(By.id("spec-count")).getText());
+        click(wait.until(ExpectedConditions.elementToBeClickable(By.id("run-plan"))));
+
+        // as fitted: one model at a time, least squares first
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4 of 8"));
+        assertTrue(driver.findElement(By.id("curve-canvas")).getAttribute("aria-label")
+                .endsWith("vertical axis: follow-up per unit of predictor (hours)"));
+        new Select(driver.findElement(By.id("group"))).selectByVisibleText("follow-up on hours, logit (4)");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("scale-note"),
+                "the vertical axis is log-odds of follow-up per unit of predictor (hours)"));
+        String logitMedian = driver.findElement(By.id("card-median")).getText();
+        assertTrue(logitMedian.startsWith("Median, as fitted, follow-up on hours, logit"), logitMedian);
+
+        // a logit specification's full fit: the model, z, no df, McFadden, the test, the deviance, the effect
+        new Actions(driver).moveToElement(driver.findElement(By.id("curve-canvas")), 60, 0).click().perform();
+        WebElement table = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("fit-table")));
+        assertEquals(List.of("Term", "Estimate", "Std. error", "z", "p", "95% low", "95% high"),
+                table.findElements(By.cssSelector("thead th")).stream().map(WebElement::getText).toList());
+        String facts = driver.findElement(By.id("fit-facts")).getText();
+        for (String fact : List.of("Model: logistic regression (logit)", "McFadden R\u00b2 = ",
+                "Likelihood-ratio test against the intercept alone: p ", "Residual deviance = ",
+                "Average marginal effect of the key predictor: ")) {
+            assertTrue(facts.contains(fact), facts);
+        }
+        assertTrue(!facts.contains("df ="), "no degrees of freedom on the standard normal reference");
+        BrowserDriver.screenshot(driver, "9-logit-full-fit");
+        driver.findElement(By.id("fit-close")).click();
+        wait.until(d -> !d.findElement(By.id("fit-dialog")).isDisplayed());
+
+        // the effect scale: both models on one axis, in the outcome's own units
+        new Select(driver.findElement(By.id("scale"))).selectByValue("effect");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 8 of 8"));
+        assertTrue(driver.findElement(By.id("curve-canvas")).getAttribute("aria-label")
+                .endsWith("vertical axis: change in the probability of follow-up per unit of predictor (hours)"));
+        String effectMedian = driver.findElement(By.id("card-median")).getText();
+        assertTrue(effectMedian.startsWith("Median, average marginal effect"), effectMedian);
+        assertNotEquals(logitMedian.split("\n")[1], effectMedian.split("\n")[1], "the median follows the scale");
+        assertTrue(!driver.findElement(By.id("group")).isDisplayed(), "one group of effects: no selector");
+        Thread.sleep(300);
+        BrowserDriver.screenshot(driver, "9-explore-effect");
+
+        // a scale for least squares only: the logits are left out and counted, not drawn at 0
+        new Select(driver.findElement(By.id("scale"))).selectByValue("partial");
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"),
+                "Showing 4 of 8 specifications (4 more have no value on this scale)"));
+        assertTrue(driver.findElement(By.id("scale-note")).getText().contains("4 specifications of the set fit a logit"));
+    }
+
     private String upload() throws Exception {
+        return upload(CivicTestData.csv(300, 11));
+    }
+
+    private String upload(String csv) throws Exception {
         String boundary = "----forkscape-test";
         String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"outreach.csv\"\r\n"
-                + "Content-Type: text/csv\r\n\r\n" + CivicTestData.csv(300, 11) + "\r\n--" + boundary + "--\r\n";
+                + "Content-Type: text/csv\r\n\r\n" + csv + "\r\n--" + boundary + "--\r\n";
         HttpResponse<String> r = HttpClient.newHttpClient().send(
                 HttpRequest.newBuilder(URI.create(base() + "/api/analyses"))
                         .header("Content-Type", "multipart/form-data; boundary=" + boundary)

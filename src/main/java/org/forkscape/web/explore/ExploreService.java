@@ -52,10 +52,11 @@ public class ExploreService {
     private final Map<String, RankedRun> runs;
     private final Map<String, View> views = lru(CACHED_VIEWS);
 
-    private record View(int[] kept, DisplayOrder order) {
+    /** @param leftOut fitted specifications of the selection without a value on the scale */
+    private record View(int[] kept, DisplayOrder order, int leftOut) {
     }
 
-    /** A scale and, as fitted, the one comparable group shown (-1 on a unit-free scale). */
+    /** A scale and, on a scale with units, the one comparable group shown (-1 on a unit-free scale). */
     record ScaleChoice(Scale scale, int group) {
         String text() {
             return scale.word() + (group < 0 ? "" : ":" + group);
@@ -150,18 +151,37 @@ public class ExploreService {
         int unfitted = reasons.stream().mapToInt(ExploreViews.ReasonCount::count).sum();
         long inPlan = r.run().models().space().size();
         UnitGroups units = r.units();
+        List<ExploreViews.GroupView> groups = groupViews(units, Scale.AS_FITTED);
+        boolean models = !plan.all(Decision.Model.class).isEmpty();
         List<ExploreViews.ScaleView> scales = new ArrayList<>();
         for (Scale s : Scale.values()) {
+            if (s == Scale.AVERAGE_MARGINAL_EFFECT && !models) {
+                // without a model decision every effect is its coefficient: the scale would repeat "as fitted"
+                continue;
+            }
+            int leftOut = 0;
+            ResultTable t = r.run().results();
+            for (int slot = 0; slot < t.size(); slot++) {
+                if (t.fitted(slot) && !s.defined(t, slot)) {
+                    leftOut++;
+                }
+            }
+            UnitGroups own = s.unitFree() ? null : s == Scale.AS_FITTED ? units : UnitGroups.of(r.run(), s);
             scales.add(new ExploreViews.ScaleView(s.word(), s.title(), s.unitFree(), s.hasInterval(),
-                    s.unitFree() ? units.unit(s, null) : null));
+                    s.unitFree() ? units.unit(s, null) : null, own == null ? List.of() : groupViews(own, s),
+                    own != null && own.unitsDiffer(), own == null ? -1 : own.firstFitted(), leftOut));
         }
-        List<ExploreViews.GroupView> groups = units.groups().stream().map(g -> new ExploreViews.GroupView(g.id(),
-                g.outcome(), g.predictor(), g.fitted(), units.unit(Scale.AS_FITTED, g))).toList();
         return new ExploreViews.Layout(analysis.id(), run.id(), analysis.title(), plan.confidence(),
                 plan.outcome().name(), plan.predictor().name(), r.size(), unfitted, inPlan,
                 r.run().results().size() < inPlan, factors, r.gridRows(), required, reasons, scales, groups,
                 units.unitsDiffer(), Scale.AS_FITTED.word(), units.firstFitted(), factorOfDecision(r, plan.outcome()),
-                factorOfDecision(r, plan.predictor()), summary(analysis, run));
+                factorOfDecision(r, plan.predictor()), models ? factorOfDecision(r, plan.all(Decision.Model.class).get(0))
+                        : -1, summary(analysis, run));
+    }
+
+    private static List<ExploreViews.GroupView> groupViews(UnitGroups units, Scale scale) {
+        return units.groups().stream().map(g -> new ExploreViews.GroupView(g.id(), g.outcome(), g.predictor(),
+                g.model() == null ? null : g.model().spelling(), g.title(), g.fitted(), units.unit(scale, g))).toList();
     }
 
     public ExploreViews.CurveView curve(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
@@ -172,8 +192,9 @@ public class ExploreService {
         Selection selection = Selection.parse(r.factors(), drop);
         boolean grouped = !sortText(sort).equals("estimate");
         String unit = r.units().unit(choice.scale(), choice.group() < 0 ? null : r.units().groups().get(choice.group()));
-        return new ExploreViews.CurveView(r.size(), selection.dropText(), sortText(sort), choice.scale().word(),
-                choice.group(), unit, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
+        int fitted = ranked(analysis, run).size();
+        return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
+                choice.group(), unit, view.leftOut, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
                 grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width));
     }
 
@@ -191,12 +212,16 @@ public class ExploreService {
         ResultTable t = r.run().results();
         double confidence = r.run().plan().confidence();
         long index = t.specIndex(slot);
-        return new ExploreViews.SpecificationView(position, index + 1, choices(r.run(), index), t.estimate(slot),
-                t.stdError(slot), t.statistic(slot), t.df(slot), t.pValue(slot), t.ciLow(slot, confidence),
-                t.ciHigh(slot, confidence), t.standardizedEstimate(slot), Scale.STANDARDIZED.low(t, slot, confidence),
+        Scale effect = Scale.AVERAGE_MARGINAL_EFFECT;
+        return new ExploreViews.SpecificationView(position, index + 1, choices(r.run(), index),
+                t.family(slot).spelling(), t.estimate(slot), t.stdError(slot), t.statistic(slot), t.df(slot),
+                t.pValue(slot), t.ciLow(slot, confidence), t.ciHigh(slot, confidence), t.effect(slot),
+                t.effectStdError(slot), effect.low(t, slot, confidence), effect.high(t, slot, confidence),
+                Scale.STANDARDIZED.value(t, slot), Scale.STANDARDIZED.low(t, slot, confidence),
                 Scale.STANDARDIZED.high(t, slot, confidence), Scale.PARTIAL_CORRELATION.value(t, slot),
                 Scale.PARTIAL_CORRELATION.low(t, slot, confidence), Scale.PARTIAL_CORRELATION.high(t, slot, confidence),
-                t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot), t.modelPValue(slot), t.status(slot));
+                t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot), t.modelPValue(slot), t.deviance(slot),
+                t.status(slot));
     }
 
     private static Scale scaleOf(String word) {
@@ -205,15 +230,16 @@ public class ExploreService {
         }
         Scale s = Scale.named(word);
         if (s == null) {
-            throw new InputException("scale", "\"" + word.strip() + "\" is not a scale; use fitted, standardized, "
-                    + "partial or t");
+            throw new InputException("scale", "\"" + word.strip() + "\" is not a scale; use fitted, effect, "
+                    + "standardized, partial or t");
         }
         return s;
     }
 
     /**
-     * As fitted, the comparable group shown: the one asked for, or the first with a fitted specification;
-     * on a unit-free scale, none (every group shares the scale).
+     * On a scale with units (as fitted, the average marginal effect), the comparable group shown: the one
+     * asked for, or the first with a fitted specification; on a unit-free scale, none (every group shares
+     * the scale).
      */
     private static ScaleChoice choice(RankedRun r, String group) {
         if (r.scale().unitFree()) {
@@ -232,9 +258,9 @@ public class ExploreService {
         } catch (NumberFormatException e) {
             // answered below with the accepted range
         }
-        throw new InputException("group", "\"" + group.strip() + "\" is not a comparable group of this run; use a "
-                + "number from 0 to " + (count - 1) + " (outcome alternative times key-predictor alternatives, see "
-                + "the layout's groups)");
+        throw new InputException("group", "\"" + group.strip() + "\" is not a comparable group of this run on the "
+                + r.scale().title() + " scale; use a number from 0 to " + (count - 1) + " (see the groups of the "
+                + "layout's scales)");
     }
 
     /** The factor of a decision that is one factor (the outcome's, the key predictor's). */
@@ -248,12 +274,18 @@ public class ExploreService {
         RankedRun r = ranked(analysis, run);
         RunResult result = r.run();
         long index = spec - 1;
-        if (!inRun(result.results(), index)) {
+        ResultTable t = result.results();
+        int slot = slotOf(t, index);
+        if (slot < 0) {
             throw new InputException("spec", "specification " + spec + " is not among the "
-                    + String.format("%,d", result.results().size()) + " this run fitted");
+                    + String.format("%,d", t.size()) + " this run fitted");
         }
         FullFit fit = new FullFitter().fit(result.plan(), result.models(), index);
-        return new ExploreViews.FullFitView(spec, result.plan().confidence(), choices(result, index), fit);
+        double confidence = result.plan().confidence();
+        Scale effect = Scale.AVERAGE_MARGINAL_EFFECT;
+        return new ExploreViews.FullFitView(spec, confidence, choices(result, index), t.family(slot).spelling(),
+                t.family(slot).words(), t.effect(slot), t.effectStdError(slot), effect.low(t, slot, confidence),
+                effect.high(t, slot, confidence), t.deviance(slot), fit);
     }
 
     private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, ScaleChoice choice, String drop,
@@ -267,15 +299,23 @@ public class ExploreService {
                 return cached;
             }
         }
+        Plan plan = r.run().plan();
         if (choice.group() >= 0) {
             UnitGroups.Group g = r.units().groups().get(choice.group());
-            selection = selection.only(factorOfDecision(r, r.run().plan().outcome()), g.outcomeChoice())
-                    .only(factorOfDecision(r, r.run().plan().predictor()), g.predictorChoice());
+            selection = selection.only(factorOfDecision(r, plan.outcome()), g.outcomeChoice())
+                    .only(factorOfDecision(r, plan.predictor()), g.predictorChoice());
+            if (g.modelChoice() >= 0) {
+                selection = selection.only(factorOfDecision(r, plan.all(Decision.Model.class).get(0)), g.modelChoice());
+            }
         }
         int[] kept = SpecificationFilter.keep(r, selection);
         DisplayOrder display = order.equals("estimate") ? DisplayOrder.byEstimate(kept)
                 : DisplayOrder.groupedBy(r, kept, factorOf(r, order));
-        View view = new View(kept, display);
+        // the ranking as fitted holds every fitted specification, with the same factors: the selection there
+        // less the one here is what this scale leaves out
+        int leftOut = r.leftOut() == 0 ? 0
+                : SpecificationFilter.keep(ranked(analysis, run), selection).length - kept.length;
+        View view = new View(kept, display, leftOut);
         synchronized (views) {
             views.put(key, view);
         }
@@ -302,14 +342,15 @@ public class ExploreService {
                 + "with F from 0 to " + (r.factors().size() - 1));
     }
 
-    private static boolean inRun(ResultTable t, long index) {
+    /** The slot of a specification index in the run, -1 when the run did not fit it. */
+    private static int slotOf(ResultTable t, long index) {
         int lo = 0;
         int hi = t.size() - 1;
         while (lo <= hi) {
             int mid = (lo + hi) >>> 1;
             long at = t.specIndex(mid);
             if (at == index) {
-                return true;
+                return mid;
             }
             if (at < index) {
                 lo = mid + 1;
@@ -317,7 +358,7 @@ public class ExploreService {
                 hi = mid - 1;
             }
         }
-        return false;
+        return -1;
     }
 
     private static List<ExploreViews.Choice> choices(RunResult run, long index) {

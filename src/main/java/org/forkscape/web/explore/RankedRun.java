@@ -17,8 +17,9 @@ import org.forkscape.run.UnitGroups;
  * built once per run and scale so that every filter, summary and reduction afterwards is a sequential pass
  * over primitive arrays (no object per specification). Position {@code r} in these arrays is the
  * specification's <em>rank</em>; ties keep the run's order. "Estimate" below means the value on the
- * ranking's scale, and the interval is that scale's (NaN on the t scale). Immutable after construction
- * and safe to share between requests.
+ * ranking's scale, and the interval is that scale's (NaN on the t scale). A fitted specification without a
+ * value on the scale (a generalized linear model on the standardized or partial-correlation scale) has no
+ * rank; {@link #leftOut()} counts them. Immutable after construction and safe to share between requests.
  */
 public final class RankedRun {
     private final RunResult run;
@@ -36,6 +37,7 @@ public final class RankedRun {
     private final int[][] level;
     private final List<GridRow> gridRows;
     private final Map<String, Integer> unfittedReasons;
+    private final int leftOut;
 
     /**
      * A row of the choice grid: one alternative of a decision, or one optional control (marked where it
@@ -47,20 +49,24 @@ public final class RankedRun {
     private RankedRun(RunResult run, Scale scale) {
         this.run = run;
         this.scale = scale;
-        this.units = UnitGroups.of(run);
+        this.units = UnitGroups.of(run, scale.unitFree() ? Scale.AS_FITTED : scale);
         ResultTable r = run.results();
         double confidence = run.plan().confidence();
         double alpha = run.plan().alpha();
         int fitted = 0;
+        int undefined = 0;
         Map<String, Integer> reasons = new LinkedHashMap<>();
         for (int s = 0; s < r.size(); s++) {
-            if (r.fitted(s)) {
+            if (ranked(r, s, scale)) {
                 fitted++;
+            } else if (r.fitted(s)) {
+                undefined++;
             } else {
                 reasons.merge(r.status(s), 1, Integer::sum);
             }
         }
         this.unfittedReasons = java.util.Collections.unmodifiableMap(reasons);
+        this.leftOut = undefined;
         this.size = fitted;
         this.slot = rankOrder(r, fitted, scale);
         estimate = new double[size];
@@ -118,7 +124,7 @@ public final class RankedRun {
         double[] sorted = new double[fitted];
         int m = 0;
         for (int s = 0; s < r.size(); s++) {
-            if (r.fitted(s)) {
+            if (ranked(r, s, scale)) {
                 sorted[m++] = scale.value(r, s);
             }
         }
@@ -126,12 +132,17 @@ public final class RankedRun {
         int[] placed = new int[fitted];
         int[] order = new int[fitted];
         for (int s = 0; s < r.size(); s++) {
-            if (r.fitted(s)) {
+            if (ranked(r, s, scale)) {
                 int first = firstAtLeast(sorted, scale.value(r, s));
                 order[first + placed[first]++] = s;
             }
         }
         return order;
+    }
+
+    /** Whether a slot has a rank: fitted, with a value on the scale. */
+    private static boolean ranked(ResultTable r, int slot, Scale scale) {
+        return r.fitted(slot) && scale.defined(r, slot);
     }
 
     private static int firstAtLeast(double[] sorted, double v) {
@@ -157,12 +168,20 @@ public final class RankedRun {
         return scale;
     }
 
-    /** The run's comparable groups of units. */
+    /**
+     * The comparable groups of the ranking's scale: as fitted or of the average marginal effects; on a
+     * unit-free scale, those as fitted (for their words only).
+     */
     public UnitGroups units() {
         return units;
     }
 
-    /** Number of fitted specifications (the ranks are 0..size-1). */
+    /** Fitted specifications without a value on this scale, and so without a rank. */
+    public int leftOut() {
+        return leftOut;
+    }
+
+    /** Number of fitted specifications with a value on the scale (the ranks are 0..size-1). */
     public int size() {
         return size;
     }

@@ -68,6 +68,11 @@ class PlanControllersTest extends WebTest {
         problem("", "", "the plan is empty");
         problem(CivicTestData.plan().replace("\"kind\": \"errors\"", "\"kind\": \"errrors\""), "decisions[4].kind",
                 "did you mean \"errors\"?");
+        // found only in the data: a logit of an outcome that is not coded 0/1, at the model alternative
+        problem(CivicTestData.plan().replace("\"alternatives\": [\"classical\", \"HC1\", \"cluster:district\"]}",
+                "\"alternatives\": [\"classical\", \"HC1\", \"cluster:district\"]},\n{\"name\": \"model\", \"kind\": "
+                        + "\"model\", \"alternatives\": [\"ols\", \"logit\"]}"),
+                "decisions[5].alternatives[1]", "logit needs an outcome coded 0/1; \"turnout\" has other values");
     }
 
     @Test

@@ -1,0 +1,48 @@
+package org.forkscape.fit;
+
+import org.apache.commons.math3.special.Gamma;
+
+/**
+ * The log-likelihoods of a fitted generalized linear model and of its null model (the intercept, or the
+ * fixed effects, alone: each level's mean outcome), and the null deviance, from the fit's deviance and
+ * sums per level, without a pass of logarithms over the rows for the binary families. For a 0/1 outcome
+ * log L = -D / 2; for counts log L = S - D / 2 with the saturated log-likelihood S = sum (y log y - y -
+ * log Gamma(y + 1)) (McCullagh &amp; Nelder 1989, section 2.3).
+ *
+ * @param logLik     log L at the estimate
+ * @param nullLogLik log L0 of the null model
+ * @param nullDeviance its deviance
+ */
+record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
+
+    static GlmLikelihoods of(GlmRows rows, GlmFamily family, double deviance) {
+        int n = rows.n;
+        int levels = rows.levels;
+        double[] sum = new double[levels];
+        int[] count = new int[levels];
+        boolean counts = family == GlmFamily.POISSON;
+        double saturated = 0;
+        double yLogY = 0;
+        for (int i = 0; i < n; i++) {
+            double y = rows.y[i];
+            sum[rows.level[i]] += y;
+            count[rows.level[i]]++;
+            if (counts && y > 0) {
+                double l = y * Math.log(y);
+                yLogY += l;
+                saturated += l - y - Gamma.logGamma(y + 1);
+            }
+        }
+        double nullDeviance = counts ? 2 * yLogY : 0;
+        for (int l = 0; l < levels; l++) {
+            double s = sum[l];
+            double m = s / count[l];
+            if (counts) {
+                nullDeviance -= s > 0 ? 2 * s * Math.log(m) : 0;
+            } else {
+                nullDeviance -= 2 * ((s > 0 ? s * Math.log(m) : 0) + (count[l] - s > 0 ? (count[l] - s) * Math.log1p(-m) : 0));
+            }
+        }
+        return new GlmLikelihoods(saturated - deviance / 2, saturated - nullDeviance / 2, nullDeviance);
+    }
+}

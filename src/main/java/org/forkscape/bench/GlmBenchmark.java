@@ -6,7 +6,6 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -22,19 +21,19 @@ import org.forkscape.run.RunResult;
 /**
  * Logit with HC1 errors on every subset of 10 and 14 controls: the engine, the per-specification IRLS
  * baseline ({@link GlmBaseline}) and R's {@code glm} + {@code sandwich::vcovHC} ({@link RGlmTiming}), in
- * one process run after run. Each fits a seeded random sample of the specifications, extrapolated; the
- * baseline and R are compared with the engine on the specifications they fitted.
+ * one process run after run. The engine fits every specification; the baseline and R fit the engine's
+ * specifications in a seeded random order for a time budget, extrapolated, and are compared with the engine
+ * on the specifications they fitted.
  */
 final class GlmBenchmark {
     private static final long DATA_SEED = 20261201L;
     private static final long SAMPLE_SEED = 11L;
     private static final String ERRORS = "HC1";
     /**
-     * How many specifications of each plan the engine fits, a seeded sample extrapolated like the baseline's
-     * and R's: at the engine's first logit rate (about 2 spec/s at 100,000 rows on two cores) the 1,024 and
-     * 16,384 specifications would take 9 minutes and 2 hours.
+     * The one-thread case fits every subset of this many controls: a whole plan, so that every warm start
+     * the engine looks for is in it, and small enough to take seconds on one thread.
      */
-    private static final int ENGINE_SAMPLE = 128;
+    private static final int PASS_BOUND_CONTROLS = 6;
 
     private final PrintStream out;
     private final Path folder;
@@ -69,7 +68,7 @@ final class GlmBenchmark {
         for (int k : quick ? new int[] {10} : new int[] {10, 14}) {
             results.add(compare(table, data, k));
         }
-        results.add(passBound(table, data, 10, (double) results.get(0).get("baseline_mean_iterations")));
+        results.add(passBound(table, data, PASS_BOUND_CONTROLS, (double) results.get(0).get("baseline_mean_iterations")));
         return results;
     }
 
@@ -77,20 +76,15 @@ final class GlmBenchmark {
         String name = "logit-n" + table.rowCount() + "-k" + optional + "-" + ERRORS;
         Plan plan = new PlanReader(false).read(GlmBenchData.plan(data.getFileName().toString(), optional, ERRORS),
                 folder);
-        plan = plan.withSample(ENGINE_SAMPLE, SAMPLE_SEED);
         MultiverseRunner runner = new MultiverseRunner();
         runner.run(plan.withSample(16, 3), table, RunProgress.SILENT, null);
         long start = System.nanoTime();
         RunResult run = runner.run(plan, table, RunProgress.SILENT, null);
         double engine = run.results().size() / ((System.nanoTime() - start) / 1e9);
-        Map<Long, Integer> slots = new HashMap<>();
-        for (int i = 0; i < run.results().size(); i++) {
-            slots.put(run.results().specIndex(i), i);
-        }
-        long[] masks = shuffled(slots.keySet());
+        long[] masks = shuffled(1 << optional);
         GlmBaseline baseline = new GlmBaseline(table);
         double budget = quick ? 0.3 : 3;
-        Agreement baselineAgreement = new Agreement(run, slots);
+        Agreement baselineAgreement = new Agreement(run);
         long baselineIterations = 0;
         int baselineFits = 0;
         long warm = System.nanoTime();
@@ -107,7 +101,7 @@ final class GlmBenchmark {
         }
         double base = baselineFits / ((System.nanoTime() - baselineStart) / 1e9);
         RGlmTiming.Outcome r = RGlmTiming.time(data, masks, quick ? 1 : 20, folder);
-        Agreement rAgreement = new Agreement(run, slots);
+        Agreement rAgreement = new Agreement(run);
         if (r.skipped() == null) {
             for (RGlmTiming.Spec s : r.specs()) {
                 rAgreement.add(s.mask(), s.estimate(), s.stdError());
@@ -155,15 +149,14 @@ final class GlmBenchmark {
     }
 
     /**
-     * One thread on a sample of the specifications against what its passes over the rows must read: each
+     * One thread on every specification of a small plan against what its passes over the rows must read: each
      * IRLS iteration is one weighted pass (the linear predictor, the weights and the weighted cross-products
      * of the specification's columns), and the HC1 scores at the estimate one more.
      */
     private Map<String, Object> passBound(Table table, Path data, int optional, double iterations) {
         String name = "logit-n" + table.rowCount() + "-k" + optional + "-" + ERRORS + "-passes";
-        int sample = 16;
         Plan plan = new PlanReader(false).read(GlmBenchData.plan(data.getFileName().toString(), optional, ERRORS),
-                folder).withSample(sample, 5);
+                folder);
         MultiverseRunner runner = new MultiverseRunner(1);
         runner.run(plan, table, RunProgress.SILENT, null);
         long start = System.nanoTime();
@@ -185,16 +178,16 @@ final class GlmBenchmark {
         double multiplyAdds = passes * n * products;
         double bandwidth = MemoryBandwidth.readBytesPerSecond();
         double bound = bandwidth / bytes;
-        out.printf("%s (one thread, sample of %d): %,.2f spec/s; a plain IRLS needs %.1f iterations + 1 score pass "
+        out.printf("%s (one thread, all %d): %,.2f spec/s; a plain IRLS needs %.1f iterations + 1 score pass "
                 + "over %,d rows x %.1f columns = %.1f MB read and %.1f M multiply-adds per specification: "
                 + "streaming-read bound %,.0f spec/s at %.1f GB/s, the engine at %.1f%% of it; %.3f G multiply-adds/s%n",
-                name, sample, rate, iterations,
+                name, run.results().size(), rate, iterations,
                 n, columns, bytes / 1e6, multiplyAdds / 1e6, bound, bandwidth / 1e9, 100 * rate / bound,
                 rate * multiplyAdds / 1e9);
         Map<String, Object> json = new LinkedHashMap<>();
         json.put("case", name);
         json.put("threads", 1);
-        json.put("sample", sample);
+        json.put("specifications", run.results().size());
         json.put("specs_per_second", rate);
         json.put("iterations_per_specification", iterations);
         json.put("passes_per_specification", passes);
@@ -208,11 +201,17 @@ final class GlmBenchmark {
         return json;
     }
 
-    /** The engine's specifications in a seeded random order, for the baseline and R to fit a prefix of. */
-    private static long[] shuffled(java.util.Set<Long> indices) {
-        long[] masks = indices.stream().mapToLong(Long::longValue).sorted().toArray();
+    /**
+     * The control masks of every specification in a seeded random order, for the baseline and R to fit a
+     * prefix of (with every specification fitted, the engine's slot of a mask is the mask).
+     */
+    private static long[] shuffled(int count) {
+        long[] masks = new long[count];
+        for (int i = 0; i < count; i++) {
+            masks[i] = i;
+        }
         SplittableRandom random = new SplittableRandom(SAMPLE_SEED);
-        for (int i = masks.length - 1; i > 0; i--) {
+        for (int i = count - 1; i > 0; i--) {
             int j = random.nextInt(i + 1);
             long t = masks[i];
             masks[i] = masks[j];
@@ -224,16 +223,14 @@ final class GlmBenchmark {
     /** The largest relative difference of key estimates and standard errors from the engine's. */
     private static final class Agreement {
         private final RunResult run;
-        private final Map<Long, Integer> slots;
         private double max;
 
-        Agreement(RunResult run, Map<Long, Integer> slots) {
+        Agreement(RunResult run) {
             this.run = run;
-            this.slots = slots;
         }
 
         void add(long mask, double estimate, double stdError) {
-            int slot = slots.get(mask);
+            int slot = (int) mask;
             max = Math.max(max, Math.abs(run.results().estimate(slot) - estimate)
                     / Math.max(Math.abs(estimate), stdError));
             max = Math.max(max, Math.abs(run.results().stdError(slot) - stdError) / stdError);

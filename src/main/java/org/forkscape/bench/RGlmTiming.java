@@ -2,7 +2,7 @@ package org.forkscape.bench;
 
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.Reader;
+import java.io.StringReader;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
@@ -104,19 +104,18 @@ final class RGlmTiming {
         }
     }
 
+    /** R's output: a comment line naming R and sandwich, then the specifications as CSV. */
     private static Outcome read(Path result) throws IOException {
-        String version;
+        List<String> lines = Files.readAllLines(result, StandardCharsets.UTF_8);
         List<Spec> specs = new ArrayList<>();
-        try (Reader in = Files.newBufferedReader(result, StandardCharsets.UTF_8)) {
-            version = Files.readAllLines(result, StandardCharsets.UTF_8).get(0).substring(2);
-            CSVParser parser = CSVFormat.DEFAULT.builder().setCommentMarker('#').setHeader()
-                    .setSkipHeaderRecord(true).get().parse(in);
+        try (CSVParser parser = CSVFormat.DEFAULT.builder().setHeader().setSkipHeaderRecord(true).get()
+                .parse(new StringReader(String.join("\n", lines.subList(1, lines.size()))))) {
             for (CSVRecord r : parser) {
                 specs.add(new Spec(Long.parseLong(r.get("mask")), Double.parseDouble(r.get("estimate")),
                         Double.parseDouble(r.get("std_error")), Integer.parseInt(r.get("iterations")),
                         Double.parseDouble(r.get("glm_seconds")), Double.parseDouble(r.get("glm_fit_seconds"))));
             }
         }
-        return new Outcome(version, specs, null);
+        return new Outcome(lines.get(0).substring(2), specs, null);
     }
 }

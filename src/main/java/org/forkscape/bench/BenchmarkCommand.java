@@ -73,6 +73,10 @@ public final class BenchmarkCommand {
         rowPassComparison(new Case(100_000, k, "cluster:cluster"));
         hc3AgainstBandwidth(new Case(100_000, k, "HC3"));
         nullDraws(new Case(10_000, k, "classical"), quick ? 100 : 1_000);
+        for (Map<String, Object> json : GlmBenchmark.run(out, folder, quick)) {
+            machine(json);
+            write((String) json.get("case"), json);
+        }
         for (Map<String, Object> json : ExplorerBenchmark.run(out, folder, table(1_000), "data-1000.csv", quick)) {
             machine(json);
             write((String) json.get("case"), json);

@@ -123,6 +123,7 @@ async function refresh() {
     + (view.leftOut > 0 ? ` (${count(view.leftOut)} more have no value on this scale)` : '')
     + (view.summary.count === 0 ? ': no specification is left; tick an alternative again.' : '');
   summaryCards(view.summary);
+  filterCounts(view);
   influenceTable(view.influence);
   caption(view);
   history.replaceState(null, '', `?${query()}`);
@@ -387,7 +388,20 @@ function checkbox(factor, level, label) {
     refresh();
   });
   return el('label', { for: id }, box, el('span', {}, label),
-    el('span', { class: 'count', title: 'fitted specifications using it' }, count(factor.counts[level])));
+    el('span', { class: 'count', 'data-count': key }, count(factor.counts[level])));
+}
+
+/** Each alternative's count: how many of the specifications shown use it (the run's own count beside). */
+function filterCounts(view) {
+  for (const f of state.layout.factors) {
+    f.levels.forEach((_, level) => {
+      const span = document.querySelector(`[data-count="${f.id}.${level}"]`);
+      if (!span) return;
+      span.textContent = count(view.counts[f.id][level]);
+      span.title = `${count(view.counts[f.id][level])} of the ${count(view.summary.count)} specifications shown use it;`
+        + ` ${count(f.counts[level])} of the run's ${count(state.layout.fitted)}`;
+    });
+  }
 }
 
 function sortSelect(layout) {

@@ -195,7 +195,8 @@ public class ExploreService {
         int fitted = ranked(analysis, run).size();
         return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
                 choice.group(), unit, view.leftOut, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
-                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width));
+                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width),
+                AlternativeCounts.of(r, view.kept));
     }
 
     /** The specification at a position of the curve under the given filter, order and scale. */

@@ -7,7 +7,7 @@ import { wrap } from '../helpers.js';
 const Y_TITLE_CHARACTERS = 40;
 
 export function showSet(chart, state, xTitle, yTitle, withIntervals) {
-  const shaped = curveData(state.view, withIntervals);
+  const shaped = curveData(state.view, withIntervals, state.colourKey, state.layout);
   state.shaped = shaped;
   chart.data.datasets = shaped.datasets;
   Object.assign(chart.options.scales.x, xScale(shaped.size));

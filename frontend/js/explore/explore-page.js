@@ -4,7 +4,8 @@
 // marginal effects one outcome and coding at a time, every model together; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
-import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num } from '../helpers.js';
+import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num, withAlpha } from '../helpers.js';
+import { PLAIN_SHAPE, colourKey } from './colour-by.js';
 import { count, drawClaim, drawTally, number, pValue, share } from '../numbers.js';
 import { curveConfig } from './curve-config.js';
 import { showSet, redraw } from './curve-actions.js';
@@ -20,12 +21,14 @@ const analysis = root.dataset.analysis;
 const run = root.dataset.run;
 const api = `/api/analyses/${encodeURIComponent(analysis)}/runs/${encodeURIComponent(run)}`;
 
-const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null };
+const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null,
+  colourKey: null };
 const influenceState = { influence: null };
 const dropped = new Set();
 let sort = 'estimate';
 let scale = 'fitted';
 let group = null;
+let colourBy = null;
 let inFlight = null;
 let detailsFor = null;
 
@@ -115,6 +118,7 @@ async function refresh() {
   const ordered = sort === 'estimate' ? 'ordered by estimate'
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
   const interval = scaleInfo().interval;
+  legend();
   showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
   showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
@@ -126,7 +130,7 @@ async function refresh() {
   filterCounts(view);
   influenceTable(view.influence);
   caption(view);
-  history.replaceState(null, '', `?${query()}`);
+  history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
 }
 
 function factorName(id) {
@@ -193,6 +197,11 @@ function summaryCards(s) {
     card('Positive estimate', share(s.sharePositive), `range ${number(s.min)} to ${number(s.max)}`, 'card-sign'));
 }
 
+function colouredBy() {
+  const key = state.colourKey;
+  return key.factor === null ? '' : `, coloured by its ${key.title} (see the legend)`;
+}
+
 function caption(view) {
   const c = document.getElementById('figure-caption');
   const n = view.curve.count;
@@ -201,15 +210,17 @@ function caption(view) {
   if (view.curve.mode === 'points') {
     c.textContent = `${on}Each of the ${count(n)} specifications is one mark: its key estimate`
       + (interval ? ` with its ${confidenceLabel()} confidence interval (vertical bar)` : '')
-      + '; the solid line is zero and the dashed line the median of the set. Below, '
-      + 'a mark in a row means the specification uses that alternative or control.';
+      + ', filled when significant and hollow when not'
+      + (interval ? ' (the bar heavy or light likewise)' : '')
+      + (colouredBy()) + '; the solid line is zero and the dashed line the median of the set. Below, '
+      + 'a tick in a row means the specification uses that alternative or control.';
   } else {
     const per = Math.round(n / view.curve.bins.from.length);
     c.textContent = `${on}${count(n)} specifications, about ${count(per)} per pixel column: the dark band spans their `
       + (interval ? `estimates, the pale band their ${confidenceLabel()} intervals, ` : 'estimates, ')
-      + 'the line is the median estimate (solid where '
-      + 'most are significant, coloured by sign; dashed where most are not). Below, the shade of a row is the share of '
-      + 'the column\u2019s specifications that use the alternative.';
+      + 'the line is the median estimate (solid where most are significant, dashed where most are not'
+      + (state.colourKey.factor === null ? ')' : `; coloured by the ${state.colourKey.title} most of them use)`)
+      + '. Below, the shade of a row is the share of the column\u2019s specifications that use the alternative.';
   }
 }
 
@@ -466,28 +477,77 @@ function scaleControls() {
   }
 }
 
+/**
+ * What the figure's marks mean, for the page's legend and the exported figure alike: fill and interval
+ * weight for significance, then (when coloured by a decision) each alternative's colour and shape.
+ */
+function legendEntries() {
+  const alpha = number(1 - state.layout.confidence, 2);
+  const interval = scaleInfo().interval;
+  const key = state.colourKey;
+  const entries = SIGNIFICANCE.map((s) => ({
+    kind: 'significance', shape: PLAIN_SHAPE, filled: s.filled, colour: PALETTE.curve, bar: interval ? s : null,
+    text: `${s.label} (p ${s.filled ? '<' : '\u2265'} ${alpha})${interval ? (s.filled ? ', heavy interval' : ', light interval') : ''}`,
+  }));
+  if (key.factor !== null) {
+    entries.push({ kind: 'title', text: `Colour: ${key.title}` });
+    for (const e of key.entries) {
+      entries.push({ kind: 'alternative', shape: e.shape, filled: true, colour: e.colour, bar: null, text: e.label });
+    }
+  }
+  return entries;
+}
+
+/** Draws a legend entry's mark (and its interval bar) centred at x, y, of radius r. */
+function legendMark(ctx, entry, x, y, r) {
+  if (entry.bar) {
+    ctx.strokeStyle = withAlpha(entry.colour, entry.bar.intervalAlpha);
+    ctx.lineWidth = entry.bar.intervalWidth * r / 4;
+    ctx.beginPath();
+    ctx.moveTo(x, y - r * 1.9);
+    ctx.lineTo(x, y + r * 1.9);
+    ctx.stroke();
+  }
+  drawMark(ctx, entry.shape, entry.filled, entry.colour, x, y, r);
+}
+
 function legend() {
   const list = clear(document.getElementById('legend'));
-  for (const s of SIGNIFICANCE) {
+  for (const entry of legendEntries()) {
+    if (entry.kind === 'title') {
+      list.append(el('li', { class: 'legend-title' }, entry.text));
+      continue;
+    }
     const canvas = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
     canvas.style.width = '14px';
     canvas.style.height = '14px';
-    const ctx = canvas.getContext('2d');
-    drawMark(ctx, s.shape, s.filled, s.color, 14, 15, 8);
-    list.append(el('li', {}, canvas, `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-      + `${number(1 - state.layout.confidence, 2)})`));
+    legendMark(canvas.getContext('2d'), entry, 14, 14, 7);
+    list.append(el('li', { class: entry.kind === 'alternative' ? 'legend-alternative' : null }, canvas, entry.text));
   }
-  const bar = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
-  bar.style.width = '14px';
-  bar.style.height = '14px';
-  const b = bar.getContext('2d');
-  b.strokeStyle = PALETTE.neutralSoft;
-  b.lineWidth = 4;
-  b.beginPath();
-  b.moveTo(14, 2);
-  b.lineTo(14, 26);
-  b.stroke();
-  list.append(el('li', {}, bar, `${confidenceLabel()} confidence interval`));
+}
+
+function colourSelect(layout) {
+  const select = document.getElementById('colour-by');
+  select.append(el('option', { value: '' }, 'nothing (one ink)'));
+  for (const f of layout.factors) {
+    select.append(el('option', { value: String(f.id) }, f.control ? `${f.name} (in or out)` : f.name));
+  }
+  select.value = colourBy === null ? '' : String(colourBy);
+  select.addEventListener('change', () => {
+    colourBy = select.value === '' ? null : Number(select.value);
+    recolour();
+    history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
+  });
+}
+
+/** A new colour key: the same set drawn again, no request. */
+function recolour() {
+  state.colourKey = colourKey(state.layout, colourBy);
+  legend();
+  if (!state.view) return;
+  showSet(curveChart, state, curveChart.options.scales.x.title.text, state.view.unit, scaleInfo().interval);
+  gridChart.draw();
+  caption(state.view);
 }
 
 function wholeRun(summary) {
@@ -583,37 +643,48 @@ function exportPng() {
   const top = curveChart.canvas;
   const bottom = gridChart.canvas;
   const ratio = top.width / top.clientWidth;
-  const band = Math.round(52 * ratio);
+  const width = Math.max(top.width, bottom.width);
+  const font = `${Math.round(12 * ratio)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  const line = 20 * ratio;
+  const margin = Math.round(16 * ratio);
+  // the legend as on the page, laid out in lines across the figure's width, then the scale's line
+  const measure = document.createElement('canvas').getContext('2d');
+  measure.font = font;
+  const placed = [];
+  let x = margin;
+  let row = 0;
+  for (const entry of legendEntries()) {
+    const w = measure.measureText(entry.text).width + (entry.kind === 'title' ? 18 : 34) * ratio;
+    if (x > margin && x + w > width - margin) {
+      x = margin;
+      row++;
+    }
+    placed.push({ entry, x, row });
+    x += w;
+  }
+  const band = Math.round((row + 2) * line + 8 * ratio);
   const canvas = document.createElement('canvas');
-  canvas.width = Math.max(top.width, bottom.width);
+  canvas.width = width;
   canvas.height = band + top.height + bottom.height;
   const ctx = canvas.getContext('2d');
   ctx.fillStyle = PALETTE.paper;
   ctx.fillRect(0, 0, canvas.width, canvas.height);
-  // the legend, as on the page, above the panels
-  ctx.font = `${Math.round(12 * ratio)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  ctx.font = font;
   ctx.textBaseline = 'middle';
-  let x = Math.round(16 * ratio);
-  const y = band / 4 + 2 * ratio;
-  const entries = SIGNIFICANCE.map((s) => ({ s, text: `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-    + `${number(1 - state.layout.confidence, 2)})` }));
-  for (const { s, text } of entries) {
-    drawMark(ctx, s.shape, s.filled, s.color, x + 5 * ratio, y, 4.5 * ratio);
+  for (const { entry, x: at, row: r } of placed) {
+    const y = line * (r + 0.5) + 4 * ratio;
+    if (entry.kind === 'title') {
+      ctx.fillStyle = PALETTE.ink;
+      ctx.fillText(entry.text, at, y);
+      continue;
+    }
+    legendMark(ctx, entry, at + 5 * ratio, y, 4.5 * ratio);
     ctx.fillStyle = PALETTE.ink;
-    ctx.fillText(text, x + 14 * ratio, y);
-    x += ctx.measureText(text).width + 34 * ratio;
+    ctx.fillText(entry.text, at + 14 * ratio, y);
   }
-  ctx.strokeStyle = PALETTE.neutralSoft;
-  ctx.lineWidth = 2 * ratio;
-  ctx.beginPath();
-  ctx.moveTo(x + 5 * ratio, y - 7 * ratio);
-  ctx.lineTo(x + 5 * ratio, y + 7 * ratio);
-  ctx.stroke();
-  ctx.fillStyle = PALETTE.ink;
-  ctx.fillText(scaleInfo().interval ? `${confidenceLabel()} confidence interval` : 'no interval on this scale',
-    x + 14 * ratio, y);
-  ctx.fillText(`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: ${state.view.unit}`,
-    Math.round(16 * ratio), band * 3 / 4);
+  ctx.fillText(`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: ${state.view.unit}`
+    + (scaleInfo().interval ? `; bars: ${confidenceLabel()} confidence intervals` : '; no interval on this scale'),
+  margin, line * (row + 1.5) + 4 * ratio);
   ctx.drawImage(top, 0, band);
   ctx.drawImage(bottom, 0, band + top.height);
   canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');
@@ -626,6 +697,7 @@ async function start() {
   if (params.get('sort')) sort = params.get('sort');
   if (params.get('scale')) scale = params.get('scale');
   if (params.get('group')) group = Number(params.get('group'));
+  if (params.get('colour')) colourBy = Number(params.get('colour'));
   (params.get('drop') || '').split(',').filter(Boolean).forEach((d) => dropped.add(d));
   let layout;
   try {
@@ -643,7 +715,9 @@ async function start() {
   filterPanel(layout);
   scaleSelect(layout);
   sortSelect(layout);
-  legend();
+  if (colourBy !== null && !layout.factors[colourBy]) colourBy = null;
+  state.colourKey = colourKey(layout, colourBy);
+  colourSelect(layout);
   wholeRun(layout.summary);
   unfitted(layout);
   makeCharts();

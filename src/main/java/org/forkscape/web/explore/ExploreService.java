@@ -225,6 +225,13 @@ public class ExploreService {
                 t.status(slot));
     }
 
+    /** The position of specification {@code spec} (1-based) in the curve as shown, -1 when the set lacks it. */
+    public int positionOf(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
+            String group, long spec) {
+        RankedRun r = ranked(analysis, run, scaleOf(scale));
+        return SpecificationPosition.of(r, view(analysis, run, r, choice(r, group), drop, sort).order, spec - 1);
+    }
+
     private static Scale scaleOf(String word) {
         if (word == null || word.isBlank()) {
             return Scale.AS_FITTED;

@@ -75,6 +75,13 @@ public final class ExploreViews {
             CurveSummary summary, Influence influence, List<DisplayOrder.Group> groups, Curve curve, int[][] counts) {
     }
 
+    /**
+     * @param spec     the specification (1-based, as in specifications.csv)
+     * @param position its position in the curve as shown, -1 when the shown set does not hold it
+     */
+    public record PositionView(long spec, int position) {
+    }
+
     /** One alternative of one decision as a specification uses it. */
     public record Choice(String decision, String kind, String label) {
     }

@@ -80,6 +80,39 @@ function referencePlugin(state) {
   };
 }
 
+/** The null draws' band (state.nullBand), under everything else; the canvas records whether it was drawn. */
+function nullBandPlugin(state) {
+  return {
+    id: 'nullBand',
+    beforeDatasetsDraw(chart) {
+      const band = state.nullBand;
+      chart.canvas.dataset.nullBand = band ? 'drawn' : 'none';
+      if (!band) return;
+      const { ctx, chartArea, scales } = chart;
+      const top = Math.max(chartArea.top, scales.y.getPixelForValue(band.high));
+      const bottom = Math.min(chartArea.bottom, scales.y.getPixelForValue(band.low));
+      if (bottom <= top) return;
+      ctx.save();
+      ctx.fillStyle = PALETTE.nullBand;
+      ctx.fillRect(chartArea.left, top, chartArea.right - chartArea.left, bottom - top);
+      ctx.strokeStyle = PALETTE.nullLine;
+      ctx.setLineDash([1, 3]);
+      ctx.beginPath();
+      ctx.moveTo(chartArea.left, top);
+      ctx.lineTo(chartArea.right, top);
+      ctx.moveTo(chartArea.left, bottom);
+      ctx.lineTo(chartArea.right, bottom);
+      ctx.stroke();
+      ctx.fillStyle = PALETTE.nullLine;
+      ctx.font = `12px ${chart.options.font?.family || 'sans-serif'}`;
+      ctx.textAlign = 'right';
+      ctx.textBaseline = 'bottom';
+      ctx.fillText('null draws, middle 95% of medians', chartArea.right - 6, top - 2);
+      ctx.restore();
+    },
+  };
+}
+
 /** In a grouped order, a rule between groups and each group's label at the top. */
 function groupsPlugin(state) {
   return {
@@ -153,6 +186,6 @@ export function curveConfig(state, yTitle, onHover, onClick) {
         },
       },
     },
-    plugins: [referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
+    plugins: [nullBandPlugin(state), referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
   };
 }

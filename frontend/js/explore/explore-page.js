@@ -65,10 +65,12 @@ let influenceChart;
 function onHover(event, _elements, chart) {
   if (!state.view || state.view.curve.count === 0) return;
   const p = positionAt(chart, event, state.view.curve.count);
+  if (p === null) hideTip();
+  else placeTip(chart.canvas, event.x, event.y);
   if (p !== state.highlight) {
     state.highlight = p;
     redraw(curveChart, gridChart);
-    if (p !== null) details(p);
+    if (p !== null) tipFor(p);
   }
   chart.canvas.style.cursor = p === null ? 'default' : 'pointer';
 }
@@ -76,7 +78,10 @@ function onHover(event, _elements, chart) {
 function onClick(event, _elements, chart) {
   if (!state.view || state.view.curve.count === 0) return;
   const p = positionAt(chart, event, state.view.curve.count);
-  if (p !== null) openFit(p);
+  if (p !== null) {
+    details(p);
+    openFit(p);
+  }
 }
 
 function makeCharts() {
@@ -90,6 +95,7 @@ function makeCharts() {
   for (const canvas of [curveChart.canvas, gridChart.canvas]) {
     canvas.addEventListener('mouseleave', () => {
       state.highlight = null;
+      hideTip();
       redraw(curveChart, gridChart);
     });
   }
@@ -114,11 +120,15 @@ async function refresh() {
   state.view = view;
   state.highlight = null;
   detailsFor = null;
+  atCache.clear();
+  hideTip();
   noDetails();
   const ordered = sort === 'estimate' ? 'ordered by estimate'
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
   const interval = scaleInfo().interval;
   legend();
+  state.nullBand = nullBand();
+  nullOverlay();
   showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
   showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
@@ -131,6 +141,40 @@ async function refresh() {
   influenceTable(view.influence);
   caption(view);
   history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
+}
+
+/**
+ * The null draws' band: where the middle 95% (2.5% to 97.5%) of the null draws' median estimates lie,
+ * from summary.json. The draws pool every specification's estimate as fitted, so the band is drawn only
+ * on that scale and when the run has a single comparable group (one set of units); null otherwise.
+ */
+function nullBand() {
+  const nul = state.layout.summary.null;
+  const q = nul && typeof nul === 'object' && nul.null_quantiles ? nul.null_quantiles.median_estimate : null;
+  if (!q || scale !== 'fitted' || state.layout.unitsDiffer) return null;
+  const low = num(q['2.5']);
+  const high = num(q['97.5']);
+  return Number.isFinite(low) && Number.isFinite(high) ? { low, high, median: num(q['50']), draws: nul.draws } : null;
+}
+
+/** Above the curve: what the band is, and the three joint tests beside it. */
+function nullOverlay() {
+  const box = clear(document.getElementById('null-overlay'));
+  const nul = state.layout.summary.null;
+  const band = state.nullBand;
+  box.hidden = !(nul && typeof nul === 'object');
+  if (box.hidden) return;
+  const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
+  const results = [['median', 'median estimate'], ['share_significant', 'share significant'],
+    ['stouffer', 'mean z (Stouffer)']].filter(([k]) => tests[k])
+    .map(([k, label]) => el('li', { id: `null-test-${k}` }, `${label}: ${drawClaim(tests[k].exceedances, tests[k].draws)}`));
+  append(box,
+    el('p', { id: 'null-band-note' }, band
+      ? `Shaded across the curve: the middle 95% of the median estimates of the run's ${count(band.draws)} null draws `
+        + `(${number(band.low)} to ${number(band.high)}), over every specification of the run; joint tests:`
+      : `The run has ${count(nul.draws)} null draws; their band is drawn only as fitted and when the run has one `
+        + 'comparable group (the draws\u2019 medians pool every estimate as fitted). Joint tests, whole run:'),
+    el('ul', {}, results));
 }
 
 function factorName(id) {
@@ -231,16 +275,78 @@ function noDetails() {
   box.append(el('p', { class: 'hint' }, 'No specification is selected. Point at one in the curve or the grid.'));
 }
 
-const details = debounce(async (position) => {
+// the specification at each position of the set shown, as the server answered (cleared with every new set)
+const atCache = new Map();
+
+async function specificationAt(position) {
+  if (!atCache.has(position)) atCache.set(position, getJson(`${api}/at?${query({ position })}`));
+  try {
+    return await atCache.get(position);
+  } catch (e) {
+    atCache.delete(position);
+    throw e;
+  }
+}
+
+/** Fills the details panel below the grid (on a click, a key, or a link to a specification). */
+async function details(position) {
   if (detailsFor === position) return;
   detailsFor = position;
   try {
-    const s = await getJson(`${api}/at?${query({ position })}`);
+    const s = await specificationAt(position);
     if (detailsFor === position) showDetails(s);
   } catch (e) {
-    showProblem(document.getElementById('spec-details'), e);
+    showProblem(clear(document.getElementById('spec-details')), e);
   }
-}, 40);
+}
+
+// ---- the tooltip that follows the pointer
+
+const tip = document.getElementById('curve-tip');
+
+/** Puts the tooltip beside a point of a canvas (canvas pixels), inside the figure, on the side with room. */
+function placeTip(canvas, x, y) {
+  const figure = document.getElementById('figure').getBoundingClientRect();
+  const box = canvas.getBoundingClientRect();
+  tip.hidden = false;
+  const gap = 14;
+  let left = box.left - figure.left + x + gap;
+  if (left + tip.offsetWidth > figure.width - 4) left = box.left - figure.left + x - gap - tip.offsetWidth;
+  let top = box.top - figure.top + y + gap;
+  if (top + tip.offsetHeight > figure.height - 4) top = box.top - figure.top + y - gap - tip.offsetHeight;
+  tip.style.left = `${Math.max(4, left)}px`;
+  tip.style.top = `${Math.max(4, top)}px`;
+}
+
+function hideTip() {
+  tip.hidden = true;
+}
+
+const tipFor = debounce(async (position) => {
+  try {
+    const s = await specificationAt(position);
+    if (state.highlight !== position) return;
+    clear(tip);
+    append(tip,
+      el('p', {}, el('strong', {}, `Specification ${s.spec}`), `, position ${count(s.position + 1)} of `
+        + `${count(state.view.curve.count)}`),
+      el('p', { class: 'tip-choices' }, s.choices.map((c) => `${c.decision}: ${c.label}`).join('; ')),
+      el('p', { id: 'tip-numbers' }, tipNumbers(s)));
+  } catch (e) {
+    clear(tip).append(el('p', { class: 'problem' }, e.message));
+  }
+}, 30);
+
+/** The pointed specification's value on the scale shown, its interval and p. */
+function tipNumbers(s) {
+  const value = { fitted: [s.estimate, s.ciLow, s.ciHigh], effect: [s.effect, s.effectLow, s.effectHigh],
+    standardized: [s.standardized, s.standardizedLow, s.standardizedHigh],
+    partial: [s.partialCorrelation, s.partialLow, s.partialHigh], t: [s.statistic, null, null] }[scale];
+  const [v, lo, hi] = value;
+  return `${scaleInfo().title} ${number(v, 4)}`
+    + (lo === null ? '' : `, ${confidenceLabel()} interval ${number(lo, 4)} to ${number(hi, 4)}`)
+    + `, p ${pValue(s.pValue)}, N ${count(s.nObs)}` + (state.layout.modelFactor >= 0 ? `, ${s.model}` : '');
+}
 
 function showDetails(s) {
   const box = clear(document.getElementById('spec-details'));
@@ -267,6 +373,11 @@ function showDetails(s) {
 }
 
 async function openFit(position) {
+  await openFitOf(async () => (await specificationAt(position)).spec, null);
+}
+
+/** Opens the full fit of a specification; `specOf` finds its number, `note` is said above the table. */
+async function openFitOf(specOf, note) {
   const dialog = document.getElementById('fit-dialog');
   const body = clear(document.getElementById('fit-body'));
   const title = document.getElementById('fit-title');
@@ -274,14 +385,43 @@ async function openFit(position) {
   append(body, el('p', {}, 'Fitting...'));
   if (!dialog.open) dialog.showModal();
   try {
-    const at = await getJson(`${api}/at?${query({ position })}`);
-    const view = await getJson(`${api}/specifications/${at.spec}/fit`);
+    const view = await getJson(`${api}/specifications/${await specOf()}/fit`);
     title.textContent = `Specification ${view.spec}: every coefficient`;
     fitBody(clear(body), view);
+    if (note) body.prepend(el('p', { class: 'notice', id: 'fit-note' }, note));
   } catch (e) {
     showProblem(clear(body), e);
   }
   document.getElementById('fit-close').focus();
+}
+
+/**
+ * Selects a specification named on the page (the smallest p, an end of the extreme bounds): highlighted in
+ * the curve and the grid with its details when the set shown holds it, and its full fit opened either way.
+ */
+async function selectSpecification(spec) {
+  let position = -1;
+  try {
+    position = (await getJson(`${api}/specifications/${spec}/position?${query()}`)).position;
+  } catch (e) {
+    showProblem(clear(document.getElementById('spec-details')), e);
+  }
+  if (position >= 0) {
+    state.highlight = position;
+    redraw(curveChart, gridChart);
+    details(position);
+    await openFit(position);
+  } else {
+    await openFitOf(async () => spec, `Specification ${spec} is not among the specifications shown (the filter or `
+      + 'the comparable group leaves it out), so it is not marked in the curve.');
+  }
+}
+
+/** A link-like button that selects and opens a specification. */
+function specLink(spec, id) {
+  const b = el('button', { type: 'button', class: 'link spec-link', id, 'data-spec': spec }, `specification ${spec}`);
+  b.addEventListener('click', () => selectSpecification(spec));
+  return b;
 }
 
 function fitBody(body, view) {
@@ -354,7 +494,14 @@ function keyboard(event) {
   event.preventDefault();
   state.highlight = p;
   redraw(curveChart, gridChart);
-  if (p !== null) details(p);
+  if (p === null) {
+    hideTip();
+    return;
+  }
+  details(p);
+  const area = curveChart.chartArea;
+  placeTip(curveChart.canvas, curveChart.scales.x.getPixelForValue(p), area.top + 10);
+  tipFor(p);
 }
 
 // ---- panels built once from the layout
@@ -579,7 +726,8 @@ function wholeRun(summary) {
   warning.hidden = warning.textContent === '';
   const best = summary.best;
   if (best && typeof best === 'object') {
-    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
+    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`,
+      [specLink(best.spec, 'best-spec-link'), ', as reported alone']));
     const t = tally(best.adjusted_test, best.p_adjusted);
     box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
       t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
@@ -588,21 +736,109 @@ function wholeRun(summary) {
   // the run's bounds are over every estimate as fitted: shown only when those share their units
   if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
     box.append(card('Extreme bounds', `${number(bounds.lower)} to ${number(bounds.upper)}`,
-      bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
+      [bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign',
+        ...(bounds.lower_spec ? ['; lowest in ', specLink(bounds.lower_spec, 'lower-bound-link')] : []),
+        ...(bounds.upper_spec ? [', highest in ', specLink(bounds.upper_spec, 'upper-bound-link')] : [])]));
   }
   const shown = new Set(['null', 'best', 'interval_bounds', 'influence', 'influence_overall']);
   const more = el('details', { class: 'more-sections', id: 'more-sections' },
     el('summary', {}, 'Further sections of summary.json'));
+  if (nul && typeof nul === 'object') more.append(...nullTables(nul));
   for (const [key, value] of Object.entries(summary)) {
     if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
-    const rows = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object')
-      .map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, k.replaceAll('_', ' ')),
-        el('td', {}, typeof v === 'number' ? number(v, 4) : String(v ?? '\u2013'))));
-    more.append(el('table', { class: 'sections-table' }, el('caption', {}, key.replaceAll('_', ' ')),
-      el('tbody', {}, rows)));
+    if (key === 'comparable_groups' && Array.isArray(value.groups)) {
+      more.append(...groupTables(value));
+      continue;
+    }
+    more.append(keyValueTable(SECTION_TITLES[key] || words(key), value));
   }
   if (more.childElementCount > 1) document.getElementById('whole-run-cards').after(more);
   document.getElementById('whole-run').hidden = box.childElementCount === 0 && more.childElementCount <= 1;
+}
+
+const SECTION_TITLES = { overfitting: 'Overfitting checks', provenance: 'How the run was made',
+  comparable_groups: 'Comparable groups' };
+const KEY_WORDS = {
+  min_rows_per_coefficient: 'fewest rows per coefficient', rows_per_coefficient_floor: 'rows per coefficient asked for',
+  few_rows: 'specifications with fewer rows per coefficient', r2_not_above_null_expectation:
+    'specifications whose R\u00b2 is not above what noise gives', model_p_not_significant:
+    'specifications whose model test is not significant', plan_sha256: 'plan (SHA-256)', data_sha256: 'data (SHA-256)',
+  n_obs: 'rows used', file: 'file',
+};
+
+function words(key) {
+  return KEY_WORDS[key] || key.replaceAll('_', ' ');
+}
+
+function cell(v) {
+  if (typeof v === 'number') return number(v, 4);
+  if (v === null || v === undefined) return '\u2013';
+  if (typeof v === 'object') return Object.entries(v).map(([k, x]) => `${words(k)}: ${cell(x)}`).join('; ');
+  return String(v);
+}
+
+/** A section of plain values as a two-column table (nested values written out in words). */
+function keyValueTable(title, section) {
+  const rows = Object.entries(section).map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, words(k)),
+    el('td', {}, cell(v))));
+  return el('table', { class: 'sections-table' }, el('caption', {}, title), el('tbody', {}, rows));
+}
+
+function table(id, title, headers, rows) {
+  return el('div', { class: 'table-scroll' }, el('table', { class: 'sections-table', id }, el('caption', {}, title),
+    el('thead', {}, el('tr', {}, headers.map((h) => el('th', { scope: 'col' }, h)))), el('tbody', {}, rows)));
+}
+
+/** The observed curve's statistics against the middle of the null draws'. */
+function nullTables(nul) {
+  const observed = nul.observed || {};
+  const q = nul.null_quantiles || {};
+  const stats = [['median_estimate', 'median estimate', observed.median_estimate],
+    ['share_significant', `share significant in the dominant sign (${observed.dominant_sign || '\u2013'})`,
+      observed.share_significant], ['mean_z', 'mean z (Stouffer)', observed.mean_z]];
+  const rows = stats.map(([key, label, value]) => {
+    const quantiles = q[key] || {};
+    const format = key === 'share_significant' ? share : (v) => number(v, 4);
+    return el('tr', {}, el('th', { scope: 'row' }, label), ...[value, quantiles['2.5'], quantiles['50'],
+      quantiles['97.5']].map((v) => el('td', { class: 'num' }, Number.isFinite(num(v)) ? format(num(v)) : '\u2013')));
+  });
+  const facts = keyValueTable('The null draws', {
+    draws: nul.draws, method: nul.method, resampled: nul.resampled === 'clusters' ? `clusters of ${nul.cluster}`
+      : nul.resampled, seed: nul.seed, specifications: nul.specifications, failed_fits: nul.failed_fits,
+    empty_draws: nul.empty_draws, seconds: nul.seconds, file: nul.file,
+  });
+  facts.id = 'null-facts';
+  return [table('null-quantiles', 'Observed curve against the null draws', ['Statistic', 'observed',
+    'null 2.5%', 'null median', 'null 97.5%'], rows), facts];
+}
+
+/** Per comparable group: information-criterion weights, P(coefficient <= 0) and inclusion probabilities. */
+function groupTables(section) {
+  const groups = section.groups;
+  const withModel = groups.some((g) => g.model && g.model !== 'ols');
+  const name = (g) => `${g.outcome} on ${g.predictor}${withModel ? `, ${g.model}` : ''}`
+    + (g.rows && Object.keys(g.rows).length ? ` (${Object.entries(g.rows).map(([d, l]) => `${d} ${l}`).join(', ')})` : '');
+  const weights = groups.map((g, i) => el('tr', {}, el('th', { scope: 'row' }, name(g)),
+    el('td', { class: 'num' }, count(g.specifications)), el('td', { class: 'num' }, count(g.n_obs)),
+    el('td', { class: 'num' }, number(g.bic?.weighted_estimate, 4)),
+    el('td', { class: 'num' }, number(g.bic?.weighted_std_error, 4)),
+    el('td', {}, g.bic?.best_spec ? specLink(g.bic.best_spec, `group-best-${i}`) : '\u2013',
+      g.bic?.best_spec ? ` (weight ${share(g.bic.best_weight)})` : ''),
+    ...['normal', 'non_normal', 'normal_unweighted', 'non_normal_unweighted']
+      .map((k) => el('td', { class: 'num' }, number(g.cdf_at_zero?.[k], 3)))));
+  const out = [el('p', { class: 'hint' }, section.note || ''),
+    table('group-weights', 'Comparable groups: weighted by the BIC, and P(coefficient \u2264 0)',
+      ['Group', 'Specifications', 'Rows', 'BIC-weighted estimate', 'its std. error', 'Heaviest specification',
+        'CDF(0), normal', 'CDF(0), non-normal', 'CDF(0), normal, unweighted', 'CDF(0), non-normal, unweighted'],
+      weights)];
+  const controls = [...new Set(groups.flatMap((g) => Object.keys(g.bic?.inclusion || {})))];
+  if (controls.length > 0) {
+    out.push(table('group-inclusion', 'Posterior inclusion probability of each control (BIC weights), by group',
+      ['Control', ...groups.map(name)], controls.map((c) => el('tr', {}, el('th', { scope: 'row' }, c),
+        ...groups.map((g) => el('td', { class: 'num' }, c in (g.bic?.inclusion || {})
+          ? share(g.bic.inclusion[c]) : 'in all or none'))))));
+  }
+  return out;
 }
 
 function influenceTable(influence) {

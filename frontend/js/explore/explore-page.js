@@ -126,8 +126,8 @@ async function refresh() {
   const ordered = sort === 'estimate' ? 'ordered by estimate'
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
   const interval = scaleInfo().interval;
-  legend();
   state.nullBand = nullBand();
+  legend();
   nullOverlay();
   showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
@@ -636,6 +636,9 @@ function legendEntries() {
     kind: 'significance', shape: PLAIN_SHAPE, filled: s.filled, colour: PALETTE.curve, bar: interval ? s : null,
     text: `${s.label} (p ${s.filled ? '<' : '\u2265'} ${alpha})${interval ? (s.filled ? ', heavy interval' : ', light interval') : ''}`,
   }));
+  if (state.nullBand) {
+    entries.push({ kind: 'band', text: 'middle 95% of the null draws\u2019 median estimates' });
+  }
   if (key.factor !== null) {
     entries.push({ kind: 'title', text: `Colour: ${key.title}` });
     for (const e of key.entries) {
@@ -647,6 +650,14 @@ function legendEntries() {
 
 /** Draws a legend entry's mark (and its interval bar) centred at x, y, of radius r. */
 function legendMark(ctx, entry, x, y, r) {
+  if (entry.kind === 'band') {
+    ctx.fillStyle = PALETTE.nullBand;
+    ctx.fillRect(x - r * 1.6, y - r, r * 3.2, r * 2);
+    ctx.strokeStyle = PALETTE.nullLine;
+    ctx.lineWidth = Math.max(1, r / 5);
+    ctx.strokeRect(x - r * 1.6, y - r, r * 3.2, r * 2);
+    return;
+  }
   if (entry.bar) {
     ctx.strokeStyle = withAlpha(entry.colour, entry.bar.intervalAlpha);
     ctx.lineWidth = entry.bar.intervalWidth * r / 4;
@@ -669,7 +680,8 @@ function legend() {
     canvas.style.width = '14px';
     canvas.style.height = '14px';
     legendMark(canvas.getContext('2d'), entry, 14, 14, 7);
-    list.append(el('li', { class: entry.kind === 'alternative' ? 'legend-alternative' : null }, canvas, entry.text));
+    list.append(el('li', { class: entry.kind === 'alternative' ? 'legend-alternative' : entry.kind === 'band' ? 'legend-band' : null },
+      canvas, entry.text));
   }
 }
 

@@ -259,6 +259,11 @@ class ExplorerBrowserTest {
         new Select(driver.findElement(By.id("scale"))).selectByValue("partial");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
+        // coloured by a decision in the reduced drawing: each column's median line takes its most used alternative
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("fixed effects");
+        assertEquals(List.of("none", "region"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
+                .stream().map(WebElement::getText).toList());
+        assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("coloured by the fixed effects most"));
         new Actions(driver).moveToElement(driver.findElement(By.id("grid-canvas")), 200, 0).perform();
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("curve-tip"), "Specification"));
         Thread.sleep(300);
@@ -335,6 +340,10 @@ class ExplorerBrowserTest {
         assertTrue(effectMedian.startsWith("Median, average marginal effect"), effectMedian);
         assertNotEquals(logitMedian.split("\n")[1], effectMedian.split("\n")[1], "the median follows the scale");
         assertTrue(!driver.findElement(By.id("group")).isDisplayed(), "one group of effects: no selector");
+        // colour by the model decision: which model sits where on the common scale
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("model");
+        assertEquals(List.of("ols", "logit"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
+                .stream().map(WebElement::getText).toList());
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "9-explore-effect");
 
@@ -393,6 +402,7 @@ class ExplorerBrowserTest {
 
         // the null draws' band is drawn under the curve, the three joint tests beside it
         assertEquals("drawn", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
+        assertTrue(driver.findElement(By.cssSelector("#legend .legend-band")).getText().contains("null draws"));
         String overlay = driver.findElement(By.id("null-overlay")).getText();
         for (String test : List.of("median estimate: p", "share significant: p", "mean z (Stouffer): p")) {
             assertTrue(overlay.contains(test), overlay);

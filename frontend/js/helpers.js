@@ -23,8 +23,8 @@ export const PALETTE = Object.freeze({
  * Colours for the alternatives of the decision the figure is coloured by, in order. Any two differ by at
  * least 6 in CIE lightness L* (17.6, 75.1, 49.2, 35.5, 66.7, 28.8; AlternativePaletteTest), so they stay
  * apart in greyscale; the hues are blues and oranges (the violet reads as a blue), the contrast the common
- * red-green deficiencies keep (common practice). Each alternative also has its own mark shape
- * (ALTERNATIVE_SHAPES), so a seventh alternative, which reuses a colour, still differs in shape.
+ * red-green deficiencies keep (common practice). The mark shapes (ALTERNATIVE_SHAPES) cycle beside
+ * them, so a seventh alternative, which reuses a colour, still differs in shape (both repeat from the 13th).
  */
 export const ALTERNATIVE_COLOURS = Object.freeze(['#1A2A4F', '#E3B23C', '#2F7F8F', '#8C3B12', '#6FA8D6', '#4E3A6E']);
 export const ALTERNATIVE_SHAPES = Object.freeze(['circle', 'rect', 'triangle', 'rectRot']);

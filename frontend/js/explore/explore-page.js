@@ -910,7 +910,18 @@ function exportPng() {
     placed.push({ entry, x, row });
     x += w;
   }
-  const band = Math.round((row + 2) * line + 8 * ratio);
+  // the scale's line, broken at spaces to the figure's width
+  const scaleWords = (`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: `
+    + `${state.view.unit}` + (scaleInfo().interval ? `; bars: ${confidenceLabel()} confidence intervals`
+    : '; no interval on this scale')).split(' ');
+  const scaleLines = [''];
+  for (const word of scaleWords) {
+    const last = scaleLines[scaleLines.length - 1];
+    const longer = last ? `${last} ${word}` : word;
+    if (last && measure.measureText(longer).width > width - 2 * margin) scaleLines.push(word);
+    else scaleLines[scaleLines.length - 1] = longer;
+  }
+  const band = Math.round((row + 1 + scaleLines.length) * line + 8 * ratio);
   const canvas = document.createElement('canvas');
   canvas.width = width;
   canvas.height = band + top.height + bottom.height;
@@ -930,9 +941,7 @@ function exportPng() {
     ctx.fillStyle = PALETTE.ink;
     ctx.fillText(entry.text, at + 14 * ratio, y);
   }
-  ctx.fillText(`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: ${state.view.unit}`
-    + (scaleInfo().interval ? `; bars: ${confidenceLabel()} confidence intervals` : '; no interval on this scale'),
-  margin, line * (row + 1.5) + 4 * ratio);
+  scaleLines.forEach((text, k) => ctx.fillText(text, margin, line * (row + 1.5 + k) + 4 * ratio));
   ctx.drawImage(top, 0, band);
   ctx.drawImage(bottom, 0, band + top.height);
   canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');

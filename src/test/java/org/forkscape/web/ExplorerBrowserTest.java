@@ -400,6 +400,19 @@ class ExplorerBrowserTest {
         assertEquals(List.of("without rainfall", "with rainfall"), driver.findElements(
                 By.cssSelector("#legend .legend-alternative")).stream().map(WebElement::getText).toList());
 
+        // the exported figure carries the colours, the null band and their legend
+        try (var old = Files.list(TEMP.resolve("downloads"))) {
+            for (Path f : old.filter(f -> f.toString().endsWith(".png")).toList()) {
+                Files.delete(f);
+            }
+        }
+        click(driver.findElement(By.id("export-png")));
+        Path png = waitForSuffix(".png");
+        byte[] head = Arrays.copyOf(Files.readAllBytes(png), 8);
+        assertArrayEquals(new byte[] {(byte) 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n'}, head);
+        Files.copy(png, Path.of("target", "screenshots", "12-exported-colour-by.png"),
+                java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+
         // the null draws' band is drawn under the curve, the three joint tests beside it
         assertEquals("drawn", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
         assertTrue(driver.findElement(By.cssSelector("#legend .legend-band")).getText().contains("null draws"));

@@ -33,13 +33,21 @@ export const LEFT_AXIS = 210;
 /** Right padding of both panels, for the same reason. */
 export const RIGHT_PAD = 16;
 
-/** Draws a shape used for significance classes (same look on the curve, in the legend and in exports). */
+/** Draws a mark shape (the same on the curve, in the legend and in exports): filled, or hollow on paper. */
 export function drawMark(ctx, shape, filled, color, x, y, r) {
   ctx.beginPath();
   if (shape === 'triangle') {
     ctx.moveTo(x, y - r * 1.15);
     ctx.lineTo(x + r * 1.05, y + r * 0.75);
     ctx.lineTo(x - r * 1.05, y + r * 0.75);
+    ctx.closePath();
+  } else if (shape === 'rect') {
+    ctx.rect(x - r * 0.85, y - r * 0.85, r * 1.7, r * 1.7);
+  } else if (shape === 'rectRot') {
+    ctx.moveTo(x, y - r * 1.2);
+    ctx.lineTo(x + r * 1.2, y);
+    ctx.lineTo(x, y + r * 1.2);
+    ctx.lineTo(x - r * 1.2, y);
     ctx.closePath();
   } else {
     ctx.arc(x, y, r, 0, Math.PI * 2);

@@ -1,36 +1,49 @@
 // Shared helpers for every page: the palette, DOM building (text only, never HTML); number formats are in numbers.js.
 
-// Okabe & Ito (2008), "Color Universal Design": hues that stay distinct under the common colour-vision
-// deficiencies. Significance is also carried by shape and fill, so the figure reads in greyscale.
+// The figure's palette. The curve is drawn in one ink; significance is carried by fill (filled or hollow
+// mark) and by the weight of the interval, never by hue, since the side of the zero line already shows the
+// sign. Hue is kept for what the user asks to see: the alternatives of one decision ("colour by").
 export const PALETTE = Object.freeze({
-  positive: '#0072B2',        // significant, positive: filled circle
-  positiveSoft: 'rgba(0, 114, 178, 0.35)',
-  negative: '#D55E00',        // significant, negative: filled triangle
-  negativeSoft: 'rgba(213, 94, 0, 0.35)',
-  neutral: '#6E6E6E',         // not significant: hollow circle
-  neutralSoft: 'rgba(110, 110, 110, 0.32)',
+  curve: '#2A3440',           // every mark and interval when nothing is coloured by
   ink: '#1F1F1F',
   inkSoft: '#4A4A4A',
   rule: '#C8C8C2',
   paper: '#FFFFFF',
-  band: 'rgba(31, 31, 31, 0.20)',
-  envelope: 'rgba(0, 114, 178, 0.13)',
-  highlight: 'rgba(230, 159, 0, 0.30)',
-  highlightLine: '#B27A00',
-  mark: '#2B2B2B',
+  band: 'rgba(42, 52, 64, 0.22)',
+  envelope: 'rgba(42, 52, 64, 0.10)',
+  decisionShade: 'rgba(120, 104, 72, 0.07)',
+  highlight: 'rgba(47, 127, 143, 0.20)',
+  highlightLine: '#2F7F8F',
+  mark: '#2A3440',
+  nullBand: 'rgba(140, 59, 18, 0.16)',
+  nullLine: '#8C3B12',
 });
 
+/**
+ * Colours for the alternatives of the decision the figure is coloured by, in order. Any two differ by at
+ * least 6 in CIE lightness L* (17.6, 75.1, 49.2, 35.5, 66.7, 28.8; AlternativePaletteTest), so they stay
+ * apart in greyscale; the hues are blues and oranges (the violet reads as a blue), the contrast the common
+ * red-green deficiencies keep (common practice). The mark shapes (ALTERNATIVE_SHAPES) cycle beside
+ * them, so a seventh alternative, which reuses a colour, still differs in shape (both repeat from the 13th).
+ */
+export const ALTERNATIVE_COLOURS = Object.freeze(['#1A2A4F', '#E3B23C', '#2F7F8F', '#8C3B12', '#6FA8D6', '#4E3A6E']);
+export const ALTERNATIVE_SHAPES = Object.freeze(['circle', 'rect', 'triangle', 'rectRot']);
+
+/** Two classes of significance, told apart by fill and by the interval's weight. */
 export const SIGNIFICANCE = Object.freeze([
-  { key: 'positive', value: 1, label: 'significant, positive', color: PALETTE.positive, soft: PALETTE.positiveSoft,
-    shape: 'circle', filled: true },
-  { key: 'negative', value: -1, label: 'significant, negative', color: PALETTE.negative, soft: PALETTE.negativeSoft,
-    shape: 'triangle', filled: true },
-  { key: 'neutral', value: 0, label: 'not significant', color: PALETTE.neutral, soft: PALETTE.neutralSoft,
-    shape: 'circle', filled: false },
+  { key: 'significant', label: 'significant', filled: true, intervalWidth: 1.7, intervalAlpha: 0.75 },
+  { key: 'not', label: 'not significant', filled: false, intervalWidth: 0.8, intervalAlpha: 0.35 },
 ]);
 
+/** The class of a significance code from the server (+1 or -1 significant, 0 not). */
 export function significanceOf(value) {
-  return SIGNIFICANCE.find((s) => s.value === value);
+  return value === 0 ? SIGNIFICANCE[1] : SIGNIFICANCE[0];
+}
+
+/** A colour given as #RRGGBB with an opacity. */
+export function withAlpha(hex, alpha) {
+  const v = parseInt(hex.slice(1), 16);
+  return `rgba(${(v >> 16) & 255}, ${(v >> 8) & 255}, ${v & 255}, ${alpha})`;
 }
 
 /** Creates an element; attributes are set as attributes, children as text nodes or elements. */

@@ -7,7 +7,7 @@ import { wrap } from '../helpers.js';
 const Y_TITLE_CHARACTERS = 40;
 
 export function showSet(chart, state, xTitle, yTitle, withIntervals) {
-  const shaped = curveData(state.view, withIntervals);
+  const shaped = curveData(state.view, withIntervals, state.colourKey, state.layout);
   state.shaped = shaped;
   chart.data.datasets = shaped.datasets;
   Object.assign(chart.options.scales.x, xScale(shaped.size));
@@ -15,8 +15,9 @@ export function showSet(chart, state, xTitle, yTitle, withIntervals) {
   chart.options.scales.y.title.text = wrap(yTitle, Y_TITLE_CHARACTERS);
   chart.canvas.setAttribute('aria-label', `Each specification's key estimate, ordered; vertical axis: ${yTitle}`);
   // suggested, not fixed: Chart.js then rounds the range out to tidy ticks
-  chart.options.scales.y.suggestedMin = shaped.yRange.min;
-  chart.options.scales.y.suggestedMax = shaped.yRange.max;
+  const band = state.nullBand;
+  chart.options.scales.y.suggestedMin = band ? Math.min(shaped.yRange.min, band.low) : shaped.yRange.min;
+  chart.options.scales.y.suggestedMax = band ? Math.max(shaped.yRange.max, band.high) : shaped.yRange.max;
   chart.update('none');
 }
 

@@ -1,11 +1,14 @@
 // Presentation of the curve: axes, reference lines, interval bars, group separators. No data here; the
 // plugins read the shared state that curve-actions.js fills.
 import { LEFT_AXIS, RIGHT_PAD } from '../chart-setup.js';
-import { PALETTE, SIGNIFICANCE, num } from '../helpers.js';
+import { PALETTE, num, significanceOf, withAlpha } from '../helpers.js';
 import { number } from '../numbers.js';
 import { highlightPlugin, positionTicks, xScale } from './highlight.js';
 
-/** Vertical interval bars under the points, in a softer tone of each point's class. */
+/**
+ * Vertical interval bars under the points, in each mark's colour: heavy and darker where the specification
+ * is significant, light and thin where it is not.
+ */
 function intervalsPlugin(state) {
   return {
     id: 'intervalBars',
@@ -13,15 +16,21 @@ function intervalsPlugin(state) {
       const shaped = state.shaped;
       if (!shaped || !shaped.intervals) return;
       const { ctx, scales } = chart;
-      const { low, high, significance } = shaped.intervals;
+      const { low, high, significance, entryOf } = shaped.intervals;
       const step = (scales.x.getPixelForValue(1) - scales.x.getPixelForValue(0));
+      const groups = new Map();
+      for (let i = 0; i < low.length; i++) {
+        const s = significanceOf(significance[i]);
+        const id = `${entryOf[i].colour}/${s.key}`;
+        if (!groups.has(id)) groups.set(id, { colour: entryOf[i].colour, s, at: [] });
+        groups.get(id).at.push(i);
+      }
       ctx.save();
-      ctx.lineWidth = Math.max(0.6, Math.min(1.6, step * 0.5));
-      for (const s of SIGNIFICANCE) {
-        ctx.strokeStyle = s.soft;
+      for (const { colour, s, at } of groups.values()) {
+        ctx.strokeStyle = withAlpha(colour, s.intervalAlpha);
+        ctx.lineWidth = Math.max(0.5, Math.min(s.intervalWidth, step * (s.filled ? 0.6 : 0.3)));
         ctx.beginPath();
-        for (let i = 0; i < low.length; i++) {
-          if (significance[i] !== s.value) continue;
+        for (const i of at) {
           const x = scales.x.getPixelForValue(i);
           ctx.moveTo(x, scales.y.getPixelForValue(num(low[i])));
           ctx.lineTo(x, scales.y.getPixelForValue(num(high[i])));
@@ -67,6 +76,39 @@ function referencePlugin(state) {
           ctx.restore();
         }
       }
+    },
+  };
+}
+
+/** The null draws' band (state.nullBand), under everything else; the canvas records whether it was drawn. */
+function nullBandPlugin(state) {
+  return {
+    id: 'nullBand',
+    beforeDatasetsDraw(chart) {
+      const band = state.nullBand;
+      chart.canvas.dataset.nullBand = band ? 'drawn' : 'none';
+      if (!band) return;
+      const { ctx, chartArea, scales } = chart;
+      const top = Math.max(chartArea.top, scales.y.getPixelForValue(band.high));
+      const bottom = Math.min(chartArea.bottom, scales.y.getPixelForValue(band.low));
+      if (bottom <= top) return;
+      ctx.save();
+      ctx.fillStyle = PALETTE.nullBand;
+      ctx.fillRect(chartArea.left, top, chartArea.right - chartArea.left, bottom - top);
+      ctx.strokeStyle = PALETTE.nullLine;
+      ctx.setLineDash([1, 3]);
+      ctx.beginPath();
+      ctx.moveTo(chartArea.left, top);
+      ctx.lineTo(chartArea.right, top);
+      ctx.moveTo(chartArea.left, bottom);
+      ctx.lineTo(chartArea.right, bottom);
+      ctx.stroke();
+      ctx.fillStyle = PALETTE.nullLine;
+      ctx.font = `12px ${chart.options.font?.family || 'sans-serif'}`;
+      ctx.textAlign = 'right';
+      ctx.textBaseline = 'bottom';
+      ctx.fillText('null draws, middle 95% of medians', chartArea.right - 6, top - 2);
+      ctx.restore();
     },
   };
 }
@@ -144,6 +186,6 @@ export function curveConfig(state, yTitle, onHover, onClick) {
         },
       },
     },
-    plugins: [referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
+    plugins: [nullBandPlugin(state), referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
   };
 }

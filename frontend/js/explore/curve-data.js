@@ -1,13 +1,15 @@
 // Shapes the curve part of a /curve answer into Chart.js datasets (points or bins) and the numbers the
 // plugins draw (intervals, reference lines, groups). On a scale without intervals (the t statistic) the
-// answer's interval ends are null and nothing is drawn for them.
-import { PALETTE, SIGNIFICANCE, num } from '../helpers.js';
+// answer's interval ends are null and nothing is drawn for them. Marks are filled when significant and
+// hollow when not; their colour and shape are the colour key's (one ink, or the chosen decision's).
+import { PALETTE, num, significanceOf } from '../helpers.js';
+import { dominantEntries, entryAt } from './colour-by.js';
 
-export function curveData(view, withIntervals) {
+export function curveData(view, withIntervals, key, layout) {
   const curve = view.curve;
   const size = curve.count;
-  if (curve.mode === 'points') return pointsData(view, size, withIntervals);
-  return binsData(view, size, withIntervals);
+  if (curve.mode === 'points') return pointsData(view, size, withIntervals, key);
+  return binsData(view, size, withIntervals, key, layout);
 }
 
 /** Widens [lo, hi] to a value, ignoring undefined ones. */
@@ -19,12 +21,19 @@ function widen(range, value) {
   }
 }
 
-function pointsData(view, size, withIntervals) {
+function pointsData(view, size, withIntervals, key) {
   const p = view.curve.points;
-  const byClass = new Map(SIGNIFICANCE.map((s) => [s.value, []]));
+  // one dataset per key entry and significance class
+  const groups = new Map();
+  const entryOf = new Array(size);
   const range = { lo: 0, hi: 0 };
   for (let i = 0; i < size; i++) {
-    byClass.get(p.significance[i]).push({ x: i, y: num(p.estimate[i]) });
+    const entry = entryAt(key, p.levels, i);
+    const s = significanceOf(p.significance[i]);
+    entryOf[i] = entry;
+    const id = `${entry.level}/${s.key}`;
+    if (!groups.has(id)) groups.set(id, { entry, s, data: [] });
+    groups.get(id).data.push({ x: i, y: num(p.estimate[i]) });
     widen(range, p.estimate[i]);
     if (withIntervals) {
       widen(range, p.low[i]);
@@ -32,15 +41,15 @@ function pointsData(view, size, withIntervals) {
     }
   }
   const radius = size <= 150 ? 3.6 : size <= 600 ? 2.8 : size <= 1500 ? 2.1 : 1.6;
-  const datasets = SIGNIFICANCE.map((s) => ({
-    label: s.label,
-    data: byClass.get(s.value),
-    pointStyle: s.shape,
-    pointRadius: s.shape === 'triangle' ? radius * 1.2 : radius,
+  const datasets = [...groups.values()].map(({ entry, s, data }) => ({
+    label: entry.label === null ? s.label : `${entry.label}, ${s.label}`,
+    data,
+    pointStyle: entry.shape,
+    pointRadius: entry.shape === 'rectRot' || entry.shape === 'triangle' ? radius * 1.2 : radius,
     pointHoverRadius: radius,
-    pointBorderWidth: s.filled ? 0 : Math.max(1, radius * 0.4),
-    pointBackgroundColor: s.filled ? s.color : PALETTE.paper,
-    pointBorderColor: s.color,
+    pointBorderWidth: s.filled ? 0 : Math.max(1, radius * 0.45),
+    pointBackgroundColor: s.filled ? entry.colour : PALETTE.paper,
+    pointBorderColor: entry.colour,
     showLine: false,
     parsing: false,
     normalized: true,
@@ -50,12 +59,12 @@ function pointsData(view, size, withIntervals) {
     mode: 'points',
     size,
     datasets,
-    intervals: withIntervals ? { low: p.low, high: p.high, significance: p.significance } : null,
+    intervals: withIntervals ? { low: p.low, high: p.high, significance: p.significance, entryOf } : null,
     yRange: padded(range.lo, range.hi),
   };
 }
 
-function binsData(view, size, withIntervals) {
+function binsData(view, size, withIntervals, key, layout) {
   const b = view.curve.bins;
   const n = b.from.length;
   const centre = (i) => (b.from[i] + b.to[i] - 1) / 2;
@@ -69,16 +78,12 @@ function binsData(view, size, withIntervals) {
       widen(range, b.high[i]);
     }
   }
-  // the bin's dominant class colours its stretch of the median line
-  const dominant = Array.from({ length: n }, (_, i) => {
-    const size = b.to[i] - b.from[i];
-    const positive = b.significantPositive[i];
-    const negative = b.significantNegative[i];
-    const neutral = size - positive - negative;
-    if (positive >= negative && positive >= neutral) return 1;
-    if (negative >= neutral) return -1;
-    return 0;
+  // solid where most of the bin's specifications are significant, dashed where most are not
+  const mostlySignificant = Array.from({ length: n }, (_, i) => {
+    const significant = b.significantPositive[i] + b.significantNegative[i];
+    return significant * 2 >= b.to[i] - b.from[i];
   });
+  const entries = dominantEntries(key, layout, b);
   const line = { showLine: true, pointRadius: 0, parsing: false, normalized: true, borderWidth: 0, tension: 0 };
   const envelope = withIntervals ? [
     { ...line, label: 'interval envelope, low', data: series(b.low), fill: false, order: 5 },
@@ -93,20 +98,16 @@ function binsData(view, size, withIntervals) {
       label: 'median estimate',
       data: series(b.median),
       fill: false,
-      borderWidth: 2,
-      borderColor: PALETTE.ink,
+      borderWidth: 2.4,
+      borderColor: PALETTE.curve,
       segment: {
-        borderColor: (ctx) => colourOf(dominant[ctx.p0DataIndex]),
-        borderDash: (ctx) => (dominant[ctx.p0DataIndex] === 0 ? [4, 3] : undefined),
+        borderColor: (ctx) => entries[ctx.p0DataIndex].colour,
+        borderDash: (ctx) => (mostlySignificant[ctx.p0DataIndex] ? undefined : [4, 3]),
       },
       order: 1,
     },
   ];
   return { mode: 'bins', size, datasets, intervals: null, yRange: padded(range.lo, range.hi), binWidth: size / n };
-}
-
-function colourOf(value) {
-  return SIGNIFICANCE.find((s) => s.value === value).color;
 }
 
 /** The visible range: every interval and zero, with a margin. */

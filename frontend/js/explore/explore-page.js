@@ -4,7 +4,8 @@
 // marginal effects one outcome and coding at a time, every model together; the other scales are unit-free.
 import { Chart, drawMark } from '../chart-setup.js';
 import { getJson, ApiError } from '../api.js';
-import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num } from '../helpers.js';
+import { SIGNIFICANCE, PALETTE, append, clear, debounce, download, el, num, withAlpha } from '../helpers.js';
+import { PLAIN_SHAPE, colourKey } from './colour-by.js';
 import { count, drawClaim, drawTally, number, pValue, share } from '../numbers.js';
 import { curveConfig } from './curve-config.js';
 import { showSet, redraw } from './curve-actions.js';
@@ -20,12 +21,14 @@ const analysis = root.dataset.analysis;
 const run = root.dataset.run;
 const api = `/api/analyses/${encodeURIComponent(analysis)}/runs/${encodeURIComponent(run)}`;
 
-const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null };
+const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null,
+  colourKey: null };
 const influenceState = { influence: null };
 const dropped = new Set();
 let sort = 'estimate';
 let scale = 'fitted';
 let group = null;
+let colourBy = null;
 let inFlight = null;
 let detailsFor = null;
 
@@ -62,10 +65,12 @@ let influenceChart;
 function onHover(event, _elements, chart) {
   if (!state.view || state.view.curve.count === 0) return;
   const p = positionAt(chart, event, state.view.curve.count);
+  if (p === null) hideTip();
+  else placeTip(chart.canvas, event.x, event.y);
   if (p !== state.highlight) {
     state.highlight = p;
     redraw(curveChart, gridChart);
-    if (p !== null) details(p);
+    if (p !== null) tipFor(p);
   }
   chart.canvas.style.cursor = p === null ? 'default' : 'pointer';
 }
@@ -73,7 +78,10 @@ function onHover(event, _elements, chart) {
 function onClick(event, _elements, chart) {
   if (!state.view || state.view.curve.count === 0) return;
   const p = positionAt(chart, event, state.view.curve.count);
-  if (p !== null) openFit(p);
+  if (p !== null) {
+    details(p);
+    openFit(p);
+  }
 }
 
 function makeCharts() {
@@ -87,6 +95,7 @@ function makeCharts() {
   for (const canvas of [curveChart.canvas, gridChart.canvas]) {
     canvas.addEventListener('mouseleave', () => {
       state.highlight = null;
+      hideTip();
       redraw(curveChart, gridChart);
     });
   }
@@ -111,10 +120,15 @@ async function refresh() {
   state.view = view;
   state.highlight = null;
   detailsFor = null;
+  atCache.clear();
+  hideTip();
   noDetails();
   const ordered = sort === 'estimate' ? 'ordered by estimate'
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
   const interval = scaleInfo().interval;
+  state.nullBand = nullBand();
+  legend();
+  nullOverlay();
   showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
   showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
@@ -123,9 +137,44 @@ async function refresh() {
     + (view.leftOut > 0 ? ` (${count(view.leftOut)} more have no value on this scale)` : '')
     + (view.summary.count === 0 ? ': no specification is left; tick an alternative again.' : '');
   summaryCards(view.summary);
+  filterCounts(view);
   influenceTable(view.influence);
   caption(view);
-  history.replaceState(null, '', `?${query()}`);
+  history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
+}
+
+/**
+ * The null draws' band: where the middle 95% (2.5% to 97.5%) of the null draws' median estimates lie,
+ * from summary.json. The draws pool every specification's estimate as fitted, so the band is drawn only
+ * on that scale and when the run has a single comparable group (one set of units); null otherwise.
+ */
+function nullBand() {
+  const nul = state.layout.summary.null;
+  const q = nul && typeof nul === 'object' && nul.null_quantiles ? nul.null_quantiles.median_estimate : null;
+  if (!q || scale !== 'fitted' || state.layout.unitsDiffer) return null;
+  const low = num(q['2.5']);
+  const high = num(q['97.5']);
+  return Number.isFinite(low) && Number.isFinite(high) ? { low, high, median: num(q['50']), draws: nul.draws } : null;
+}
+
+/** Above the curve: what the band is, and the three joint tests beside it. */
+function nullOverlay() {
+  const box = clear(document.getElementById('null-overlay'));
+  const nul = state.layout.summary.null;
+  const band = state.nullBand;
+  box.hidden = !(nul && typeof nul === 'object');
+  if (box.hidden) return;
+  const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
+  const results = [['median', 'median estimate'], ['share_significant', 'share significant'],
+    ['stouffer', 'mean z (Stouffer)']].filter(([k]) => tests[k])
+    .map(([k, label]) => el('li', { id: `null-test-${k}` }, `${label}: ${drawClaim(tests[k].exceedances, tests[k].draws)}`));
+  append(box,
+    el('p', { id: 'null-band-note' }, band
+      ? `Shaded across the curve: the middle 95% of the median estimates of the run's ${count(band.draws)} null draws `
+        + `(${number(band.low)} to ${number(band.high)}), over every specification of the run; joint tests:`
+      : `The run has ${count(nul.draws)} null draws; their band is drawn only as fitted and when the run has one `
+        + 'comparable group (the draws\u2019 medians pool every estimate as fitted). Joint tests, whole run:'),
+    el('ul', {}, results));
 }
 
 function factorName(id) {
@@ -192,6 +241,11 @@ function summaryCards(s) {
     card('Positive estimate', share(s.sharePositive), `range ${number(s.min)} to ${number(s.max)}`, 'card-sign'));
 }
 
+function colouredBy() {
+  const key = state.colourKey;
+  return key.factor === null ? '' : `, coloured by its ${key.title} (see the legend)`;
+}
+
 function caption(view) {
   const c = document.getElementById('figure-caption');
   const n = view.curve.count;
@@ -200,15 +254,17 @@ function caption(view) {
   if (view.curve.mode === 'points') {
     c.textContent = `${on}Each of the ${count(n)} specifications is one mark: its key estimate`
       + (interval ? ` with its ${confidenceLabel()} confidence interval (vertical bar)` : '')
-      + '; the solid line is zero and the dashed line the median of the set. Below, '
-      + 'a mark in a row means the specification uses that alternative or control.';
+      + ', filled when significant and hollow when not'
+      + (interval ? ' (the bar heavy or light likewise)' : '')
+      + (colouredBy()) + '; the solid line is zero and the dashed line the median of the set. Below, '
+      + 'a tick in a row means the specification uses that alternative or control.';
   } else {
     const per = Math.round(n / view.curve.bins.from.length);
     c.textContent = `${on}${count(n)} specifications, about ${count(per)} per pixel column: the dark band spans their `
       + (interval ? `estimates, the pale band their ${confidenceLabel()} intervals, ` : 'estimates, ')
-      + 'the line is the median estimate (solid where '
-      + 'most are significant, coloured by sign; dashed where most are not). Below, the shade of a row is the share of '
-      + 'the column\u2019s specifications that use the alternative.';
+      + 'the line is the median estimate (solid where most are significant, dashed where most are not'
+      + (state.colourKey.factor === null ? ')' : `; coloured by the ${state.colourKey.title} most of them use)`)
+      + '. Below, the shade of a row is the share of the column\u2019s specifications that use the alternative.';
   }
 }
 
@@ -219,16 +275,78 @@ function noDetails() {
   box.append(el('p', { class: 'hint' }, 'No specification is selected. Point at one in the curve or the grid.'));
 }
 
-const details = debounce(async (position) => {
+// the specification at each position of the set shown, as the server answered (cleared with every new set)
+const atCache = new Map();
+
+async function specificationAt(position) {
+  if (!atCache.has(position)) atCache.set(position, getJson(`${api}/at?${query({ position })}`));
+  try {
+    return await atCache.get(position);
+  } catch (e) {
+    atCache.delete(position);
+    throw e;
+  }
+}
+
+/** Fills the details panel below the grid (on a click, a key, or a link to a specification). */
+async function details(position) {
   if (detailsFor === position) return;
   detailsFor = position;
   try {
-    const s = await getJson(`${api}/at?${query({ position })}`);
+    const s = await specificationAt(position);
     if (detailsFor === position) showDetails(s);
   } catch (e) {
-    showProblem(document.getElementById('spec-details'), e);
+    showProblem(clear(document.getElementById('spec-details')), e);
   }
-}, 40);
+}
+
+// ---- the tooltip that follows the pointer
+
+const tip = document.getElementById('curve-tip');
+
+/** Puts the tooltip beside a point of a canvas (canvas pixels), inside the figure, on the side with room. */
+function placeTip(canvas, x, y) {
+  const figure = document.getElementById('figure').getBoundingClientRect();
+  const box = canvas.getBoundingClientRect();
+  tip.hidden = false;
+  const gap = 14;
+  let left = box.left - figure.left + x + gap;
+  if (left + tip.offsetWidth > figure.width - 4) left = box.left - figure.left + x - gap - tip.offsetWidth;
+  let top = box.top - figure.top + y + gap;
+  if (top + tip.offsetHeight > figure.height - 4) top = box.top - figure.top + y - gap - tip.offsetHeight;
+  tip.style.left = `${Math.max(4, left)}px`;
+  tip.style.top = `${Math.max(4, top)}px`;
+}
+
+function hideTip() {
+  tip.hidden = true;
+}
+
+const tipFor = debounce(async (position) => {
+  try {
+    const s = await specificationAt(position);
+    if (state.highlight !== position) return;
+    clear(tip);
+    append(tip,
+      el('p', {}, el('strong', {}, `Specification ${s.spec}`), `, position ${count(s.position + 1)} of `
+        + `${count(state.view.curve.count)}`),
+      el('p', { class: 'tip-choices' }, s.choices.map((c) => `${c.decision}: ${c.label}`).join('; ')),
+      el('p', { id: 'tip-numbers' }, tipNumbers(s)));
+  } catch (e) {
+    clear(tip).append(el('p', { class: 'problem' }, e.message));
+  }
+}, 30);
+
+/** The pointed specification's value on the scale shown, its interval and p. */
+function tipNumbers(s) {
+  const value = { fitted: [s.estimate, s.ciLow, s.ciHigh], effect: [s.effect, s.effectLow, s.effectHigh],
+    standardized: [s.standardized, s.standardizedLow, s.standardizedHigh],
+    partial: [s.partialCorrelation, s.partialLow, s.partialHigh], t: [s.statistic, null, null] }[scale];
+  const [v, lo, hi] = value;
+  return `${scaleInfo().title} ${number(v, 4)}`
+    + (lo === null ? '' : `, ${confidenceLabel()} interval ${number(lo, 4)} to ${number(hi, 4)}`)
+    + `, p ${pValue(s.pValue)}, N ${count(s.nObs)}` + (state.layout.modelFactor >= 0 ? `, ${s.model}` : '');
+}
 
 function showDetails(s) {
   const box = clear(document.getElementById('spec-details'));
@@ -255,6 +373,11 @@ function showDetails(s) {
 }
 
 async function openFit(position) {
+  await openFitOf(async () => (await specificationAt(position)).spec, null);
+}
+
+/** Opens the full fit of a specification; `specOf` finds its number, `note` is said above the table. */
+async function openFitOf(specOf, note) {
   const dialog = document.getElementById('fit-dialog');
   const body = clear(document.getElementById('fit-body'));
   const title = document.getElementById('fit-title');
@@ -262,14 +385,43 @@ async function openFit(position) {
   append(body, el('p', {}, 'Fitting...'));
   if (!dialog.open) dialog.showModal();
   try {
-    const at = await getJson(`${api}/at?${query({ position })}`);
-    const view = await getJson(`${api}/specifications/${at.spec}/fit`);
+    const view = await getJson(`${api}/specifications/${await specOf()}/fit`);
     title.textContent = `Specification ${view.spec}: every coefficient`;
     fitBody(clear(body), view);
+    if (note) body.prepend(el('p', { class: 'notice', id: 'fit-note' }, note));
   } catch (e) {
     showProblem(clear(body), e);
   }
   document.getElementById('fit-close').focus();
+}
+
+/**
+ * Selects a specification named on the page (the smallest p, an end of the extreme bounds): highlighted in
+ * the curve and the grid with its details when the set shown holds it, and its full fit opened either way.
+ */
+async function selectSpecification(spec) {
+  let position = -1;
+  try {
+    position = (await getJson(`${api}/specifications/${spec}/position?${query()}`)).position;
+  } catch (e) {
+    showProblem(clear(document.getElementById('spec-details')), e);
+  }
+  if (position >= 0) {
+    state.highlight = position;
+    redraw(curveChart, gridChart);
+    details(position);
+    await openFit(position);
+  } else {
+    await openFitOf(async () => spec, `Specification ${spec} is not among the specifications shown (the filter or `
+      + 'the comparable group leaves it out), so it is not marked in the curve.');
+  }
+}
+
+/** A link-like button that selects and opens a specification. */
+function specLink(spec, id) {
+  const b = el('button', { type: 'button', class: 'link spec-link', id, 'data-spec': spec }, `specification ${spec}`);
+  b.addEventListener('click', () => selectSpecification(spec));
+  return b;
 }
 
 function fitBody(body, view) {
@@ -342,7 +494,14 @@ function keyboard(event) {
   event.preventDefault();
   state.highlight = p;
   redraw(curveChart, gridChart);
-  if (p !== null) details(p);
+  if (p === null) {
+    hideTip();
+    return;
+  }
+  details(p);
+  const area = curveChart.chartArea;
+  placeTip(curveChart.canvas, curveChart.scales.x.getPixelForValue(p), area.top + 10);
+  tipFor(p);
 }
 
 // ---- panels built once from the layout
@@ -387,7 +546,20 @@ function checkbox(factor, level, label) {
     refresh();
   });
   return el('label', { for: id }, box, el('span', {}, label),
-    el('span', { class: 'count', title: 'fitted specifications using it' }, count(factor.counts[level])));
+    el('span', { class: 'count', 'data-count': key }, count(factor.counts[level])));
+}
+
+/** Each alternative's count: how many of the specifications shown use it (the run's own count beside). */
+function filterCounts(view) {
+  for (const f of state.layout.factors) {
+    f.levels.forEach((_, level) => {
+      const span = document.querySelector(`[data-count="${f.id}.${level}"]`);
+      if (!span) return;
+      span.textContent = count(view.counts[f.id][level]);
+      span.title = `${count(view.counts[f.id][level])} of the ${count(view.summary.count)} specifications shown use it;`
+        + ` ${count(f.counts[level])} of the run's ${count(state.layout.fitted)}`;
+    });
+  }
 }
 
 function sortSelect(layout) {
@@ -452,28 +624,89 @@ function scaleControls() {
   }
 }
 
+/**
+ * What the figure's marks mean, for the page's legend and the exported figure alike: fill and interval
+ * weight for significance, then (when coloured by a decision) each alternative's colour and shape.
+ */
+function legendEntries() {
+  const alpha = number(1 - state.layout.confidence, 2);
+  const interval = scaleInfo().interval;
+  const key = state.colourKey;
+  const entries = SIGNIFICANCE.map((s) => ({
+    kind: 'significance', shape: PLAIN_SHAPE, filled: s.filled, colour: PALETTE.curve, bar: interval ? s : null,
+    text: `${s.label} (p ${s.filled ? '<' : '\u2265'} ${alpha})${interval ? (s.filled ? ', heavy interval' : ', light interval') : ''}`,
+  }));
+  if (state.nullBand) {
+    entries.push({ kind: 'band', text: 'middle 95% of the null draws\u2019 median estimates' });
+  }
+  if (key.factor !== null) {
+    entries.push({ kind: 'title', text: `Colour: ${key.title}` });
+    for (const e of key.entries) {
+      entries.push({ kind: 'alternative', shape: e.shape, filled: true, colour: e.colour, bar: null, text: e.label });
+    }
+  }
+  return entries;
+}
+
+/** Draws a legend entry's mark (and its interval bar) centred at x, y, of radius r. */
+function legendMark(ctx, entry, x, y, r) {
+  if (entry.kind === 'band') {
+    ctx.fillStyle = PALETTE.nullBand;
+    ctx.fillRect(x - r * 1.6, y - r, r * 3.2, r * 2);
+    ctx.strokeStyle = PALETTE.nullLine;
+    ctx.lineWidth = Math.max(1, r / 5);
+    ctx.strokeRect(x - r * 1.6, y - r, r * 3.2, r * 2);
+    return;
+  }
+  if (entry.bar) {
+    ctx.strokeStyle = withAlpha(entry.colour, entry.bar.intervalAlpha);
+    ctx.lineWidth = entry.bar.intervalWidth * r / 4;
+    ctx.beginPath();
+    ctx.moveTo(x, y - r * 1.9);
+    ctx.lineTo(x, y + r * 1.9);
+    ctx.stroke();
+  }
+  drawMark(ctx, entry.shape, entry.filled, entry.colour, x, y, r);
+}
+
 function legend() {
   const list = clear(document.getElementById('legend'));
-  for (const s of SIGNIFICANCE) {
+  for (const entry of legendEntries()) {
+    if (entry.kind === 'title') {
+      list.append(el('li', { class: 'legend-title' }, entry.text));
+      continue;
+    }
     const canvas = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
     canvas.style.width = '14px';
     canvas.style.height = '14px';
-    const ctx = canvas.getContext('2d');
-    drawMark(ctx, s.shape, s.filled, s.color, 14, 15, 8);
-    list.append(el('li', {}, canvas, `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-      + `${number(1 - state.layout.confidence, 2)})`));
+    legendMark(canvas.getContext('2d'), entry, 14, 14, 7);
+    list.append(el('li', { class: entry.kind === 'alternative' ? 'legend-alternative' : entry.kind === 'band' ? 'legend-band' : null },
+      canvas, entry.text));
   }
-  const bar = el('canvas', { width: 28, height: 28, 'aria-hidden': 'true' });
-  bar.style.width = '14px';
-  bar.style.height = '14px';
-  const b = bar.getContext('2d');
-  b.strokeStyle = PALETTE.neutralSoft;
-  b.lineWidth = 4;
-  b.beginPath();
-  b.moveTo(14, 2);
-  b.lineTo(14, 26);
-  b.stroke();
-  list.append(el('li', {}, bar, `${confidenceLabel()} confidence interval`));
+}
+
+function colourSelect(layout) {
+  const select = document.getElementById('colour-by');
+  select.append(el('option', { value: '' }, 'nothing (one ink)'));
+  for (const f of layout.factors) {
+    select.append(el('option', { value: String(f.id) }, f.control ? `${f.name} (in or out)` : f.name));
+  }
+  select.value = colourBy === null ? '' : String(colourBy);
+  select.addEventListener('change', () => {
+    colourBy = select.value === '' ? null : Number(select.value);
+    recolour();
+    history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
+  });
+}
+
+/** A new colour key: the same set drawn again, no request. */
+function recolour() {
+  state.colourKey = colourKey(state.layout, colourBy);
+  legend();
+  if (!state.view) return;
+  showSet(curveChart, state, curveChart.options.scales.x.title.text, state.view.unit, scaleInfo().interval);
+  gridChart.draw();
+  caption(state.view);
 }
 
 function wholeRun(summary) {
@@ -505,7 +738,8 @@ function wholeRun(summary) {
   warning.hidden = warning.textContent === '';
   const best = summary.best;
   if (best && typeof best === 'object') {
-    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`, `specification ${best.spec}, as reported alone`));
+    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`,
+      [specLink(best.spec, 'best-spec-link'), ', as reported alone']));
     const t = tally(best.adjusted_test, best.p_adjusted);
     box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
       t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
@@ -514,21 +748,109 @@ function wholeRun(summary) {
   // the run's bounds are over every estimate as fitted: shown only when those share their units
   if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
     box.append(card('Extreme bounds', `${number(bounds.lower)} to ${number(bounds.upper)}`,
-      bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign'));
+      [bounds.same_sign ? 'lowest and highest interval bounds share a sign' : 'the bounds differ in sign',
+        ...(bounds.lower_spec ? ['; lowest in ', specLink(bounds.lower_spec, 'lower-bound-link')] : []),
+        ...(bounds.upper_spec ? [', highest in ', specLink(bounds.upper_spec, 'upper-bound-link')] : [])]));
   }
   const shown = new Set(['null', 'best', 'interval_bounds', 'influence', 'influence_overall']);
   const more = el('details', { class: 'more-sections', id: 'more-sections' },
     el('summary', {}, 'Further sections of summary.json'));
+  if (nul && typeof nul === 'object') more.append(...nullTables(nul));
   for (const [key, value] of Object.entries(summary)) {
     if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
-    const rows = Object.entries(value).filter(([, v]) => v === null || typeof v !== 'object')
-      .map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, k.replaceAll('_', ' ')),
-        el('td', {}, typeof v === 'number' ? number(v, 4) : String(v ?? '\u2013'))));
-    more.append(el('table', { class: 'sections-table' }, el('caption', {}, key.replaceAll('_', ' ')),
-      el('tbody', {}, rows)));
+    if (key === 'comparable_groups' && Array.isArray(value.groups)) {
+      more.append(...groupTables(value));
+      continue;
+    }
+    more.append(keyValueTable(SECTION_TITLES[key] || words(key), value));
   }
   if (more.childElementCount > 1) document.getElementById('whole-run-cards').after(more);
   document.getElementById('whole-run').hidden = box.childElementCount === 0 && more.childElementCount <= 1;
+}
+
+const SECTION_TITLES = { overfitting: 'Overfitting checks', provenance: 'How the run was made',
+  comparable_groups: 'Comparable groups' };
+const KEY_WORDS = {
+  min_rows_per_coefficient: 'fewest rows per coefficient', rows_per_coefficient_floor: 'rows per coefficient asked for',
+  few_rows: 'specifications with fewer rows per coefficient', r2_not_above_null_expectation:
+    'specifications whose R\u00b2 is not above what noise gives', model_p_not_significant:
+    'specifications whose model test is not significant', plan_sha256: 'plan (SHA-256)', data_sha256: 'data (SHA-256)',
+  n_obs: 'rows used', file: 'file',
+};
+
+function words(key) {
+  return KEY_WORDS[key] || key.replaceAll('_', ' ');
+}
+
+function cell(v) {
+  if (typeof v === 'number') return number(v, 4);
+  if (v === null || v === undefined) return '\u2013';
+  if (typeof v === 'object') return Object.entries(v).map(([k, x]) => `${words(k)}: ${cell(x)}`).join('; ');
+  return String(v);
+}
+
+/** A section of plain values as a two-column table (nested values written out in words). */
+function keyValueTable(title, section) {
+  const rows = Object.entries(section).map(([k, v]) => el('tr', {}, el('th', { scope: 'row' }, words(k)),
+    el('td', {}, cell(v))));
+  return el('table', { class: 'sections-table' }, el('caption', {}, title), el('tbody', {}, rows));
+}
+
+function table(id, title, headers, rows) {
+  return el('div', { class: 'table-scroll' }, el('table', { class: 'sections-table', id }, el('caption', {}, title),
+    el('thead', {}, el('tr', {}, headers.map((h) => el('th', { scope: 'col' }, h)))), el('tbody', {}, rows)));
+}
+
+/** The observed curve's statistics against the middle of the null draws'. */
+function nullTables(nul) {
+  const observed = nul.observed || {};
+  const q = nul.null_quantiles || {};
+  const stats = [['median_estimate', 'median estimate', observed.median_estimate],
+    ['share_significant', `share significant in the dominant sign (${observed.dominant_sign || '\u2013'})`,
+      observed.share_significant], ['mean_z', 'mean z (Stouffer)', observed.mean_z]];
+  const rows = stats.map(([key, label, value]) => {
+    const quantiles = q[key] || {};
+    const format = key === 'share_significant' ? share : (v) => number(v, 4);
+    return el('tr', {}, el('th', { scope: 'row' }, label), ...[value, quantiles['2.5'], quantiles['50'],
+      quantiles['97.5']].map((v) => el('td', { class: 'num' }, Number.isFinite(num(v)) ? format(num(v)) : '\u2013')));
+  });
+  const facts = keyValueTable('The null draws', {
+    draws: nul.draws, method: nul.method, resampled: nul.resampled === 'clusters' ? `clusters of ${nul.cluster}`
+      : nul.resampled, seed: nul.seed, specifications: nul.specifications, failed_fits: nul.failed_fits,
+    empty_draws: nul.empty_draws, seconds: nul.seconds, file: nul.file,
+  });
+  facts.id = 'null-facts';
+  return [table('null-quantiles', 'Observed curve against the null draws', ['Statistic', 'observed',
+    'null 2.5%', 'null median', 'null 97.5%'], rows), facts];
+}
+
+/** Per comparable group: information-criterion weights, P(coefficient <= 0) and inclusion probabilities. */
+function groupTables(section) {
+  const groups = section.groups;
+  const withModel = groups.some((g) => g.model && g.model !== 'ols');
+  const name = (g) => `${g.outcome} on ${g.predictor}${withModel ? `, ${g.model}` : ''}`
+    + (g.rows && Object.keys(g.rows).length ? ` (${Object.entries(g.rows).map(([d, l]) => `${d} ${l}`).join(', ')})` : '');
+  const weights = groups.map((g, i) => el('tr', {}, el('th', { scope: 'row' }, name(g)),
+    el('td', { class: 'num' }, count(g.specifications)), el('td', { class: 'num' }, count(g.n_obs)),
+    el('td', { class: 'num' }, number(g.bic?.weighted_estimate, 4)),
+    el('td', { class: 'num' }, number(g.bic?.weighted_std_error, 4)),
+    el('td', {}, g.bic?.best_spec ? specLink(g.bic.best_spec, `group-best-${i}`) : '\u2013',
+      g.bic?.best_spec ? ` (weight ${share(g.bic.best_weight)})` : ''),
+    ...['normal', 'non_normal', 'normal_unweighted', 'non_normal_unweighted']
+      .map((k) => el('td', { class: 'num' }, number(g.cdf_at_zero?.[k], 3)))));
+  const out = [el('p', { class: 'hint' }, section.note || ''),
+    table('group-weights', 'Comparable groups: weighted by the BIC, and P(coefficient \u2264 0)',
+      ['Group', 'Specifications', 'Rows', 'BIC-weighted estimate', 'its std. error', 'Heaviest specification',
+        'CDF(0), normal', 'CDF(0), non-normal', 'CDF(0), normal, unweighted', 'CDF(0), non-normal, unweighted'],
+      weights)];
+  const controls = [...new Set(groups.flatMap((g) => Object.keys(g.bic?.inclusion || {})))];
+  if (controls.length > 0) {
+    out.push(table('group-inclusion', 'Posterior inclusion probability of each control (BIC weights), by group',
+      ['Control', ...groups.map(name)], controls.map((c) => el('tr', {}, el('th', { scope: 'row' }, c),
+        ...groups.map((g) => el('td', { class: 'num' }, c in (g.bic?.inclusion || {})
+          ? share(g.bic.inclusion[c]) : 'in all or none'))))));
+  }
+  return out;
 }
 
 function influenceTable(influence) {
@@ -569,37 +891,57 @@ function exportPng() {
   const top = curveChart.canvas;
   const bottom = gridChart.canvas;
   const ratio = top.width / top.clientWidth;
-  const band = Math.round(52 * ratio);
+  const width = Math.max(top.width, bottom.width);
+  const font = `${Math.round(12 * ratio)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  const line = 20 * ratio;
+  const margin = Math.round(16 * ratio);
+  // the legend as on the page, laid out in lines across the figure's width, then the scale's line
+  const measure = document.createElement('canvas').getContext('2d');
+  measure.font = font;
+  const placed = [];
+  let x = margin;
+  let row = 0;
+  for (const entry of legendEntries()) {
+    const w = measure.measureText(entry.text).width + (entry.kind === 'title' ? 18 : 34) * ratio;
+    if (x > margin && x + w > width - margin) {
+      x = margin;
+      row++;
+    }
+    placed.push({ entry, x, row });
+    x += w;
+  }
+  // the scale's line, broken at spaces to the figure's width
+  const scaleWords = (`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: `
+    + `${state.view.unit}` + (scaleInfo().interval ? `; bars: ${confidenceLabel()} confidence intervals`
+    : '; no interval on this scale')).split(' ');
+  const scaleLines = [''];
+  for (const word of scaleWords) {
+    const last = scaleLines[scaleLines.length - 1];
+    const longer = last ? `${last} ${word}` : word;
+    if (last && measure.measureText(longer).width > width - 2 * margin) scaleLines.push(word);
+    else scaleLines[scaleLines.length - 1] = longer;
+  }
+  const band = Math.round((row + 1 + scaleLines.length) * line + 8 * ratio);
   const canvas = document.createElement('canvas');
-  canvas.width = Math.max(top.width, bottom.width);
+  canvas.width = width;
   canvas.height = band + top.height + bottom.height;
   const ctx = canvas.getContext('2d');
   ctx.fillStyle = PALETTE.paper;
   ctx.fillRect(0, 0, canvas.width, canvas.height);
-  // the legend, as on the page, above the panels
-  ctx.font = `${Math.round(12 * ratio)}px ${getComputedStyle(document.documentElement).fontFamily}`;
+  ctx.font = font;
   ctx.textBaseline = 'middle';
-  let x = Math.round(16 * ratio);
-  const y = band / 4 + 2 * ratio;
-  const entries = SIGNIFICANCE.map((s) => ({ s, text: `${s.label} (p ${s.value === 0 ? '\u2265' : '<'} `
-    + `${number(1 - state.layout.confidence, 2)})` }));
-  for (const { s, text } of entries) {
-    drawMark(ctx, s.shape, s.filled, s.color, x + 5 * ratio, y, 4.5 * ratio);
+  for (const { entry, x: at, row: r } of placed) {
+    const y = line * (r + 0.5) + 4 * ratio;
+    if (entry.kind === 'title') {
+      ctx.fillStyle = PALETTE.ink;
+      ctx.fillText(entry.text, at, y);
+      continue;
+    }
+    legendMark(ctx, entry, at + 5 * ratio, y, 4.5 * ratio);
     ctx.fillStyle = PALETTE.ink;
-    ctx.fillText(text, x + 14 * ratio, y);
-    x += ctx.measureText(text).width + 34 * ratio;
+    ctx.fillText(entry.text, at + 14 * ratio, y);
   }
-  ctx.strokeStyle = PALETTE.neutralSoft;
-  ctx.lineWidth = 2 * ratio;
-  ctx.beginPath();
-  ctx.moveTo(x + 5 * ratio, y - 7 * ratio);
-  ctx.lineTo(x + 5 * ratio, y + 7 * ratio);
-  ctx.stroke();
-  ctx.fillStyle = PALETTE.ink;
-  ctx.fillText(scaleInfo().interval ? `${confidenceLabel()} confidence interval` : 'no interval on this scale',
-    x + 14 * ratio, y);
-  ctx.fillText(`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: ${state.view.unit}`,
-    Math.round(16 * ratio), band * 3 / 4);
+  scaleLines.forEach((text, k) => ctx.fillText(text, margin, line * (row + 1.5 + k) + 4 * ratio));
   ctx.drawImage(top, 0, band);
   ctx.drawImage(bottom, 0, band + top.height);
   canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');
@@ -612,6 +954,7 @@ async function start() {
   if (params.get('sort')) sort = params.get('sort');
   if (params.get('scale')) scale = params.get('scale');
   if (params.get('group')) group = Number(params.get('group'));
+  if (params.get('colour')) colourBy = Number(params.get('colour'));
   (params.get('drop') || '').split(',').filter(Boolean).forEach((d) => dropped.add(d));
   let layout;
   try {
@@ -629,7 +972,9 @@ async function start() {
   filterPanel(layout);
   scaleSelect(layout);
   sortSelect(layout);
-  legend();
+  if (colourBy !== null && !layout.factors[colourBy]) colourBy = null;
+  state.colourKey = colourKey(layout, colourBy);
+  colourSelect(layout);
   wholeRun(layout.summary);
   unfitted(layout);
   makeCharts();

@@ -6,6 +6,13 @@ import { highlightPlugin, xScale } from './highlight.js';
 
 const MAX_LABEL = 30;
 
+/** The colour of a display row's marks: its alternative's when the figure is coloured by its factor. */
+function rowColour(state, row) {
+  const key = state.colourKey;
+  if (!key || key.factor === null || row.header || row.factor !== key.factor) return PALETTE.mark;
+  return key.entries[row.level].colour;
+}
+
 function marksPlugin(state) {
   return {
     id: 'choiceMarks',
@@ -14,27 +21,35 @@ function marksPlugin(state) {
       if (!marks) return;
       const { ctx, chartArea, scales } = chart;
       const rowHeight = Math.abs(scales.y.getPixelForValue(1) - scales.y.getPixelForValue(0));
+      const rows = state.grid.rows;
       ctx.save();
-      // a pale band behind each decision's rows helps the eye follow a row across
-      state.grid.rows.forEach((r, i) => {
-        if (r.header) {
-          const y = scales.y.getPixelForValue(i);
-          ctx.strokeStyle = PALETTE.rule;
-          ctx.beginPath();
-          ctx.moveTo(chartArea.left, y + rowHeight / 2);
-          ctx.lineTo(chartArea.right, y + rowHeight / 2);
-          ctx.stroke();
+      // every other decision's rows on a faint shade, so that the eye keeps to one decision across
+      let decision = -1;
+      let top = null;
+      const shadeTo = (end) => {
+        if (top !== null && decision % 2 === 1) {
+          ctx.fillStyle = PALETTE.decisionShade;
+          ctx.fillRect(chartArea.left, top, chartArea.right - chartArea.left, end - top);
         }
+      };
+      rows.forEach((r, i) => {
+        if (!r.header) return;
+        const y = scales.y.getPixelForValue(i) - rowHeight / 2;
+        shadeTo(y);
+        decision++;
+        top = y;
       });
-      ctx.fillStyle = PALETTE.mark;
+      shadeTo(scales.y.getPixelForValue(rows.length - 1) + rowHeight / 2);
       if (marks.mode === 'points') {
+        // a thin upright tick per specification and alternative, as tall as most of the row
         const column = scales.x.getPixelForValue(1) - scales.x.getPixelForValue(0);
-        const w = Math.max(1.5, Math.min(7, column * 0.72));
-        const h = Math.max(2, Math.min(rowHeight * 0.62, w < 3 ? rowHeight * 0.62 : w));
+        const w = Math.max(1, Math.min(3, column * 0.45));
+        const h = rowHeight * 0.7;
         const m = marks.marks;
         for (let k = 0; k < m.length; k += 2) {
           const x = scales.x.getPixelForValue(m[k]);
           const y = scales.y.getPixelForValue(m[k + 1]);
+          ctx.fillStyle = rowColour(state, rows[m[k + 1]]);
           ctx.fillRect(x - w / 2, y - h / 2, w, h);
         }
       } else {
@@ -43,6 +58,7 @@ function marksPlugin(state) {
           const x0 = scales.x.getPixelForValue(c.from - 0.5);
           const x1 = scales.x.getPixelForValue(c.to - 0.5);
           const y = scales.y.getPixelForValue(c.row);
+          ctx.fillStyle = rowColour(state, rows[c.row]);
           ctx.globalAlpha = c.share;
           ctx.fillRect(x0, y - h / 2, Math.max(1, x1 - x0), h);
         }

@@ -174,11 +174,11 @@ class ExplorerBrowserTest {
         WebElement curve = driver.findElement(By.id("curve-canvas"));
         new Actions(driver).moveToElement(curve, 120, 0).perform();
         WebElement details = wait.until(d -> {
-            WebElement e = d.findElement(By.id("spec-numbers"));
+            WebElement e = d.findElement(By.id("tip-numbers"));
             return e.isDisplayed() ? e : null;
         });
-        String estimate = match(details.getText(), "Estimate (-?[0-9.,]+)");
-        String spec = match(driver.findElement(By.cssSelector("#spec-details strong")).getText(), "Specification (\\d+)");
+        String estimate = match(details.getText(), "as fitted (-?[0-9.,]+)");
+        String spec = match(driver.findElement(By.cssSelector("#curve-tip strong")).getText(), "Specification (\\d+)");
         BrowserDriver.screenshot(driver, "4-hover");
         driver.executeScript("document.getElementById('influence-title').scrollIntoView()");
         BrowserDriver.screenshot(driver, "4-influence");
@@ -259,8 +259,13 @@ class ExplorerBrowserTest {
         new Select(driver.findElement(By.id("scale"))).selectByValue("partial");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
+        // coloured by a decision in the reduced drawing: each column's median line takes its most used alternative
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("fixed effects");
+        assertEquals(List.of("none", "region"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
+                .stream().map(WebElement::getText).toList());
+        assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("coloured by the fixed effects most"));
         new Actions(driver).moveToElement(driver.findElement(By.id("grid-canvas")), 200, 0).perform();
-        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("spec-details"), "Specification"));
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("curve-tip"), "Specification"));
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "8-explore-reduced");
     }
@@ -335,6 +340,10 @@ class ExplorerBrowserTest {
         assertTrue(effectMedian.startsWith("Median, average marginal effect"), effectMedian);
         assertNotEquals(logitMedian.split("\n")[1], effectMedian.split("\n")[1], "the median follows the scale");
         assertTrue(!driver.findElement(By.id("group")).isDisplayed(), "one group of effects: no selector");
+        // colour by the model decision: which model sits where on the common scale
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("model");
+        assertEquals(List.of("ols", "logit"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
+                .stream().map(WebElement::getText).toList());
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "9-explore-effect");
 
@@ -343,6 +352,149 @@ class ExplorerBrowserTest {
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"),
                 "Showing 4 of 8 specifications (4 more have no value on this scale)"));
         assertTrue(driver.findElement(By.id("scale-note")).getText().contains("4 specifications of the set fit a logit"));
+    }
+
+    /** One outcome and one coding (a single comparable group, so the run's bounds are shown) and 20 null draws. */
+    private static final String ONE_GROUP_PLAN = """
+            {
+              "title": "Outreach and turnout, one group",
+              "data": "data.csv",
+              "seed": 7,
+              "nullDraws": 20,
+              "decisions": [
+                {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "turnout", "column": "turnout"}]},
+                {"name": "outreach", "kind": "predictor", "alternatives": [
+                  {"label": "hours", "column": "outreach_hours"}]},
+                {"name": "controls", "kind": "controls", "optional": ["median_age", "rainfall", "income_index"]},
+                {"name": "rows", "kind": "sample", "alternatives": [
+                  {"label": "all"},
+                  {"label": "urban", "keep": "urban == 1"},
+                  {"label": "trimmed", "trim": {"column": "turnout", "z": 2.5}}]},
+                {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1"]}
+              ]
+            }
+            """;
+
+    @Test
+    void colourByADecisionTheTooltipTheLinksTheNullBandAndTheNarrowLayout() throws Exception {
+        String id = upload();
+        HttpResponse<String> started = HttpClient.newHttpClient().send(
+                HttpRequest.newBuilder(URI.create(base() + "/api/analyses/" + id + "/runs"))
+                        .header("Content-Type", "application/json")
+                        .POST(HttpRequest.BodyPublishers.ofString(ONE_GROUP_PLAN)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(202, started.statusCode(), started.body());
+        String runId = match(started.body(), "\"id\":\"([0-9a-z-]+)\"");
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(90));
+        driver.get(base() + "/analyses/" + id + "/runs/" + runId);
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 48 of 48"));
+
+        // colour by the rows decision: the legend lists its alternatives, and the choice stays in the address
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("rows");
+        wait.until(d -> d.getCurrentUrl().contains("colour=5"));
+        assertEquals(List.of("all", "urban", "trimmed"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
+                .stream().map(WebElement::getText).toList());
+        assertTrue(driver.findElement(By.id("legend")).getText().contains("Colour: rows"));
+        assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("coloured by its rows"));
+        new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("rainfall (in or out)");
+        assertEquals(List.of("without rainfall", "with rainfall"), driver.findElements(
+                By.cssSelector("#legend .legend-alternative")).stream().map(WebElement::getText).toList());
+
+        // the exported figure carries the colours, the null band and their legend
+        try (var old = Files.list(TEMP.resolve("downloads"))) {
+            for (Path f : old.filter(f -> f.toString().endsWith(".png")).toList()) {
+                Files.delete(f);
+            }
+        }
+        click(driver.findElement(By.id("export-png")));
+        Path png = waitForSuffix(".png");
+        byte[] head = Arrays.copyOf(Files.readAllBytes(png), 8);
+        assertArrayEquals(new byte[] {(byte) 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n'}, head);
+        Files.copy(png, Path.of("target", "screenshots", "12-exported-colour-by.png"),
+                java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+
+        // the null draws' band is drawn under the curve, the three joint tests beside it
+        assertEquals("drawn", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
+        assertTrue(driver.findElement(By.cssSelector("#legend .legend-band")).getText().contains("null draws"));
+        String overlay = driver.findElement(By.id("null-overlay")).getText();
+        for (String test : List.of("median estimate: p", "share significant: p", "mean z (Stouffer): p")) {
+            assertTrue(overlay.contains(test), overlay);
+        }
+        // the further sections as tables: observed against the null, the groups' weights, inclusion
+        driver.findElement(By.cssSelector("#more-sections summary")).click();
+        assertTrue(driver.findElement(By.id("null-quantiles")).getText().contains("median estimate"));
+        assertTrue(driver.findElement(By.id("group-weights")).getText().contains("turnout on hours"));
+        JsonNode summary = Json.MAPPER.readTree(HttpClient.newHttpClient().send(HttpRequest.newBuilder(
+                URI.create(base() + "/analyses/" + id + "/runs/" + runId + "/files/summary.json")).build(),
+                HttpResponse.BodyHandlers.ofString()).body());
+        java.util.Set<String> included = new java.util.LinkedHashSet<>();
+        for (JsonNode g : summary.path("comparable_groups").path("groups")) {
+            g.path("bic").path("inclusion").propertyNames().forEach(included::add);
+        }
+        assertTrue(!included.isEmpty());
+        assertEquals(List.copyOf(included), driver.findElements(By.cssSelector("#group-inclusion tbody th")).stream()
+                .map(WebElement::getText).toList(), "one row per control with an inclusion probability in some group");
+        assertEquals(summary.path("comparable_groups").path("groups").size(),
+                driver.findElements(By.cssSelector("#group-weights tbody tr")).size());
+
+        // the tooltip follows the pointer: beside it, with the pointed specification's numbers
+        WebElement curve = driver.findElement(By.id("curve-canvas"));
+        driver.executeScript("arguments[0].scrollIntoView({block: 'center'})", curve);
+        for (int dx : new int[] {-150, 100}) {
+            new Actions(driver).moveToElement(curve, dx, 10).perform();
+            WebElement tip = wait.until(d -> {
+                WebElement t = d.findElement(By.id("curve-tip"));
+                return t.isDisplayed() && !t.findElements(By.id("tip-numbers")).isEmpty() ? t : null;
+            });
+            assertTrue(tip.getText().contains("rows: "), tip.getText());
+            org.openqa.selenium.Rectangle c = curve.getRect();
+            double pointerX = c.getX() + c.getWidth() / 2.0 + dx;
+            double pointerY = c.getY() + c.getHeight() / 2.0 + 10;
+            org.openqa.selenium.Rectangle t = tip.getRect();
+            double distanceX = Math.max(0, Math.max(t.getX() - pointerX, pointerX - (t.getX() + t.getWidth())));
+            double distanceY = Math.max(0, Math.max(t.getY() - pointerY, pointerY - (t.getY() + t.getHeight())));
+            assertTrue(distanceX <= 30 && distanceY <= 30, "the tooltip sits beside the pointer: " + t + " vs "
+                    + pointerX + "," + pointerY);
+        }
+        BrowserDriver.screenshot(driver, "10-colour-by-and-tooltip");
+        new Actions(driver).moveToElement(driver.findElement(By.id("figure-title"))).perform();
+
+        // the smallest p and the ends of the bounds open their specifications
+        for (String[] link : new String[][] {{"best-spec-link", String.valueOf(summary.path("best").path("spec").asLong())},
+                {"lower-bound-link", String.valueOf(summary.path("interval_bounds").path("lower_spec").asLong())},
+                {"upper-bound-link", String.valueOf(summary.path("interval_bounds").path("upper_spec").asLong())}}) {
+            click(driver.findElement(By.id(link[0])));
+            wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("fit-table")));
+            assertTrue(driver.findElement(By.id("fit-title")).getText().startsWith("Specification " + link[1] + ":"),
+                    driver.findElement(By.id("fit-title")).getText());
+            driver.findElement(By.id("fit-close")).click();
+            wait.until(d -> !d.findElement(By.id("fit-dialog")).isDisplayed());
+            assertEquals("Specification " + link[1], driver.findElement(By.cssSelector("#spec-details strong")).getText(),
+                    "selected in the curve, its details below the grid");
+        }
+
+        // from 800 px up nothing covers anything: the choices panel goes above, in the flow of the page
+        for (int width : new int[] {800, 900}) {
+            driver.manage().window().setSize(new org.openqa.selenium.Dimension(width, 1100));
+            Thread.sleep(400);
+            for (String other : List.of("summary-cards", "figure-title", "figure", "influence-table", "whole-run-cards")) {
+                driver.executeScript("document.getElementById(arguments[0]).scrollIntoView({block: 'center'})", other);
+                assertTrue(!overlaps(By.cssSelector(".filters"), By.id(other)),
+                        "at " + width + " px the choices panel covers #" + other);
+            }
+            assertTrue(!overlaps(By.id("curve-box"), By.id("grid-box")), "the curve and the grid stay apart");
+            BrowserDriver.screenshot(driver, "11-layout-" + width);
+        }
+        driver.manage().window().setSize(new org.openqa.selenium.Dimension(1440, 1800));
+    }
+
+    /** Whether two elements' boxes, as the page lays them out now (in the window), intersect. */
+    private static boolean overlaps(By a, By b) {
+        Object hit = driver.executeScript("const r = arguments[0].getBoundingClientRect();"
+                + "const s = arguments[1].getBoundingClientRect();"
+                + "return r.width > 0 && s.width > 0 && r.left < s.right && s.left < r.right && r.top < s.bottom"
+                + " && s.top < r.bottom;", driver.findElement(a), driver.findElement(b));
+        return Boolean.TRUE.equals(hit);
     }
 
     private String upload() throws Exception {

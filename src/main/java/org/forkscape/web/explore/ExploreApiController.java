@@ -54,6 +54,19 @@ class ExploreApiController {
         return explore.at(a, lookup.run(a, run), drop, sort, scale, group, position);
     }
 
+    /** Where a specification sits in the curve under the given filter, order and scale: -1 when not shown. */
+    @GetMapping("/specifications/{spec}/position")
+    ExploreViews.PositionView position(@PathVariable String analysis, @PathVariable String run,
+            @PathVariable long spec,
+            @RequestParam(name = "drop", defaultValue = "") String drop,
+            @RequestParam(name = "sort", defaultValue = "estimate") String sort,
+            @RequestParam(name = "scale", defaultValue = "fitted") String scale,
+            @RequestParam(name = "group", defaultValue = "") String group) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        return new ExploreViews.PositionView(spec, explore.positionOf(a, lookup.run(a, run), drop, sort, scale, group,
+                spec));
+    }
+
     @GetMapping("/specifications/{spec}/fit")
     ExploreViews.FullFitView fit(@PathVariable String analysis, @PathVariable String run, @PathVariable long spec) {
         StoredAnalysis a = lookup.analysis(analysis);

@@ -195,7 +195,8 @@ public class ExploreService {
         int fitted = ranked(analysis, run).size();
         return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
                 choice.group(), unit, view.leftOut, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
-                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width));
+                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width),
+                AlternativeCounts.of(r, view.kept));
     }
 
     /** The specification at a position of the curve under the given filter, order and scale. */
@@ -222,6 +223,13 @@ public class ExploreService {
                 Scale.PARTIAL_CORRELATION.low(t, slot, confidence), Scale.PARTIAL_CORRELATION.high(t, slot, confidence),
                 t.nObs(slot), t.nParams(slot), t.r2(slot), t.adjustedR2(slot), t.modelPValue(slot), t.deviance(slot),
                 t.status(slot));
+    }
+
+    /** The position of specification {@code spec} (1-based) in the curve as shown, -1 when the set lacks it. */
+    public int positionOf(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
+            String group, long spec) {
+        RankedRun r = ranked(analysis, run, scaleOf(scale));
+        return SpecificationPosition.of(r, view(analysis, run, r, choice(r, group), drop, sort).order, spec - 1);
     }
 
     private static Scale scaleOf(String word) {

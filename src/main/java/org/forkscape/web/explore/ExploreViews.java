@@ -69,9 +69,17 @@ public final class ExploreViews {
      * @param unit   one unit of the scale, in words (the y axis)
      * @param leftOut fitted specifications the filter keeps that have no value on the scale, left out of the set
      * @param groups the curve's groups when grouped by a factor
+     * @param counts per factor id and level, how many specifications of the set use that alternative
      */
     public record CurveView(int total, String drop, String sort, String scale, int group, String unit, int leftOut,
-            CurveSummary summary, Influence influence, List<DisplayOrder.Group> groups, Curve curve) {
+            CurveSummary summary, Influence influence, List<DisplayOrder.Group> groups, Curve curve, int[][] counts) {
+    }
+
+    /**
+     * @param spec     the specification (1-based, as in specifications.csv)
+     * @param position its position in the curve as shown, -1 when the shown set does not hold it
+     */
+    public record PositionView(long spec, int position) {
     }
 
     /** One alternative of one decision as a specification uses it. */

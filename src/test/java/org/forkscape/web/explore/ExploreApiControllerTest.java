@@ -83,6 +83,22 @@ class ExploreApiControllerTest extends WebTest {
     }
 
     @Test
+    void aSpecificationIsFoundAtThePositionTheCurveShowsItAndNotFoundOutsideTheSet() throws Exception {
+        for (int position : new int[] {0, 37, 143}) {
+            long spec = json(mvc.perform(get(base + "/at").param("position", Integer.toString(position))
+                    .param("sort", "factor:4")).andReturn().getResponse().getContentAsString()).path("spec").asLong();
+            mvc.perform(get(base + "/specifications/" + spec + "/position").param("sort", "factor:4"))
+                    .andExpect(status().isOk()).andExpect(jsonPath("$.spec").value(spec))
+                    .andExpect(jsonPath("$.position").value(position));
+        }
+        // a specification of the second outcome is outside the first comparable group shown as fitted
+        JsonNode other = json(mvc.perform(get(base + "/at").param("position", "0").param("group", "2"))
+                .andReturn().getResponse().getContentAsString());
+        mvc.perform(get(base + "/specifications/" + other.path("spec").asLong() + "/position"))
+                .andExpect(status().isOk()).andExpect(jsonPath("$.position").value(-1));
+    }
+
+    @Test
     void badParametersAreNamed() throws Exception {
         mvc.perform(get(base + "/curve").param("drop", "0.7")).andExpect(status().isBadRequest())
                 .andExpect(jsonPath("$.where").value("drop"));

@@ -255,6 +255,29 @@ class ExplorerComputationTest {
     }
 
     /** The kept slots by decoding each specification's index, independent of the ranked columns. */
+    @Test
+    void alternativeCountsOfAFilteredSetMatchDecodingEachKeptSpecification() {
+        Selection selection = Selection.all(ranked.factors()).drop(0, 1).drop(4, 0);
+        int[] kept = SpecificationFilter.keep(ranked, selection);
+        int[][] counts = AlternativeCounts.of(ranked, kept);
+        SpecificationSpace space = run.models().space();
+        long[] choices = new long[run.plan().decisions().size()];
+        int[][] direct = new int[ranked.factors().size()][];
+        for (Factor f : ranked.factors()) {
+            direct[f.id()] = new int[f.levels().size()];
+        }
+        for (int s : bruteForceKept(selection)) {
+            space.decode(run.results().specIndex(s), choices);
+            for (Factor f : ranked.factors()) {
+                long c = choices[f.decisionIndex()];
+                direct[f.id()][f.isControl() ? (int) ((c >> f.controlBit()) & 1) : (int) c]++;
+            }
+        }
+        assertArrayEquals(direct, counts);
+        assertEquals(0, counts[0][1], "a dropped alternative is used by no shown specification");
+        assertEquals(kept.length, Arrays.stream(counts[2]).sum());
+    }
+
     private static int[] bruteForceKept(Selection selection) {
         ResultTable r = run.results();
         SpecificationSpace space = run.models().space();

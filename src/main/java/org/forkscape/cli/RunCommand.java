@@ -1,7 +1,6 @@
 package org.forkscape.cli;
 
 import java.io.PrintStream;
-import java.nio.file.Files;
 import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.util.Set;
@@ -25,9 +24,10 @@ import org.springframework.util.unit.DataSize;
 /**
  * {@code run PLAN --out DIR}: fits every specification of a plan, adds the joint inference (null draws
  * when asked for), and writes the results, through the {@link RunPipeline} the web's run queue calls too;
- * this class reads the arguments, locates problems in the plan file, and prints. Every check runs before the first file is written, and a run
- * in which no specification could be fitted writes nothing: the output folder holds either a whole
- * result or what it held before.
+ * this class reads the arguments, locates problems in the plan file, and prints. The output folder is
+ * checked before any work and replaced as a whole ({@link ResultFolder}): a run that is refused, fails,
+ * fits nothing or is stopped leaves it as it was, so it holds either a whole result or what it held
+ * before.
  */
 final class RunCommand {
     static final Set<String> OPTIONS = Set.of("out", "sample", "seed", "threads", "max-specifications", "null-draws",
@@ -35,6 +35,9 @@ final class RunCommand {
     static final String USAGE = "usage: run PLAN.json --out DIR [--sample N --seed S] [--threads T] "
             + "[--max-specifications N] [--max-memory SIZE] [--null-draws R [--null-method bootstrap|permute] "
             + "[--null-cluster COLUMN|rows] [--max-null-draws N]]";
+
+    /** The system property of the test hook {@link #pauseBeforeTheSwap}. */
+    static final String PAUSE_BEFORE_SWAP = "forkscape.test.pauseBeforeSwap";
 
     private RunCommand() {
     }
@@ -49,7 +52,8 @@ final class RunCommand {
         if (!a.has("out")) {
             throw new UsageException("run needs --out DIR, the folder for specifications.csv and summary.json");
         }
-        checkOutputFolder(a.text("out"));
+        Path folder = path(a.text("out"), "--out");
+        ResultFolder.check(folder);
         Path planFile = path(a.positional().get(0), "the plan file");
         byte[] planBytes = PlanReader.readBytes(planFile);
         String planText = PlanReader.text(planBytes, planFile);
@@ -79,16 +83,18 @@ final class RunCommand {
                 + "of the specifications (--sample N --seed S), use fewer --threads, or raise the limit with "
                 + "--max-memory SIZE" + (a.has("max-memory") ? "" : " (by default " + Math.round(100
                 * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap)") + " and the heap with java -Xmx");
-        Path folder = Path.of(a.text("out"));
         CompletedRun<InferenceSections> completed;
-        try {
-            completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
-                    plan.dataFile()), folder, (run, progress, cancel) -> InferenceSections
-                    .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
-        } catch (InputException e) {
-            throw located(planName, e);
+        try (ResultFolder results = ResultFolder.open(folder)) {
+            try {
+                completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
+                        plan.dataFile()), results.staging(), (run, progress, cancel) -> InferenceSections
+                        .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
+            } catch (InputException e) {
+                throw located(planName, e);
+            }
+            pauseBeforeTheSwap(err);
+            results.commit();
         }
-        EarlierResultFiles.removeBesides(folder, completed.inference().fileNames());
         RunSummary summary = completed.summary();
         NullDrawResult draws = completed.inference().nullDraws();
         String joint = draws == null ? "" : "; " + HumanNumbers.count(draws.drawCount()) + " null draws: median "
@@ -137,11 +143,20 @@ final class RunCommand {
         throw new UsageException("--max-memory must be a size such as 512MB or 2GB; found \"" + text + "\"");
     }
 
-    /** Refuses, before any work, an output path that is an existing file or not a path at all. */
-    private static void checkOutputFolder(String text) {
-        Path folder = path(text, "--out");
-        if (Files.exists(folder) && !Files.isDirectory(folder)) {
-            throw new UsageException("--out " + folder + " is a file; give a folder for the results");
+    /**
+     * A test hook: with the system property {@value #PAUSE_BEFORE_SWAP} set to a number of milliseconds,
+     * the command says so on stderr and waits that long with every file staged, so that a test can stop the
+     * process at that moment and see what the folder holds.
+     */
+    private static void pauseBeforeTheSwap(PrintStream err) {
+        long millis = Long.getLong(PAUSE_BEFORE_SWAP, 0);
+        if (millis > 0) {
+            err.println("forkscape: staged, pausing before the swap");
+            try {
+                Thread.sleep(millis);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
         }
     }
 

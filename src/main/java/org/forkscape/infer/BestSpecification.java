@@ -2,6 +2,7 @@ package org.forkscape.infer;
 
 import java.util.LinkedHashMap;
 import java.util.Map;
+import org.forkscape.plan.SpecificationNumber;
 import org.forkscape.run.Json;
 import org.forkscape.run.ResultTable;
 
@@ -16,7 +17,7 @@ import org.forkscape.run.ResultTable;
  * @param pNominal  its own p-value
  * @param adjusted  the draws behind the min-p adjusted p-value; null without null draws
  */
-public record BestSpecification(long spec, int row, double pNominal, DrawTally adjusted) {
+public record BestSpecification(SpecificationNumber spec, int row, double pNominal, DrawTally adjusted) {
 
     /**
      * The best of the given slots; ties keep the first slot. Returns null when none is fitted.
@@ -40,7 +41,7 @@ public record BestSpecification(long spec, int row, double pNominal, DrawTally a
             return null;
         }
         DrawTally adjusted = draws == null ? null : draws.minPAdjustedTally(bestP);
-        return new BestSpecification(results.specIndex(best) + 1, best + 1, bestP, adjusted);
+        return new BestSpecification(results.specNumber(best), best + 1, bestP, adjusted);
     }
 
     /** The min-p adjusted p-value; NaN without null draws. */
@@ -51,7 +52,7 @@ public record BestSpecification(long spec, int row, double pNominal, DrawTally a
     /** The summary.json section {@code best}. */
     public Map<String, Object> toJson() {
         Map<String, Object> m = new LinkedHashMap<>();
-        m.put("spec", spec);
+        m.put("spec", spec.json());
         m.put("row", row);
         m.put("p_nominal", Json.number(pNominal));
         m.put("p_adjusted", Json.number(pAdjusted()));

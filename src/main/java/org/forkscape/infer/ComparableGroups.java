@@ -11,6 +11,7 @@ import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.UsableRows;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ModelFamily;
+import org.forkscape.plan.SpecificationNumber;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.Json;
 import org.forkscape.run.ResultTable;
@@ -37,8 +38,8 @@ public final class ComparableGroups {
 
     /** One group: its labels, its members (indices into the {@link RunVariants}) and its weights. */
     public record Group(String outcome, String predictor, String model, Map<String, String> rows, int nObs,
-            int[] members, GroupWeights weights, Map<String, Double> inclusion, long bestSpec, double bestWeight,
-            LeamerBounds bounds) {
+            int[] members, GroupWeights weights, Map<String, Double> inclusion, SpecificationNumber bestSpec,
+            double bestWeight, LeamerBounds bounds) {
     }
 
     private record Key(int outcomeColumn, int keyColumn, ModelFamily family, int variant, BitSet usable) {
@@ -105,7 +106,7 @@ public final class ComparableGroups {
             }
             int[] slots = members.stream().mapToInt(variants::slot).toArray();
             groups.add(new Group(outcome, predictor, model, rows, n[0], members.stream().mapToInt(Integer::intValue).toArray(), w,
-                    inclusion(controls, w.bicWeights()), r.specIndex(variants.slot(members.get(best))) + 1,
+                    inclusion(controls, w.bicWeights()), r.specNumber(variants.slot(members.get(best))),
                     w.bicWeights()[best], LeamerBounds.of(r, slots, confidence)));
         }
         return groups;
@@ -168,7 +169,7 @@ public final class ComparableGroups {
             Map<String, Object> bic = new LinkedHashMap<>();
             bic.put("weighted_estimate", Json.number(g.weights().bicEstimate()));
             bic.put("weighted_std_error", Json.number(g.weights().bicStdError()));
-            bic.put("best_spec", g.bestSpec());
+            bic.put("best_spec", g.bestSpec().json());
             bic.put("best_weight", Json.number(g.bestWeight()));
             Map<String, Object> inclusion = new LinkedHashMap<>();
             g.inclusion().forEach((c, p) -> inclusion.put(c, Json.number(p)));

@@ -2,6 +2,7 @@ package org.forkscape.infer;
 
 import java.util.LinkedHashMap;
 import java.util.Map;
+import org.forkscape.plan.SpecificationNumber;
 import org.forkscape.run.Json;
 import org.forkscape.run.ResultTable;
 
@@ -17,14 +18,14 @@ import org.forkscape.run.ResultTable;
  * @param upperSpec  likewise for {@code upper}
  * @param confidence the interval level
  */
-public record LeamerBounds(double lower, double upper, long lowerSpec, long upperSpec, double confidence) {
+public record LeamerBounds(double lower, double upper, SpecificationNumber lowerSpec, SpecificationNumber upperSpec, double confidence) {
 
     /** Over the fitted specifications among {@code slots}; null when none is fitted. */
     public static LeamerBounds of(ResultTable results, int[] slots, double confidence) {
         double lower = Double.POSITIVE_INFINITY;
         double upper = Double.NEGATIVE_INFINITY;
-        long lowerSpec = -1;
-        long upperSpec = -1;
+        SpecificationNumber lowerSpec = null;
+        SpecificationNumber upperSpec = null;
         for (int slot : slots) {
             if (!results.fitted(slot)) {
                 continue;
@@ -33,14 +34,14 @@ public record LeamerBounds(double lower, double upper, long lowerSpec, long uppe
             double hi = results.ciHigh(slot, confidence);
             if (lo < lower) {
                 lower = lo;
-                lowerSpec = results.specIndex(slot) + 1;
+                lowerSpec = results.specNumber(slot);
             }
             if (hi > upper) {
                 upper = hi;
-                upperSpec = results.specIndex(slot) + 1;
+                upperSpec = results.specNumber(slot);
             }
         }
-        return lowerSpec < 0 ? null : new LeamerBounds(lower, upper, lowerSpec, upperSpec, confidence);
+        return lowerSpec == null ? null : new LeamerBounds(lower, upper, lowerSpec, upperSpec, confidence);
     }
 
     /** Whether both bounds lie strictly on the same side of zero. */
@@ -54,8 +55,8 @@ public record LeamerBounds(double lower, double upper, long lowerSpec, long uppe
         m.put("lower", Json.number(lower));
         m.put("upper", Json.number(upper));
         m.put("same_sign", sameSign());
-        m.put("lower_spec", lowerSpec);
-        m.put("upper_spec", upperSpec);
+        m.put("lower_spec", lowerSpec.json());
+        m.put("upper_spec", upperSpec.json());
         m.put("confidence", confidence);
         return m;
     }

@@ -29,7 +29,7 @@ public final class OverfittingCsv {
         CSVPrinter csv = CsvCells.printer(stream);
         csv.printRecord(HEADER);
         for (int slot = 0; slot < r.size(); slot++) {
-            String spec = Long.toString(r.specIndex(slot) + 1);
+            String spec = r.specNumber(slot).toString();
             if (!r.fitted(slot)) {
                 csv.printRecord(spec, "", "", "", "", "", "");
                 continue;

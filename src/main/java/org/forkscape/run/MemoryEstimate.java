@@ -50,6 +50,12 @@ public final class MemoryEstimate {
     /** A sampled specification number while the sample is drawn (a boxed long in a hash set). */
     private static final long SAMPLING_BYTES = 72;
     /**
+     * Beyond a long, a sampled specification number while the sample is drawn, besides its magnitude's
+     * bytes: a BigInteger (header, fields and array header) in a hash set's node and table, and in the
+     * array that sorts them.
+     */
+    private static final long BIG_SAMPLING_BYTES = 120;
+    /**
      * The inference stage's per-specification objects and arrays besides the factor columns: a model with
      * its control list, slot indices, and the estimates, p-values, sizes and weights of its summaries.
      */
@@ -121,6 +127,7 @@ public final class MemoryEstimate {
         SpecificationModels models = new SpecificationModels(plan, table);
         ModelColumns layout = models.layout();
         long inPlan = models.space().size();
+        boolean beyondLong = models.space().beyondLong();
         long fitted = plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), inPlan) : inPlan;
         boolean sampled = fitted < inPlan;
         int rows = table.rowCount();
@@ -215,8 +222,9 @@ public final class MemoryEstimate {
             }
         }
 
+        // beyond a long the space also keeps the sample's digits, one long per decision, for the whole run
         long results = fitted * ((sampled ? SAMPLED_RESULT_BYTES : RESULT_BYTES)
-                + (generalized ? GENERALIZED_RESULT_BYTES : 0));
+                + (generalized ? GENERALIZED_RESULT_BYTES : 0) + (beyondLong ? 8L * plan.decisions().size() : 0));
         Map<String, Long> fitting = new LinkedHashMap<>(largestVariantParts);
         fitting.put("the result table", results);
         fitting.put("the specification numbers and their variants", RUNNER_BYTES * fitted);
@@ -233,7 +241,10 @@ public final class MemoryEstimate {
         }
 
         Map<String, Long> drawing = new LinkedHashMap<>();
-        drawing.put("the sample of specification numbers while it is drawn", sampled ? SAMPLING_BYTES * fitted : 0);
+        drawing.put("the sample of specification numbers while it is drawn", !sampled ? 0
+                : beyondLong ? fitted * (BIG_SAMPLING_BYTES + models.space().count().bitLength() / 8
+                        + 8L * plan.decisions().size())
+                : SAMPLING_BYTES * fitted);
 
         Map<String, Long> peak = fitting;
         for (Map<String, Long> phase : List.of(inference, drawing)) {

@@ -65,8 +65,8 @@ public final class MultiverseRunner {
                     + "\"maxSpecifications\")", Math.min(plan.sampleSize(), space.size()), plan.maxSpecifications()));
         }
         if (plan.sampleSize() <= 0 && space.size() > plan.maxSpecifications()) {
-            String count = space.size() == Long.MAX_VALUE ? "more than 9.2e18" : String.format("%,d", space.size());
-            throw new InputException("decisions", "the plan has " + count + " specifications, above the cap of "
+            throw new InputException("decisions", "the plan has " + String.format("%,d", space.count())
+                    + " specifications, above the cap of "
                     + String.format("%,d", plan.maxSpecifications()) + "; fit a seeded random sample instead with "
                     + "--sample N --seed S (plan keys \"sample\" and \"seed\"), or raise the cap with "
                     + "--max-specifications");
@@ -81,7 +81,7 @@ public final class MultiverseRunner {
         SpecificationSpace space = models.space();
         long[] indices = space.indices(plan.sampleSize(), plan.seed());
         boolean all = plan.sampleSize() <= 0 || plan.sampleSize() >= space.size();
-        ResultTable results = new ResultTable(indices.length, all ? null : indices, plan.generalized());
+        ResultTable results = new ResultTable(indices.length, all ? null : indices, plan.generalized(), space);
 
         // bucket the slots by data variant, keeping slot order inside each bucket
         int variants = (int) models.variantCount();

@@ -8,6 +8,8 @@ import org.forkscape.fit.Distributions;
 import org.forkscape.fit.FitStatus;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.plan.ModelFamily;
+import org.forkscape.plan.SpecificationNumber;
+import org.forkscape.plan.SpecificationSpace;
 
 /**
  * The results of a run, one slot per fitted specification, stored column by column: 64 bytes per
@@ -21,6 +23,7 @@ import org.forkscape.plan.ModelFamily;
 public final class ResultTable {
     private final int size;
     private final long[] index;
+    private final SpecificationSpace space;
     private final double[] estimate;
     private final double[] stdEstimate;
     private final double[] stdError;
@@ -45,13 +48,18 @@ public final class ResultTable {
      *                specification i and there are {@code size} of them
      */
     public ResultTable(int size, long[] indices) {
-        this(size, indices, false);
+        this(size, indices, false, null);
     }
 
-    /** @param generalized whether some specifications fit generalized linear models */
-    public ResultTable(int size, long[] indices, boolean generalized) {
+    /**
+     * @param generalized whether some specifications fit generalized linear models
+     * @param space       the space the indices are keys of, which numbers them ({@link #specNumber}); null
+     *                    when the keys are the indices themselves, as in every space within a long
+     */
+    public ResultTable(int size, long[] indices, boolean generalized, SpecificationSpace space) {
         this.size = size;
         this.index = indices;
+        this.space = space;
         estimate = new double[size];
         stdEstimate = new double[size];
         stdError = new double[size];
@@ -116,8 +124,15 @@ public final class ResultTable {
         return size;
     }
 
+    /** The specification's key in its space ({@link SpecificationSpace}): its index within a long. */
     public long specIndex(int slot) {
         return index == null ? slot : index[slot];
+    }
+
+    /** The specification's 1-based number in the whole space, as the results write it. */
+    public SpecificationNumber specNumber(int slot) {
+        long key = specIndex(slot);
+        return space == null ? new SpecificationNumber(java.math.BigInteger.valueOf(key + 1), false) : space.number(key);
     }
 
     public double estimate(int slot) {

@@ -48,7 +48,7 @@ public final class SpecificationsCsv {
             row.clear();
             long index = r.specIndex(slot);
             space.decode(index, choices);
-            row.add(Long.toString(index + 1));
+            row.add(r.specNumber(slot).toString());
             for (int d = 0; d < decisions.size(); d++) {
                 row.add(SpreadsheetSafe.text(decisions.get(d).label(choices[d])));
             }

@@ -3,6 +3,7 @@ package org.forkscape.run;
 import java.io.IOException;
 import java.io.Reader;
 import java.io.UncheckedIOException;
+import java.math.BigInteger;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -21,6 +22,7 @@ import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
+import org.forkscape.plan.SpecificationSpace;
 
 /**
  * Reads a finished run back from the specifications.csv that {@link SpecificationsCsv} wrote, so that a
@@ -49,7 +51,7 @@ public final class SpecificationsCsvReader {
         int statsFrom = 1 + plan.decisions().size();
         try (Reader reader = Files.newBufferedReader(file, StandardCharsets.UTF_8);
                 CSVParser csv = CSVParser.builder().setReader(reader).setFormat(CSVFormat.RFC4180).get()) {
-            Columns c = new Columns(plan);
+            Columns c = new Columns(plan, models.space(), file);
             boolean first = true;
             for (CSVRecord r : csv) {
                 if (r.size() != header.size()) {
@@ -64,7 +66,7 @@ public final class SpecificationsCsvReader {
             }
             int rows = c.size;
             ResultTable results = new ResultTable(rows, rows == inPlan ? null : Arrays.copyOf(c.index, rows),
-                    plan.generalized());
+                    plan.generalized(), models.space());
             for (int i = 0; i < rows; i++) {
                 String text = c.status[i];
                 String note = "";
@@ -126,7 +128,12 @@ public final class SpecificationsCsvReader {
         String[] status = new String[1024];
         final Map<String, String> statuses = new HashMap<>();
 
-        Columns(Plan plan) {
+        private final SpecificationSpace space;
+        private final Path file;
+
+        Columns(Plan plan, SpecificationSpace space, Path file) {
+            this.space = space;
+            this.file = file;
             int at = -1;
             for (int d = 0; d < plan.decisions().size(); d++) {
                 if (plan.decisions().get(d) instanceof Decision.Model) {
@@ -134,6 +141,19 @@ public final class SpecificationsCsvReader {
                 }
             }
             modelColumn = at;
+        }
+
+        /** The key of the row's specification: its index, or beyond a long its rank in the plan's sample. */
+        private long key(CSVRecord r) {
+            if (!space.beyondLong()) {
+                return Long.parseLong(r.get(0)) - 1;
+            }
+            long key = space.key(new BigInteger(r.get(0)));
+            if (key < 0) {
+                throw new IllegalStateException(file + ", line " + r.getRecordNumber() + ": specification " + r.get(0)
+                        + " is not in the seeded sample of this run's plan");
+            }
+            return key;
         }
 
         private static int at(String column) {
@@ -158,7 +178,7 @@ public final class SpecificationsCsvReader {
                 family = Arrays.copyOf(family, n);
                 status = Arrays.copyOf(status, n);
             }
-            index[size] = Long.parseLong(r.get(0)) - 1;
+            index[size] = key(r);
             estimate[size] = number(r.get(from + ESTIMATE));
             stdError[size] = number(r.get(from + STD_ERROR));
             df[size] = number(r.get(from + DF));

@@ -5,6 +5,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import org.forkscape.plan.SpecificationSpace;
 
 /**
  * Assembles summary.json: the run's headline numbers, then how it was run, then any sections that
@@ -35,10 +36,12 @@ public final class SummaryJson {
             }
         });
         m.put("confidence", run.plan().confidence());
-        long inPlan = run.models().space().size();
-        m.put("specifications_in_plan", inPlan);
-        m.put("sampled", run.results().size() < inPlan);
-        if (run.results().size() < inPlan) {
+        SpecificationSpace space = run.models().space();
+        // beyond a long, the exact count as decimal text: a JSON number would lose its digits in most readers
+        m.put("specifications_in_plan", space.beyondLong() ? space.count().toString() : (Object) space.size());
+        boolean sampled = run.results().size() < space.size();
+        m.put("sampled", sampled);
+        if (sampled) {
             m.put("sample_seed", run.plan().seed());
         }
         m.put("data_rows", run.table().rowCount());

@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.math.BigInteger;
 import java.util.Map;
 import org.apache.commons.math3.distribution.FDistribution;
 import org.apache.commons.math3.distribution.TDistribution;
@@ -41,8 +42,8 @@ class SummariesTest {
         // lower ends 1 - 0.5t, 2 - 0.25t, 0.5 - t: the third is lowest; upper ends likewise the third
         assertEquals(0.5 - t, e.lower(), 1e-12);
         assertEquals(0.5 + t, e.upper(), 1e-12);
-        assertEquals(3, e.lowerSpec());
-        assertEquals(3, e.upperSpec());
+        assertEquals(BigInteger.valueOf(3), e.lowerSpec().value());
+        assertEquals(BigInteger.valueOf(3), e.upperSpec().value());
         assertFalse(e.sameSign());
         LeamerBounds positive = LeamerBounds.of(table(fit(3, 0.5, 20, 23, 3), fit(2, 0.25, 20, 23, 3)),
                 new int[] {0, 1}, 0.95);
@@ -55,7 +56,7 @@ class SummariesTest {
         ResultTable r = new ResultTable(2, null);
         r.set(0, KeyFit.failed(FitStatus.TOO_FEW_ROWS, "2 rows for 3 coefficients", 2, 3));
         r.set(1, fit(1, 0.5, 20, 23, 3));
-        assertEquals(2, LeamerBounds.of(r, new int[] {0, 1}, 0.95).lowerSpec());
+        assertEquals(BigInteger.valueOf(2), LeamerBounds.of(r, new int[] {0, 1}, 0.95).lowerSpec().value());
         assertNull(LeamerBounds.of(r, new int[] {0}, 0.95));
         assertNull(BestSpecification.of(r, new int[] {0}, null));
     }
@@ -68,7 +69,7 @@ class SummariesTest {
         NullDrawResult draws = result(statistics(0.1, 0.5, 1, 0.001), statistics(0.1, 0.5, 1, 0.02),
                 statistics(0.1, 0.5, 1, 0.5), statistics(0.1, 0.5, 1, 0.0001));
         BestSpecification best = BestSpecification.of(r, ALL3, draws);
-        assertEquals(2, best.spec());
+        assertEquals(BigInteger.valueOf(2), best.spec().value());
         assertEquals(2, best.row());
         assertEquals(p, best.pNominal(), 1e-12);
         // p is about 7e-4: of the draws' smallest p-values (0.001, 0.02, 0.5, 0.0001) only the last is at most it

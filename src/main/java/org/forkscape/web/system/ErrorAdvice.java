@@ -2,6 +2,7 @@ package org.forkscape.web.system;
 
 import jakarta.servlet.http.HttpServletRequest;
 import org.forkscape.InputException;
+import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.explore.RunNotFinishedException;
 import org.forkscape.web.run.RunQueueFullException;
 import org.slf4j.Logger;
@@ -49,6 +50,18 @@ class ErrorAdvice {
     @ExceptionHandler(RunQueueFullException.class)
     Object busy(RunQueueFullException e, HttpServletRequest request) {
         return answer(request, HttpStatus.SERVICE_UNAVAILABLE, "", e.getMessage());
+    }
+
+    /**
+     * A full disk answers 507 (Insufficient Storage), a workspace that cannot be written 503: both are the
+     * server's state, not the request's, and the same request can succeed once space is freed or the folder
+     * made writable. The sentence names no path; the log has the cause.
+     */
+    @ExceptionHandler(WorkspaceWriteException.class)
+    Object storage(WorkspaceWriteException e, HttpServletRequest request) {
+        LOG.error("{} {}: {}", request.getMethod(), request.getRequestURI(), e.getMessage(), e.getCause());
+        return answer(request, e.diskFull() ? HttpStatus.INSUFFICIENT_STORAGE : HttpStatus.SERVICE_UNAVAILABLE, "",
+                e.getMessage());
     }
 
     @ExceptionHandler(MaxUploadSizeExceededException.class)

@@ -190,8 +190,8 @@ class LoadTest {
 
     private static String report(Map<String, List<Long>> times, long errors, double runSeconds, JsonNode busy) {
         StringBuilder b = new StringBuilder();
-        b.append(String.format(Locale.ROOT, "Load test, %s, %d processors (load average %.1f at the end, other work "
-                + "included), %s %s, Java %s%n", LocalDate.now(), Runtime.getRuntime().availableProcessors(),
+        b.append(String.format(Locale.ROOT, "Load test, %s, %d processors (one-minute load average %.1f at the end, "
+                + "this test's own threads included), %s %s, Java %s%n", LocalDate.now(), Runtime.getRuntime().availableProcessors(),
                 ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage(), System.getProperty("os.name"),
                 System.getProperty("os.arch"), System.getProperty("java.version")));
         b.append(String.format(Locale.ROOT, "explored run: %,d specifications fitted in %.1f s (with its inference "

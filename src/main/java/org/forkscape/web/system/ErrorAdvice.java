@@ -1,7 +1,10 @@
 package org.forkscape.web.system;
 
 import jakarta.servlet.http.HttpServletRequest;
+import java.io.IOException;
+import java.nio.file.FileSystemException;
 import org.forkscape.InputException;
+import org.forkscape.run.Workspace;
 import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.explore.RunNotFinishedException;
 import org.forkscape.web.run.RunQueueFullException;
@@ -31,9 +34,11 @@ class ErrorAdvice {
     private static final Logger LOG = LoggerFactory.getLogger(ErrorAdvice.class);
 
     private final DataSize maxUpload;
+    private final Workspace workspace;
 
-    ErrorAdvice(@Value("${spring.servlet.multipart.max-file-size}") DataSize maxUpload) {
+    ErrorAdvice(@Value("${spring.servlet.multipart.max-file-size}") DataSize maxUpload, Workspace workspace) {
         this.maxUpload = maxUpload;
+        this.workspace = workspace;
     }
 
     @ExceptionHandler(InputException.class)
@@ -70,8 +75,21 @@ class ErrorAdvice {
                 + maxUpload.toMegabytes() + " MB, setting forkscape.data.max-upload)");
     }
 
+    /**
+     * An upload the server could not spool into the workspace (its parts above the threshold go to a folder
+     * there) is the workspace's state, answered as {@link #storage}; any other multipart failure is the
+     * request's.
+     */
     @ExceptionHandler(MultipartException.class)
     Object badUpload(MultipartException e, HttpServletRequest request) {
+        for (Throwable t = e.getCause(); t != null; t = t.getCause()) {
+            if (t instanceof IOException io) {
+                WorkspaceWriteException failure = workspace.writeFailure(io, "the upload was not kept");
+                if (failure.diskFull() || io instanceof FileSystemException) {
+                    return storage(failure, request);
+                }
+            }
+        }
         return answer(request, HttpStatus.BAD_REQUEST, "file", "the upload could not be read: send the CSV file as "
                 + "the form field \"file\" of a multipart/form-data request");
     }

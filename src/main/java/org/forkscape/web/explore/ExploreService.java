@@ -48,12 +48,21 @@ import tools.jackson.core.type.TypeReference;
 @Service
 public class ExploreService {
     private static final int CACHED_VIEWS = 32;
+    /** Filtered sets whose summary and influence are kept: a few kilobytes each. */
+    private static final int CACHED_SECTIONS = 256;
 
     private final Workspace workspace;
     private final AnalysisService analyses;
     private final InfluenceAnalysis influence;
     private final Cache<String, Ranking> runs;
     private final Map<String, View> views = lru(CACHED_VIEWS);
+    private final Cache<String, Sections> sections = Caffeine.newBuilder().maximumSize(CACHED_SECTIONS)
+            .executor(Runnable::run).build();
+
+    private final Cache<String, ExploreViews.Layout> layouts;
+
+    private record Sections(CurveSummary summary, Influence influence) {
+    }
 
     /** @param leftOut fitted specifications of the selection without a value on the scale */
     private record View(int[] kept, DisplayOrder order, int leftOut) {
@@ -71,6 +80,8 @@ public class ExploreService {
         this.workspace = workspace;
         this.analyses = analyses;
         this.influence = influence;
+        this.layouts = Caffeine.newBuilder().maximumSize(Math.max(1, settings.explore().cachedRuns()))
+                .executor(Runnable::run).build();
         this.runs = Caffeine.newBuilder().maximumSize(Math.max(1, settings.explore().cachedRuns()))
                 // evict on the calling thread: a ranking let go is memory freed now, not when a pool gets to it
                 .executor(Runnable::run).build();
@@ -147,7 +158,19 @@ public class ExploreService {
         }
     }
 
+    /** The run's layout, the same for every request: computed once per run and kept while the run is. */
     public ExploreViews.Layout layout(StoredAnalysis analysis, StoredRun run) {
+        String key = analysis.id() + "/" + run.id();
+        ExploreViews.Layout cached = layouts.getIfPresent(key);
+        if (cached != null) {
+            return cached;
+        }
+        ExploreViews.Layout computed = computeLayout(analysis, run);
+        layouts.put(key, computed);
+        return computed;
+    }
+
+    private ExploreViews.Layout computeLayout(StoredAnalysis analysis, StoredRun run) {
         RankedRun r = ranked(analysis, run);
         Plan plan = r.run().plan();
         List<ExploreViews.FactorView> factors = new ArrayList<>();
@@ -213,9 +236,27 @@ public class ExploreService {
         boolean grouped = !sortText(sort).equals("estimate");
         String unit = r.units().unit(choice.scale(), choice.group() < 0 ? null : r.units().groups().get(choice.group()));
         int fitted = ranked(analysis, run).size();
+        Sections sections = sections(analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + choice.text(),
+                r, view.kept);
         return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
-                choice.group(), unit, view.leftOut, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
+                choice.group(), unit, view.leftOut, sections.summary(), sections.influence(),
                 grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width));
+    }
+
+    /**
+     * The summary cards and the influence panel of a filtered set, which depend on the set alone (not on its
+     * order or the plot's width) and are the costliest part of a curve: kept for the sets asked for most
+     * recently, so that going back to a filter, or another width or order of it, reuses them. Computed
+     * outside the cache, so no request waits for another's; two requests for a new set may both compute it.
+     */
+    private Sections sections(String key, RankedRun r, int[] kept) {
+        Sections cached = sections.getIfPresent(key);
+        if (cached != null) {
+            return cached;
+        }
+        Sections computed = new Sections(CurveSummary.of(r, kept), influence.of(r, kept));
+        sections.put(key, computed);
+        return computed;
     }
 
     /** The specification at a position of the curve under the given filter, order and scale. */

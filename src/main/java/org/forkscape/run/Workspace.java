@@ -58,7 +58,15 @@ public final class Workspace {
             .withZone(ZoneOffset.UTC);
     private static final String ALPHABET = "0123456789abcdefghijklmnopqrstuvwxyz";
 
+    /**
+     * Below this much free space a failed write is taken as a full disk whatever the file system said, and
+     * {@link #requireSpace} keeps it free beyond what a run needs: the run's record, log and status must
+     * still be writable when it ends.
+     */
+    public static final long MIN_FREE = 1L << 20;
+
     private final Path root;
+    private final FreeSpace freeSpace;
     private final Path analyses;
     private final Path incoming;
     private final SecureRandom random = new SecureRandom();
@@ -68,7 +76,13 @@ public final class Workspace {
 
     /** Opens (creating if needed) the workspace folder and clears what an interrupted upload left behind. */
     public Workspace(Path root) {
+        this(root, FreeSpace.OF_FILE_STORE);
+    }
+
+    /** A workspace whose free space is measured by {@code freeSpace}. */
+    public Workspace(Path root, FreeSpace freeSpace) {
         this.root = root.toAbsolutePath().normalize();
+        this.freeSpace = freeSpace;
         this.analyses = this.root.resolve("analyses");
         this.incoming = this.root.resolve(".incoming");
         try {
@@ -94,6 +108,39 @@ public final class Workspace {
         return root;
     }
 
+    /**
+     * Refuses, before anything is written, what needs more space than the workspace's disk has free (less
+     * {@link #MIN_FREE}).
+     *
+     * @param bytes   the expected size of what will be written
+     * @param notKept what is not kept, as a clause for the message ("this run was not started")
+     * @throws WorkspaceWriteException when the disk has too little room
+     */
+    public void requireSpace(long bytes, String notKept) {
+        long free = usableBytes();
+        if (free - MIN_FREE < bytes) {
+            throw WorkspaceWriteException.noRoom(bytes, free, notKept);
+        }
+    }
+
+    /**
+     * A write into the workspace that failed, in words that name no path.
+     *
+     * @param notKept what is not kept, as a clause for the message ("the upload was not kept")
+     */
+    public WorkspaceWriteException writeFailure(Exception failure, String notKept) {
+        return WorkspaceWriteException.of(failure, usableBytes() < MIN_FREE, notKept);
+    }
+
+    private long usableBytes() {
+        try {
+            return freeSpace.usableBytes(root);
+        } catch (IOException e) {
+            // the question failed, not the disk: nothing can be said about its room
+            return Long.MAX_VALUE;
+        }
+    }
+
     /** Where the web server spools large upload parts; cleared with the rest of the incoming folder at start. */
     public Path uploadParts() {
         return incoming.resolve("parts");
@@ -109,7 +156,7 @@ public final class Workspace {
         try {
             return Files.createTempFile(incoming, "upload-", ".csv");
         } catch (IOException e) {
-            throw new UncheckedIOException("cannot write in the workspace " + root + ": " + e.getMessage(), e);
+            throw writeFailure(e, "the upload was not kept");
         }
     }
 
@@ -135,9 +182,9 @@ public final class Workspace {
                 moveFolder(staging, target);
                 return a;
             }
-        } catch (IOException e) {
+        } catch (IOException | UncheckedIOException e) {
             deleteQuietly(staging);
-            throw new UncheckedIOException("cannot create an analysis in " + root + ": " + e.getMessage(), e);
+            throw writeFailure(e, "the upload was not kept");
         }
     }
 
@@ -174,7 +221,11 @@ public final class Workspace {
 
     public void savePlan(String analysisId, String planText) {
         requireAnalysis(analysisId);
-        AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
+        try {
+            AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the plan was not saved");
+        }
     }
 
     /** Records a new queued run with the plan it will run. */
@@ -201,23 +252,31 @@ public final class Workspace {
                 log(run, "queued");
                 return run;
             }
-        } catch (IOException e) {
-            throw new UncheckedIOException("cannot record a run in " + root + ": " + e.getMessage(), e);
+        } catch (IOException | UncheckedIOException e) {
+            throw writeFailure(e, "the run was not started");
         }
     }
 
     /** Writes a run's record and its status word. */
     public void update(StoredRun run) {
         Path folder = runFolder(run.analysisId(), run.id());
-        Json.write(folder.resolve(RUN_RECORD), runJson(run));
-        AtomicFiles.writeString(folder.resolve(STATUS), run.state().word() + "\n");
+        try {
+            Json.write(folder.resolve(RUN_RECORD), runJson(run));
+            AtomicFiles.writeString(folder.resolve(STATUS), run.state().word() + "\n");
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the run's record was not updated");
+        }
     }
 
     /** Appends a time-stamped line to the run's log (the whole file is rewritten atomically). */
     public synchronized void log(StoredRun run, String line) {
         Path file = runFolder(run.analysisId(), run.id()).resolve(LOG);
         String before = readText(file).orElse("");
-        AtomicFiles.writeString(file, before + Instant.now() + " " + line.replace('\n', ' ') + "\n");
+        try {
+            AtomicFiles.writeString(file, before + Instant.now() + " " + line.replace('\n', ' ') + "\n");
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "a line of the run's log was not kept");
+        }
     }
 
     public Path runFolder(String analysisId, String runId) {

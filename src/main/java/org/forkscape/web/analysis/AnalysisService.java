@@ -65,7 +65,7 @@ public class AnalysisService {
             }
             return a;
         } catch (IOException e) {
-            throw new UncheckedIOException("cannot store the upload: " + e.getMessage(), e);
+            throw workspace.writeFailure(e, "the upload was not kept");
         } finally {
             try {
                 Files.deleteIfExists(incoming);

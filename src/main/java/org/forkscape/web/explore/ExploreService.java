@@ -1,5 +1,7 @@
 package org.forkscape.web.explore;
 
+import com.github.benmanes.caffeine.cache.Cache;
+import com.github.benmanes.caffeine.cache.Caffeine;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
@@ -8,6 +10,7 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.function.Supplier;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.FullFit;
@@ -45,12 +48,21 @@ import tools.jackson.core.type.TypeReference;
 @Service
 public class ExploreService {
     private static final int CACHED_VIEWS = 32;
+    /** Filtered sets whose summary and influence are kept: a few kilobytes each. */
+    private static final int CACHED_SECTIONS = 256;
 
     private final Workspace workspace;
     private final AnalysisService analyses;
     private final InfluenceAnalysis influence;
-    private final Map<String, RankedRun> runs;
+    private final Cache<String, Ranking> runs;
     private final Map<String, View> views = lru(CACHED_VIEWS);
+    private final Cache<String, Sections> sections = Caffeine.newBuilder().maximumSize(CACHED_SECTIONS)
+            .executor(Runnable::run).build();
+
+    private final Cache<String, ExploreViews.Layout> layouts;
+
+    private record Sections(CurveSummary summary, Influence influence) {
+    }
 
     /** @param leftOut fitted specifications of the selection without a value on the scale */
     private record View(int[] kept, DisplayOrder order, int leftOut) {
@@ -68,15 +80,17 @@ public class ExploreService {
         this.workspace = workspace;
         this.analyses = analyses;
         this.influence = influence;
-        this.runs = lru(Math.max(1, settings.explore().cachedRuns()));
+        this.layouts = Caffeine.newBuilder().maximumSize(Math.max(1, settings.explore().cachedRuns()))
+                .executor(Runnable::run).build();
+        this.runs = Caffeine.newBuilder().maximumSize(Math.max(1, settings.explore().cachedRuns()))
+                // evict on the calling thread: a ranking let go is memory freed now, not when a pool gets to it
+                .executor(Runnable::run).build();
     }
 
     @EventListener
     void finished(RunFinished e) {
         RankedRun ranked = RankedRun.of(e.result());
-        synchronized (runs) {
-            runs.put(e.analysisId() + "/" + e.runId() + "#" + Scale.AS_FITTED.word(), ranked);
-        }
+        runs.put(e.analysisId() + "/" + e.runId() + "#" + Scale.AS_FITTED.word(), new Ranking(() -> ranked));
     }
 
     /** The results of a finished run ranked as fitted. */
@@ -84,34 +98,51 @@ public class ExploreService {
         return ranked(analysis, run, Scale.AS_FITTED);
     }
 
-    /** The results of a finished run ranked on a scale. */
+    /**
+     * The results of a finished run ranked on a scale. The cache only hands out each run's own
+     * {@link Ranking}; the reading and ranking happen under that run's lock alone, so a run being ranked
+     * (1.3 s at a million specifications) delays the requests for it and no others.
+     */
     public RankedRun ranked(StoredAnalysis analysis, StoredRun run, Scale scale) {
         if (run.state() != RunState.FINISHED) {
             throw new RunNotFinishedException("run " + run.id() + " is " + run.state().word()
                     + "; only a finished run can be explored");
         }
         String key = analysis.id() + "/" + run.id() + "#" + scale.word();
-        synchronized (runs) {
-            RankedRun cached = runs.get(key);
-            if (cached != null) {
-                return cached;
+        return runs.get(key, k -> new Ranking(() -> rank(analysis, run, scale))).get();
+    }
+
+    private RankedRun rank(StoredAnalysis analysis, StoredRun run, Scale scale) {
+        if (scale != Scale.AS_FITTED) {
+            // every scale ranks the same results: read them once
+            return RankedRun.of(ranked(analysis, run, Scale.AS_FITTED).run(), scale);
+        }
+        Path folder = workspace.runFolder(analysis.id(), run.id());
+        Plan plan = new PlanReader(true).read(workspace.runPlan(analysis.id(), run.id()),
+                workspace.analysisFolder(analysis.id()));
+        Table table = analyses.table(analysis);
+        Object seconds = summary(analysis, run).get("seconds");
+        RunResult result = SpecificationsCsvReader.read(plan, table, folder.resolve(RunOutputs.SPECIFICATIONS),
+                seconds instanceof Number n ? n.doubleValue() : Double.NaN);
+        return RankedRun.of(result);
+    }
+
+    /**
+     * One run's ranking on one scale, computed by the first request that needs it while the others for
+     * the same run and scale wait for it. A failure is not kept: the next request tries again.
+     */
+    private static final class Ranking {
+        private final Supplier<RankedRun> compute;
+        private RankedRun ranked;
+
+        Ranking(Supplier<RankedRun> compute) {
+            this.compute = compute;
+        }
+
+        synchronized RankedRun get() {
+            if (ranked == null) {
+                ranked = compute.get();
             }
-            if (scale != Scale.AS_FITTED) {
-                // every scale ranks the same results: read them once
-                RankedRun fitted = ranked(analysis, run, Scale.AS_FITTED);
-                RankedRun ranked = RankedRun.of(fitted.run(), scale);
-                runs.put(key, ranked);
-                return ranked;
-            }
-            Path folder = workspace.runFolder(analysis.id(), run.id());
-            Plan plan = new PlanReader(true).read(workspace.runPlan(analysis.id(), run.id()),
-                    workspace.analysisFolder(analysis.id()));
-            Table table = analyses.table(analysis);
-            Object seconds = summary(analysis, run).get("seconds");
-            RunResult result = SpecificationsCsvReader.read(plan, table, folder.resolve(RunOutputs.SPECIFICATIONS),
-                    seconds instanceof Number n ? n.doubleValue() : Double.NaN);
-            RankedRun ranked = RankedRun.of(result);
-            runs.put(key, ranked);
             return ranked;
         }
     }
@@ -127,7 +158,19 @@ public class ExploreService {
         }
     }
 
+    /** The run's layout, the same for every request: computed once per run and kept while the run is. */
     public ExploreViews.Layout layout(StoredAnalysis analysis, StoredRun run) {
+        String key = analysis.id() + "/" + run.id();
+        ExploreViews.Layout cached = layouts.getIfPresent(key);
+        if (cached != null) {
+            return cached;
+        }
+        ExploreViews.Layout computed = computeLayout(analysis, run);
+        layouts.put(key, computed);
+        return computed;
+    }
+
+    private ExploreViews.Layout computeLayout(StoredAnalysis analysis, StoredRun run) {
         RankedRun r = ranked(analysis, run);
         Plan plan = r.run().plan();
         List<ExploreViews.FactorView> factors = new ArrayList<>();
@@ -193,10 +236,28 @@ public class ExploreService {
         boolean grouped = !sortText(sort).equals("estimate");
         String unit = r.units().unit(choice.scale(), choice.group() < 0 ? null : r.units().groups().get(choice.group()));
         int fitted = ranked(analysis, run).size();
+        Sections sections = sections(analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + choice.text(),
+                r, view.kept);
         return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
-                choice.group(), unit, view.leftOut, CurveSummary.of(r, view.kept), influence.of(r, view.kept),
+                choice.group(), unit, view.leftOut, sections.summary(), sections.influence(),
                 grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width),
                 AlternativeCounts.of(r, view.kept));
+    }
+
+    /**
+     * The summary cards and the influence panel of a filtered set, which depend on the set alone (not on its
+     * order or the plot's width) and are the costliest part of a curve: kept for the sets asked for most
+     * recently, so that going back to a filter, or another width or order of it, reuses them. Computed
+     * outside the cache, so no request waits for another's; two requests for a new set may both compute it.
+     */
+    private Sections sections(String key, RankedRun r, int[] kept) {
+        Sections cached = sections.getIfPresent(key);
+        if (cached != null) {
+            return cached;
+        }
+        Sections computed = new Sections(CurveSummary.of(r, kept), influence.of(r, kept));
+        sections.put(key, computed);
+        return computed;
     }
 
     /** The specification at a position of the curve under the given filter, order and scale. */

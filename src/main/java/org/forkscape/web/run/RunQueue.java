@@ -1,7 +1,10 @@
 package org.forkscape.web.run;
 
 import jakarta.annotation.PreDestroy;
+import java.io.IOException;
+import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
@@ -17,6 +20,7 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicLong;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
+import org.forkscape.infer.InferenceSections;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
@@ -24,6 +28,7 @@ import org.forkscape.run.CompletedRun;
 import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunCancelledException;
 import org.forkscape.run.RunOrigin;
+import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunState;
@@ -32,6 +37,7 @@ import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.StageListener;
 import org.forkscape.run.StoredRun;
 import org.forkscape.run.Workspace;
+import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.ForkscapeSettings;
@@ -94,6 +100,8 @@ public class RunQueue {
      *
      * @throws InputException        when the plan cannot run on the analysis's data
      * @throws RunQueueFullException when as many runs wait as the queue holds
+     * @throws WorkspaceWriteException when the workspace's disk has too little room for the run's results, or
+     *                                 the run cannot be recorded
      */
     public synchronized StoredRun submit(StoredAnalysis analysis, String planText) {
         Plan plan = plans.read(analysis, planText);
@@ -103,6 +111,7 @@ public class RunQueue {
         }
         long all = new SpecificationSpace(plan).size();
         long total = plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), all) : all;
+        workspace.requireSpace(ExpectedOutput.bytes(plan, total), "this run was not started");
         StoredRun run = workspace.createRun(analysis.id(), planText);
         Job job = new Job(analysis, run, planText, total);
         active.put(run.id(), job);
@@ -166,6 +175,8 @@ public class RunQueue {
         private volatile String phase = "fitting";
         private volatile StoredRun record;
         private volatile RunState stopAs = RunState.CANCELLED;
+        /** The end is known here but could not be written: the job stays listed so that its status tells it. */
+        private volatile boolean unrecorded;
 
         Job(StoredAnalysis analysis, StoredRun record, String planText, long total) {
             this.analysis = analysis;
@@ -216,12 +227,19 @@ public class RunQueue {
         @Override
         public void run() {
             started(record.id());
-            if (!start()) {
-                active.remove(record.id());
+            try {
+                if (!start()) {
+                    active.remove(record.id());
+                    return;
+                }
+            } catch (WorkspaceWriteException e) {
+                failed(e);
                 return;
             }
             try {
                 Plan plan = new PlanReader(true).read(planText, workspace.analysisFolder(analysis.id()));
+                // the disk may have filled while the run waited: refuse before fitting, not after
+                workspace.requireSpace(ExpectedOutput.bytes(plan, total), "this run was not fitted");
                 Table table = analyses.table(analysis);
                 Path folder = workspace.runFolder(analysis.id(), record.id());
                 // the run's plan.json holds planText as UTF-8 (Workspace.createRun), so these are its bytes
@@ -236,6 +254,12 @@ public class RunQueue {
                 }
             } catch (RunCancelledException e) {
                 end(stopAs, "", "", stopAs == RunState.CANCELLED ? "cancelled" : "interrupted");
+            } catch (WorkspaceWriteException e) {
+                failed(e);
+            } catch (UncheckedIOException e) {
+                // the result files are written last: none of them is kept when one cannot be
+                removeResults();
+                failed(workspace.writeFailure(e, "this run's results were not kept"));
             } catch (InputException e) {
                 end(RunState.FAILED, e.where(), e.problem(), "failed: " + e.getMessage());
             } catch (OutOfMemoryError e) {
@@ -244,9 +268,36 @@ public class RunQueue {
                         "failed: out of memory");
             } catch (RuntimeException e) {
                 LOG.error("run {} of analysis {} failed", record.id(), analysis.id(), e);
-                end(RunState.FAILED, "", "internal error (" + e.getClass().getSimpleName() + "); the server log has "
-                        + "the details", "failed: internal error: " + e);
+                String words = "internal error (" + e.getClass().getSimpleName() + "); the server log has the details";
+                // the log is downloadable: the exception's own text, which may name server paths, stays in the server log
+                end(RunState.FAILED, "", words, "failed: " + words);
             } finally {
+                if (!unrecorded) {
+                    active.remove(record.id());
+                }
+            }
+        }
+
+        /** Removes the result files written before one failed, so that a failed run holds none (its plan.json stays). */
+        private void removeResults() {
+            Path folder = workspace.runFolder(analysis.id(), record.id());
+            List<String> names = new ArrayList<>(List.of(RunOutputs.SPECIFICATIONS, RunOutputs.SUMMARY));
+            names.addAll(InferenceSections.FILE_NAMES);
+            for (String name : names) {
+                try {
+                    Files.deleteIfExists(folder.resolve(name));
+                } catch (IOException e) {
+                    LOG.warn("run {} of analysis {}: a partial result file is left: {}", record.id(), analysis.id(),
+                            e.getMessage());
+                }
+            }
+        }
+
+        /** Ends the run on a workspace that could not take its writes; the cause, with its paths, is logged here only. */
+        private void failed(WorkspaceWriteException e) {
+            LOG.error("run {} of analysis {}: {}", record.id(), analysis.id(), e.getMessage(), e.getCause());
+            end(RunState.FAILED, "", e.getMessage(), "failed: " + e.getMessage());
+            if (!unrecorded) {
                 active.remove(record.id());
             }
         }
@@ -282,9 +333,17 @@ public class RunQueue {
             }
             // on disk first: a status poll that sees the end in memory must find it in the workspace too
             StoredRun ending = record.ending(state, Instant.now(), where, why);
-            workspace.update(ending);
-            record = ending;
-            workspace.log(record, logLine);
+            try {
+                workspace.update(ending);
+                record = ending;
+                workspace.log(record, logLine);
+            } catch (WorkspaceWriteException e) {
+                // a full or read-only disk: the end is known in memory, and this job answers its status until a restart
+                LOG.error("run {} of analysis {} ended ({}) but {}", ending.id(), ending.analysisId(), logLine,
+                        e.getMessage(), e.getCause());
+                record = ending;
+                unrecorded = true;
+            }
             if (state == RunState.CANCELLED && record.started() == null) {
                 started(record.id());
             }

@@ -1,7 +1,11 @@
 package org.forkscape.web.system;
 
 import jakarta.servlet.http.HttpServletRequest;
+import java.io.IOException;
+import java.nio.file.FileSystemException;
 import org.forkscape.InputException;
+import org.forkscape.run.Workspace;
+import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.explore.RunNotFinishedException;
 import org.forkscape.web.run.RunQueueFullException;
 import org.slf4j.Logger;
@@ -30,9 +34,11 @@ class ErrorAdvice {
     private static final Logger LOG = LoggerFactory.getLogger(ErrorAdvice.class);
 
     private final DataSize maxUpload;
+    private final Workspace workspace;
 
-    ErrorAdvice(@Value("${spring.servlet.multipart.max-file-size}") DataSize maxUpload) {
+    ErrorAdvice(@Value("${spring.servlet.multipart.max-file-size}") DataSize maxUpload, Workspace workspace) {
         this.maxUpload = maxUpload;
+        this.workspace = workspace;
     }
 
     @ExceptionHandler(InputException.class)
@@ -51,14 +57,39 @@ class ErrorAdvice {
         return answer(request, HttpStatus.SERVICE_UNAVAILABLE, "", e.getMessage());
     }
 
+    /**
+     * A full disk answers 507 (Insufficient Storage), a workspace that cannot be written 503: both are the
+     * server's state, not the request's, and the same request can succeed once space is freed or the folder
+     * made writable. The sentence names no path; the log has the cause.
+     */
+    @ExceptionHandler(WorkspaceWriteException.class)
+    Object storage(WorkspaceWriteException e, HttpServletRequest request) {
+        LOG.error("{} {}: {}", request.getMethod(), request.getRequestURI(), e.getMessage(), e.getCause());
+        return answer(request, e.diskFull() ? HttpStatus.INSUFFICIENT_STORAGE : HttpStatus.SERVICE_UNAVAILABLE, "",
+                e.getMessage());
+    }
+
     @ExceptionHandler(MaxUploadSizeExceededException.class)
     Object tooLarge(MaxUploadSizeExceededException e, HttpServletRequest request) {
         return answer(request, HttpStatus.PAYLOAD_TOO_LARGE, "file", "the file is larger than this server accepts ("
                 + maxUpload.toMegabytes() + " MB, setting forkscape.data.max-upload)");
     }
 
+    /**
+     * An upload the server could not spool into the workspace (its parts above the threshold go to a folder
+     * there) is the workspace's state, answered as {@link #storage}; any other multipart failure is the
+     * request's.
+     */
     @ExceptionHandler(MultipartException.class)
     Object badUpload(MultipartException e, HttpServletRequest request) {
+        for (Throwable t = e.getCause(); t != null; t = t.getCause()) {
+            if (t instanceof IOException io) {
+                WorkspaceWriteException failure = workspace.writeFailure(io, "the upload was not kept");
+                if (failure.diskFull() || io instanceof FileSystemException) {
+                    return storage(failure, request);
+                }
+            }
+        }
         return answer(request, HttpStatus.BAD_REQUEST, "file", "the upload could not be read: send the CSV file as "
                 + "the form field \"file\" of a multipart/form-data request");
     }

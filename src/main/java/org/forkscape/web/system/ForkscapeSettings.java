@@ -33,7 +33,8 @@ public record ForkscapeSettings(Path workspace, Demo demo, Data data, Runs runs,
     }
 
     /**
-     * @param threads           fitting threads per run, 0 for one per processor
+     * @param threads           fitting threads per run, 0 for one per processor but one (at least one), so that
+     *                          a core stays free to answer the explorer while a run computes
      * @param maxSpecifications specifications one run may fit, whatever its plan's own cap
      * @param maxNullDraws      null draws one run may ask for
      * @param maxMemory         the memory one run's estimate may reach; 0 for a share of the Java heap
@@ -42,7 +43,7 @@ public record ForkscapeSettings(Path workspace, Demo demo, Data data, Runs runs,
     public record Runs(int concurrent, int queue, int threads, long maxSpecifications, int maxNullDraws,
             DataSize maxMemory) {
         public int fittingThreads() {
-            return threads > 0 ? threads : Runtime.getRuntime().availableProcessors();
+            return threads > 0 ? threads : Math.max(1, Runtime.getRuntime().availableProcessors() - 1);
         }
     }
 

@@ -2,6 +2,7 @@ package org.forkscape.web.system;
 
 import org.apache.catalina.core.StandardHost;
 import org.forkscape.data.CsvLimits;
+import org.forkscape.run.FreeSpace;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.explore.InfluenceAnalysis;
 import org.forkscape.web.explore.DecisionInfluence;
@@ -12,6 +13,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
+import org.springframework.beans.factory.ObjectProvider;
 import org.springframework.beans.factory.annotation.Value;
 import org.springframework.boot.context.properties.EnableConfigurationProperties;
 import org.springframework.boot.tomcat.servlet.TomcatServletWebServerFactory;
@@ -26,9 +28,10 @@ import org.springframework.util.unit.DataSize;
 class WebConfiguration {
     private static final Logger LOG = LoggerFactory.getLogger(WebConfiguration.class);
 
+    /** The workspace, its free space measured on its file store unless a test gives a {@link FreeSpace} of its own. */
     @Bean
-    Workspace workspace(ForkscapeSettings settings) {
-        Workspace workspace = new Workspace(settings.workspace());
+    Workspace workspace(ForkscapeSettings settings, ObjectProvider<FreeSpace> freeSpace) {
+        Workspace workspace = new Workspace(settings.workspace(), freeSpace.getIfAvailable(() -> FreeSpace.OF_FILE_STORE));
         LOG.info("analyses and runs are kept in {}", workspace.root());
         return workspace;
     }

@@ -331,12 +331,13 @@ public class RunQueue {
             if (!ended.compareAndSet(false, true)) {
                 return false;
             }
-            // on disk first: a status poll that sees the end in memory must find it in the workspace too
+            // on disk first: a status poll that sees the end in memory must find it in the workspace too, and
+            // the log line before the record, so that whoever sees the end there finds it in the log
             StoredRun ending = record.ending(state, Instant.now(), where, why);
             try {
+                workspace.log(record, logLine);
                 workspace.update(ending);
                 record = ending;
-                workspace.log(record, logLine);
             } catch (WorkspaceWriteException e) {
                 // a full or read-only disk: the end is known in memory, and this job answers its status until a restart
                 LOG.error("run {} of analysis {} ended ({}) but {}", ending.id(), ending.analysisId(), logLine,

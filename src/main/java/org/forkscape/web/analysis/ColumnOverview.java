@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
 import org.forkscape.data.CategoricalColumn;
+import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Column;
 import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
@@ -18,9 +19,11 @@ import org.forkscape.text.HumanNumbers;
  *                   most frequent first
  * @param levelCount for a categorical column, the number of distinct levels
  * @param bars       the histogram: equal-width bins for a numeric column, the shown levels otherwise
+ * @param strayText  for a categorical column that is mostly numbers, the few cells that are not (which make it
+ *                   text: often a missing cell written another way); empty otherwise
  */
 public record ColumnOverview(String name, String type, int missing, double mean, double sd, double min, double max,
-        List<Level> levels, int levelCount, List<Bar> bars) {
+        List<Level> levels, int levelCount, List<Bar> bars, List<String> strayText) {
 
     static final int SHOWN_LEVELS = 12;
     static final int BINS = 16;
@@ -33,6 +36,20 @@ public record ColumnOverview(String name, String type, int missing, double mean,
      * tooltip.
      */
     public record Bar(double x, double y, double width, double height, String label, int count) {
+    }
+
+    /**
+     * The data page's warning for a column of numbers that reads as text because of a few cells, naming them
+     * and the fix; empty when there is none.
+     */
+    public String strayTextWarning() {
+        if (strayText.isEmpty()) {
+            return "";
+        }
+        return "Reads as text because of the value" + (strayText.size() == 1 ? " " : "s ")
+                + String.join(", ", strayText.stream().map(v -> "\"" + v + "\"").toList())
+                + "; if these mark missing cells, write them as " + CsvTableReader.MISSING_SPELLINGS
+                + " and upload the file again, so that the column is numeric.";
     }
 
     /** One of this column's summaries for the page (see {@link HumanNumbers#number}); empty when undefined. */
@@ -87,7 +104,7 @@ public record ColumnOverview(String name, String type, int missing, double mean,
                     : HumanNumbers.number(min));
         }
         return new ColumnOverview(c.name(), "numeric", missing, mean, n > 1 ? Math.sqrt(m2 / (n - 1)) : Double.NaN,
-                min, max, List.of(), 0, bars(counts, labels));
+                min, max, List.of(), 0, bars(counts, labels), List.of());
     }
 
     private static ColumnOverview categorical(CategoricalColumn c) {
@@ -100,7 +117,8 @@ public record ColumnOverview(String name, String type, int missing, double mean,
         List<Level> shown = List.copyOf(levels.subList(0, Math.min(SHOWN_LEVELS, levels.size())));
         int[] shownCounts = shown.stream().mapToInt(Level::count).toArray();
         return new ColumnOverview(c.name(), "categorical", c.missingCount(), Double.NaN, Double.NaN, Double.NaN,
-                Double.NaN, shown, counts.length, bars(shownCounts, shown.stream().map(Level::label).toList()));
+                Double.NaN, shown, counts.length, bars(shownCounts, shown.stream().map(Level::label).toList()),
+                c.strayTextLevels());
     }
 
     private static List<Bar> bars(int[] counts, List<String> labels) {

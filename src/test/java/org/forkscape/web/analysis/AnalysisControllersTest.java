@@ -65,6 +65,20 @@ class AnalysisControllersTest extends WebTest {
                 .andExpect(content().string(containsString("<td class=\"num\">-1.3\u00d710\u207b\u2075</td>")));
     }
 
+    /** A numeric column that two cells make text is said on the data page, with the cells and the fix. */
+    @Test
+    void theDataPageWarnsOfNumbersReadAsText() throws Exception {
+        StringBuilder csv = new StringBuilder("station,rainfall\n");
+        for (int i = 0; i < 12; i++) {
+            csv.append("s").append(i).append(',').append(i == 3 ? "n/a" : i == 7 ? "missing" : String.valueOf(i * 1.5))
+                    .append('\n');
+        }
+        String id = upload("rain.csv", csv.toString());
+        mvc.perform(get("/analyses/" + id)).andExpect(status().isOk())
+                .andExpect(content().string(containsString("Reads as text because of the values &quot;missing&quot;, "
+                        + "&quot;n/a&quot;; if these mark missing cells, write them as an empty cell, NA, NaN or .")));
+    }
+
     @Test
     void aBadFileIsRefusedWithItsLineAndNothingIsKept() throws Exception {
         int before = workspace.analyses().size();

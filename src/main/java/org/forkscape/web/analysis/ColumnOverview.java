@@ -87,7 +87,7 @@ public record ColumnOverview(String name, String type, int missing, double mean,
         int missing = x.length - n;
         if (n == 0) {
             return new ColumnOverview(c.name(), "numeric", missing, Double.NaN, Double.NaN, Double.NaN, Double.NaN,
-                    List.of(), 0, List.of());
+                    List.of(), 0, List.of(), List.of());
         }
         int[] counts = new int[BINS];
         double width = (max - min) / BINS;

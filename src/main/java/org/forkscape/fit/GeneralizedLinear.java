@@ -240,15 +240,27 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     private static FitStatus keyStatus(Moments mom, int keyColumn) {
-        double total = mom.totalSquares[keyColumn];
+        return switch (dropReason(mom, keyColumn)) {
+            case CONSTANT -> FitStatus.CONSTANT_KEY;
+            case FIXED_EFFECTS -> FitStatus.KEY_IN_FIXED_EFFECTS;
+            case OTHER_COLUMNS -> FitStatus.KEY_IN_CONTROLS;
+        };
+    }
+
+    /**
+     * Why a column was dropped: constant in the rows, nearly spanned by the fixed effects (its within sum of
+     * squares below {@link CholeskySubsetSolver#MIN_WITHIN_SHARE} of its total), or by the other columns.
+     */
+    private static DropReason dropReason(Moments mom, int column) {
+        double total = mom.totalSquares[column];
         if (!(total > 0)) {
-            return FitStatus.CONSTANT_KEY;
+            return DropReason.CONSTANT;
         }
         int stride = mom.variant.columns;
-        if (mom.variant.absorbs && mom.within[keyColumn * stride + keyColumn] < CholeskySubsetSolver.MIN_WITHIN_SHARE * total) {
-            return FitStatus.KEY_IN_FIXED_EFFECTS;
+        if (mom.variant.absorbs && mom.within[column * stride + column] < CholeskySubsetSolver.MIN_WITHIN_SHARE * total) {
+            return DropReason.FIXED_EFFECTS;
         }
-        return FitStatus.KEY_IN_CONTROLS;
+        return DropReason.OTHER_COLUMNS;
     }
 
     private String separation(ModelFamily family) {
@@ -265,17 +277,11 @@ public final class GeneralizedLinear implements Estimator {
     private String droppedNote(Moments mom, SpecificationModel spec) {
         int[] cols = spec.factorOrder();
         java.util.Map<String, java.util.List<String>> dropped = new java.util.LinkedHashMap<>();
-        int stride = mom.variant.columns;
         for (int j = 0; j < cols.length - 1; j++) {
-            if (irls.kept[j]) {
-                continue;
+            if (!irls.kept[j]) {
+                dropped.computeIfAbsent(dropReason(mom, cols[j]).words, r -> new java.util.ArrayList<>())
+                        .add(mom.variant.layout.columnName(cols[j]));
             }
-            int c = cols[j];
-            double total = mom.totalSquares[c];
-            DropReason reason = !(total > 0) ? DropReason.CONSTANT
-                    : mom.variant.absorbs && mom.within[c * stride + c] < CholeskySubsetSolver.MIN_WITHIN_SHARE * total
-                            ? DropReason.FIXED_EFFECTS : DropReason.OTHER_COLUMNS;
-            dropped.computeIfAbsent(reason.words, r -> new java.util.ArrayList<>()).add(mom.variant.layout.columnName(c));
         }
         return DropReason.note(dropped);
     }

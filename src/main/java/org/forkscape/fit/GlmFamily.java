@@ -88,15 +88,30 @@ abstract class GlmFamily {
      */
     static final double BOUNDARY = 1e-10;
 
-    private static double binomialDeviance(double y, double mu) {
-        return y > 0 ? -2 * Math.log(mu) : -2 * Math.log1p(-mu);
+    /** The binomial family with a 0/1 outcome: what the logit and probit links share. */
+    private abstract static class Binomial extends GlmFamily {
+        @Override
+        double variance(double mu) {
+            return mu * (1 - mu);
+        }
+
+        @Override
+        double unitDeviance(double y, double mu) {
+            return y > 0 ? -2 * Math.log(mu) : -2 * Math.log1p(-mu);
+        }
+
+        @Override
+        double startingMean(double sum, int count) {
+            return (sum + 0.5) / (count + 1);
+        }
+
+        @Override
+        boolean atBoundary(double mu) {
+            return mu < BOUNDARY || mu > 1 - BOUNDARY;
+        }
     }
 
-    private static double binomialStart(double sum, int count) {
-        return (sum + 0.5) / (count + 1);
-    }
-
-    static final GlmFamily LOGIT = new GlmFamily() {
+    static final GlmFamily LOGIT = new Binomial() {
         private static final double THRESHOLD = 30;
 
         @Override
@@ -152,32 +167,12 @@ abstract class GlmFamily {
         }
 
         @Override
-        double variance(double mu) {
-            return mu * (1 - mu);
-        }
-
-        @Override
-        double unitDeviance(double y, double mu) {
-            return binomialDeviance(y, mu);
-        }
-
-        @Override
         double link(double mu) {
             return Math.log(mu / (1 - mu));
         }
-
-        @Override
-        double startingMean(double sum, int count) {
-            return binomialStart(sum, count);
-        }
-
-        @Override
-        boolean atBoundary(double mu) {
-            return mu < BOUNDARY || mu > 1 - BOUNDARY;
-        }
     };
 
-    static final GlmFamily PROBIT = new GlmFamily() {
+    static final GlmFamily PROBIT = new Binomial() {
         /** -qnorm(eps): R's bound on the probit's linear predictor. */
         private final double threshold = -new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1)
                 .inverseCumulativeProbability(EPS);
@@ -200,29 +195,9 @@ abstract class GlmFamily {
         }
 
         @Override
-        double variance(double mu) {
-            return mu * (1 - mu);
-        }
-
-        @Override
-        double unitDeviance(double y, double mu) {
-            return binomialDeviance(y, mu);
-        }
-
-        @Override
         double link(double mu) {
             return new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1)
                     .inverseCumulativeProbability(mu);
-        }
-
-        @Override
-        double startingMean(double sum, int count) {
-            return binomialStart(sum, count);
-        }
-
-        @Override
-        boolean atBoundary(double mu) {
-            return mu < BOUNDARY || mu > 1 - BOUNDARY;
         }
     };
 

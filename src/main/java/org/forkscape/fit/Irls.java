@@ -114,18 +114,11 @@ final class Irls {
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= maxIterations; iterations++) {
             information(true);
-            if (!decided) {
-                decideColumns(p);
-                decided = true;
-                if (!kept[p - 1]) {
-                    outcome = Outcome.KEY_COLLINEAR;
-                    return;
-                }
-            }
-            if (!factorKept(p)) {
+            if (!factor(p, !decided) || !kept[p - 1]) {
                 outcome = Outcome.KEY_COLLINEAR;
                 return;
             }
+            decided = true;
             double decrement = solveStep(p, levels);
             double before = deviance;
             double t = 1;
@@ -176,7 +169,7 @@ final class Irls {
         }
         if (outcome == Outcome.CONVERGED) {
             information(false);
-            if (!factorKept(p)) {
+            if (!factor(p, false)) {
                 outcome = Outcome.KEY_COLLINEAR;
             }
         }
@@ -337,11 +330,20 @@ final class Irls {
         }
     }
 
-    /** Drops, in order, each column nearly spanned by the levels and the kept columns before it. */
-    private void decideColumns(int p) {
-        System.arraycopy(gram, 0, factor, 0, p * p);
-        keptCount = 0;
+    /**
+     * Cholesky of the kept columns' block of the within information. When {@code decide}, first drops, in
+     * order, each column nearly spanned by the levels and the kept columns before it (its pivot below
+     * {@link #MIN_PIVOT_SHARE} of its own sum of squares) and counts the kept ones; otherwise returns false
+     * when a kept column's pivot is no longer positive.
+     */
+    private boolean factor(int p, boolean decide) {
+        if (decide) {
+            keptCount = 0;
+        }
         for (int j = 0; j < p; j++) {
+            if (!decide && !kept[j]) {
+                continue;
+            }
             double own = gram[j * p + j];
             double pivot = own;
             for (int k = 0; k < j; k++) {
@@ -350,47 +352,20 @@ final class Irls {
                     pivot -= f * f;
                 }
             }
-            if (!(own > 0) || !(pivot > MIN_PIVOT_SHARE * own)) {
-                kept[j] = false;
-                beta[j] = 0;
-                continue;
-            }
-            kept[j] = true;
-            keptCount++;
-            double d = Math.sqrt(pivot);
-            factor[j * p + j] = d;
-            for (int i = j + 1; i < p; i++) {
-                double s = gram[i * p + j];
-                for (int k = 0; k < j; k++) {
-                    if (kept[k]) {
-                        s -= factor[i * p + k] * factor[j * p + k];
-                    }
+            if (decide) {
+                kept[j] = own > 0 && pivot > MIN_PIVOT_SHARE * own;
+                if (!kept[j]) {
+                    beta[j] = 0;
+                    continue;
                 }
-                factor[i * p + j] = s / d;
-            }
-        }
-    }
-
-    /** Cholesky of the kept columns' block; false when it is no longer positive definite. */
-    private boolean factorKept(int p) {
-        for (int j = 0; j < p; j++) {
-            if (!kept[j]) {
-                continue;
-            }
-            double pivot = gram[j * p + j];
-            for (int k = 0; k < j; k++) {
-                if (kept[k]) {
-                    double f = factor[j * p + k];
-                    pivot -= f * f;
-                }
-            }
-            if (!(pivot > 0)) {
+                keptCount++;
+            } else if (!(pivot > 0)) {
                 return false;
             }
             double d = Math.sqrt(pivot);
             factor[j * p + j] = d;
             for (int i = j + 1; i < p; i++) {
-                if (!kept[i]) {
+                if (!decide && !kept[i]) {
                     continue;
                 }
                 double s = gram[i * p + j];

@@ -23,6 +23,12 @@ public sealed interface FitData permits ObservedRows, ResampledVariant {
     DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors);
 
     /**
+     * The same rows as {@link #refitRows}, row by row as a generalized linear model reads them, the outcome
+     * as recorded, into {@code into}.
+     */
+    void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into);
+
+    /**
      * The rows the sandwich of solution {@code s} reads: after a QR refit, those of the last
      * {@link #refitRows} call ({@code positions} the kept columns' places in them); after a Cholesky
      * solve, the stored rows.

@@ -118,9 +118,7 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     private void fitRows(GlmStarts.Key key, FitData data, Moments mom, ErrorType errors, GlmStarts.Start start) {
-        DataVariant variant = data.variant();
-        DesignRows design = data.refitRows(mom, key.columns(), key.outcome(), errors);
-        rows.fill(design, variant.coded.recorded[key.outcome()], variant.levels);
+        data.glmRows(mom, key.columns(), key.outcome(), errors, rows);
         GlmFamily family = GlmFamily.of(key.family());
         if (startAlpha.length < rows.levels || startBeta.length < rows.p) {
             startAlpha = new double[Math.max(rows.levels, startAlpha.length)];
@@ -211,17 +209,20 @@ public final class GeneralizedLinear implements Estimator {
                 double raw = recorded[rows.source[i]];
                 double eta1 = eta + b * (1 - raw);
                 double eta0 = eta - b * raw;
-                double s1 = f.meanSlope(eta1);
-                double s0 = f.meanSlope(eta0);
-                sum += f.mean(eta1) - f.mean(eta0);
+                double m1 = f.mean(eta1);
+                double m0 = f.mean(eta0);
+                double s1 = f.meanSlope(eta1, m1);
+                double s0 = f.meanSlope(eta0, m0);
+                sum += m1 - m0;
                 levelGradient[l] += s1 - s0;
                 for (int j = 0; j < key; j++) {
                     columnGradient[j] += (s1 - s0) * x[at + j];
                 }
                 columnGradient[key] += s1 * (x[at + key] + 1 - raw) - s0 * (x[at + key] - raw);
             } else {
-                double slope = f.meanSlope(eta);
-                double curvature = f.meanCurvature(eta) * b;
+                double mean = irls.mu[i];
+                double slope = f.meanSlope(eta, mean);
+                double curvature = f.meanCurvature(eta, mean, slope) * b;
                 sum += slope;
                 levelGradient[l] += curvature;
                 for (int j = 0; j < p; j++) {

@@ -23,6 +23,19 @@ abstract class GlmFamily {
     /** d^2 mu / d eta^2 at {@code eta}, for the delta method of the average marginal effect. */
     abstract double meanCurvature(double eta);
 
+    /**
+     * d mu / d eta at {@code eta} whose mean {@link #mean} gave {@code mean}: the same value as
+     * {@link #meanSlope}, overridden where a family can take it from the mean without another exponential.
+     */
+    double meanSlope(double eta, double mean) {
+        return meanSlope(eta);
+    }
+
+    /** d^2 mu / d eta^2 from the mean and slope at {@code eta} (see {@link #meanSlope(double, double)}). */
+    double meanCurvature(double eta, double mean, double slope) {
+        return meanCurvature(eta);
+    }
+
     /** Var(y) / dispersion at mean {@code mu}. */
     abstract double variance(double mu);
 
@@ -42,25 +55,24 @@ abstract class GlmFamily {
     abstract boolean atBoundary(double mu);
 
     /**
-     * The deviance of rows from..to-1 at linear predictors {@code eta}, writing each row's mean into
-     * {@code mu}: the hot loop of every iteration (overridden where a family can share its exponentials).
+     * The hot loop of every iteration, for rows from..to-1 at linear predictors {@code eta}: each row's
+     * mean (into {@code mu}), working weight mu'(eta)^2 / V(mu) and score (y - mu) mu'(eta) / V(mu); returns
+     * the rows' deviance. Overridden where a family can share its exponentials.
      */
-    double deviance(double[] y, double[] eta, double[] mu, int from, int to) {
+    double evaluate(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int from, int to) {
         double d = 0;
         for (int i = from; i < to; i++) {
             double m = mean(eta[i]);
             mu[i] = m;
             d += unitDeviance(y[i], m);
         }
+        weightsAndScores(y, eta, mu, weight, score, from, to);
         return d;
     }
 
-    /**
-     * Each row's working weight mu'(eta)^2 / V(mu) and score (y - mu) mu'(eta) / V(mu), from its linear
-     * predictor and its mean (already in {@code mu}).
-     */
-    void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
-        for (int i = 0; i < n; i++) {
+    /** The working weights and scores of rows from..to-1, from their linear predictors and means. */
+    void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int from, int to) {
+        for (int i = from; i < to; i++) {
             double m = mu[i];
             double slope = meanSlope(eta[i]);
             double v = variance(m);
@@ -120,27 +132,35 @@ abstract class GlmFamily {
             return t / (1 + t);
         }
 
-        /** One exponential and one logarithm per row: -2 log mu = 2 log(1 + 1/t), -2 log(1 - mu) = 2 log(1 + t). */
+        /** Rows whose deviance terms are multiplied before one logarithm is taken. */
+        private static final int PER_LOGARITHM = 8;
+
+        /**
+         * One exponential per row, and one logarithm per {@link #PER_LOGARITHM} rows: -2 log mu =
+         * 2 log(1 + 1/t) and -2 log(1 - mu) = 2 log(1 + t) with t = e^eta, whose factors (each between 1 and
+         * 1 + 1/eps, 4.5e15) are multiplied in groups of eight (at most 1.7e125, far from overflow) before
+         * their logarithm is added. The canonical link: mu'(eta) = V(mu) = mu (1 - mu), so the weight is
+         * mu (1 - mu) and the score y - mu.
+         */
         @Override
-        double deviance(double[] y, double[] eta, double[] mu, int from, int to) {
-            double d = 0;
+        double evaluate(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int from, int to) {
+            double logs = 0;
+            double product = 1;
+            int factors = 0;
             for (int i = from; i < to; i++) {
                 double e = eta[i];
+                boolean held = e < -THRESHOLD || e > THRESHOLD;
                 double t = e < -THRESHOLD ? EPS : e > THRESHOLD ? 1 / EPS : Math.exp(e);
-                mu[i] = t / (1 + t);
-                d += 2 * Math.log(y[i] > 0 ? 1 + 1 / t : 1 + t);
-            }
-            return d;
-        }
-
-        /** The canonical link: mu'(eta) = V(mu) = mu (1 - mu), so the weight is mu (1 - mu) and the score y - mu. */
-        @Override
-        void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
-            for (int i = 0; i < n; i++) {
-                double e = eta[i];
-                double m = mu[i];
+                double m = t / (1 + t);
+                mu[i] = m;
+                product *= y[i] > 0 ? 1 + 1 / t : 1 + t;
+                if (++factors == PER_LOGARITHM) {
+                    logs += Math.log(product);
+                    product = 1;
+                    factors = 0;
+                }
                 double v = m * (1 - m);
-                if (e > THRESHOLD || e < -THRESHOLD) {
+                if (held) {
                     weight[i] = EPS * EPS / v;
                     score[i] = (y[i] - m) * EPS / v;
                 } else {
@@ -148,6 +168,7 @@ abstract class GlmFamily {
                     score[i] = y[i] - m;
                 }
             }
+            return 2 * (logs + Math.log(product));
         }
 
         @Override
@@ -162,8 +183,22 @@ abstract class GlmFamily {
 
         @Override
         double meanCurvature(double eta) {
-            double mu = mean(eta);
-            return meanSlope(eta) * (1 - 2 * mu);
+            return meanCurvature(eta, mean(eta), meanSlope(eta));
+        }
+
+        /**
+         * mu (1 - mu) within the threshold: e^eta / (1 + e^eta)^2 up to an absolute rounding of about 1e-16
+         * (relatively larger where mu is within 1e-8 of 1), which is all that the sums over rows of the
+         * average marginal effect and its gradient see.
+         */
+        @Override
+        double meanSlope(double eta, double mean) {
+            return eta > THRESHOLD || eta < -THRESHOLD ? EPS : mean * (1 - mean);
+        }
+
+        @Override
+        double meanCurvature(double eta, double mean, double slope) {
+            return slope * (1 - 2 * mean);
         }
 
         @Override
@@ -209,8 +244,9 @@ abstract class GlmFamily {
 
         /** The canonical link: mu'(eta) = V(mu) = mu, so the weight is mu and the score y - mu. */
         @Override
-        void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int n) {
-            for (int i = 0; i < n; i++) {
+        void weightsAndScores(double[] y, double[] eta, double[] mu, double[] weight, double[] score, int from,
+                int to) {
+            for (int i = from; i < to; i++) {
                 double m = mu[i];
                 weight[i] = m;
                 score[i] = y[i] - m;
@@ -225,6 +261,12 @@ abstract class GlmFamily {
         @Override
         double meanCurvature(double eta) {
             return Math.exp(eta);
+        }
+
+        /** The mean itself: mu'(eta) = e^eta, held to eps as the mean is. */
+        @Override
+        double meanSlope(double eta, double mean) {
+            return mean;
         }
 
         @Override

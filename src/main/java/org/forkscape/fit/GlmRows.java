@@ -32,8 +32,63 @@ final class GlmRows {
      * @param variantLevels   the variant's number of fixed-effect levels
      */
     void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
-        n = rows.n;
-        p = rows.p;
+        grow(rows.n, rows.p);
+        for (int j = 0; j < p; j++) {
+            double[] column = rows.x[j];
+            for (int i = 0, at = j; i < n; i++, at += p) {
+                x[at] = column[i];
+            }
+        }
+        int[] compact = startLevels(variantLevels);
+        for (int i = 0; i < n; i++) {
+            level[i] = compactLevel(compact, rows.level[i]);
+            source[i] = rows.source[i];
+            y[i] = recordedOutcome[source[i]];
+            cluster[i] = rows.cluster[i];
+        }
+    }
+
+    /**
+     * The rows of {@code mom} (observed data: each variant row at most once), columns {@code cols} (key
+     * last) in within coordinates, gathered straight from the variant's columns: the same values as
+     * {@link DesignRows#fill} followed by {@link #fill(DesignRows, double[], int)}, in one pass.
+     *
+     * @param clusterCodes each variant row's cluster code, or null
+     */
+    void fill(Moments mom, int[] cols, double[] recordedOutcome, int[] clusterCodes) {
+        DataVariant v = mom.variant;
+        grow(mom.n, cols.length);
+        int[] compact = startLevels(v.levels);
+        double[][] offsets = mom.levelMeanOffset;
+        double[][] columns = new double[p][];
+        for (int j = 0; j < p; j++) {
+            columns[j] = v.shifted[cols[j]];
+        }
+        int[] used = mom.n == v.rows ? null : mom.usableRows();
+        double[] off = new double[p];
+        int lastLevel = -1;
+        for (int k = 0; k < n; k++) {
+            int r = used == null ? k : used[k];
+            int l = v.level[r];
+            if (l != lastLevel) {
+                for (int j = 0; j < p; j++) {
+                    off[j] = offsets[l][cols[j]];
+                }
+                lastLevel = l;
+            }
+            for (int j = 0, at = k * p; j < p; j++) {
+                x[at + j] = columns[j][r] - off[j];
+            }
+            level[k] = compactLevel(compact, l);
+            source[k] = r;
+            y[k] = recordedOutcome[r];
+            cluster[k] = clusterCodes == null ? 0 : clusterCodes[r];
+        }
+    }
+
+    private void grow(int rows, int columns) {
+        n = rows;
+        p = columns;
         if (x.length < n * p) {
             x = new double[n * p];
         }
@@ -43,28 +98,24 @@ final class GlmRows {
             cluster = new int[n];
             source = new int[n];
         }
-        for (int j = 0; j < p; j++) {
-            double[] column = rows.x[j];
-            for (int i = 0, at = j; i < n; i++, at += p) {
-                x[at] = column[i];
-            }
-        }
+    }
+
+    private int[] startLevels(int variantLevels) {
         int[] compact = new int[variantLevels];
         Arrays.fill(compact, -1);
         if (variantLevel.length < variantLevels) {
             variantLevel = new int[variantLevels];
         }
         levels = 0;
-        for (int i = 0; i < n; i++) {
-            int l = rows.level[i];
-            if (compact[l] < 0) {
-                compact[l] = levels;
-                variantLevel[levels++] = l;
-            }
-            level[i] = compact[l];
-            source[i] = rows.source[i];
-            y[i] = recordedOutcome[source[i]];
-            cluster[i] = rows.cluster[i];
+        return compact;
+    }
+
+    /** The compact level of variant level {@code l}, numbered in order of first appearance. */
+    private int compactLevel(int[] compact, int l) {
+        if (compact[l] < 0) {
+            compact[l] = levels;
+            variantLevel[levels++] = l;
         }
+        return compact[l];
     }
 }

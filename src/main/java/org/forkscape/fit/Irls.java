@@ -22,9 +22,9 @@ import java.util.Arrays;
  * quadratically (the next change is about that square), and below {@link #SCORING_DECREMENT} for the
  * probit's Fisher scoring, which converges only linearly. On large data a relative deviance criterion alone
  * stops while a probit's coefficients are still off by 1e-4 of their standard errors. A step that leaves
- * the deviance undefined or larger is halved. The information is then computed once more at the estimate,
- * for the covariance. Not thread safe: one per
- * worker thread, buffers reused.
+ * the deviance undefined or larger is halved. Each trial point's one pass over the rows gives its deviance
+ * and, speculatively, its information and score, so the next step (and, at the estimate, the covariance)
+ * needs no pass of its own. Not thread safe: one per worker thread, buffers reused.
  */
 final class Irls {
     static final double TOLERANCE = 1e-10;
@@ -109,11 +109,10 @@ final class Irls {
             System.arraycopy(startBeta, 0, beta, 0, p);
         }
         Arrays.fill(kept, 0, p, true);
-        deviance = predictAndDeviance(alpha, beta, eta, mu);
+        deviance = evaluate(alpha, beta, eta, mu);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= maxIterations; iterations++) {
-            information(true);
             if (!factor(p, !decided) || !kept[p - 1]) {
                 outcome = Outcome.KEY_COLLINEAR;
                 return;
@@ -130,7 +129,7 @@ final class Irls {
                 for (int j = 0; j < p; j++) {
                     trialBeta[j] = kept[j] ? beta[j] + t * step[j] : 0;
                 }
-                trial = predictAndDeviance(trialAlpha, trialBeta, trialEta, trialMu);
+                trial = evaluate(trialAlpha, trialBeta, trialEta, trialMu);
                 if (Double.isFinite(trial) && trial <= before * (1 + 1e-12) + 1e-300) {
                     break;
                 }
@@ -168,7 +167,7 @@ final class Irls {
             return;
         }
         if (outcome == Outcome.CONVERGED) {
-            information(false);
+            // the accepted trial's pass left the information at the estimate
             if (!factor(p, false)) {
                 outcome = Outcome.KEY_COLLINEAR;
             }
@@ -190,45 +189,20 @@ final class Irls {
         Arrays.fill(beta, 0, rows.p, 0);
     }
 
-    /** Rows per chunk of the pass that forms linear predictors and deviance together, so each stays in cache. */
+    /** Rows per chunk of the pass, so that a chunk's rows stay in cache between its steps. */
     private static final int CHUNK = 512;
 
     /**
-     * The linear predictors (into {@code etaOut}), the means (into {@code muOut}) and the deviance at
-     * coefficients {@code a}, {@code b}, chunk by chunk in row order.
-     */
-    private double predictAndDeviance(double[] a, double[] b, double[] etaOut, double[] muOut) {
-        int n = rows.n;
-        int p = rows.p;
-        double[] x = rows.x;
-        int[] level = rows.level;
-        double d = 0;
-        for (int from = 0; from < n; from += CHUNK) {
-            int to = Math.min(n, from + CHUNK);
-            for (int i = from, at = from * p; i < to; i++, at += p) {
-                double e = a[level[i]];
-                for (int j = 0; j < p; j++) {
-                    e += x[at + j] * b[j];
-                }
-                etaOut[i] = e;
-            }
-            d += family.deviance(rows.y, etaOut, muOut, from, to);
-        }
-        return d;
-    }
-
-    /**
-     * The weights, the score and the within cross-products at the current linear predictor and means, in
-     * one pass: the weighted sums of each level (weight, score, columns), the weighted cross-products and
-     * the columns' score, from which the levels' parts are then removed, S = sum w x x' - sum_l s_l m_l m_l'
-     * and r = sum x u - sum_l m_l U_l (m_l the level's weighted column means). The rows are in within
-     * coordinates already (each column's mean over its level's rows is 0), so the weighted means are of
-     * the order of the columns' spread and the subtraction cancels little. Rows go four at a time, so that
-     * each cross-product entry is loaded and stored once per four rows.
+     * One pass over the rows at coefficients {@code a}, {@code b}: chunk by chunk in row order, the linear
+     * predictors (into {@code etaOut}), the means (into {@code muOut}) and the deviance, then the weights,
+     * the scores and their sums of the information and the score (see {@link #accumulate}). A trial step
+     * whose deviance is rejected has its information discarded; an accepted one has it ready for the next
+     * step, and the last accepted one for the covariance at the estimate, so each iteration reads the rows
+     * once.
      *
-     * @param withScore whether to sum the score as well (not needed for the information at the estimate)
+     * @return the deviance
      */
-    private void information(boolean withScore) {
+    private double evaluate(double[] a, double[] b, double[] etaOut, double[] muOut) {
         int n = rows.n;
         int p = rows.p;
         int levels = rows.levels;
@@ -239,10 +213,69 @@ final class Irls {
         Arrays.fill(levelScore, 0, levels, 0);
         Arrays.fill(gram, 0, p * p, 0);
         Arrays.fill(rhs, 0, p, 0);
-        family.weightsAndScores(rows.y, eta, mu, weight, score, n);
-        boolean oneLevel = levels == 1;
-        int blocks = n - n % BLOCK;
-        for (int i = 0; i < blocks; i += BLOCK) {
+        double d = 0;
+        for (int from = 0; from < n; from += CHUNK) {
+            int to = Math.min(n, from + CHUNK);
+            predict(a, b, etaOut, from, to);
+            d += family.evaluate(rows.y, etaOut, muOut, weight, score, from, to);
+            accumulate(from, to);
+        }
+        removeLevelMeans();
+        return d;
+    }
+
+    /**
+     * The linear predictors of rows from..to-1, four rows at a time so that their four sums are independent
+     * chains of additions (one row's sum alone waits on each addition before the next); each row's own
+     * sum is in column order either way, so the values do not depend on the grouping.
+     */
+    private void predict(double[] a, double[] b, double[] etaOut, int from, int to) {
+        int p = rows.p;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        int blocks = from + (to - from) - (to - from) % BLOCK;
+        for (int i = from; i < blocks; i += BLOCK) {
+            int b0 = i * p;
+            int b1 = b0 + p;
+            int b2 = b1 + p;
+            int b3 = b2 + p;
+            double e0 = a[level[i]];
+            double e1 = a[level[i + 1]];
+            double e2 = a[level[i + 2]];
+            double e3 = a[level[i + 3]];
+            for (int j = 0; j < p; j++) {
+                double c = b[j];
+                e0 += x[b0 + j] * c;
+                e1 += x[b1 + j] * c;
+                e2 += x[b2 + j] * c;
+                e3 += x[b3 + j] * c;
+            }
+            etaOut[i] = e0;
+            etaOut[i + 1] = e1;
+            etaOut[i + 2] = e2;
+            etaOut[i + 3] = e3;
+        }
+        for (int i = blocks, at = blocks * p; i < to; i++, at += p) {
+            double e = a[level[i]];
+            for (int j = 0; j < p; j++) {
+                e += x[at + j] * b[j];
+            }
+            etaOut[i] = e;
+        }
+    }
+
+    /**
+     * Adds rows from..to-1 (weights and scores already computed) to the weighted sums of each level
+     * (weight, score, columns), the weighted cross-products and the columns' score. Rows go four at a time,
+     * so that each cross-product entry is loaded and stored once per four rows.
+     */
+    private void accumulate(int from, int to) {
+        int p = rows.p;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        boolean oneLevel = rows.levels == 1;
+        int blocks = from + (to - from) - (to - from) % BLOCK;
+        for (int i = from; i < blocks; i += BLOCK) {
             int b0 = i * p;
             int b1 = b0 + p;
             int b2 = b1 + p;
@@ -275,32 +308,38 @@ final class Irls {
                 if (oneLevel) {
                     levelMean[j] += a0 + a1 + a2 + a3;
                 }
-                if (withScore) {
-                    rhs[j] += x0 * u0 + x1 * u1 + x2 * u2 + x3 * u3;
-                }
+                rhs[j] += x0 * u0 + x1 * u1 + x2 * u2 + x3 * u3;
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {
                     gram[go + k] += a0 * x[b0 + k] + a1 * x[b1 + k] + a2 * x[b2 + k] + a3 * x[b3 + k];
                 }
             }
         }
-        for (int i = blocks; i < n; i++) {
+        for (int i = blocks; i < to; i++) {
             int at = i * p;
             double w = weight[i];
             double u = score[i];
             addToLevel(level[i], w, u, x, at, p);
             for (int j = 0; j < p; j++) {
                 double a = w * x[at + j];
-                if (withScore) {
-                    rhs[j] += x[at + j] * u;
-                }
+                rhs[j] += x[at + j] * u;
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {
                     gram[go + k] += a * x[at + k];
                 }
             }
         }
-        for (int l = 0; l < levels; l++) {
+    }
+
+    /**
+     * Turns the sums into the within information and score: the levels' parts removed,
+     * S = sum w x x' - sum_l s_l m_l m_l' and r = sum x u - sum_l m_l U_l (m_l the level's weighted column
+     * means). The rows are in within coordinates already (each column's mean over its level's rows is 0),
+     * so the weighted means are of the order of the columns' spread and the subtraction cancels little.
+     */
+    private void removeLevelMeans() {
+        int p = rows.p;
+        for (int l = 0; l < rows.levels; l++) {
             double s = levelWeight[l];
             int lo = l * p;
             for (int j = 0; j < p; j++) {
@@ -309,9 +348,7 @@ final class Irls {
             double u = levelScore[l];
             for (int j = 0; j < p; j++) {
                 double m = levelMean[lo + j];
-                if (withScore) {
-                    rhs[j] -= m * u;
-                }
+                rhs[j] -= m * u;
                 double sm = s * m;
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {

@@ -33,6 +33,12 @@ public final class ObservedRows implements FitData {
         return rows;
     }
 
+    /** Gathered straight from the variant's columns, with no column-by-column copy in between. */
+    @Override
+    public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
+        into.fill(mom, cols, variant.coded.recorded[y], clusterCodes(errors));
+    }
+
     @Override
     public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
             ErrorType errors, boolean refit) {

@@ -255,6 +255,11 @@ public final class ResampledVariant implements FitData {
     }
 
     @Override
+    public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
+        into.fill(refitRows(mom, cols, y, errors), v.coded.recorded[y], v.levels);
+    }
+
+    @Override
     public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
             ErrorType errors, boolean refit) {
         prepareClusters(errors);

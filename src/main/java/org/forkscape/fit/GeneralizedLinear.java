@@ -70,6 +70,11 @@ public final class GeneralizedLinear implements Estimator {
                 confidence, keyTerm);
     }
 
+    /** Whether the last fit factored its information by QR of the weighted design ({@link Irls#orthogonal}). */
+    boolean factoredByQr() {
+        return irls.orthogonal;
+    }
+
     /** The start of {@code key}: its parent's fit, fitting the missing ancestors first (nearest first). */
     private GlmStarts.Start startOf(GlmStarts.Key key, FitData data, Moments mom, ErrorType errors) {
         java.util.ArrayDeque<GlmStarts.Key> missing = new java.util.ArrayDeque<>();

@@ -41,6 +41,15 @@ final class Irls {
      * {@link CholeskySubsetSolver#MIN_WITHIN_SHARE}).
      */
     static final double MIN_PIVOT_SHARE = CholeskySubsetSolver.MIN_WITHIN_SHARE;
+    /**
+     * A kept column whose Cholesky pivot is below this share of its own weighted sum of squares has lost up
+     * to five of the factor's digits to the squaring of the condition number in the cross-products (Higham,
+     * Accuracy and Stability of Numerical Algorithms, 2nd ed., section 10.1): the fit then factors the
+     * weighted design itself by Householder QR instead ({@link #orthogonalFactor}), as R's {@code glm.fit}
+     * always does, and keeps the column unless its remaining norm is below {@link QrRefit#TOLERANCE} of
+     * its own (the rule of the least-squares refit).
+     */
+    static final double ORTHOGONAL_BELOW_SHARE = 1e-5;
 
     enum Outcome { CONVERGED, NOT_CONVERGED, SEPARATION, KEY_COLLINEAR }
 
@@ -85,6 +94,13 @@ final class Irls {
     private double[] trialBeta = new double[0];
     private double[] trialEta = new double[0];
     private double[] trialMu = new double[0];
+    /** Whether this fit factors by QR of the weighted design ({@link #ORTHOGONAL_BELOW_SHARE}). */
+    boolean orthogonal;
+    /** The weighted design's columns, column by column, overwritten by their Householder vectors. */
+    private double[][] design = new double[0][];
+    private double[] householderScale = new double[0];
+    private int[] keptOrder = new int[0];
+    private boolean[] negativeDiagonal = new boolean[0];
     /** Rows per block of the cross-product pass. */
     private static final int BLOCK = 4;
 
@@ -109,6 +125,7 @@ final class Irls {
             System.arraycopy(startBeta, 0, beta, 0, p);
         }
         Arrays.fill(kept, 0, p, true);
+        orthogonal = false;
         deviance = evaluate(alpha, beta, eta, mu);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
@@ -407,12 +424,16 @@ final class Irls {
     }
 
     /**
-     * Cholesky of the kept columns' block of the within information. When {@code decide}, first drops, in
-     * order, each column nearly spanned by the levels and the kept columns before it (its pivot below
-     * {@link #MIN_PIVOT_SHARE} of its own sum of squares) and counts the kept ones; otherwise returns false
-     * when a kept column's pivot is no longer positive.
+     * The lower factor L of the kept columns' block of the within information (L L' = I). When
+     * {@code decide}, first drops, in order, each column nearly spanned by the levels and the kept columns
+     * before it and counts the kept ones; otherwise returns false when a kept column's pivot is no longer
+     * positive. By Cholesky of the cross-products, unless a pivot is small enough to have cost digits
+     * ({@link #ORTHOGONAL_BELOW_SHARE}): then, for the rest of the fit, by QR of the weighted design.
      */
     private boolean factor(int p, boolean decide) {
+        if (orthogonal) {
+            return orthogonalFactor(p, decide);
+        }
         if (decide) {
             keptCount = 0;
         }
@@ -427,6 +448,10 @@ final class Irls {
                     double f = factor[j * p + k];
                     pivot -= f * f;
                 }
+            }
+            if (own > 0 && !(pivot > ORTHOGONAL_BELOW_SHARE * own)) {
+                orthogonal = true;
+                return orthogonalFactor(p, decide);
             }
             if (decide) {
                 kept[j] = own > 0 && pivot > MIN_PIVOT_SHARE * own;
@@ -452,6 +477,84 @@ final class Irls {
                 }
                 factor[i * p + j] = s / d;
             }
+        }
+        return true;
+    }
+
+    /**
+     * The factor from Householder QR of the weighted within design A = W^1/2 (X - M), M each row's level's
+     * weighted column means, so that A'A is the within information (Golub &amp; Van Loan, Matrix
+     * Computations, 4th ed., section 5.2): with A = QR, L = R' up to the signs of R's rows, made positive
+     * on the diagonal. Orthogonal factorisation does not square the condition number, so L keeps its
+     * digits where the Cholesky of A'A would not (R's {@code summary.glm} takes its covariance from the same
+     * R). Columns are taken in order; when {@code decide}, one whose remaining norm is below
+     * {@link QrRefit#TOLERANCE} of its own is dropped.
+     */
+    private boolean orthogonalFactor(int p, boolean decide) {
+        int n = rows.n;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        if (design.length < p || design[0].length < n) {
+            design = new double[p][Math.max(n, 1)];
+            householderScale = new double[p];
+            keptOrder = new int[p];
+            negativeDiagonal = new boolean[p];
+        }
+        if (decide) {
+            keptCount = 0;
+        }
+        int rank = 0;
+        double tolerance = QrRefit.TOLERANCE * QrRefit.TOLERANCE;
+        for (int j = 0; j < p; j++) {
+            if (!decide && !kept[j]) {
+                continue;
+            }
+            double[] a = design[j];
+            double own = 0;
+            for (int i = 0, at = j; i < n; i++, at += p) {
+                double v = Math.sqrt(weight[i]) * (x[at] - levelMean[level[i] * p + j]);
+                a[i] = v;
+                own += v * v;
+            }
+            for (int t = 0; t < rank; t++) {
+                double[] v = design[keptOrder[t]];
+                double s = 0;
+                for (int i = t; i < n; i++) {
+                    s += v[i] * a[i];
+                }
+                s *= householderScale[t];
+                for (int i = t; i < n; i++) {
+                    a[i] -= s * v[i];
+                }
+            }
+            double remaining = 0;
+            for (int i = rank; i < n; i++) {
+                remaining += a[i] * a[i];
+            }
+            if (decide) {
+                kept[j] = own > 0 && remaining > tolerance * own;
+                if (!kept[j]) {
+                    beta[j] = 0;
+                    continue;
+                }
+                keptCount++;
+            } else if (!(remaining > 0)) {
+                return false;
+            }
+            for (int t = 0; t < rank; t++) {
+                double r = a[t];
+                factor[j * p + keptOrder[t]] = negativeDiagonal[t] ? -r : r;
+            }
+            double norm = Math.sqrt(remaining);
+            double head = a[rank];
+            double diagonal = head > 0 ? -norm : norm;
+            factor[j * p + j] = norm;
+            negativeDiagonal[rank] = diagonal < 0;
+            // the reflector v = a - diagonal e_rank, scaled so that H = I - scale v v'
+            a[rank] = head - diagonal;
+            householderScale[rank] = 1 / (norm * (norm + Math.abs(head)));
+            keptOrder[rank] = j;
+            rank++;
         }
         return true;
     }

@@ -36,12 +36,6 @@ final class Irls {
     /** Linear convergence: the last step itself must be about 3e-8 standard errors. */
     static final double SCORING_DECREMENT = 1e-15;
     /**
-     * A column whose weighted within sum of squares, after the columns before it, is below this share of its
-     * own is collinear with them and dropped (the bound of the least-squares Cholesky route,
-     * {@link CholeskySubsetSolver#MIN_WITHIN_SHARE}).
-     */
-    static final double MIN_PIVOT_SHARE = CholeskySubsetSolver.MIN_WITHIN_SHARE;
-    /**
      * A kept column whose Cholesky pivot is below this share of its own weighted sum of squares has lost up
      * to five of the factor's digits to the squaring of the condition number in the cross-products (Higham,
      * Accuracy and Stability of Numerical Algorithms, 2nd ed., section 10.1): the fit then factors the
@@ -426,7 +420,7 @@ final class Irls {
     /**
      * The lower factor L of the kept columns' block of the within information (L L' = I). When
      * {@code decide}, first drops, in order, each column nearly spanned by the levels and the kept columns
-     * before it and counts the kept ones; otherwise returns false when a kept column's pivot is no longer
+     * before it (the QR's rule; here, a column with no weighted within spread) and counts the kept ones; otherwise returns false when a kept column's pivot is no longer
      * positive. By Cholesky of the cross-products, unless a pivot is small enough to have cost digits
      * ({@link #ORTHOGONAL_BELOW_SHARE}): then, for the rest of the fit, by QR of the weighted design.
      */
@@ -454,7 +448,8 @@ final class Irls {
                 return orthogonalFactor(p, decide);
             }
             if (decide) {
-                kept[j] = own > 0 && pivot > MIN_PIVOT_SHARE * own;
+                // a column with a small pivot has gone to the QR above; one with no spread at all is dropped
+                kept[j] = own > 0;
                 if (!kept[j]) {
                     beta[j] = 0;
                     continue;

@@ -1,9 +1,13 @@
 // Draws the plan form from the plan JSON and writes every edit back into it. Every field carries the JSON
 // path the plan reader uses in its messages (data-path), so a problem is shown beside the field it names.
+// A change of value (typing, ticking a control) updates the plan and the few counts it changes in place;
+// only a change of structure (a decision or alternative added, removed or moved, a rule or kind changed)
+// draws the form again.
 import { clear, el } from '../helpers.js';
+import { count as countText } from '../numbers.js';
 import {
-  ERROR_TYPES, KINDS, KIND_TITLES, MODELS, TRANSFORMS, alternativeCount, newAlternative, newDecision, parentPath,
-  parseTransform,
+  ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS, alternativeCount,
+  newAlternative, newDecision, parentPath, parseTransform, problemInWords,
 } from './plan-model.js';
 
 let sequence = 0;
@@ -17,9 +21,10 @@ function idFor(path) {
  * @param root     the element to draw into (emptied first)
  * @param plan     the plan object, edited in place
  * @param columns  the data's columns, [{name, type}]
- * @param hooks    {changed(): a value changed, restructured(): redraw needed}
+ * @param defaults the value the plan reader takes for each top-level setting left out
+ * @param hooks    {changed(path): a value changed at that path, restructured(path): redraw needed}
  */
-export function renderPlan(root, plan, columns, hooks) {
+export function renderPlan(root, plan, columns, defaults, hooks) {
   sequence = 0;
   clear(root);
   const f = new Fields(columns, hooks);
@@ -27,7 +32,7 @@ export function renderPlan(root, plan, columns, hooks) {
     el('section', { class: 'panel', 'aria-labelledby': 'about-title' },
       el('h2', { id: 'about-title' }, 'About this plan'),
       el('div', { class: 'field', 'data-path': '' }, el('p', { class: 'problem', hidden: true, role: 'alert' })),
-      f.text('title', 'Title', plan.title || '', (v) => set(plan, 'title', v)),
+      f.text('title', 'Title', plan.title || '', (v) => set(plan, 'title', v), { class: 'wide' }),
       f.area('description', 'Description (the reasoning behind the decisions, for the record)',
         plan.description || '', (v) => set(plan, 'description', v)),
       el('p', { class: 'hint' }, 'Data: this analysis\u2019s file (data.csv).')));
@@ -35,7 +40,19 @@ export function renderPlan(root, plan, columns, hooks) {
     el('h2', {}, 'Decisions'), el('p', { class: 'problem', hidden: true, role: 'alert' }));
   (plan.decisions || []).forEach((d, i) => list.append(decision(f, plan, d, i)));
   list.append(addDecision(plan, hooks));
-  root.append(list, settings(f, plan));
+  root.append(list, settings(f, plan, defaults));
+}
+
+/** Writes the alternative count of every decision again (after a tick, which does not redraw the form). */
+export function refreshCounts(root, plan) {
+  (plan.decisions || []).forEach((d, i) => {
+    const node = root.querySelector(`[data-path="decisions[${i}]"] .alternative-count`);
+    if (node) node.textContent = alternativesText(alternativeCount(d));
+  });
+}
+
+function alternativesText(n) {
+  return `${n.toLocaleString('en')} alternative${n === 1n ? '' : 's'}`;
 }
 
 function set(object, key, value) {
@@ -63,7 +80,7 @@ class Fields {
     input.value = value;
     input.addEventListener('input', () => {
       write(input.value);
-      this.hooks.changed();
+      this.hooks.changed(path);
     });
     return this.wrap(path, label, input);
   }
@@ -73,19 +90,24 @@ class Fields {
     input.value = value;
     input.addEventListener('input', () => {
       write(input.value);
-      this.hooks.changed();
+      this.hooks.changed(path);
     });
     return this.wrap(path, label, input);
   }
 
-  number(path, label, value, write, attributes = {}) {
+  /** A number; when it may be left out, `fallback` is what the plan reader then takes, shown as the hint. */
+  number(path, label, value, write, attributes = {}, fallback = null) {
     const input = el('input', { type: 'number', id: idFor(path), ...attributes });
     input.value = value === undefined || value === null ? '' : String(value);
     input.addEventListener('input', () => {
       write(input.value === '' ? '' : Number(input.value));
-      this.hooks.changed();
+      this.hooks.changed(path);
     });
-    return this.wrap(path, label, input);
+    if (fallback === null) return this.wrap(path, label, input);
+    input.placeholder = fallback.value;
+    const hint = el('p', { class: 'hint default-hint', id: `${input.id}-default` }, `Left empty: ${fallback.words}`);
+    input.setAttribute('aria-describedby', hint.id);
+    return this.wrap(path, label, input, hint);
   }
 
   select(path, label, options, value, write, restructure = false) {
@@ -94,10 +116,30 @@ class Fields {
     select.value = value;
     select.addEventListener('change', () => {
       write(select.value);
-      if (restructure) this.hooks.restructured();
-      else this.hooks.changed();
+      if (restructure) this.hooks.restructured(path);
+      else this.hooks.changed(path);
     });
     return this.wrap(path, label, select);
+  }
+
+  /**
+   * A select with a line beside it on what the chosen value means and its source (`help` maps each value
+   * to {text, source}); the line follows the choice without a redraw.
+   */
+  explained(path, label, options, value, help, write, restructure = false) {
+    const field = this.select(path, label, options, value, write, restructure);
+    const control = field.querySelector('select');
+    const note = el('p', { class: 'hint choice-note', id: `${control.id}-note` });
+    const explain = () => {
+      const h = help[control.value];
+      clear(note);
+      if (h) note.append(h.text, ' ', el('span', { class: 'source' }, `Source: ${h.source}.`));
+    };
+    explain();
+    control.addEventListener('change', explain);
+    control.setAttribute('aria-describedby', note.id);
+    field.insertBefore(note, field.querySelector('.problem'));
+    return field;
   }
 
   column(path, label, value, write, none = null) {
@@ -107,9 +149,13 @@ class Fields {
     return this.select(path, label, options, value || '', write);
   }
 
-  /** A ticked list of columns, kept in the order they were ticked (the plan's order). */
+  /**
+   * A ticked list of columns, kept in the order they were ticked (the plan's order). A tick changes the
+   * plan and the legend (`legend` is its text for the list as it stands), nothing else of the form.
+   */
   columnList(path, legend, chosen, write) {
-    const set = el('fieldset', { class: 'column-choices' }, el('legend', {}, legend));
+    const title = el('legend', {}, legend(chosen));
+    const set = el('fieldset', { class: 'column-choices' }, title);
     for (const c of this.columns) {
       const id = idFor(`${path}-${c.name}`);
       const box = el('input', { type: 'checkbox', id, value: c.name });
@@ -119,7 +165,8 @@ class Fields {
         if (box.checked) now.push(c.name);
         chosen.splice(0, chosen.length, ...now);
         write(chosen);
-        this.hooks.restructured();
+        title.textContent = legend(chosen);
+        this.hooks.changed(path);
       });
       set.append(el('div', {}, box, ' ', el('label', { for: id }, c.name)));
     }
@@ -134,13 +181,13 @@ function decision(f, plan, d, i) {
   const head = el('div', { class: 'decision-head' },
     el('div', {}, el('div', { class: 'kind' }, d.kind || 'decision'), el('div', {}, KIND_TITLES[d.kind] || '')),
     f.text(`${path}.name`, 'Decision name', d.name || '', (v) => { d.name = v; }),
-    el('span', { class: 'alternative-count' }, `${n.toLocaleString('en')} alternative${n === 1n ? '' : 's'}`),
+    el('span', { class: 'alternative-count' }, alternativesText(n)),
     el('span', { class: 'spacer' }),
     button('Move up', `Move decision ${d.name} up`, i === 0, () => move(plan, i, -1, f.hooks)),
     button('Move down', `Move decision ${d.name} down`, i === plan.decisions.length - 1, () => move(plan, i, 1, f.hooks)),
     button('Remove', `Remove decision ${d.name}`, false, () => {
       plan.decisions.splice(i, 1);
-      f.hooks.restructured();
+      f.hooks.restructured('decisions');
     }));
   box.append(head, el('p', { class: 'problem', hidden: true, role: 'alert' }));
   if (d.kind === 'controls') {
@@ -161,7 +208,7 @@ function button(text, label, disabled, action) {
 function move(plan, i, by, hooks) {
   const [d] = plan.decisions.splice(i, 1);
   plan.decisions.splice(i + by, 0, d);
-  hooks.restructured();
+  hooks.restructured('decisions');
 }
 
 function alternatives(f, d, path) {
@@ -178,13 +225,13 @@ function alternatives(f, d, path) {
     else absorbChoice(f, a, p, row);
     row.append(button('Remove', `Remove alternative ${j + 1} of ${d.name}`, false, () => {
       d.alternatives.splice(j, 1);
-      f.hooks.restructured();
+      f.hooks.restructured(`${path}.alternatives`);
     }), el('p', { class: 'problem', hidden: true, role: 'alert' }));
     list.append(row);
   });
   list.append(el('div', { class: 'add-row' }, button('Add an alternative', `Add an alternative to ${d.name}`, false, () => {
     d.alternatives.push(newAlternative(d.kind, d));
-    f.hooks.restructured();
+    f.hooks.restructured(`${path}.alternatives`);
   })));
   return list;
 }
@@ -233,9 +280,9 @@ function errorType(f, d, j, p, row) {
   const text = String(d.alternatives[j] || '');
   const cluster = text.startsWith('cluster:');
   const kind = cluster ? 'cluster' : text;
-  row.append(f.select(p, 'Type', ERROR_TYPES.map((x) => ({
+  row.append(f.explained(p, 'Type', ERROR_TYPES.map((x) => ({
     value: x, text: x === 'cluster' ? 'cluster-robust (CR1)' : x,
-  })), kind, (v) => {
+  })), kind, ERROR_HELP, (v) => {
     d.alternatives[j] = v === 'cluster' ? 'cluster:' : v;
   }, true));
   if (cluster) {
@@ -287,13 +334,13 @@ function controls(f, d, path) {
     }
   }, true));
   if (!Array.isArray(d.required)) d.required = [];
-  box.append(f.columnList(`${path}.required`, 'Required: in every specification', d.required, (v) => { d.required = v; }));
+  box.append(f.columnList(`${path}.required`, () => 'Required: in every specification', d.required,
+    (v) => { d.required = v; }));
   if (!sets) {
     if (!Array.isArray(d.optional)) d.optional = [];
-    const n = d.optional.length;
-    box.append(f.columnList(`${path}.optional`,
-      `Optional: every subset is an alternative (${n} chosen, ${(1n << BigInt(n)).toLocaleString('en')} subsets)`,
-      d.optional, (v) => { d.optional = v; }));
+    box.append(f.columnList(`${path}.optional`, (chosen) => `Optional: every subset is an alternative (${
+      chosen.length} chosen, ${(1n << BigInt(chosen.length)).toLocaleString('en')} subsets)`,
+    d.optional, (v) => { d.optional = v; }));
     return box;
   }
   const labels = Object.keys(d.sets);
@@ -305,19 +352,19 @@ function controls(f, d, path) {
       for (const [key, value] of Object.entries(d.sets)) next[key === label ? v : key] = value;
       d.sets = next;
     });
-    rename.querySelector('input').addEventListener('change', () => f.hooks.restructured());
+    rename.querySelector('input').addEventListener('change', () => f.hooks.restructured(`${path}.sets`));
     box.append(el('div', { class: 'alternative' }, rename,
       button('Remove', `Remove set ${label}`, false, () => {
         delete d.sets[label];
-        f.hooks.restructured();
+        f.hooks.restructured(`${path}.sets`);
       })),
-    f.columnList(p, `Columns of set "${label}"`, chosen, (v) => { d.sets[label] = v; }));
+    f.columnList(p, () => `Columns of set "${label}"`, chosen, (v) => { d.sets[label] = v; }));
   });
   box.append(el('div', { class: 'add-row' }, button('Add a set', `Add a set of controls to ${d.name}`, false, () => {
     let k = labels.length + 1;
     while (`set ${k}` in d.sets) k += 1;
     d.sets[`set ${k}`] = [];
-    f.hooks.restructured();
+    f.hooks.restructured(`${path}.sets`);
   })));
   return box;
 }
@@ -331,62 +378,107 @@ function addDecision(plan, hooks) {
   add.addEventListener('click', () => {
     if (!Array.isArray(plan.decisions)) plan.decisions = [];
     plan.decisions.push(newDecision(select.value, plan));
-    hooks.restructured();
+    hooks.restructured('decisions');
   });
   return el('div', { class: 'add-row' }, el('div', { class: 'field' }, el('label', { for: id }, 'New decision'), select), add);
 }
 
-function settings(f, plan) {
+function settings(f, plan, defaults) {
   // the word "rows" means single rows, so a column of that name is left to the default (see README)
   const columns = [
     { value: '', text: 'the clusters the errors use, if one column (else single rows)' },
     { value: 'rows', text: 'single rows' },
     ...f.columns.filter((c) => c.name !== 'rows').map((c) => ({ value: c.name, text: `whole clusters of ${c.name}` })),
   ];
+  const marked = (options, fallback) => options.map((o) => (o.value === fallback ? { ...o, text: `${o.text} (the default)` } : o));
   return el('section', { class: 'panel', 'aria-labelledby': 'settings-title' },
     el('h2', { id: 'settings-title' }, 'How the run is made'),
     el('div', { class: 'plan-settings' },
       f.number('confidence', 'Confidence level', plan.confidence ?? '', (v) => set(plan, 'confidence', v),
-        { step: '0.01', min: '0', max: '1' }),
-      f.select('missing', 'Rows with missing cells', [
+        { step: '0.01', min: '0', max: '1' },
+        { value: String(defaults.confidence), words: `${defaults.confidence}, that is ${Math.round(defaults.confidence * 1000) / 10}% intervals` }),
+      f.explained('missing', 'Rows with missing cells', marked([
         { value: 'per-specification', text: 'each specification uses its own complete rows' },
         { value: 'common', text: 'every specification uses the rows complete on all variables' },
-      ], plan.missing || 'per-specification', (v) => set(plan, 'missing', v === 'per-specification' ? '' : v)),
-      f.number('sample', 'Fit a random sample of (0 or empty: all)', plan.sample ?? '', (v) => set(plan, 'sample', v || ''),
-        { step: '1', min: '0' }),
-      f.number('seed', 'Seed', plan.seed ?? '', (v) => set(plan, 'seed', v), { step: '1' }),
+      ], defaults.missing), plan.missing || defaults.missing, MISSING_HELP,
+      (v) => set(plan, 'missing', v === defaults.missing ? '' : v)),
+      f.number('sample', 'Fit a random sample of', plan.sample ?? '', (v) => set(plan, 'sample', v || ''),
+        { step: '1', min: '0' },
+        { value: String(defaults.sample), words: `${defaults.sample}, every specification is fitted` }),
+      f.number('seed', 'Seed', plan.seed ?? '', (v) => set(plan, 'seed', v), { step: '1' },
+        { value: String(defaults.seed), words: `${defaults.seed} (the same seed gives the same sample and draws)` }),
       f.number('maxSpecifications', 'Largest number of specifications', plan.maxSpecifications ?? '',
-        (v) => set(plan, 'maxSpecifications', v), { step: '1', min: '1' }),
-      f.number('nullDraws', 'Null draws for joint inference (0: none)', plan.nullDraws ?? '',
-        (v) => set(plan, 'nullDraws', v), { step: '1', min: '0' }),
-      f.select('nullMethod', 'Null draws by', [
+        (v) => set(plan, 'maxSpecifications', v), { step: '1', min: '1' },
+        { value: String(defaults.maxSpecifications), words: countText(defaults.maxSpecifications) }),
+      f.number('nullDraws', 'Null draws for joint inference', plan.nullDraws ?? '',
+        (v) => set(plan, 'nullDraws', v), { step: '1', min: '0' },
+        { value: String(defaults.nullDraws), words: `${defaults.nullDraws}, no null draws` }),
+      f.explained('nullMethod', 'Null draws by', marked([
         { value: 'bootstrap', text: 'resampling (bootstrap)' },
         { value: 'permute', text: 'shuffling the key predictor' },
-      ], plan.nullMethod || 'bootstrap', (v) => set(plan, 'nullMethod', v === 'bootstrap' ? '' : v)),
+      ], defaults.nullMethod), plan.nullMethod || defaults.nullMethod, NULL_METHOD_HELP,
+      (v) => set(plan, 'nullMethod', v === defaults.nullMethod ? '' : v)),
       f.select('nullCluster', 'The bootstrap resamples', columns, plan.nullCluster || '',
         (v) => set(plan, 'nullCluster', v))));
 }
 
-/** Shows one problem beside the field its JSON path names (or the nearest enclosing one). */
-export function showProblem(root, where, message) {
-  clearProblems(root);
+/** The element whose data-path is `path`, or the nearest enclosing one; {field, path}. */
+function fieldFor(root, where) {
+  const byPath = new Map([...root.querySelectorAll('[data-path]')].map((n) => [n.getAttribute('data-path'), n]));
   let path = where || '';
-  let field = null;
   for (;;) {
-    field = [...root.querySelectorAll('[data-path]')].find((n) => n.getAttribute('data-path') === path);
-    if (field || path === '') break;
+    const field = byPath.get(path);
+    if (field || path === '') return { field: field || null, path };
     path = parentPath(path);
   }
-  if (!field) return null;
-  const note = [...field.children].find((c) => c.classList.contains('problem'));
-  if (note) {
-    note.textContent = path === where ? message : `${where}: ${message}`;
-    note.hidden = false;
+}
+
+/** Whether a field holds something the user (or the form, at their request) put there. */
+function holdsValue(field) {
+  if (!field.classList.contains('field')) return false;
+  if (field.querySelector('input[type=checkbox]:checked')) return true;
+  return [...field.querySelectorAll('input:not([type=checkbox]), select, textarea')].some((c) => c.value !== '');
+}
+
+/**
+ * Shows every problem beside the field its JSON path names (or the nearest enclosing one), in words, with
+ * the JSON path as the note's title for those who edit the file by hand. A problem at a field still empty
+ * and untouched is held back until the user asks for every problem (`all`), so that a new plan opens
+ * without errors; so is one about a whole section before anything in it was touched.
+ *
+ * @param problems [{where, message}]
+ * @param state    {touched: Set of paths, all: boolean}
+ * @return {shown: the notes shown, in order, held: problems held back}
+ */
+export function showProblems(root, problems, plan, state) {
+  clearProblems(root);
+  const shown = [];
+  let held = 0;
+  const touchedWithin = (path) => [...state.touched].some((t) => t === path || t.startsWith(`${path}.`)
+    || t.startsWith(`${path}[`) || path === '');
+  for (const { where, message } of problems) {
+    const { field, path } = fieldFor(root, where);
+    if (!field) continue;
+    const visible = state.all || state.touched.has(path) || holdsValue(field)
+      || (!field.classList.contains('field') && state.touched.size > 0 && touchedWithin(path));
+    if (!visible) {
+      held += 1;
+      continue;
+    }
+    const note = [...field.children].find((c) => c.classList.contains('problem'));
+    if (note) {
+      const line = el('span', { class: 'problem-line', title: where || 'the whole plan' },
+        problemInWords(where, message, plan));
+      line.dataset.where = where;
+      note.append(line);
+      note.hidden = false;
+      shown.push(note);
+    }
+    field.classList.add('has-problem');
+    const control = field.querySelector('input, select, textarea');
+    if (control && field.classList.contains('field')) control.setAttribute('aria-invalid', 'true');
   }
-  field.classList.add('has-problem');
-  const control = field.querySelector('input, select, textarea');
-  if (control && field.classList.contains('field')) control.setAttribute('aria-invalid', 'true');
-  return field;
+  return { shown, held };
 }
 
 export function clearProblems(root) {

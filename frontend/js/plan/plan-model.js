@@ -28,6 +28,48 @@ export const MODELS = Object.freeze([
     + 'coefficient is on the log scale of the expected outcome.' },
 ]);
 
+/**
+ * What each technical choice means, in a line, with its source: shown beside the choice in the form. The
+ * sources are the ones the engine cites where it computes the choice (fit/KeyCoefficientSandwich,
+ * infer/ResampleDesign).
+ */
+export const ERROR_HELP = Object.freeze({
+  classical: { text: 'The textbook least-squares formula: assumes every row\u2019s error has the same variance and '
+    + 'is independent of the others.', source: 'the usual least-squares variance (common practice)' },
+  HC0: { text: 'Robust to errors whose variance differs from row to row (heteroskedasticity), without a '
+    + 'small-sample correction.', source: 'White 1980, Econometrica 48(4)' },
+  HC1: { text: 'HC0 times N/(N \u2212 K), a degrees-of-freedom correction; the robust errors most software reports '
+    + 'by default.', source: 'MacKinnon & White 1985, Journal of Econometrics 29(3)' },
+  HC2: { text: 'Each row\u2019s squared residual divided by 1 \u2212 h, its leverage; unbiased when the variance is '
+    + 'in fact constant.', source: 'MacKinnon & White 1985, Journal of Econometrics 29(3)' },
+  HC3: { text: 'Each squared residual divided by (1 \u2212 h)\u00b2, which weighs high-leverage rows more; the '
+    + 'safer choice in small samples.',
+  source: 'MacKinnon & White 1985, Journal of Econometrics 29(3); Long & Ervin 2000, The American Statistician 54(3)' },
+  cluster: { text: 'Cluster-robust (CR1): errors may be correlated within each group of the chosen column, with '
+    + 'the correction G/(G \u2212 1) (N \u2212 1)/(N \u2212 K); with few clusters its p-values are too small.',
+  source: 'Cameron, Gelbach & Miller 2008, Review of Economics and Statistics 90(3); Cameron & Miller 2015, '
+    + 'Journal of Human Resources 50(2)' },
+});
+
+export const NULL_METHOD_HELP = Object.freeze({
+  bootstrap: { text: 'Each draw resamples the rows (or whole clusters) with replacement from data in which the key '
+    + 'effect has been removed, and refits every specification.',
+  source: 'Efron 1979, Annals of Statistics 7(1); whole clusters: Cameron, Gelbach & Miller 2008, Review of '
+    + 'Economics and Statistics 90(3)' },
+  permute: { text: 'Each draw shuffles the key predictor between rows, which breaks any link with the outcome, and '
+    + 'refits every specification: right when the predictor was assigned at random; single rows only.',
+  source: 'the randomization test of Fisher 1935, The Design of Experiments, Oliver & Boyd' },
+});
+
+export const MISSING_HELP = Object.freeze({
+  'per-specification': { text: 'Each specification drops only the rows missing one of its own variables, as '
+    + 'fitting it alone would; specifications may then differ in their rows as well as in their choices.',
+  source: 'listwise deletion per model (common practice)' },
+  common: { text: 'Every specification uses the same rows, those complete on every variable the plan names, so '
+    + 'that specifications differ only in their choices, at the cost of the rows dropped.',
+  source: 'listwise deletion over the whole plan (common practice)' },
+});
+
 /** Alternatives of one decision, as the engine counts them (every subset of the optional controls). */
 export function alternativeCount(d) {
   if (d.kind === 'controls') {
@@ -94,4 +136,63 @@ export function parseTransform(text) {
 export function parentPath(path) {
   const m = path.match(/^(.*?)(\[\d+\]|\.[^.[\]]+)$/);
   return m ? m[1] : '';
+}
+
+const ORDINALS = ['first', 'second', 'third', 'fourth', 'fifth', 'sixth', 'seventh', 'eighth', 'ninth', 'tenth'];
+
+const SETTING_NAMES = Object.freeze({
+  title: 'the title', description: 'the description', data: 'the data file', confidence: 'the confidence level',
+  missing: 'rows with missing cells', sample: 'the random sample', seed: 'the seed',
+  maxSpecifications: 'the largest number of specifications', nullDraws: 'the null draws',
+  nullMethod: 'the null-draw method', nullCluster: 'what the bootstrap resamples',
+});
+
+const ALTERNATIVE_PARTS = Object.freeze({
+  label: 'the label', column: 'the column', transform: 'the transform', keep: 'the rule', cluster: 'the clusters',
+  'trim.column': 'the trim column', 'trim.z': 'the largest |z| kept', trim: 'the trim', columns: 'the fixed-effect column',
+});
+
+/**
+ * A JSON path of the plan in words: {place, part}, as in {place: 'Decision 2 (predictor), first alternative',
+ * part: 'the label'} for decisions[1].alternatives[0].label.
+ */
+export function describePath(path, plan) {
+  if (!path) return { place: 'The plan', part: '' };
+  if (path === 'decisions') return { place: 'The decisions', part: '' };
+  const top = path.match(/^([A-Za-z]+)$/);
+  if (top) return { place: 'Settings', part: SETTING_NAMES[top[1]] || `the key "${top[1]}"` };
+  const m = path.match(/^decisions\[(\d+)\](.*)$/);
+  if (!m) return { place: 'The plan', part: path };
+  const i = Number(m[1]);
+  const d = (plan.decisions || [])[i] || {};
+  const places = [`Decision ${i + 1}${d.name ? ` (${d.name})` : ''}`];
+  let rest = m[2];
+  const alt = rest.match(/^\.alternatives\[(\d+)\](.*)$/);
+  if (alt) {
+    const j = Number(alt[1]);
+    places.push(`${ORDINALS[j] || `alternative ${j + 1}`}${ORDINALS[j] ? ' alternative' : ''}`);
+    rest = alt[2].replace(/^\./, '').replace(/\[\d+\]$/, '');
+    return { place: places.join(', '), part: rest ? ALTERNATIVE_PARTS[rest] || `the key "${rest}"` : '' };
+  }
+  if (rest === '.alternatives') return { place: places[0], part: 'its alternatives' };
+  if (rest === '.name') return { place: places[0], part: 'the decision name' };
+  if (rest === '.kind') return { place: places[0], part: 'the kind' };
+  const list = rest.match(/^\.(required|optional)(?:\[(\d+)\])?$/);
+  if (list) {
+    const k = list[2] === undefined ? null : Number(list[2]);
+    return { place: places[0], part: `${k === null ? 'the' : `the ${ORDINALS[k] || `number ${k + 1}`}`} ${list[1]} control${k === null ? 's' : ''}` };
+  }
+  const set = rest.match(/^\.sets(?:\.(.*?))?(?:\[(\d+)\])?$/);
+  if (set) return { place: places[0], part: set[1] ? `the set "${set[1]}"` : 'the sets' };
+  if (rest === '.combine') return { place: places[0], part: 'how the controls combine' };
+  return { place: places[0], part: rest ? `the key "${rest.replace(/^\./, '')}"` : '' };
+}
+
+/** A problem of the plan in words, as in "Decision 2 (predictor), first alternative: the label is empty". */
+export function problemInWords(where, message, plan) {
+  const { place, part } = describePath(where, plan);
+  const startsWithVerb = /^(is|are|must|has|needs|should|unknown key)\b/.test(message);
+  if (part && startsWithVerb) return `${place}: ${part} ${message}`;
+  if (part) return `${place}, ${part}: ${message}`;
+  return `${place}: ${message}`;
 }

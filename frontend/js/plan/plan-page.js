@@ -2,8 +2,8 @@
 // the server's check up to date as the plan is edited, and saves, runs, imports and exports it.
 import { ApiError, getJson, sendJson } from '../api.js';
 import { debounce, download, el } from '../helpers.js';
-import { clearProblems, renderPlan, showProblem } from './plan-form.js';
-import { specificationCount } from './plan-model.js';
+import { clearProblems, refreshCounts, renderPlan, showProblems } from './plan-form.js';
+import { problemInWords, specificationCount } from './plan-model.js';
 
 const root = document.getElementById('plan-editor');
 const analysis = root.dataset.analysis;
@@ -12,10 +12,17 @@ const jsonBox = document.getElementById('plan-json');
 
 let plan = null;
 let columns = [];
+let defaults = null;
+// which problems are shown: those at fields the user has touched or filled, or all once asked for
+const shown = { touched: new Set(), all: false };
+let lastProblems = [];
+/** Milliseconds of quiet after an edit before the server checks the plan. */
+const CHECK_DELAY = 400;
 
 const countNode = el('span', { class: 'count', id: 'spec-count', 'aria-live': 'polite' });
 const statusNode = el('p', { class: 'plan-status', id: 'plan-status', role: 'status' });
 const noticeNode = el('p', { class: 'plan-status', id: 'plan-notice', role: 'status' });
+const checkButton = el('button', { type: 'button', id: 'check-plan' }, 'Check the plan');
 const saveButton = el('button', { type: 'button', id: 'save-plan' }, 'Save the plan');
 const runButton = el('button', { type: 'button', class: 'primary', id: 'run-plan' }, 'Save and run');
 const exportButton = el('button', { type: 'button', id: 'export-plan' }, 'Export plan.json');
@@ -34,37 +41,62 @@ function showCount() {
   countNode.textContent = words;
 }
 
-const check = debounce(async () => {
+/** Shows the last check's problems as `shown` allows, and says in the status line how many there are. */
+function display() {
+  const { shown: notes, held } = showProblems(root, lastProblems, plan, shown);
+  if (lastProblems.length === 0) return notes;
+  const n = notes.length;
+  const parts = [];
+  if (n > 0) parts.push(`${n} problem${n === 1 ? '' : 's'}, each shown at its field`);
+  if (held > 0) parts.push(`${held} more at fields not filled in yet (\u201cCheck the plan\u201d shows ${held === 1 ? 'it' : 'them'})`);
+  statusNode.textContent = `Not ready: ${parts.join('; ')}.`;
+  return notes;
+}
+
+async function runCheck() {
   const sent = text();
   let answer;
   try {
     answer = await sendJson('POST', `${api}/plan/check`, sent);
   } catch (e) {
     statusNode.textContent = `The plan could not be checked: ${e.message}`;
-    return;
+    return null;
   }
-  if (sent !== text()) return;
-  clearProblems(root);
+  if (sent !== text()) return null;
+  lastProblems = answer.valid ? [] : answer.problems;
   if (answer.valid) {
+    clearProblems(root);
     statusNode.textContent = 'The plan is ready to run on this data.';
-  } else {
-    statusNode.textContent = `Not ready: ${answer.where ? `${answer.where}: ` : ''}${answer.message}`;
-    showProblem(root, answer.where, answer.message);
+    return [];
   }
-}, 300);
+  return display();
+}
 
-function changed() {
+// the server reads the whole plan against the data: ask once typing pauses, not at every key
+const check = debounce(runCheck, CHECK_DELAY);
+
+/** Asks for every problem at once and brings the first into view. */
+async function checkAll() {
+  shown.all = true;
+  const notes = await runCheck();
+  if (notes && notes.length > 0) notes[0].closest('[data-path]').scrollIntoView({ block: 'center' });
+}
+
+function changed(path) {
+  if (path !== undefined) shown.touched.add(path);
   jsonBox.value = text();
   showCount();
+  refreshCounts(root, plan);
   check();
 }
 
-function restructured() {
+function restructured(path) {
+  if (path !== undefined) shown.touched.add(path);
   const focused = document.activeElement && document.activeElement.closest('[data-path]');
-  const path = focused ? focused.getAttribute('data-path') : null;
-  renderPlan(root, plan, columns, { changed, restructured });
-  if (path !== null) {
-    const again = [...root.querySelectorAll('[data-path]')].find((n) => n.getAttribute('data-path') === path);
+  const focusPath = focused ? focused.getAttribute('data-path') : null;
+  renderPlan(root, plan, columns, defaults, { changed, restructured });
+  if (focusPath !== null) {
+    const again = [...root.querySelectorAll('[data-path]')].find((n) => n.getAttribute('data-path') === focusPath);
     const control = again && again.querySelector('input, select, textarea, button');
     if (control) control.focus();
   }
@@ -72,19 +104,23 @@ function restructured() {
 }
 
 async function save() {
-  clearProblems(root);
+  // the check lists every problem, where a refused save answers with its first: check first
+  shown.all = true;
+  const notes = await runCheck();
+  if (notes && notes.length > 0) {
+    statusNode.textContent = `Not saved. ${statusNode.textContent}`;
+    notes[0].closest('[data-path]').scrollIntoView({ block: 'center' });
+    return false;
+  }
   try {
     await sendJson('PUT', `${api}/plan`, text());
+    lastProblems = [];
+    clearProblems(root);
     statusNode.textContent = 'Saved. The plan is ready to run on this data.';
     return true;
   } catch (e) {
-    if (e instanceof ApiError) {
-      statusNode.textContent = `Not saved: ${e.where ? `${e.where}: ` : ''}${e.message}`;
-      const field = showProblem(root, e.where, e.message);
-      if (field) field.scrollIntoView({ block: 'center' });
-    } else {
-      statusNode.textContent = `Not saved: ${e.message}`;
-    }
+    const words = e instanceof ApiError ? problemInWords(e.where, e.message, plan) : e.message;
+    statusNode.textContent = `Not saved: ${words}`;
     return false;
   }
 }
@@ -113,6 +149,8 @@ function adopt(parsed, source) {
     parsed.data = 'data.csv';
   }
   plan = parsed;
+  shown.touched.clear();
+  shown.all = true;
   restructured();
   noticeNode.textContent = `${source} is now the plan being edited (not saved yet).${note}`;
 }
@@ -131,6 +169,7 @@ function toolbar() {
     }
     importInput.value = '';
   });
+  checkButton.addEventListener('click', checkAll);
   saveButton.addEventListener('click', save);
   runButton.addEventListener('click', saveAndRun);
   exportButton.addEventListener('click', () => download(new Blob([`${text()}\n`], { type: 'application/json' }), 'plan.json'));
@@ -143,7 +182,7 @@ function toolbar() {
   });
   document.getElementById('save-json').after(' ', applyJson);
   const bar = el('div', { class: 'plan-toolbar', role: 'region', 'aria-label': 'Plan actions' },
-    countNode, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode);
+    countNode, checkButton, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode);
   root.after(bar);
   const plainRun = document.getElementById('run-saved-form');
   if (plainRun) plainRun.hidden = true;
@@ -154,6 +193,9 @@ async function start() {
     const [data, current] = await Promise.all([getJson(api), getJson(`${api}/plan`)]);
     columns = data.columns.map((c) => ({ name: c.name, type: c.type }));
     plan = current.plan;
+    defaults = current.defaults;
+    // a saved plan was whole when it was saved: what the data now say about it is shown at once
+    shown.all = current.saved;
   } catch (e) {
     root.textContent = `The plan could not be loaded: ${e.message}`;
     return;

@@ -12,50 +12,57 @@ import org.forkscape.data.Table;
 /**
  * Checks a plan against its data: every named column exists (with the nearest name suggested when it
  * does not) and has a type its role allows. Each problem is a {@link PlanException} at the JSON path of
- * the field that names the column.
+ * the field that names the column; the check goes on to the next field and throws once, at the end, with
+ * the first problem and every other one ({@link PlanException#all()}).
  */
 public final class PlanChecker {
     private PlanChecker() {
     }
 
     public static void check(Plan plan, Table table) {
+        PlanProblems problems = new PlanProblems();
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
             String path = "decisions[" + i + "]";
             Decision d = ds.get(i);
             if (d instanceof Decision.Outcome o) {
-                variables(o.alternatives(), path, table, "outcome");
+                variables(o.alternatives(), path, table, "outcome", problems);
             } else if (d instanceof Decision.Predictor p) {
-                variables(p.alternatives(), path, table, "key predictor");
-                notAlsoOutcome(p, path, plan);
+                variables(p.alternatives(), path, table, "key predictor", problems);
+                notAlsoOutcome(p, path, plan, problems);
             } else if (d instanceof Decision.Controls c) {
-                controls(c, path, table, plan);
+                controls(c, path, table, plan, problems);
             } else if (d instanceof Decision.Sample s) {
-                sample(s, path, table);
+                sample(s, path, table, problems);
             } else if (d instanceof Decision.Errors e) {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
+                    String p = path + ".alternatives[" + j + "]";
                     if (t.kind() == ErrorType.Kind.CLUSTER) {
-                        existing(t.clusterColumn(), path + ".alternatives[" + j + "]", table);
+                        problems.attempt(() -> existing(t.clusterColumn(), p, table));
                     }
                 }
             } else if (d instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
-                    outcomeFits(m.alternatives().get(j), path + ".alternatives[" + j + "]", plan, table);
+                    ModelFamily family = m.alternatives().get(j);
+                    String p = path + ".alternatives[" + j + "]";
+                    problems.attempt(() -> outcomeFits(family, p, plan, table));
                 }
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
                     for (int k = 0; k < cols.size(); k++) {
-                        Column c = existing(cols.get(k), path + ".alternatives[" + j + "].columns[" + k + "]", table);
-                        levelsForModels(c, path + ".alternatives[" + j + "].columns[" + k + "]", plan);
+                        String name = cols.get(k);
+                        String p = path + ".alternatives[" + j + "].columns[" + k + "]";
+                        problems.attempt(() -> levelsForModels(existing(name, p, table), p, plan));
                     }
                 }
             }
         }
         if (plan.nullCluster() != null && !plan.nullCluster().equals(Plan.NULL_CLUSTER_ROWS)) {
-            existing(plan.nullCluster(), "nullCluster", table);
+            problems.attempt(() -> existing(plan.nullCluster(), "nullCluster", table));
         }
+        problems.throwIfAny();
     }
 
     /**
@@ -71,21 +78,27 @@ public final class PlanChecker {
                 + " (a missing cell is written as " + CsvTableReader.MISSING_SPELLINGS + ")";
     }
 
-    private static void variables(List<VariableChoice> alts, String path, Table table, String role) {
+    private static void variables(List<VariableChoice> alts, String path, Table table, String role,
+            PlanProblems problems) {
         for (int j = 0; j < alts.size(); j++) {
-            String p = path + ".alternatives[" + j + "].column";
-            Column c = existing(alts.get(j).column(), p, table);
-            if (c instanceof CategoricalColumn cat) {
-                if (cat.levels().size() != 2) {
-                    throw new PlanException(p, "\"" + c.name() + "\" is categorical with " + cat.levels().size()
-                            + " level" + (cat.levels().size() == 1 ? "" : "s") + "; a categorical " + role
-                            + " needs exactly two levels (the first in sorted order is coded 0, the other 1)"
-                            + whyText(c));
-                }
-                if (!(alts.get(j).transform() instanceof Transform.Identity)) {
-                    throw new PlanException(path + ".alternatives[" + j + "].transform",
-                            "\"" + c.name() + "\" is categorical; transforms apply to numeric columns only");
-                }
+            int at = j;
+            problems.attempt(() -> variable(alts.get(at), path + ".alternatives[" + at + "]", table, role));
+        }
+    }
+
+    private static void variable(VariableChoice v, String alternative, Table table, String role) {
+        String p = alternative + ".column";
+        Column c = existing(v.column(), p, table);
+        if (c instanceof CategoricalColumn cat) {
+            if (cat.levels().size() != 2) {
+                throw new PlanException(p, "\"" + c.name() + "\" is categorical with " + cat.levels().size()
+                        + " level" + (cat.levels().size() == 1 ? "" : "s") + "; a categorical " + role
+                        + " needs exactly two levels (the first in sorted order is coded 0, the other 1)"
+                        + whyText(c));
+            }
+            if (!(v.transform() instanceof Transform.Identity)) {
+                throw new PlanException(alternative + ".transform",
+                        "\"" + c.name() + "\" is categorical; transforms apply to numeric columns only");
             }
         }
     }
@@ -161,49 +174,62 @@ public final class PlanChecker {
         }
     }
 
-    private static void notAlsoOutcome(Decision.Predictor p, String path, Plan plan) {
+    private static void notAlsoOutcome(Decision.Predictor p, String path, Plan plan, PlanProblems problems) {
         for (int j = 0; j < p.alternatives().size(); j++) {
             String column = p.alternatives().get(j).column();
             if (plan.outcome().alternatives().stream().anyMatch(v -> v.column().equals(column))) {
-                throw new PlanException(path + ".alternatives[" + j + "].column", "\"" + column + "\" is also an "
-                        + "alternative of the outcome; a column cannot be both the outcome and the key predictor");
+                String at = path + ".alternatives[" + j + "].column";
+                problems.attempt(() -> {
+                    throw new PlanException(at, "\"" + column + "\" is also an alternative of the outcome; a column "
+                            + "cannot be both the outcome and the key predictor");
+                });
             }
         }
     }
 
-    private static void controls(Decision.Controls c, String path, Table table, Plan plan) {
-        checkControlList(c.required(), path + ".required", table, plan);
-        checkControlList(c.optional(), path + ".optional", table, plan);
+    private static void controls(Decision.Controls c, String path, Table table, Plan plan, PlanProblems problems) {
+        checkControlList(c.required(), path + ".required", table, plan, problems);
+        checkControlList(c.optional(), path + ".optional", table, plan, problems);
         if (c.sets() != null) {
-            c.sets().forEach((label, cols) -> checkControlList(cols, path + ".sets." + label, table, plan));
+            c.sets().forEach((label, cols) -> checkControlList(cols, path + ".sets." + label, table, plan, problems));
         }
     }
 
-    private static void checkControlList(List<String> cols, String path, Table table, Plan plan) {
+    private static void checkControlList(List<String> cols, String path, Table table, Plan plan,
+            PlanProblems problems) {
         for (int k = 0; k < cols.size(); k++) {
             String name = cols.get(k);
-            existing(name, path + "[" + k + "]", table);
-            boolean isKey = plan.predictor().alternatives().stream().anyMatch(v -> v.column().equals(name));
-            boolean isOutcome = plan.outcome().alternatives().stream().anyMatch(v -> v.column().equals(name));
-            if (isKey || isOutcome) {
-                throw new PlanException(path + "[" + k + "]", "\"" + name + "\" is also an alternative of the "
-                        + (isKey ? "key predictor" : "outcome") + "; a column cannot be both");
-            }
+            String at = path + "[" + k + "]";
+            problems.attempt(() -> control(name, at, table, plan));
         }
     }
 
-    private static void sample(Decision.Sample s, String path, Table table) {
+    private static void control(String name, String at, Table table, Plan plan) {
+        existing(name, at, table);
+        boolean isKey = plan.predictor().alternatives().stream().anyMatch(v -> v.column().equals(name));
+        boolean isOutcome = plan.outcome().alternatives().stream().anyMatch(v -> v.column().equals(name));
+        if (isKey || isOutcome) {
+            throw new PlanException(at, "\"" + name + "\" is also an alternative of the "
+                    + (isKey ? "key predictor" : "outcome") + "; a column cannot be both");
+        }
+    }
+
+    private static void sample(Decision.Sample s, String path, Table table, PlanProblems problems) {
         for (int j = 0; j < s.alternatives().size(); j++) {
             String p = path + ".alternatives[" + j + "]";
             SampleRule rule = s.alternatives().get(j);
-            if (rule instanceof SampleRule.KeepRows k) {
-                k.expression().bind(table, p + ".keep");
-            } else if (rule instanceof SampleRule.TrimRows t) {
-                Column c = existing(t.column(), p + ".trim.column", table);
-                if (!(c instanceof NumericColumn)) {
-                    throw new PlanException(p + ".trim.column", "\"" + c.name()
-                            + "\" is categorical; a z-score trim needs a numeric column" + whyText(c));
-                }
+            problems.attempt(() -> sampleRule(rule, p, table));
+        }
+    }
+
+    private static void sampleRule(SampleRule rule, String p, Table table) {
+        if (rule instanceof SampleRule.KeepRows k) {
+            k.expression().bind(table, p + ".keep");
+        } else if (rule instanceof SampleRule.TrimRows t) {
+            Column c = existing(t.column(), p + ".trim.column", table);
+            if (!(c instanceof NumericColumn)) {
+                throw new PlanException(p + ".trim.column", "\"" + c.name()
+                        + "\" is categorical; a z-score trim needs a numeric column" + whyText(c));
             }
         }
     }

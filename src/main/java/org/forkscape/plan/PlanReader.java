@@ -27,8 +27,9 @@ import tools.jackson.databind.json.JsonMapper;
 /**
  * Reads a plan file and checks its structure: every problem is a {@link PlanException} whose location is
  * the JSON path of the field (for example {@code decisions[2].alternatives[0].column}), or the line and
- * column when the text is not JSON at all. Checks that need the data (column names and types) are
- * {@link PlanChecker}'s.
+ * column when the text is not JSON at all. The reading goes on past a problem to the next field and
+ * throws once, at the end, with the first problem and every other one ({@link PlanException#all()}).
+ * Checks that need the data (column names and types) are {@link PlanChecker}'s.
  */
 public final class PlanReader {
     /** A key written twice is refused: JSON parsers differ on which copy wins, so the plan would be ambiguous. */
@@ -53,6 +54,12 @@ public final class PlanReader {
             "model_p_value", "deviance", "status");
     /** Optional controls in one all-subsets decision: 2^40 subsets is beyond any specification cap already. */
     static final int MAX_OPTIONAL_CONTROLS = 40;
+    /** The defaults of the plan's optional top-level settings, which the plan form shows in its empty fields. */
+    public static final double DEFAULT_CONFIDENCE = 0.95;
+    public static final long DEFAULT_SEED = 1L;
+    public static final long DEFAULT_SAMPLE = 0;
+    public static final int DEFAULT_NULL_DRAWS = 0;
+    public static final String DEFAULT_NULL_METHOD = "bootstrap";
 
     private final boolean confineDataToPlanFolder;
 
@@ -118,29 +125,43 @@ public final class PlanReader {
         if (root == null || !root.isObject()) {
             throw new PlanException("", "a plan is a JSON object {...} with at least \"data\" and \"decisions\"");
         }
+        PlanProblems problems = new PlanProblems();
         for (String key : root.propertyNames()) {
             if (!TOP_KEYS.contains(key)) {
-                throw new PlanException(InputException.cut(key), "unknown key" + suggest(key, TOP_KEYS));
+                problems.attempt(() -> {
+                    throw new PlanException(InputException.cut(key), "unknown key" + suggest(key, TOP_KEYS));
+                });
             }
         }
-        text(root, "title", "title", null);
-        text(root, "description", "description", null);
-        Path dataFile = dataFile(root, folder);
-        double confidence = number(root, "confidence", "confidence", 0.95);
-        if (!(confidence > 0 && confidence < 1)) {
-            throw new PlanException("confidence", "must lie strictly between 0 and 1, as in 0.95; found " + confidence);
-        }
-        MissingRows missing = missing(root);
-        List<Decision> decisions = decisions(root.get("decisions"));
-        long sample = wholeNumber(root, "sample", 0, 1, Long.MAX_VALUE);
-        long seed = wholeNumber(root, "seed", 1L, Long.MIN_VALUE, Long.MAX_VALUE);
-        long cap = wholeNumber(root, "maxSpecifications", Plan.DEFAULT_MAX_SPECIFICATIONS, 1, Long.MAX_VALUE);
-        int draws = (int) wholeNumber(root, "nullDraws", 0, 0, Integer.MAX_VALUE);
-        String method = text(root, "nullMethod", "nullMethod", "bootstrap");
-        if (!method.equals("bootstrap") && !method.equals("permute")) {
-            throw new PlanException("nullMethod", "must be \"bootstrap\" or \"permute\"; found \"" + method + "\"");
-        }
-        String cluster = text(root, "nullCluster", "nullCluster", null);
+        problems.attempt(() -> text(root, "title", "title", null));
+        problems.attempt(() -> text(root, "description", "description", null));
+        Path dataFile = problems.attempt(() -> dataFile(root, folder), null);
+        double confidence = problems.attempt(() -> {
+            double c = number(root, "confidence", "confidence", DEFAULT_CONFIDENCE);
+            if (!(c > 0 && c < 1)) {
+                throw new PlanException("confidence", "must lie strictly between 0 and 1, as in 0.95; found " + c);
+            }
+            return c;
+        }, DEFAULT_CONFIDENCE);
+        MissingRows missing = problems.attempt(() -> missing(root), MissingRows.PER_SPECIFICATION);
+        List<Decision> decisions = problems.attempt(() -> decisions(root.get("decisions"), problems), List.of());
+        long sample = problems.attempt(() -> wholeNumber(root, "sample", DEFAULT_SAMPLE, 1, Long.MAX_VALUE),
+                DEFAULT_SAMPLE);
+        long seed = problems.attempt(() -> wholeNumber(root, "seed", DEFAULT_SEED, Long.MIN_VALUE, Long.MAX_VALUE),
+                DEFAULT_SEED);
+        long cap = problems.attempt(() -> wholeNumber(root, "maxSpecifications", Plan.DEFAULT_MAX_SPECIFICATIONS, 1,
+                Long.MAX_VALUE), Plan.DEFAULT_MAX_SPECIFICATIONS);
+        int draws = (int) (long) problems.attempt(() -> wholeNumber(root, "nullDraws", DEFAULT_NULL_DRAWS, 0,
+                Integer.MAX_VALUE), (long) DEFAULT_NULL_DRAWS);
+        String method = problems.attempt(() -> {
+            String m = text(root, "nullMethod", "nullMethod", DEFAULT_NULL_METHOD);
+            if (!m.equals("bootstrap") && !m.equals("permute")) {
+                throw new PlanException("nullMethod", "must be \"bootstrap\" or \"permute\"; found \"" + m + "\"");
+            }
+            return m;
+        }, DEFAULT_NULL_METHOD);
+        String cluster = problems.attempt(() -> text(root, "nullCluster", "nullCluster", null), null);
+        problems.throwIfAny();
         return new Plan(dataFile, confidence, missing, decisions, sample, seed, cap, draws, method, cluster);
     }
 
@@ -190,7 +211,7 @@ public final class PlanReader {
         throw new PlanException("missing", "must be \"per-specification\" or \"common\"; found \"" + m + "\"");
     }
 
-    private static List<Decision> decisions(JsonNode node) {
+    private static List<Decision> decisions(JsonNode node, PlanProblems problems) {
         if (node == null || node.isNull()) {
             throw new PlanException("decisions", "is required: a list of decisions, at least an outcome and a "
                     + "predictor");
@@ -203,48 +224,17 @@ public final class PlanReader {
         }
         List<Decision> out = new ArrayList<>();
         Set<String> names = new HashSet<>();
+        int before = problems.count();
         for (int i = 0; i < node.size(); i++) {
             String path = "decisions[" + i + "]";
             JsonNode d = node.get(i);
-            if (!d.isObject()) {
-                throw new PlanException(path, "each decision is an object {\"name\": ..., \"kind\": ...}; found "
-                        + typeOf(d));
-            }
-            String name = text(d, "name", path + ".name", null);
-            if (name == null || name.isBlank()) {
-                throw new PlanException(path + ".name", "every decision needs a name");
-            }
-            if (!names.add(name)) {
-                throw new PlanException(path + ".name", "the decision name \"" + name + "\" is used twice");
-            }
-            if (RESERVED_NAMES.contains(name)) {
-                throw new PlanException(path + ".name", "\"" + name + "\" is an output column of specifications.csv; "
-                        + "choose another decision name");
-            }
-            String kind = text(d, "kind", path + ".kind", null);
-            if (kind == null) {
-                throw new PlanException(path + ".kind", "is required: one of " + String.join(", ", KINDS));
-            }
-            List<String> keys = DECISION_KEYS.get(kind);
-            if (keys == null) {
-                throw new PlanException(path + ".kind", "unknown kind " + InputException.quoted(kind) + suggest(kind, KINDS)
-                        + " (the kinds are " + String.join(", ", KINDS) + ")");
-            }
-            for (String key : d.propertyNames()) {
-                if (!keys.contains(key)) {
-                    throw new PlanException(path + "." + InputException.cut(key), "unknown key for a decision of kind \"" + kind + "\""
-                            + suggest(key, keys) + " (its keys are " + String.join(", ", keys) + ")");
-                }
-            }
-            out.add(switch (kind) {
-                case "outcome" -> new Decision.Outcome(name, variables(d, path));
-                case "predictor" -> new Decision.Predictor(name, variables(d, path));
-                case "controls" -> controls(d, name, path);
-                case "sample" -> sample(d, name, path);
-                case "errors" -> errors(d, name, path);
-                case "model" -> model(d, name, path);
-                default -> absorb(d, name, path);
+            problems.attempt(() -> {
+                out.add(decision(d, path, names, problems));
             });
+        }
+        if (problems.count() > before) {
+            // a decision that did not read would make the counts below wrong
+            return out;
         }
         requireCount(out, Decision.Outcome.class, "outcome", 1, 1);
         requireCount(out, Decision.Predictor.class, "predictor", 1, 1);
@@ -252,6 +242,55 @@ public final class PlanReader {
         requireCount(out, Decision.Absorb.class, "absorb", 0, 1);
         requireCount(out, Decision.Model.class, "model", 0, 1);
         return out;
+    }
+
+    /** One decision; a problem with its name is kept and its alternatives are read on. */
+    private static Decision decision(JsonNode d, String path, Set<String> names, PlanProblems problems) {
+        if (!d.isObject()) {
+            throw new PlanException(path, "each decision is an object {\"name\": ..., \"kind\": ...}; found "
+                    + typeOf(d));
+        }
+        String name = problems.attempt(() -> {
+            String n = text(d, "name", path + ".name", null);
+            if (n == null || n.isBlank()) {
+                throw new PlanException(path + ".name", "is empty; every decision needs a name");
+            }
+            if (!names.add(n)) {
+                throw new PlanException(path + ".name", "the decision name \"" + n + "\" is used twice");
+            }
+            if (RESERVED_NAMES.contains(n)) {
+                throw new PlanException(path + ".name", "\"" + n + "\" is an output column of specifications.csv; "
+                        + "choose another decision name");
+            }
+            return n;
+        }, null);
+        String kind = text(d, "kind", path + ".kind", null);
+        if (kind == null) {
+            throw new PlanException(path + ".kind", "is required: one of " + String.join(", ", KINDS));
+        }
+        List<String> keys = DECISION_KEYS.get(kind);
+        if (keys == null) {
+            throw new PlanException(path + ".kind", "unknown kind " + InputException.quoted(kind) + suggest(kind, KINDS)
+                    + " (the kinds are " + String.join(", ", KINDS) + ")");
+        }
+        for (String key : d.propertyNames()) {
+            if (!keys.contains(key)) {
+                problems.attempt(() -> {
+                    throw new PlanException(path + "." + InputException.cut(key), "unknown key for a decision of "
+                            + "kind \"" + kind + "\"" + suggest(key, keys) + " (its keys are "
+                            + String.join(", ", keys) + ")");
+                });
+            }
+        }
+        return switch (kind) {
+            case "outcome" -> new Decision.Outcome(name, variables(d, path, problems));
+            case "predictor" -> new Decision.Predictor(name, variables(d, path, problems));
+            case "controls" -> controls(d, name, path, problems);
+            case "sample" -> sample(d, name, path, problems);
+            case "errors" -> errors(d, name, path, problems);
+            case "model" -> model(d, name, path, problems);
+            default -> absorb(d, name, path, problems);
+        };
     }
 
     private static void requireCount(List<Decision> ds, Class<?> kind, String spelling, int min, int max) {
@@ -265,28 +304,37 @@ public final class PlanReader {
         }
     }
 
-    private static List<VariableChoice> variables(JsonNode d, String path) {
+    private static List<VariableChoice> variables(JsonNode d, String path, PlanProblems problems) {
         JsonNode alts = alternatives(d, path);
         List<VariableChoice> out = new ArrayList<>();
         Set<String> labels = new HashSet<>();
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "]";
-            JsonNode a = object(alts.get(j), p, "{\"label\": ..., \"column\": ..., \"transform\": ...}");
-            onlyKeys(a, p, Set.of("label", "column", "transform"));
-            String label = label(a, p, labels);
-            String column = text(a, "column", p + ".column", null);
-            if (column == null || column.isEmpty()) {
-                throw new PlanException(p + ".column", "is required: the column this alternative uses");
-            }
-            String transform = text(a, "transform", p + ".transform", "none");
-            out.add(new VariableChoice(label, column, Transform.parse(transform, p + ".transform")));
+            JsonNode node = alts.get(j);
+            problems.attempt(() -> {
+                JsonNode a = object(node, p, "{\"label\": ..., \"column\": ..., \"transform\": ...}");
+                boolean keys = problems.attempt(() -> onlyKeys(a, p, Set.of("label", "column", "transform")));
+                String label = problems.attempt(() -> label(a, p, labels), null);
+                String column = problems.attempt(() -> {
+                    String c = text(a, "column", p + ".column", null);
+                    if (c == null || c.isEmpty()) {
+                        throw new PlanException(p + ".column", "is required: the column this alternative uses");
+                    }
+                    return c;
+                }, null);
+                Transform transform = problems.attempt(() -> Transform.parse(text(a, "transform", p + ".transform",
+                        "none"), p + ".transform"), null);
+                if (keys && label != null && column != null && transform != null) {
+                    out.add(new VariableChoice(label, column, transform));
+                }
+            });
         }
         return out;
     }
 
-    private static Decision.Controls controls(JsonNode d, String name, String path) {
-        List<String> required = columns(d.get("required"), path + ".required");
-        List<String> optional = columns(d.get("optional"), path + ".optional");
+    private static Decision.Controls controls(JsonNode d, String name, String path, PlanProblems problems) {
+        List<String> required = problems.attempt(() -> columns(d.get("required"), path + ".required"), List.of());
+        List<String> optional = problems.attempt(() -> columns(d.get("optional"), path + ".optional"), List.of());
         String combine = text(d, "combine", path + ".combine", "all-subsets");
         if (combine.equals("all-subsets")) {
             if (d.has("sets")) {
@@ -314,110 +362,135 @@ public final class PlanReader {
         }
         Map<String, List<String>> named = new LinkedHashMap<>();
         for (Map.Entry<String, JsonNode> e : sets.properties()) {
-            if (e.getKey().isBlank()) {
-                throw new PlanException(path + ".sets", "a set needs a non-empty label");
-            }
-            named.put(e.getKey(), columns(e.getValue(), path + ".sets." + e.getKey()));
+            problems.attempt(() -> {
+                if (e.getKey().isBlank()) {
+                    throw new PlanException(path + ".sets", "a set needs a non-empty label");
+                }
+                named.put(e.getKey(), columns(e.getValue(), path + ".sets." + e.getKey()));
+            });
         }
         return new Decision.Controls(name, required, List.of(), named);
     }
 
-    private static Decision.Sample sample(JsonNode d, String name, String path) {
+    private static Decision.Sample sample(JsonNode d, String name, String path, PlanProblems problems) {
         JsonNode alts = alternatives(d, path);
         List<SampleRule> out = new ArrayList<>();
         Set<String> labels = new HashSet<>();
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "]";
-            JsonNode a = object(alts.get(j), p, "{\"label\": ...} with \"keep\" or \"trim\" or neither");
-            onlyKeys(a, p, Set.of("label", "keep", "trim"));
-            String label = label(a, p, labels);
-            if (a.has("keep") && a.has("trim")) {
-                throw new PlanException(p, "give either \"keep\" or \"trim\", not both");
-            }
-            if (a.has("keep")) {
-                String keep = text(a, "keep", p + ".keep", null);
-                if (keep == null || keep.isBlank()) {
-                    throw new PlanException(p + ".keep", "needs an expression, as in income > 0");
+            JsonNode node = alts.get(j);
+            problems.attempt(() -> {
+                JsonNode a = object(node, p, "{\"label\": ...} with \"keep\" or \"trim\" or neither");
+                boolean keys = problems.attempt(() -> onlyKeys(a, p, Set.of("label", "keep", "trim")));
+                String label = problems.attempt(() -> label(a, p, labels), null);
+                SampleRule rule = problems.attempt(() -> sampleRule(a, p, label), null);
+                if (keys && label != null && rule != null) {
+                    out.add(rule);
                 }
-                out.add(new SampleRule.KeepRows(label, RowExpression.parse(keep, p + ".keep")));
-            } else if (a.has("trim")) {
-                JsonNode t = object(a.get("trim"), p + ".trim", "{\"column\": ..., \"z\": ...}");
-                onlyKeys(t, p + ".trim", Set.of("column", "z"));
-                String column = text(t, "column", p + ".trim.column", null);
-                if (column == null) {
-                    throw new PlanException(p + ".trim.column", "is required: the column whose z-score is trimmed");
-                }
-                double z = number(t, "z", p + ".trim.z", Double.NaN);
-                if (!(z > 0) || Double.isInfinite(z)) {
-                    throw new PlanException(p + ".trim.z", "must be a positive number of standard deviations, as "
-                            + "in 3; found " + (Double.isNaN(z) ? "nothing" : z));
-                }
-                out.add(new SampleRule.TrimRows(label, column, z));
-            } else {
-                out.add(new SampleRule.AllRows(label));
-            }
+            });
         }
         return new Decision.Sample(name, out);
     }
 
-    private static Decision.Errors errors(JsonNode d, String name, String path) {
+    private static SampleRule sampleRule(JsonNode a, String p, String label) {
+        if (a.has("keep") && a.has("trim")) {
+            throw new PlanException(p, "give either \"keep\" or \"trim\", not both");
+        }
+        if (a.has("keep")) {
+            String keep = text(a, "keep", p + ".keep", null);
+            if (keep == null || keep.isBlank()) {
+                throw new PlanException(p + ".keep", "needs an expression, as in income > 0");
+            }
+            return new SampleRule.KeepRows(label, RowExpression.parse(keep, p + ".keep"));
+        }
+        if (a.has("trim")) {
+            JsonNode t = object(a.get("trim"), p + ".trim", "{\"column\": ..., \"z\": ...}");
+            onlyKeys(t, p + ".trim", Set.of("column", "z"));
+            String column = text(t, "column", p + ".trim.column", null);
+            if (column == null) {
+                throw new PlanException(p + ".trim.column", "is required: the column whose z-score is trimmed");
+            }
+            double z = number(t, "z", p + ".trim.z", Double.NaN);
+            if (!(z > 0) || Double.isInfinite(z)) {
+                throw new PlanException(p + ".trim.z", "must be a positive number of standard deviations, as "
+                        + "in 3; found " + (Double.isNaN(z) ? "nothing" : z));
+            }
+            return new SampleRule.TrimRows(label, column, z);
+        }
+        return new SampleRule.AllRows(label);
+    }
+
+    private static Decision.Errors errors(JsonNode d, String name, String path, PlanProblems problems) {
         JsonNode alts = alternatives(d, path);
         List<ErrorType> out = new ArrayList<>();
         Set<String> seen = new HashSet<>();
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "]";
             JsonNode a = alts.get(j);
-            if (!a.isString()) {
-                throw new PlanException(p, "each error type is text: classical, HC0, HC1, HC2, HC3 or cluster:COLUMN; "
-                        + "found " + typeOf(a));
-            }
-            ErrorType e = ErrorType.parse(a.stringValue(), p);
-            if (!seen.add(e.label())) {
-                throw new PlanException(p, InputException.quoted(e.label()) + " is listed twice");
-            }
-            out.add(e);
+            problems.attempt(() -> {
+                if (!a.isString()) {
+                    throw new PlanException(p, "each error type is text: classical, HC0, HC1, HC2, HC3 or "
+                            + "cluster:COLUMN; found " + typeOf(a));
+                }
+                ErrorType e = ErrorType.parse(a.stringValue(), p);
+                if (!seen.add(e.label())) {
+                    throw new PlanException(p, InputException.quoted(e.label()) + " is listed twice");
+                }
+                out.add(e);
+            });
         }
         return new Decision.Errors(name, out);
     }
 
-    private static Decision.Model model(JsonNode d, String name, String path) {
+    private static Decision.Model model(JsonNode d, String name, String path, PlanProblems problems) {
         JsonNode alts = alternatives(d, path);
         List<ModelFamily> out = new ArrayList<>();
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "]";
             JsonNode a = alts.get(j);
-            if (!a.isString()) {
-                throw new PlanException(p, "each model is text: " + String.join(", ", ModelFamily.spellings())
-                        + "; found " + typeOf(a));
-            }
-            String text = a.stringValue().trim();
-            ModelFamily family = java.util.Arrays.stream(ModelFamily.values())
-                    .filter(f -> f.spelling().equalsIgnoreCase(text)).findFirst()
-                    .orElseThrow(() -> new PlanException(p, "unknown model " + InputException.quoted(a.stringValue())
-                            + suggest(text, ModelFamily.spellings()) + "; use " + String.join(", ", ModelFamily.spellings())));
-            if (out.contains(family)) {
-                throw new PlanException(p, InputException.quoted(family.spelling()) + " is listed twice");
-            }
-            out.add(family);
+            problems.attempt(() -> {
+                if (!a.isString()) {
+                    throw new PlanException(p, "each model is text: " + String.join(", ", ModelFamily.spellings())
+                            + "; found " + typeOf(a));
+                }
+                String text = a.stringValue().trim();
+                ModelFamily family = java.util.Arrays.stream(ModelFamily.values())
+                        .filter(f -> f.spelling().equalsIgnoreCase(text)).findFirst()
+                        .orElseThrow(() -> new PlanException(p, "unknown model " + InputException.quoted(a.stringValue())
+                                + suggest(text, ModelFamily.spellings()) + "; use "
+                                + String.join(", ", ModelFamily.spellings())));
+                if (out.contains(family)) {
+                    throw new PlanException(p, InputException.quoted(family.spelling()) + " is listed twice");
+                }
+                out.add(family);
+            });
         }
         return new Decision.Model(name, out);
     }
 
-    private static Decision.Absorb absorb(JsonNode d, String name, String path) {
+    private static Decision.Absorb absorb(JsonNode d, String name, String path, PlanProblems problems) {
         JsonNode alts = alternatives(d, path);
         List<AbsorbChoice> out = new ArrayList<>();
         Set<String> labels = new HashSet<>();
         for (int j = 0; j < alts.size(); j++) {
             String p = path + ".alternatives[" + j + "]";
-            JsonNode a = object(alts.get(j), p, "{\"label\": ..., \"columns\": [...]}");
-            onlyKeys(a, p, Set.of("label", "columns"));
-            String label = label(a, p, labels);
-            List<String> columns = columns(a.get("columns"), p + ".columns");
-            if (columns.size() > 1) {
-                throw new PlanException(p + ".columns", "absorbing more than one fixed-effect column is not supported "
-                        + "yet; absorb one column, or add the others as categorical controls");
-            }
-            out.add(new AbsorbChoice(label, columns));
+            JsonNode node = alts.get(j);
+            problems.attempt(() -> {
+                JsonNode a = object(node, p, "{\"label\": ..., \"columns\": [...]}");
+                boolean keys = problems.attempt(() -> onlyKeys(a, p, Set.of("label", "columns")));
+                String label = problems.attempt(() -> label(a, p, labels), null);
+                List<String> columns = problems.attempt(() -> {
+                    List<String> cs = columns(a.get("columns"), p + ".columns");
+                    if (cs.size() > 1) {
+                        throw new PlanException(p + ".columns", "absorbing more than one fixed-effect column is not "
+                                + "supported yet; absorb one column, or add the others as categorical controls");
+                    }
+                    return cs;
+                }, null);
+                if (keys && label != null && columns != null) {
+                    out.add(new AbsorbChoice(label, columns));
+                }
+            });
         }
         return new Decision.Absorb(name, out);
     }
@@ -455,7 +528,7 @@ public final class PlanReader {
     private static String label(JsonNode a, String path, Set<String> seen) {
         String label = text(a, "label", path + ".label", null);
         if (label == null || label.isBlank()) {
-            throw new PlanException(path + ".label", "every alternative needs a label");
+            throw new PlanException(path + ".label", "is empty; every alternative needs a label");
         }
         if (!seen.add(label)) {
             throw new PlanException(path + ".label", "the label \"" + label + "\" is used twice in this decision");

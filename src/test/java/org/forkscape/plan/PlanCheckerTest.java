@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.io.ByteArrayInputStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
+import java.util.List;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.junit.jupiter.api.Test;
@@ -52,6 +53,18 @@ class PlanCheckerTest {
                 "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"cluster:district\"]}",
                 "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"d\", \"columns\": [\"district\"]}]}"),
                 SCHOOLS));
+    }
+
+    @Test
+    void oneCheckFindsEveryColumnProblemInPlanOrder() {
+        Plan plan = plan(column("atendance") + ", " + column("district"), column("tutoring"),
+                "{\"name\": \"c\", \"kind\": \"controls\", \"required\": [\"clas_size\"], \"optional\": [\"tutoring\"]}",
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"cluster:distrct\"]}");
+        PlanException e = assertThrows(PlanException.class, () -> PlanChecker.check(plan, SCHOOLS));
+        assertEquals(List.of("decisions[0].alternatives[0].column", "decisions[0].alternatives[1].column",
+                "decisions[2].required[0]", "decisions[2].optional[0]", "decisions[3].alternatives[1]"),
+                e.all().stream().map(PlanException::where).toList());
+        assertEquals("decisions[0].alternatives[0].column", e.where());
     }
 
     @Test

@@ -52,6 +52,32 @@ class PlanReaderTest {
         assertTrue(e.problem().contains(fragment), "expected \"" + fragment + "\" in: " + e.getMessage());
     }
 
+    /**
+     * The plan form's fresh plan: two empty alternatives, a bad seed and an unknown key. One reading finds
+     * every problem in the order of the text, and the first is the one the command line prints.
+     */
+    @Test
+    void oneReadingFindsEveryProblemInOrderAndTheFirstLeads() {
+        String json = "{\"data\": \"wards.csv\", \"seeed\": 3, \"seed\": 1.5, \"decisions\": ["
+                + "{\"name\": \"outcome\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"\", \"column\": \"\"}]}, "
+                + "{\"name\": \"\", \"kind\": \"predictor\", \"alternatives\": [{\"label\": \"x\", \"column\": \"x\"}, "
+                + "{\"label\": \"x\", \"column\": \"\", \"transform\": \"cube\"}]}]}";
+        PlanException e = failure(json);
+        assertEquals(List.of("seeed", "decisions[0].alternatives[0].label", "decisions[0].alternatives[0].column",
+                "decisions[1].name", "decisions[1].alternatives[1].label", "decisions[1].alternatives[1].column",
+                "decisions[1].alternatives[1].transform", "seed"),
+                e.all().stream().map(PlanException::where).toList());
+        assertEquals("seeed", e.where());
+        assertTrue(e.problem().startsWith("unknown key; did you mean \"seed\"?"), e.problem());
+        assertEquals(e.all().get(0).getMessage(), e.getMessage());
+    }
+
+    @Test
+    void aPlanWithOneProblemListsThatOneAlone() {
+        PlanException e = failure(plan("\"seed\": \"one\""));
+        assertEquals(List.of("seed"), e.all().stream().map(PlanException::where).toList());
+    }
+
     @Test
     void aMinimalPlanTakesEveryDefault() {
         Plan p = read(plan(""));

@@ -26,16 +26,17 @@ class PlanApiController {
 
     /**
      * @param plan  the plan as a JSON value (the text itself is what {@code PUT} saves)
-     * @param saved whether it was saved (otherwise it is the starting point of a new plan)
+     * @param saved    whether it was saved (otherwise it is the starting point of a new plan)
+     * @param defaults the value of each top-level setting the plan leaves out
      */
-    record PlanView(JsonNode plan, boolean saved, PlanCheck check) {
+    record PlanView(JsonNode plan, boolean saved, PlanCheck check, PlanDefaults defaults) {
     }
 
     @GetMapping
     PlanView get(@PathVariable String analysis) {
         StoredAnalysis a = lookup.analysis(analysis);
         String text = plans.current(a);
-        return new PlanView(Json.MAPPER.readTree(text), plans.saved(a), plans.check(a, text));
+        return new PlanView(Json.MAPPER.readTree(text), plans.saved(a), plans.check(a, text), PlanDefaults.READER);
     }
 
     /** Saves the plan text as sent; 400 with the JSON path of the problem when it cannot run. */

@@ -58,7 +58,7 @@ public class PlanService {
     public PlanCheck check(StoredAnalysis analysis, String json) {
         try {
             Plan plan = read(analysis, json);
-            return new PlanCheck(true, count(plan), fitted(plan), "", "");
+            return PlanCheck.ready(count(plan), fitted(plan));
         } catch (InputException e) {
             long count = -1;
             long fitted = -1;
@@ -69,7 +69,7 @@ public class PlanService {
             } catch (InputException unreadable) {
                 // the count is unknown until the plan reads
             }
-            return new PlanCheck(false, count, fitted, e.where(), e.problem());
+            return PlanCheck.refused(count, fitted, e);
         }
     }
 
@@ -108,7 +108,7 @@ public class PlanService {
     public PlanCheck save(StoredAnalysis analysis, String json) {
         Plan plan = read(analysis, json);
         workspace.savePlan(analysis.id(), json);
-        return new PlanCheck(true, count(plan), fitted(plan), "", "");
+        return PlanCheck.ready(count(plan), fitted(plan));
     }
 
     private static long count(Plan plan) {
@@ -124,8 +124,7 @@ public class PlanService {
         Map<String, Object> plan = new LinkedHashMap<>();
         plan.put("title", analysis.title());
         plan.put("data", Workspace.DATA);
-        plan.put("confidence", 0.95);
-        plan.put("decisions", List.of(emptyDecision("outcome"), emptyDecision("predictor")));
+                plan.put("decisions", List.of(emptyDecision("outcome"), emptyDecision("predictor")));
         return Json.MAPPER.writeValueAsString(plan);
     }
 

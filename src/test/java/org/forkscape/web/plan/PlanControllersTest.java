@@ -11,6 +11,8 @@ import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.
 import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.status;
 import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.view;
 
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
 import org.forkscape.web.CivicTestData;
 import org.forkscape.web.WebTest;
 import org.junit.jupiter.api.BeforeEach;
@@ -34,7 +36,18 @@ class PlanControllersTest extends WebTest {
                 .andExpect(jsonPath("$.plan.data").value("data.csv"))
                 .andExpect(jsonPath("$.plan.decisions[0].kind").value("outcome"))
                 .andExpect(jsonPath("$.check.valid").value(false))
-                .andExpect(jsonPath("$.check.where").value("decisions[0].alternatives[0].label"));
+                .andExpect(jsonPath("$.check.where").value("decisions[0].alternatives[0].label"))
+                // the fresh plan's four empty fields, all found by one check
+                .andExpect(jsonPath("$.check.problems.length()").value(4))
+                .andExpect(jsonPath("$.check.problems[0].where").value("decisions[0].alternatives[0].label"))
+                .andExpect(jsonPath("$.check.problems[3].where").value("decisions[1].alternatives[0].column"))
+                .andExpect(jsonPath("$.plan.confidence").doesNotExist())
+                // the defaults the form shows in the empty settings are the plan reader's
+                .andExpect(jsonPath("$.defaults.confidence").value(PlanReader.DEFAULT_CONFIDENCE))
+                .andExpect(jsonPath("$.defaults.seed").value(PlanReader.DEFAULT_SEED))
+                .andExpect(jsonPath("$.defaults.maxSpecifications").value(Plan.DEFAULT_MAX_SPECIFICATIONS))
+                .andExpect(jsonPath("$.defaults.nullMethod").value(PlanReader.DEFAULT_NULL_METHOD))
+                .andExpect(jsonPath("$.defaults.missing").value("per-specification"));
         mvc.perform(get("/analyses/" + analysis + "/plan")).andExpect(status().isOk())
                 .andExpect(view().name("plan/edit")).andExpect(model().attributeExists("check"))
                 .andExpect(content().string(containsString("<label for=\"plan-json\">")));
@@ -73,6 +86,26 @@ class PlanControllersTest extends WebTest {
                 "\"alternatives\": [\"classical\", \"HC1\", \"cluster:district\"]},\n{\"name\": \"model\", \"kind\": "
                         + "\"model\", \"alternatives\": [\"ols\", \"logit\"]}"),
                 "decisions[5].alternatives[1]", "logit needs an outcome coded 0/1; \"turnout\" has other values");
+    }
+
+    @Test
+    void checkListsEveryColumnProblemOfTheData() throws Exception {
+        check(CivicTestData.plan().replace("\"column\": \"turnout\"", "\"column\": \"turnot\"")
+                .replace("\"column\": \"turnout_change\"", "\"column\": \"turnout_chnge\""))
+                .andExpect(jsonPath("$.valid").value(false))
+                .andExpect(jsonPath("$.where").value("decisions[0].alternatives[0].column"))
+                .andExpect(jsonPath("$.problems.length()").value(3))
+                .andExpect(jsonPath("$.problems[1].where").value("decisions[0].alternatives[1].column"))
+                .andExpect(jsonPath("$.problems[1].message").value(containsString("did you mean \"turnout_change\"?")))
+                // the trim rule names the outcome's column too
+                .andExpect(jsonPath("$.problems[2].where").value("decisions[3].alternatives[2].trim.column"));
+        // the page without scripts lists them all beside the JSON too
+        String twoTypos = CivicTestData.plan().replace("\"column\": \"turnout\"", "\"column\": \"turnot\"")
+                .replace("\"column\": \"turnout_change\"", "\"column\": \"turnout_chnge\"");
+        mvc.perform(post("/analyses/" + analysis + "/plan").param("plan", twoTypos)).andExpect(status().isBadRequest())
+                .andExpect(content().string(containsString("<code>decisions[0].alternatives[0].column</code>")))
+                .andExpect(content().string(containsString("<code>decisions[0].alternatives[1].column</code>")))
+                .andExpect(content().string(containsString("<code>decisions[3].alternatives[2].trim.column</code>")));
     }
 
     @Test

@@ -23,6 +23,10 @@ const countNode = el('span', { class: 'count', id: 'spec-count', 'aria-live': 'p
 const statusNode = el('p', { class: 'plan-status', id: 'plan-status', role: 'status' });
 const noticeNode = el('p', { class: 'plan-status', id: 'plan-notice', role: 'status' });
 const checkButton = el('button', { type: 'button', id: 'check-plan' }, 'Check the plan');
+const estimateButton = el('button', { type: 'button', id: 'estimate-plan',
+  title: 'Fits a few of the specifications on this server and says how long the whole run would take' },
+'How long would it take?');
+const estimateNode = el('p', { class: 'plan-status', id: 'plan-estimate', role: 'status' });
 const saveButton = el('button', { type: 'button', id: 'save-plan' }, 'Save the plan');
 const runButton = el('button', { type: 'button', class: 'primary', id: 'run-plan' }, 'Save and run');
 const exportButton = el('button', { type: 'button', id: 'export-plan' }, 'Export plan.json');
@@ -74,6 +78,22 @@ async function runCheck() {
 
 // the server reads the whole plan against the data: ask once typing pauses, not at every key
 const check = debounce(runCheck, CHECK_DELAY);
+
+/** Asks the server to time a few specifications of the plan as it stands and says what the run would take. */
+async function estimate() {
+  estimateNode.textContent = 'Timing a few specifications on this server\u2026';
+  const sent = text();
+  try {
+    const answer = await sendJson('POST', `${api}/plan/estimate`, sent);
+    if (sent !== text()) {
+      estimateNode.textContent = 'The plan changed while it was timed; ask again.';
+      return;
+    }
+    estimateNode.textContent = `Time: ${answer.time}. Memory: ${answer.memory}.`;
+  } catch (e) {
+    estimateNode.textContent = `No estimate: ${e.message}`;
+  }
+}
 
 /** Asks for every problem at once and brings the first into view. */
 async function checkAll() {
@@ -170,6 +190,7 @@ function toolbar() {
     importInput.value = '';
   });
   checkButton.addEventListener('click', checkAll);
+  estimateButton.addEventListener('click', estimate);
   saveButton.addEventListener('click', save);
   runButton.addEventListener('click', saveAndRun);
   exportButton.addEventListener('click', () => download(new Blob([`${text()}\n`], { type: 'application/json' }), 'plan.json'));
@@ -182,7 +203,7 @@ function toolbar() {
   });
   document.getElementById('save-json').after(' ', applyJson);
   const bar = el('div', { class: 'plan-toolbar', role: 'region', 'aria-label': 'Plan actions' },
-    countNode, checkButton, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode);
+    countNode, checkButton, estimateButton, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode, estimateNode);
   root.after(bar);
   const plainRun = document.getElementById('run-saved-form');
   if (plainRun) plainRun.hidden = true;

@@ -18,6 +18,11 @@ final class CommandHelp {
                 "                                               DIR/specifications.csv, DIR/summary.json,",
                 "                                               DIR/plan.json and DIR/overfitting.csv",
                 "                                               (with null draws also DIR/null-draws.csv)"));
+        COMMANDS.put("estimate", String.join("\n",
+                "  java -jar forkscape.jar estimate PLAN.json [run's options but --out]",
+                "                                               how long a run would take on this machine",
+                "                                               (measured on a few specifications) and its",
+                "                                               memory at the peak; fits nothing, writes nothing"));
         COMMANDS.put("verify", String.join("\n",
                 "  java -jar forkscape.jar verify RUN_DIR       re-run a run folder from its plan.json, data and",
                 "                                               seed; exit 0 when specifications.csv and",

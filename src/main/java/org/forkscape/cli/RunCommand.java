@@ -110,7 +110,7 @@ final class RunCommand {
         }
     }
 
-    private static Plan options(Plan plan, Arguments a) {
+    static Plan options(Plan plan, Arguments a) {
         Plan p = plan;
         if (a.has("sample") || a.has("seed")) {
             p = p.withSample(a.whole("sample", p.sampleSize(), 1, Integer.MAX_VALUE), a.whole("seed", p.seed(),
@@ -131,7 +131,7 @@ final class RunCommand {
     }
 
     /** A size such as 512MB or 2GB (binary units; a plain number is bytes). */
-    private static long size(String text) {
+    static long size(String text) {
         try {
             long bytes = DataSize.parse(text.trim()).toBytes();
             if (bytes > 0) {
@@ -160,7 +160,7 @@ final class RunCommand {
         }
     }
 
-    private static Path path(String text, String what) {
+    static Path path(String text, String what) {
         try {
             return Path.of(text);
         } catch (InvalidPathException e) {
@@ -168,7 +168,7 @@ final class RunCommand {
         }
     }
 
-    private static InputException located(String planName, InputException e) {
+    static InputException located(String planName, InputException e) {
         String where = e.where().isEmpty() ? planName : planName + ", " + e.where();
         return new InputException(where, e.problem());
     }

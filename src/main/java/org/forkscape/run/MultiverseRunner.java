@@ -178,7 +178,7 @@ public final class MultiverseRunner {
      * their mean size, from an even sample of at most 512 of its specifications), so that it builds the
      * row-free sandwich structures only where they pay.
      */
-    private static void describeWork(DataVariant variant, int[] slots, long[] indices, SpecificationSpace space,
+    static void describeWork(DataVariant variant, int[] slots, long[] indices, SpecificationSpace space,
             SpecificationModels models, ExecutorService pool) {
         int step = Math.max(1, slots.length / 512);
         long[] c = new long[space.decisionCount()];

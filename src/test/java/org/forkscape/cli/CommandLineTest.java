@@ -95,6 +95,26 @@ class CommandLineTest {
         }
     }
 
+    /** estimate: the time (measured, so only its form is checked) and the memory, and nothing written. */
+    @Test
+    void estimateSaysWhatARunWouldTakeAndWritesNothing() throws IOException {
+        Outcome o = run("estimate", plan.toString(), "--threads", "1", "--null-draws", "5");
+        assertEquals(0, o.code(), o.err());
+        List<String> lines = o.out().lines().toList();
+        assertEquals(2, lines.size(), o.out());
+        assertTrue(lines.get(0).startsWith("time: ") && lines.get(0).contains(" on 1 thread (fitting ")
+                && lines.get(0).contains("null draws") && lines.get(0).contains("of the 8 specifications fitted on "
+                + "this machine"), lines.get(0));
+        assertTrue(lines.get(1).startsWith("memory: about ") && lines.get(1).contains("of a limit of"), lines.get(1));
+        try (var files = Files.list(dir)) {
+            assertEquals(2, files.count(), "only the data and the plan");
+        }
+        refused(run("estimate"), "estimate needs a plan file");
+        refused(run("estimate", plan.toString(), "--out", "x"), "unknown option --out");
+        Files.writeString(plan, Files.readString(plan).replace("\"column\": \"x\"", "\"column\": \"xx\""));
+        refused(run("estimate", plan.toString()), "plan.json, decisions[1].alternatives[0].column");
+    }
+
     @Test
     void aSuccessfulRunWritesTheDocumentedFilesWithCorrectEstimates() throws IOException {
         Path out = dir.resolve("results");

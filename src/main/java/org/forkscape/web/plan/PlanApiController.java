@@ -45,6 +45,15 @@ class PlanApiController {
         return plans.save(lookup.analysis(analysis), plan);
     }
 
+    /**
+     * The time and memory a run of the plan would take on this server, measured on a few of its
+     * specifications; 400 with the problem's JSON path when the plan cannot run.
+     */
+    @PostMapping(path = "/estimate", consumes = "application/json")
+    PlanService.RunEstimate estimate(@PathVariable String analysis, @RequestBody(required = false) String plan) {
+        return plans.estimate(lookup.analysis(analysis), plan == null ? "" : plan);
+    }
+
     /** Checks without saving; always 200, the answer says whether the plan is valid. */
     @PostMapping(path = "/check", consumes = "application/json")
     PlanCheck check(@PathVariable String analysis, @RequestBody(required = false) String plan) {

@@ -12,6 +12,8 @@ import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.Json;
+import org.forkscape.run.MemoryEstimate;
+import org.forkscape.run.TimeEstimate;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
@@ -102,6 +104,33 @@ public class PlanService {
             }
         }
         return plan;
+    }
+
+    /**
+     * What a run of the plan would take on this server: the time measured on a few of its specifications
+     * ({@link TimeEstimate}) with the server's fitting threads, and the memory at its peak against the
+     * server's limit for one run.
+     *
+     * @throws InputException when the plan cannot run
+     */
+    public RunEstimate estimate(StoredAnalysis analysis, String json) {
+        Plan plan = read(analysis, json);
+        Table table = analyses.table(analysis);
+        TimeEstimate time = TimeEstimate.of(plan, table, limits.threads());
+        long memory = MemoryEstimate.of(plan, table, limits.threads()).bytes();
+        return new RunEstimate(time.seconds(), time.text(limits.threads()), memory, limits.maxMemory(),
+                "about " + MemoryEstimate.format(memory) + " of memory at the peak, of this server's limit of "
+                        + MemoryEstimate.format(limits.maxMemory()) + " for one run");
+    }
+
+    /**
+     * @param seconds      the time estimate
+     * @param time         it in words, with what it rests on
+     * @param memoryBytes  the memory estimate
+     * @param memoryLimit  the server's limit for one run
+     * @param memory       the two in words
+     */
+    public record RunEstimate(double seconds, String time, long memoryBytes, long memoryLimit, String memory) {
     }
 
     /** Saves a plan that passes the check. @throws InputException when it does not */

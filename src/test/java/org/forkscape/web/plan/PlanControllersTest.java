@@ -132,6 +132,19 @@ class PlanControllersTest extends WebTest {
                 .andExpect(content().string(containsString("is required: the path of the CSV file")));
     }
 
+    /** The time is measured on this machine, so only its form is checked; a plan that cannot run is a 400. */
+    @Test
+    void estimateSaysWhatARunWouldTakeOnThisServer() throws Exception {
+        mvc.perform(post("/api/analyses/" + analysis + "/plan/estimate").contentType(MediaType.APPLICATION_JSON)
+                .content(CivicTestData.plan())).andExpect(status().isOk())
+                .andExpect(jsonPath("$.seconds").isNumber())
+                .andExpect(jsonPath("$.time").value(containsString("of the 576 specifications fitted on this machine")))
+                .andExpect(jsonPath("$.memory").value(containsString("of this server's limit of")));
+        mvc.perform(post("/api/analyses/" + analysis + "/plan/estimate").contentType(MediaType.APPLICATION_JSON)
+                .content(CivicTestData.plan().replace("\"column\": \"turnout\"", "\"column\": \"turnot\"")))
+                .andExpect(status().isBadRequest());
+    }
+
     private ResultActions check(String plan) throws Exception {
         return mvc.perform(post("/api/analyses/" + analysis + "/plan/check").contentType(MediaType.APPLICATION_JSON)
                 .content(plan)).andExpect(status().isOk());

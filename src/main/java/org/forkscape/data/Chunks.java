@@ -8,10 +8,10 @@ import java.util.List;
  * (doubling one array holds the old and the new copy at once), and the column's final array is assembled
  * once, block by block, when the row count is known. One block of each of a table's columns spans about
  * {@value #SPAN} cells ({@link #shiftFor}; at least 256 rows a block), so the unused end of the last blocks
- * is at most 8 MB of doubles up to 4,096 columns, 20 MB at 10,000.
+ * is at most 512 KB of doubles up to 256 columns, 20 MB at 10,000, and a small table is priced small.
  */
 final class Chunks {
-    static final int SPAN = 1 << 20;
+    static final int SPAN = 1 << 16;
     private static final int MIN_SHIFT = 8;
     private static final int MAX_SHIFT = 16;
 
@@ -20,6 +20,12 @@ final class Chunks {
         int perColumn = SPAN / Math.max(1, columns);
         int shift = 31 - Integer.numberOfLeadingZeros(Math.max(1, perColumn));
         return Math.max(MIN_SHIFT, Math.min(MAX_SHIFT, shift));
+    }
+
+    /** What the blocks of one column of {@code rows} rows hold, {@code width} bytes an element. */
+    static long bytes(long rows, int width, int shift) {
+        long blocks = (rows + (1L << shift) - 1) >>> shift;
+        return blocks * HeapSizes.array(1L << shift, width);
     }
 
     /** Numbers, NaN for missing. */

@@ -7,6 +7,7 @@ import org.forkscape.data.DataException;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.system.Lookup;
+import org.forkscape.web.system.MemoryBudgetException;
 import org.springframework.http.HttpStatus;
 import org.springframework.stereotype.Controller;
 import org.springframework.ui.Model;
@@ -43,13 +44,16 @@ class HomeController {
     ModelAndView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
         if (AnalysisService.noFileChosen(file)) {
-            return homeWithProblem(title, "Choose a CSV file to upload.");
+            return homeWithProblem(title, "Choose a CSV file to upload.", HttpStatus.BAD_REQUEST);
         }
         try (InputStream in = file.getInputStream()) {
             StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);
             return new ModelAndView("redirect:/analyses/" + a.id());
         } catch (DataException e) {
-            return homeWithProblem(title, e.getMessage());
+            return homeWithProblem(title, e.getMessage(), HttpStatus.BAD_REQUEST);
+        } catch (MemoryBudgetException e) {
+            return homeWithProblem(title, e.getMessage(), e.overLimit() ? HttpStatus.INSUFFICIENT_STORAGE
+                    : HttpStatus.SERVICE_UNAVAILABLE);
         }
     }
 
@@ -62,9 +66,9 @@ class HomeController {
         return DATA;
     }
 
-    private ModelAndView homeWithProblem(String title, String problem) {
+    private ModelAndView homeWithProblem(String title, String problem, HttpStatus status) {
         ModelAndView page = new ModelAndView(HOME);
-        page.setStatus(HttpStatus.BAD_REQUEST);
+        page.setStatus(status);
         page.addObject("cards", cards());
         page.addObject("uploadProblem", problem);
         page.addObject("uploadTitle", title);

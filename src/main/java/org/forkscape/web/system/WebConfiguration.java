@@ -82,6 +82,12 @@ class WebConfiguration {
         return ServerLimits.of(settings.runs());
     }
 
+    /** The memory tables being read may hold at once: what one run may hold. */
+    @Bean
+    MemoryBudget memoryBudget(ServerLimits limits) {
+        return new MemoryBudget(limits.maxMemory());
+    }
+
     /** The influence panel's computation: the inference package's, over the filtered set. */
     @Bean
     InfluenceAnalysis influenceAnalysis() {

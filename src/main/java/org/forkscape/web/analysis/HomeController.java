@@ -23,6 +23,8 @@ import org.springframework.web.servlet.ModelAndView;
 class HomeController {
     static final String HOME = "home/index";
     static final String DATA = "data/overview";
+    /** Columns the data page lists (with {@link ShownText}'s cut, at most some 2.5 MB of page); the JSON has all. */
+    static final int SHOWN_COLUMNS = 1_000;
 
     private final AnalysisService analyses;
     private final Workspace workspace;
@@ -61,7 +63,11 @@ class HomeController {
     String data(@PathVariable String analysis, Model model) {
         StoredAnalysis a = lookup.analysis(analysis);
         model.addAttribute("analysis", a);
-        model.addAttribute("columns", ColumnOverview.of(analyses.table(a)));
+        List<ColumnOverview> columns = ColumnOverview.of(analyses.table(a));
+        List<ColumnOverview> shown = columns.subList(0, Math.min(SHOWN_COLUMNS, columns.size()));
+        model.addAttribute("columns", shown);
+        model.addAttribute("textCut", shown.stream().anyMatch(ColumnOverview::hasCutText));
+        model.addAttribute("hiddenColumns", Math.max(0, columns.size() - SHOWN_COLUMNS));
         model.addAttribute("runs", workspace.runs(a.id()));
         return DATA;
     }

@@ -29,7 +29,7 @@ import org.springframework.web.multipart.MultipartFile;
  * within its reservation, and becomes an analysis only when it reads without a problem; otherwise nothing
  * is kept and the problem, naming the uploaded file and line, goes back to the user. The uploaded file's
  * name is only ever shown, never used as a path. Tables read are kept in memory, weighed by what they hold,
- * up to the budget's capacity; no lock is held while a file is read.
+ * up to the budget's limit for one run or upload; no lock is held while a file is read.
  */
 @Service
 public class AnalysisService {
@@ -51,7 +51,7 @@ public class AnalysisService {
         this.limits = limits;
         this.budget = budget;
         this.tables = Caffeine.newBuilder()
-                .maximumWeight(Math.max(1, Math.min(budget.capacity(), Long.MAX_VALUE / 2) >> 10))
+                .maximumWeight(Math.max(1, Math.min(budget.limit(), Long.MAX_VALUE / 2) >> 10))
                 .weigher((String id, Table t) -> (int) Math.min(Integer.MAX_VALUE, 1 + (TableFootprint.heldBy(t) >> 10)))
                 .build();
     }
@@ -81,6 +81,11 @@ public class AnalysisService {
                 // left in .incoming, which the next start clears
             }
         }
+    }
+
+    /** The memory budget the tables being read share with the runs computing. */
+    public MemoryBudget memoryBudget() {
+        return budget;
     }
 
     public List<StoredAnalysis> all() {

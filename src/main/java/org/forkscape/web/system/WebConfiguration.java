@@ -82,10 +82,10 @@ class WebConfiguration {
         return ServerLimits.of(settings.runs());
     }
 
-    /** The memory tables being read may hold at once: what one run may hold. */
+    /** The memory runs computing and tables being read share: one run's limit for each of the concurrent runs. */
     @Bean
-    MemoryBudget memoryBudget(ServerLimits limits) {
-        return new MemoryBudget(limits.maxMemory());
+    MemoryBudget memoryBudget(ServerLimits limits, ForkscapeSettings settings) {
+        return new MemoryBudget(limits.maxMemory(), settings.runs().concurrent());
     }
 
     /** The influence panel's computation: the inference package's, over the filtered set. */

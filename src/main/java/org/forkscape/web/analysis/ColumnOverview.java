@@ -69,8 +69,13 @@ public record ColumnOverview(String name, String type, int missing, double mean,
     }
 
     public static List<ColumnOverview> of(Table table) {
+        return of(table, table.columns().size());
+    }
+
+    /** The overviews of the first {@code max} columns (the data page's, which lists no more). */
+    public static List<ColumnOverview> of(Table table, int max) {
         List<ColumnOverview> out = new ArrayList<>();
-        for (Column c : table.columns()) {
+        for (Column c : table.columns().subList(0, Math.min(max, table.columns().size()))) {
             out.add(c instanceof NumericColumn n ? numeric(n) : categorical((CategoricalColumn) c));
         }
         return out;

@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.io.InputStream;
 import java.util.List;
 import org.forkscape.data.DataException;
+import org.forkscape.data.Table;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.system.Lookup;
@@ -63,11 +64,11 @@ class HomeController {
     String data(@PathVariable String analysis, Model model) {
         StoredAnalysis a = lookup.analysis(analysis);
         model.addAttribute("analysis", a);
-        List<ColumnOverview> columns = ColumnOverview.of(analyses.table(a));
-        List<ColumnOverview> shown = columns.subList(0, Math.min(SHOWN_COLUMNS, columns.size()));
+        Table table = analyses.table(a);
+        List<ColumnOverview> shown = ColumnOverview.of(table, SHOWN_COLUMNS);
         model.addAttribute("columns", shown);
         model.addAttribute("textCut", shown.stream().anyMatch(ColumnOverview::hasCutText));
-        model.addAttribute("hiddenColumns", Math.max(0, columns.size() - SHOWN_COLUMNS));
+        model.addAttribute("hiddenColumns", table.columns().size() - shown.size());
         model.addAttribute("runs", workspace.runs(a.id()));
         return DATA;
     }

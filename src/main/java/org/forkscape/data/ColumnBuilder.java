@@ -26,10 +26,6 @@ final class ColumnBuilder {
         this.numbers = new Chunks.Doubles(shift);
     }
 
-    String name() {
-        return name;
-    }
-
     /**
      * Takes row {@code row}'s cell.
      *

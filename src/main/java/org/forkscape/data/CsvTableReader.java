@@ -86,7 +86,7 @@ public final class CsvTableReader {
 
     /** Opens the file's content again from its start, for each pass. */
     @FunctionalInterface
-    public interface Opener {
+    private interface Opener {
         InputStream open() throws IOException;
     }
 
@@ -97,7 +97,7 @@ public final class CsvTableReader {
      * for the spelling of its numbers. What the columns, the levels and the final arrays hold is counted as
      * it grows (see {@link HeapSizes}) and asked of {@code allowance}, which may stop the reading.
      */
-    public Table read(Opener opener, String source, MemoryAllowance allowance) {
+    private Table read(Opener opener, String source, MemoryAllowance allowance) {
         FirstPass first = new FirstPass(source, allowance);
         eachRecord(opener, source, first);
         if (first.columns == null) {

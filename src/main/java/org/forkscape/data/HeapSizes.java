@@ -4,7 +4,8 @@ package org.forkscape.data;
  * Bytes the JVM uses for the objects a table is built of, on a 64-bit HotSpot JVM with compressed
  * references (below 32 GB of heap) and compact strings (Java 9 onwards: one byte a character for Latin-1
  * text, two otherwise): an array's 16-byte header and its elements, rounded up to 8 bytes. From the
- * layouts OpenJDK's JOL tool prints for Java 17 (from memory; {@code CompactColumnsTest} checks the totals against the measured heap).
+ * layouts OpenJDK's JOL tool prints for Java 17 (from memory; {@code CompactColumnsTest} checks the totals
+ * against the measured heap).
  */
 final class HeapSizes {
     static final int ARRAY_HEADER = 16;

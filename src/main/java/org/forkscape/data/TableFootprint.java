@@ -22,10 +22,6 @@ import java.nio.file.Path;
 public record TableFootprint(long rows, int columns, long bytes) {
     private static final int BUFFER = 1 << 16;
 
-    public long cells() {
-        return rows * columns;
-    }
-
     public static TableFootprint of(Path file, CsvLimits limits) throws IOException {
         try (InputStream in = Files.newInputStream(file)) {
             LineCount count = LineCount.of(in);

@@ -52,7 +52,8 @@ public class AnalysisService {
         this.budget = budget;
         this.tables = Caffeine.newBuilder()
                 .maximumWeight(Math.max(1, Math.min(budget.limit(), Long.MAX_VALUE / 2) >> 10))
-                .weigher((String id, Table t) -> (int) Math.min(Integer.MAX_VALUE, 1 + (TableFootprint.heldBy(t) >> 10)))
+                .weigher((String id, Table t) -> (int) Math.min(Integer.MAX_VALUE,
+                        1 + (TableFootprint.heldBy(t) >> 10)))
                 .build();
     }
 

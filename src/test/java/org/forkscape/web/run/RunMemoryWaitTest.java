@@ -39,10 +39,10 @@ class RunMemoryWaitTest extends WebTest {
                     .andExpect(status().isAccepted()).andReturn().getResponse().getContentAsString();
             run = json(body).path("id").asString();
             log = workspace.runFolder(analysis, run).resolve(Workspace.LOG);
-            for (int i = 0; i < 600 && !(Files.exists(log) && Files.readString(log).contains("waiting for memory")); i++) {
+            for (int i = 0; i < 600 && !logSays(log, "waiting for memory"); i++) {
                 Thread.sleep(50);
             }
-            assertTrue(Files.readString(log).contains("waiting for memory: uploads being read hold what this run needs"));
+            assertTrue(logSays(log, "waiting for memory: uploads being read hold what this run needs"));
             JsonNode waiting = runStatus(analysis, run);
             assertEquals("running", waiting.path("state").asString());
             assertEquals(0, waiting.path("done").asLong(), "nothing fitted while it waits");
@@ -59,6 +59,10 @@ class RunMemoryWaitTest extends WebTest {
         }
         assertEquals("finished", state);
         assertEquals(0, budget.held(), "the run's reservation was released");
+    }
+
+    private static boolean logSays(Path log, String words) throws java.io.IOException {
+        return Files.exists(log) && Files.readString(log).contains(words);
     }
 
     private JsonNode runStatus(String analysis, String run) throws Exception {

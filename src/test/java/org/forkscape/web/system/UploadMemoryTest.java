@@ -53,8 +53,9 @@ class UploadMemoryTest {
 
     /**
      * 60,000 rows of 4 numbers: 4 columns of 4 blocks of 16,384 doubles (131,088 bytes each) and one final
-     * array of 60,000 (480,016 bytes), 2.5 MiB, which the message rounds to 2 MB. Its first data row has 3 fields, which the parser refuses at
-     * once: a refusal about memory shows that the file was priced and refused before the parser ran.
+     * array of 60,000 (480,016 bytes), 2.5 MiB, which the message rounds to 2 MB. Its first data row has 3
+     * fields, which the parser refuses at once: a refusal about memory shows that the file was priced and
+     * refused before the parser ran.
      */
     @Test
     void anUploadPricedAboveTheLimitIsRefusedBeforeItIsParsed() throws Exception {

@@ -1,18 +1,17 @@
 package org.forkscape.data;
 
 import java.io.BufferedInputStream;
+import java.io.ByteArrayInputStream;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
-import java.util.TreeSet;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
@@ -55,37 +54,90 @@ public final class CsvTableReader {
     }
 
     public Table read(Path file) {
-        String name = file.getFileName() == null ? file.toString() : file.getFileName().toString();
-        if (!Files.isRegularFile(file)) {
-            throw new DataException(name, "no such data file (looked for " + file + ")");
-        }
-        try (InputStream in = Files.newInputStream(file)) {
-            return read(in, name);
-        } catch (IOException e) {
-            throw new DataException(name, "cannot be read: " + e.getMessage());
-        }
+        return read(file, file.getFileName() == null ? file.toString() : file.getFileName().toString(),
+                MemoryAllowance.UNLIMITED);
     }
 
-    /** Reads from a stream; {@code source} names the file in messages. The stream is not closed. */
+    /**
+     * Reads a file, naming it {@code source} in messages, and holding no more memory than {@code allowance}
+     * grants (see {@link #read(Opener, String, MemoryAllowance)}).
+     */
+    public Table read(Path file, String source, MemoryAllowance allowance) {
+        if (!Files.isRegularFile(file)) {
+            throw new DataException(source, "no such data file (looked for " + file + ")");
+        }
+        return read(() -> Files.newInputStream(file), source, allowance);
+    }
+
+    /**
+     * Reads from a stream; {@code source} names the file in messages. The stream is not closed. It is read
+     * into memory first (a column of numbers that turns to text is read twice), so large files are better
+     * read with {@link #read(Path, String, MemoryAllowance)}.
+     */
     public Table read(InputStream input, String source) {
-        BufferedInputStream in = new BufferedInputStream(input, 1 << 16);
-        int skipped = skipByteOrderMarkRejectingBinary(in, source);
-        Cells cells = null;
+        byte[] bytes;
+        try {
+            bytes = input.readAllBytes();
+        } catch (IOException e) {
+            throw new DataException(source, "cannot be read: " + e.getMessage());
+        }
+        return read(() -> new ByteArrayInputStream(bytes), source, MemoryAllowance.UNLIMITED);
+    }
+
+    /** Opens the file's content again from its start, for each pass. */
+    @FunctionalInterface
+    private interface Opener {
+        InputStream open() throws IOException;
+    }
+
+    /**
+     * Reads the content {@code opener} gives, column by column into compact storage: numbers as
+     * {@code double[]}, text as {@code int[]} codes with each distinct text kept once, and no cell's text
+     * kept once its row is read. A column of numbers that turns to text further down is read a second time
+     * for the spelling of its numbers. What the columns, the levels and the final arrays hold is counted as
+     * it grows (see {@link HeapSizes}) and asked of {@code allowance}, which may stop the reading.
+     */
+    private Table read(Opener opener, String source, MemoryAllowance allowance) {
+        FirstPass first = new FirstPass(source, allowance);
+        eachRecord(opener, source, first);
+        if (first.columns == null) {
+            throw new DataException(source, "is empty: a header line and at least one data row are needed");
+        }
+        if (first.rows == 0) {
+            throw new DataException(source, "has a header but no data rows");
+        }
+        List<ColumnBuilder> again = first.columns.stream().filter(ColumnBuilder::needsEarlierRows).toList();
+        if (!again.isEmpty()) {
+            eachRecord(opener, source, new EarlierRows(again, first));
+        }
+        return first.toTable();
+    }
+
+    /** Receives the records of a file in order, the header first; answers false to stop the reading. */
+    private interface RecordSink {
+        boolean accept(CSVRecord record, long line);
+    }
+
+    private static void eachRecord(Opener opener, String source, RecordSink sink) {
         long lastLine = 0;
-        StrictUtf8Reader text = new StrictUtf8Reader(in, skipped);
-        try (CSVParser parser = CSVParser.builder().setReader(text).setFormat(FORMAT).get()) {
-            for (CSVRecord record : parser) {
-                long line = parser.getCurrentLineNumber();
-                if (isBlankLine(record)) {
+        InputStream opened;
+        try {
+            opened = opener.open();
+        } catch (IOException e) {
+            throw new DataException(source, "cannot be read: " + e.getMessage());
+        }
+        try (InputStream raw = opened) {
+            BufferedInputStream in = new BufferedInputStream(raw, 1 << 16);
+            int skipped = skipByteOrderMarkRejectingBinary(in, source);
+            StrictUtf8Reader text = new StrictUtf8Reader(in, skipped);
+            try (CSVParser parser = CSVParser.builder().setReader(text).setFormat(FORMAT).get()) {
+                for (CSVRecord record : parser) {
+                    long line = parser.getCurrentLineNumber();
+                    if (!isBlankLine(record) && !sink.accept(record, line)) {
+                        return;
+                    }
                     lastLine = line;
-                    continue;
                 }
-                if (cells == null) {
-                    cells = new Cells(readHeader(record, line, source));
-                } else {
-                    cells.add(record, line, source, limits);
-                }
-                lastLine = line;
             }
         } catch (UncheckedIOException e) {
             throw translate(e.getCause(), source, lastLine);
@@ -94,13 +146,10 @@ public final class CsvTableReader {
         } catch (IllegalStateException e) {
             throw new DataException(source + ", after line " + lastLine, "is not valid CSV: " + e.getMessage());
         }
-        if (cells == null) {
-            throw new DataException(source, "is empty: a header line and at least one data row are needed");
-        }
-        if (cells.rows == 0) {
-            throw new DataException(source, "has a header but no data rows");
-        }
-        return cells.toTable(source);
+    }
+
+    static boolean isMissing(String cell) {
+        return MISSING.contains(cell);
     }
 
     /** A line holding nothing but spaces reads as one empty field. */
@@ -108,7 +157,7 @@ public final class CsvTableReader {
         return record.size() == 1 && record.get(0).isBlank();
     }
 
-    private List<String> readHeader(CSVRecord record, long line, String source) {
+    private static List<String> readHeader(CSVRecord record, long line, String source, CsvLimits limits) {
         String where = source + ", line " + line;
         if (record.size() > limits.maxColumns()) {
             throw new DataException(where, String.format("the header has %,d columns; at most %,d are accepted",
@@ -184,99 +233,95 @@ public final class CsvTableReader {
         return new DataException(source + ", after line " + lastLine, "is not valid CSV: " + message);
     }
 
-    /** The cells read so far, column by column, with the line each row ended on for messages. */
-    private static final class Cells {
-        private final List<String> header;
-        private final String[][] columns;
-        private int[] lineOfRow = new int[16];
+    /** The first reading: the header, then every row into its columns, counting what they hold. */
+    private final class FirstPass implements RecordSink {
+        private final String source;
+        private final MemoryAllowance allowance;
+        private List<ColumnBuilder> columns;
         private int rows;
+        private long held;
+        private long granted;
 
-        Cells(List<String> header) {
-            this.header = header;
-            this.columns = new String[header.size()][16];
+        FirstPass(String source, MemoryAllowance allowance) {
+            this.source = source;
+            this.allowance = allowance;
         }
 
-        void add(CSVRecord record, long line, String source, CsvLimits limits) {
-            if (record.size() != header.size()) {
-                String hint = record.size() > header.size()
+        @Override
+        public boolean accept(CSVRecord record, long line) {
+            if (columns == null) {
+                List<String> names = readHeader(record, line, source, limits);
+                int shift = Chunks.shiftFor(names.size());
+                columns = names.stream().map(name -> new ColumnBuilder(name, shift)).toList();
+                return true;
+            }
+            if (record.size() != columns.size()) {
+                String hint = record.size() > columns.size()
                         ? " (a value holding a comma must be put in double quotes)" : "";
-                throw new DataException(source + ", line " + line, "expected " + header.size()
+                throw new DataException(source + ", line " + line, "expected " + columns.size()
                         + " fields as in the header, found " + record.size() + hint);
             }
-            if ((long) (rows + 1) * header.size() > limits.maxCells()) {
+            if ((long) (rows + 1) * columns.size() > limits.maxCells()) {
                 throw new DataException(source, String.format("has more than %,d cells (rows times columns), the "
                         + "limit of this server", limits.maxCells()));
             }
-            if (rows == lineOfRow.length) {
-                int grown = rows * 2;
-                lineOfRow = Arrays.copyOf(lineOfRow, grown);
-                for (int j = 0; j < columns.length; j++) {
-                    columns[j] = Arrays.copyOf(columns[j], grown);
-                }
+            for (int j = 0; j < columns.size(); j++) {
+                held(columns.get(j).add(rows, record.get(j).strip(), line));
             }
-            for (int j = 0; j < columns.length; j++) {
-                columns[j][rows] = record.get(j).strip();
-            }
-            lineOfRow[rows] = (int) Math.min(line, Integer.MAX_VALUE);
             rows++;
+            return true;
         }
 
-        Table toTable(String source) {
-            List<Column> out = new ArrayList<>(columns.length);
-            for (int j = 0; j < columns.length; j++) {
-                out.add(toColumn(j, source));
-                columns[j] = null;
+        void held(long change) {
+            held += change;
+            if (held > granted) {
+                granted = allowance.require(held);
+            }
+        }
+
+        /** The columns assembled one at a time, so that only one holds its blocks and its array at once. */
+        Table toTable() {
+            List<Column> out = new ArrayList<>(columns.size());
+            for (ColumnBuilder c : columns) {
+                long array = c.finalArrayBytes(rows);
+                held(array);
+                long blocks = c.blockBytes();
+                out.add(c.build(rows, source));
+                held(-blocks);
             }
             return new Table(source, out);
         }
+    }
 
-        private Column toColumn(int j, String source) {
-            String name = header.get(j);
-            String[] raw = columns[j];
-            double[] values = new double[rows];
-            boolean numeric = true;
-            int tooLarge = -1;
-            for (int i = 0; i < rows && numeric; i++) {
-                String cell = raw[i];
-                if (MISSING.contains(cell)) {
-                    values[i] = Double.NaN;
-                } else if (NumberSyntax.isDecimal(cell)) {
-                    values[i] = Double.parseDouble(cell);
-                    if (Double.isInfinite(values[i]) && tooLarge < 0) {
-                        tooLarge = i;
-                    }
-                } else {
-                    numeric = false;
-                }
-            }
-            if (numeric) {
-                if (tooLarge >= 0) {
-                    throw new DataException(source + ", line " + lineOfRow[tooLarge], "the value "
-                            + abbreviate(raw[tooLarge]) + " in column \"" + name + "\" is too large for a number "
-                            + "(the limit is about 1.8e308)");
-                }
-                return new NumericColumn(name, values);
-            }
-            TreeSet<String> distinct = new TreeSet<>();
-            for (int i = 0; i < rows; i++) {
-                if (!MISSING.contains(raw[i])) {
-                    distinct.add(raw[i]);
-                }
-            }
-            List<String> levels = new ArrayList<>(distinct);
-            Map<String, Integer> code = new HashMap<>();
-            for (int k = 0; k < levels.size(); k++) {
-                code.put(levels.get(k), k);
-            }
-            int[] codes = new int[rows];
-            for (int i = 0; i < rows; i++) {
-                codes[i] = MISSING.contains(raw[i]) ? -1 : code.get(raw[i]);
-            }
-            return new CategoricalColumn(name, codes, levels);
+    /** The second reading, of the rows before each turned column's first text, for their numbers' spelling. */
+    private static final class EarlierRows implements RecordSink {
+        private final List<ColumnBuilder> columns;
+        private final int[] positions;
+        private final FirstPass first;
+        private final int until;
+        private boolean header = true;
+        private int row;
+
+        EarlierRows(List<ColumnBuilder> columns, FirstPass first) {
+            this.columns = columns;
+            this.first = first;
+            this.positions = columns.stream().mapToInt(first.columns::indexOf).toArray();
+            this.until = columns.stream().mapToInt(ColumnBuilder::textFrom).max().orElse(0);
         }
 
-        private static String abbreviate(String cell) {
-            return cell.length() <= 40 ? cell : cell.substring(0, 20) + "..." + cell.substring(cell.length() - 10);
+        @Override
+        public boolean accept(CSVRecord record, long line) {
+            if (header) {
+                header = false;
+                return true;
+            }
+            for (int k = 0; k < columns.size(); k++) {
+                ColumnBuilder c = columns.get(k);
+                if (row < c.textFrom()) {
+                    first.held(c.addEarlier(row, record.get(positions[k]).strip()));
+                }
+            }
+            return ++row < until;
         }
     }
 }

@@ -6,63 +6,72 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.Optional;
+import com.github.benmanes.caffeine.cache.Cache;
+import com.github.benmanes.caffeine.cache.Caffeine;
 import org.forkscape.data.CsvLimits;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.DataException;
 import org.forkscape.data.Table;
+import org.forkscape.data.TableFootprint;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
+import org.forkscape.web.system.MemoryBudget;
+import org.forkscape.web.system.MemoryBudgetException;
+import org.springframework.beans.factory.annotation.Autowired;
 import org.springframework.stereotype.Service;
 import org.springframework.web.multipart.MultipartFile;
 
 /**
  * Creates analyses from uploaded CSV files and serves their data. An upload is copied to the workspace,
- * read in full, and becomes an analysis only when it reads without a problem; otherwise nothing is kept
- * and the problem, naming the uploaded file and line, goes back to the user. The uploaded file's name is
- * only ever shown, never used as a path.
+ * priced before it is parsed ({@link TableFootprint}) against the {@link MemoryBudget}, read in full
+ * within its reservation, and becomes an analysis only when it reads without a problem; otherwise nothing
+ * is kept and the problem, naming the uploaded file and line, goes back to the user. The uploaded file's
+ * name is only ever shown, never used as a path. Tables read are kept in memory, weighed by what they hold,
+ * up to the budget's limit for one run or upload; no lock is held while a file is read.
  */
 @Service
 public class AnalysisService {
-    private static final int CACHED_TABLES = 4;
     private static final int MAX_TITLE = 200;
 
     private final Workspace workspace;
     private final CsvLimits limits;
-    private final Map<String, Table> tables = new LinkedHashMap<>(8, 0.75f, true) {
-        @Override
-        protected boolean removeEldestEntry(Map.Entry<String, Table> eldest) {
-            return size() > CACHED_TABLES;
-        }
-    };
+    private final MemoryBudget budget;
+    private final Cache<String, Table> tables;
 
+    /** A service without a memory limit, for tools and tests that build one by hand. */
     public AnalysisService(Workspace workspace, CsvLimits limits) {
+        this(workspace, limits, MemoryBudget.unlimited());
+    }
+
+    @Autowired
+    public AnalysisService(Workspace workspace, CsvLimits limits, MemoryBudget budget) {
         this.workspace = workspace;
         this.limits = limits;
+        this.budget = budget;
+        this.tables = Caffeine.newBuilder()
+                .maximumWeight(Math.max(1, Math.min(budget.limit(), Long.MAX_VALUE / 2) >> 10))
+                .weigher((String id, Table t) -> (int) Math.min(Integer.MAX_VALUE,
+                        1 + (TableFootprint.heldBy(t) >> 10)))
+                .build();
     }
 
     /**
      * Reads an upload and, when it is a usable table, keeps it as a new analysis.
      *
-     * @throws DataException naming the file (as uploaded) and line when it cannot be used
+     * @throws DataException         naming the file (as uploaded) and line when it cannot be used
+     * @throws MemoryBudgetException when reading it would hold more memory than the budget gives
      */
     public StoredAnalysis create(String title, String fileName, InputStream content, boolean demo) {
         String shown = displayName(fileName);
         Path incoming = workspace.newIncomingFile();
         try {
             Files.copy(content, incoming, StandardCopyOption.REPLACE_EXISTING);
-            Table table;
-            try (InputStream in = Files.newInputStream(incoming)) {
-                table = new CsvTableReader(limits).read(in, shown);
-            }
+            Table table = read(incoming, shown, "the upload was not kept");
             StoredAnalysis a = workspace.createAnalysis(title(title, shown), shown, table.rowCount(),
                     table.columns().size(), incoming, demo);
-            synchronized (tables) {
-                tables.put(a.id(), table);
-            }
+            tables.put(a.id(), table);
             return a;
         } catch (IOException e) {
             throw workspace.writeFailure(e, "the upload was not kept");
@@ -75,6 +84,11 @@ public class AnalysisService {
         }
     }
 
+    /** The memory budget the tables being read share with the runs computing. */
+    public MemoryBudget memoryBudget() {
+        return budget;
+    }
+
     public List<StoredAnalysis> all() {
         return workspace.analyses();
     }
@@ -83,24 +97,34 @@ public class AnalysisService {
         return workspace.analysis(id);
     }
 
-    /** The analysis's data, read once and kept while it is in use. */
+    /**
+     * The analysis's data, read once and kept while it is in use.
+     *
+     * @throws MemoryBudgetException when it is not kept and reading it again would hold more memory than the
+     *                               budget gives now
+     */
     public Table table(StoredAnalysis analysis) {
-        synchronized (tables) {
-            Table t = tables.get(analysis.id());
-            if (t != null) {
-                return t;
-            }
+        Table kept = tables.getIfPresent(analysis.id());
+        if (kept != null) {
+            return kept;
         }
         Table read;
-        try (InputStream in = Files.newInputStream(workspace.dataFile(analysis.id()))) {
-            read = new CsvTableReader(limits).read(in, analysis.dataName());
+        try {
+            read = read(workspace.dataFile(analysis.id()), analysis.dataName(),
+                    "the analysis is kept, and its data is read again when asked for");
         } catch (IOException e) {
             throw new UncheckedIOException("cannot read the data of analysis " + analysis.id() + ": " + e.getMessage(), e);
         }
-        synchronized (tables) {
-            tables.put(analysis.id(), read);
-        }
+        tables.put(analysis.id(), read);
         return read;
+    }
+
+    /** Prices the file before parsing it, then reads it within a reservation of the memory budget. */
+    private Table read(Path file, String shown, String consequence) throws IOException {
+        TableFootprint footprint = TableFootprint.of(file, limits);
+        try (MemoryBudget.Reservation memory = budget.reserve(shown, footprint, consequence)) {
+            return new CsvTableReader(limits).read(file, shown, memory);
+        }
     }
 
     /**

@@ -47,9 +47,20 @@ public record ColumnOverview(String name, String type, int missing, double mean,
             return "";
         }
         return "Reads as text because of the value" + (strayText.size() == 1 ? " " : "s ")
-                + String.join(", ", strayText.stream().map(v -> "\"" + v + "\"").toList())
+                + String.join(", ", strayText.stream().map(v -> "\"" + ShownText.of(v) + "\"").toList())
                 + "; if these mark missing cells, write them as " + CsvTableReader.MISSING_SPELLINGS
                 + " and upload the file again, so that the column is numeric.";
+    }
+
+    /** A name or level as the data page shows it, cut to {@value ShownText#MAX} characters (see {@link ShownText}). */
+    public String shown(String text) {
+        return ShownText.of(text);
+    }
+
+    /** Whether the data page cuts this column's name or one of its shown levels. */
+    public boolean hasCutText() {
+        return name.length() > ShownText.MAX || levels.stream().anyMatch(l -> l.label().length() > ShownText.MAX)
+                || strayText.stream().anyMatch(t -> t.length() > ShownText.MAX);
     }
 
     /** One of this column's summaries for the page (see {@link HumanNumbers#number}); empty when undefined. */
@@ -58,8 +69,13 @@ public record ColumnOverview(String name, String type, int missing, double mean,
     }
 
     public static List<ColumnOverview> of(Table table) {
+        return of(table, table.columns().size());
+    }
+
+    /** The overviews of the first {@code max} columns (the data page's, which lists no more). */
+    public static List<ColumnOverview> of(Table table, int max) {
         List<ColumnOverview> out = new ArrayList<>();
-        for (Column c : table.columns()) {
+        for (Column c : table.columns().subList(0, Math.min(max, table.columns().size()))) {
             out.add(c instanceof NumericColumn n ? numeric(n) : categorical((CategoricalColumn) c));
         }
         return out;

@@ -4,9 +4,11 @@ import java.io.IOException;
 import java.io.InputStream;
 import java.util.List;
 import org.forkscape.data.DataException;
+import org.forkscape.data.Table;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.system.Lookup;
+import org.forkscape.web.system.MemoryBudgetException;
 import org.springframework.http.HttpStatus;
 import org.springframework.stereotype.Controller;
 import org.springframework.ui.Model;
@@ -22,6 +24,8 @@ import org.springframework.web.servlet.ModelAndView;
 class HomeController {
     static final String HOME = "home/index";
     static final String DATA = "data/overview";
+    /** Columns the data page lists (with {@link ShownText}'s cut, at most some 2.5 MB of page); the JSON has all. */
+    static final int SHOWN_COLUMNS = 1_000;
 
     private final AnalysisService analyses;
     private final Workspace workspace;
@@ -43,13 +47,16 @@ class HomeController {
     ModelAndView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
         if (AnalysisService.noFileChosen(file)) {
-            return homeWithProblem(title, "Choose a CSV file to upload.");
+            return homeWithProblem(title, "Choose a CSV file to upload.", HttpStatus.BAD_REQUEST);
         }
         try (InputStream in = file.getInputStream()) {
             StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);
             return new ModelAndView("redirect:/analyses/" + a.id());
         } catch (DataException e) {
-            return homeWithProblem(title, e.getMessage());
+            return homeWithProblem(title, e.getMessage(), HttpStatus.BAD_REQUEST);
+        } catch (MemoryBudgetException e) {
+            return homeWithProblem(title, e.getMessage(), e.overLimit() ? HttpStatus.INSUFFICIENT_STORAGE
+                    : HttpStatus.SERVICE_UNAVAILABLE);
         }
     }
 
@@ -57,14 +64,18 @@ class HomeController {
     String data(@PathVariable String analysis, Model model) {
         StoredAnalysis a = lookup.analysis(analysis);
         model.addAttribute("analysis", a);
-        model.addAttribute("columns", ColumnOverview.of(analyses.table(a)));
+        Table table = analyses.table(a);
+        List<ColumnOverview> shown = ColumnOverview.of(table, SHOWN_COLUMNS);
+        model.addAttribute("columns", shown);
+        model.addAttribute("textCut", shown.stream().anyMatch(ColumnOverview::hasCutText));
+        model.addAttribute("hiddenColumns", table.columns().size() - shown.size());
         model.addAttribute("runs", workspace.runs(a.id()));
         return DATA;
     }
 
-    private ModelAndView homeWithProblem(String title, String problem) {
+    private ModelAndView homeWithProblem(String title, String problem, HttpStatus status) {
         ModelAndView page = new ModelAndView(HOME);
-        page.setStatus(HttpStatus.BAD_REQUEST);
+        page.setStatus(status);
         page.addObject("cards", cards());
         page.addObject("uploadProblem", problem);
         page.addObject("uploadTitle", title);

@@ -27,6 +27,7 @@ import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.CompletedRun;
 import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunCancelledException;
+import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.RunOrigin;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunPipeline;
@@ -41,6 +42,7 @@ import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.ForkscapeSettings;
+import org.forkscape.web.system.MemoryBudget;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.springframework.context.ApplicationEventPublisher;
@@ -245,8 +247,10 @@ public class RunQueue {
                 // the run's plan.json holds planText as UTF-8 (Workspace.createRun), so these are its bytes
                 RunOrigin origin = new RunOrigin("web: run of analysis " + analysis.id(),
                         planText.getBytes(StandardCharsets.UTF_8), workspace.dataFile(analysis.id()));
-                CompletedRun<InferenceStage.Outcome> completed = pipeline.run(plan, table, planText, origin, folder,
-                        sections::of, stages(plan), cancel);
+                CompletedRun<InferenceStage.Outcome> completed;
+                try (MemoryBudget.Reservation memory = memoryFor(plan, table)) {
+                    completed = pipeline.run(plan, table, planText, origin, folder, sections::of, stages(plan), cancel);
+                }
                 RunSummary summary = completed.summary();
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
                         summary.fitted(), summary.specifications(), completed.result().seconds()))) {
@@ -276,6 +280,20 @@ public class RunQueue {
                     active.remove(record.id());
                 }
             }
+        }
+
+        /**
+         * The run's memory estimate reserved in the budget it shares with the uploads being read, after
+         * waiting while they hold what it needs (the plan check at submit kept the estimate within one run's
+         * limit).
+         */
+        private MemoryBudget.Reservation memoryFor(Plan plan, Table table) {
+            MemoryBudget budget = analyses.memoryBudget();
+            long estimate = MemoryEstimate.of(plan, table, threads).bytes();
+            if (budget.wouldWait(estimate)) {
+                workspace.log(record, "waiting for memory: uploads being read hold what this run needs");
+            }
+            return budget.awaitRoom(record.id(), estimate, cancel::get);
         }
 
         /** Removes the result files written before one failed, so that a failed run holds none (its plan.json stays). */

@@ -69,6 +69,13 @@ class ErrorAdvice {
                 e.getMessage());
     }
 
+    /** A table the memory budget has no room for: 507 above the limit, 503 while other uploads hold it. */
+    @ExceptionHandler(MemoryBudgetException.class)
+    Object memory(MemoryBudgetException e, HttpServletRequest request) {
+        return answer(request, e.overLimit() ? HttpStatus.INSUFFICIENT_STORAGE : HttpStatus.SERVICE_UNAVAILABLE,
+                "file", e.getMessage());
+    }
+
     @ExceptionHandler(MaxUploadSizeExceededException.class)
     Object tooLarge(MaxUploadSizeExceededException e, HttpServletRequest request) {
         return answer(request, HttpStatus.PAYLOAD_TOO_LARGE, "file", "the file is larger than this server accepts ("

@@ -82,6 +82,12 @@ class WebConfiguration {
         return ServerLimits.of(settings.runs());
     }
 
+    /** The memory runs computing and tables being read share: one run's limit for each of the concurrent runs. */
+    @Bean
+    MemoryBudget memoryBudget(ServerLimits limits, ForkscapeSettings settings) {
+        return new MemoryBudget(limits.maxMemory(), settings.runs().concurrent());
+    }
+
     /** The influence panel's computation: the inference package's, over the filtered set. */
     @Bean
     InfluenceAnalysis influenceAnalysis() {

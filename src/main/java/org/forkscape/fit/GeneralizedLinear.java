@@ -20,6 +20,15 @@ public final class GeneralizedLinear implements Estimator {
     private final GlmCovariance covariance = new GlmCovariance();
     private final ObservedRows observed = new ObservedRows();
     private double[] startAlpha = new double[0];
+    // what the last fit's rows alone decide, kept for the next specification on the same rows (the usable
+    // rows' statistics object, compared by identity, with the outcome and the model or the key column)
+    private Moments nullModelRows;
+    private int nullModelOutcome = -1;
+    private GlmFamily nullModelFamily;
+    private GlmLikelihoods.NullModel nullModel;
+    private Moments twoValuedRows;
+    private int twoValuedColumn = -1;
+    private boolean twoValued;
     private double[] startBeta = new double[0];
 
     public GeneralizedLinear() {
@@ -170,7 +179,7 @@ public final class GeneralizedLinear implements Estimator {
         double effect = margins ? marginalEffect(f, keyColumn, mom, levelGradient[1], columnGradient[1], b)
                 : Double.NaN;
         double[] v = covariance.variances(irls, spec.errors(), levelGradient, columnGradient, margins ? 2 : 1);
-        GlmLikelihoods likelihoods = GlmLikelihoods.of(rows, f, irls.deviance);
+        GlmLikelihoods likelihoods = nullModel(mom, spec.outcomeColumn(), f, margins).at(irls.deviance);
         double r2 = 1 - likelihoods.logLik() / likelihoods.nullLogLik();
         double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - irls.deviance),
                 irls.keptCount);
@@ -200,11 +209,7 @@ public final class GeneralizedLinear implements Estimator {
         int p = rows.p;
         int key = p - 1;
         double[] recorded = mom.variant.coded.recorded[keyColumn];
-        boolean twoValued = true;
-        for (int i = 0; i < n && twoValued; i++) {
-            double x = recorded[rows.source[i]];
-            twoValued = x == 0 || x == 1;
-        }
+        boolean twoValued = twoValued(mom, keyColumn, recorded);
         double sum = 0;
         double[] x = rows.x;
         for (int i = 0, at = 0; i < n; i++, at += p) {
@@ -243,6 +248,36 @@ public final class GeneralizedLinear implements Estimator {
             columnGradient[j] = irls.kept[j] ? columnGradient[j] / n : 0;
         }
         return twoValued ? sum / n : b * sum / n;
+    }
+
+    /**
+     * The null model's part of the likelihoods, the same for every specification on these rows; kept from
+     * the last call only for the observed data ({@code observed}), whose statistics objects stand for one
+     * set of rows each.
+     */
+    private GlmLikelihoods.NullModel nullModel(Moments mom, int outcome, GlmFamily family, boolean observed) {
+        if (!observed || mom != nullModelRows || outcome != nullModelOutcome || family != nullModelFamily) {
+            nullModel = GlmLikelihoods.nullModel(rows, family);
+            nullModelRows = observed ? mom : null;
+            nullModelOutcome = outcome;
+            nullModelFamily = family;
+        }
+        return nullModel;
+    }
+
+    /** Whether the key predictor is recorded as 0 and 1 alone in these rows (observed data; kept from the last call). */
+    private boolean twoValued(Moments mom, int keyColumn, double[] recorded) {
+        if (mom != twoValuedRows || keyColumn != twoValuedColumn) {
+            boolean only = true;
+            for (int i = 0; i < rows.n && only; i++) {
+                double x = recorded[rows.source[i]];
+                only = x == 0 || x == 1;
+            }
+            twoValued = only;
+            twoValuedRows = mom;
+            twoValuedColumn = keyColumn;
+        }
+        return twoValued;
     }
 
     private static FitStatus keyStatus(Moments mom, int keyColumn) {

@@ -15,7 +15,18 @@ import org.apache.commons.math3.special.Gamma;
  */
 record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
 
-    static GlmLikelihoods of(GlmRows rows, GlmFamily family, double deviance) {
+    /**
+     * What the likelihoods take from the rows alone, whatever the model's columns: the saturated
+     * log-likelihood and the null model's deviance.
+     */
+    record NullModel(double saturated, double nullDeviance) {
+        /** The likelihoods of a fit of residual deviance {@code deviance} on these rows. */
+        GlmLikelihoods at(double deviance) {
+            return new GlmLikelihoods(saturated - deviance / 2, saturated - nullDeviance / 2, nullDeviance);
+        }
+    }
+
+    static NullModel nullModel(GlmRows rows, GlmFamily family) {
         int n = rows.n;
         int levels = rows.levels;
         double[] sum = new double[levels];
@@ -43,6 +54,6 @@ record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
                 nullDeviance -= 2 * ((s > 0 ? s * Math.log(m) : 0) + (count[l] - s > 0 ? (count[l] - s) * Math.log1p(-m) : 0));
             }
         }
-        return new GlmLikelihoods(saturated - deviance / 2, saturated - nullDeviance / 2, nullDeviance);
+        return new NullModel(saturated, nullDeviance);
     }
 }

@@ -12,7 +12,8 @@ import org.forkscape.data.Table;
 /**
  * Checks a plan against its data: every named column exists (with the nearest name suggested when it
  * does not) and has a type its role allows. Each problem is a {@link PlanException} at the JSON path of
- * the field that names the column.
+ * the field that names the column. A plan whose every specification is bound to fail is refused too
+ * ({@link BoundToFail}).
  */
 public final class PlanChecker {
     private PlanChecker() {
@@ -56,6 +57,7 @@ public final class PlanChecker {
         if (plan.nullCluster() != null && !plan.nullCluster().equals(Plan.NULL_CLUSTER_ROWS)) {
             existing(plan.nullCluster(), "nullCluster", table);
         }
+        BoundToFail.refuse(plan, table);
     }
 
     /**

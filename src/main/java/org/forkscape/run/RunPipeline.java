@@ -80,8 +80,7 @@ public final class RunPipeline {
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();
         }
-        RunOutputs.write(result, folder, planText, outcome.sections(), provenance);
-        outcome.writeFiles(folder);
+        write(result, folder, planText, outcome, provenance, listener);
         return new CompletedRun<>(result, summary, outcome);
     }
 
@@ -109,6 +108,17 @@ public final class RunPipeline {
             return inference.compute(result, progress, cancel);
         } finally {
             listener.ended(StageListener.Stage.INFERENCE);
+        }
+    }
+
+    private void write(RunResult result, Path folder, String planText, InferenceStage.Outcome outcome,
+            Provenance provenance, StageListener listener) {
+        RunProgress progress = listener.started(StageListener.Stage.WRITING);
+        try {
+            RunOutputs.write(result, folder, planText, outcome.sections(), provenance, threads, progress);
+            outcome.writeFiles(folder);
+        } finally {
+            listener.ended(StageListener.Stage.WRITING);
         }
     }
 

@@ -127,7 +127,7 @@ public class RunQueue {
             return Optional.of(job.status());
         }
         return workspace.run(analysisId, runId).map(r -> RunStatus.of(r, "", r.state() == RunState.FINISHED
-                ? r.specifications() : 0, r.specifications(), 0, 0, seconds(r.started(), r.ended()), null, 0));
+                ? r.specifications() : 0, r.specifications(), 0, 0, 0, 0, seconds(r.started(), r.ended()), null, 0));
     }
 
     /** Asks a queued or running run to stop; an ended run is left as it is. */
@@ -172,7 +172,11 @@ public class RunQueue {
         private final AtomicLong drawsDone = new AtomicLong();
         private final AtomicLong drawsTotal = new AtomicLong();
         private final long total;
-        private volatile String phase = "fitting";
+        private volatile String phase = RunStatus.FITTING;
+        /** The current phase's work done and its total (specifications, null draws, rows written). */
+        private final AtomicLong phaseDone = new AtomicLong();
+        private final AtomicLong phaseTotal = new AtomicLong();
+        private volatile long phaseStart = System.nanoTime();
         private volatile StoredRun record;
         private volatile RunState stopAs = RunState.CANCELLED;
         /** The end is known here but could not be written: the job stays listed so that its status tells it. */
@@ -188,10 +192,13 @@ public class RunQueue {
         RunStatus status() {
             StoredRun r = record;
             double elapsed = seconds(r.started(), null);
-            long d = done.get();
-            Double remaining = r.started() != null && d > 0 && d < total ? elapsed * (total - d) / d : null;
-            return RunStatus.of(r, phase, d, total, drawsDone.get(), drawsTotal.get(), elapsed, remaining,
-                    position(r.id()));
+            long d = phaseDone.get();
+            long t = phaseTotal.get();
+            double inPhase = (System.nanoTime() - phaseStart) / 1e9;
+            // the pace of the current phase only: each phase has its own unit and speed
+            Double remaining = r.started() != null && d > 0 && d < t ? inPhase * (t - d) / d : null;
+            return RunStatus.of(r, r.state().ended() ? "" : phase, done.get(), total, drawsDone.get(), drawsTotal.get(), d, t, elapsed,
+                    remaining, position(r.id()));
         }
 
         void cancel() {
@@ -302,21 +309,38 @@ public class RunQueue {
             }
         }
 
-        /** Counts the fit's and the null draws' progress for the status, and records the null draws' start. */
+        /**
+         * Counts each stage's progress for the status (fitting, inference with its null draws, writing the
+         * files), and records the start of the later stages in the run's log.
+         */
         private StageListener stages(Plan plan) {
             return new StageListener() {
                 @Override
                 public RunProgress started(Stage stage) {
-                    if (stage == Stage.FITTING) {
-                        return (d, t) -> done.set(d);
-                    }
-                    if (plan.nullDraws() > 0) {
-                        phase = "null draws";
-                        workspace.log(record, String.format("null draws: %,d", plan.nullDraws()));
+                    phaseDone.set(0);
+                    phaseTotal.set(stage == Stage.FITTING ? total : 0);
+                    phaseStart = System.nanoTime();
+                    switch (stage) {
+                        case FITTING -> phase = RunStatus.FITTING;
+                        case INFERENCE -> {
+                            phase = RunStatus.INFERENCE;
+                            workspace.log(record, plan.nullDraws() > 0
+                                    ? String.format("inference: %,d null draws", plan.nullDraws()) : "inference");
+                        }
+                        case WRITING -> {
+                            phase = RunStatus.WRITING;
+                            workspace.log(record, "writing files");
+                        }
                     }
                     return (d, t) -> {
-                        drawsDone.set(d);
-                        drawsTotal.set(t);
+                        phaseDone.set(d);
+                        phaseTotal.set(t);
+                        if (stage == Stage.FITTING) {
+                            done.set(d);
+                        } else if (stage == Stage.INFERENCE) {
+                            drawsDone.set(d);
+                            drawsTotal.set(t);
+                        }
                     };
                 }
 

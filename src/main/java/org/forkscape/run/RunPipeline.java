@@ -28,6 +28,7 @@ import org.forkscape.plan.PlanChecker;
 public final class RunPipeline {
     private final int threads;
     private final MemoryLimit memoryLimit;
+    private final SettingNames names;
 
     /**
      * A pipeline that does not estimate memory: for a door that refused too large a plan before it queued
@@ -36,12 +37,13 @@ public final class RunPipeline {
      * @param threads fitting threads
      */
     public RunPipeline(int threads) {
-        this(threads, null);
+        this(threads, null, SettingNames.COMMAND_LINE);
     }
 
-    private RunPipeline(int threads, MemoryLimit memoryLimit) {
+    private RunPipeline(int threads, MemoryLimit memoryLimit, SettingNames names) {
         this.threads = threads;
         this.memoryLimit = memoryLimit;
+        this.names = names;
     }
 
     /**
@@ -51,7 +53,12 @@ public final class RunPipeline {
      * @param wayOut what the user can do, in the door's own words (its options or settings)
      */
     public RunPipeline refusingMemoryAbove(long bytes, String wayOut) {
-        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut));
+        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut), names);
+    }
+
+    /** The same pipeline, naming the settings in its messages as {@code names} does (the batch command's by default). */
+    public RunPipeline naming(SettingNames names) {
+        return new RunPipeline(threads, memoryLimit, names);
     }
 
     /**
@@ -86,7 +93,7 @@ public final class RunPipeline {
 
     private void check(Plan plan, Table table) {
         PlanChecker.check(plan, table);
-        MultiverseRunner.checkCount(plan);
+        MultiverseRunner.checkCount(plan, names);
         if (memoryLimit != null) {
             MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit.bytes(), memoryLimit.wayOut());
         }

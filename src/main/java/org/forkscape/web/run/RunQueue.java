@@ -41,6 +41,7 @@ import org.forkscape.run.WorkspaceWriteException;
 import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.ForkscapeSettings;
+import org.forkscape.web.system.FormFields;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.springframework.context.ApplicationEventPublisher;
@@ -80,7 +81,7 @@ public class RunQueue {
         this.sections = sections;
         this.events = events;
         this.threads = settings.runs().fittingThreads();
-        this.pipeline = new RunPipeline(threads);
+        this.pipeline = new RunPipeline(threads).naming(FormFields.SETTINGS);
         this.capacity = Math.max(0, settings.runs().queue());
         int concurrent = Math.max(1, settings.runs().concurrent());
         this.executor = new ThreadPoolExecutor(concurrent, concurrent, 0, TimeUnit.MILLISECONDS,
@@ -271,7 +272,7 @@ public class RunQueue {
                 end(RunState.FAILED, e.where(), e.problem(), "failed: " + e.getMessage());
             } catch (OutOfMemoryError e) {
                 end(RunState.FAILED, "", "the server ran out of memory for this run; fit a random sample of the "
-                        + "specifications (plan keys \"sample\" and \"seed\") or give the server more memory",
+                        + "specifications (" + FormFields.SAMPLE + ") or give the server more memory",
                         "failed: out of memory");
             } catch (RuntimeException e) {
                 LOG.error("run {} of analysis {} failed", record.id(), analysis.id(), e);

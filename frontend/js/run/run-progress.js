@@ -51,9 +51,12 @@ function showInference(s, current) {
   if (current > 1) {
     complete(bar);
     text.textContent = s.drawsTotal > 0 ? `${count(s.drawsTotal)} null draws made, summaries computed` : 'summaries computed';
-  } else if (s.phaseTotal > 0) {
+  } else if (s.phaseTotal > 0 && s.phaseDone < s.phaseTotal) {
     fill(bar, s.phaseDone, s.phaseTotal);
     text.textContent = `${count(s.phaseDone)} of ${count(s.phaseTotal)} null draws`;
+  } else if (s.phaseTotal > 0) {
+    fill(bar, 0, 0);
+    text.textContent = `${count(s.phaseTotal)} null draws made; computing the summaries (bounds, weights, influence)`;
   } else {
     fill(bar, 0, 0);
     text.textContent = 'computing the summaries (bounds, weights, influence)';

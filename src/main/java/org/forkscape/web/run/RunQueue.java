@@ -319,7 +319,8 @@ public class RunQueue {
                 @Override
                 public RunProgress started(Stage stage) {
                     phaseDone.set(0);
-                    phaseTotal.set(stage == Stage.FITTING ? total : 0);
+                    // the null draws are known from the plan before the first is made
+                    phaseTotal.set(stage == Stage.FITTING ? total : stage == Stage.INFERENCE ? plan.nullDraws() : 0);
                     phaseStart = System.nanoTime();
                     switch (stage) {
                         case FITTING -> phase = RunStatus.FITTING;

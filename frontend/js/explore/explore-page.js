@@ -13,6 +13,7 @@ import { gridRows } from './grid-data.js';
 import { gridConfig } from './grid-config.js';
 import { showGrid, sizeGrid } from './grid-actions.js';
 import { positionAt } from './highlight.js';
+import { filterWords, withText } from './figure-caption.js';
 import { influenceConfig } from './influence-config.js';
 import { showInfluence } from './influence-actions.js';
 
@@ -123,8 +124,7 @@ async function refresh() {
   atCache.clear();
   hideTip();
   noDetails();
-  const ordered = sort === 'estimate' ? 'ordered by estimate'
-    : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
+  const ordered = orderWords();
   const interval = scaleInfo().interval;
   state.nullBand = nullBand();
   legend();
@@ -742,7 +742,9 @@ function wholeRun(summary) {
       [specLink(best.spec, 'best-spec-link'), ', as reported alone']));
     const t = tally(best.adjusted_test, best.p_adjusted);
     box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
-      t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}` : best.adjustment));
+      // summary.json's own words name the plan key; on the page, the field that sets it
+      t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}`
+        : 'none: ask for null draws ("Null draws for joint inference" on the plan page) to adjust it'));
   }
   const bounds = summary.interval_bounds;
   // the run's bounds are over every estimate as fitted: shown only when those share their units
@@ -885,7 +887,12 @@ function unfitted(layout) {
   document.getElementById('unfitted').hidden = false;
 }
 
-// ---- PNG export: both panels, stacked as on screen, on paper
+function orderWords() {
+  return sort === 'estimate' ? 'ordered by estimate'
+    : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
+}
+
+// ---- PNG export: both panels, stacked as on screen, on paper, under a caption that says what they show
 
 function exportPng() {
   const top = curveChart.canvas;
@@ -910,18 +917,30 @@ function exportPng() {
     placed.push({ entry, x, row });
     x += w;
   }
-  // the scale's line, broken at spaces to the figure's width
-  const scaleWords = (`${count(state.view.curve.count)} specifications; scale: ${scaleName()}; vertical axis: `
-    + `${state.view.unit}` + (scaleInfo().interval ? `; bars: ${confidenceLabel()} confidence intervals`
-    : '; no interval on this scale')).split(' ');
-  const scaleLines = [''];
-  for (const word of scaleWords) {
-    const last = scaleLines[scaleLines.length - 1];
-    const longer = last ? `${last} ${word}` : word;
-    if (last && measure.measureText(longer).width > width - 2 * margin) scaleLines.push(word);
-    else scaleLines[scaleLines.length - 1] = longer;
+  // the caption: what is shown (filter, order, scale) and where it comes from, each broken at spaces
+  const caption = [
+    `Showing ${count(state.view.summary.count)} of ${count(state.view.total)} specifications; filter: `
+      + `${filterWords(state.layout, dropped)}`,
+    `Order: ${orderWords()}`,
+    `Scale: ${scaleName()}; vertical axis: ${state.view.unit}` + (scaleInfo().interval
+      ? `; bars: ${confidenceLabel()} confidence intervals` : '; no interval on this scale'),
+    `Run ${run} of the analysis "${root.dataset.title}"; Forkscape ${root.dataset.version}`,
+  ];
+  const captionLines = [];
+  for (const text of caption) {
+    const lines = [''];
+    for (const word of text.split(' ')) {
+      const last = lines[lines.length - 1];
+      const longer = last ? `${last} ${word}` : word;
+      if (last && measure.measureText(longer).width > width - 2 * margin) lines.push(word);
+      else lines[lines.length - 1] = longer;
+    }
+    captionLines.push(...lines);
   }
-  const band = Math.round((row + 1 + scaleLines.length) * line + 8 * ratio);
+  // the title on a line of its own above the legend
+  row += 1;
+  for (const p of placed) p.row += 1;
+  const band = Math.round((row + 1 + captionLines.length) * line + 8 * ratio);
   const canvas = document.createElement('canvas');
   canvas.width = width;
   canvas.height = band + top.height + bottom.height;
@@ -941,10 +960,16 @@ function exportPng() {
     ctx.fillStyle = PALETTE.ink;
     ctx.fillText(entry.text, at + 14 * ratio, y);
   }
-  scaleLines.forEach((text, k) => ctx.fillText(text, margin, line * (row + 1.5 + k) + 4 * ratio));
+  ctx.fillStyle = PALETTE.ink;
+  ctx.font = `bold ${font}`;
+  ctx.fillText(root.dataset.title, margin, line * 0.5 + 4 * ratio);
+  ctx.font = font;
+  captionLines.forEach((text, k) => ctx.fillText(text, margin, line * (row + 1.5 + k) + 4 * ratio));
   ctx.drawImage(top, 0, band);
   ctx.drawImage(bottom, 0, band + top.height);
-  canvas.toBlob((blob) => download(blob, `specification-curve-${run}.png`), 'image/png');
+  canvas.toBlob(async (blob) => download(await withText(blob, {
+    Title: root.dataset.title, Description: caption.join('\n'), Software: `Forkscape ${root.dataset.version}`,
+  }), `${root.dataset.download}-curve.png`), 'image/png');
 }
 
 // ---- start

@@ -166,15 +166,15 @@ public final class BenchmarkCommand {
         }
         long heap = peakHeap() >> 20;
         Path csv = folder.resolve("specifications-" + c.name() + ".csv");
-        SpecificationsCsv.write(last, csv);
-        long csvStart = System.nanoTime();
-        SpecificationsCsv.write(last, csv);
-        double csvRate = last.results().size() / ((System.nanoTime() - csvStart) / 1e9);
+        int cores = Runtime.getRuntime().availableProcessors();
+        SpecificationsCsv.write(last, csv, cores, RunProgress.SILENT);
+        double csvRate = csvRate(last, csv, 1);
+        double csvRateAllCores = csvRate(last, csv, cores);
         double engine = median(engineRates);
         double refit = median(refitRates);
         double[] ratio = ratioRange(engineRates, refitRates);
-        out.printf("%-22s %,14.0f %,13.1f %,9.0f %,9.0f %,9.0f %,9d %11.1e %,10.0f%n", c.name(), engine, refit,
-                engine / refit, ratio[0], ratio[1], heap, maxRelative, csvRate);
+        out.printf("%-22s %,14.0f %,13.1f %,9.0f %,9.0f %,9.0f %,9d %11.1e %,10.0f %,12.0f%n", c.name(), engine, refit,
+                engine / refit, ratio[0], ratio[1], heap, maxRelative, csvRate, csvRateAllCores);
         Map<String, Object> json = new LinkedHashMap<>();
         json.put("case", c.name());
         json.put("rows", c.rows());
@@ -183,6 +183,8 @@ public final class BenchmarkCommand {
         json.put("engine_specs_per_second", engine);
         json.put("engine_measures", "loaded table to filled result table (variants, cross-products, solves)");
         json.put("csv_write_specs_per_second", csvRate);
+        json.put("csv_write_specs_per_second_all_cores", csvRateAllCores);
+        json.put("csv_write_bytes", csvBytes(csv));
         json.put("refit_specs_per_second", refit);
         json.put("refit_note", "Commons Math OLSMultipleLinearRegression per specification, textbook sandwich; timed "
                 + "on a seeded random sample for about " + budget + " s per repetition and extrapolated");
@@ -195,6 +197,21 @@ public final class BenchmarkCommand {
         json.put("refit_by_qr", last.refitByQr());
         machine(json);
         write(c.name(), json);
+    }
+
+    /** Rows of specifications.csv written per second on {@code threads} threads, to disk and synced, as a run writes it. */
+    private static double csvRate(RunResult run, Path csv, int threads) {
+        long start = System.nanoTime();
+        SpecificationsCsv.write(run, csv, threads, RunProgress.SILENT);
+        return run.results().size() / ((System.nanoTime() - start) / 1e9);
+    }
+
+    private static long csvBytes(Path csv) {
+        try {
+            return Files.size(csv);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
     }
 
     /** The row-free sandwich routes against the one-row-pass route, on the same specifications. */

@@ -5,8 +5,8 @@ import org.forkscape.run.RunProgress;
 import org.forkscape.run.StageListener;
 
 /**
- * A run's stages on a terminal's stderr: one progress line per stage (specifications, then null draws),
- * cleared when the stage ends. When stderr is not a terminal nothing is shown, so redirected output holds
+ * A run's stages on a terminal's stderr: one progress line per stage (specifications, then null draws,
+ * then the rows of specifications.csv written), cleared when the stage ends. When stderr is not a terminal nothing is shown, so redirected output holds
  * only the result line and warnings.
  */
 final class TerminalStages implements StageListener {
@@ -23,7 +23,11 @@ final class TerminalStages implements StageListener {
             shown = null;
             return RunProgress.SILENT;
         }
-        shown = stage == Stage.FITTING ? new TerminalProgress(err) : new TerminalProgress(err, "null draws");
+        shown = switch (stage) {
+            case FITTING -> new TerminalProgress(err, "fitting", "specifications");
+            case INFERENCE -> new TerminalProgress(err, "inference (null draws, then the summaries)", "null draws");
+            case WRITING -> new TerminalProgress(err, "writing files", "rows of specifications.csv");
+        };
         return shown;
     }
 

@@ -57,7 +57,7 @@ public record BestSpecification(SpecificationNumber spec, int row, double pNomin
         m.put("p_nominal", Json.number(pNominal));
         m.put("p_adjusted", Json.number(pAdjusted()));
         m.put("adjusted_test", adjusted == null ? null : adjusted.toJson());
-        m.put("adjustment", adjusted == null ? "none: ask for null draws (--null-draws R) to adjust it"
+        m.put("adjustment", adjusted == null ? "none: ask for null draws (plan key \"nullDraws\", or --null-draws R) to adjust it"
                 : "min-p over the null draws (Westfall & Young 1993)");
         return m;
     }

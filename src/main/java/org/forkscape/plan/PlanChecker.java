@@ -13,7 +13,8 @@ import org.forkscape.data.Table;
  * Checks a plan against its data: every named column exists (with the nearest name suggested when it
  * does not) and has a type its role allows. Each problem is a {@link PlanException} at the JSON path of
  * the field that names the column; the check goes on to the next field and throws once, at the end, with
- * the first problem and every other one ({@link PlanException#all()}).
+ * the first problem and every other one ({@link PlanException#all()}). A plan whose every specification is
+ * bound to fail is refused too ({@link BoundToFail}).
  */
 public final class PlanChecker {
     private PlanChecker() {
@@ -63,6 +64,7 @@ public final class PlanChecker {
             problems.attempt(() -> existing(plan.nullCluster(), "nullCluster", table));
         }
         problems.throwIfAny();
+        BoundToFail.refuse(plan, table);
     }
 
     /**

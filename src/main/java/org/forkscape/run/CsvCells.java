@@ -24,6 +24,11 @@ public final class CsvCells {
                 FORMAT);
     }
 
+    /** A printer appending to {@code text}: for rows formatted in memory and encoded as a block. */
+    public static CSVPrinter printer(Appendable text) throws IOException {
+        return new CSVPrinter(text, FORMAT);
+    }
+
     /** Shortest decimal that reads back to the same double; empty for NaN and infinities. */
     public static String number(double v) {
         if (!Double.isFinite(v)) {

@@ -54,22 +54,26 @@ public final class MultiverseRunner {
     }
 
     /**
-     * Refuses a plan whose specification count exceeds its cap, with the way out in the message; a sample
-     * counts as the number of specifications it fits.
+     * Refuses a plan whose specification count exceeds its cap, with the way out in the message, in the
+     * batch command's words; a sample counts as the number of specifications it fits.
      */
     public static void checkCount(Plan plan) {
+        checkCount(plan, SettingNames.COMMAND_LINE);
+    }
+
+    /** The same, with the way out in {@code names}, the door's own words. */
+    public static void checkCount(Plan plan, SettingNames names) {
         SpecificationSpace space = new SpecificationSpace(plan);
         if (plan.sampleSize() > 0 && Math.min(plan.sampleSize(), space.size()) > plan.maxSpecifications()) {
             throw new InputException("sample", String.format("a sample of %,d specifications is above the cap of "
-                    + "%,d; ask for a smaller sample, or raise the cap with --max-specifications (plan key "
-                    + "\"maxSpecifications\")", Math.min(plan.sampleSize(), space.size()), plan.maxSpecifications()));
+                    + "%,d; ask for a smaller sample, or raise the cap with %s", Math.min(plan.sampleSize(),
+                    space.size()), plan.maxSpecifications(), names.cap()));
         }
         if (plan.sampleSize() <= 0 && space.size() > plan.maxSpecifications()) {
             throw new InputException("decisions", "the plan has " + String.format("%,d", space.count())
                     + " specifications, above the cap of "
                     + String.format("%,d", plan.maxSpecifications()) + "; fit a seeded random sample instead with "
-                    + "--sample N --seed S (plan keys \"sample\" and \"seed\"), or raise the cap with "
-                    + "--max-specifications");
+                    + names.sample() + ", or raise the cap with " + names.cap());
         }
     }
 

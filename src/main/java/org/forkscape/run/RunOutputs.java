@@ -18,9 +18,13 @@ public final class RunOutputs {
     private RunOutputs() {
     }
 
+    /**
+     * @param threads  threads that format specifications.csv (its bytes do not depend on them)
+     * @param progress receives the rows of specifications.csv written out of its rows
+     */
     public static void write(RunResult run, Path folder, String planText, Map<String, Object> sections,
-            Provenance provenance) {
-        SpecificationsCsv.write(run, folder.resolve(SPECIFICATIONS));
+            Provenance provenance, int threads, RunProgress progress) {
+        SpecificationsCsv.write(run, folder.resolve(SPECIFICATIONS), threads, progress);
         Json.write(folder.resolve(SUMMARY), SummaryJson.of(run, sections, provenance));
         if (planText != null) {
             AtomicFiles.writeString(folder.resolve(PLAN), planText);

@@ -28,6 +28,7 @@ import org.forkscape.plan.PlanChecker;
 public final class RunPipeline {
     private final int threads;
     private final MemoryLimit memoryLimit;
+    private final SettingNames names;
 
     /**
      * A pipeline that does not estimate memory: for a door that refused too large a plan before it queued
@@ -36,12 +37,13 @@ public final class RunPipeline {
      * @param threads fitting threads
      */
     public RunPipeline(int threads) {
-        this(threads, null);
+        this(threads, null, SettingNames.COMMAND_LINE);
     }
 
-    private RunPipeline(int threads, MemoryLimit memoryLimit) {
+    private RunPipeline(int threads, MemoryLimit memoryLimit, SettingNames names) {
         this.threads = threads;
         this.memoryLimit = memoryLimit;
+        this.names = names;
     }
 
     /**
@@ -51,7 +53,12 @@ public final class RunPipeline {
      * @param wayOut what the user can do, in the door's own words (its options or settings)
      */
     public RunPipeline refusingMemoryAbove(long bytes, String wayOut) {
-        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut));
+        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut), names);
+    }
+
+    /** The same pipeline, naming the settings in its messages as {@code names} does (the batch command's by default). */
+    public RunPipeline naming(SettingNames names) {
+        return new RunPipeline(threads, memoryLimit, names);
     }
 
     /**
@@ -80,14 +87,13 @@ public final class RunPipeline {
         if (cancel != null && cancel.get()) {
             throw new RunCancelledException();
         }
-        RunOutputs.write(result, folder, planText, outcome.sections(), provenance);
-        outcome.writeFiles(folder);
+        write(result, folder, planText, outcome, provenance, listener);
         return new CompletedRun<>(result, summary, outcome);
     }
 
     private void check(Plan plan, Table table) {
         PlanChecker.check(plan, table);
-        MultiverseRunner.checkCount(plan);
+        MultiverseRunner.checkCount(plan, names);
         if (memoryLimit != null) {
             MemoryEstimate.of(plan, table, threads).refuseAbove(memoryLimit.bytes(), memoryLimit.wayOut());
         }
@@ -109,6 +115,17 @@ public final class RunPipeline {
             return inference.compute(result, progress, cancel);
         } finally {
             listener.ended(StageListener.Stage.INFERENCE);
+        }
+    }
+
+    private void write(RunResult result, Path folder, String planText, InferenceStage.Outcome outcome,
+            Provenance provenance, StageListener listener) {
+        RunProgress progress = listener.started(StageListener.Stage.WRITING);
+        try {
+            RunOutputs.write(result, folder, planText, outcome.sections(), provenance, threads, progress);
+            outcome.writeFiles(folder);
+        } finally {
+            listener.ended(StageListener.Stage.WRITING);
         }
     }
 

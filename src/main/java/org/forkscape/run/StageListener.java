@@ -1,7 +1,7 @@
 package org.forkscape.run;
 
 /**
- * What a door hears of a {@link RunPipeline}: the start and end of its two long stages, and progress
+ * What a door hears of a {@link RunPipeline}: the start and end of its three long stages, and progress
  * within each. The batch command draws a progress line per stage on a terminal; the run queue counts
  * progress for its status and records the phase.
  */
@@ -22,8 +22,10 @@ public interface StageListener {
     enum Stage {
         /** Fitting every specification; progress counts specifications. */
         FITTING,
-        /** The inference stage after the fit; progress counts null draws. */
-        INFERENCE
+        /** The inference stage after the fit; progress counts null draws, and stays at 0 of 0 without them. */
+        INFERENCE,
+        /** Writing the run's files; progress counts the rows of specifications.csv written. */
+        WRITING
     }
 
     /**

@@ -12,7 +12,12 @@ import java.time.Instant;
  * @param columns  data columns
  * @param created  when it was created
  * @param demo     whether it is the bundled demo
+ * @param archived whether the user archived it (kept whole, listed apart)
  */
 public record StoredAnalysis(String id, String title, String dataName, int rows, int columns, Instant created,
-        boolean demo) {
+        boolean demo, boolean archived) {
+    /** The analysis under a new title and archive mark. */
+    public StoredAnalysis labelled(String newTitle, boolean isArchived) {
+        return new StoredAnalysis(id, newTitle.strip(), dataName, rows, columns, created, demo, isArchived);
+    }
 }

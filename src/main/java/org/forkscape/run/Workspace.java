@@ -20,6 +20,7 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.regex.Pattern;
 import java.util.stream.Stream;
+import org.forkscape.InputException;
 import tools.jackson.databind.JsonNode;
 
 /**
@@ -69,7 +70,15 @@ public final class Workspace {
     private final FreeSpace freeSpace;
     private final Path analyses;
     private final Path incoming;
+    private final Path trash;
     private final SecureRandom random = new SecureRandom();
+
+    /**
+     * Where a deleted analysis or run goes first, inside the workspace (so on its file system, where a
+     * rename is atomic): the folder disappears from the workspace at once, and whatever of it a failed
+     * deletion leaves is removed at the next start.
+     */
+    public static final String TRASH = ".trash";
 
     /** The folder of the embedded web server's working files, inside the workspace. */
     public static final String SERVER_FILES = ".server";
@@ -85,12 +94,16 @@ public final class Workspace {
         this.freeSpace = freeSpace;
         this.analyses = this.root.resolve("analyses");
         this.incoming = this.root.resolve(".incoming");
+        this.trash = this.root.resolve(TRASH);
         try {
             Files.createDirectories(analyses);
             Files.createDirectories(incoming);
-            try (Stream<Path> left = Files.list(incoming)) {
-                for (Path p : left.toList()) {
-                    deleteTree(p);
+            Files.createDirectories(trash);
+            for (Path leftOver : List.of(incoming, trash)) {
+                try (Stream<Path> left = Files.list(leftOver)) {
+                    for (Path p : left.toList()) {
+                        deleteTree(p);
+                    }
                 }
             }
             Files.createDirectories(uploadParts());
@@ -173,7 +186,7 @@ public final class Workspace {
             Files.move(data, staging.resolve(DATA), StandardCopyOption.REPLACE_EXISTING);
             for (int attempt = 0; ; attempt++) {
                 String id = STAMP.format(now) + "-" + randomLetters(6);
-                StoredAnalysis a = new StoredAnalysis(id, title, dataName, rows, columns, now, demo);
+                StoredAnalysis a = new StoredAnalysis(id, title, dataName, rows, columns, now, demo, false);
                 Json.write(staging.resolve(ANALYSIS), analysisJson(a));
                 Path target = analyses.resolve(id);
                 if (Files.exists(target) && attempt < 10) {
@@ -247,7 +260,7 @@ public final class Workspace {
                     throw e;
                 }
                 AtomicFiles.writeString(folder.resolve(PLAN), planText);
-                StoredRun run = new StoredRun(id, analysisId, RunState.QUEUED, now, null, null, 0, "", "");
+                StoredRun run = new StoredRun(id, analysisId, RunState.QUEUED, now, null, null, 0, "", "", "", false);
                 update(run);
                 log(run, "queued");
                 return run;
@@ -303,6 +316,81 @@ public final class Workspace {
         return out;
     }
 
+    /**
+     * Writes an analysis's new title or archive mark (an archived analysis is kept whole, listed apart).
+     *
+     * @throws InputException at {@code title} when the title is empty
+     */
+    public StoredAnalysis updateAnalysis(StoredAnalysis changed) {
+        requireAnalysis(changed.id());
+        if (changed.title().isBlank()) {
+            throw new InputException("title", "an analysis needs a title");
+        }
+        try {
+            Json.write(analysisFolder(changed.id()).resolve(ANALYSIS), analysisJson(changed));
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the analysis was not changed");
+        }
+        return changed;
+    }
+
+    /**
+     * Writes an ended run's new name or archive mark. A queued or running run is refused: its queue job
+     * writes its record until it ends.
+     *
+     * @throws InputException when the run has not ended
+     */
+    public StoredRun updateRunLabels(StoredRun changed) {
+        StoredRun now = run(changed.analysisId(), changed.id())
+                .orElseThrow(() -> new IllegalArgumentException("no run " + changed.id()));
+        requireEnded(now, "renamed or archived");
+        update(changed.with(now.state()));
+        return changed;
+    }
+
+    /**
+     * Deletes an analysis with its data, plans and runs: its folder is first renamed into the workspace's
+     * trash (atomic on one file system), then deleted.
+     *
+     * @throws InputException when one of its runs is queued or running
+     */
+    public void deleteAnalysis(String analysisId) {
+        requireAnalysis(analysisId);
+        for (StoredRun r : runs(analysisId)) {
+            requireEnded(r, "deleted (nor its analysis)");
+        }
+        discard(analysisFolder(analysisId), "the analysis was not deleted");
+    }
+
+    /**
+     * Deletes a run's folder, through the trash as {@link #deleteAnalysis} does.
+     *
+     * @throws InputException when the run is queued or running
+     */
+    public void deleteRun(String analysisId, String runId) {
+        StoredRun r = run(analysisId, runId).orElseThrow(() -> new IllegalArgumentException("no run " + runId));
+        requireEnded(r, "deleted");
+        discard(runFolder(analysisId, runId), "the run was not deleted");
+    }
+
+    private static void requireEnded(StoredRun r, String what) {
+        if (!r.state().ended()) {
+            throw new InputException("run", "run " + r.id() + " is " + r.state().word() + " and cannot be " + what
+                    + "; cancel it first, or wait until it has ended");
+        }
+    }
+
+    private void discard(Path folder, String notDone) {
+        Path target = trash.resolve(randomLetters(12));
+        try {
+            moveFolder(folder, target);
+        } catch (IOException e) {
+            throw writeFailure(e, notDone);
+        }
+        // gone from the workspace already; what a failure here leaves in the trash goes at the next start
+        deleteQuietly(target);
+    }
+
     /** The plan a run used. */
     public String runPlan(String analysisId, String runId) {
         return readText(runFolder(analysisId, runId).resolve(PLAN))
@@ -333,7 +421,7 @@ public final class Workspace {
             JsonNode n = Json.MAPPER.readTree(text);
             return new StoredAnalysis(id, n.path("title").asString(""), n.path("data_name").asString(""),
                     n.path("rows").asInt(0), n.path("columns").asInt(0), Instant.parse(n.path("created").asString()),
-                    n.path("demo").asBoolean(false));
+                    n.path("demo").asBoolean(false), n.path("archived").asBoolean(false));
         });
     }
 
@@ -347,7 +435,7 @@ public final class Workspace {
         RunState state = readText(folder.resolve(STATUS)).map(RunState::of).orElse(RunState.INTERRUPTED);
         return Optional.of(new StoredRun(runId, analysisId, state, instant(n, "created"), instant(n, "started"),
                 instant(n, "ended"), n.path("specifications").asLong(0), n.path("problem_where").asString(""),
-                n.path("problem").asString("")));
+                n.path("problem").asString(""), n.path("name").asString(""), n.path("archived").asBoolean(false)));
     }
 
     private static Instant instant(JsonNode n, String key) {
@@ -364,6 +452,7 @@ public final class Workspace {
         m.put("columns", a.columns());
         m.put("created", a.created().toString());
         m.put("demo", a.demo());
+        m.put("archived", a.archived());
         return m;
     }
 
@@ -378,6 +467,8 @@ public final class Workspace {
         m.put("specifications", r.specifications());
         m.put("problem_where", r.problemWhere());
         m.put("problem", r.problem());
+        m.put("name", r.name());
+        m.put("archived", r.archived());
         return m;
     }
 

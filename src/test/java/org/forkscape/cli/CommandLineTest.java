@@ -292,8 +292,9 @@ class CommandLineTest {
                 .replace("\"classical\", ", "").replace("[\"z1\", \"z2\"]", "[]"));
         String csv = Files.readString(dir.resolve("wards.csv")).replace(",odd\n", ",even\n");
         Files.writeString(dir.resolve("wards.csv"), csv);
-        refused(run("run", plan.toString(), "--out", out.toString()), "plan.json: no specification could be fitted: the only "
-                + "specification failed with \"one cluster: cluster-robust errors need at least two\"");
+        // refused at the check, before fitting: every specification would fail
+        refused(run("run", plan.toString(), "--out", out.toString()), "plan.json, decisions[3]: every specification is "
+                + "bound to fail: its errors cluster on \"group\", which has a single value in the data");
         try (var files = Files.list(out)) {
             assertEquals(List.of(out.resolve("specifications.csv")), files.toList());
         }

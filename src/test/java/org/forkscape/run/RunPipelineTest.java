@@ -58,8 +58,9 @@ class RunPipelineTest {
             events.add("inference, folder exists: " + Files.exists(folder));
             return new Recorded(folder);
         }, recording(), null);
-        assertEquals(List.of("started FITTING", "ended FITTING", "started INFERENCE", "inference, folder exists: false",
-                "ended INFERENCE", "stage files, summary.json written: true"), events);
+        assertEquals(List.of("started FITTING", "FITTING 4 of 4", "ended FITTING", "started INFERENCE",
+                "inference, folder exists: false", "ended INFERENCE", "started WRITING", "WRITING 4 of 4",
+                "stage files, summary.json written: true", "ended WRITING"), events);
         assertEquals(4, completed.summary().specifications());
         assertEquals(4, completed.summary().fitted());
         assertEquals(text, Files.readString(folder.resolve(RunOutputs.PLAN)));
@@ -96,19 +97,35 @@ class RunPipelineTest {
     }
 
     @Test
-    void aRunThatFitsNothingIsRefusedBeforeTheInferenceStageAndWritesNothing() {
+    void aPlanWhoseEverySpecificationIsBoundToFailIsRefusedBeforeFitting() {
         Path folder = dir.resolve("out");
         String text = PLAN.formatted("\"cluster:one\"");
+        InputException e = assertThrows(InputException.class, () -> new RunPipeline(2).run(plan(text), table(4), text,
+                origin(text), folder, (run, progress, cancel) -> new Recorded(folder), recording(), null));
+        assertEquals("decisions[3]", e.where());
+        assertTrue(e.problem().startsWith("every specification is bound to fail: its errors cluster on \"one\", which "
+                + "has a single value in the data"), e.problem());
+        assertEquals(List.of(), events);
+        assertFalse(Files.exists(folder));
+    }
+
+    @Test
+    void aRunThatFitsNothingIsRefusedBeforeTheInferenceStageAndWritesNothing() {
+        Path folder = dir.resolve("out");
+        // a keep rule that leaves at most a row or two: the check cannot know, the fit finds out
+        String text = PLAN.formatted("\"classical\"").replace("{\"name\": \"errors\"", "{\"name\": \"rows\", "
+                + "\"kind\": \"sample\", \"alternatives\": [{\"label\": \"few\", \"keep\": \"x > 0.99\"}]}, "
+                + "{\"name\": \"errors\"");
         InputException e = assertThrows(InputException.class, () -> new RunPipeline(2).run(plan(text), table(4), text,
                 origin(text), folder, (run, progress, cancel) -> {
                     events.add("inference");
                     return new Recorded(folder);
                 }, recording(), null));
         assertEquals("", e.where());
-        assertEquals("no specification could be fitted: all 2 failed with \"one cluster: cluster-robust errors need at "
-                + "least two\" (first: outcome = y, key = x, controls = none, errors = cluster:one); nothing was "
-                + "written", e.problem());
-        assertEquals(List.of("started FITTING", "ended FITTING"), events);
+        assertTrue(e.problem().startsWith("no specification could be fitted: all 2 failed with \"too few rows"),
+                e.problem());
+        assertTrue(e.problem().endsWith("; nothing was written"), e.problem());
+        assertEquals(List.of("started FITTING", "FITTING 2 of 2", "ended FITTING"), events);
         assertFalse(Files.exists(folder));
     }
 
@@ -122,7 +139,7 @@ class RunPipelineTest {
                     c.set(true);
                     return new Recorded(folder);
                 }, recording(), cancel));
-        assertEquals(List.of("started FITTING", "ended FITTING", "started INFERENCE", "ended INFERENCE"), events);
+        assertEquals(List.of("started FITTING", "FITTING 2 of 2", "ended FITTING", "started INFERENCE", "ended INFERENCE"), events);
         assertFalse(Files.exists(folder));
     }
 
@@ -144,7 +161,12 @@ class RunPipelineTest {
             @Override
             public RunProgress started(Stage stage) {
                 events.add("started " + stage);
-                return RunProgress.SILENT;
+                // the last report of each stage that counts: every specification fitted, every row written
+                return (done, total) -> {
+                    if (done == total) {
+                        events.add(stage + " " + done + " of " + total);
+                    }
+                };
             }
 
             @Override

@@ -2,6 +2,7 @@ package org.forkscape.web;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -18,6 +19,7 @@ import java.nio.file.Path;
 import java.time.Duration;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Map;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import org.junit.jupiter.api.AfterAll;
@@ -225,18 +227,50 @@ class ExplorerBrowserTest {
         Thread.sleep(300);
         BrowserDriver.screenshot(driver, "6-filtered-grouped");
 
+        String runId = driver.getCurrentUrl().replaceAll(".*/runs/([^/?]+).*", "$1");
         driver.findElement(By.id("export-csv")).click();
-        Path exported = waitForFile(TEMP.resolve("downloads").resolve("specifications.csv"));
+        Path exported = waitForFile(TEMP.resolve("downloads").resolve("outreach-and-turnout-" + runId
+                + "-specifications.csv"));
         List<String> lines = Files.readAllLines(exported, StandardCharsets.UTF_8);
         assertEquals("spec,outcome,predictor,controls,errors,rows,estimate,std_error,statistic,df,p_value,ci_low,ci_high,std_estimate,"
                 + "effect,effect_std_error,n_obs,n_params,r2,adj_r2,model_p_value,deviance,status", lines.get(0));
         assertEquals(129, lines.size());
         driver.findElement(By.id("export-png")).click();
-        Path png = waitForSuffix(".png");
+        Path png = waitForFile(TEMP.resolve("downloads").resolve("outreach-and-turnout-" + runId + "-curve.png"));
         byte[] head = Arrays.copyOf(Files.readAllBytes(png), 8);
         assertArrayEquals(new byte[] {(byte) 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n'}, head);
         Files.copy(png, Path.of("target", "screenshots", "7-exported-figure.png"),
                 java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+        // the figure says what it shows and where it comes from, drawn and in the file's text chunks
+        Map<String, String> text = pngText(png);
+        assertEquals("Outreach and turnout", text.get("Title"));
+        assertEquals("Forkscape " + org.forkscape.Version.current(), text.get("Software"));
+        assertEquals(List.of("Showing 64 of 128 specifications; filter: specifications with outcome = turnout change "
+                + "left out", "Order: grouped by errors, by estimate within each group",
+                "Scale: standardized coefficient; vertical axis: standard deviations of outcome per standard deviation "
+                + "of predictor; bars: 95% confidence intervals",
+                "Run " + runId + " of the analysis \"Outreach and turnout\"; Forkscape " + org.forkscape.Version.current()),
+                List.of(text.get("Description").split("\n")));
+    }
+
+    /** The tEXt chunks of a PNG, keyword to text, as the JDK's PNG reader gives them. */
+    private static Map<String, String> pngText(Path png) throws IOException {
+        Map<String, String> text = new java.util.LinkedHashMap<>();
+        try (var in = javax.imageio.ImageIO.createImageInputStream(png.toFile())) {
+            javax.imageio.ImageReader reader = javax.imageio.ImageIO.getImageReadersByFormatName("png").next();
+            reader.setInput(in);
+            org.w3c.dom.Node root = reader.getImageMetadata(0).getAsTree("javax_imageio_png_1.0");
+            for (org.w3c.dom.Node n = root.getFirstChild(); n != null; n = n.getNextSibling()) {
+                if (n.getNodeName().equals("tEXt")) {
+                    for (org.w3c.dom.Node e = n.getFirstChild(); e != null; e = e.getNextSibling()) {
+                        text.put(e.getAttributes().getNamedItem("keyword").getNodeValue(),
+                                e.getAttributes().getNamedItem("value").getNodeValue());
+                    }
+                }
+            }
+            reader.dispose();
+        }
+        return text;
     }
 
     @Test
@@ -259,6 +293,11 @@ class ExplorerBrowserTest {
         new Select(driver.findElement(By.id("scale"))).selectByValue("partial");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
+        // no null draws: the way to adjust the smallest p names the plan page's field, not a command-line option
+        String wholeRun = driver.findElement(By.id("whole-run-cards")).getText();
+        assertTrue(wholeRun.contains("none: ask for null draws (\"Null draws for joint inference\" on the plan page)"),
+                wholeRun);
+        assertFalse(wholeRun.contains("--null-draws"), wholeRun);
         // coloured by a decision in the reduced drawing: each column's median line takes its most used alternative
         new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("fixed effects");
         assertEquals(List.of("none", "region"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
@@ -557,7 +596,8 @@ class ExplorerBrowserTest {
     }
 
     private static Path waitForFile(Path file) throws InterruptedException {
-        for (int i = 0; i < 200 && !Files.isRegularFile(file); i++) {
+        // the browser may create the file before it has written it: wait for its content too
+        for (int i = 0; i < 200 && !(Files.isRegularFile(file) && file.toFile().length() > 0); i++) {
             Thread.sleep(100);
         }
         assertTrue(Files.isRegularFile(file), "no download " + file);

@@ -89,6 +89,30 @@ public class AnalysisService {
         return budget;
     }
 
+    /**
+     * Gives an analysis a new title (cleaned as an upload's is) and archive mark.
+     *
+     * @throws org.forkscape.InputException at {@code title} when nothing is left of the title
+     */
+    public StoredAnalysis relabel(StoredAnalysis analysis, String title, boolean archived) {
+        return workspace.updateAnalysis(analysis.labelled(clean(title == null ? "" : title, MAX_TITLE), archived));
+    }
+
+    /**
+     * Deletes an analysis with its runs ({@link Workspace#deleteAnalysis}) and forgets its table.
+     *
+     * @throws org.forkscape.InputException when one of its runs is queued or running
+     */
+    public void delete(StoredAnalysis analysis) {
+        workspace.deleteAnalysis(analysis.id());
+        tables.invalidate(analysis.id());
+    }
+
+    /** Cleans a run's name as a title is cleaned. */
+    public static String runName(String name) {
+        return clean(name == null ? "" : name, MAX_TITLE);
+    }
+
     public List<StoredAnalysis> all() {
         return workspace.analyses();
     }

@@ -40,6 +40,7 @@ class HomeController {
     @GetMapping("/")
     String home(Model model) {
         model.addAttribute("cards", cards());
+        model.addAttribute("archived", archived());
         return HOME;
     }
 
@@ -77,12 +78,20 @@ class HomeController {
         ModelAndView page = new ModelAndView(HOME);
         page.setStatus(status);
         page.addObject("cards", cards());
+        page.addObject("archived", archived());
         page.addObject("uploadProblem", problem);
         page.addObject("uploadTitle", title);
         return page;
     }
 
+    /** The analyses in use, with their runs (archived runs are left out of the cards' tables). */
     private List<AnalysisCard> cards() {
-        return analyses.all().stream().map(a -> new AnalysisCard(a, workspace.runs(a.id()))).toList();
+        return analyses.all().stream().filter(a -> !a.archived())
+                .map(a -> new AnalysisCard(a, workspace.runs(a.id()))).toList();
+    }
+
+    /** The archived analyses, listed apart. */
+    private List<StoredAnalysis> archived() {
+        return analyses.all().stream().filter(StoredAnalysis::archived).toList();
     }
 }

@@ -18,6 +18,7 @@ import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.analysis.AnalysisService;
+import org.forkscape.web.system.FormFields;
 import org.forkscape.web.system.ServerLimits;
 import org.springframework.stereotype.Service;
 
@@ -94,7 +95,7 @@ public class PlanService {
         }
         Table table = analyses.table(analysis);
         PlanChecker.check(plan, table);
-        MultiverseRunner.checkCount(plan);
+        MultiverseRunner.checkCount(plan, FormFields.SETTINGS);
         limits.check(plan, table);
         SpecificationModels models = new SpecificationModels(plan, table);
         long columns = models.layout().size();

@@ -5,6 +5,7 @@ import java.nio.file.Path;
 import java.util.List;
 import java.util.Map;
 import org.forkscape.InputException;
+import org.forkscape.Version;
 import org.forkscape.infer.NullDrawsCsv;
 import org.forkscape.infer.OverfittingCsv;
 import org.forkscape.run.RunOutputs;
@@ -87,6 +88,8 @@ class RunController {
         if (r.state() == RunState.FINISHED) {
             Path folder = workspace.runFolder(a.id(), r.id());
             model.addAttribute("moreFiles", MORE_FILES.stream().filter(f -> Files.isRegularFile(folder.resolve(f))).toList());
+            model.addAttribute("downloadPrefix", DownloadNames.prefix(a, r));
+            model.addAttribute("version", Version.current());
             return EXPLORE;
         }
         model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());
@@ -121,7 +124,8 @@ class RunController {
                     + String.join(", ", FILES.keySet().stream().sorted().toList()) + " (once written)");
         }
         return ResponseEntity.ok().contentType(type)
-                .header(HttpHeaders.CONTENT_DISPOSITION, ContentDisposition.attachment().filename(name).build().toString())
+                .header(HttpHeaders.CONTENT_DISPOSITION, ContentDisposition.attachment()
+                        .filename(DownloadNames.of(a, r, name)).build().toString())
                 .body(new FileSystemResource(file));
     }
 }

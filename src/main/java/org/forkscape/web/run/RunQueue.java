@@ -43,6 +43,7 @@ import org.forkscape.web.analysis.AnalysisService;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.ForkscapeSettings;
 import org.forkscape.web.system.MemoryBudget;
+import org.forkscape.web.system.FormFields;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.springframework.context.ApplicationEventPublisher;
@@ -82,7 +83,7 @@ public class RunQueue {
         this.sections = sections;
         this.events = events;
         this.threads = settings.runs().fittingThreads();
-        this.pipeline = new RunPipeline(threads);
+        this.pipeline = new RunPipeline(threads).naming(FormFields.SETTINGS);
         this.capacity = Math.max(0, settings.runs().queue());
         int concurrent = Math.max(1, settings.runs().concurrent());
         this.executor = new ThreadPoolExecutor(concurrent, concurrent, 0, TimeUnit.MILLISECONDS,
@@ -129,7 +130,7 @@ public class RunQueue {
             return Optional.of(job.status());
         }
         return workspace.run(analysisId, runId).map(r -> RunStatus.of(r, "", r.state() == RunState.FINISHED
-                ? r.specifications() : 0, r.specifications(), 0, 0, seconds(r.started(), r.ended()), null, 0));
+                ? r.specifications() : 0, r.specifications(), 0, 0, 0, 0, seconds(r.started(), r.ended()), null, 0));
     }
 
     /** Asks a queued or running run to stop; an ended run is left as it is. */
@@ -174,7 +175,11 @@ public class RunQueue {
         private final AtomicLong drawsDone = new AtomicLong();
         private final AtomicLong drawsTotal = new AtomicLong();
         private final long total;
-        private volatile String phase = "fitting";
+        private volatile String phase = RunStatus.FITTING;
+        /** The current phase's work done and its total (specifications, null draws, rows written). */
+        private final AtomicLong phaseDone = new AtomicLong();
+        private final AtomicLong phaseTotal = new AtomicLong();
+        private volatile long phaseStart = System.nanoTime();
         private volatile StoredRun record;
         private volatile RunState stopAs = RunState.CANCELLED;
         /** The end is known here but could not be written: the job stays listed so that its status tells it. */
@@ -190,10 +195,13 @@ public class RunQueue {
         RunStatus status() {
             StoredRun r = record;
             double elapsed = seconds(r.started(), null);
-            long d = done.get();
-            Double remaining = r.started() != null && d > 0 && d < total ? elapsed * (total - d) / d : null;
-            return RunStatus.of(r, phase, d, total, drawsDone.get(), drawsTotal.get(), elapsed, remaining,
-                    position(r.id()));
+            long d = phaseDone.get();
+            long t = phaseTotal.get();
+            double inPhase = (System.nanoTime() - phaseStart) / 1e9;
+            // the pace of the current phase only: each phase has its own unit and speed
+            Double remaining = r.started() != null && d > 0 && d < t ? inPhase * (t - d) / d : null;
+            return RunStatus.of(r, r.state().ended() ? "" : phase, done.get(), total, drawsDone.get(), drawsTotal.get(), d, t, elapsed,
+                    remaining, position(r.id()));
         }
 
         void cancel() {
@@ -268,7 +276,7 @@ public class RunQueue {
                 end(RunState.FAILED, e.where(), e.problem(), "failed: " + e.getMessage());
             } catch (OutOfMemoryError e) {
                 end(RunState.FAILED, "", "the server ran out of memory for this run; fit a random sample of the "
-                        + "specifications (plan keys \"sample\" and \"seed\") or give the server more memory",
+                        + "specifications (" + FormFields.SAMPLE + ") or give the server more memory",
                         "failed: out of memory");
             } catch (RuntimeException e) {
                 LOG.error("run {} of analysis {} failed", record.id(), analysis.id(), e);
@@ -320,21 +328,39 @@ public class RunQueue {
             }
         }
 
-        /** Counts the fit's and the null draws' progress for the status, and records the null draws' start. */
+        /**
+         * Counts each stage's progress for the status (fitting, inference with its null draws, writing the
+         * files), and records the start of the later stages in the run's log.
+         */
         private StageListener stages(Plan plan) {
             return new StageListener() {
                 @Override
                 public RunProgress started(Stage stage) {
-                    if (stage == Stage.FITTING) {
-                        return (d, t) -> done.set(d);
-                    }
-                    if (plan.nullDraws() > 0) {
-                        phase = "null draws";
-                        workspace.log(record, String.format("null draws: %,d", plan.nullDraws()));
+                    phaseDone.set(0);
+                    // the null draws are known from the plan before the first is made
+                    phaseTotal.set(stage == Stage.FITTING ? total : stage == Stage.INFERENCE ? plan.nullDraws() : 0);
+                    phaseStart = System.nanoTime();
+                    switch (stage) {
+                        case FITTING -> phase = RunStatus.FITTING;
+                        case INFERENCE -> {
+                            phase = RunStatus.INFERENCE;
+                            workspace.log(record, plan.nullDraws() > 0
+                                    ? String.format("inference: %,d null draws", plan.nullDraws()) : "inference");
+                        }
+                        case WRITING -> {
+                            phase = RunStatus.WRITING;
+                            workspace.log(record, "writing files");
+                        }
                     }
                     return (d, t) -> {
-                        drawsDone.set(d);
-                        drawsTotal.set(t);
+                        phaseDone.set(d);
+                        phaseTotal.set(t);
+                        if (stage == Stage.FITTING) {
+                            done.set(d);
+                        } else if (stage == Stage.INFERENCE) {
+                            drawsDone.set(d);
+                            drawsTotal.set(t);
+                        }
                     };
                 }
 

@@ -49,7 +49,7 @@ public record ServerLimits(long maxSpecifications, int maxNullDraws, long maxMem
         if (plan.sampleSize() <= 0 && all > maxSpecifications) {
             throw new PlanException("decisions", String.format("the plan has %,d specifications, above this server's "
                     + "limit of %,d per run (setting forkscape.runs.max-specifications); fit a seeded random sample "
-                    + "instead (plan keys \"sample\" and \"seed\")", all, maxSpecifications));
+                    + "instead (%s)", all, maxSpecifications, FormFields.SAMPLE));
         }
         if (plan.nullDraws() > maxNullDraws) {
             throw new PlanException("nullDraws", String.format("%,d null draws are above this server's limit of %,d "
@@ -57,7 +57,7 @@ public record ServerLimits(long maxSpecifications, int maxNullDraws, long maxMem
         }
         NullDrawSettings.of(plan).check(Integer.MAX_VALUE, "nullDraws", "nullCluster");
         MemoryEstimate.of(plan, table, threads).refuseAbove(maxMemory, "fit a seeded random sample of the "
-                + "specifications (plan keys \"sample\" and \"seed\"), or have this server's limit raised (setting "
+                + "specifications (" + FormFields.SAMPLE + "), or have this server's limit raised (setting "
                 + "forkscape.runs.max-memory, and its Java heap with -Xmx)");
     }
 }

@@ -78,10 +78,13 @@ class RunControllersTest extends WebTest {
         mvc.perform(get("/analyses/" + analysis + "/runs/" + run)).andExpect(status().isOk())
                 .andExpect(view().name("explore/explore"))
                 .andExpect(content().string(containsString("A robust curve is not evidence of a causal effect")))
-                .andExpect(content().string(matchesPattern("(?s).*src=\"/webjars/chart.js/[0-9.]+/dist/chart.umd.js\".*")));
+                .andExpect(content().string(matchesPattern("(?s).*src=\"/webjars/chart.js/[0-9.]+/dist/chart.umd.js\".*")))
+                // downloads are saved under names that carry the analysis and the run
+                .andExpect(content().string(matchesPattern("(?s).*id=\"export-csv\" href=\"[^\"]+\" download=\"runs(-csv)?-" + run
+                        + "-specifications.csv\".*")));
         mvc.perform(get("/analyses/" + analysis + "/runs/" + run + "/files/specifications.csv"))
                 .andExpect(status().isOk()).andExpect(header().string("Content-Disposition",
-                        "attachment; filename=\"specifications.csv\""))
+                        matchesPattern("attachment; filename=\"runs(-csv)?-" + run + "-specifications.csv\"")))
                 .andExpect(content().string(startsWith("spec,outcome,outreach,controls,rows,errors,fixed effects,estimate")));
         mvc.perform(get("/analyses/" + analysis + "/runs/" + run + "/files/summary.json")).andExpect(status().isOk())
                 .andExpect(jsonPath("$.specifications").value(576));

@@ -74,6 +74,11 @@ class RunQueueTest {
     void runsWaitInOrderAndCancellingStopsThemWithoutResults() throws Exception {
         StoredRun first = queue.submit(analysis, CivicTestData.plan());
         assertTrue(inSections.await(30, TimeUnit.SECONDS));
+        // past the fit, the status names the phase under way, with its own (here empty) count
+        RunStatus inferring = queue.status(analysis.id(), first.id()).orElseThrow();
+        assertEquals(RunStatus.INFERENCE, inferring.phase());
+        assertEquals(inferring.total(), inferring.done());
+        assertEquals(0, inferring.phaseTotal());
         StoredRun second = queue.submit(analysis, CivicTestData.plan());
         RunStatus waiting = queue.status(analysis.id(), second.id()).orElseThrow();
         assertEquals("queued", waiting.state());

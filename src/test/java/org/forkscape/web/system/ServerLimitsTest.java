@@ -93,7 +93,16 @@ class ServerLimitsTest {
         String plan = CivicTestData.plan(4).replace("\"seed\": 7,", "\"seed\": 7, \"maxSpecifications\": 5000000,");
         check(plan).andExpect(jsonPath("$.valid").value(false)).andExpect(jsonPath("$.where").value("decisions"))
                 .andExpect(jsonPath("$.message").value(startsWith("the plan has 1,152 specifications, above this "
-                        + "server's limit of 600 per run (setting forkscape.runs.max-specifications)")));
+                        + "server's limit of 600 per run (setting forkscape.runs.max-specifications); fit a seeded "
+                        + "random sample instead (the plan page's fields \"Fit a random sample of\" and \"Seed\"")))
+                .andExpect(jsonPath("$.message").value(not(containsString("--"))));
+        // the plan's own cap: the way out names the form's fields, never the batch command's options
+        check(CivicTestData.plan(4).replace("\"seed\": 7,", "\"seed\": 7, \"maxSpecifications\": 100,"))
+                .andExpect(jsonPath("$.where").value("decisions"))
+                .andExpect(jsonPath("$.message").value("the plan has 1,152 specifications, above the cap of 100; fit a "
+                        + "seeded random sample instead with the plan page's fields \"Fit a random sample of\" and "
+                        + "\"Seed\" (under \"How the run is made\"), or raise the cap with the plan page's field "
+                        + "\"Largest number of specifications\""));
         startRun(plan).andExpect(status().isBadRequest()).andExpect(jsonPath("$.where").value("decisions"));
         String sampled = plan.replace("\"seed\": 7,", "\"seed\": 7, \"sample\": 700,");
         check(sampled).andExpect(jsonPath("$.where").value("sample"))

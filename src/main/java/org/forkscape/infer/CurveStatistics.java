@@ -29,10 +29,24 @@ public record CurveStatistics(int fitted, double median, int dominantSign, int s
      */
     public static CurveStatistics of(double[] estimate, double[] stdError, double[] df, int n, double alpha,
             double[] scratch) {
+        return of(estimate, estimate, stdError, df, n, alpha, scratch);
+    }
+
+    /**
+     * As {@link #of(double[], double[], double[], double[], int, double, double[])}, with the median and the
+     * dominant sign read off {@code value}: each specification's estimate on another scale (its t statistic,
+     * its partial correlation), which has the sign of its estimate, so that significance in the dominant sign
+     * and the normal scores are the same as on the scale as fitted.
+     *
+     * @param value   the first {@code n} entries are read
+     * @param scratch at least {@code n} long; holds the first {@code n} values sorted on return
+     */
+    public static CurveStatistics of(double[] value, double[] estimate, double[] stdError, double[] df, int n,
+            double alpha, double[] scratch) {
         if (n == 0) {
             return new CurveStatistics(0, Double.NaN, 1, 0, Double.NaN, Double.NaN, Double.NaN);
         }
-        System.arraycopy(estimate, 0, scratch, 0, n);
+        System.arraycopy(value, 0, scratch, 0, n);
         Arrays.sort(scratch, 0, n);
         double median = median(scratch, n);
         int sign = median >= 0 ? 1 : -1;

@@ -80,8 +80,11 @@ public final class NullDraws {
         for (int i = 0; i < size; i++) {
             everySpec[i] = i;
         }
+        double[] observedP = new double[size];
+        double[] observedZ = new double[size];
+        CurveStatistics.score(observedEstimate, observedError, observedDf, size, observedP, observedZ);
         ScaleCurves.DrawCurve[] observedCurves = curves.evaluate(observedEstimate, observedError, observedDf,
-                everySpec, size, alpha, new ScaleCurves.Workspace(curves, size));
+                observedP, observedZ, everySpec, size, alpha, new ScaleCurves.Workspace(curves, size));
 
         int draws = settings.draws();
         SplittableRandom[] streams = DrawStreams.of(settings.seed(), draws);
@@ -108,6 +111,8 @@ public final class NullDraws {
                     double[] error = new double[size];
                     double[] df = new double[size];
                     double[] scratch = new double[size];
+                    double[] p = new double[size];
+                    double[] z = new double[size];
                     int[] spec = new int[size];
                     ScaleCurves.Workspace curveWork = new ScaleCurves.Workspace(curves, size);
                     int[] weights = new int[design.rows()];
@@ -154,8 +159,10 @@ public final class NullDraws {
                                 m++;
                             }
                         }
-                        out[d] = CurveStatistics.of(estimate, error, df, m, alpha, scratch);
-                        outCurves[d] = curves.evaluate(estimate, error, df, spec, m, alpha, curveWork);
+                        // each specification's p and normal score once, for the whole curve and every other
+                        CurveStatistics.score(estimate, error, df, m, p, z);
+                        out[d] = CurveStatistics.ofScored(estimate, estimate, p, z, m, alpha, scratch);
+                        outCurves[d] = curves.evaluate(estimate, error, df, p, z, spec, m, alpha, curveWork);
                         failed.addAndGet(failures);
                         progress.update(done.incrementAndGet(), draws);
                     }

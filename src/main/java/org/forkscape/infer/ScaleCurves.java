@@ -107,8 +107,8 @@ final class ScaleCurves {
     static final class Workspace {
         private final double[] value;
         private final double[] estimate;
-        private final double[] error;
-        private final double[] df;
+        private final double[] p;
+        private final double[] z;
         private final double[] sorted;
         private final int[] order;
         private final int[] start;
@@ -116,8 +116,8 @@ final class ScaleCurves {
         Workspace(ScaleCurves curves, int size) {
             value = new double[size];
             estimate = new double[size];
-            error = new double[size];
-            df = new double[size];
+            p = new double[size];
+            z = new double[size];
             sorted = new double[size];
             order = new int[size];
             start = new int[curves.curves.size() + 1];
@@ -131,11 +131,13 @@ final class ScaleCurves {
      *                 bootstrap draw, centred on the observed ones), in the fixed order of the specifications
      * @param error    their standard errors
      * @param df       their degrees of freedom (infinite on a standard normal reference)
+     * @param p        their two-sided p-values ({@link CurveStatistics#score})
+     * @param z        their signed normal scores (likewise)
      * @param spec     their indices in the {@link RunVariants}
      * @param w        overwritten
      */
-    DrawCurve[] evaluate(double[] estimate, double[] error, double[] df, int[] spec, int m, double alpha,
-            Workspace w) {
+    DrawCurve[] evaluate(double[] estimate, double[] error, double[] df, double[] p, double[] z, int[] spec, int m,
+            double alpha, Workspace w) {
         DrawCurve[] out = new DrawCurve[curves.size()];
         // the group curves: a stable counting sort of the entries by curve, then each curve's run in turn
         int groupsCurves = groupCurves;
@@ -155,11 +157,11 @@ final class ScaleCurves {
             for (int k = w.start[c]; k < w.start[c + 1]; k++) {
                 int j = w.order[k];
                 w.estimate[n] = estimate[j];
-                w.error[n] = error[j];
-                w.df[n] = df[j];
+                w.p[n] = p[j];
+                w.z[n] = z[j];
                 n++;
             }
-            out[c] = curve(c, w.estimate, w.estimate, w.error, w.df, n, alpha, w);
+            out[c] = curve(c, w.estimate, w.estimate, n, alpha, w);
         }
         for (int c = groupsCurves; c < curves.size(); c++) {
             boolean partial = curves.get(c).scale() == Scale.PARTIAL_CORRELATION;
@@ -171,18 +173,17 @@ final class ScaleCurves {
                 double t = estimate[j] / error[j];
                 w.value[n] = partial ? Scale.partialCorrelation(t, df[j]) : t;
                 w.estimate[n] = estimate[j];
-                w.error[n] = error[j];
-                w.df[n] = df[j];
+                w.p[n] = p[j];
+                w.z[n] = z[j];
                 n++;
             }
-            out[c] = curve(c, w.value, w.estimate, w.error, w.df, n, alpha, w);
+            out[c] = curve(c, w.value, w.estimate, n, alpha, w);
         }
         return out;
     }
 
-    private DrawCurve curve(int c, double[] value, double[] estimate, double[] error, double[] df, int n,
-            double alpha, Workspace w) {
-        CurveStatistics stats = CurveStatistics.of(value, estimate, error, df, n, alpha, w.sorted);
+    private DrawCurve curve(int c, double[] value, double[] estimate, int n, double alpha, Workspace w) {
+        CurveStatistics stats = CurveStatistics.ofScored(value, estimate, w.p, w.z, n, alpha, w.sorted);
         Curve curve = curves.get(c);
         int[] ranks = curve.ranks();
         double[] at = new double[ranks.length];

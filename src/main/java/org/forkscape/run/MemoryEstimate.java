@@ -65,10 +65,10 @@ public final class MemoryEstimate {
     /** Per null-draw worker and data row: its weights, unit draws and order. */
     private static final long DRAW_ROW_BYTES = 12;
     /**
-     * Per null-draw worker and fitted specification, the curves' arrays: values, estimates, errors, df, sorted
-     * values (doubles) and the curve order (an int).
+     * Per null-draw worker and fitted specification, the curves' arrays: p-values and normal scores, and the
+     * curves' values, estimates, p-values, normal scores and sorted values (doubles) and the curve order (an int).
      */
-    private static final long DRAW_CURVE_WORKER_BYTES = 44;
+    private static final long DRAW_CURVE_WORKER_BYTES = 60;
     /**
      * Per draw and curve (infer.ScaleCurves), besides its values at the kept ranks: the curve's record, its
      * statistics record and the array's header.

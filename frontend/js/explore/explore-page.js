@@ -173,8 +173,10 @@ function nullBand(view) {
   const curve = shownCurve(view);
   const env = curve && curve.null ? curve.null.envelope : null;
   if (!env || !Array.isArray(env.ranks)) {
-    return { band: null, reason: scale === 'fitted' || scale === 't' || scale === 'partial' ? 'no draws on this curve'
-      : `the null draws re-estimate coefficients and standard errors only, not the ${scaleName()}` };
+    const stored = state.layout.summary.by_scale && typeof state.layout.summary.by_scale === 'object';
+    return { band: null, reason: !stored ? 'the run was made before the band was kept rank by rank; run it again to see it'
+      : scale === 'fitted' || scale === 't' || scale === 'partial' ? 'no draws on this curve'
+        : `the null draws re-estimate coefficients and standard errors only, not the ${scaleName()}` };
   }
   if (sort !== 'estimate') return { band: null, reason: 'the curve is grouped by a decision, not ordered by estimate alone' };
   if (view.summary.count !== env.specifications) {

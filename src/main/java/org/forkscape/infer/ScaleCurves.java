@@ -20,7 +20,9 @@ import org.forkscape.run.UnitGroups;
  * storage stays bounded for any number of specifications. A draw in which some specifications of a curve
  * could not be fitted has fewer values; its value at rank r of n is then its type-7 quantile at r / (n - 1)
  * (Hyndman &amp; Fan 1996, "Sample quantiles in statistical packages", The American Statistician 50(4)),
- * which is exactly its r-th sorted value when it has all n.
+ * which is exactly its r-th sorted value when it has all n. The band of the null curves, rank by rank, is the
+ * way the observed curve is read against its null draws in Simonsohn, Simmons &amp; Nelson (2020,
+ * "Specification curve analysis", Nature Human Behaviour 4, 1208-1214).
  */
 final class ScaleCurves {
     /** Rank positions kept per curve and draw at most. */
@@ -120,7 +122,7 @@ final class ScaleCurves {
             z = new double[size];
             sorted = new double[size];
             order = new int[size];
-            start = new int[curves.curves.size() + 1];
+            start = new int[curves.groupCurves + 1];
         }
     }
 
@@ -140,19 +142,18 @@ final class ScaleCurves {
             double alpha, Workspace w) {
         DrawCurve[] out = new DrawCurve[curves.size()];
         // the group curves: a stable counting sort of the entries by curve, then each curve's run in turn
-        int groupsCurves = groupCurves;
         Arrays.fill(w.start, 0);
         for (int j = 0; j < m; j++) {
             w.start[curveOfGroupSpec[spec[j]] + 1]++;
         }
-        for (int c = 0; c < groupsCurves; c++) {
+        for (int c = 0; c < groupCurves; c++) {
             w.start[c + 1] += w.start[c];
         }
         int[] next = w.start.clone();
         for (int j = 0; j < m; j++) {
             w.order[next[curveOfGroupSpec[spec[j]]]++] = j;
         }
-        for (int c = 0; c < groupsCurves; c++) {
+        for (int c = 0; c < groupCurves; c++) {
             int n = 0;
             for (int k = w.start[c]; k < w.start[c + 1]; k++) {
                 int j = w.order[k];
@@ -163,7 +164,7 @@ final class ScaleCurves {
             }
             out[c] = curve(c, w.estimate, w.estimate, n, alpha, w);
         }
-        for (int c = groupsCurves; c < curves.size(); c++) {
+        for (int c = groupCurves; c < curves.size(); c++) {
             boolean partial = curves.get(c).scale() == Scale.PARTIAL_CORRELATION;
             int n = 0;
             for (int j = 0; j < m; j++) {

@@ -456,6 +456,11 @@ class ExplorerBrowserTest {
         driver.findElement(By.cssSelector("#more-sections summary")).click();
         assertTrue(driver.findElement(By.id("null-quantiles")).getText().contains("median estimate"));
         assertTrue(driver.findElement(By.id("group-weights")).getText().contains("turnout on hours"));
+        // per comparable group and unit-free scale, the draws' tests on that curve alone
+        List<String> curves = driver.findElements(By.cssSelector("#by-scale tbody th")).stream().map(WebElement::getText)
+                .toList();
+        assertEquals(List.of("turnout on hours", "standardized coefficient, every specification with one",
+                "partial correlation, every specification with one", "t statistic, every specification with one"), curves);
         JsonNode summary = Json.MAPPER.readTree(HttpClient.newHttpClient().send(HttpRequest.newBuilder(
                 URI.create(base() + "/analyses/" + id + "/runs/" + runId + "/files/summary.json")).build(),
                 HttpResponse.BodyHandlers.ofString()).body());

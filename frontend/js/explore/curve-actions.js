@@ -16,8 +16,8 @@ export function showSet(chart, state, xTitle, yTitle, withIntervals) {
   chart.canvas.setAttribute('aria-label', `Each specification's key estimate, ordered; vertical axis: ${yTitle}`);
   // suggested, not fixed: Chart.js then rounds the range out to tidy ticks
   const band = state.nullBand;
-  chart.options.scales.y.suggestedMin = band ? Math.min(shaped.yRange.min, band.low) : shaped.yRange.min;
-  chart.options.scales.y.suggestedMax = band ? Math.max(shaped.yRange.max, band.high) : shaped.yRange.max;
+  chart.options.scales.y.suggestedMin = band ? Math.min(shaped.yRange.min, band.min) : shaped.yRange.min;
+  chart.options.scales.y.suggestedMax = band ? Math.max(shaped.yRange.max, band.max) : shaped.yRange.max;
   chart.update('none');
 }
 

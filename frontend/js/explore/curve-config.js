@@ -80,34 +80,46 @@ function referencePlugin(state) {
   };
 }
 
-/** The null draws' band (state.nullBand), under everything else; the canvas records whether it was drawn. */
+/**
+ * The null band (state.nullBand), under everything else: at each kept rank position of the sorted curve, from
+ * the 2.5% to the 97.5% quantile over the null draws of their sorted estimates at that rank, joined from rank to
+ * rank into one shaded region with dotted edges. The canvas records whether it was drawn, at how many ranks, and the
+ * values it joined.
+ */
 function nullBandPlugin(state) {
   return {
     id: 'nullBand',
     beforeDatasetsDraw(chart) {
       const band = state.nullBand;
       chart.canvas.dataset.nullBand = band ? 'drawn' : 'none';
+      chart.canvas.dataset.nullBandRanks = band ? String(band.ranks.length) : '0';
+      chart.canvas.dataset.nullBandValues = band ? JSON.stringify({ ranks: band.ranks, low: band.low, high: band.high })
+        : '';
       if (!band) return;
       const { ctx, chartArea, scales } = chart;
-      const top = Math.max(chartArea.top, scales.y.getPixelForValue(band.high));
-      const bottom = Math.min(chartArea.bottom, scales.y.getPixelForValue(band.low));
-      if (bottom <= top) return;
+      const n = band.ranks.length;
+      // one rank alone is drawn as wide as its position
+      const xs = n === 1 ? [band.ranks[0] - 0.5, band.ranks[0] + 0.5] : band.ranks;
+      const at = (k) => (n === 1 ? 0 : k);
+      const x = (k) => scales.x.getPixelForValue(xs[k]);
+      const y = (v) => Math.min(chartArea.bottom, Math.max(chartArea.top, scales.y.getPixelForValue(v)));
       ctx.save();
+      ctx.beginPath();
+      ctx.rect(chartArea.left, chartArea.top, chartArea.right - chartArea.left, chartArea.bottom - chartArea.top);
+      ctx.clip();
+      ctx.beginPath();
+      for (let k = 0; k < xs.length; k++) ctx[k === 0 ? 'moveTo' : 'lineTo'](x(k), y(band.high[at(k)]));
+      for (let k = xs.length - 1; k >= 0; k--) ctx.lineTo(x(k), y(band.low[at(k)]));
+      ctx.closePath();
       ctx.fillStyle = PALETTE.nullBand;
-      ctx.fillRect(chartArea.left, top, chartArea.right - chartArea.left, bottom - top);
+      ctx.fill();
       ctx.strokeStyle = PALETTE.nullLine;
       ctx.setLineDash([1, 3]);
-      ctx.beginPath();
-      ctx.moveTo(chartArea.left, top);
-      ctx.lineTo(chartArea.right, top);
-      ctx.moveTo(chartArea.left, bottom);
-      ctx.lineTo(chartArea.right, bottom);
-      ctx.stroke();
-      ctx.fillStyle = PALETTE.nullLine;
-      ctx.font = `12px ${chart.options.font?.family || 'sans-serif'}`;
-      ctx.textAlign = 'right';
-      ctx.textBaseline = 'bottom';
-      ctx.fillText('null draws, middle 95% of medians', chartArea.right - 6, top - 2);
+      for (const edge of [band.high, band.low]) {
+        ctx.beginPath();
+        for (let k = 0; k < xs.length; k++) ctx[k === 0 ? 'moveTo' : 'lineTo'](x(k), y(edge[at(k)]));
+        ctx.stroke();
+      }
       ctx.restore();
     },
   };

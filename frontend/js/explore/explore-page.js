@@ -126,9 +126,11 @@ async function refresh() {
   noDetails();
   const ordered = orderWords();
   const interval = scaleInfo().interval;
-  state.nullBand = nullBand();
+  const { band, reason } = nullBand(view);
+  state.nullBand = band;
   legend();
-  nullOverlay();
+  nullOverlay(view, reason);
+  curveInference(view);
   showSet(curveChart, state, `Specifications, ${ordered}`, view.unit, interval);
   showGrid(gridChart, state);
   showInfluence(influenceChart, document.querySelector('.influence-box'), influenceState, view.influence, view.unit);
@@ -144,36 +146,82 @@ async function refresh() {
 }
 
 /**
- * The null draws' band: where the middle 95% (2.5% to 97.5%) of the null draws' median estimates lie,
- * from summary.json. The draws pool every specification's estimate as fitted, so the band is drawn only
- * on that scale and when the run has a single comparable group (one set of units); null otherwise.
+ * The null draws of the curve shown, from summary.json's by_scale: as fitted, its comparable group's (one
+ * outcome, key-predictor coding and model: one set of units); on the t and partial-correlation scales, those of
+ * every specification on that scale. Null when the run has no draws on this curve (or predates by_scale).
  */
-function nullBand() {
-  const nul = state.layout.summary.null;
-  const q = nul && typeof nul === 'object' && nul.null_quantiles ? nul.null_quantiles.median_estimate : null;
-  if (!q || scale !== 'fitted' || state.layout.unitsDiffer) return null;
-  const low = num(q['2.5']);
-  const high = num(q['97.5']);
-  return Number.isFinite(low) && Number.isFinite(high) ? { low, high, median: num(q['50']), draws: nul.draws } : null;
+function shownCurve(view) {
+  const by = state.layout.summary.by_scale;
+  if (!by || typeof by !== 'object') return null;
+  if (scale === 'fitted') {
+    const g = (by.groups || []).find((e) => e.group === view.group);
+    if (!g) return null;
+    const model = g.model ? `, ${g.model}` : '';
+    return { title: `the comparable group ${g.outcome} on ${g.predictor}${model}`, null: g.null || null, best: g.best };
+  }
+  const entry = { t: by.t_statistic, partial: by.partial_correlation }[scale];
+  return entry ? { title: `the ${scaleName()} of every specification with one`, null: entry.null || null, best: null }
+    : null;
 }
 
-/** Above the curve: what the band is, and the three joint tests beside it. */
-function nullOverlay() {
+/**
+ * The null band under the curve: at each kept rank of the shown curve, where the middle 95% (2.5% to 97.5%) of
+ * the null draws' sorted estimates at that rank lie. It belongs to the whole curve of a group or scale, so it is
+ * drawn only when the set shown is that whole curve, ordered by estimate; otherwise `reason` says why not.
+ */
+function nullBand(view) {
+  const curve = shownCurve(view);
+  const env = curve && curve.null ? curve.null.envelope : null;
+  if (!env || !Array.isArray(env.ranks)) {
+    const stored = state.layout.summary.by_scale && typeof state.layout.summary.by_scale === 'object';
+    return { band: null, reason: !stored ? 'the run was made before the band was kept rank by rank; run it again to see it'
+      : scale === 'fitted' || scale === 't' || scale === 'partial' ? 'no draws on this curve'
+        : `the null draws re-estimate coefficients and standard errors only, not the ${scaleName()}` };
+  }
+  if (sort !== 'estimate') return { band: null, reason: 'the curve is grouped by a decision, not ordered by estimate alone' };
+  if (view.summary.count !== env.specifications) {
+    return { band: null, reason: `the filter shows ${count(view.summary.count)} of the curve's `
+      + `${count(env.specifications)} specifications, and the band is of the whole curve` };
+  }
+  const ranks = [];
+  const low = [];
+  const high = [];
+  env.ranks.forEach((r, k) => {
+    if (Number.isFinite(num(env.low[k])) && Number.isFinite(num(env.high[k]))) {
+      ranks.push(r);
+      low.push(num(env.low[k]));
+      high.push(num(env.high[k]));
+    }
+  });
+  if (ranks.length === 0) return { band: null, reason: 'no draw could fit this curve' };
+  return { band: { ranks, low, high, min: Math.min(...low), max: Math.max(...high), draws: curve.null.draws },
+    reason: null };
+}
+
+const TESTS = [['median', 'median estimate'], ['share_significant', 'share significant'],
+  ['stouffer', 'mean z (Stouffer)']];
+
+/** Above the curve: what the band is, and the three joint tests of the curve shown beside it. */
+function nullOverlay(view, reason) {
   const box = clear(document.getElementById('null-overlay'));
   const nul = state.layout.summary.null;
-  const band = state.nullBand;
   box.hidden = !(nul && typeof nul === 'object');
   if (box.hidden) return;
-  const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
-  const results = [['median', 'median estimate'], ['share_significant', 'share significant'],
-    ['stouffer', 'mean z (Stouffer)']].filter(([k]) => tests[k])
+  const curve = shownCurve(view);
+  const own = curve && curve.null;
+  const tests = own ? own.tests : (!state.layout.unitsDiffer && nul.tests) || {};
+  const results = TESTS.filter(([k]) => tests[k])
     .map(([k, label]) => el('li', { id: `null-test-${k}` }, `${label}: ${drawClaim(tests[k].exceedances, tests[k].draws)}`));
+  const band = state.nullBand;
+  const on = own ? `on ${curve.title}` : 'on the whole run';
   append(box,
     el('p', { id: 'null-band-note' }, band
-      ? `Shaded across the curve: the middle 95% of the median estimates of the run's ${count(band.draws)} null draws `
-        + `(${number(band.low)} to ${number(band.high)}), over every specification of the run; joint tests:`
-      : `The run has ${count(nul.draws)} null draws; their band is drawn only as fitted and when the run has one `
-        + 'comparable group (the draws\u2019 medians pool every estimate as fitted). Joint tests, whole run:'),
+      ? `Shaded under the curve: the null band of the run's ${count(band.draws)} null draws, at each position of the `
+        + 'sorted curve the middle 95% (2.5% to 97.5%) of the draws’ sorted estimates at that position, '
+        + `${on}; joint tests ${on}:`
+      : `The run has ${count(nul.draws)} null draws; no band is drawn because ${reason}. `
+        + (results.length ? `Joint tests ${on}:` : 'Their tests pool estimates in different units here, so none is shown; '
+          + 'choose a comparable group as fitted, or the t or partial-correlation scale.')),
     el('ul', {}, results));
 }
 
@@ -637,7 +685,7 @@ function legendEntries() {
     text: `${s.label} (p ${s.filled ? '<' : '\u2265'} ${alpha})${interval ? (s.filled ? ', heavy interval' : ', light interval') : ''}`,
   }));
   if (state.nullBand) {
-    entries.push({ kind: 'band', text: 'middle 95% of the null draws\u2019 median estimates' });
+    entries.push({ kind: 'band', text: 'null band: middle 95% of the null draws at each position' });
   }
   if (key.factor !== null) {
     entries.push({ kind: 'title', text: `Colour: ${key.title}` });
@@ -709,43 +757,63 @@ function recolour() {
   caption(state.view);
 }
 
+function card(label, value, detail) {
+  return el('div', { class: 'summary-card' }, el('p', { class: 'label' }, label), el('p', { class: 'value' }, value),
+    el('p', { class: 'detail' }, detail));
+}
+
+/**
+ * The cards of the run's inference for the curve shown: its joint tests and its smallest p beside the p adjusted
+ * for choosing it (Westfall & Young 1993), per comparable group as fitted and per unit-free scale from
+ * summary.json's by_scale; the whole run's when that has one set of units (or on the unit-free scales, for the
+ * smallest p, since p-values have no unit). Runs stored before by_scale: the whole run's, when it has one group.
+ */
+function curveInference(view) {
+  const summary = state.layout.summary;
+  const box = clear(document.getElementById('curve-inference-cards'));
+  const curve = shownCurve(view);
+  const nul = summary.null;
+  const whole = !state.layout.unitsDiffer;
+  // runs stored before the tallies were written: each p is exceedances over the draws that were not empty
+  const compared = nul && typeof nul === 'object' ? num(nul.draws) - (num(nul.empty_draws) || 0) : NaN;
+  const tally = (t, p) => t ?? (Number.isFinite(num(p)) && compared > 0
+    ? { exceedances: Math.round(num(p) * compared), draws: compared } : null);
+  const own = curve && curve.null;
+  const on = own ? ` (${curve.title})` : '';
+  if (nul && typeof nul === 'object' && (own || whole)) {
+    const unit = nul.resampled === 'clusters' ? `, clusters of ${nul.cluster}`
+      : nul.resampled === 'rows' ? ', single rows' : '';
+    const draws = `${count(nul.draws)} null draws (${nul.method}${unit})`;
+    const tests = own ? own.tests : nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
+    for (const [key, label] of TESTS) {
+      const t = own ? tests[key] : tally(tests[key], nul[`p_${key}`]);
+      if (t) box.append(card(`Joint test: ${label}`, drawClaim(t.exceedances, t.draws),
+        `${drawTally(t.exceedances, t.draws)}; ${draws}${on}`));
+    }
+  }
+  const best = curve && curve.best ? curve.best : (whole || scaleInfo().unitFree) ? summary.best : null;
+  if (best && typeof best === 'object') {
+    const where = curve && curve.best ? ` in ${curve.title}` : ' in the run';
+    box.append(card(`Smallest p${where}`, `p ${pValue(best.p_nominal)}`,
+      [specLink(best.spec, 'best-spec-link'), ', as reported alone']));
+    const t = tally(best.adjusted_test, best.p_adjusted);
+    box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
+      // summary.json's own words name the plan key and the option; on the page, the field that sets it
+      t ? `share of null draws whose smallest p${where} is as small: ${drawTally(t.exceedances, t.draws)}`
+        : 'none: ask for null draws ("Null draws for joint inference" on the plan page) to adjust it'));
+  }
+  if (box.childElementCount > 0) document.getElementById('whole-run').hidden = false;
+}
+
 function wholeRun(summary) {
   const known = new Set(['specifications', 'fitted', 'failed', 'median_estimate', 'share_positive',
     'share_significant_positive', 'share_significant_negative', 'confidence', 'specifications_in_plan', 'sampled',
     'sample_seed', 'data_rows', 'refit_by_qr', 'seconds', 'median_mixes_units', 'scales']);
   const box = clear(document.getElementById('whole-run-cards'));
-  const card = (label, value, detail) => el('div', { class: 'summary-card' },
-    el('p', { class: 'label' }, label), el('p', { class: 'value' }, value), el('p', { class: 'detail' }, detail));
   const nul = summary.null;
-  // runs stored before the tallies were written: each p is exceedances over the draws that were not empty
-  const compared = nul && typeof nul === 'object' ? num(nul.draws) - (num(nul.empty_draws) || 0) : NaN;
-  const tally = (t, p) => t ?? (Number.isFinite(num(p)) && compared > 0
-    ? { exceedances: Math.round(num(p) * compared), draws: compared } : null);
-  if (nul && typeof nul === 'object') {
-    const unit = nul.resampled === 'clusters' ? `, clusters of ${nul.cluster}`
-      : nul.resampled === 'rows' ? ', single rows' : '';
-    const draws = `${count(nul.draws)} null draws (${nul.method}${unit})`;
-    const tests = nul.tests && typeof nul.tests === 'object' ? nul.tests : {};
-    for (const [key, label] of [['median', 'median estimate'], ['share_significant', 'share significant'],
-      ['stouffer', 'mean z (Stouffer)']]) {
-      const t = tally(tests[key], nul[`p_${key}`]);
-      if (t) box.append(card(`Joint test: ${label}`, drawClaim(t.exceedances, t.draws),
-        `${drawTally(t.exceedances, t.draws)}; ${draws}`));
-    }
-  }
   const warning = document.getElementById('null-draw-warning');
   warning.textContent = nul && typeof nul.warning === 'string' ? nul.warning : '';
   warning.hidden = warning.textContent === '';
-  const best = summary.best;
-  if (best && typeof best === 'object') {
-    box.append(card('Smallest p in the set', `p ${pValue(best.p_nominal)}`,
-      [specLink(best.spec, 'best-spec-link'), ', as reported alone']));
-    const t = tally(best.adjusted_test, best.p_adjusted);
-    box.append(card('The same, adjusted for choosing it', t ? drawClaim(t.exceedances, t.draws) : '\u2013',
-      // summary.json's own words name the plan key; on the page, the field that sets it
-      t ? `share of null draws whose smallest p is as small: ${drawTally(t.exceedances, t.draws)}`
-        : 'none: ask for null draws ("Null draws for joint inference" on the plan page) to adjust it'));
-  }
   const bounds = summary.interval_bounds;
   // the run's bounds are over every estimate as fitted: shown only when those share their units
   if (bounds && typeof bounds === 'object' && !state.layout.unitsDiffer) {
@@ -754,10 +822,11 @@ function wholeRun(summary) {
         ...(bounds.lower_spec ? ['; lowest in ', specLink(bounds.lower_spec, 'lower-bound-link')] : []),
         ...(bounds.upper_spec ? [', highest in ', specLink(bounds.upper_spec, 'upper-bound-link')] : [])]));
   }
-  const shown = new Set(['null', 'best', 'interval_bounds', 'influence', 'influence_overall']);
+  const shown = new Set(['null', 'best', 'interval_bounds', 'influence', 'influence_overall', 'by_scale']);
   const more = el('details', { class: 'more-sections', id: 'more-sections' },
     el('summary', {}, 'Further sections of summary.json'));
   if (nul && typeof nul === 'object') more.append(...nullTables(nul));
+  if (summary.by_scale && typeof summary.by_scale === 'object') more.append(byScaleTable(summary.by_scale));
   for (const [key, value] of Object.entries(summary)) {
     if (known.has(key) || shown.has(key) || value === null || typeof value !== 'object' || Array.isArray(value)) continue;
     if (key === 'comparable_groups' && Array.isArray(value.groups)) {
@@ -822,8 +891,39 @@ function nullTables(nul) {
     empty_draws: nul.empty_draws, seconds: nul.seconds, file: nul.file,
   });
   facts.id = 'null-facts';
-  return [table('null-quantiles', 'Observed curve against the null draws', ['Statistic', 'observed',
+  const pooled = nul.median_mixes_units ? ' (the median over every estimate as fitted, which pools different units: '
+    + 'see the table per comparable group below)' : '';
+  return [table('null-quantiles', `Observed curve against the null draws, whole run${pooled}`, ['Statistic', 'observed',
     'null 2.5%', 'null median', 'null 97.5%'], rows), facts];
+}
+
+/**
+ * summary.json's by_scale as one table: per comparable group as fitted and per unit-free scale, the specifications,
+ * the three joint tests on that curve alone, its smallest p with the adjusted p, and its decisions' main effects.
+ */
+function byScaleTable(by) {
+  const rows = [];
+  const tests = (n) => TESTS.map(([k]) => el('td', {}, n && n.tests && n.tests[k]
+    ? drawClaim(n.tests[k].exceedances, n.tests[k].draws) : '\u2013'));
+  const mainEffects = (e) => el('td', { class: 'num' }, share(num(e.influence_overall?.main_effects_share)));
+  for (const g of by.groups || []) {
+    const adjusted = g.best?.adjusted_test;
+    rows.push(el('tr', {}, el('th', { scope: 'row' }, `${g.outcome} on ${g.predictor}${g.model ? `, ${g.model}` : ''}`),
+      el('td', { class: 'num' }, count(g.specifications)), ...tests(g.null),
+      el('td', {}, g.best ? [specLink(g.best.spec, `group-smallest-p-${g.group}`), ` (p ${pValue(g.best.p_nominal)}`
+        + (adjusted ? `; adjusted ${drawClaim(adjusted.exceedances, adjusted.draws)})` : ')')] : '\u2013'),
+      mainEffects(g)));
+  }
+  for (const [key, title] of [['standardized', 'standardized coefficient'], ['partial_correlation',
+    'partial correlation'], ['t_statistic', 't statistic']]) {
+    const e = by[key];
+    if (!e) continue;
+    rows.push(el('tr', {}, el('th', { scope: 'row' }, `${title}, every specification with one`),
+      el('td', { class: 'num' }, count(e.specifications)), ...tests(e.null), el('td', {}, '\u2013'), mainEffects(e)));
+  }
+  return table('by-scale', 'Per comparable group and unit-free scale: the null draws\u2019 joint tests, the smallest p '
+    + 'and the share of the variance the decisions explain', ['Curve', 'specifications', 'median test',
+    'share-significant test', 'Stouffer test', 'smallest p', 'decisions\u2019 main effects'], rows);
 }
 
 /** Per comparable group: information-criterion weights, P(coefficient <= 0) and inclusion probabilities. */

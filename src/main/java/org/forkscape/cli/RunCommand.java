@@ -97,8 +97,10 @@ final class RunCommand {
         }
         RunSummary summary = completed.summary();
         NullDrawResult draws = completed.inference().nullDraws();
+        // with several comparable groups the whole run's median pools units: the line says where the others are
         String joint = draws == null ? "" : "; " + HumanNumbers.count(draws.drawCount()) + " null draws: median "
-                + draws.medianTally().text() + ", share significant " + draws.shareSignificantTally().text()
+                + draws.medianTally().text() + (draws.mixesUnits() ? " (over every estimate as fitted, which pools "
+                + "different units; per comparable group in summary.json's by_scale)" : "") + ", share significant " + draws.shareSignificantTally().text()
                 + ", Stouffer " + draws.stoufferTally().text();
         out.printf("fitted %s of %s specifications in %.2f s; median estimate %s; significant: %s positive, "
                         + "%s negative%s; results in %s%n", HumanNumbers.count(summary.fitted()),

@@ -2,6 +2,7 @@ package org.forkscape.infer;
 
 import java.util.LinkedHashMap;
 import java.util.Map;
+import java.util.function.DoubleFunction;
 import org.forkscape.plan.SpecificationNumber;
 import org.forkscape.run.Json;
 import org.forkscape.run.ResultTable;
@@ -25,6 +26,14 @@ public record BestSpecification(SpecificationNumber spec, int row, double pNomin
      * @param draws the null draws over the same specifications, or null
      */
     public static BestSpecification of(ResultTable results, int[] slots, NullDrawResult draws) {
+        return within(results, slots, draws == null ? null : draws::minPAdjustedTally);
+    }
+
+    /**
+     * The best of the given slots, its p adjusted by {@code adjust} (the draws whose smallest p over the
+     * same slots is at most it), or not adjusted when {@code adjust} is null.
+     */
+    public static BestSpecification within(ResultTable results, int[] slots, DoubleFunction<DrawTally> adjust) {
         int best = -1;
         double bestP = Double.POSITIVE_INFINITY;
         for (int slot : slots) {
@@ -40,7 +49,7 @@ public record BestSpecification(SpecificationNumber spec, int row, double pNomin
         if (best < 0) {
             return null;
         }
-        DrawTally adjusted = draws == null ? null : draws.minPAdjustedTally(bestP);
+        DrawTally adjusted = adjust == null ? null : adjust.apply(bestP);
         return new BestSpecification(results.specNumber(best), best + 1, bestP, adjusted);
     }
 

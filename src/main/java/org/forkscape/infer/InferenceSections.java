@@ -8,12 +8,14 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import org.forkscape.run.InferenceStage;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
+import org.forkscape.run.UnitGroups;
 
 /**
  * The joint-inference layer of one finished run, as the batch command writes it: the null draws (when
  * asked for), the selection-adjusted p of the best-looking specification, the extreme bounds, the
  * weights within comparable groups, the overfitting yardstick and the influence of the decisions, as
- * summary.json sections, plus the files null-draws.csv and overfitting.csv. {@link #compute} is the
+ * summary.json sections (and, in {@code by_scale}, the same per comparable group and on the unit-free scales,
+ * see {@link ScaleSections}), plus the files null-draws.csv and overfitting.csv. {@link #compute} is the
  * inference stage that the batch command, and the web's run queue through its summary sections, hand to
  * {@link org.forkscape.run.RunPipeline}.
  */
@@ -55,7 +57,10 @@ public final class InferenceSections implements InferenceStage.Outcome {
         m.put("overfitting", Overfitting.summary(run.results(), all, run.plan().alpha()));
         InfluenceReport influence = Influence.of(run, all);
         m.put("influence", influence.factorsJson());
-        m.put("influence_overall", influence.overallJson());
+        Map<String, Object> overall = influence.overallJson();
+        overall.put("mixes_units", UnitGroups.of(run).unitsDiffer());
+        m.put("influence_overall", overall);
+        m.put("by_scale", ScaleSections.of(run, all, draws));
         return new InferenceSections(run, draws, m);
     }
 

@@ -34,6 +34,10 @@ import org.forkscape.run.WorkerPools;
  *
  * <p>Each draw is computed alone from its own random stream ({@link DrawStreams}) by one thread, in a fixed
  * order, so the numbers are identical whatever the number of threads.
+ *
+ * <p>Besides the whole run's statistics, each draw is judged on the {@link ScaleCurves}: per comparable
+ * group as fitted and on the unit-free t and partial-correlation scales, so that no median, and no band,
+ * pools estimates in different units.
  */
 public final class NullDraws {
     private NullDraws() {
@@ -71,6 +75,16 @@ public final class NullDraws {
         }
         CurveStatistics observed = CurveStatistics.of(observedEstimate, observedError, observedDf, size, alpha,
                 new double[size]);
+        ScaleCurves curves = ScaleCurves.of(variants);
+        int[] everySpec = new int[size];
+        for (int i = 0; i < size; i++) {
+            everySpec[i] = i;
+        }
+        double[] observedP = new double[size];
+        double[] observedZ = new double[size];
+        CurveStatistics.score(observedEstimate, observedError, observedDf, size, observedP, observedZ);
+        ScaleCurves.DrawCurve[] observedCurves = curves.evaluate(observedEstimate, observedError, observedDf,
+                observedP, observedZ, everySpec, size, alpha, new ScaleCurves.Workspace(curves, size));
 
         int draws = settings.draws();
         SplittableRandom[] streams = DrawStreams.of(settings.seed(), draws);
@@ -78,6 +92,7 @@ public final class NullDraws {
         boolean bootstrap = settings.method() == NullMethod.BOOTSTRAP;
         int predictors = variants.run().plan().predictor().alternatives().size();
         CurveStatistics[] out = new CurveStatistics[draws];
+        ScaleCurves.DrawCurve[][] outCurves = new ScaleCurves.DrawCurve[draws][];
         AtomicInteger next = new AtomicInteger();
         AtomicLong done = new AtomicLong();
         AtomicLong failed = new AtomicLong();
@@ -96,6 +111,10 @@ public final class NullDraws {
                     double[] error = new double[size];
                     double[] df = new double[size];
                     double[] scratch = new double[size];
+                    double[] p = new double[size];
+                    double[] z = new double[size];
+                    int[] spec = new int[size];
+                    ScaleCurves.Workspace curveWork = new ScaleCurves.Workspace(curves, size);
                     int[] weights = new int[design.rows()];
                     int[] unitDraws = new int[design.unitCount()];
                     int[] order = new int[design.rows()];
@@ -136,10 +155,14 @@ public final class NullDraws {
                                 estimate[m] = bootstrap ? fit.estimate() - observedEstimate[i] : fit.estimate();
                                 error[m] = fit.stdError();
                                 df[m] = fit.df();
+                                spec[m] = i;
                                 m++;
                             }
                         }
-                        out[d] = CurveStatistics.of(estimate, error, df, m, alpha, scratch);
+                        // each specification's p and normal score once, for the whole curve and every other
+                        CurveStatistics.score(estimate, error, df, m, p, z);
+                        out[d] = CurveStatistics.ofScored(estimate, estimate, p, z, m, alpha, scratch);
+                        outCurves[d] = curves.evaluate(estimate, error, df, p, z, spec, m, alpha, curveWork);
                         failed.addAndGet(failures);
                         progress.update(done.incrementAndGet(), draws);
                     }
@@ -156,6 +179,7 @@ public final class NullDraws {
         }
         String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns(),
                 variants.run().table(), design);
-        return new NullDrawResult(settings, warning, observed, out, failed.get(), (System.nanoTime() - start) / 1e9);
+        return new NullDrawResult(settings, warning, observed, out, curves, observedCurves, outCurves, failed.get(),
+                (System.nanoTime() - start) / 1e9);
     }
 }

@@ -5,6 +5,7 @@ import org.forkscape.plan.Factor;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunResult;
+import org.forkscape.run.Scale;
 
 /**
  * Fitted specifications laid out by factor for the influence analysis: each one's level of every factor,
@@ -42,13 +43,21 @@ public final class SpecificationGrid {
         this.alpha = alpha;
     }
 
-    /** The fitted specifications among {@code slots} of a run. */
+    /** The fitted specifications among {@code slots} of a run, with their estimates as fitted. */
     public static SpecificationGrid of(RunResult run, int[] slots) {
+        return of(run, slots, Scale.AS_FITTED);
+    }
+
+    /**
+     * The fitted specifications among {@code slots} that have a value on {@code scale}, with that value as
+     * their estimate (its sign is the estimate's, so significance in the dominant sign is unchanged).
+     */
+    public static SpecificationGrid of(RunResult run, int[] slots, Scale scale) {
         List<Factor> factors = Factor.listOf(run.plan());
         ResultTable r = run.results();
         int fitted = 0;
         for (int slot : slots) {
-            if (r.fitted(slot)) {
+            if (r.fitted(slot) && scale.defined(r, slot)) {
                 fitted++;
             }
         }
@@ -59,14 +68,14 @@ public final class SpecificationGrid {
         long[] choices = new long[space.decisionCount()];
         int i = 0;
         for (int slot : slots) {
-            if (!r.fitted(slot)) {
+            if (!r.fitted(slot) || !scale.defined(r, slot)) {
                 continue;
             }
             space.decode(r.specIndex(slot), choices);
             for (Factor f : factors) {
                 levelOf[f.id()][i] = f.levelOf(choices);
             }
-            estimate[i] = r.estimate(slot);
+            estimate[i] = scale.value(r, slot);
             p[i] = r.pValue(slot);
             i++;
         }

@@ -64,6 +64,18 @@ public final class MemoryEstimate {
     private static final long DRAW_WORKER_BYTES = 32;
     /** Per null-draw worker and data row: its weights, unit draws and order. */
     private static final long DRAW_ROW_BYTES = 12;
+    /**
+     * Per null-draw worker and fitted specification, the curves' arrays: p-values and normal scores, and the
+     * curves' values, estimates, p-values, normal scores and sorted values (doubles) and the curve order (an int).
+     */
+    private static final long DRAW_CURVE_WORKER_BYTES = 60;
+    /**
+     * Per draw and curve (infer.ScaleCurves), besides its values at the kept ranks: the curve's record, its
+     * statistics record and the array's header.
+     */
+    private static final long DRAW_CURVE_BYTES = 96;
+    /** Rank positions a curve keeps per draw at most (infer.ScaleCurves.MAX_RANKS). */
+    private static final long DRAW_CURVE_RANKS = 200;
 
     private final long bytes;
     private final Map<String, Long> parts;
@@ -236,8 +248,14 @@ public final class MemoryEstimate {
                 fitted * (INFERENCE_BYTES + Math.round(4 * (profile.meanColumns + profile.factors))));
         if (plan.nullDraws() > 0) {
             int drawWorkers = Math.max(1, Math.min(workers, plan.nullDraws()));
-            long perWorker = DRAW_WORKER_BYTES * fitted + DRAW_ROW_BYTES * rows + drawCopies;
+            long perWorker = (DRAW_WORKER_BYTES + DRAW_CURVE_WORKER_BYTES) * fitted + DRAW_ROW_BYTES * rows + drawCopies;
             inference.put("the null draws' resampled copies of the variants", drawWorkers * perWorker);
+            // one curve per comparable group as fitted, then the t statistic and the partial correlation
+            long curves = plan.outcome().alternativeCount() * plan.predictor().alternativeCount()
+                    * Math.max(1, plan.all(org.forkscape.plan.Decision.Model.class).stream()
+                            .mapToLong(d -> d.alternatives().size()).max().orElse(1)) + 2;
+            inference.put("the null draws' values at the kept ranks of each curve", (long) plan.nullDraws()
+                    * Math.min(curves, fitted + 2) * (DRAW_CURVE_BYTES + 8 * Math.min(DRAW_CURVE_RANKS, fitted)));
         }
 
         Map<String, Long> drawing = new LinkedHashMap<>();

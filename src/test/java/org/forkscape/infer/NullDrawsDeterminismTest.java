@@ -1,5 +1,6 @@
 package org.forkscape.infer;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -29,6 +30,15 @@ class NullDrawsDeterminismTest {
             assertEquals(a.draw(d), b.draw(d), "draw " + (d + 1));
         }
         assertEquals(a.failedFits(), b.failedFits());
+        assertEquals(a.curveCount(), b.curveCount());
+        for (int c = 0; c < a.curveCount(); c++) {
+            for (int d = 0; d < a.drawCount(); d++) {
+                assertEquals(a.drawCurve(d, c).statistics(), b.drawCurve(d, c).statistics(), "curve " + c);
+                assertArrayEquals(a.drawCurve(d, c).atRanks(), b.drawCurve(d, c).atRanks(), 0, "curve " + c);
+            }
+            // the per-group tests and the rank-by-rank band as summary.json writes them
+            assertEquals(a.curveJson(c), b.curveJson(c), "curve " + c);
+        }
     }
 
     @Test
@@ -36,6 +46,8 @@ class NullDrawsDeterminismTest {
         Table table = Scenarios.table(90, 0.2, 7, 12);
         RunResult run = Scenarios.run(PLAN, table);
         assertEquals(96, run.results().size(), "2 outcomes x 2 codings x 8 control sets x 3 error types");
+        assertEquals(4 + 2, Scenarios.nullDraws(run, 1, NullMethod.BOOTSTRAP, 99, null, 1).curveCount(),
+                "a curve per outcome and coding, then the t statistic and the partial correlation");
         for (NullMethod method : NullMethod.values()) {
             NullDrawResult one = Scenarios.nullDraws(run, 40, method, 99, null, 1);
             NullDrawResult three = Scenarios.nullDraws(run, 40, method, 99, null, 3);

@@ -141,6 +141,26 @@ class RunCommandInferenceTest {
     }
 
     @Test
+    void twoOutcomesGetTheirTestsAndBandsPerGroupAndTheLineSaysTheWholeRunsMedianPoolsUnits() throws IOException {
+        Files.writeString(plan, Files.readString(plan).replace("""
+                [{"label": "y", "column": "y"}]""", """
+                [{"label": "y", "column": "y"}, {"label": "strong", "column": "strong"}]"""));
+        assertEquals(0, run("--null-draws", "12", "--seed", "5", "--null-cluster", "g"), err);
+        assertTrue(out.contains("(over every estimate as fitted, which pools different units; per comparable group in "
+                + "summary.json's by_scale), share significant "), out);
+        JsonNode summary = JsonMapper.builder().build().readTree(dir.resolve("out/summary.json").toFile());
+        assertTrue(summary.get("null").get("median_mixes_units").booleanValue());
+        JsonNode groups = summary.get("by_scale").get("groups");
+        assertEquals(2, groups.size());
+        for (JsonNode g : groups) {
+            assertEquals(8, g.get("specifications").intValue());
+            assertEquals(12, g.get("null").get("tests").get("median").get("draws").intValue());
+            assertEquals(8, g.get("null").get("envelope").get("ranks").size());
+        }
+        assertEquals(16, summary.get("by_scale").get("t_statistic").get("null").get("envelope").get("ranks").size());
+    }
+
+    @Test
     void noDrawAsExtremeIsReportedAsABoundWithTheDraws() throws IOException {
         plan = writePlan("", "strong");
         assertEquals(0, run("--null-draws", "19", "--seed", "5", "--null-cluster", "g"), err);

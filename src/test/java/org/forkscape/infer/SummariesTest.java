@@ -83,7 +83,7 @@ class SummariesTest {
 
     private static NullDrawResult result(CurveStatistics... draws) {
         return new NullDrawResult(new NullDrawSettings(draws.length, NullMethod.BOOTSTRAP, 1, null, false), null,
-                new CurveStatistics(10, 0.3, 1, 5, 0.5, -1, 0.01), draws, 0, 0);
+                new CurveStatistics(10, 0.3, 1, 5, 0.5, -1, 0.01), draws, null, null, null, 0, 0);
     }
 
     @Test

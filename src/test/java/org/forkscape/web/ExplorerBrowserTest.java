@@ -156,10 +156,25 @@ class ExplorerBrowserTest {
         WebElement warning = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("null-draw-warning")));
         assertTrue(warning.getText().startsWith("The null draws resample single rows, as asked, so they split up the "
                 + "clusters of \"district\""), warning.getText());
-        // 20 draws cannot show a p below 1/21 = 0.0476..., shown rounded up
-        String cards = driver.findElement(By.id("whole-run-cards")).getText();
-        assertTrue(cards.contains("Joint test: median estimate\np < 0.048\n1/21; none of 20 draws as extreme; "
-                + "20 null draws (bootstrap, single rows)"), cards);
+        // the joint tests of the curve shown: its comparable group's, as summary.json's by_scale has them
+        JsonNode firstSummary = Json.MAPPER.readTree(HttpClient.newHttpClient().send(HttpRequest.newBuilder(
+                URI.create(driver.getCurrentUrl().replaceAll("\\?.*", "") + "/files/summary.json")).build(),
+                HttpResponse.BodyHandlers.ofString()).body());
+        assertEquals(true, firstSummary.path("null").path("median_mixes_units").asBoolean());
+        JsonNode shownGroup = firstSummary.path("by_scale").path("groups").get(0);
+        assertEquals("turnout", shownGroup.path("outcome").asString());
+        assertEquals("hours", shownGroup.path("predictor").asString());
+        JsonNode groupMedian = shownGroup.path("null").path("tests").path("median");
+        Object claim = driver.executeAsyncScript("const done = arguments[arguments.length - 1];"
+                + "import('/js/numbers.js').then((n) => done(n.drawClaim(" + groupMedian.path("exceedances").asInt()
+                + ", " + groupMedian.path("draws").asInt() + ")))");
+        String cards = driver.findElement(By.id("curve-inference-cards")).getText();
+        assertTrue(cards.contains("Joint test: median estimate\n" + claim + "\n"), cards);
+        assertTrue(cards.contains("20 null draws (bootstrap, single rows) (the comparable group turnout on hours)"), cards);
+        assertTrue(cards.contains("Smallest p in the comparable group turnout on hours"), cards);
+        assertEquals("drawn", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
+        assertEquals("32", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band-ranks"),
+                "the group's 32 specifications, every rank kept");
         // the page's own number module, in the browser, on values worked out by hand
         Object formatted = driver.executeAsyncScript("const done = arguments[arguments.length - 1];"
                 + "import('/js/numbers.js').then((n) => done([n.number(-1.301e-5), n.number(-0.000203), n.number(4608),"
@@ -213,8 +228,16 @@ class ExplorerBrowserTest {
         assertTrue(standardizedMedian.startsWith("Median, standardized coefficient"), standardizedMedian);
         assertNotEquals(fittedMedian.split("\n")[1], standardizedMedian.split("\n")[1], "the median follows the scale");
         assertTrue(!driver.findElement(By.id("group")).isDisplayed(), "no group selector on a unit-free scale");
+        assertEquals("none", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
+        assertTrue(driver.findElement(By.id("null-overlay")).getText().contains(
+                "not the standardized coefficient"), driver.findElement(By.id("null-overlay")).getText());
         new Select(driver.findElement(By.id("scale"))).selectByValue("t");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("scale-note"), "has no interval"));
+        // on the t scale every specification shares the curve, and the band is the t curve's
+        wait.until(ExpectedConditions.attributeToBe(By.id("curve-canvas"), "data-null-band-ranks", "128"));
+        assertBandIs(firstSummary.path("by_scale").path("t_statistic").path("null").path("envelope"));
+        assertTrue(driver.findElement(By.id("curve-inference-cards")).getText().contains(
+                "(the t statistic of every specification with one)"));
         assertTrue(driver.findElement(By.id("card-bounds")).getText().contains("no intervals on this scale"));
         new Select(driver.findElement(By.id("scale"))).selectByValue("standardized");
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("card-median"), "standardized"));
@@ -294,10 +317,10 @@ class ExplorerBrowserTest {
         wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("set-count"), "Showing 4,608 of 4,608"));
         assertTrue(driver.findElement(By.id("figure-caption")).getText().contains("per pixel column"));
         // no null draws: the way to adjust the smallest p names the plan page's field, not a command-line option
-        String wholeRun = driver.findElement(By.id("whole-run-cards")).getText();
-        assertTrue(wholeRun.contains("none: ask for null draws (\"Null draws for joint inference\" on the plan page)"),
-                wholeRun);
-        assertFalse(wholeRun.contains("--null-draws"), wholeRun);
+        String cards = driver.findElement(By.id("curve-inference-cards")).getText();
+        assertTrue(cards.contains("none: ask for null draws (\"Null draws for joint inference\" on the plan page)"),
+                cards);
+        assertFalse(cards.contains("--null-draws"), cards);
         // coloured by a decision in the reduced drawing: each column's median line takes its most used alternative
         new Select(driver.findElement(By.id("colour-by"))).selectByVisibleText("fixed effects");
         assertEquals(List.of("none", "region"), driver.findElements(By.cssSelector("#legend .legend-alternative"))
@@ -452,8 +475,17 @@ class ExplorerBrowserTest {
         Files.copy(png, Path.of("target", "screenshots", "12-exported-colour-by.png"),
                 java.nio.file.StandardCopyOption.REPLACE_EXISTING);
 
-        // the null draws' band is drawn under the curve, the three joint tests beside it
+        // the null draws' band is drawn under the curve, rank by rank, the three joint tests beside it
         assertEquals("drawn", driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band"));
+        JsonNode bandSummary = Json.MAPPER.readTree(HttpClient.newHttpClient().send(HttpRequest.newBuilder(
+                URI.create(base() + "/analyses/" + id + "/runs/" + runId + "/files/summary.json")).build(),
+                HttpResponse.BodyHandlers.ofString()).body());
+        JsonNode envelope = bandSummary.path("by_scale").path("groups").get(0).path("null").path("envelope");
+        assertEquals(48, envelope.path("ranks").size(), "every rank of 48 specifications");
+        assertBandIs(envelope);
+        JsonNode high = envelope.path("high");
+        assertTrue(high.get(47).asDouble() > high.get(0).asDouble(), "the band follows the ranks, it is not flat");
+        assertTrue(driver.findElement(By.id("null-overlay")).getText().contains("at each position of the sorted curve"));
         assertTrue(driver.findElement(By.cssSelector("#legend .legend-band")).getText().contains("null draws"));
         String overlay = driver.findElement(By.id("null-overlay")).getText();
         for (String test : List.of("median estimate: p", "share significant: p", "mean z (Stouffer): p")) {
@@ -463,6 +495,11 @@ class ExplorerBrowserTest {
         driver.findElement(By.cssSelector("#more-sections summary")).click();
         assertTrue(driver.findElement(By.id("null-quantiles")).getText().contains("median estimate"));
         assertTrue(driver.findElement(By.id("group-weights")).getText().contains("turnout on hours"));
+        // per comparable group and unit-free scale, the draws' tests on that curve alone
+        List<String> curves = driver.findElements(By.cssSelector("#by-scale tbody th")).stream().map(WebElement::getText)
+                .toList();
+        assertEquals(List.of("turnout on hours", "standardized coefficient, every specification with one",
+                "partial correlation, every specification with one", "t statistic, every specification with one"), curves);
         JsonNode summary = Json.MAPPER.readTree(HttpClient.newHttpClient().send(HttpRequest.newBuilder(
                 URI.create(base() + "/analyses/" + id + "/runs/" + runId + "/files/summary.json")).build(),
                 HttpResponse.BodyHandlers.ofString()).body());
@@ -562,6 +599,17 @@ class ExplorerBrowserTest {
                 + path + "'] select, [data-path='" + path + "'] textarea")));
         driver.executeScript("arguments[0].scrollIntoView({block: 'center'})", e);
         return e;
+    }
+
+    /** The band on the curve joins exactly the envelope summary.json records, rank by rank. */
+    private static void assertBandIs(JsonNode envelope) throws Exception {
+        JsonNode drawn = Json.MAPPER.readTree(driver.findElement(By.id("curve-canvas")).getAttribute("data-null-band-values"));
+        assertEquals(envelope.path("ranks").size(), drawn.path("ranks").size());
+        for (int k = 0; k < drawn.path("ranks").size(); k++) {
+            assertEquals(envelope.path("ranks").get(k).asInt(), drawn.path("ranks").get(k).asInt());
+            assertEquals(envelope.path("low").get(k).asDouble(), drawn.path("low").get(k).asDouble(), 0, "rank " + k);
+            assertEquals(envelope.path("high").get(k).asDouble(), drawn.path("high").get(k).asDouble(), 0, "rank " + k);
+        }
     }
 
     private static void type(WebDriverWait wait, String path, String text) {

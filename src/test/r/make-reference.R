@@ -16,7 +16,8 @@
 #   longley.csv                      datasets::longley in the units of NIST StRD's Longley data
 #   *-expected.csv                   per specification of the plan of the same name: the key estimate,
 #                                    its standard error, df, p-value, interval, rows, coefficients,
-#                                    R-squared, adjusted R-squared and the overall F test's p-value
+#                                    R-squared, adjusted R-squared, the overall F test's p-value, the
+#                                    standardized coefficient and the partial correlation
 #   nist-lm.csv                      lm() on Longley, Wampler1 and Wampler2, to cross-check the
 #                                    certified values that the tests type in
 #   distributions.csv                qt, pt and pf at chosen points, for the engine's t and F functions
@@ -165,7 +166,24 @@ fit_one <- function(d, controls, absorb, e, cluster, confidence) {
   }
   t <- estimate / se
   half <- qt(1 - (1 - confidence) / 2, df) * se
+  # the standardized coefficient: the same regression with outcome and key predictor in standard
+  # deviations over these rows (Cohen, Cohen, West & Aiken 2003)
+  z <- m
+  z$.y <- as.numeric(scale(z$.y))
+  z$.x <- as.numeric(scale(z$.x))
+  std_estimate <- unname(coef(lm(reformulate(terms, response = ".y"), data = z))[".x"])
+  # the partial correlation: with classical errors, the correlation of outcome and key predictor after both
+  # are residualised on the controls and fixed effects (Greene 2012, chapter 3); with robust errors, the one
+  # their t statistic implies, t / sqrt(t^2 + df)
+  others <- terms[terms != ".x"]
+  partial <- if (e == "classical") {
+    cor(resid(lm(reformulate(c("1", others), response = ".y"), data = m)),
+        resid(lm(reformulate(c("1", others), response = ".x"), data = m)))
+  } else {
+    t / sqrt(t^2 + df)
+  }
   list(errors = e, estimate = estimate, n_obs = nobs(fit), n_params = fit$rank, r2 = s$r.squared,
+       std_estimate = std_estimate, partial_correlation = if (status == "ok") partial else NA,
        adj_r2 = s$adj.r.squared,
        model_p_value = unname(pf(fstat["value"], fstat["numdf"], fstat["dendf"], lower.tail = FALSE)),
        std_error = se, df = df, p_value = 2 * pt(-abs(t), df), ci_low = estimate - half, ci_high = estimate + half,
@@ -173,7 +191,7 @@ fit_one <- function(d, controls, absorb, e, cluster, confidence) {
 }
 
 stat_columns <- c("estimate", "std_error", "df", "p_value", "ci_low", "ci_high", "n_obs", "n_params", "r2",
-                  "adj_r2", "model_p_value")
+                  "adj_r2", "model_p_value", "std_estimate", "partial_correlation")
 
 # Collects rows (lists) into the expected-values file: spec, one column per decision, the statistics.
 write_expected <- function(rows, decision_names, name) {

@@ -17,6 +17,7 @@ import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
+import org.forkscape.run.Scale;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 
@@ -45,6 +46,10 @@ import org.junit.jupiter.params.provider.CsvSource;
  * <li>r2: {@value #RELATIVE} relative; adj_r2: {@value #RELATIVE} absolute, since it can sit at or below
  * zero where a relative error means nothing.</li>
  * <li>df, n_obs, n_params: exact.</li>
+ * <li>std_estimate (R: the coefficient of lm on the outcome and key predictor standardized over the
+ * specification's rows) and the partial-correlation scale (R: with classical errors the correlation of the
+ * outcome's and the key predictor's lm residuals on the controls and fixed effects, otherwise t / sqrt(t^2 +
+ * df) of the error type): {@value #RELATIVE} relative, as the estimate.</li>
  * </ul>
  */
 class RLmSandwichReferenceTest {
@@ -141,9 +146,14 @@ class RLmSandwichReferenceTest {
             relative("r2", r.r2(slot), "R summary.lm r.squared", RELATIVE);
             absolute("adj_r2", r.adjustedR2(slot), "R summary.lm adj.r.squared", RELATIVE);
             relative("model_p_value", r.modelPValue(slot), "R pf() of summary.lm fstatistic", P_RELATIVE);
+            relative("std_estimate", r.standardizedEstimate(slot), "R lm() on scale(y) and scale(x) over the "
+                    + "specification's rows", RELATIVE);
             if (!ok) {
                 return;
             }
+            relative("partial_correlation", Scale.PARTIAL_CORRELATION.value(r, slot), row.get("errors").equals(
+                    "classical") ? "R cor() of the lm() residuals of y and x on the controls and fixed effects"
+                    : "R t / sqrt(t^2 + df) of this error type", RELATIVE);
             relative("std_error", r.stdError(slot), seSource, RELATIVE);
             exact("df", r.df(slot), "R df.residual or G - 1");
             relative("p_value", r.pValue(slot), "R 2 * pt(-|t|, df)", P_RELATIVE);

@@ -35,8 +35,14 @@ public final class PlanChecker {
             } else if (d instanceof Decision.Errors e) {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
-                    if (t.kind() == ErrorType.Kind.CLUSTER) {
-                        existing(t.clusterColumn(), path + ".alternatives[" + j + "]", table);
+                    for (String column : t.clusterColumns()) {
+                        existing(column, path + ".alternatives[" + j + "]", table);
+                    }
+                    if (t.multiway() && plan.generalized()) {
+                        throw new PlanException(path + ".alternatives[" + j + "]", InputException.quoted(t.label())
+                                + ": clustering on several columns is computed for least squares (ols) only, not yet "
+                                + "for logit, probit or poisson; cluster on one column, or fit these specifications "
+                                + "in a plan whose model decision is ols alone");
                     }
                 }
             } else if (d instanceof Decision.Model m) {

@@ -10,6 +10,9 @@ import java.util.Map;
 import java.util.TreeMap;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.forkscape.data.Table;
+import org.forkscape.fit.FullFit;
+import org.forkscape.fit.FullFitter;
+import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.Plan;
@@ -74,6 +77,35 @@ class RMultiwayClusterReferenceTest {
         ResultTable one = run(new MultiverseRunner(1)).results();
         ResultTable two = run(new MultiverseRunner(2)).results();
         assertArrayEquals(bits(one), bits(two));
+    }
+
+    /** The explorer's full fit of each specification (every coefficient from its rows) gives R's key error too. */
+    @Test
+    void theFullFitsKeyCoefficientAgreesWithVcovCl() {
+        SpecificationModels models = new SpecificationModels(plan, table);
+        FullFitter fitter = new FullFitter();
+        List<String> failures = new ArrayList<>();
+        Map<String, Double> worst = new TreeMap<>();
+        int compared = 0;
+        for (Map<String, String> row : ReferenceFiles.rows("plot-panel-expected.csv")) {
+            String where = "spec " + row.get("spec") + " (" + row.get("errors") + ")";
+            FullFit fit = fitter.fit(plan, models, Long.parseLong(row.get("spec")) - 1);
+            String status = row.get("status");
+            if (!status.equals("ok")) {
+                if (fit.ok() || !fit.status().startsWith(status)) {
+                    failures.add(where + ": full fit status \"" + fit.status() + "\", R gives \"" + status + "\"");
+                }
+                continue;
+            }
+            compared++;
+            check(failures, worst, where, "estimate", fit.key().estimate(), row, "R lm() coefficient", RELATIVE);
+            check(failures, worst, where, "std_error", fit.key().stdError(), row, "sandwich::vcovCL or vcov()", RELATIVE);
+            check(failures, worst, where, "df", fit.df(), row, "R df.residual or min(G) - 1", 0);
+        }
+        AgreementReport.write("r-reference-plot-panel-full-fit.txt", SOURCE, worst);
+        assertTrue(compared > 200, compared + " specifications compared");
+        assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + SOURCE + ":\n"
+                + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
     }
 
     private static long[] bits(ResultTable r) {

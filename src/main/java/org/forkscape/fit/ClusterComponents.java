@@ -15,8 +15,8 @@ import org.forkscape.plan.ErrorType;
  * Miller 2011, "Robust inference with multiway clustering", Journal of Business &amp; Economic Statistics
  * 29(2), eq. 2.13 and its m-way form); two-way is V_a + V_b - V_ab. One-way clustering is its own single
  * component. A component over one column is keyed by the column's name, so one-way error types on that
- * column share its codes and cells; an intersection by the names joined with {@link #JOIN}, a character
- * no CSV header is given here by a person.
+ * column share its codes and cells; an intersection by the names joined with {@link #JOIN}, the unit
+ * separator, which a typed column name does not hold.
  */
 public final class ClusterComponents {
     /** Joins the column names of an intersection in its key. */
@@ -36,8 +36,6 @@ public final class ClusterComponents {
         }
     }
 
-    private static final Map<ErrorType, List<Component>> CACHE = new java.util.concurrent.ConcurrentHashMap<>();
-
     private ClusterComponents() {
     }
 
@@ -46,10 +44,6 @@ public final class ClusterComponents {
      * as written), so that the signed sum is added in the same order on every thread.
      */
     public static List<Component> of(ErrorType type) {
-        return CACHE.computeIfAbsent(type, ClusterComponents::build);
-    }
-
-    private static List<Component> build(ErrorType type) {
         List<String> columns = type.clusterColumns();
         int m = columns.size();
         List<Component> out = new ArrayList<>();

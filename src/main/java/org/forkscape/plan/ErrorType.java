@@ -70,9 +70,20 @@ public record ErrorType(Kind kind, List<String> clusterColumns) {
                 + "; use classical, HC0, HC1, HC2, HC3, cluster:COLUMN or cluster:COLUMN+COLUMN");
     }
 
+    /**
+     * The most columns one error type may cluster on: m columns take 2^m - 1 one-way variances per
+     * specification, 15 at this limit.
+     */
+    public static final int MAX_CLUSTER_COLUMNS = 4;
+
     /** The {@code +}-joined column names after {@code cluster:}, each once and none empty. */
     private static List<String> columns(String joined, String path) {
         List<String> names = Arrays.stream(joined.split("\\+", -1)).map(String::trim).toList();
+        if (names.size() > MAX_CLUSTER_COLUMNS) {
+            throw new PlanException(path, InputException.quoted("cluster:" + joined) + " clusters on " + names.size()
+                    + " columns; at most " + MAX_CLUSTER_COLUMNS + " are supported (each combination of them is one "
+                    + "more variance to compute)");
+        }
         Set<String> seen = new HashSet<>();
         for (String name : names) {
             if (name.isEmpty()) {

@@ -347,6 +347,8 @@ class PlanReaderTest {
                 "decisions[2].alternatives[0]", "an empty cluster column in \"cluster:school+\"");
         fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:school + term+school\"]}"),
                 "decisions[2].alternatives[0]", "\"school\" is named twice");
+        fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b+c+d+e\"]}"),
+                "decisions[2].alternatives[0]", "clusters on 5 columns; at most 4");
         fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b\", "
                 + "\"cluster: a + b\"]}"), "decisions[2].alternatives[1]", "\"cluster:a+b\" is listed twice");
         fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"two\", "

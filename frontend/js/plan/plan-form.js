@@ -142,11 +142,11 @@ class Fields {
     return field;
   }
 
-  column(path, label, value, write, none = null) {
+  column(path, label, value, write, none = null, restructure = false) {
     const options = none ? [{ value: '', text: none }] : [{ value: '', text: 'choose a column' }];
     for (const c of this.columns) options.push({ value: c.name, text: `${c.name} (${c.type})` });
     if (value && !this.columns.some((c) => c.name === value)) options.push({ value, text: `${value} (not in the data)` });
-    return this.select(path, label, options, value || '', write);
+    return this.select(path, label, options, value || '', write, restructure);
   }
 
   /**
@@ -286,9 +286,19 @@ function errorType(f, d, j, p, row) {
     d.alternatives[j] = v === 'cluster' ? 'cluster:' : v;
   }, true));
   if (cluster) {
-    row.append(f.column(`${p}.cluster`, 'Clusters', text.slice('cluster:'.length), (v) => {
-      d.alternatives[j] = `cluster:${v}`;
-    }));
+    // cluster:a+b is multi-way clustering: one field per column, and one more to add a column
+    const names = text.slice('cluster:'.length).split('+').map((n) => n.trim());
+    const write = () => { d.alternatives[j] = `cluster:${names.filter((n) => n).join('+')}`; };
+    names.forEach((name, c) => {
+      row.append(f.column(c === 0 ? `${p}.cluster` : `${p}.cluster-${c + 1}`, c === 0 ? 'Clusters' : 'and',
+        name, (v) => { names[c] = v; write(); }, c === 0 ? null : 'no further column', true));
+    });
+    if (names[0]) {
+      row.append(f.column(`${p}.cluster-${names.length + 1}`, 'and (multi-way)', '', (v) => {
+        names.push(v);
+        write();
+      }, 'no further column', true));
+    }
   }
 }
 

@@ -43,7 +43,7 @@ final class EstimateCommand {
         } catch (PlanException e) {
             throw RunCommand.located(planName, e);
         }
-        NullDrawSettings.of(plan).check((int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1,
+        NullDrawSettings.of(plan).check(plan, (int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1,
                 Integer.MAX_VALUE), a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());

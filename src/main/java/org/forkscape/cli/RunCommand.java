@@ -66,7 +66,7 @@ final class RunCommand {
         }
         plan = options(plan, a);
         NullDrawSettings nullSettings = NullDrawSettings.of(plan);
-        nullSettings.check((int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1, Integer.MAX_VALUE),
+        nullSettings.check(plan, (int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1, Integer.MAX_VALUE),
                 a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());

@@ -72,7 +72,7 @@ final class VerifyCommand {
         Plan plan = recordedPlan(readPlan(planText, dataFolder(planText, folder, provenance, recordedHash)), summary,
                 provenance.path("seed").asLong());
         NullDrawSettings nullSettings = NullDrawSettings.of(plan);
-        nullSettings.check(Integer.MAX_VALUE, "plan.json, nullDraws", "plan.json, nullCluster");
+        nullSettings.check(plan, Integer.MAX_VALUE, "plan.json, nullDraws", "plan.json, nullCluster");
         Table table = new CsvTableReader().read(plan.dataFile());
         int threads = Runtime.getRuntime().availableProcessors();
         RunPipeline pipeline = new RunPipeline(threads).refusingMemoryAbove(MemoryEstimate.defaultLimit(),

@@ -3,7 +3,11 @@ package org.forkscape.fit;
 import java.util.HashMap;
 import java.util.Map;
 
-/** The code of each row of a variant in every cluster column an error type names (-1 where missing), and the number of clusters. */
+/**
+ * The code of each row of a variant in every cluster column an error type names and in every intersection
+ * of columns a multi-way error type needs ({@link ClusterComponents}; -1 where missing), and the number of
+ * clusters.
+ */
 final class ClusterCodes {
     /** Per cluster column name: one code per variant row. */
     final Map<String, int[]> codes = new HashMap<>();
@@ -13,15 +17,21 @@ final class ClusterCodes {
     /** The cluster codes at the table rows {@code rows}. */
     ClusterCodes(CompiledPlan plan, int[] rows) {
         for (CompiledPlan.ClusterColumn cluster : plan.clusterColumns) {
-            int[] all = LevelCodes.of(cluster.column());
-            int[] out = new int[rows.length];
-            int max = -1;
-            for (int i = 0; i < rows.length; i++) {
-                out[i] = all[rows[i]];
-                max = Math.max(max, out[i]);
-            }
-            codes.put(cluster.column().name(), out);
-            counts.put(cluster.column().name(), max + 1);
+            put(cluster.column().name(), LevelCodes.of(cluster.column()), rows);
         }
+        for (ClusterComponents.Component intersection : plan.clusterIntersections) {
+            put(intersection.key(), ClusterComponents.codes(plan.table, intersection.columns()), rows);
+        }
+    }
+
+    private void put(String key, int[] all, int[] rows) {
+        int[] out = new int[rows.length];
+        int max = -1;
+        for (int i = 0; i < rows.length; i++) {
+            out[i] = all[rows[i]];
+            max = Math.max(max, out[i]);
+        }
+        codes.put(key, out);
+        counts.put(key, max + 1);
     }
 }

@@ -70,9 +70,11 @@ final class CompiledPlan {
     final ControlDecision[] controls;
     final CodedControl[] codedControls;
     final ErrorType[] errorTypes;
-    /** Per error type: the bit of its cluster column's variable (0 when it names none). */
+    /** Per error type: the bits of its cluster columns' variables (0 when it names none). */
     final long[] errorBits;
     final ClusterColumn[] clusterColumns;
+    /** The intersections of several cluster columns that multi-way error types need, each once. */
+    final List<ClusterComponents.Component> clusterIntersections;
     /** Per absorb alternative: the column whose fixed effects it absorbs, null when it absorbs none. */
     final Column[] absorbColumns;
     /** Per absorb alternative: the bits of the variables of every column it names. */
@@ -128,8 +130,7 @@ final class CompiledPlan {
             }
         }
         List<ErrorType> types = errorsAt < 0 ? List.of() : ((Decision.Errors) ds.get(errorsAt)).alternatives();
-        List<String> clusterNames = types.stream().filter(t -> t.kind() == ErrorType.Kind.CLUSTER)
-                .map(ErrorType::clusterColumn).distinct().toList();
+        List<String> clusterNames = types.stream().flatMap(t -> t.clusterColumns().stream()).distinct().toList();
         List<AbsorbChoice> absorbChoices = absorbAt < 0 ? List.of() : ((Decision.Absorb) ds.get(absorbAt)).alternatives();
         List<String> absorbNames = absorbChoices.stream().flatMap(a -> a.columns().stream()).distinct().toList();
         layout = new ModelColumns(outcomeChoices.stream().map(VariableChoice::column).toList(),
@@ -161,10 +162,12 @@ final class CompiledPlan {
         errorTypes = types.toArray(new ErrorType[0]);
         errorBits = new long[errorTypes.length];
         for (int e = 0; e < errorTypes.length; e++) {
-            if (errorTypes[e].kind() == ErrorType.Kind.CLUSTER) {
-                errorBits[e] = bit(errorTypes[e].clusterColumn());
+            for (String name : errorTypes[e].clusterColumns()) {
+                errorBits[e] |= bit(name);
             }
         }
+        clusterIntersections = types.stream().filter(ErrorType::multiway)
+                .flatMap(t -> ClusterComponents.of(t).stream()).filter(c -> c.columns().size() > 1).distinct().toList();
         clusterColumns = clusterNames.stream().map(name -> new ClusterColumn(table.column(name), bit(name)))
                 .toArray(ClusterColumn[]::new);
         absorbColumns = new Column[absorbChoices.size()];

@@ -13,7 +13,8 @@ import org.forkscape.plan.ErrorType;
  * are then sum_i e_i^2 W_ij^2 (HC0, White 1980, Econometrica 48(4)), times N/(N-K) (HC1), with each term
  * divided by 1-h_i or (1-h_i)^2 (HC2, HC3; MacKinnon &amp; White 1985, J. Econometrics 29(3)), and
  * G/(G-1) (N-1)/(N-K) sum over clusters of (sum_i e_i W_ij)^2 (CR1; Cameron &amp; Miller 2015, J. Human
- * Resources 50(2)); classical ones are s^2 (X'X)^-1, with s^2 (1/n + xbar'(X'X)^-1 xbar) for the intercept.
+ * Resources 50(2)), for multi-way clustering the signed sum of that over the intersections of its columns
+ * ({@link ClusterComponents}); classical ones are s^2 (X'X)^-1, with s^2 (1/n + xbar'(X'X)^-1 xbar) for the intercept.
  * The leverage h_i = 1/n_level + x_i'(X'X)^-1 x_i is that of the model with explicit intercept or dummies.
  */
 final class EveryCoefficient {
@@ -26,8 +27,13 @@ final class EveryCoefficient {
      */
     static FullFit of(DataVariant variant, Moments mom, DesignRows rows, KeySolution s, ErrorType errors, int yCol,
             double confidence, String keyTerm) {
-        int clusterCount = errors.kind() == ErrorType.Kind.CLUSTER ? variant.clusterCounts.get(errors.clusterColumn())
-                : 0;
+        List<ClusterComponents.Component> components = errors.kind() == ErrorType.Kind.CLUSTER
+                ? ClusterComponents.of(errors) : List.of();
+        int parts = components.size();
+        int[][] clusterCodes = new int[parts][];
+        for (int c = 0; c < parts; c++) {
+            clusterCodes[c] = variant.clusters.get(components.get(c).key());
+        }
         int n = rows.n;
         int p = s.p;
         boolean intercept = !variant.absorbs;
@@ -47,9 +53,15 @@ final class EveryCoefficient {
         // per row: t = M x_i, W_i = M't, the residual and the leverage; accumulate each coefficient's meat
         int q = p + (intercept ? 1 : 0);
         double[] meat = new double[q];
-        double[][] clusterScore = errors.kind() == ErrorType.Kind.CLUSTER ? new double[clusterCount][q] : null;
-        boolean[] clusterSeen = clusterScore == null ? null : new boolean[clusterCount];
-        int clusters = 0;
+        // per component clustering (one for one-way errors): each cluster's score, and the clusters seen
+        double[][][] clusterScore = new double[parts][][];
+        boolean[][] clusterSeen = new boolean[parts][];
+        int[] clusters = new int[parts];
+        for (int c = 0; c < parts; c++) {
+            int count = variant.clusterCounts.get(components.get(c).key());
+            clusterScore[c] = new double[count][q];
+            clusterSeen[c] = new boolean[count];
+        }
         double[] t = new double[p];
         double[] w = new double[q];
         double[] m = s.m;
@@ -88,14 +100,17 @@ final class EveryCoefficient {
                 }
                 divisor = errors.kind() == ErrorType.Kind.HC2 ? 1 - h : (1 - h) * (1 - h);
             }
-            if (clusterScore != null) {
-                int g = rows.cluster[i];
-                if (!clusterSeen[g]) {
-                    clusterSeen[g] = true;
-                    clusters++;
-                }
-                for (int c = 0; c < q; c++) {
-                    clusterScore[g][c] += e * w[c];
+            if (parts > 0) {
+                for (int part = 0; part < parts; part++) {
+                    int g = clusterCodes[part][rows.source[i]];
+                    if (!clusterSeen[part][g]) {
+                        clusterSeen[part][g] = true;
+                        clusters[part]++;
+                    }
+                    double[] score = clusterScore[part][g];
+                    for (int c = 0; c < q; c++) {
+                        score[c] += e * w[c];
+                    }
                 }
             } else {
                 for (int c = 0; c < q; c++) {
@@ -107,6 +122,7 @@ final class EveryCoefficient {
 
         double sigma2 = s.rss / dfResidual;
         double df = dfResidual;
+        int clusterTotal = 0;
         double[] variance = new double[q];
         switch (errors.kind()) {
             case CLASSICAL -> {
@@ -136,16 +152,34 @@ final class EveryCoefficient {
                 }
             }
             case CLUSTER -> {
-                double adjust = (double) clusters / (clusters - 1) * (n - 1.0) / (n - k);
-                for (double[] score : clusterScore) {
+                // one-way CR1 per component, added with the component's sign (multi-way: Cameron, Gelbach
+                // & Miller 2011, Journal of Business & Economic Statistics 29(2)); a sum that is not positive
+                // has no standard error (NaN)
+                int fewest = Integer.MAX_VALUE;
+                double[] part = new double[q];
+                for (int j = 0; j < parts; j++) {
+                    java.util.Arrays.fill(part, 0);
+                    for (double[] score : clusterScore[j]) {
+                        for (int c = 0; c < q; c++) {
+                            part[c] += score[c] * score[c];
+                        }
+                    }
+                    double adjust = components.get(j).sign() * (double) clusters[j] / (clusters[j] - 1)
+                            * (n - 1.0) / (n - k);
                     for (int c = 0; c < q; c++) {
-                        variance[c] += score[c] * score[c];
+                        variance[c] += part[c] * adjust;
+                    }
+                    if (components.get(j).columns().size() == 1) {
+                        fewest = Math.min(fewest, clusters[j]);
                     }
                 }
                 for (int c = 0; c < q; c++) {
-                    variance[c] *= adjust;
+                    if (!(variance[c] > 0)) {
+                        variance[c] = Double.NaN;
+                    }
                 }
-                df = clusters - 1;
+                clusterTotal = fewest;
+                df = fewest - 1;
             }
             default -> throw new IllegalStateException("unknown error type " + errors);
         }
@@ -172,7 +206,7 @@ final class EveryCoefficient {
         double f = k > 1 ? ((tss - s.rss) / (k - 1)) / sigma2 : Double.NaN;
         double modelP = k > 1 ? Distributions.fUpperP(f, k - 1, dfResidual) : Double.NaN;
         return new FullFit(out, errors.label(), df, n, k, variant.absorbs ? variant.absorbColumn : "",
-                variant.absorbs ? mom.levelsPresent : 0, clusters, r2, 1 - (1 - r2) * (n - 1.0) / dfResidual, f,
+                variant.absorbs ? mom.levelsPresent : 0, clusterTotal, r2, 1 - (1 - r2) * (n - 1.0) / dfResidual, f,
                 modelP, "ok", s.note());
     }
 

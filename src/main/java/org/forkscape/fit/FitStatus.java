@@ -17,6 +17,9 @@ public enum FitStatus {
     KEY_IN_CONTROLS("collinear: the key predictor %s is a linear combination of the controls"),
     ONE_CLUSTER("one cluster: cluster-robust errors need at least two"),
     /** Detail: the error type's label. */
+    VARIANCE_NOT_POSITIVE("undefined: the multi-way cluster variance for %s is not positive (the intersections' "
+            + "terms outweigh the others)"),
+    /** Detail: the error type's label. */
     LEVERAGE_ONE("undefined: leverage 1 for %s (a row fits perfectly, such as a fixed-effect level with one row)"),
     /** Detail: the iteration limit. */
     NOT_CONVERGED("not converged after %s iterations"),

@@ -43,6 +43,12 @@ public record KeyFit(double estimate, double stdError, double df, int nObs, int 
                 ModelFamily.OLS, estimate, stdError, Double.NaN);
     }
 
+    /** This least-squares fit with the standard error, df, status, detail, note and route given. */
+    KeyFit withError(double stdError, double df, FitStatus status, String detail, String note, VarianceRoute route) {
+        return new KeyFit(estimate, stdError, df, nObs, nParams, r2, rss, modelF, status, detail, note, refitByQr, route,
+                sdRatio);
+    }
+
     public static KeyFit failed(FitStatus status, String detail, int nObs, int nParams) {
         return failed(ModelFamily.OLS, status, detail, nObs, nParams);
     }

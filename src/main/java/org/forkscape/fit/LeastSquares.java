@@ -77,6 +77,11 @@ public final class LeastSquares implements Estimator {
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     VarianceRoute.CLASSICAL, sdRatio);
         }
+        if (spec.errors().multiway()) {
+            return multiway(spec.errors(), data, mom, s, positions, y, refit,
+                    new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, FitStatus.OK, "",
+                            s.note(), refit, VarianceRoute.ROW_PASS, sdRatio));
+        }
         RowFreeSandwich.Meat free = data.momentRoutes() ? rowFreeMeat(variant, mom, s, y, spec.errors()) : null;
         if (free != null) {
             if (spec.errors().kind() == ErrorType.Kind.CLUSTER) {
@@ -105,6 +110,50 @@ public final class LeastSquares implements Estimator {
         }
         return new KeyFit(s.keyEstimate(), Math.sqrt(v.value()), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                 VarianceRoute.ROW_PASS, sdRatio);
+    }
+
+    /**
+     * Multi-way cluster-robust variance: the signed sum of the one-way CR1 variances of its components
+     * ({@link ClusterComponents}; Cameron, Gelbach &amp; Miller 2011, Journal of Business &amp; Economic
+     * Statistics 29(2)), each from the cheapest exact one-way route, with df = the fewest clusters of one
+     * column, minus 1. A sum that is not positive has no standard error; its status says so.
+     *
+     * @param fit the fit without its standard error (not modified; the result is a copy)
+     */
+    private KeyFit multiway(ErrorType type, FitData data, Moments mom, KeySolution s, int[] positions, int y,
+            boolean refit, KeyFit fit) {
+        int n = fit.nObs();
+        int k = fit.nParams();
+        double variance = 0;
+        int fewest = Integer.MAX_VALUE;
+        VarianceRoute route = VarianceRoute.CLUSTER_CELLS;
+        for (ClusterComponents.Component c : ClusterComponents.of(type)) {
+            ErrorType one = c.oneWay();
+            RowFreeSandwich.Meat free = data.momentRoutes() ? rowFreeMeat(data.variant(), mom, s, y, one) : null;
+            double part;
+            int g;
+            if (free != null) {
+                g = free.clusters();
+                part = g < 2 ? Double.NaN : free.value() * g / (g - 1) * (n - 1.0) / (n - k);
+            } else {
+                KeyCoefficientSandwich.Variance v = sandwich.variance(
+                        data.sandwichRows(mom, s, positions, y, one, refit), s, one, k);
+                g = v.clusters();
+                part = v.value();
+                route = VarianceRoute.ROW_PASS;
+            }
+            if (g < 2) {
+                return fit.withError(Double.NaN, Double.NaN, FitStatus.ONE_CLUSTER, "", "", route);
+            }
+            if (c.columns().size() == 1) {
+                fewest = Math.min(fewest, g);
+            }
+            variance += c.sign() * part;
+        }
+        if (!(variance > 0)) {
+            return fit.withError(Double.NaN, fewest - 1, FitStatus.VARIANCE_NOT_POSITIVE, type.label(), "", route);
+        }
+        return fit.withError(Math.sqrt(variance), fewest - 1, FitStatus.OK, "", fit.note(), route);
     }
 
     /** Every coefficient from a QR refit of the specification's rows ({@link EveryCoefficient}). */

@@ -42,10 +42,16 @@ public final class ObservedRows implements FitData {
     @Override
     public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
             ErrorType errors, boolean refit) {
+        int[] codes = clusterCodes(errors);
         if (refit) {
+            if (codes != null) {
+                // a multi-way error type reads the refit rows once per component clustering
+                for (int i = 0; i < rows.n; i++) {
+                    rows.cluster[i] = codes[rows.source[i]];
+                }
+            }
             return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows));
         }
-        int[] codes = clusterCodes(errors);
         int count = codes == null ? 0 : variant.clusterCounts.get(errors.clusterColumn());
         return view.over(variant.shifted, s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
                 count);
@@ -62,7 +68,7 @@ public final class ObservedRows implements FitData {
     }
 
     private int[] clusterCodes(ErrorType errors) {
-        return errors.kind() == ErrorType.Kind.CLUSTER ? variant.clusters.get(errors.clusterColumn()) : null;
+        return errors.clusterColumn() != null ? variant.clusters.get(errors.clusterColumn()) : null;
     }
 
     private static int clusterCountOf(DesignRows rows) {

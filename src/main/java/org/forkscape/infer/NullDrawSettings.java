@@ -37,15 +37,23 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
     }
 
     /**
-     * Refuses settings that cannot run.
+     * Refuses settings that cannot run: more draws than the cap, draws on a plan whose errors cluster on
+     * several columns (a resampled copy of a cluster would have to be a new cluster in some of them and not
+     * in others, which the draws do not model), whole clusters with the permutation.
      *
      * @param drawsWhere   the plan key or command-line option the number of draws came from, for the message
      * @param clusterWhere likewise for the cluster column
      */
-    public void check(int maxDraws, String drawsWhere, String clusterWhere) {
+    public void check(Plan plan, int maxDraws, String drawsWhere, String clusterWhere) {
         if (draws > maxDraws) {
             throw new InputException(drawsWhere, String.format("%,d null draws are above the cap of %,d; ask for "
                     + "fewer, or raise the cap with --max-null-draws", draws, maxDraws));
+        }
+        String multiway = plan.multiwayClusterPath();
+        if (draws > 0 && multiway != null) {
+            throw new InputException(drawsWhere, "null draws are not computed yet for errors clustered on several "
+                    + "columns (" + multiway + "); ask for no null draws, or make that error type one-way, as in "
+                    + "cluster:COLUMN");
         }
         if (draws > 0 && method == NullMethod.PERMUTE && clusterColumn != null) {
             throw new InputException(clusterWhere, "whole clusters are resampled by the bootstrap only; the "

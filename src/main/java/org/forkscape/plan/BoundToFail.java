@@ -40,16 +40,21 @@ final class BoundToFail {
                 continue;
             }
             Set<String> columns = new LinkedHashSet<>();
+            String single = null;
             for (ErrorType t : e.alternatives()) {
-                if (t.kind() != ErrorType.Kind.CLUSTER || distinct(table.column(t.clusterColumn()), null) >= 2) {
+                // a multi-way type has one cluster when any of its columns has, as a one-way type on it has
+                String lone = t.kind() != ErrorType.Kind.CLUSTER ? null : t.clusterColumns().stream()
+                        .filter(c -> distinct(table.column(c), null) < 2).findFirst().orElse(null);
+                if (lone == null) {
                     return;
                 }
-                columns.add(InputException.quoted(t.clusterColumn()));
+                columns.add(InputException.quoted(lone));
+                single = lone;
             }
             String named = e.alternatives().size() == 1
                     ? "its errors cluster on " + columns.iterator().next() + ", which has "
-                            + (distinct(table.column(e.alternatives().get(0).clusterColumn()), null) == 0
-                                    ? "no value" : "a single value") + " in the data"
+                            + (distinct(table.column(single), null) == 0 ? "no value" : "a single value")
+                            + " in the data"
                     : "every error type clusters on a column with at most one value in the data ("
                             + String.join(", ", columns) + ")";
             throw new PlanException("decisions[" + i + "]", "every specification is bound to fail: " + named

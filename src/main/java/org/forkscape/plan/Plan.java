@@ -64,7 +64,24 @@ public record Plan(
     /** The columns the errors decision's cluster-robust alternatives cluster on, distinct, in plan order. */
     public List<String> errorClusterColumns() {
         return all(Decision.Errors.class).stream().flatMap(e -> e.alternatives().stream())
-                .filter(t -> t.kind() == ErrorType.Kind.CLUSTER).map(ErrorType::clusterColumn).distinct().toList();
+                .flatMap(t -> t.clusterColumns().stream()).distinct().toList();
+    }
+
+    /**
+     * Where the first error type that clusters on several columns is, as {@code decisions[i].alternatives[j]}
+     * followed by its spelling, or {@code null} when none does.
+     */
+    public String multiwayClusterPath() {
+        for (int i = 0; i < decisions.size(); i++) {
+            if (decisions.get(i) instanceof Decision.Errors e) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    if (e.alternatives().get(j).multiway()) {
+                        return "decisions[" + i + "].alternatives[" + j + "], " + e.alternatives().get(j).label();
+                    }
+                }
+            }
+        }
+        return null;
     }
 
     /** The models the specifications fit: the model decision's alternatives, or least squares alone. */

@@ -39,8 +39,16 @@ public final class PlanChecker {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
                     String p = path + ".alternatives[" + j + "]";
-                    if (t.kind() == ErrorType.Kind.CLUSTER) {
-                        problems.attempt(() -> existing(t.clusterColumn(), p, table));
+                    for (String column : t.clusterColumns()) {
+                        problems.attempt(() -> existing(column, p, table));
+                    }
+                    if (t.multiway() && plan.generalized()) {
+                        problems.attempt(() -> {
+                            throw new PlanException(p, InputException.quoted(t.label()) + ": clustering on several "
+                                    + "columns is computed for least squares (ols) only, not yet for logit, probit or "
+                                    + "poisson; cluster on one column, or fit these specifications in a plan whose "
+                                    + "model decision is ols alone");
+                        });
                     }
                 }
             } else if (d instanceof Decision.Model m) {

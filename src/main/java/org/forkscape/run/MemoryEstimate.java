@@ -8,6 +8,7 @@ import java.util.Map;
 import org.forkscape.InputException;
 import org.forkscape.data.Column;
 import org.forkscape.data.Table;
+import org.forkscape.fit.ClusterComponents;
 import org.forkscape.fit.LevelCodes;
 import org.forkscape.fit.MemoryFootprint;
 import org.forkscape.fit.ModelColumns;
@@ -158,7 +159,9 @@ public final class MemoryEstimate {
         for (Decision.Errors e : plan.all(Decision.Errors.class)) {
             for (ErrorType t : e.alternatives()) {
                 if (t.kind() == ErrorType.Kind.CLUSTER) {
-                    clusterCodes.put(t.clusterColumn(), LevelCodes.of(table.column(t.clusterColumn())));
+                    for (ClusterComponents.Component c : ClusterComponents.of(t)) {
+                        clusterCodes.computeIfAbsent(c.key(), k -> ClusterComponents.codes(table, c.columns()));
+                    }
                 }
             }
         }

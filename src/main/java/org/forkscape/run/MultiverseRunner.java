@@ -201,7 +201,8 @@ public final class MultiverseRunner {
             columns += m.controlColumns().length + 1;
             switch (m.errors().kind()) {
                 case HC0, HC1 -> hc++;
-                case CLUSTER -> clusters.merge(m.errors().clusterColumn(), 1L, Long::sum);
+                case CLUSTER -> org.forkscape.fit.ClusterComponents.of(m.errors())
+                        .forEach(part -> clusters.merge(part.key(), 1L, Long::sum));
                 default -> {
                 }
             }

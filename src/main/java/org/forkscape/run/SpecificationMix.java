@@ -5,6 +5,7 @@ import java.util.HashSet;
 import java.util.Map;
 import java.util.Set;
 import java.util.SplittableRandom;
+import org.forkscape.fit.ClusterComponents;
 import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.plan.Decision;
@@ -97,9 +98,11 @@ final class SpecificationMix {
                 case HC2, HC3 -> v.robust++;
                 case CLUSTER -> {
                     v.robust++;
-                    v.clusterSpecifications.merge(m.errors().clusterColumn(), 1L, Long::sum);
-                    v.clusterSeen.merge(m.errors().clusterColumn(), 1L, Long::sum);
-                    v.clusterMasks.computeIfAbsent(m.errors().clusterColumn(), k -> new HashSet<>()).add(mask);
+                    for (ClusterComponents.Component c : ClusterComponents.of(m.errors())) {
+                        v.clusterSpecifications.merge(c.key(), 1L, Long::sum);
+                        v.clusterSeen.merge(c.key(), 1L, Long::sum);
+                        v.clusterMasks.computeIfAbsent(c.key(), k -> new HashSet<>()).add(mask);
+                    }
                 }
                 default -> {
                 }

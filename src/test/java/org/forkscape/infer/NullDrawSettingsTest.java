@@ -3,21 +3,28 @@ package org.forkscape.infer;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import org.forkscape.InputException;
+import org.forkscape.plan.Plan;
 import org.junit.jupiter.api.Test;
 
 /** Which unit the null draws take from the plan's keys and its errors decision. */
 class NullDrawSettingsTest {
     private static NullDrawSettings of(String errors, String keys) {
-        return NullDrawSettings.of(Scenarios.plan("""
+        return NullDrawSettings.of(plan(errors, keys));
+    }
+
+    private static Plan plan(String errors, String keys) {
+        return Scenarios.plan("""
                 {"data": "simulated.csv", "nullDraws": 10, %s
                  "decisions": [
                    {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
                    {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
                    {"name": "errors", "kind": "errors", "alternatives": [%s]}
                  ]}
-                """.formatted(keys, errors)));
+                """.formatted(keys, errors));
     }
 
     @Test
@@ -42,8 +49,18 @@ class NullDrawSettingsTest {
         assertNull(of("\"classical\", \"HC1\"", "").clusterColumn());
         assertNull(of("\"cluster:g\", \"cluster:district\"", "").clusterColumn());
         assertNull(of("\"cluster:g\"", "\"nullMethod\": \"permute\",").clusterColumn());
-        of("\"cluster:g\"", "\"nullMethod\": \"permute\",").check(100, "nullDraws", "nullCluster");
-        of("\"cluster:g\"", "\"nullMethod\": \"permute\", \"nullCluster\": \"rows\",").check(100, "nullDraws",
+        of("\"cluster:g\"", "\"nullMethod\": \"permute\",").check(plan("\"cluster:g\"", ""), 100, "nullDraws",
                 "nullCluster");
+        of("\"cluster:g\"", "\"nullMethod\": \"permute\", \"nullCluster\": \"rows\",").check(plan("\"cluster:g\"", ""),
+                100, "nullDraws", "nullCluster");
+    }
+
+    @Test
+    void drawsAreRefusedWhenTheErrorsClusterOnSeveralColumns() {
+        Plan twoWay = plan("\"HC1\", \"cluster:g+district\"", "");
+        InputException e = assertThrows(InputException.class,
+                () -> NullDrawSettings.of(twoWay).check(twoWay, 100, "nullDraws", "nullCluster"));
+        assertEquals("nullDraws", e.where());
+        assertTrue(e.getMessage().contains("decisions[2].alternatives[1], cluster:g+district"), e.getMessage());
     }
 }

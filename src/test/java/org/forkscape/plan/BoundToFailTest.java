@@ -48,6 +48,11 @@ class BoundToFailTest {
         assertTrue(refused(plan(column("turnout"), column("canvass"), "\"cluster:borough\", \"cluster:flat\""))
                 .problem().contains("every error type clusters on a column with at most one value in the data "
                         + "(\"borough\", \"flat\")"));
+        // a multi-way type has a single cluster when one of its columns has
+        assertTrue(refused(plan(column("turnout"), column("canvass"), "\"cluster:district+borough\""))
+                .problem().contains("its errors cluster on \"borough\", which has a single value"));
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("turnout"), column("canvass"),
+                "\"cluster:district+canvass\""), WARDS));
         // one error type that can be computed is enough for the run to fit something
         assertDoesNotThrow(() -> PlanChecker.check(plan(column("turnout"), column("canvass"),
                 "\"cluster:borough\", \"HC1\""), WARDS));

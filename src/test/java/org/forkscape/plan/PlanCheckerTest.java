@@ -93,6 +93,20 @@ class PlanCheckerTest {
     }
 
     @Test
+    void everyColumnOfAMultiWayClusterIsCheckedAndGeneralizedModelsAreRefused() {
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"cluster:district+sectr\"]}"),
+                "decisions[2].alternatives[1]", "\"sectr\" is not a column of schools.csv; did you mean \"sector\"?");
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:district+sector\"]}"), SCHOOLS));
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:district\", "
+                        + "\"cluster:district+sector\"]}",
+                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]}"),
+                "decisions[2].alternatives[1]", "least squares (ols) only");
+    }
+
+    @Test
     void nothingIsSuggestedWhenNoNameIsClose() {
         PlanException e = assertThrows(PlanException.class,
                 () -> PlanChecker.check(plan(column("rainfall_total"), column("tutoring")), SCHOOLS));

@@ -344,6 +344,20 @@ class PlanReaderTest {
     }
 
     @Test
+    void severalClusterColumnsAreJoinedWithPlus() {
+        Plan p = new PlanReader(false).read(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": "
+                + "[\"cluster:school\", \"cluster: school + term \", \"cluster:term+school+ward\"]}"), Path.of("."));
+        List<ErrorType> types = ((Decision.Errors) p.decisions().get(2)).alternatives();
+        assertEquals(List.of("cluster:school", "cluster:school+term", "cluster:term+school+ward"),
+                types.stream().map(ErrorType::label).toList());
+        assertEquals(List.of("school", "term"), types.get(1).clusterColumns());
+        assertEquals("school", types.get(0).clusterColumn());
+        assertEquals(null, types.get(1).clusterColumn());
+        assertEquals(List.of(false, true, true), types.stream().map(ErrorType::multiway).toList());
+        assertEquals("decisions[2].alternatives[1], cluster:school+term", p.multiwayClusterPath());
+    }
+
+    @Test
     void sampleErrorsAndAbsorbRulesAreChecked() {
         fails(plan("", "{\"name\": \"r\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"a\", \"keep\": \"x > 1\", "
                 + "\"trim\": {\"column\": \"x\", \"z\": 3}}]}"), "decisions[2].alternatives[0]", "not both");
@@ -355,6 +369,14 @@ class PlanReaderTest {
                 "decisions[2].alternatives[0]", "unknown standard error type \"HC4\"");
         fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:\"]}"),
                 "decisions[2].alternatives[0]", "as in cluster:school");
+        fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:school+\"]}"),
+                "decisions[2].alternatives[0]", "an empty cluster column in \"cluster:school+\"");
+        fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:school + term+school\"]}"),
+                "decisions[2].alternatives[0]", "\"school\" is named twice");
+        fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b+c+d+e\"]}"),
+                "decisions[2].alternatives[0]", "clusters on 5 columns; at most 4");
+        fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b\", "
+                + "\"cluster: a + b\"]}"), "decisions[2].alternatives[1]", "\"cluster:a+b\" is listed twice");
         fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"two\", "
                 + "\"columns\": [\"a\", \"b\"]}]}"), "decisions[2].alternatives[0].columns", "not supported yet");
         fails(plan("\"missing\": \"listwise\""), "missing", "\"per-specification\" or \"common\"");

@@ -114,6 +114,15 @@ class ExplorerBrowserTest {
         press(wait, "Add an alternative to errors");
         choose(wait, "decisions[3].alternatives[1]", "cluster");
         choose(wait, "decisions[3].alternatives[1].cluster", "district");
+        // a second column makes it two-way clustering, written cluster:a+b; choosing none again removes it
+        choose(wait, "decisions[3].alternatives[1].cluster-2", "region");
+        wait.until(d -> ((String) driver.executeScript("return document.getElementById('plan-json').value"))
+                .contains("\"cluster:district+region\""));
+        assertEquals("region", new Select(field(wait, "decisions[3].alternatives[1].cluster-2"))
+                .getFirstSelectedOption().getAttribute("value"));
+        choose(wait, "decisions[3].alternatives[1].cluster-2", "");
+        wait.until(d -> ((String) driver.executeScript("return document.getElementById('plan-json').value"))
+                .contains("\"cluster:district\""));
         addDecision(wait, "sample");
         press(wait, "Add an alternative to rows");
         type(wait, "decisions[4].alternatives[1].label", "urban");

@@ -55,7 +55,7 @@ public record ServerLimits(long maxSpecifications, int maxNullDraws, long maxMem
             throw new PlanException("nullDraws", String.format("%,d null draws are above this server's limit of %,d "
                     + "per run (setting forkscape.runs.max-null-draws); ask for fewer", plan.nullDraws(), maxNullDraws));
         }
-        NullDrawSettings.of(plan).check(Integer.MAX_VALUE, "nullDraws", "nullCluster");
+        NullDrawSettings.of(plan).check(plan, Integer.MAX_VALUE, "nullDraws", "nullCluster");
         MemoryEstimate.of(plan, table, threads).refuseAbove(maxMemory, "fit a seeded random sample of the "
                 + "specifications (" + FormFields.SAMPLE + "), or have this server's limit raised (setting "
                 + "forkscape.runs.max-memory, and its Java heap with -Xmx)");

@@ -78,6 +78,7 @@ public final class CommandLine {
             }
             switch (command) {
                 case "run" -> RunCommand.execute(args, out, err);
+                case "report" -> ReportCommand.execute(args, out);
                 case "verify" -> {
                     return VerifyCommand.execute(args, out, err);
                 }

@@ -33,6 +33,11 @@ import org.jfree.svg.SVGHints;
 public final class CurvePainter {
     private static final double PAD = 4;
     private static final double LABEL_SHARE = 0.36;
+    /**
+     * Text is set to this share of the width it may take: an SVG or PDF viewer's text can come out a few
+     * per cent wider than Java's metrics measured it (hinting, rounding).
+     */
+    private static final double TEXT_SLACK = 0.96;
     private static final String[] SHAPES = {"circle", "rect", "triangle", "diamond"};
 
     private final CurveFigure figure;
@@ -65,7 +70,7 @@ public final class CurvePainter {
         this.left = Math.min(width * LABEL_SHARE, Math.max(labels, metrics.stringWidth("-0.0000") + 2 * PAD));
         this.plotWidth = width - left - PAD;
         double line = lineHeight();
-        this.axisLines = wrap(figure.axisLabel(), width - 2 * PAD);
+        this.axisLines = wrap(figure.axisLabel(), (width - 2 * PAD) * TEXT_SLACK);
         this.curveTop = PAD + line * (axisLines.size() + 0.4) + (figure.shown().grouped() ? line : 0);
         this.curveBottom = curveTop + size.curveHeight();
         this.gridTop = curveBottom + PAD;
@@ -76,7 +81,7 @@ public final class CurvePainter {
         this.legendTop = gridTop + gridHeight + PAD;
         double legendHeight = figure.colourFactor() < 0 ? 0 : legendLines() * line + PAD;
         this.captionTop = legendTop + legendHeight;
-        this.captionLines = wrap(String.join(" ", figure.caption()), width - 2 * PAD);
+        this.captionLines = wrap(String.join(" ", figure.caption()), (width - 2 * PAD) * TEXT_SLACK);
         this.height = captionTop + captionLines.size() * line + PAD;
         double[] range = range();
         this.low = range[0];

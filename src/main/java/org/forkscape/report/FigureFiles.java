@@ -19,6 +19,7 @@ import org.forkscape.Version;
 import org.jfree.svg.SVGGraphics2D;
 import org.jfree.svg.SVGHints;
 import org.jfree.svg.SVGUnits;
+import org.jfree.svg.ViewBox;
 
 /**
  * The figure in its three formats, each from one {@link CurvePainter}: SVG through JFreeSVG, PDF through
@@ -79,7 +80,10 @@ public final class FigureFiles {
         SVGGraphics2D g = new SVGGraphics2D(painter.width(), painter.height(), SVGUnits.PT);
         g.setRenderingHint(SVGHints.KEY_DRAW_STRING_TYPE, SVGHints.VALUE_DRAW_STRING_TYPE_STANDARD);
         painter.paint(g);
-        return "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n" + g.getSVGElement("forkscape-figure") + "\n";
+        // the view box lets a page scale the figure (report.html draws it at the page's width)
+        return "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n" + g.getSVGElement("forkscape-figure", true,
+                new ViewBox(0, 0, painter.width(), painter.height()), null, null)
+                + "\n";
     }
 
     public static byte[] pdf(CurveFigure figure) {

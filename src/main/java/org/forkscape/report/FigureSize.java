@@ -12,13 +12,14 @@ import org.forkscape.InputException;
  *
  * @param word      the spelling on the command line and in requests
  * @param widthMm   the figure's width in millimetres
- * @param fontSize  the text size in points (captions and labels; 6 to 8 pt is what journals accept)
+ * @param fontSize  the text size in points (captions and labels; 6 to 8 pt is what journals accept), a whole
+ *                  number because JFreeSVG writes font sizes as whole numbers
  * @param curveHeight the height of the curve panel in points
  * @param rowHeight the height of one row of the choice grid in points
  */
 public enum FigureSize {
-    COLUMN("column", 89, 6.5f, 120, 7.5),
-    PAGE("page", 183, 7.5f, 190, 9);
+    COLUMN("column", 89, 7, 120, 8),
+    PAGE("page", 183, 8, 190, 9.5);
 
     /** PostScript points per millimetre (72 per inch, 25.4 mm per inch). */
     public static final double POINTS_PER_MM = 72 / 25.4;

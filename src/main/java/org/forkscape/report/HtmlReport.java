@@ -22,7 +22,7 @@ final class HtmlReport {
             "th:first-child, td:first-child { text-align: left; }",
             "thead th { border-bottom: 2px solid #1F1F1F; }",
             ".caution { border-left: 4px solid #8C3B12; padding: 0.5rem 1rem; background: #FAF6F0; }",
-            "figure { margin: 1rem 0; } figure svg { max-width: 100%; height: auto; }");
+            "figure { margin: 1rem 0; } figure svg { width: 100%; max-width: 40rem; height: auto; }");
 
     private HtmlReport() {
     }

@@ -63,7 +63,8 @@ final class MethodsText {
             s.add("Standard errors " + (errors.contains(ErrorType.Kind.CLASSICAL) ? "were classical or " : "were ")
                     + String.join("; ", robust) + ".");
         }
-        if (!plan.all(Decision.Absorb.class).isEmpty()) {
+        if (plan.all(Decision.Absorb.class).stream().flatMap(a -> a.alternatives().stream())
+                .anyMatch(c -> !c.columns().isEmpty())) {
             s.add("Absorbed fixed effects were removed by the within transformation, identical to including their "
                     + "dummies (Frisch & Waugh 1933, Econometrica 1(4); Lovell 1963, JASA 58(304)).");
         }

@@ -48,7 +48,19 @@ final class TableText {
                 + ": fitted specifications, median and quartiles of the estimates (type 7 quantiles), shares "
                 + "positive and significant at " + level + " confidence by sign, and the extreme bounds (the "
                 + "lowest lower and highest upper " + level + " interval bound" + (table.scale().hasInterval() ? ""
-                : "; none on the t scale, which has no interval") + ").";
+                : "; none on the t scale, which has no interval") + "). " + units(table);
+    }
+
+    /** The unit of each row: the rows of a scale with units are in different units and must not be compared. */
+    private static String units(HeadlineTable table) {
+        if (table.rows().size() == 1) {
+            return "Unit: " + table.rows().get(0).unit() + ".";
+        }
+        List<String> units = new ArrayList<>();
+        for (HeadlineTable.Row r : table.rows()) {
+            units.add(r.title() + ": " + r.unit());
+        }
+        return "Units (estimates of different rows are not comparable): " + String.join("; ", units) + ".";
     }
 
     static String testsCaption(HeadlineTable table) {

@@ -9,7 +9,6 @@ import static org.junit.jupiter.api.Assumptions.assumeTrue;
 import java.io.ByteArrayInputStream;
 import java.io.File;
 import java.io.IOException;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -161,6 +160,7 @@ class ReportCommandTest {
                 rows.add(cells);
             }
         }
+        assertTrue(Files.readString(out.resolve("table.md")).contains("Unit: turnout per unit of outreach (hours)."));
         assertEquals("Comparable group", rows.get(0).get(0));
         checkHeadline(rows.get(1), "%");
         assertEquals("Joint test", rows.get(2).get(0));
@@ -205,6 +205,9 @@ class ReportCommandTest {
         ReportFixture.report(folder, fitted, "--group", "1");
         String table = Files.readString(fitted.resolve("table.md"));
         assertTrue(table.contains("| turnout on hours | ") && table.contains("| turnout change on hours | "), table);
+        assertTrue(table.contains("Units (estimates of different rows are not comparable): turnout on hours: turnout "
+                + "per unit of outreach (hours); turnout change on hours: turnout change per unit of outreach (hours)."),
+                table);
         String caption = text(parse(fitted.resolve("figure.svg")));
         assertTrue(caption.contains("comparable group turnout change on hours"), caption);
     }
@@ -332,9 +335,5 @@ class ReportCommandTest {
         String path = System.getenv("PATH");
         return path != null && Arrays.stream(path.split(File.pathSeparator))
                 .anyMatch(d -> Files.isExecutable(Path.of(d, program)));
-    }
-
-    static String utf8(byte[] bytes) {
-        return new String(bytes, StandardCharsets.UTF_8);
     }
 }

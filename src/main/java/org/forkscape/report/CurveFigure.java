@@ -55,6 +55,11 @@ public record CurveFigure(RankedRun ranked, ShownSet shown, Curve curve, CurveSu
                 : ", comparable group " + group.title());
         lines.add(HumanNumbers.count(curve.count()) + " specifications, " + scale + "; vertical axis: "
                 + shown.unit() + ".");
+        if (r.leftOut() > 0) {
+            // as the explorer's note: a scale not defined for a model leaves its specifications out, never at 0
+            lines.add("The scale is defined for least squares only: " + HumanNumbers.count(r.leftOut())
+                    + " logit, probit or Poisson specifications of the run are left out.");
+        }
         List<String> filter = shown.filterWords(r);
         lines.add("Filter: " + (filter.isEmpty() ? "none (every fitted specification" + (group == null ? "" : " of the group") + ")"
                 : String.join("; ", filter)) + ". Order: " + shown.orderWords(r) + ".");

@@ -96,6 +96,22 @@ class FigureExportTest extends WebTest {
                 .getWidth(), 0.5);
     }
 
+    /** On the standardized scale a logit has no value: the caption counts those left out, as the curve does. */
+    @Test
+    void aScaleUndefinedForAModelLeavesItsSpecificationsOutAndSaysSo() throws Exception {
+        String models = upload("models.csv", CivicTestData.csvWithFollowUp(200, 4));
+        String modelRun = runToEnd(models, CivicTestData.modelPlan());
+        String at = "/api/analyses/" + models + "/runs/" + modelRun;
+        JsonNode curve = json(mvc.perform(get(at + "/curve").param("scale", "standardized")).andReturn().getResponse()
+                .getContentAsString());
+        assertEquals(8, curve.path("leftOut").asInt());
+        String svg = mvc.perform(get(at + "/figure").param("scale", "standardized")).andExpect(status().isOk())
+                .andReturn().getResponse().getContentAsString();
+        assertEquals(curve.path("curve").path("count").asInt(), svg.split("<g id='spec-", -1).length - 1);
+        assertTrue(svg.replaceAll("<[^>]*>", " ").replaceAll("\\s+", " ").contains("The scale is defined for least "
+                + "squares only: 8 logit, probit or Poisson specifications of the run are left out."), svg);
+    }
+
     @Test
     void badParametersAreFourHundredWithTheirName() throws Exception {
         mvc.perform(get(base + "/figure").param("format", "gif")).andExpect(status().isBadRequest())

@@ -992,6 +992,15 @@ function orderWords() {
     : `grouped by ${factorName(Number(sort.slice('factor:'.length)))}, by estimate within each group`;
 }
 
+
+// ---- Figure for print: the server draws the current view (filter, order, scale, group, colouring) as
+// SVG, PDF or PNG with the same painter as the batch command's report; the link is set when followed.
+function exportForPrint(event) {
+  const extra = { format: document.getElementById('print-format').value,
+    size: document.getElementById('print-size').value, ...(colourBy === null ? {} : { colour: colourBy }) };
+  event.currentTarget.href = `${api}/figure?${query(extra)}`;
+}
+
 // ---- PNG export: both panels, stacked as on screen, on paper, under a caption that says what they show
 
 function exportPng() {
@@ -1106,6 +1115,7 @@ async function start() {
   noDetails();
   document.getElementById('curve-box').addEventListener('keydown', keyboard);
   document.getElementById('export-png').addEventListener('click', exportPng);
+  document.getElementById('export-print').addEventListener('click', exportForPrint);
   await refresh();
   window.addEventListener('resize', debounce(() => refresh(), 250));
 }

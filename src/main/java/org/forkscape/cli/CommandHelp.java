@@ -28,6 +28,13 @@ final class CommandHelp {
                 "                                               seed; exit 0 when specifications.csv and",
                 "                                               summary.json come out identical, 3 at the first",
                 "                                               difference, 2 when the data's SHA-256 changed"));
+        COMMANDS.put("report", String.join("\n",
+                "  java -jar forkscape.jar report RUN_DIR --out DIR [--scale fitted|effect|standardized|partial|t]",
+                "                                               [--group G] [--size column|page]",
+                "                                               the figure of a run folder for print",
+                "                                               (DIR/figure.svg, .pdf, .png), its headline",
+                "                                               table (DIR/table.tex, DIR/table.md), a methods",
+                "                                               paragraph (DIR/methods.md) and DIR/report.html"));
         COMMANDS.put("demo-data", String.join("\n",
                 "  java -jar forkscape.jar demo-data DIR [--replace yes]",
                 "                                               write the demo's data and plans into DIR"));

@@ -127,7 +127,7 @@ final class VerifyCommand {
      * to the current folder, as that command was typed). The first whose file has the recorded SHA-256
      * is taken; a file that exists with another hash is refused with both hashes.
      */
-    private static Path dataFolder(String planText, Path runFolder, JsonNode provenance, String recordedHash) {
+    static Path dataFolder(String planText, Path runFolder, JsonNode provenance, String recordedHash) {
         List<Path> folders = new ArrayList<>(List.of(runFolder.toAbsolutePath()));
         originalPlanFolder(provenance.path("command").asString("")).ifPresent(folders::add);
         List<Path> looked = new ArrayList<>();
@@ -176,7 +176,7 @@ final class VerifyCommand {
         }
     }
 
-    private static Plan readPlan(String planText, Path folder) {
+    static Plan readPlan(String planText, Path folder) {
         try {
             return new PlanReader(false).read(planText, folder);
         } catch (PlanException e) {
@@ -184,7 +184,7 @@ final class VerifyCommand {
         }
     }
 
-    private static Path folder(String text) {
+    static Path folder(String text) {
         Path folder;
         try {
             folder = Path.of(text);
@@ -197,7 +197,7 @@ final class VerifyCommand {
         return folder;
     }
 
-    private static Path needed(Path folder, String name) {
+    static Path needed(Path folder, String name) {
         Path file = folder.resolve(name);
         if (!Files.isRegularFile(file)) {
             throw new InputException(folder.toString(), "has no " + name + "; give the --out folder of a run");

@@ -30,6 +30,14 @@ public final class BrowserDriver {
 
     /** A fresh browser with its own profile, downloading into {@code downloads}. */
     public static ChromeDriver start(Path profile, Path downloads, int width, int height) {
+        return start(profile, downloads, width, height, false);
+    }
+
+    /**
+     * The same, and when {@code recordRequests} also recording the DevTools network events in the
+     * performance log ({@link #requestedUrls}).
+     */
+    public static ChromeDriver start(Path profile, Path downloads, int width, int height, boolean recordRequests) {
         ChromeOptions options = new ChromeOptions();
         options.setBinary(CHROMIUM.toFile());
         options.addArguments("--headless=new", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
@@ -39,6 +47,9 @@ public final class BrowserDriver {
         // the browser's console is read after each test: a script error or a blocked resource fails it
         LoggingPreferences logs = new LoggingPreferences();
         logs.enable(LogType.BROWSER, Level.ALL);
+        if (recordRequests) {
+            logs.enable(LogType.PERFORMANCE, Level.ALL);
+        }
         options.setCapability("goog:loggingPrefs", logs);
         options.setExperimentalOption("prefs", Map.of("download.default_directory", downloads.toString(),
                 "download.prompt_for_download", false, "safebrowsing.enabled", false));
@@ -51,6 +62,17 @@ public final class BrowserDriver {
     public static List<String> severeConsoleMessages(ChromeDriver driver) {
         return driver.manage().logs().get(LogType.BROWSER).getAll().stream()
                 .filter(e -> e.getLevel().intValue() >= Level.SEVERE.intValue()).map(LogEntry::getMessage).toList();
+    }
+
+    /**
+     * The URLs of every request the browser sent since the last call (Network.requestWillBeSent events of
+     * the performance log), for a browser started with {@code recordRequests}.
+     */
+    public static List<String> requestedUrls(ChromeDriver driver) {
+        java.util.regex.Pattern url = java.util.regex.Pattern.compile(
+                "\"method\":\"Network\\.requestWillBeSent\".*?\"request\":\\{.*?\"url\":\"([^\"]*)\"");
+        return driver.manage().logs().get(LogType.PERFORMANCE).getAll().stream().map(LogEntry::getMessage)
+                .map(url::matcher).filter(java.util.regex.Matcher::find).map(m -> m.group(1)).toList();
     }
 
     public static void screenshot(ChromeDriver driver, String name) {

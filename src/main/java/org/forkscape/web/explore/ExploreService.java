@@ -65,13 +65,13 @@ public class ExploreService {
     }
 
     /** @param leftOut fitted specifications of the selection without a value on the scale */
-    private record View(int[] kept, DisplayOrder order, int leftOut) {
-    }
+    private record View(ShownSet shown, int leftOut) {
+        int[] kept() {
+            return shown.kept();
+        }
 
-    /** A scale and, on a scale with units, the one comparable group shown (-1 on a unit-free scale). */
-    record ScaleChoice(Scale scale, int group) {
-        String text() {
-            return scale.word() + (group < 0 ? "" : ":" + group);
+        DisplayOrder order() {
+            return shown.order();
         }
     }
 
@@ -217,8 +217,8 @@ public class ExploreService {
         return new ExploreViews.Layout(analysis.id(), run.id(), analysis.title(), plan.confidence(),
                 plan.outcome().name(), plan.predictor().name(), r.size(), unfitted, inPlan,
                 r.run().results().size() < inPlan, factors, r.gridRows(), required, reasons, scales, groups,
-                units.unitsDiffer(), Scale.AS_FITTED.word(), units.firstFitted(), factorOfDecision(r, plan.outcome()),
-                factorOfDecision(r, plan.predictor()), models ? factorOfDecision(r, plan.all(Decision.Model.class).get(0))
+                units.unitsDiffer(), Scale.AS_FITTED.word(), units.firstFitted(), ShownSet.factorOfDecision(r, plan.outcome()),
+                ShownSet.factorOfDecision(r, plan.predictor()), models ? ShownSet.factorOfDecision(r, plan.all(Decision.Model.class).get(0))
                         : -1, summary(analysis, run));
     }
 
@@ -229,19 +229,28 @@ public class ExploreService {
 
     public ExploreViews.CurveView curve(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
             String group, int width) {
-        RankedRun r = ranked(analysis, run, scaleOf(scale));
-        ScaleChoice choice = choice(r, group);
-        View view = view(analysis, run, r, choice, drop, sort);
-        Selection selection = Selection.parse(r.factors(), drop);
-        boolean grouped = !sortText(sort).equals("estimate");
-        String unit = r.units().unit(choice.scale(), choice.group() < 0 ? null : r.units().groups().get(choice.group()));
+        RankedRun r = ranked(analysis, run, ShownSet.scaleOf(scale));
+        View view = view(analysis, run, r, drop, sort, group);
+        ShownSet shown = view.shown();
         int fitted = ranked(analysis, run).size();
-        Sections sections = sections(analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + choice.text(),
-                r, view.kept);
-        return new ExploreViews.CurveView(fitted, selection.dropText(), sortText(sort), choice.scale().word(),
-                choice.group(), unit, view.leftOut, sections.summary(), sections.influence(),
-                grouped ? view.order.groups() : List.of(), CurveReducer.reduce(r, view.order, width),
-                AlternativeCounts.of(r, view.kept));
+        Sections sections = sections(analysis.id() + "/" + run.id() + "?" + shown.filter().dropText() + "&"
+                + choiceText(shown), r, view.kept());
+        return new ExploreViews.CurveView(fitted, shown.filter().dropText(), shown.sort(), shown.scale().word(),
+                shown.group(), shown.unit(), view.leftOut, sections.summary(), sections.influence(),
+                shown.grouped() ? view.order().groups() : List.of(), CurveReducer.reduce(r, view.order(), width),
+                AlternativeCounts.of(r, view.kept()));
+    }
+
+    /**
+     * The set a view shows, ranked on its scale, for the print figure of the same view: the filter, order,
+     * scale and group of a curve request.
+     */
+    public ShownSet shown(StoredAnalysis analysis, StoredRun run, RankedRun r, String drop, String sort, String group) {
+        return view(analysis, run, r, drop, sort, group).shown();
+    }
+
+    private static String choiceText(ShownSet shown) {
+        return shown.scale().word() + (shown.group() < 0 ? "" : ":" + shown.group());
     }
 
     /**
@@ -263,13 +272,13 @@ public class ExploreService {
     /** The specification at a position of the curve under the given filter, order and scale. */
     public ExploreViews.SpecificationView at(StoredAnalysis analysis, StoredRun run, String drop, String sort,
             String scale, String group, int position) {
-        RankedRun r = ranked(analysis, run, scaleOf(scale));
-        View view = view(analysis, run, r, choice(r, group), drop, sort);
-        if (position < 0 || position >= view.order.size()) {
+        RankedRun r = ranked(analysis, run, ShownSet.scaleOf(scale));
+        View view = view(analysis, run, r, drop, sort, group);
+        if (position < 0 || position >= view.order().size()) {
             throw new InputException("position", "there is no position " + position + " in a set of "
-                    + view.order.size() + " specifications (positions start at 0)");
+                    + view.order().size() + " specifications (positions start at 0)");
         }
-        int rank = view.order.ranks()[position];
+        int rank = view.order().ranks()[position];
         int slot = r.slot(rank);
         ResultTable t = r.run().results();
         double confidence = r.run().plan().confidence();
@@ -289,53 +298,8 @@ public class ExploreService {
     /** The position of specification {@code spec} (1-based) in the curve as shown, -1 when the set lacks it. */
     public int positionOf(StoredAnalysis analysis, StoredRun run, String drop, String sort, String scale,
             String group, long spec) {
-        RankedRun r = ranked(analysis, run, scaleOf(scale));
-        return SpecificationPosition.of(r, view(analysis, run, r, choice(r, group), drop, sort).order, spec - 1);
-    }
-
-    private static Scale scaleOf(String word) {
-        if (word == null || word.isBlank()) {
-            return Scale.AS_FITTED;
-        }
-        Scale s = Scale.named(word);
-        if (s == null) {
-            throw new InputException("scale", "\"" + word.strip() + "\" is not a scale; use fitted, effect, "
-                    + "standardized, partial or t");
-        }
-        return s;
-    }
-
-    /**
-     * On a scale with units (as fitted, the average marginal effect), the comparable group shown: the one
-     * asked for, or the first with a fitted specification; on a unit-free scale, none (every group shares
-     * the scale).
-     */
-    private static ScaleChoice choice(RankedRun r, String group) {
-        if (r.scale().unitFree()) {
-            return new ScaleChoice(r.scale(), -1);
-        }
-        UnitGroups units = r.units();
-        if (group == null || group.isBlank()) {
-            return new ScaleChoice(r.scale(), units.firstFitted());
-        }
-        int count = units.groups().size();
-        try {
-            int g = Integer.parseInt(group.strip());
-            if (g >= 0 && g < count) {
-                return new ScaleChoice(r.scale(), g);
-            }
-        } catch (NumberFormatException e) {
-            // answered below with the accepted range
-        }
-        throw new InputException("group", "\"" + group.strip() + "\" is not a comparable group of this run on the "
-                + r.scale().title() + " scale; use a number from 0 to " + (count - 1) + " (see the groups of the "
-                + "layout's scales)");
-    }
-
-    /** The factor of a decision that is one factor (the outcome's, the key predictor's). */
-    private static int factorOfDecision(RankedRun r, Decision decision) {
-        return r.factors().stream().filter(f -> !f.isControl() && f.decision().equals(decision.name()))
-                .mapToInt(Factor::id).findFirst().orElseThrow();
+        RankedRun r = ranked(analysis, run, ShownSet.scaleOf(scale));
+        return SpecificationPosition.of(r, view(analysis, run, r, drop, sort, group).order(), spec - 1);
     }
 
     /** Every coefficient of specification {@code spec} (1-based, as in specifications.csv) of the run. */
@@ -357,58 +321,25 @@ public class ExploreService {
                 effect.high(t, slot, confidence), t.deviance(slot), fit);
     }
 
-    private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, ScaleChoice choice, String drop,
-            String sort) {
-        Selection selection = Selection.parse(r.factors(), drop);
-        String order = sortText(sort);
-        String key = analysis.id() + "/" + run.id() + "?" + selection.dropText() + "&" + order + "&" + choice.text();
+    private View view(StoredAnalysis analysis, StoredRun run, RankedRun r, String drop, String sort, String group) {
+        String key = analysis.id() + "/" + run.id() + "?" + Selection.parse(r.factors(), drop).dropText() + "&"
+                + ShownSet.sortText(sort) + "&" + r.scale().word() + ":" + (group == null ? "" : group.strip());
         synchronized (views) {
             View cached = views.get(key);
             if (cached != null) {
                 return cached;
             }
         }
-        Plan plan = r.run().plan();
-        if (choice.group() >= 0) {
-            UnitGroups.Group g = r.units().groups().get(choice.group());
-            selection = selection.only(factorOfDecision(r, plan.outcome()), g.outcomeChoice())
-                    .only(factorOfDecision(r, plan.predictor()), g.predictorChoice());
-            if (g.modelChoice() >= 0) {
-                selection = selection.only(factorOfDecision(r, plan.all(Decision.Model.class).get(0)), g.modelChoice());
-            }
-        }
-        int[] kept = SpecificationFilter.keep(r, selection);
-        DisplayOrder display = order.equals("estimate") ? DisplayOrder.byEstimate(kept)
-                : DisplayOrder.groupedBy(r, kept, factorOf(r, order));
+        ShownSet shown = ShownSet.of(r, drop, sort, group);
         // the ranking as fitted holds every fitted specification, with the same factors: the selection there
         // less the one here is what this scale leaves out
         int leftOut = r.leftOut() == 0 ? 0
-                : SpecificationFilter.keep(ranked(analysis, run), selection).length - kept.length;
-        View view = new View(kept, display, leftOut);
+                : SpecificationFilter.keep(ranked(analysis, run), shown.selection()).length - shown.kept().length;
+        View view = new View(shown, leftOut);
         synchronized (views) {
             views.put(key, view);
         }
         return view;
-    }
-
-    private static String sortText(String sort) {
-        return sort == null || sort.isBlank() ? "estimate" : sort.strip();
-    }
-
-    private static int factorOf(RankedRun r, String sort) {
-        String prefix = "factor:";
-        if (sort.startsWith(prefix)) {
-            try {
-                int f = Integer.parseInt(sort.substring(prefix.length()));
-                if (f >= 0 && f < r.factors().size()) {
-                    return f;
-                }
-            } catch (NumberFormatException e) {
-                // reported below with the accepted forms
-            }
-        }
-        throw new InputException("sort", "\"" + sort + "\" is not an order of this run; use estimate or factor:F "
-                + "with F from 0 to " + (r.factors().size() - 1));
     }
 
     /** The slot of a specification index in the run, -1 when the run did not fit it. */

@@ -138,11 +138,38 @@ public final class GeneralizedLinear implements Estimator {
             startAlpha = new double[Math.max(rows.levels, startAlpha.length)];
             startBeta = new double[Math.max(rows.p, startBeta.length)];
         }
+        boolean[] spanned = spannedByLevels(mom, key.columns());
         if (start != null && GlmStarts.apply(start, rows, key.columns(), mom.levelMeanOffset, startAlpha, startBeta)) {
-            irls.fit(rows, family, startAlpha, startBeta);
+            irls.fit(rows, family, startAlpha, startBeta, spanned);
         } else {
-            irls.fit(rows, family, null, null);
+            irls.fit(rows, family, null, null, spanned);
         }
+    }
+
+    /**
+     * The columns the absorbed levels span, by the rule of least squares' QR refit: a within sum of squares
+     * below {@link QrRefit#TOLERANCE} squared of the column's total about its mean, over these rows
+     * (unweighted, so that a column is in or out of the model whatever the iteration's weights); null when
+     * nothing is absorbed. Judged against the column's within spread alone, a column that differs from a
+     * function of the levels by rounding would keep a coefficient of noise.
+     */
+    private boolean[] spannedByLevels(Moments mom, int[] cols) {
+        DataVariant variant = mom.variant;
+        if (!variant.absorbs) {
+            return null;
+        }
+        boolean[] spanned = null;
+        int stride = variant.columns;
+        for (int j = 0; j < cols.length; j++) {
+            int c = cols[j];
+            if (mom.within[c * stride + c] < QrRefit.TOLERANCE * QrRefit.TOLERANCE * mom.totalSquares[c]) {
+                if (spanned == null) {
+                    spanned = new boolean[cols.length];
+                }
+                spanned[j] = true;
+            }
+        }
+        return spanned;
     }
 
     /** @param margins whether to compute the average marginal effect (observed data; not a null draw's) */

@@ -88,6 +88,13 @@ final class Irls {
     private double[] trialBeta = new double[0];
     private double[] trialEta = new double[0];
     private double[] trialMu = new double[0];
+    /** Per column, whether the caller found it spanned by the levels; null for none. */
+    private boolean[] spanned;
+
+    private boolean spannedByLevels(int j) {
+        return spanned != null && spanned[j];
+    }
+
     /** Whether this fit factors by QR of the weighted design ({@link #ORTHOGONAL_BELOW_SHARE}). */
     boolean orthogonal;
     /** The weighted design's columns, column by column, overwritten by their Householder vectors. */
@@ -106,6 +113,14 @@ final class Irls {
      * @param startBeta  per column, or null
      */
     void fit(GlmRows rows, GlmFamily family, double[] startAlpha, double[] startBeta) {
+        fit(rows, family, startAlpha, startBeta, null);
+    }
+
+    /**
+     * @param spanned per column, whether it is known to be spanned by the levels (dropped whatever its
+     *                weighted spread), or null for none
+     */
+    void fit(GlmRows rows, GlmFamily family, double[] startAlpha, double[] startBeta, boolean[] spanned) {
         this.rows = rows;
         this.family = family;
         int n = rows.n;
@@ -118,7 +133,13 @@ final class Irls {
             System.arraycopy(startAlpha, 0, alpha, 0, levels);
             System.arraycopy(startBeta, 0, beta, 0, p);
         }
-        Arrays.fill(kept, 0, p, true);
+        this.spanned = spanned;
+        for (int j = 0; j < p; j++) {
+            kept[j] = !spannedByLevels(j);
+            if (!kept[j]) {
+                beta[j] = 0;
+            }
+        }
         orthogonal = false;
         deviance = evaluate(alpha, beta, eta, mu);
         boolean decided = false;
@@ -432,7 +453,7 @@ final class Irls {
             keptCount = 0;
         }
         for (int j = 0; j < p; j++) {
-            if (!decide && !kept[j]) {
+            if (!kept[j] && (!decide || spannedByLevels(j))) {
                 continue;
             }
             double own = gram[j * p + j];
@@ -501,7 +522,7 @@ final class Irls {
         int rank = 0;
         double tolerance = QrRefit.TOLERANCE * QrRefit.TOLERANCE;
         for (int j = 0; j < p; j++) {
-            if (!decide && !kept[j]) {
+            if (!kept[j] && (!decide || spannedByLevels(j))) {
                 continue;
             }
             double[] a = design[j];

@@ -284,6 +284,21 @@ class PlanFormBrowserTest {
         assertTrue(checks >= 1 && checks <= 2, checks + " checks for 10 keys");
     }
 
+    /** The estimate times a few specifications on the server, so only its form is checked. */
+    @Test
+    void theEstimateSaysHowLongARunWouldTakeOnThisServer() throws Exception {
+        WebDriverWait wait = openNewPlan();
+        // the JSON box's own button (the box is folded away under its summary)
+        driver.executeScript("document.getElementById('plan-json').value = arguments[0];"
+                + "document.getElementById('apply-json').click();", CivicTestData.plan());
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
+        click(driver.findElement(By.id("estimate-plan")));
+        wait.until(d -> d.findElement(By.id("plan-estimate")).getText().startsWith("Time: "));
+        String text = driver.findElement(By.id("plan-estimate")).getText();
+        assertTrue(text.contains("of the 576 specifications fitted on this machine") && text.contains("Memory: about")
+                && text.contains("of this server's limit"), text);
+    }
+
     private WebDriverWait openNewPlan() throws Exception {
         String id = upload(CivicTestData.csv(200, 7));
         WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(30));

@@ -140,6 +140,26 @@ class ReportedBrowserTest {
         assertNull(grid.getAttribute("data-reported-x"));
     }
 
+    /** The plan form has no field for the key; an edit saved through the form keeps it as written. */
+    @Test
+    void thePlanFormKeepsTheKeyWhenItSaves() throws Exception {
+        String analysis = upload(CivicTestData.csv(200, 3));
+        HttpResponse<String> put = send(HttpRequest.newBuilder(URI.create(base() + "/api/analyses/" + analysis + "/plan"))
+                .header("Content-Type", "application/json").PUT(HttpRequest.BodyPublishers.ofString(PLAN)));
+        assertEquals(200, put.statusCode(), put.body());
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(60));
+        driver.get(base() + "/analyses/" + analysis + "/plan");
+        WebElement title = wait.until(d -> d.findElement(By.cssSelector("[data-path='title'] input")));
+        title.sendKeys("Outreach and turnout, as reported");
+        driver.findElement(By.id("save-plan")).click();
+        wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "Saved."));
+        JsonNode plan = Json.MAPPER.readTree(send(HttpRequest.newBuilder(URI.create(base() + "/api/analyses/"
+                + analysis + "/plan")).GET()).body()).get("plan");
+        assertEquals("Outreach and turnout, as reported", plan.get("title").stringValue());
+        assertEquals("rainfall + median_age", plan.get("reported").get("controls").stringValue());
+        assertEquals("HC1", plan.get("reported").get("errors").stringValue());
+    }
+
     private String base() {
         return "http://localhost:" + port;
     }

@@ -1,10 +1,12 @@
 package org.forkscape.run;
 
 import java.math.BigInteger;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.Locale;
+import java.util.Map;
+import java.util.stream.IntStream;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.ReportedSpecification;
 import org.forkscape.plan.SpecificationNumber;
@@ -131,7 +133,7 @@ public final class ReportedPosition {
         m.put("estimate", Json.number(r.estimate(slot)));
         m.put("p_value", Json.number(r.pValue(slot)));
         m.put("significant", r.pValue(slot) < plan.alpha());
-        int[] fitted = java.util.stream.IntStream.range(0, r.size()).filter(r::fitted).toArray();
+        int[] fitted = IntStream.range(0, r.size()).filter(r::fitted).toArray();
         Map<String, Object> positions = new LinkedHashMap<>();
         for (Scale scale : SCALES) {
             Map<String, Object> e = new LinkedHashMap<>();
@@ -141,7 +143,7 @@ public final class ReportedPosition {
                 int group = units.groupOf(slot);
                 e.put("group", group);
                 e.put("title", units.groups().get(group).title());
-                set = java.util.Arrays.stream(fitted).filter(s -> units.groupOf(s) == group).toArray();
+                set = Arrays.stream(fitted).filter(s -> units.groupOf(s) == group).toArray();
             }
             if (scale.defined(r, slot)) {
                 e.putAll(place(r, slot, set, scale, plan.alpha()).toJson());

@@ -4,6 +4,7 @@ import { LEFT_AXIS, RIGHT_PAD } from '../chart-setup.js';
 import { PALETTE, num, significanceOf, withAlpha } from '../helpers.js';
 import { number } from '../numbers.js';
 import { highlightPlugin, positionTicks, xScale } from './highlight.js';
+import { reportedPlugin } from './reported-mark.js';
 
 /**
  * Vertical interval bars under the points, in each mark's colour: heavy and darker where the specification
@@ -198,6 +199,7 @@ export function curveConfig(state, yTitle, onHover, onClick) {
         },
       },
     },
-    plugins: [nullBandPlugin(state), referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), highlightPlugin(state)],
+    plugins: [nullBandPlugin(state), referencePlugin(state), intervalsPlugin(state), groupsPlugin(state), reportedPlugin(state, true),
+      highlightPlugin(state)],
   };
 }

@@ -15,6 +15,7 @@ import { showGrid, sizeGrid } from './grid-actions.js';
 import { positionAt } from './highlight.js';
 import { filterWords, withText } from './figure-caption.js';
 import { influenceConfig } from './influence-config.js';
+import { reportedSentence } from './reported-mark.js';
 import { showInfluence } from './influence-actions.js';
 
 const root = document.getElementById('explorer');
@@ -23,7 +24,7 @@ const run = root.dataset.run;
 const api = `/api/analyses/${encodeURIComponent(analysis)}/runs/${encodeURIComponent(run)}`;
 
 const state = { layout: null, view: null, shaped: null, grid: null, marks: null, influence: null, highlight: null,
-  colourKey: null };
+  colourKey: null, reported: null };
 const influenceState = { influence: null };
 const dropped = new Set();
 let sort = 'estimate';
@@ -142,7 +143,33 @@ async function refresh() {
   filterCounts(view);
   influenceTable(view.influence);
   caption(view);
+  placeReported(view);
   history.replaceState(null, '', `?${query(colourBy === null ? {} : { colour: colourBy })}`);
+}
+
+/**
+ * The plan's reported specification: its position in the set shown, asked of the server as for any named
+ * specification, marked in both panels, and the sentence of where it sits in the run (from summary.json).
+ */
+async function placeReported(view) {
+  const reported = state.layout.summary.reported;
+  const note = document.getElementById('reported-note');
+  state.reported = null;
+  note.hidden = !reported;
+  if (!reported) return;
+  let position = -1;
+  if (reported.in_run && reported.scales) {
+    try {
+      position = (await getJson(`${api}/specifications/${reported.spec}/position?${query()}`)).position;
+    } catch (e) {
+      note.textContent = `Where the reported specification sits could not be found: ${e.message}`;
+      return;
+    }
+  }
+  if (state.view !== view) return;
+  state.reported = position >= 0 ? position : null;
+  redraw(curveChart, gridChart);
+  note.textContent = reportedSentence(reported, scale, position, scaleInfo().title);
 }
 
 /**

@@ -3,6 +3,7 @@
 import { LEFT_AXIS, RIGHT_PAD } from '../chart-setup.js';
 import { PALETTE } from '../helpers.js';
 import { highlightPlugin, xScale } from './highlight.js';
+import { reportedPlugin } from './reported-mark.js';
 
 const MAX_LABEL = 30;
 
@@ -117,6 +118,6 @@ export function gridConfig(state, onHover, onClick) {
         },
       },
     },
-    plugins: [marksPlugin(state), highlightPlugin(state)],
+    plugins: [marksPlugin(state), reportedPlugin(state, false), highlightPlugin(state)],
   };
 }

@@ -145,6 +145,7 @@ const SETTING_NAMES = Object.freeze({
   missing: 'rows with missing cells', sample: 'the random sample', seed: 'the seed',
   maxSpecifications: 'the largest number of specifications', nullDraws: 'the null draws',
   nullMethod: 'the null-draw method', nullCluster: 'what the bootstrap resamples',
+  reported: 'the reported specification',
 });
 
 const ALTERNATIVE_PARTS = Object.freeze({
@@ -159,6 +160,8 @@ const ALTERNATIVE_PARTS = Object.freeze({
 export function describePath(path, plan) {
   if (!path) return { place: 'The plan', part: '' };
   if (path === 'decisions') return { place: 'The decisions', part: '' };
+  const reported = path.match(/^reported\.(.+)$/);
+  if (reported) return { place: 'The reported specification', part: `the decision "${reported[1]}"` };
   const top = path.match(/^([A-Za-z]+)$/);
   if (top) return { place: 'Settings', part: SETTING_NAMES[top[1]] || `the key "${top[1]}"` };
   const m = path.match(/^decisions\[(\d+)\](.*)$/);

@@ -19,6 +19,7 @@ import java.util.List;
  * @param nullCluster        as the plan or the command line names it: a column whose clusters the bootstrap
  *                           resamples whole, {@link #NULL_CLUSTER_ROWS} for single rows, or {@code null} when
  *                           neither names one (then the null draws choose, see {@code infer.NullDrawSettings})
+ * @param reported           the specification the authors report, {@code null} when the plan names none
  */
 public record Plan(
         Path dataFile,
@@ -30,7 +31,8 @@ public record Plan(
         long maxSpecifications,
         int nullDraws,
         String nullMethod,
-        String nullCluster) {
+        String nullCluster,
+        ReportedSpecification reported) {
 
     public static final long DEFAULT_MAX_SPECIFICATIONS = 1_000_000L;
 
@@ -101,16 +103,16 @@ public record Plan(
 
     public Plan withSample(long size, long newSeed) {
         return new Plan(dataFile, confidence, missing, decisions, size, newSeed, maxSpecifications, nullDraws,
-                nullMethod, nullCluster);
+                nullMethod, nullCluster, reported);
     }
 
     public Plan withNull(int draws, String method, String cluster, long newSeed) {
         return new Plan(dataFile, confidence, missing, decisions, sampleSize, newSeed, maxSpecifications, draws,
-                method, cluster);
+                method, cluster, reported);
     }
 
     public Plan withMaxSpecifications(long cap) {
         return new Plan(dataFile, confidence, missing, decisions, sampleSize, seed, cap, nullDraws, nullMethod,
-                nullCluster);
+                nullCluster, reported);
     }
 }

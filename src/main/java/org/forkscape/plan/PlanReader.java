@@ -37,7 +37,7 @@ public final class PlanReader {
             .enable(StreamReadFeature.STRICT_DUPLICATE_DETECTION)
             .build();
     private static final Set<String> TOP_KEYS = Set.of("title", "description", "data", "confidence", "missing",
-            "decisions", "sample", "seed", "maxSpecifications", "nullDraws", "nullMethod", "nullCluster");
+            "decisions", "sample", "seed", "maxSpecifications", "nullDraws", "nullMethod", "nullCluster", "reported");
     private static final List<String> KINDS = List.of("outcome", "predictor", "controls", "sample", "errors", "absorb",
             "model");
     private static final Map<String, List<String>> DECISION_KEYS = Map.of(
@@ -144,7 +144,11 @@ public final class PlanReader {
             return c;
         }, DEFAULT_CONFIDENCE);
         MissingRows missing = problems.attempt(() -> missing(root), MissingRows.PER_SPECIFICATION);
+        int beforeDecisions = problems.count();
         List<Decision> decisions = problems.attempt(() -> decisions(root.get("decisions"), problems), List.of());
+        // against decisions that did not read, every reported label would look wrong
+        ReportedSpecification reported = problems.count() > beforeDecisions ? null
+                : ReportedSpecification.read(root.get("reported"), decisions, problems);
         long sample = problems.attempt(() -> wholeNumber(root, "sample", DEFAULT_SAMPLE, 1, Long.MAX_VALUE),
                 DEFAULT_SAMPLE);
         long seed = problems.attempt(() -> wholeNumber(root, "seed", DEFAULT_SEED, Long.MIN_VALUE, Long.MAX_VALUE),
@@ -162,7 +166,8 @@ public final class PlanReader {
         }, DEFAULT_NULL_METHOD);
         String cluster = problems.attempt(() -> text(root, "nullCluster", "nullCluster", null), null);
         problems.throwIfAny();
-        return new Plan(dataFile, confidence, missing, decisions, sample, seed, cap, draws, method, cluster);
+        return new Plan(dataFile, confidence, missing, decisions, sample, seed, cap, draws, method, cluster,
+                reported);
     }
 
     private static String withoutByteOrderMark(String text) {

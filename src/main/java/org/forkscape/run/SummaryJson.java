@@ -54,6 +54,9 @@ public final class SummaryJson {
         m.put("seconds", Math.round(run.seconds() * 1000) / 1000.0);
         Map<String, Object> scales = scales(run, units);
         m.put("scales", scales);
+        if (run.plan().reported() != null) {
+            m.put("reported", ReportedPosition.toJson(run));
+        }
         m.putAll(sections);
         if (units.unitsDiffer()) {
             scales.put("pooled_as_fitted", POOLED.stream().filter(m::containsKey).toList());

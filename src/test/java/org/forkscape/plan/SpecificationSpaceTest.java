@@ -44,7 +44,7 @@ class SpecificationSpaceTest {
                 java.util.List.of(p.decisions().get(0), p.decisions().get(1), controls,
                         new Decision.Controls("c2", java.util.List.of(), ((Decision.Controls) controls).optional().stream()
                                 .map(s -> s + "b").toList(), null)),
-                0, 1, Plan.DEFAULT_MAX_SPECIFICATIONS, 0, "bootstrap", null);
+                0, 1, Plan.DEFAULT_MAX_SPECIFICATIONS, 0, "bootstrap", null, null);
         assertEquals(Long.MAX_VALUE, new SpecificationSpace(huge).size());
     }
 

@@ -112,9 +112,37 @@ public record PlanLock(String planSha256, String dataSha256, Instant locked, Str
      * @param dataMatches whether the data file's bytes are those locked
      */
     public record Status(String fingerprint, Instant locked, boolean planMatches, boolean dataMatches) {
+        /**
+         * The comparison a run recorded under {@code provenance.lock} in its summary.json, or empty when the
+         * run recorded none or the entry is not one.
+         */
+        public static Optional<Status> recorded(JsonNode provenance) {
+            JsonNode lock = provenance.path("lock");
+            if (!lock.path("fingerprint").isString() || !lock.path("plan_matches").isBoolean()
+                    || !lock.path("data_matches").isBoolean()) {
+                return Optional.empty();
+            }
+            try {
+                return Optional.of(new Status(lock.path("fingerprint").asString(), Instant.parse(lock.path("locked")
+                        .asString("")), lock.path("plan_matches").asBoolean(), lock.path("data_matches").asBoolean()));
+            } catch (DateTimeParseException e) {
+                return Optional.empty();
+            }
+        }
+
+        public boolean matches() {
+            return planMatches && dataMatches;
+        }
+
+        /** The run's line about its lock, as the explorer shows it: the warning, or that both still match. */
+        public String sentence() {
+            return warning().map(w -> "Warning: " + w + ".").orElse("The plan and the data of this run are those "
+                    + "locked at " + locked + " (fingerprint " + fingerprint + ").");
+        }
+
         /** The warning a run owes its reader when the plan or data changed after the lock, or empty. */
         public Optional<String> warning() {
-            if (planMatches && dataMatches) {
+            if (matches()) {
                 return Optional.empty();
             }
             String changed = !planMatches && !dataMatches ? "the plan and the data" : planMatches ? "the data"

@@ -49,7 +49,7 @@ public record Provenance(String version, String planSha256, String dataSha256, l
     }
 
     /** Lower-case hex SHA-256 of the bytes. */
-    static String sha256(byte[] bytes) {
+    public static String sha256(byte[] bytes) {
         return HexFormat.of().formatHex(digest().digest(bytes));
     }
 

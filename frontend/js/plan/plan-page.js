@@ -162,8 +162,12 @@ async function saveAndRun() {
   }
 }
 
+/** The saved plan's lock as the server last answered, or null when it is not locked. */
+let currentLock = null;
+
 /** Says whether the saved plan is locked, when, with which fingerprint, and whether it still matches. */
 function showLock(lock) {
+  currentLock = lock;
   if (!lock) {
     lockNode.textContent = 'Not locked. Decide the set of specifications before seeing any result, then lock the plan.';
     return;
@@ -177,15 +181,10 @@ function showLock(lock) {
 async function lockPlan() {
   lockButton.disabled = true;
   try {
+    if (currentLock && !window.confirm(`The plan was locked at ${currentLock.locked} (fingerprint `
+      + `${currentLock.fingerprint}). Lock it anew, with a new time and fingerprint?`)) return;
     if (!(await save())) return;
-    let answer;
-    try {
-      answer = await post(`${api}/plan/lock`);
-    } catch (e) {
-      if (!(e instanceof ApiError && e.where === 'lock')) throw e;
-      if (!window.confirm(`${e.message}. Replace the lock?`)) return;
-      answer = await post(`${api}/plan/lock?replace=yes`);
-    }
+    const answer = await post(`${api}/plan/lock${currentLock ? '?replace=yes' : ''}`);
     showLock(answer.lock);
   } catch (e) {
     lockNode.textContent = `Not locked: ${e.message}`;
@@ -248,7 +247,7 @@ function toolbar() {
 
 async function start() {
   try {
-    const [data, current, locked] = await Promise.all([getJson(api), getJson(`${api}/plan`), getJson(`${api}/plan/lock`)]);
+    const [data, current] = await Promise.all([getJson(api), getJson(`${api}/plan`)]);
     columns = data.columns.map((c) => ({ name: c.name, type: c.type }));
     plan = current.plan;
     defaults = current.defaults;
@@ -259,7 +258,8 @@ async function start() {
     return;
   }
   toolbar();
-  showLock(locked.lock);
+  getJson(`${api}/plan/lock`).then((answer) => showLock(answer.lock),
+    (e) => { lockNode.textContent = `Whether the plan is locked is not known: ${e.message}`; });
   // the live check below the form takes over from the problem the server printed for the JSON text
   const panel = document.getElementById('plan-json-panel');
   panel.querySelectorAll('.has-problem').forEach((n) => n.classList.remove('has-problem'));

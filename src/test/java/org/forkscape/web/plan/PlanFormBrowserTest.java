@@ -244,9 +244,11 @@ class PlanFormBrowserTest {
             assertEquals(panelWidth, titleWidth, 1, "the title box at " + width + " px");
             // with each problem and the add button brought to the bottom edge of the window in turn, as
             // scrolling down to them does, no two elements overlap (a pinned bar would lie over them there)
-            List<WebElement> targets = new java.util.ArrayList<>(driver.findElements(By.cssSelector(".problem-line")));
-            targets.add(driver.findElement(By.id("add-decision")));
-            for (WebElement target : targets) {
+            // each found again in turn: a check still answering (the title's, debounced) draws the lines anew
+            int lines = driver.findElements(By.cssSelector(".problem-line")).size();
+            for (int i = 0; i <= lines; i++) {
+                WebElement target = i < lines ? driver.findElements(By.cssSelector(".problem-line")).get(i)
+                        : driver.findElement(By.id("add-decision"));
                 driver.executeScript("arguments[0].scrollIntoView({block: 'end'})", target);
                 List<String> overlaps = overlaps();
                 assertEquals(List.of(), overlaps, "at " + width + " px with " + target.getText() + " at the bottom");
@@ -282,6 +284,41 @@ class PlanFormBrowserTest {
         Thread.sleep(1500);
         long checks = ((Number) driver.executeScript("return window.checks")).longValue();
         assertTrue(checks >= 1 && checks <= 2, checks + " checks for 10 keys");
+    }
+
+    /**
+     * "Lock this plan" saves and locks the plan: the page shows the time and fingerprint of the lock file
+     * written into the analysis folder, and asks before locking anew.
+     */
+    @Test
+    void lockThisPlanShowsTheFingerprintOfTheLockInTheAnalysisFolder() throws Exception {
+        String id = upload(CivicTestData.csv(200, 7));
+        HttpResponse<String> saved = HttpClient.newHttpClient().send(HttpRequest.newBuilder(URI.create(base()
+                + "/api/analyses/" + id + "/plan")).header("Content-Type", "application/json")
+                .PUT(HttpRequest.BodyPublishers.ofString(CivicTestData.plan())).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, saved.statusCode(), saved.body());
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(30));
+        driver.get(base() + "/analyses/" + id + "/plan");
+        WebElement note = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("plan-lock")));
+        wait.until(d -> note.getText().startsWith("Not locked."));
+        click(driver.findElement(By.id("lock-plan")));
+        wait.until(d -> note.getText().startsWith("Locked at "));
+        Path lockFile = TEMP.resolve("workspace/analyses/" + id + "/plan.lock.json");
+        String lock = Files.readString(lockFile);
+        Matcher fingerprint = Pattern.compile("\"fingerprint\" : \"([0-9a-f-]+)\"").matcher(lock);
+        Matcher locked = Pattern.compile("\"locked\" : \"([^\"]+)\"").matcher(lock);
+        assertTrue(fingerprint.find() && locked.find(), lock);
+        assertEquals("Locked at " + locked.group(1) + ", fingerprint " + fingerprint.group(1) + ". The saved plan and "
+                + "the data match the lock; runs record it.", note.getText());
+        BrowserDriver.screenshot(driver, "plan-7-locked");
+
+        // locked already: the page asks, and a refusal keeps the lock as it was
+        click(driver.findElement(By.id("lock-plan")));
+        wait.until(ExpectedConditions.alertIsPresent());
+        assertTrue(driver.switchTo().alert().getText().startsWith("The plan was locked at " + locked.group(1)),
+                driver.switchTo().alert().getText());
+        driver.switchTo().alert().dismiss();
+        assertEquals(lock, Files.readString(lockFile));
     }
 
     private WebDriverWait openNewPlan() throws Exception {

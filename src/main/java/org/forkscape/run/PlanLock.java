@@ -8,6 +8,7 @@ import java.time.Instant;
 import java.time.format.DateTimeParseException;
 import java.time.temporal.ChronoUnit;
 import java.util.LinkedHashMap;
+import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
 import java.util.regex.Pattern;
@@ -50,7 +51,7 @@ public record PlanLock(String planSha256, String dataSha256, Instant locked, Str
      */
     public static Path besidePlan(Path planFile) {
         String name = planFile.getFileName().toString();
-        String stem = name.toLowerCase(java.util.Locale.ROOT).endsWith(".json") ? name.substring(0, name.length() - 5)
+        String stem = name.toLowerCase(Locale.ROOT).endsWith(".json") ? name.substring(0, name.length() - 5)
                 : name;
         return planFile.resolveSibling(stem + SUFFIX);
     }

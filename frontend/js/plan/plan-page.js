@@ -1,6 +1,6 @@
 // The plan page: loads the plan and the data's columns, draws the form, keeps the specification count and
 // the server's check up to date as the plan is edited, and saves, runs, imports and exports it.
-import { ApiError, getJson, sendJson } from '../api.js';
+import { ApiError, getJson, post, sendJson } from '../api.js';
 import { debounce, download, el } from '../helpers.js';
 import { clearProblems, refreshCounts, renderPlan, showProblems } from './plan-form.js';
 import { problemInWords, specificationCount } from './plan-model.js';
@@ -29,6 +29,10 @@ const estimateButton = el('button', { type: 'button', id: 'estimate-plan',
 const estimateNode = el('p', { class: 'plan-status', id: 'plan-estimate', role: 'status' });
 const saveButton = el('button', { type: 'button', id: 'save-plan' }, 'Save the plan');
 const runButton = el('button', { type: 'button', class: 'primary', id: 'run-plan' }, 'Save and run');
+const lockButton = el('button', { type: 'button', id: 'lock-plan',
+  title: 'Saves the plan and records its SHA-256 and the data\u2019s, with the time and a fingerprint to deposit before any result is seen' },
+'Lock this plan');
+const lockNode = el('p', { class: 'plan-status', id: 'plan-lock', role: 'status' });
 const exportButton = el('button', { type: 'button', id: 'export-plan' }, 'Export plan.json');
 const importInput = el('input', { type: 'file', id: 'import-plan', accept: '.json,application/json' });
 const applyJson = el('button', { type: 'button', id: 'apply-json' }, 'Use this JSON in the form');
@@ -158,6 +162,37 @@ async function saveAndRun() {
   }
 }
 
+/** The saved plan's lock as the server last answered, or null when it is not locked. */
+let currentLock = null;
+
+/** Says whether the saved plan is locked, when, with which fingerprint, and whether it still matches. */
+function showLock(lock) {
+  currentLock = lock;
+  if (!lock) {
+    lockNode.textContent = 'Not locked. Decide the set of specifications before seeing any result, then lock the plan.';
+    return;
+  }
+  const changed = [lock.plan_matches ? null : 'the saved plan', lock.data_matches ? null : 'the data'].filter(Boolean);
+  lockNode.textContent = `Locked at ${lock.locked}, fingerprint ${lock.fingerprint}. `
+    + (changed.length === 0 ? 'The saved plan and the data match the lock; runs record it.'
+      : `${changed.join(' and ')} changed after the lock: runs will say so.`);
+}
+
+async function lockPlan() {
+  lockButton.disabled = true;
+  try {
+    if (currentLock && !window.confirm(`The plan was locked at ${currentLock.locked} (fingerprint `
+      + `${currentLock.fingerprint}). Lock it anew, with a new time and fingerprint?`)) return;
+    if (!(await save())) return;
+    const answer = await post(`${api}/plan/lock${currentLock ? '?replace=yes' : ''}`);
+    showLock(answer.lock);
+  } catch (e) {
+    lockNode.textContent = `Not locked: ${e.message}`;
+  } finally {
+    lockButton.disabled = false;
+  }
+}
+
 function adopt(parsed, source) {
   if (parsed === null || typeof parsed !== 'object' || Array.isArray(parsed)) {
     noticeNode.textContent = `${source} is not a plan: a plan is a JSON object with "data" and "decisions".`;
@@ -193,6 +228,7 @@ function toolbar() {
   estimateButton.addEventListener('click', estimate);
   saveButton.addEventListener('click', save);
   runButton.addEventListener('click', saveAndRun);
+  lockButton.addEventListener('click', lockPlan);
   exportButton.addEventListener('click', () => download(new Blob([`${text()}\n`], { type: 'application/json' }), 'plan.json'));
   applyJson.addEventListener('click', () => {
     try {
@@ -203,7 +239,7 @@ function toolbar() {
   });
   document.getElementById('save-json').after(' ', applyJson);
   const bar = el('div', { class: 'plan-toolbar', role: 'region', 'aria-label': 'Plan actions' },
-    countNode, checkButton, estimateButton, saveButton, runButton, exportButton, importLabel, importInput, statusNode, noticeNode, estimateNode);
+    countNode, checkButton, estimateButton, saveButton, runButton, lockButton, exportButton, importLabel, importInput, statusNode, noticeNode, estimateNode, lockNode);
   root.after(bar);
   const plainRun = document.getElementById('run-saved-form');
   if (plainRun) plainRun.hidden = true;
@@ -222,6 +258,8 @@ async function start() {
     return;
   }
   toolbar();
+  getJson(`${api}/plan/lock`).then((answer) => showLock(answer.lock),
+    (e) => { lockNode.textContent = `Whether the plan is locked is not known: ${e.message}`; });
   // the live check below the form takes over from the problem the server printed for the JSON text
   const panel = document.getElementById('plan-json-panel');
   panel.querySelectorAll('.has-problem').forEach((n) => n.classList.remove('has-problem'));

@@ -23,6 +23,12 @@ final class CommandHelp {
                 "                                               how long a run would take on this machine",
                 "                                               (measured on a few specifications) and its",
                 "                                               memory at the peak; fits nothing, writes nothing"));
+        COMMANDS.put("lock", String.join("\n",
+                "  java -jar forkscape.jar lock PLAN.json [--replace yes]",
+                "                                               fix the plan before any result is seen: write",
+                "                                               PLAN.lock.json beside it (the plan's and data's",
+                "                                               SHA-256, the time, a fingerprint to deposit);",
+                "                                               runs then record whether they match it"));
         COMMANDS.put("verify", String.join("\n",
                 "  java -jar forkscape.jar verify RUN_DIR       re-run a run folder from its plan.json, data and",
                 "                                               seed; exit 0 when specifications.csv and",

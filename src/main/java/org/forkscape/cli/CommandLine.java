@@ -79,6 +79,7 @@ public final class CommandLine {
             switch (command) {
                 case "run" -> RunCommand.execute(args, out, err);
                 case "estimate" -> EstimateCommand.execute(args, out);
+                case "lock" -> LockCommand.execute(args, out);
                 case "report" -> ReportCommand.execute(args, out);
                 case "verify" -> {
                     return VerifyCommand.execute(args, out, err);

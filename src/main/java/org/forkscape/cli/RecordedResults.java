@@ -25,10 +25,11 @@ final class RecordedResults {
      * summary.json keys that describe how and when a run was made, not what it found: the fitting and
      * null-draw times, the command, start, Java version and threads, and the plan file's hash (the
      * re-run reads plan.json, a copy of the plan as text, whose bytes may differ from the original file's,
-     * by a byte-order mark for one).
+     * by a byte-order mark for one), and the comparison with the plan's lock (it is about the files the run
+     * read, not its results, and the re-run reads the run folder's copy, which has no lock beside it).
      */
     static final List<String> IGNORED = List.of("seconds", "null.seconds", "provenance.command", "provenance.started",
-            "provenance.java", "provenance.threads", "provenance.plan_sha256");
+            "provenance.java", "provenance.threads", "provenance.plan_sha256", "provenance.lock");
 
     private RecordedResults() {
     }

@@ -15,6 +15,7 @@ import org.forkscape.plan.PlanException;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
+import org.forkscape.run.PlanLock;
 import org.forkscape.run.RunOrigin;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
@@ -77,6 +78,7 @@ final class RunCommand {
             throw new UsageException("--null-cluster: \"" + nullSettings.clusterColumn() + "\" is not a column of "
                     + table.source() + hint);
         }
+        PlanLock lock = PlanLock.readIfPresent(PlanLock.besidePlan(planFile)).orElse(null);
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         long memoryLimit = a.has("max-memory") ? size(a.text("max-memory")) : MemoryEstimate.defaultLimit();
         RunPipeline pipeline = new RunPipeline(threads).refusingMemoryAbove(memoryLimit, "fit a seeded random sample "
@@ -87,7 +89,7 @@ final class RunCommand {
         try (ResultFolder results = ResultFolder.open(folder)) {
             try {
                 completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
-                        plan.dataFile()), results.staging(), (run, progress, cancel) -> InferenceSections
+                        plan.dataFile(), lock), results.staging(), (run, progress, cancel) -> InferenceSections
                         .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
             } catch (InputException e) {
                 throw located(planName, e);
@@ -107,6 +109,9 @@ final class RunCommand {
                 HumanNumbers.count(summary.specifications()), completed.result().seconds(),
                 HumanNumbers.number(summary.medianEstimate()), HumanNumbers.share(summary.shareSignificantPositive()),
                 HumanNumbers.share(summary.shareSignificantNegative()), joint, folder);
+        if (completed.provenance().lock() != null) {
+            completed.provenance().lock().warning().ifPresent(w -> err.println("forkscape: warning: " + w));
+        }
         for (String warning : completed.inference().warnings()) {
             err.println("forkscape: warning: " + CommandLine.oneLine(warning));
         }

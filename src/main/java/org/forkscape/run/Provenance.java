@@ -17,16 +17,19 @@ import org.forkscape.Version;
 /**
  * How a run was made, written under {@code provenance} in summary.json: Forkscape's version, the SHA-256
  * of the plan's and the data's bytes (FIPS 180-4, Secure Hash Standard), the seed, the command, the start
- * in UTC, the Java version and the fitting threads (which do not change results).
+ * in UTC, the Java version and the fitting threads (which do not change results), and for a plan with a
+ * lock, whether the plan and data still match it ({@link PlanLock.Status}, null without a lock).
  */
 public record Provenance(String version, String planSha256, String dataSha256, long seed, String command,
-        Instant started, String java, int threads) {
+        Instant started, String java, int threads, PlanLock.Status lock) {
 
     /** The provenance of a run starting now, from what the door gave and what the pipeline knows. */
     public static Provenance of(RunOrigin origin, long seed, int threads) {
-        return new Provenance(Version.current(), sha256(origin.planBytes()), sha256(origin.dataFile()), seed,
-                origin.command(), Instant.now().truncatedTo(ChronoUnit.SECONDS), System.getProperty("java.version"),
-                threads);
+        String plan = sha256(origin.planBytes());
+        String data = sha256(origin.dataFile());
+        return new Provenance(Version.current(), plan, data, seed, origin.command(),
+                Instant.now().truncatedTo(ChronoUnit.SECONDS), System.getProperty("java.version"), threads,
+                origin.lock() == null ? null : origin.lock().check(plan, data));
     }
 
     public Map<String, Object> toJson() {
@@ -39,11 +42,14 @@ public record Provenance(String version, String planSha256, String dataSha256, l
         m.put("started", started.toString());
         m.put("java", java);
         m.put("threads", threads);
+        if (lock != null) {
+            m.put("lock", lock.toJson());
+        }
         return m;
     }
 
     /** Lower-case hex SHA-256 of the bytes. */
-    static String sha256(byte[] bytes) {
+    public static String sha256(byte[] bytes) {
         return HexFormat.of().formatHex(digest().digest(bytes));
     }
 

@@ -9,6 +9,11 @@ import java.nio.file.Path;
  * @param command   the command line as given, or a short description of the web action
  * @param planBytes the plan file's bytes as the door read them (not modified)
  * @param dataFile  the data file the table was read from
+ * @param lock      the plan's lock, or null when the plan has none
  */
-public record RunOrigin(String command, byte[] planBytes, Path dataFile) {
+public record RunOrigin(String command, byte[] planBytes, Path dataFile, PlanLock lock) {
+    /** The origin of a run of a plan without a lock. */
+    public RunOrigin(String command, byte[] planBytes, Path dataFile) {
+        this(command, planBytes, dataFile, null);
+    }
 }

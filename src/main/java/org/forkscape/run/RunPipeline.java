@@ -88,7 +88,7 @@ public final class RunPipeline {
             throw new RunCancelledException();
         }
         write(result, folder, planText, outcome, provenance, listener);
-        return new CompletedRun<>(result, summary, outcome);
+        return new CompletedRun<>(result, summary, outcome, provenance);
     }
 
     private void check(Plan plan, Table table) {

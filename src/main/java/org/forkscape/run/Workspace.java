@@ -30,6 +30,7 @@ import tools.jackson.databind.JsonNode;
  * WORKSPACE/analyses/ID/analysis.json   title, the uploaded file's name (shown, never a path), size, created, demo
  * WORKSPACE/analyses/ID/data.csv        the uploaded data, byte for byte
  * WORKSPACE/analyses/ID/plan.json       the plan being edited (absent until first saved)
+ * WORKSPACE/analyses/ID/plan.lock.json  the saved plan's lock ({@link PlanLock}; absent until it is locked)
  * WORKSPACE/analyses/ID/runs/RUN/plan.json            the plan exactly as run; like ID/plan.json it names
  *                                                    "data": "data.csv" and is read against ID/
  * WORKSPACE/analyses/ID/runs/RUN/status               one word: queued, running, finished, failed, cancelled,
@@ -50,6 +51,7 @@ public final class Workspace {
     public static final String ANALYSIS = "analysis.json";
     public static final String DATA = "data.csv";
     public static final String PLAN = "plan.json";
+    public static final String PLAN_LOCK = "plan.lock.json";
     public static final String STATUS = "status";
     public static final String RUN_RECORD = "run.json";
     public static final String LOG = "run.log";
@@ -238,6 +240,20 @@ public final class Workspace {
             AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
         } catch (UncheckedIOException e) {
             throw writeFailure(e, "the plan was not saved");
+        }
+    }
+
+    /** The saved plan's lock, if it was locked; a lock file that is no lock is an {@link InputException}. */
+    public Optional<PlanLock> planLock(String analysisId) {
+        return PlanLock.readIfPresent(analysisFolder(analysisId).resolve(PLAN_LOCK));
+    }
+
+    public void savePlanLock(String analysisId, PlanLock lock) {
+        requireAnalysis(analysisId);
+        try {
+            Json.write(analysisFolder(analysisId).resolve(PLAN_LOCK), lock.toJson());
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the plan was not locked");
         }
     }
 

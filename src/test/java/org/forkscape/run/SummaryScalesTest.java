@@ -52,7 +52,7 @@ class SummaryScalesTest {
               {"name": "model", "kind": "model", "alternatives": ["ols", "logit"]}
             ]}""";
 
-    private static final Provenance PROVENANCE = new Provenance("0", "a", "b", 7, "test", Instant.EPOCH, "17", 1);
+    private static final Provenance PROVENANCE = new Provenance("0", "a", "b", 7, "test", Instant.EPOCH, "17", 1, null);
 
     @Test
     void headlineKeysStayAndEachGroupAndScaleHasItsOwnNumbers() {

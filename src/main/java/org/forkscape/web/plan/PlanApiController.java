@@ -1,5 +1,7 @@
 package org.forkscape.web.plan;
 
+import java.util.Map;
+import org.forkscape.InputException;
 import org.forkscape.run.Json;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.web.system.Lookup;
@@ -9,10 +11,11 @@ import org.springframework.web.bind.annotation.PostMapping;
 import org.springframework.web.bind.annotation.PutMapping;
 import org.springframework.web.bind.annotation.RequestBody;
 import org.springframework.web.bind.annotation.RequestMapping;
+import org.springframework.web.bind.annotation.RequestParam;
 import org.springframework.web.bind.annotation.RestController;
 import tools.jackson.databind.JsonNode;
 
-/** The JSON face of the plan page: read, check and save an analysis's plan. */
+/** The JSON face of the plan page: read, check, save and lock an analysis's plan. */
 @RestController
 @RequestMapping("/api/analyses/{analysis}/plan")
 class PlanApiController {
@@ -52,6 +55,32 @@ class PlanApiController {
     @PostMapping(path = "/estimate", consumes = "application/json")
     PlanService.RunEstimate estimate(@PathVariable String analysis, @RequestBody(required = false) String plan) {
         return plans.estimate(lookup.analysis(analysis), plan == null ? "" : plan);
+    }
+
+    /**
+     * @param lock the saved plan's lock as a run records it ({@code fingerprint}, {@code locked},
+     *             {@code plan_matches}, {@code data_matches}), or null when the plan is not locked
+     */
+    record LockView(Map<String, Object> lock) {
+    }
+
+    @GetMapping("/lock")
+    LockView lock(@PathVariable String analysis) {
+        return new LockView(plans.lockStatus(lookup.analysis(analysis)).map(s -> s.toJson()).orElse(null));
+    }
+
+    /**
+     * Locks the saved plan; 400 when none is saved, it cannot run, or it is locked already and
+     * {@code replace} is not {@code yes}.
+     */
+    @PostMapping("/lock")
+    LockView lock(@PathVariable String analysis, @RequestParam(defaultValue = "no") String replace) {
+        if (!replace.equals("yes") && !replace.equals("no")) {
+            throw new InputException("replace", "must be yes or no; found " + InputException.quoted(replace));
+        }
+        StoredAnalysis a = lookup.analysis(analysis);
+        plans.lock(a, replace.equals("yes"));
+        return lock(analysis);
     }
 
     /** Checks without saving; always 200, the answer says whether the plan is valid. */

@@ -1,8 +1,10 @@
 package org.forkscape.web.plan;
 
+import java.nio.charset.StandardCharsets;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.SpecificationModels;
@@ -13,6 +15,8 @@ import org.forkscape.plan.PlanReader;
 import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.Json;
 import org.forkscape.run.MemoryEstimate;
+import org.forkscape.run.PlanLock;
+import org.forkscape.run.Provenance;
 import org.forkscape.run.TimeEstimate;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.StoredAnalysis;
@@ -139,6 +143,35 @@ public class PlanService {
         Plan plan = read(analysis, json);
         workspace.savePlan(analysis.id(), json);
         return PlanCheck.ready(count(plan), fitted(plan));
+    }
+
+    /**
+     * Locks the saved plan (its plan.json and the analysis's data.csv, the bytes a run of it records),
+     * which must pass the check; an existing lock is kept unless {@code replace}, as the {@code lock}
+     * command keeps it.
+     *
+     * @throws InputException when no plan was saved, the saved plan cannot run, or it is locked already
+     */
+    public PlanLock lock(StoredAnalysis analysis, boolean replace) {
+        String saved = workspace.plan(analysis.id()).orElseThrow(() -> new InputException("plan",
+                "save the plan before locking it"));
+        read(analysis, saved);
+        Optional<PlanLock> earlier = workspace.planLock(analysis.id());
+        if (earlier.isPresent() && !replace) {
+            throw new InputException("lock", "the plan was locked at " + earlier.get().locked() + " (fingerprint "
+                    + earlier.get().fingerprint() + "); lock it anew to replace that lock, with a new time and "
+                    + "fingerprint");
+        }
+        PlanLock lock = PlanLock.of(saved.getBytes(StandardCharsets.UTF_8), workspace.dataFile(analysis.id()));
+        workspace.savePlanLock(analysis.id(), lock);
+        return lock;
+    }
+
+    /** The saved plan's lock and whether the saved plan and the data still match it, or empty without a lock. */
+    public Optional<PlanLock.Status> lockStatus(StoredAnalysis analysis) {
+        return workspace.planLock(analysis.id()).map(lock -> lock.check(workspace.plan(analysis.id()).map(p ->
+                Provenance.sha256(p.getBytes(StandardCharsets.UTF_8))).orElse(""), Provenance.sha256(
+                workspace.dataFile(analysis.id()))));
     }
 
     private static long count(Plan plan) {

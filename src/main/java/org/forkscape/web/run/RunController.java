@@ -4,10 +4,13 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import org.forkscape.InputException;
 import org.forkscape.Version;
 import org.forkscape.infer.NullDrawsCsv;
 import org.forkscape.infer.OverfittingCsv;
+import org.forkscape.run.Json;
+import org.forkscape.run.PlanLock;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunState;
 import org.forkscape.run.StoredAnalysis;
@@ -90,10 +93,17 @@ class RunController {
             model.addAttribute("moreFiles", MORE_FILES.stream().filter(f -> Files.isRegularFile(folder.resolve(f))).toList());
             model.addAttribute("downloadPrefix", DownloadNames.prefix(a, r));
             model.addAttribute("version", Version.current());
+            model.addAttribute("planLock", recordedLock(folder).orElse(null));
             return EXPLORE;
         }
         model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());
         return PROGRESS;
+    }
+
+    /** What the run recorded about its plan's lock (summary.json's {@code provenance.lock}). */
+    private static Optional<PlanLock.Status> recordedLock(Path folder) {
+        return PlanLock.Status.recorded(Json.MAPPER.readTree(folder.resolve(RunOutputs.SUMMARY).toFile())
+                .path("provenance"));
     }
 
     @PostMapping("/analyses/{analysis}/runs/{run}/cancel")

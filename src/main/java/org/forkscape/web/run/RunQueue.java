@@ -254,12 +254,16 @@ public class RunQueue {
                 Path folder = workspace.runFolder(analysis.id(), record.id());
                 // the run's plan.json holds planText as UTF-8 (Workspace.createRun), so these are its bytes
                 RunOrigin origin = new RunOrigin("web: run of analysis " + analysis.id(),
-                        planText.getBytes(StandardCharsets.UTF_8), workspace.dataFile(analysis.id()));
+                        planText.getBytes(StandardCharsets.UTF_8), workspace.dataFile(analysis.id()),
+                        workspace.planLock(analysis.id()).orElse(null));
                 CompletedRun<InferenceStage.Outcome> completed;
                 try (MemoryBudget.Reservation memory = memoryFor(plan, table)) {
                     completed = pipeline.run(plan, table, planText, origin, folder, sections::of, stages(plan), cancel);
                 }
                 RunSummary summary = completed.summary();
+                if (completed.provenance().lock() != null) {
+                    completed.provenance().lock().warning().ifPresent(w -> workspace.log(record, "warning: " + w));
+                }
                 if (end(RunState.FINISHED, "", "", String.format("finished: fitted %,d of %,d specifications in %.2f s",
                         summary.fitted(), summary.specifications(), completed.result().seconds()))) {
                     events.publishEvent(new RunFinished(analysis.id(), record.id(), completed.result()));

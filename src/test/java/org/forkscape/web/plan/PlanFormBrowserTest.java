@@ -244,12 +244,15 @@ class PlanFormBrowserTest {
             assertEquals(panelWidth, titleWidth, 1, "the title box at " + width + " px");
             // with each problem and the add button brought to the bottom edge of the window in turn, as
             // scrolling down to them does, no two elements overlap (a pinned bar would lie over them there)
-            List<WebElement> targets = new java.util.ArrayList<>(driver.findElements(By.cssSelector(".problem-line")));
-            targets.add(driver.findElement(By.id("add-decision")));
-            for (WebElement target : targets) {
-                driver.executeScript("arguments[0].scrollIntoView({block: 'end'})", target);
+            // each found again in turn: a check still answering (the title's, debounced) draws the lines anew
+            // (found, scrolled to and named in one script, so that no reference to a redrawn line is kept)
+            int lines = driver.findElements(By.cssSelector(".problem-line")).size();
+            for (int i = 0; i <= lines; i++) {
+                String target = (String) driver.executeScript("const lines = document.querySelectorAll('.problem-line');"
+                        + "const t = arguments[0] < lines.length ? lines[arguments[0]] : document.getElementById('add-decision');"
+                        + "t.scrollIntoView({block: 'end'}); return t.textContent;", i);
                 List<String> overlaps = overlaps();
-                assertEquals(List.of(), overlaps, "at " + width + " px with " + target.getText() + " at the bottom");
+                assertEquals(List.of(), overlaps, "at " + width + " px with " + target + " at the bottom");
             }
             BrowserDriver.screenshot(driver, "plan-3-at-" + width);
         }
@@ -297,6 +300,41 @@ class PlanFormBrowserTest {
         String text = driver.findElement(By.id("plan-estimate")).getText();
         assertTrue(text.contains("of the 576 specifications fitted on this machine") && text.contains("Memory: about")
                 && text.contains("of this server's limit"), text);
+    }
+
+    /**
+     * "Lock this plan" saves and locks the plan: the page shows the time and fingerprint of the lock file
+     * written into the analysis folder, and asks before locking anew.
+     */
+    @Test
+    void lockThisPlanShowsTheFingerprintOfTheLockInTheAnalysisFolder() throws Exception {
+        String id = upload(CivicTestData.csv(200, 7));
+        HttpResponse<String> saved = HttpClient.newHttpClient().send(HttpRequest.newBuilder(URI.create(base()
+                + "/api/analyses/" + id + "/plan")).header("Content-Type", "application/json")
+                .PUT(HttpRequest.BodyPublishers.ofString(CivicTestData.plan())).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, saved.statusCode(), saved.body());
+        WebDriverWait wait = new WebDriverWait(driver, Duration.ofSeconds(30));
+        driver.get(base() + "/analyses/" + id + "/plan");
+        WebElement note = wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("plan-lock")));
+        wait.until(d -> note.getText().startsWith("Not locked."));
+        click(driver.findElement(By.id("lock-plan")));
+        wait.until(d -> note.getText().startsWith("Locked at "));
+        Path lockFile = TEMP.resolve("workspace/analyses/" + id + "/plan.lock.json");
+        String lock = Files.readString(lockFile);
+        Matcher fingerprint = Pattern.compile("\"fingerprint\" : \"([0-9a-f-]+)\"").matcher(lock);
+        Matcher locked = Pattern.compile("\"locked\" : \"([^\"]+)\"").matcher(lock);
+        assertTrue(fingerprint.find() && locked.find(), lock);
+        assertEquals("Locked at " + locked.group(1) + ", fingerprint " + fingerprint.group(1) + ". The saved plan and "
+                + "the data match the lock; runs record it.", note.getText());
+        BrowserDriver.screenshot(driver, "plan-7-locked");
+
+        // locked already: the page asks, and a refusal keeps the lock as it was
+        click(driver.findElement(By.id("lock-plan")));
+        wait.until(ExpectedConditions.alertIsPresent());
+        assertTrue(driver.switchTo().alert().getText().startsWith("The plan was locked at " + locked.group(1)),
+                driver.switchTo().alert().getText());
+        driver.switchTo().alert().dismiss();
+        assertEquals(lock, Files.readString(lockFile));
     }
 
     private WebDriverWait openNewPlan() throws Exception {

@@ -41,6 +41,7 @@ final class CommandHelp {
                 "                                               (DIR/figure.svg, .pdf, .png), its headline",
                 "                                               table (DIR/table.tex, DIR/table.md), a methods",
                 "                                               paragraph (DIR/methods.md) and DIR/report.html"));
+        COMMANDS.put("compare", CompareCommand.HELP);
         COMMANDS.put("demo-data", String.join("\n",
                 "  java -jar forkscape.jar demo-data DIR [--replace yes]",
                 "                                               write the demo's data and plans into DIR"));

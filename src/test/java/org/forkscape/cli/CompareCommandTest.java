@@ -156,6 +156,39 @@ class CompareCommandTest {
     }
 
     @Test
+    void aRunComparedWithItselfChangesNothingAndHelpNamesTheCommand() throws IOException {
+        Path a = runOf("authors", "", "\"age\"");
+        Outcome o = run("compare", a.toString(), a.toString(), "--out", dir.resolve("same").toString());
+        assertEquals(0, o.code(), o.err());
+        assertEquals("B's plan has the same decisions and alternatives as A's; the 4 shared specifications are "
+                + "identical." + NL, o.out());
+        Outcome help = run("compare", "--help");
+        assertEquals(0, help.code());
+        assertTrue(help.out().contains("java -jar forkscape.jar compare RUN_A RUN_B --out DIR"), help.out());
+        assertTrue(run("help").out().contains("java -jar forkscape.jar compare RUN_A RUN_B --out DIR"));
+    }
+
+    @Test
+    void aWholeAddedDecisionMakesEverySpecificationOfBItsOwn() throws IOException {
+        Path a = runOf("authors", "", "\"age\"");
+        Path plan = dir.resolve("reviewer.json");
+        Files.writeString(plan, Files.readString(dir.resolve("authors.json")).replace("]}]}", "]},"
+                + "{\"name\": \"rows\", \"kind\": \"sample\", \"alternatives\": [{\"label\": \"all\"}, "
+                + "{\"label\": \"near\", \"keep\": \"distance < 6\"}]}]}"));
+        Path b = dir.resolve("reviewer");
+        assertEquals(0, run("run", plan.toString(), "--out", b.toString()).code());
+        Outcome o = run("compare", a.toString(), b.toString(), "--out", dir.resolve("comparison").toString());
+        assertEquals(0, o.code(), o.err());
+        // 2 control subsets x 2 error types in A; times 2 sample alternatives in B
+        assertTrue(o.out().startsWith("B adds the decision \"rows\" (2 alternatives); the runs share no "
+                + "specification; the 8 added and 4 removed ones move the median from "), o.out());
+        JsonNode json = MAPPER.readTree(dir.resolve("comparison").resolve("compare.json").toFile());
+        assertEquals("rows", json.path("plan").path("decisions_added").get(0).path("name").asString());
+        assertEquals(0, json.path("specifications").path("shared").asInt());
+        assertEquals(12, records(dir.resolve("comparison").resolve("compare.csv")).size());
+    }
+
+    @Test
     void badInputIsOneLineWithExitCodeTwoAndWritesNothing() throws IOException {
         Path a = runOf("authors", "", "\"age\"");
         Path out = dir.resolve("comparison");

@@ -1,5 +1,6 @@
 package org.forkscape.cli;
 
+import java.io.IOException;
 import java.io.PrintStream;
 import java.nio.file.Files;
 import java.nio.file.InvalidPathException;
@@ -72,7 +73,8 @@ final class CompareCommand {
         try {
             return Files.exists(out) ? Files.isSameFile(out, run)
                     : out.toAbsolutePath().normalize().equals(run.toAbsolutePath().normalize());
-        } catch (java.io.IOException e) {
+        } catch (IOException e) {
+            // unreadable attributes: compare the paths as written, which is all a folder still to be made has
             return out.toAbsolutePath().normalize().equals(run.toAbsolutePath().normalize());
         }
     }

@@ -10,6 +10,7 @@ import java.io.IOException;
 import java.io.Reader;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -53,7 +54,7 @@ class CompareCommandTest {
         Files.writeString(dir.resolve("neighbourhoods.csv"), csv);
     }
 
-    private Path runOf(String name, String required, String optional) throws IOException {
+    private Path runOf(String name, String required, String optional, String... options) throws IOException {
         Path plan = dir.resolve(name + ".json");
         Files.writeString(plan, "{\"data\": \"neighbourhoods.csv\", \"decisions\": ["
                 + "{\"name\": \"outcome\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"visits\", \"column\": \"visits\"}]},"
@@ -62,7 +63,10 @@ class CompareCommandTest {
                 + optional + "]},"
                 + "{\"name\": \"errors\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC1\"]}]}");
         Path out = dir.resolve(name);
-        Outcome o = run("run", plan.toString(), "--out", out.toString(), "--threads", "1");
+        List<String> args = new ArrayList<>(List.of("run", plan.toString(), "--out", out.toString(),
+                "--threads", "1"));
+        args.addAll(List.of(options));
+        Outcome o = run(args.toArray(String[]::new));
         assertEquals(0, o.code(), o.err());
         return out;
     }
@@ -186,6 +190,27 @@ class CompareCommandTest {
         assertEquals("rows", json.path("plan").path("decisions_added").get(0).path("name").asString());
         assertEquals(0, json.path("specifications").path("shared").asInt());
         assertEquals(12, records(dir.resolve("comparison").resolve("compare.csv")).size());
+    }
+
+    @Test
+    void theJointTestsOfEachRunAndGroupAreCopiedFromItsSummary() throws IOException {
+        Path a = runOf("authors", "", "\"age\"", "--null-draws", "19", "--seed", "3");
+        Path b = runOf("reviewer", "", "\"age\", \"income\"", "--null-draws", "19", "--seed", "3");
+        Path out = dir.resolve("comparison");
+        assertEquals(0, run("compare", a.toString(), b.toString(), "--out", out.toString()).code());
+        JsonNode json = MAPPER.readTree(out.resolve("compare.json").toFile());
+        for (String side : List.of("a", "b")) {
+            JsonNode summary = MAPPER.readTree((side.equals("a") ? a : b).resolve("summary.json").toFile());
+            JsonNode whole = json.path("headline").path(side).path("joint_tests");
+            assertEquals(19, whole.path("draws").asInt(), whole.toString());
+            assertEquals(summary.path("null").path("p_median"), whole.path("p_median"));
+            assertEquals(summary.path("null").path("p_stouffer"), whole.path("p_stouffer"));
+            JsonNode group = json.path("groups").get(0).path(side).path("joint_tests");
+            JsonNode tests = summary.path("by_scale").path("groups").get(0).path("null").path("tests");
+            assertTrue(tests.path("median").path("p").isNumber(), tests.toString());
+            assertEquals(tests.path("median").path("p"), group.path("p_median"));
+            assertEquals(tests.path("share_significant").path("p"), group.path("p_share_significant"));
+        }
     }
 
     @Test

@@ -81,6 +81,7 @@ public final class CommandLine {
                 case "estimate" -> EstimateCommand.execute(args, out);
                 case "lock" -> LockCommand.execute(args, out);
                 case "report" -> ReportCommand.execute(args, out);
+                case "check" -> { return CheckCommand.execute(args, out); }
                 case "verify" -> {
                     return VerifyCommand.execute(args, out, err);
                 }

@@ -245,4 +245,15 @@ class CheckCommandTest {
         assertEquals(2, noOption.code());
         assertTrue(noOption.err().contains("check needs --policy POLICY.json"), noOption.err());
     }
+
+    @Test
+    void aNewRunIntoTheFolderRemovesTheEarlierCheck() throws IOException {
+        Path plan = plan("plan.json", false);
+        Path out = runInto(plan, "results", "--threads", "1");
+        assertEquals(0, run("check", out.toString(), "--policy", policy("{\"rows_per_coefficient\": {}}").toString())
+                .code());
+        assertTrue(Files.exists(out.resolve("check.json")));
+        runInto(plan, "results", "--threads", "1");
+        assertFalse(Files.exists(out.resolve("check.json")), "a check of the earlier results does not stay beside new ones");
+    }
 }

@@ -27,23 +27,30 @@ final class PolicyReader {
 
     private final String file;
 
-    private PolicyReader(Path file) {
-        this.file = file.toString();
+    private PolicyReader(String file) {
+        this.file = file;
     }
 
     static List<ReleaseRule> read(Path policy) {
         if (!Files.isRegularFile(policy)) {
             throw new InputException(policy.toString(), "no such policy file");
         }
-        JsonNode root;
         try {
-            root = MAPPER.readTree(Files.readString(policy));
+            return parse(Files.readString(policy), policy.toString());
         } catch (IOException e) {
             throw new UncheckedIOException("cannot read " + policy + ": " + e.getMessage(), e);
-        } catch (JacksonException e) {
-            throw new InputException(policy.toString(), "is not valid JSON: " + e.getOriginalMessage());
         }
-        return new PolicyReader(policy).rules(root);
+    }
+
+    /** The rules of a policy's text; {@code where} names it in messages (the file, or the browser's field). */
+    static List<ReleaseRule> parse(String text, String where) {
+        JsonNode root;
+        try {
+            root = MAPPER.readTree(text);
+        } catch (JacksonException e) {
+            throw new InputException(where, "is not valid JSON: " + e.getOriginalMessage());
+        }
+        return new PolicyReader(where).rules(root);
     }
 
     private List<ReleaseRule> rules(JsonNode root) {

@@ -13,6 +13,16 @@ public enum Verdict {
         this.word = word;
     }
 
+    /** The verdict of a spelling in check.json; an unknown one is an {@code IllegalArgumentException}. */
+    static Verdict named(String word) {
+        for (Verdict v : values()) {
+            if (v.word.equals(word)) {
+                return v;
+            }
+        }
+        throw new IllegalArgumentException("unknown result \"" + word + "\"");
+    }
+
     /** The spelling in check.json and on the terminal. */
     public String word() {
         return word;

@@ -33,7 +33,7 @@ final class CheckCommand {
         }
         ReleaseCheck check = ReleaseCheck.of(folder, policy);
         check.results().stream().map(RuleResult::line).forEach(out::println);
-        check.write(folder, policy);
+        check.write(folder, policy.toString());
         out.println((check.passed() ? "release check passed" : "release check failed: " + check.failures() + " of "
                 + check.results().size() + " rules") + "; written to " + folder.resolve(ReleaseCheck.FILE));
         return check.passed() ? 0 : 3;

@@ -23,15 +23,15 @@ record JointTestsRule(double below, List<String> tests) implements ReleaseRule {
     @Override
     public RuleResult evaluate(RunEvidence run) {
         String requirement = "p below " + Numbers.text(below) + " for " + String.join(", ", tests);
-        JsonNode null_ = run.summary().path("null").path("tests");
-        if (!null_.isObject()) {
+        JsonNode recorded = run.summary().path("null").path("tests");
+        if (!recorded.isObject()) {
             return RuleResult.of(NAME, false, null, requirement, "the run has no null draws (run with --null-draws R)");
         }
         Map<String, Object> measured = new LinkedHashMap<>();
         List<String> words = new ArrayList<>();
         boolean pass = true;
         for (String test : tests) {
-            JsonNode t = null_.path(test);
+            JsonNode t = recorded.path(test);
             if (!t.path("p").isNumber()) {
                 measured.put(test, null);
                 words.add(test + " p undefined");

@@ -34,6 +34,7 @@ final class CommandHelp {
                 "                                               seed; exit 0 when specifications.csv and",
                 "                                               summary.json come out identical, 3 at the first",
                 "                                               difference, 2 when the data's SHA-256 changed"));
+        COMMANDS.put("check", String.join("\n", "  java -jar forkscape.jar check RUN_DIR --policy POLICY.json", "                                               check a run folder against a release policy: each rule's", "                                               measured value and pass or fail, RUN_DIR/check.json;", "                                               exit 0 when all pass, 3 when one fails"));
         COMMANDS.put("report", String.join("\n",
                 "  java -jar forkscape.jar report RUN_DIR --out DIR [--scale fitted|effect|standardized|partial|t]",
                 "                                               [--group G] [--size column|page]",

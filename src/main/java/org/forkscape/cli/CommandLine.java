@@ -82,6 +82,7 @@ public final class CommandLine {
                 case "lock" -> LockCommand.execute(args, out);
                 case "report" -> ReportCommand.execute(args, out);
                 case "compare" -> CompareCommand.execute(args, out);
+                case "check" -> { return CheckCommand.execute(args, out); }
                 case "verify" -> {
                     return VerifyCommand.execute(args, out, err);
                 }

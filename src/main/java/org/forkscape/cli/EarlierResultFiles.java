@@ -5,6 +5,7 @@ import java.nio.file.LinkOption;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import org.forkscape.check.ReleaseCheck;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.run.RunOutputs;
 
@@ -21,6 +22,8 @@ final class EarlierResultFiles {
     static {
         List<String> names = new ArrayList<>(RunOutputs.FILES);
         names.addAll(InferenceSections.FILE_NAMES);
+        // a release check judged the earlier results; left beside new ones it would vouch for results it never saw
+        names.add(ReleaseCheck.FILE);
         NAMES = List.copyOf(names);
     }
 

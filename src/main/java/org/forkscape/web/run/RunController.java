@@ -7,6 +7,7 @@ import java.util.Map;
 import java.util.Optional;
 import org.forkscape.InputException;
 import org.forkscape.Version;
+import org.forkscape.check.ReleaseCheck;
 import org.forkscape.infer.NullDrawsCsv;
 import org.forkscape.infer.OverfittingCsv;
 import org.forkscape.run.Json;
@@ -16,6 +17,7 @@ import org.forkscape.run.RunState;
 import org.forkscape.run.StoredAnalysis;
 import org.forkscape.run.StoredRun;
 import org.forkscape.run.Workspace;
+import org.forkscape.web.check.ReleaseCheckPanel;
 import org.forkscape.web.plan.PlanPage;
 import org.forkscape.web.plan.PlanService;
 import org.forkscape.web.system.Lookup;
@@ -50,9 +52,10 @@ class RunController {
             RunOutputs.PLAN, MediaType.APPLICATION_JSON,
             NullDrawsCsv.FILE, CSV,
             OverfittingCsv.FILE, CSV,
+            ReleaseCheck.FILE, MediaType.APPLICATION_JSON,
             Workspace.LOG, MediaType.parseMediaType("text/plain;charset=UTF-8"));
     /** Files of the inference stage, offered beside the explorer's exports when the run wrote them. */
-    private static final List<String> MORE_FILES = List.of(NullDrawsCsv.FILE, OverfittingCsv.FILE, Workspace.LOG);
+    private static final List<String> MORE_FILES = List.of(NullDrawsCsv.FILE, OverfittingCsv.FILE, ReleaseCheck.FILE, Workspace.LOG);
 
     private final RunQueue queue;
     private final PlanService plans;
@@ -94,6 +97,7 @@ class RunController {
             model.addAttribute("downloadPrefix", DownloadNames.prefix(a, r));
             model.addAttribute("version", Version.current());
             model.addAttribute("planLock", recordedLock(folder).orElse(null));
+            model.addAttribute("releaseCheck", ReleaseCheckPanel.of(folder));
             return EXPLORE;
         }
         model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());

@@ -1,12 +1,21 @@
 package org.forkscape.web;
 
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Map;
 import java.util.logging.Level;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import org.openqa.selenium.OutputType;
 import org.openqa.selenium.TakesScreenshot;
 import org.openqa.selenium.chrome.ChromeDriver;
@@ -83,5 +92,24 @@ public final class BrowserDriver {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
+    }
+
+    /**
+     * Uploads {@code csv} as a new analysis through the server's API at {@code base}, as the data page does,
+     * and returns the analysis's id; asserts the 201.
+     */
+    public static String upload(String base, String fileName, String csv) throws Exception {
+        String boundary = "----forkscape-test";
+        String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"" + fileName
+                + "\"\r\nContent-Type: text/csv\r\n\r\n" + csv + "\r\n--" + boundary + "--\r\n";
+        HttpResponse<String> r = HttpClient.newHttpClient().send(
+                HttpRequest.newBuilder(URI.create(base + "/api/analyses"))
+                        .header("Content-Type", "multipart/form-data; boundary=" + boundary)
+                        .POST(HttpRequest.BodyPublishers.ofString(body)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(201, r.statusCode(), r.body());
+        Matcher m = Pattern.compile("\"id\":\"([0-9a-z-]+)\"").matcher(r.body());
+        assertTrue(m.find(), r.body());
+        return m.group(1);
     }
 }

@@ -587,16 +587,7 @@ class ExplorerBrowserTest {
     }
 
     private String upload(String csv) throws Exception {
-        String boundary = "----forkscape-test";
-        String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"outreach.csv\"\r\n"
-                + "Content-Type: text/csv\r\n\r\n" + csv + "\r\n--" + boundary + "--\r\n";
-        HttpResponse<String> r = HttpClient.newHttpClient().send(
-                HttpRequest.newBuilder(URI.create(base() + "/api/analyses"))
-                        .header("Content-Type", "multipart/form-data; boundary=" + boundary)
-                        .POST(HttpRequest.BodyPublishers.ofString(body)).build(),
-                HttpResponse.BodyHandlers.ofString());
-        assertEquals(201, r.statusCode(), r.body());
-        return match(r.body(), "\"id\":\"([0-9a-z-]+)\"");
+        return BrowserDriver.upload(base(), "outreach.csv", csv);
     }
 
     private String base() {

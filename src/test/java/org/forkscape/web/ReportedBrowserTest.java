@@ -169,14 +169,7 @@ class ReportedBrowserTest {
     }
 
     private String upload(String csv) throws Exception {
-        String boundary = "----forkscape-test";
-        String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"outreach.csv\"\r\n"
-                + "Content-Type: text/csv\r\n\r\n" + csv + "\r\n--" + boundary + "--\r\n";
-        HttpResponse<String> r = send(HttpRequest.newBuilder(URI.create(base() + "/api/analyses"))
-                .header("Content-Type", "multipart/form-data; boundary=" + boundary)
-                .POST(HttpRequest.BodyPublishers.ofString(body)));
-        assertEquals(201, r.statusCode(), r.body());
-        return match(r.body(), "\"id\":\"([0-9a-z-]+)\"");
+        return BrowserDriver.upload(base(), "outreach.csv", csv);
     }
 
     private static String match(String text, String regex) {

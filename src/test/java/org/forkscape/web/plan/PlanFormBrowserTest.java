@@ -427,18 +427,7 @@ class PlanFormBrowserTest {
     }
 
     private String upload(String csv) throws Exception {
-        String boundary = "----forkscape-test";
-        String body = "--" + boundary + "\r\nContent-Disposition: form-data; name=\"file\"; filename=\"districts.csv\"\r\n"
-                + "Content-Type: text/csv\r\n\r\n" + csv + "\r\n--" + boundary + "--\r\n";
-        HttpResponse<String> r = HttpClient.newHttpClient().send(
-                HttpRequest.newBuilder(URI.create(base() + "/api/analyses"))
-                        .header("Content-Type", "multipart/form-data; boundary=" + boundary)
-                        .POST(HttpRequest.BodyPublishers.ofString(body)).build(),
-                HttpResponse.BodyHandlers.ofString());
-        assertEquals(201, r.statusCode(), r.body());
-        Matcher m = Pattern.compile("\"id\":\"([0-9a-z-]+)\"").matcher(r.body());
-        assertTrue(m.find(), r.body());
-        return m.group(1);
+        return BrowserDriver.upload(base(), "districts.csv", csv);
     }
 
     private String base() {

@@ -61,7 +61,7 @@ public class ExploreService {
 
     private final Cache<String, ExploreViews.Layout> layouts;
 
-    private record Sections(CurveSummary summary, Influence influence) {
+    private record Sections(CurveSummary summary, Influence influence, int[][] alternativeCounts) {
     }
 
     /** @param leftOut fitted specifications of the selection without a value on the scale */
@@ -238,7 +238,7 @@ public class ExploreService {
         return new ExploreViews.CurveView(fitted, shown.filter().dropText(), shown.sort(), shown.scale().word(),
                 shown.group(), shown.unit(), view.leftOut, sections.summary(), sections.influence(),
                 shown.grouped() ? view.order().groups() : List.of(), CurveReducer.reduce(r, view.order(), width),
-                AlternativeCounts.of(r, view.kept()));
+                sections.alternativeCounts());
     }
 
     /**
@@ -254,8 +254,8 @@ public class ExploreService {
     }
 
     /**
-     * The summary cards and the influence panel of a filtered set, which depend on the set alone (not on its
-     * order or the plot's width) and are the costliest part of a curve: kept for the sets asked for most
+     * The summary cards, the influence panel and the filter panel's counts of a filtered set, which depend on
+     * the set alone (not on its order or the plot's width) and are the costliest part of a curve: kept for the sets asked for most
      * recently, so that going back to a filter, or another width or order of it, reuses them. Computed
      * outside the cache, so no request waits for another's; two requests for a new set may both compute it.
      */
@@ -264,7 +264,7 @@ public class ExploreService {
         if (cached != null) {
             return cached;
         }
-        Sections computed = new Sections(CurveSummary.of(r, kept), influence.of(r, kept));
+        Sections computed = new Sections(CurveSummary.of(r, kept), influence.of(r, kept), AlternativeCounts.of(r, kept));
         sections.put(key, computed);
         return computed;
     }

@@ -1,6 +1,7 @@
 package org.forkscape.fit;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
@@ -21,6 +22,8 @@ import org.junit.jupiter.api.Test;
  * iterations read the rows in within coordinates, and the one-pass cross-products subtract only the
  * weighted level means of those, so the offset must cancel before any product is formed. Invented lake
  * survey: algal bloom (0/1) and bloom days by water temperature and a nutrient reading, lakes as levels.
+ * Both fits must take the Cholesky route: the test asserts it, so that a QR fallback cannot hide a
+ * cancellation.
  */
 class GlmBadlyScaledTest {
     private static final double GRID = 1 << 20;
@@ -49,7 +52,8 @@ class GlmBadlyScaledTest {
                 new NumericColumn("lake", lake)));
     }
 
-    private static KeyFit fit(Table table, String outcome, String model, String absorb, String errors) {
+    private static KeyFit fit(GeneralizedLinear glm, Table table, String outcome, String model, String absorb,
+            String errors) {
         String json = """
                 {"data": "lakes.csv", "decisions": [
                   {"name": "o", "kind": "outcome", "alternatives": [{"label": "y", "column": "%s"}]},
@@ -65,7 +69,7 @@ class GlmBadlyScaledTest {
         long[] choices = new long[models.space().decisionCount()];
         models.space().decode(0, choices);
         DataVariant variant = models.variant(models.variantKey(models.variantOrdinal(choices)));
-        return new ModelDispatch(true).fit(models.model(choices), new ObservedRows().of(variant));
+        return glm.fit(models.model(choices), new ObservedRows().of(variant));
     }
 
     @Test
@@ -76,9 +80,14 @@ class GlmBadlyScaledTest {
             String outcome = model.equals("logit") ? "bloom" : "days";
             for (String absorb : new String[] {"", "\"lake\""}) {
                 for (String errors : new String[] {"classical", "HC3", "cluster:lake"}) {
-                    KeyFit a = fit(near, outcome, model, absorb, errors);
-                    KeyFit b = fit(far, outcome, model, absorb, errors);
+                    GeneralizedLinear nearFit = new GeneralizedLinear();
+                    GeneralizedLinear farFit = new GeneralizedLinear();
+                    KeyFit a = fit(nearFit, near, outcome, model, absorb, errors);
+                    KeyFit b = fit(farFit, far, outcome, model, absorb, errors);
                     String where = model + " " + absorb + " " + errors;
+                    // the offset cancels before any product is formed, so both fits take the Cholesky of
+                    // the cross-products: had it not, their pivots would have sent the far one to QR
+                    assertFalse(nearFit.factoredByQr() || farFit.factoredByQr(), where + ": factored by QR");
                     assertTrue(a.ok() && b.ok(), where + ": " + a.statusText() + " / " + b.statusText());
                     assertEquals(ModelFamily.valueOf(model.toUpperCase()), b.family(), where);
                     assertEquals(a.estimate(), b.estimate(), 1e-9 * Math.abs(a.estimate()), where);

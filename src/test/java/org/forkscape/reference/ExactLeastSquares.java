@@ -21,9 +21,13 @@ public final class ExactLeastSquares {
     static final int DIGIT_COUNT = 90;
     private static final MathContext DIGITS = new MathContext(DIGIT_COUNT);
 
-    /** The key coefficient and its standard errors of every type, each rounded once to a double. */
+    /**
+     * The key coefficient and its standard errors of every type, each rounded once to a double;
+     * {@code cr1Variance} is the square of {@code cr1}, rounded once (NaN with fewer than two clusters), for
+     * signed sums of one-way variances such as multi-way clustering's.
+     */
     public record KeyResult(double estimate, double classical, double hc0, double hc1, double hc2, double hc3,
-            double cr1, int n, int k, int clusters) {
+            double cr1, double cr1Variance, int n, int k, int clusters) {
         /** The standard error of the type spelled as in a plan ("classical", "HC0".."HC3", "cluster:..."). */
         public double stdError(String type) {
             if (type.startsWith("cluster")) {
@@ -164,14 +168,17 @@ public final class ExactLeastSquares {
         BigDecimal classical = rss.divide(dfResidual, DIGITS).multiply(inverse[key][key], DIGITS);
         BigDecimal hc1 = hc0.multiply(BigDecimal.valueOf(n), DIGITS).divide(dfResidual, DIGITS);
         double clusterSe = Double.NaN;
+        double clusterVariance = Double.NaN;
         if (g >= 2) {
             BigDecimal scale = BigDecimal.valueOf((long) g * (n - 1))
                     .divide(BigDecimal.valueOf((long) (g - 1) * (n - k)), DIGITS);
-            clusterSe = cr1.multiply(scale, DIGITS).sqrt(DIGITS).doubleValue();
+            BigDecimal variance = cr1.multiply(scale, DIGITS);
+            clusterSe = variance.sqrt(DIGITS).doubleValue();
+            clusterVariance = variance.doubleValue();
         }
         return new KeyResult(b[key].doubleValue(), classical.sqrt(DIGITS).doubleValue(),
                 hc0.sqrt(DIGITS).doubleValue(), hc1.sqrt(DIGITS).doubleValue(), hc2.sqrt(DIGITS).doubleValue(),
-                hc3.sqrt(DIGITS).doubleValue(), clusterSe, n, k, g);
+                hc3.sqrt(DIGITS).doubleValue(), clusterSe, clusterVariance, n, k, g);
     }
 
     /** Gauss-Jordan elimination with partial pivoting, at {@value #DIGIT_COUNT} digits. */

@@ -16,10 +16,12 @@ package org.forkscape.fit;
  * so that x - z is the within column: the symmetric Kaczmarz form with conjugate-gradient acceleration that
  * Gaure 2013 (section 4) describes. Each iteration costs one sweep, 2D - 1 passes over the rows.
  *
- * <p>Stopping rule: the residual (I - T) x~ of the current within column x~ is at most {@link #TOLERANCE}
- * times the norm of the column given (around its overall mean). The error of x~ is then at most that
- * residual divided by the smallest positive eigenvalue of I - T; {@link #MAX_ITERATIONS} sweeps without
- * getting there are reported as not converged, never used.
+ * <p>Stopping rule: the residual (I - T) x~ of the current within column x~, recomputed from x~ itself (one
+ * sweep's movement), is at most {@link #TOLERANCE} times the norm of the column given (the caller centres it on
+ * its mean); the conjugate-gradient recursion restarts from the true residual if rounding has let the two
+ * drift apart. The error of x~ is then at most that residual divided by the smallest positive eigenvalue of
+ * I - T (which the tests bound on thinly connected designs against the explicit dummies' residual);
+ * {@link #MAX_ITERATIONS} sweeps without getting there are reported as not converged, never used.
  *
  * <p>Weights: level means are weighted means, sum w x / sum w, and norms are weighted, so an analytic weight
  * vector gives the weighted within transformation of weighted least squares; without weights every row
@@ -82,35 +84,40 @@ final class AlternatingProjections {
         if (reference == 0) {
             return true;
         }
-        // z = 0: the residual of (I - T) z = (I - T) x is (I - T) x; x itself is updated as x - z
-        oneMinusSweep(x, r);
-        System.arraycopy(r, 0, p, 0, n);
-        double rr = inner(r, r);
         double stop = TOLERANCE * reference;
-        while (Math.sqrt(rr) > stop) {
+        while (true) {
+            // the true residual (I - T) x~, not the one the recursion carries (rounding makes them drift apart):
+            // the stopping rule holds for the column returned, and a drifted recursion restarts from here
+            oneMinusSweep(x, r);
+            double rr = inner(r, r);
+            if (Math.sqrt(rr) <= stop) {
+                return true;
+            }
             if (iterations == MAX_ITERATIONS) {
                 return false;
             }
-            iterations++;
-            oneMinusSweep(p, ap);
-            double pap = inner(p, ap);
-            if (!(pap > 0)) {
-                // the search direction has left the dummies' span by rounding alone: nothing more to remove
-                break;
-            }
-            double alpha = rr / pap;
-            for (int i = 0; i < n; i++) {
-                x[i] -= alpha * p[i];
-                r[i] -= alpha * ap[i];
-            }
-            double next = inner(r, r);
-            double beta = next / rr;
-            rr = next;
-            for (int i = 0; i < n; i++) {
-                p[i] = r[i] + beta * p[i];
+            System.arraycopy(r, 0, p, 0, n);
+            while (Math.sqrt(rr) > stop && iterations < MAX_ITERATIONS) {
+                iterations++;
+                oneMinusSweep(p, ap);
+                double pap = inner(p, ap);
+                if (!(pap > 0)) {
+                    // the direction has left the dummies' span by rounding alone: check and restart
+                    break;
+                }
+                double alpha = rr / pap;
+                for (int i = 0; i < n; i++) {
+                    x[i] -= alpha * p[i];
+                    r[i] -= alpha * ap[i];
+                }
+                double next = inner(r, r);
+                double beta = next / rr;
+                rr = next;
+                for (int i = 0; i < n; i++) {
+                    p[i] = r[i] + beta * p[i];
+                }
             }
         }
-        return true;
     }
 
     /** out = v - T v, one symmetric sweep (v not modified). */

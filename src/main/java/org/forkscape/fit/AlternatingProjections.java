@@ -10,11 +10,12 @@ package org.forkscape.fit;
  * <p>With Q_d the projection that subtracts each level's (weighted) mean of dimension d, the symmetric sweep
  * T = Q_1 Q_2 ... Q_D ... Q_2 Q_1 (Q_D once) is self-adjoint and positive semi-definite in the weighted inner
  * product, with T v = v exactly on the within space (every Q_d leaves v alone). Plain alternating projections
- * iterate x_{k+1} = T x_k, which converges linearly at a rate set by how well the levels are connected, and
- * can be slow on thinly connected panels (Gaure 2013, section 3). Here the same sweep is the operator of the
- * conjugate gradient method for (I - T) z = (I - T) x, whose solution from z = 0 lies in the dummies' span,
- * so that x - z is the within column: the symmetric Kaczmarz form with conjugate-gradient acceleration that
- * Gaure 2013 (section 4) describes. Each iteration costs one sweep, 2D - 1 passes over the rows.
+ * iterate x_{k+1} = T x_k, which converges (von Neumann-Halperin) linearly at a rate set by how well the levels
+ * are connected, and can be slow on thinly connected panels. Here the same sweep is the operator of the
+ * conjugate gradient method (Hestenes &amp; Stiefel 1952, "Methods of conjugate gradients for solving linear
+ * systems", Journal of Research of the National Bureau of Standards 49(6)) for (I - T) z = (I - T) x, whose
+ * solution from z = 0 lies in the dummies' span, so that x - z is the within column: the symmetric Kaczmarz
+ * sweep with conjugate-gradient acceleration. Each iteration costs one sweep, 2D - 1 passes over the rows.
  *
  * <p>Stopping rule: the residual (I - T) x~ of the current within column x~, recomputed from x~ itself (one
  * sweep's movement), is at most {@link #TOLERANCE} times the norm of the column given (the caller centres it on

@@ -40,7 +40,8 @@ final class VariantStatistics {
                 usable.set(g);
             }
         }
-        Moments m = momentsByGroups.computeIfAbsent(usable, u -> variant.absorbsSeveral ? several(u) : new Moments(variant, u));
+        Moments m = momentsByGroups.computeIfAbsent(usable,
+                u -> variant.absorbsSeveral ? several(u) : new Moments(variant, u));
         momentsByVariables.putIfAbsent(variableMask, m);
         return m;
     }

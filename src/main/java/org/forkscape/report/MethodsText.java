@@ -71,7 +71,8 @@ final class MethodsText {
         if (plan.severalAbsorbedPath() != null) {
             s.add("Two crossed fixed effects were removed together by alternating projections accelerated by "
                     + "conjugate gradients (Gaure 2013, Computational Statistics & Data Analysis 66; Guimar\u00e3es & "
-                    + "Portugal 2010, Stata Journal 10(4)), and counted in K by the rank of their dummies: their levels "
+                    + "Portugal 2010, Stata Journal 10(4); Hestenes & Stiefel 1952, Journal of Research of the National "
+                    + "Bureau of Standards 49(6)), and counted in K by the rank of their dummies: their levels "
                     + "less one per connected component of the levels' bipartite graph.");
         }
         if (usesWinsorize(plan)) {

@@ -6,7 +6,7 @@
 import { clear, el } from '../helpers.js';
 import { count as countText } from '../numbers.js';
 import {
-  ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS, alternativeCount,
+  ABSORB_HELP, ABSORB_MAX_COLUMNS, ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS, alternativeCount,
   newAlternative, newDecision, parentPath, parseTransform, problemInWords,
 } from './plan-model.js';
 
@@ -318,12 +318,33 @@ function modelChoice(f, d, j, p, row) {
   row.append(field);
 }
 
+/**
+ * One alternative of an absorb decision: a field per absorbed column (its problems at columns[k]), and while
+ * fewer than ABSORB_MAX_COLUMNS are chosen one more to add a crossed column; problems of the list as a whole
+ * (too many columns, a model that cannot absorb several) show at the list.
+ */
 function absorbChoice(f, a, p, row) {
   if (!Array.isArray(a.columns)) a.columns = [];
-  row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }),
-    f.column(`${p}.columns`, 'Absorb the fixed effects of', a.columns[0] || '', (v) => {
-      a.columns = v ? [v] : [];
-    }, 'none (no fixed effects)'));
+  const names = a.columns.slice();
+  const write = () => { a.columns = names.filter((n) => n); };
+  const list = el('div', { class: 'absorbed-columns', 'data-path': `${p}.columns` });
+  names.forEach((name, k) => {
+    list.append(f.column(`${p}.columns[${k}]`, k === 0 ? 'Absorb the fixed effects of' : 'and of', name, (v) => {
+      names[k] = v;
+      write();
+    }, k === 0 ? 'none (no fixed effects)' : 'no further column', true));
+  });
+  if (names.length < ABSORB_MAX_COLUMNS) {
+    const k = names.length;
+    list.append(f.column(`${p}.columns[${k}]`, k === 0 ? 'Absorb the fixed effects of' : 'and of (crossed)', '',
+      (v) => {
+        names.push(v);
+        write();
+      }, k === 0 ? 'none (no fixed effects)' : 'no further column', true));
+  }
+  if (names.length > 0) list.append(el('p', { class: 'hint absorb-note' }, ABSORB_HELP));
+  list.append(el('p', { class: 'problem', hidden: true, role: 'alert' }));
+  row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }), list);
 }
 
 function controls(f, d, path) {

@@ -70,6 +70,15 @@ export const MISSING_HELP = Object.freeze({
   source: 'listwise deletion over the whole plan (common practice)' },
 });
 
+/** Most columns one absorb alternative may list (the plan reader's AbsorbChoice.MAX_COLUMNS). */
+export const ABSORB_MAX_COLUMNS = 2;
+
+/** The line beside an absorb alternative: what absorbing one or two columns computes, and its source. */
+export const ABSORB_HELP = 'The same coefficients, standard errors and R-squared as entering every level as a '
+  + 'dummy; two columns are crossed effects (as pupil and term), demeaned by alternating projections (Gaure 2013, '
+  + 'Computational Statistics & Data Analysis 66), with HC0, HC1, classical or cluster errors and least squares '
+  + 'only.';
+
 /** Alternatives of one decision, as the engine counts them (every subset of the optional controls). */
 export function alternativeCount(d) {
   if (d.kind === 'controls') {
@@ -174,6 +183,12 @@ export function describePath(path, plan) {
   if (alt) {
     const j = Number(alt[1]);
     places.push(`${ORDINALS[j] || `alternative ${j + 1}`}${ORDINALS[j] ? ' alternative' : ''}`);
+    const absorbed = alt[2].match(/^\.columns(?:\[(\d+)\])?$/);
+    if (absorbed) {
+      const k = absorbed[1] === undefined ? null : Number(absorbed[1]);
+      return { place: places.join(', '), part: k === null ? 'the fixed-effect columns'
+        : `the ${ORDINALS[k] || `number ${k + 1}`} fixed-effect column` };
+    }
     rest = alt[2].replace(/^\./, '').replace(/\[\d+\]$/, '');
     return { place: places.join(', '), part: rest ? ALTERNATIVE_PARTS[rest] || `the key "${rest}"` : '' };
   }

@@ -18,8 +18,14 @@ final class CodedRows {
     /** Fixed-effect level of each row, 0..levels-1 (all 0 without absorption). */
     final int[] level;
     final int levels;
-    /** The absorbed fixed-effect column, null when nothing is absorbed. */
+    /** The absorbed fixed-effect column (several joined by ", "), null when nothing is absorbed. */
     final String absorbColumn;
+    /**
+     * With several absorbed columns: per column, the dense level of each row (the cells then hold one level
+     * and {@link SeveralEffectsWithin} demeans); null otherwise.
+     */
+    final int[][] dimensionCodes;
+    final int[] dimensionLevels;
     /** Per level and column: the shift (mean over the level's non-missing rows). */
     final double[][] levelShift;
     /** Missing-pattern group of each row. */
@@ -46,6 +52,8 @@ final class CodedRows {
         this.level = levels.level;
         this.levels = levels.levels;
         this.absorbColumn = levels.column;
+        this.dimensionCodes = levels.dimensionCodes;
+        this.dimensionLevels = levels.dimensionLevels;
         this.shifted = shifts.shifted;
         this.levelShift = shifts.levelShift;
         this.group = patterns.group;

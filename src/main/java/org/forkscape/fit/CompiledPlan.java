@@ -75,8 +75,8 @@ final class CompiledPlan {
     final ClusterColumn[] clusterColumns;
     /** The intersections of several cluster columns that multi-way error types need, each once. */
     final List<ClusterComponents.Component> clusterIntersections;
-    /** Per absorb alternative: the column whose fixed effects it absorbs, null when it absorbs none. */
-    final Column[] absorbColumns;
+    /** Per absorb alternative: the columns whose fixed effects it absorbs (none, one or several). */
+    final Column[][] absorbColumns;
     /** Per absorb alternative: the bits of the variables of every column it names. */
     final long[] absorbBits;
     /** Every column the plan names as a model variable, once: a common missing rule drops rows missing any. */
@@ -170,11 +170,11 @@ final class CompiledPlan {
                 .flatMap(t -> ClusterComponents.of(t).stream()).filter(c -> c.columns().size() > 1).distinct().toList();
         clusterColumns = clusterNames.stream().map(name -> new ClusterColumn(table.column(name), bit(name)))
                 .toArray(ClusterColumn[]::new);
-        absorbColumns = new Column[absorbChoices.size()];
+        absorbColumns = new Column[absorbChoices.size()][];
         absorbBits = new long[absorbChoices.size()];
         for (int a = 0; a < absorbColumns.length; a++) {
             List<String> columns = absorbChoices.get(a).columns();
-            absorbColumns[a] = columns.isEmpty() ? null : table.column(columns.get(0));
+            absorbColumns[a] = columns.stream().map(table::column).toArray(Column[]::new);
             for (String name : columns) {
                 absorbBits[a] |= bit(name);
             }

@@ -35,6 +35,8 @@ public final class DataVariant {
     final int[] level;
     final int levels;
     final boolean absorbs;
+    /** Whether several fixed-effect columns are absorbed: each set of usable rows is demeaned on its own. */
+    final boolean absorbsSeveral;
     final String absorbColumn;
     /** Per level and column: the shift (mean over the level's non-missing rows). */
     final double[][] levelShift;
@@ -66,6 +68,7 @@ public final class DataVariant {
         this.levels = coded.levels;
         this.absorbColumn = coded.absorbColumn;
         this.absorbs = absorbColumn != null;
+        this.absorbsSeveral = coded.dimensionCodes != null;
         this.levelShift = coded.levelShift;
         this.group = coded.group;
         this.groupMissing = coded.groupMissing;
@@ -98,7 +101,8 @@ public final class DataVariant {
         }
         clusterSpecifications.forEach((column, count) -> {
             Integer g = clusterCounts.get(column);
-            if (g != null && SandwichRoute.clusterMomentsPay(this, count, meanColumns, g)) {
+            // with several absorbed columns the within values depend on the usable rows: no shared cells
+            if (g != null && !absorbsSeveral && SandwichRoute.clusterMomentsPay(this, count, meanColumns, g)) {
                 useClusterMoments.add(column);
             }
         });
@@ -115,6 +119,15 @@ public final class DataVariant {
 
     ClusterMoments clusterMoments(String column) {
         return statistics.clusterMoments(column);
+    }
+
+    /**
+     * The columns the passes over rows read for the usable rows of {@code mom}, indexed by model column and
+     * variant row, to which {@code mom}'s level offsets turn them into within values: the stored level-shifted
+     * columns, or with several absorbed columns the rows demeaned for exactly that set (offsets 0).
+     */
+    double[][] rowColumns(Moments mom) {
+        return absorbsSeveral ? statistics.demeanedColumns(mom) : shifted;
     }
 
     public ModelColumns layout() {

@@ -38,7 +38,8 @@ final class DesignRows {
             source = new int[cap];
         }
         int k = 0;
-        double[] yz = v.shifted[yCol];
+        double[][] stored = v.rowColumns(mom);
+        double[] yz = stored[yCol];
         double[][] offsets = mom.levelMeanOffset;
         for (int r = 0; r < v.rows; r++) {
             if (!mom.uses(r)) {
@@ -47,7 +48,7 @@ final class DesignRows {
             int l = v.level[r];
             double[] off = offsets[l];
             for (int j = 0; j < p; j++) {
-                x[j][k] = v.shifted[cols[j]][r] - off[cols[j]];
+                x[j][k] = stored[cols[j]][r] - off[cols[j]];
             }
             y[k] = yz[r] - off[yCol];
             level[k] = l;

@@ -206,7 +206,7 @@ final class EveryCoefficient {
         double f = k > 1 ? ((tss - s.rss) / (k - 1)) / sigma2 : Double.NaN;
         double modelP = k > 1 ? Distributions.fUpperP(f, k - 1, dfResidual) : Double.NaN;
         return new FullFit(out, errors.label(), df, n, k, variant.absorbs ? variant.absorbColumn : "",
-                variant.absorbs ? mom.levelsPresent : 0, clusterTotal, r2, 1 - (1 - r2) * (n - 1.0) / dfResidual, f,
+                variant.absorbs ? mom.levelsPresent : 0, dimensions(variant), clusterTotal, r2, 1 - (1 - r2) * (n - 1.0) / dfResidual, f,
                 modelP, "ok", s.note());
     }
 
@@ -219,6 +219,11 @@ final class EveryCoefficient {
 
     static FullFit failed(ErrorType errors, int n, int k, DataVariant variant, String status) {
         return new FullFit(List.of(), errors.label(), Double.NaN, n, k, variant.absorbs ? variant.absorbColumn : "", 0,
-                0, Double.NaN, Double.NaN, Double.NaN, Double.NaN, status, "");
+                dimensions(variant), 0, Double.NaN, Double.NaN, Double.NaN, Double.NaN, status, "");
+    }
+
+    /** How many columns {@code variant} absorbs. */
+    static int dimensions(DataVariant variant) {
+        return !variant.absorbs ? 0 : variant.absorbsSeveral ? variant.coded.dimensionCodes.length : 1;
     }
 }

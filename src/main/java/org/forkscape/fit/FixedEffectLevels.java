@@ -5,13 +5,19 @@ import java.util.TreeMap;
 import org.forkscape.data.Column;
 
 /**
- * The absorbed fixed effect over a variant's rows: rows missing its column cannot be in any specification of
- * the variant and drop out; the others get dense level codes, 0..levels-1 in the order of the column's codes.
- * Without absorption every row is kept, at level 0.
+ * The absorbed fixed effects over a variant's rows: rows missing an absorbed column cannot be in any
+ * specification of the variant and drop out. With one column the others get dense level codes, 0..levels-1 in
+ * the order of the column's codes, and the cell sums absorb them. With several, every row is at level 0 of the
+ * cells, and each column's dense codes are kept as a dimension for {@link SeveralEffectsWithin}. Without
+ * absorption every row is kept, at level 0.
  */
 final class FixedEffectLevels {
-    /** The absorbed column's name, null when nothing is absorbed. */
+    /** The absorbed column's name (several joined by ", "), null when nothing is absorbed. */
     final String column;
+    /** With several absorbed columns: per column, the dense level (0..levels-1) of each kept row; else null. */
+    final int[][] dimensionCodes;
+    /** With several absorbed columns: per column, its number of levels over the kept rows; else null. */
+    final int[] dimensionLevels;
     /** The table row of each kept row. */
     final int[] tableRows;
     /** The level of each kept row. */
@@ -21,6 +27,13 @@ final class FixedEffectLevels {
     private final int[] keptAt;
 
     private FixedEffectLevels(String column, int[] tableRows, int[] level, int levels, int[] keptAt) {
+        this(column, tableRows, level, levels, keptAt, null, null);
+    }
+
+    private FixedEffectLevels(String column, int[] tableRows, int[] level, int levels, int[] keptAt,
+            int[][] dimensionCodes, int[] dimensionLevels) {
+        this.dimensionCodes = dimensionCodes;
+        this.dimensionLevels = dimensionLevels;
         this.column = column;
         this.tableRows = tableRows;
         this.level = level;
@@ -28,22 +41,25 @@ final class FixedEffectLevels {
         this.keptAt = keptAt;
     }
 
-    /** The levels of {@code absorbed} (null for none) at the table rows {@code sampled}. */
-    static FixedEffectLevels of(Column absorbed, int[] sampled) {
-        if (absorbed == null) {
+    /** The levels of the {@code absorbed} columns (none, one or several) at the table rows {@code sampled}. */
+    static FixedEffectLevels of(Column[] absorbed, int[] sampled) {
+        if (absorbed.length == 0) {
             return new FixedEffectLevels(null, sampled, new int[sampled.length], 1, null);
         }
-        int[] codes = LevelCodes.of(absorbed);
+        int[][] codes = new int[absorbed.length][];
+        for (int d = 0; d < absorbed.length; d++) {
+            codes[d] = LevelCodes.of(absorbed[d]);
+        }
         int m = 0;
         for (int i = 0; i < sampled.length; i++) {
-            if (codes[sampled[i]] >= 0) {
+            if (complete(codes, sampled[i])) {
                 m++;
             }
         }
         int[] keptAt = new int[m];
         m = 0;
         for (int i = 0; i < sampled.length; i++) {
-            if (codes[sampled[i]] >= 0) {
+            if (complete(codes, sampled[i])) {
                 keptAt[m++] = i;
             }
         }
@@ -51,7 +67,29 @@ final class FixedEffectLevels {
         for (int i = 0; i < keptAt.length; i++) {
             kept[i] = sampled[keptAt[i]];
         }
-        int[] dense = new int[keptAt.length];
+        int[][] dense = new int[absorbed.length][kept.length];
+        int[] levels = new int[absorbed.length];
+        for (int d = 0; d < absorbed.length; d++) {
+            levels[d] = dense(codes[d], kept, dense[d]);
+        }
+        if (absorbed.length == 1) {
+            return new FixedEffectLevels(absorbed[0].name(), kept, dense[0], Math.max(1, levels[0]), keptAt);
+        }
+        String names = String.join(", ", java.util.Arrays.stream(absorbed).map(Column::name).toList());
+        return new FixedEffectLevels(names, kept, new int[kept.length], 1, keptAt, dense, levels);
+    }
+
+    private static boolean complete(int[][] codes, int row) {
+        for (int[] c : codes) {
+            if (c[row] < 0) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /** Writes into {@code dense} the codes at {@code kept} renumbered 0.. in their order; returns their count. */
+    private static int dense(int[] codes, int[] kept, int[] dense) {
         Map<Integer, Integer> remap = new TreeMap<>();
         for (int r : kept) {
             remap.put(codes[r], 0);
@@ -63,7 +101,12 @@ final class FixedEffectLevels {
         for (int i = 0; i < kept.length; i++) {
             dense[i] = remap.get(codes[kept[i]]);
         }
-        return new FixedEffectLevels(absorbed.name(), kept, dense, Math.max(1, next), keptAt);
+        return next;
+    }
+
+    /** Whether several columns are absorbed (by alternating projections rather than the cell sums). */
+    boolean several() {
+        return dimensionCodes != null;
     }
 
     /** Replaces each non-null column of {@code columns} (modified), given over the sampled rows, by its kept rows. */

@@ -13,8 +13,10 @@ import java.util.List;
  * @param df           degrees of freedom of the t reference distribution (N - K, or G - 1 with clusters)
  * @param nObs         rows used
  * @param nParams      coefficients K, absorbed fixed-effect levels and intercept included
- * @param absorbed     the absorbed fixed-effect column, or {@code ""}
- * @param absorbedLevels levels of that column present in the rows (0 without absorption)
+ * @param absorbed     the absorbed fixed-effect column (several joined by ", "), or {@code ""}
+ * @param absorbedLevels what the absorbed effects count in K: with one column its levels present in the rows,
+ *                     with two the rank of their dummies (0 without absorption)
+ * @param absorbedDimensions how many columns are absorbed (0 without absorption)
  * @param clusters     clusters in the rows for cluster-robust errors (0 otherwise)
  * @param r2           R-squared
  * @param adjustedR2   1 - (1 - R2)(N - 1)/(N - K)
@@ -24,7 +26,7 @@ import java.util.List;
  * @param note         what was adjusted (dropped collinear controls), or {@code ""}
  */
 public record FullFit(List<Coefficient> coefficients, String errors, double df, int nObs, int nParams, String absorbed,
-        int absorbedLevels, int clusters, double r2, double adjustedR2, double modelF, double modelPValue,
+        int absorbedLevels, int absorbedDimensions, int clusters, double r2, double adjustedR2, double modelF, double modelPValue,
         String status, String note) {
 
     public FullFit {

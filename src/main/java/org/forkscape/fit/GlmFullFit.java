@@ -58,7 +58,8 @@ final class GlmFullFit {
                     df, critical));
         }
         return new FullFit(out, spec.errors().label(), df, rows.n, levels + irls.keptCount,
-                variant.absorbs ? variant.absorbColumn : "", variant.absorbs ? levels : 0, covariance.clusters,
+                variant.absorbs ? variant.absorbColumn : "", variant.absorbs ? levels : 0,
+                EveryCoefficient.dimensions(variant), covariance.clusters,
                 check.r2(), Double.NaN, Double.NaN, check.modelPValue(), "ok", check.note());
     }
 }

@@ -34,6 +34,10 @@ public final class LeastSquares implements Estimator {
             return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on this "
                     + "specification's variables", n, base + cols.length);
         }
+        if (!mom.demeaned) {
+            return KeyFit.failed(FitStatus.NOT_CONVERGED, String.format("%,d fixed-effect demeaning",
+                    AlternatingProjections.MAX_ITERATIONS), n, base + cols.length);
+        }
         int y = spec.outcomeColumn();
         if (!(mom.totalSquares[y] > 0)) {
             return KeyFit.failed(FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
@@ -98,6 +102,11 @@ public final class LeastSquares implements Estimator {
             double variance = spec.errors().kind() == ErrorType.Kind.HC1 ? free.value() * n / (n - k) : free.value();
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     free.route(), sdRatio);
+        }
+        if (variant.absorbsSeveral && (spec.errors().kind() == ErrorType.Kind.HC2
+                || spec.errors().kind() == ErrorType.Kind.HC3)) {
+            // the leverages of several crossed dummies have no closed form; PlanChecker refuses the plan
+            throw new IllegalStateException(spec.errors().label() + " with several absorbed columns");
         }
         KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
         KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);

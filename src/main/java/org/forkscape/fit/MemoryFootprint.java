@@ -53,6 +53,19 @@ public final class MemoryFootprint {
                 + ARRAY * (levels + 4L);
     }
 
+    /**
+     * The demeaned rows of a variant that absorbs several columns: the {@link DemeanedCache} holds the usable
+     * sets' full-length columns up to its bound (and the latest set whatever its size), and each worker building
+     * one holds the set's compact columns, row list, codes and projection workspace for a while
+     * ({@link SeveralEffectsWithin}, {@link AlternatingProjections}).
+     */
+    public static long demeanedRows(int rows, int columns, long usableSets, int threads) {
+        long set = DOUBLE * rows * (long) columns + ARRAY * columns;
+        long cached = Math.max(set, Math.min(usableSets * set, DOUBLE * DemeanedCache.MAX_DOUBLES + set));
+        long build = DOUBLE * rows * (columns + 3L) + INT * 3L * rows;
+        return cached + Math.min(threads, usableSets) * build;
+    }
+
     /** What building one {@link Moments} holds for a while: each level's sums and cross-products. */
     public static long momentsBuild(int columns, int levels) {
         return DOUBLE * levels * (columns + (long) columns * columns) + ARRAY * 2L * levels;

@@ -20,6 +20,11 @@ public final class Moments {
     final double[] within;
     /** Sum of squares of each column about its overall mean (over the usable rows). */
     final double[] totalSquares;
+    /**
+     * Whether the within columns are exact to their tolerance: always with none or one absorbed column; with
+     * several, whether the alternating projections converged ({@link AlternatingProjections}).
+     */
+    final boolean demeaned;
 
     private volatile FourthMoments fourth;
     private final java.util.Map<String, ClusterMoments.Usable> clusterCells =
@@ -45,6 +50,23 @@ public final class Moments {
 
     Moments(DataVariant v, BitSet usable) {
         this(v, usable, v.cellCount, v.cellSum, v.cellCross);
+    }
+
+    /**
+     * The moments of the usable groups of a variant that absorbs several columns, from their within
+     * transformation: one level holding every row, with offsets 0, since the rows that passes read are the
+     * demeaned ones ({@link DataVariant#rowColumns}); the levels counted are the dummies' rank.
+     */
+    Moments(DataVariant v, BitSet usable, SeveralEffectsWithin w) {
+        this.variant = v;
+        this.usableGroups = usable;
+        n = w.n;
+        levelCount = new int[] {w.n};
+        levelMeanOffset = new double[1][v.columns];
+        levelsPresent = w.rank;
+        within = w.within;
+        totalSquares = w.totalSquares;
+        demeaned = w.converged;
     }
 
     /**
@@ -104,6 +126,7 @@ public final class Moments {
         }
         n = total;
         levelsPresent = present;
+        demeaned = true;
         totalSquares = new double[p];
         if (n == 0) {
             return;

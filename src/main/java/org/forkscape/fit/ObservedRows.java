@@ -53,7 +53,7 @@ public final class ObservedRows implements FitData {
             return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows));
         }
         int count = codes == null ? 0 : variant.clusterCounts.get(errors.clusterColumn());
-        return view.over(variant.shifted, s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
+        return view.over(variant.rowColumns(mom), s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
                 count);
     }
 

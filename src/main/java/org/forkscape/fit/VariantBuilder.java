@@ -23,7 +23,7 @@ final class VariantBuilder {
     static DataVariant build(CompiledPlan plan, VariantKey key, ExecutorService pool) {
         int[] sampled = RowSelection.of(plan, key);
         double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()));
-        Column absorbed = key.absorbChoice() < 0 ? null : plan.absorbColumns[key.absorbChoice()];
+        Column[] absorbed = key.absorbChoice() < 0 ? new Column[0] : plan.absorbColumns[key.absorbChoice()];
         FixedEffectLevels levels = FixedEffectLevels.of(absorbed, sampled);
         levels.compact(raw);
         ColumnCoding.controls(plan, levels.tableRows, raw);

@@ -18,6 +18,7 @@ final class VariantStatistics {
     private final Map<Long, Moments> momentsByVariables = new ConcurrentHashMap<>();
     private final Map<String, ClusterMoments> clusterMoments = new ConcurrentHashMap<>();
     private volatile double[][][] groupTensors;
+    private final DemeanedCache demeaned = new DemeanedCache(DemeanedCache.MAX_DOUBLES);
 
     /** @param variant the variant whose coded rows the structures built later read */
     VariantStatistics(DataVariant variant, CellSums cells) {
@@ -39,9 +40,30 @@ final class VariantStatistics {
                 usable.set(g);
             }
         }
-        Moments m = momentsByGroups.computeIfAbsent(usable, u -> new Moments(variant, u));
+        Moments m = momentsByGroups.computeIfAbsent(usable,
+                u -> variant.absorbsSeveral ? several(u) : new Moments(variant, u));
         momentsByVariables.putIfAbsent(variableMask, m);
         return m;
+    }
+
+    /** The moments of a variant with several absorbed columns; its demeaned rows go to the bounded cache. */
+    private Moments several(BitSet usable) {
+        SeveralEffectsWithin w = SeveralEffectsWithin.of(variant, usable);
+        demeaned.put(usable, w.columns);
+        return new Moments(variant, usable, w);
+    }
+
+    /**
+     * The demeaned rows of {@code mom} (several absorbed columns), from the cache or computed again: the same
+     * numbers either way, since the demeaning reads the same rows in the same order.
+     */
+    double[][] demeanedColumns(Moments mom) {
+        double[][] columns = demeaned.get(mom.usableGroups);
+        if (columns == null) {
+            columns = SeveralEffectsWithin.of(variant, mom.usableGroups).columns;
+            demeaned.put(mom.usableGroups, columns);
+        }
+        return columns;
     }
 
     /** Builds the per-group fourth-moment tensors now, summing on {@code pool} when given. */

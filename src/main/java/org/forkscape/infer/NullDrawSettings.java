@@ -55,6 +55,12 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
                     + "columns (" + multiway + "); ask for no null draws, or make that error type one-way, as in "
                     + "cluster:COLUMN");
         }
+        String several = plan.severalAbsorbedPath();
+        if (draws > 0 && several != null) {
+            throw new InputException(drawsWhere, "null draws are not computed yet for plans that absorb several "
+                    + "fixed-effect columns (" + several + "): each draw would need its own demeaning; ask for no "
+                    + "null draws, or absorb one column");
+        }
         if (draws > 0 && method == NullMethod.PERMUTE && clusterColumn != null) {
             throw new InputException(clusterWhere, "whole clusters are resampled by the bootstrap only; the "
                     + "permutation shuffles the key predictor between rows, so name no cluster column (or \"" + Plan.NULL_CLUSTER_ROWS + "\") or use the bootstrap");

@@ -86,6 +86,23 @@ public record Plan(
         return null;
     }
 
+    /**
+     * The JSON path and label of the first absorb alternative that absorbs several columns, or null when every
+     * alternative absorbs one column or none.
+     */
+    public String severalAbsorbedPath() {
+        for (int i = 0; i < decisions.size(); i++) {
+            if (decisions.get(i) instanceof Decision.Absorb a) {
+                for (int j = 0; j < a.alternatives().size(); j++) {
+                    if (a.alternatives().get(j).columns().size() > 1) {
+                        return "decisions[" + i + "].alternatives[" + j + "], " + a.alternatives().get(j).label();
+                    }
+                }
+            }
+        }
+        return null;
+    }
+
     /** The models the specifications fit: the model decision's alternatives, or least squares alone. */
     public List<ModelFamily> modelFamilies() {
         List<Decision.Model> models = all(Decision.Model.class);

@@ -42,6 +42,15 @@ public final class PlanChecker {
                     for (String column : t.clusterColumns()) {
                         problems.attempt(() -> existing(column, p, table));
                     }
+                    String several = plan.severalAbsorbedPath();
+                    if ((t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) && several != null) {
+                        problems.attempt(() -> {
+                            throw new PlanException(p, InputException.quoted(t.label()) + " needs each row's "
+                                    + "leverage, which has no exact closed form when several fixed-effect columns "
+                                    + "are absorbed (" + several + "); use HC0, HC1 or cluster errors, or absorb one "
+                                    + "column and enter the other as a categorical control");
+                        });
+                    }
                     if (t.multiway() && plan.generalized()) {
                         problems.attempt(() -> {
                             throw new PlanException(p, InputException.quoted(t.label()) + ": clustering on several "
@@ -60,6 +69,15 @@ public final class PlanChecker {
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
+                    if (cols.size() > 1 && plan.generalized()) {
+                        String p = path + ".alternatives[" + j + "].columns";
+                        problems.attempt(() -> {
+                            throw new PlanException(p, "several fixed-effect columns are absorbed for least squares "
+                                    + "(ols) only; logit, probit and poisson enter fixed effects as dummies of one "
+                                    + "column; absorb one column, or fit these specifications in a plan whose model "
+                                    + "decision is ols alone");
+                        });
+                    }
                     for (int k = 0; k < cols.size(); k++) {
                         String name = cols.get(k);
                         String p = path + ".alternatives[" + j + "].columns[" + k + "]";

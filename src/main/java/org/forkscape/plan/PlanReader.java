@@ -486,9 +486,11 @@ public final class PlanReader {
                 String label = problems.attempt(() -> label(a, p, labels), null);
                 List<String> columns = problems.attempt(() -> {
                     List<String> cs = columns(a.get("columns"), p + ".columns");
-                    if (cs.size() > 1) {
-                        throw new PlanException(p + ".columns", "absorbing more than one fixed-effect column is not "
-                                + "supported yet; absorb one column, or add the others as categorical controls");
+                    if (cs.size() > AbsorbChoice.MAX_COLUMNS) {
+                        throw new PlanException(p + ".columns", cs.size() + " fixed-effect columns: up to "
+                                + AbsorbChoice.MAX_COLUMNS + " are absorbed (the rank of three or more crossed "
+                                + "dimensions has no exact count here); absorb two, and add the others as "
+                                + "categorical controls");
                     }
                     return cs;
                 }, null);

@@ -68,6 +68,13 @@ final class MethodsText {
             s.add("Absorbed fixed effects were removed by the within transformation, identical to including their "
                     + "dummies (Frisch & Waugh 1933, Econometrica 1(4); Lovell 1963, JASA 58(304)).");
         }
+        if (plan.severalAbsorbedPath() != null) {
+            s.add("Two crossed fixed effects were removed together by alternating projections accelerated by "
+                    + "conjugate gradients (Gaure 2013, Computational Statistics & Data Analysis 66; Guimar\u00e3es & "
+                    + "Portugal 2010, Stata Journal 10(4); Hestenes & Stiefel 1952, Journal of Research of the National "
+                    + "Bureau of Standards 49(6)), and counted in K by the rank of their dummies: their levels "
+                    + "less one per connected component of the levels' bipartite graph.");
+        }
         if (usesWinsorize(plan)) {
             s.add("Winsorized variables were cut at quantiles interpolated between order statistics (Hyndman & Fan "
                     + "1996, The American Statistician 50(4), definition 7).");

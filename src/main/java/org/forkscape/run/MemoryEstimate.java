@@ -183,8 +183,11 @@ public final class MemoryEstimate {
             if (pv.specifications == 0) {
                 continue;
             }
-            String absorbed = absorbedColumn(plan, models.variantKey(v));
-            int[] levelCodes = absorbed == null ? null : LevelCodes.of(table.column(absorbed));
+            List<String> absorbedColumns = absorbedColumns(plan, models.variantKey(v));
+            boolean several = absorbedColumns.size() > 1;
+            String absorbed = absorbedColumns.isEmpty() ? null : absorbedColumns.get(0);
+            // several absorbed columns: one cell level, and the demeaned rows of each usable set instead
+            int[] levelCodes = absorbed == null || several ? null : LevelCodes.of(table.column(absorbed));
             int levels = levelCodes == null ? 1 : Math.max(1, count(levelCodes));
             long variantCells = cells.distinct(levelCodes, null);
             long base = MemoryFootprint.variant(rows, columns, variantCells, levels, clusterCodes.size()) + recorded;
@@ -196,7 +199,8 @@ public final class MemoryEstimate {
             allVariants += base + starts;
             long usable = SpecificationMix.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
             long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
-                    + workers * MemoryFootprint.momentsBuild(columns, levels);
+                    + workers * MemoryFootprint.momentsBuild(columns, levels)
+                    + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long fourth = 0;
             if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
@@ -207,7 +211,7 @@ public final class MemoryEstimate {
             long clusterCells = 0;
             for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
                 long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
-                if (count > 0 && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                if (count > 0 && !several && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
                             + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),
@@ -310,13 +314,12 @@ public final class MemoryEstimate {
         return false;
     }
 
-    /** The column whose fixed effects a variant absorbs, or null. */
-    private static String absorbedColumn(Plan plan, VariantKey key) {
+    /** The columns whose fixed effects a variant absorbs (none, one or several). */
+    private static List<String> absorbedColumns(Plan plan, VariantKey key) {
         if (key.absorbChoice() < 0) {
-            return null;
+            return List.of();
         }
-        List<String> absorbed = plan.all(Decision.Absorb.class).get(0).alternatives().get(key.absorbChoice()).columns();
-        return absorbed.isEmpty() ? null : absorbed.get(0);
+        return plan.all(Decision.Absorb.class).get(0).alternatives().get(key.absorbChoice()).columns();
     }
 
     /** Number of codes 0..k-1 in a column of level codes (-1 missing): k. */

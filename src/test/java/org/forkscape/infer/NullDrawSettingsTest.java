@@ -63,4 +63,21 @@ class NullDrawSettingsTest {
         assertEquals("nullDraws", e.where());
         assertTrue(e.getMessage().contains("decisions[2].alternatives[1], cluster:g+district"), e.getMessage());
     }
+
+    @Test
+    void drawsAreRefusedWhenSeveralColumnsAreAbsorbed() {
+        Plan plan = Scenarios.plan("""
+                {"data": "simulated.csv", "nullDraws": 10,
+                 "decisions": [
+                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+                   {"name": "effects", "kind": "absorb", "alternatives": [{"label": "g", "columns": ["g"]},
+                     {"label": "g and district", "columns": ["g", "district"]}]}
+                 ]}
+                """);
+        InputException e = assertThrows(InputException.class,
+                () -> NullDrawSettings.of(plan).check(plan, 100, "nullDraws", "nullCluster"));
+        assertEquals("nullDraws", e.where());
+        assertTrue(e.getMessage().contains("decisions[2].alternatives[1], g and district"), e.getMessage());
+    }
 }

@@ -55,6 +55,23 @@ class PlanCheckerTest {
                 SCHOOLS));
     }
 
+    /** Two absorbed columns: HC2 and HC3 (no closed-form leverages) and the GLMs are refused at their paths. */
+    @Test
+    void whatTwoAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
+        String both = "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"none\", "
+                + "\"columns\": []}, {\"label\": \"district and band\", \"columns\": [\"district\", \"grade_band\"]}]}";
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
+                        + "\"cluster:district\", \"cluster:district+sector\"]}", both), SCHOOLS));
+        fails(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC3\"]}", both),
+                "decisions[2].alternatives[1]", "\"HC3\" needs each row's leverage, which has no exact closed form "
+                        + "when several fixed-effect columns are absorbed (decisions[3].alternatives[1], district and band)");
+        fails(plan(column("passed"), column("tutoring"),
+                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", both),
+                "decisions[3].alternatives[1].columns", "several fixed-effect columns are absorbed for least squares");
+    }
+
     @Test
     void oneCheckFindsEveryColumnProblemInPlanOrder() {
         Plan plan = plan(column("atendance") + ", " + column("district"), column("tutoring"),

@@ -378,7 +378,8 @@ class PlanReaderTest {
         fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b\", "
                 + "\"cluster: a + b\"]}"), "decisions[2].alternatives[1]", "\"cluster:a+b\" is listed twice");
         fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"two\", "
-                + "\"columns\": [\"a\", \"b\"]}]}"), "decisions[2].alternatives[0].columns", "not supported yet");
+                + "\"columns\": [\"a\", \"b\", \"c\"]}]}"), "decisions[2].alternatives[0].columns",
+                "3 fixed-effect columns: up to 2 are absorbed");
         fails(plan("\"missing\": \"listwise\""), "missing", "\"per-specification\" or \"common\"");
         fails(plan("\"nullMethod\": \"jackknife\""), "nullMethod", "\"bootstrap\" or \"permute\"");
     }

@@ -287,6 +287,52 @@ class PlanFormBrowserTest {
         assertTrue(checks >= 1 && checks <= 2, checks + " checks for 10 keys");
     }
 
+    /**
+     * An absorb alternative edits several columns, one field each, and the check reports what two absorbed
+     * columns cannot be fitted with at its field: HC3 at the error type, a logit at the list of columns.
+     */
+    @Test
+    void anAbsorbAlternativeTakesTwoColumnsAndTheirProblemsShowAtTheirFields() throws Exception {
+        WebDriverWait wait = openNewPlan();
+        type(wait, "decisions[0].alternatives[0].label", "turnout");
+        new Select(field("decisions[0].alternatives[0].column")).selectByValue("turnout");
+        type(wait, "decisions[1].alternatives[0].label", "hours");
+        new Select(field("decisions[1].alternatives[0].column")).selectByValue("outreach_hours");
+        addDecision("absorb");
+        press("Add an alternative to fixed effects");
+        type(wait, "decisions[2].alternatives[1].label", "district and urban");
+        new Select(field("decisions[2].alternatives[1].columns[0]")).selectByValue("district");
+        new Select(wait.until(d -> field("decisions[2].alternatives[1].columns[1]"))).selectByValue("urban");
+        wait.until(d -> jsonText().contains("\"columns\": [\n            \"district\",\n            \"urban\"\n          ]"));
+        assertEquals(0, driver.findElements(By.cssSelector("[data-path='decisions[2].alternatives[1].columns[2]']"))
+                .size(), "no third column is offered");
+        assertTrue(driver.findElement(By.cssSelector("[data-path='decisions[2].alternatives[1].columns'] .absorb-note"))
+                .getText().contains("Gaure 2013"));
+
+        addDecision("errors");
+        new Select(field("decisions[3].alternatives[0]")).selectByValue("HC3");
+        addDecision("model");
+        press("Add an alternative to model");
+        click(driver.findElement(By.id("check-plan")));
+        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals("decisions[2].alternatives[1].columns")));
+        List<Map<String, String>> shown = visibleProblems();
+        Map<String, String> hc3 = shown.stream().filter(p -> p.get("where").equals("decisions[3].alternatives[0]"))
+                .findFirst().orElseThrow(() -> new AssertionError(shown.toString()));
+        assertEquals("decisions[3].alternatives[0]", hc3.get("field"));
+        assertTrue(hc3.get("text").contains("\"HC3\" needs each row\u2019s leverage")
+                || hc3.get("text").contains("\"HC3\" needs each row's leverage"), hc3.toString());
+        Map<String, String> glm = shown.stream().filter(p -> p.get("where").equals("decisions[2].alternatives[1].columns"))
+                .findFirst().orElseThrow();
+        assertEquals("decisions[2].alternatives[1].columns", glm.get("field"));
+        assertTrue(glm.get("text").startsWith("Decision 3 (fixed effects), second alternative, the fixed-effect "
+                + "columns: several fixed-effect columns are absorbed for least squares"), glm.toString());
+        BrowserDriver.screenshot(driver, "plan-absorb-two-columns");
+
+        // choosing no column for the second field leaves one absorbed column
+        new Select(field("decisions[2].alternatives[1].columns[1]")).selectByValue("");
+        wait.until(d -> jsonText().contains("\"columns\": [\n            \"district\"\n          ]"));
+    }
+
     /** The estimate times a few specifications on the server, so only its form is checked. */
     @Test
     void theEstimateSaysHowLongARunWouldTakeOnThisServer() throws Exception {

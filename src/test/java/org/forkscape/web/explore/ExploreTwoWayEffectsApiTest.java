@@ -1,0 +1,76 @@
+package org.forkscape.web.explore;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.get;
+import static org.springframework.test.web.servlet.result.MockMvcResultMatchers.status;
+
+import java.io.Reader;
+import java.io.StringReader;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.HashMap;
+import java.util.Map;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVRecord;
+import org.forkscape.web.WebTest;
+import org.junit.jupiter.api.Test;
+import tools.jackson.databind.JsonNode;
+
+/**
+ * The reference plan {@code school-panel-plan.json} (pupil and term effects absorbed together) run through the
+ * web door, and the explorer's full fit of a specification with both absorbed: its key coefficient and K are
+ * R's (lm with factor() dummies, {@code school-panel-expected.csv} from
+ * {@code src/test/r/two-way-effects-reference.R}), and it says what the two columns count in K.
+ */
+class ExploreTwoWayEffectsApiTest extends WebTest {
+    private static Path reference(String name) throws Exception {
+        return Path.of(ExploreTwoWayEffectsApiTest.class.getResource("/reference/" + name).toURI());
+    }
+
+    private static Map<String, CSVRecord> bySpec(Reader in) throws Exception {
+        Map<String, CSVRecord> out = new HashMap<>();
+        for (CSVRecord r : CSVFormat.RFC4180.builder().setHeader().setSkipHeaderRecord(true).get().parse(in)) {
+            out.put(r.get("spec"), r);
+        }
+        return out;
+    }
+
+    @Test
+    void theFullFitOfASpecificationWithBothEffectsAbsorbedIsLmsWithDummies() throws Exception {
+        String analysis = upload("school-panel.csv", Files.readString(reference("school-panel.csv")));
+        String plan = Files.readString(reference("school-panel-plan.json")).replace("\"school-panel.csv\"", "\"data.csv\"");
+        String run = runToEnd(analysis, plan);
+        String base = "/api/analyses/" + analysis + "/runs/" + run;
+        String file = mvc.perform(get(base.replace("/api/", "/") + "/files/specifications.csv")).andExpect(status().isOk())
+                .andReturn().getResponse().getContentAsString();
+        Map<String, CSVRecord> written = bySpec(new StringReader(file));
+        Map<String, CSVRecord> expected;
+        try (Reader in = Files.newBufferedReader(reference("school-panel-expected.csv"), StandardCharsets.UTF_8)) {
+            expected = bySpec(in);
+        }
+        // spec 18: score on hours, no controls, both schools, pupil and term effects, HC1
+        CSVRecord r = expected.get("18");
+        assertEquals("pupil and term", r.get("effects"));
+        assertEquals("HC1", r.get("errors"));
+        JsonNode fit = json(mvc.perform(get(base + "/specifications/18/fit")).andExpect(status().isOk())
+                .andReturn().getResponse().getContentAsString()).path("fit");
+        assertEquals("pupil, term", fit.path("absorbed").asString());
+        assertEquals(2, fit.path("absorbedDimensions").asInt());
+        assertEquals(Integer.parseInt(r.get("effects_rank")), fit.path("absorbedLevels").asInt(),
+                "rank of R's model.matrix of the factors");
+        assertEquals(Integer.parseInt(r.get("n_params")), fit.path("nParams").asInt(), "R lm() rank");
+        JsonNode key = null;
+        for (JsonNode c : fit.path("coefficients")) {
+            if (c.path("role").asString().equals("key")) {
+                key = c;
+            }
+        }
+        double estimate = Double.parseDouble(r.get("estimate"));
+        assertEquals(estimate, key.path("estimate").asDouble(), 1e-9 * Math.abs(estimate), "R lm() coefficient");
+        double se = Double.parseDouble(r.get("std_error"));
+        assertEquals(se, key.path("stdError").asDouble(), 1e-9 * se, "sandwich::vcovHC HC1");
+        assertEquals(Double.parseDouble(written.get("18").get("estimate")), key.path("estimate").asDouble(),
+                1e-12 * Math.abs(estimate), "the run's own estimate");
+    }
+}

@@ -16,8 +16,9 @@
 #                               standard error, df, rows, coefficients, R-squared, status, and for robust
 #                               types the zero-weight rows of the specification's sample and sandwich's
 #                               value when they are left in the fit (see below)
-#   water-glm-expected.csv      per specification of water-glm-plan.json: estimate, standard error, df,
-#                               rows, coefficients, deviance, the average marginal effect and its error
+#   water-logit-expected.csv    per specification of water-logit-plan.json and water-poisson-plan.json
+#   water-poisson-expected.csv  (written by hand): estimate, standard error, rows, coefficients, deviance,
+#                               McFadden's R-squared, the average marginal effect and its error
 #   weights-versions.txt        the R and sandwich versions that produced them
 #
 # Zero weights. lm.wfit leaves zero-weight rows out of the decomposition: coefficients, the residual
@@ -167,6 +168,73 @@ write_table <- function(rows, columns, file) {
 write_table(rows, c("spec", "outcome", "garden", "controls", "rows", "effects", "weights", "errors", "estimate",
                     "std_error", "df", "n_obs", "n_params", "r2", "status", "zero_rows", "with_zero_rows"),
             "water-survey-expected.csv")
+
+# --- generalized linear models with prior weights: water-logit-plan.json, water-poisson-plan.json ---------
+
+# R's glm stops on the relative deviance change; taken to 1e-14 and restarted at its estimate until the
+# covariance sandwich reads is the information at the fit's own coefficients (as glm-reference.R does).
+glm_weighted <- function(formula, family, m) {
+  fit <- suppressWarnings(glm(formula, family = family, data = m, weights = .w,
+                              control = glm.control(epsilon = 1e-14, maxit = 100)))
+  for (restart in 1:20) {
+    fit <- suppressWarnings(glm(formula, family = family, data = m, weights = .w, start = coef(fit),
+                                control = glm.control(epsilon = 1e-14, maxit = 100)))
+  }
+  fit
+}
+
+# Average marginal effect of .x with prior weights: the weighted mean over the rows of mu'(eta_i) b (a
+# continuous key), and its delta-method error with the specification's own covariance.
+weighted_effect <- function(fit, v) {
+  x <- model.matrix(fit)
+  w <- fit$prior.weights / sum(fit$prior.weights)
+  eta <- drop(x %*% coef(fit))
+  b <- coef(fit)[[".x"]]
+  fam <- fit$family
+  d1 <- fam$mu.eta(eta)
+  d2 <- if (fam$link == "logit") d1 * (1 - 2 * plogis(eta)) else exp(eta)
+  g <- colSums(w * d2 * x) * b
+  g[".x"] <- g[".x"] + sum(w * d1)
+  list(effect = sum(w * d1) * b, std_error = sqrt(drop(t(g) %*% v %*% g)))
+}
+
+fit_glm <- function(d, controls, e, weight, family) {
+  r <- rows_of(d, controls, character(0), e, weight)
+  m <- r$m
+  m$.w <- if (length(weight) > 0) m[[weight]] else 1
+  fit <- glm_weighted(formula_of(controls, character(0)), family, m)
+  v <- if (e == "classical") vcov(fit) else if (startsWith(e, "cluster:")) {
+    vcovCL(fit, cluster = as.character(m[[cluster_of(e)]]), type = "HC0", cadjust = TRUE)
+  } else vcovHC(fit, type = e)
+  me <- weighted_effect(fit, v)
+  r2 <- if (family$family == "poisson") {
+    null_fit <- glm_weighted(.y ~ 1, family, m)
+    1 - as.numeric(logLik(fit)) / as.numeric(logLik(null_fit))
+  } else 1 - fit$deviance / fit$null.deviance
+  list(errors = e, estimate = coef(fit)[[".x"]], std_error = sqrt(v[".x", ".x"]), n_obs = nrow(m),
+       n_params = fit$rank, deviance = fit$deviance, r2 = r2, effect = me$effect,
+       effect_std_error = me$std_error, status = "ok")
+}
+
+glm_plan <- function(outcome, model, family, file) {
+  rows <- list()
+  spec <- 0
+  for (mask in 0:3) for (w in weights) for (e in c("classical", "HC0", "HC1", "cluster:district")) {
+    x <- d_all
+    x$.y <- x[[outcome]]
+    x$.x <- x$garden
+    controls <- subset_of(c("household", "rooms"), mask)
+    spec <- spec + 1
+    rows[[spec]] <- c(list(spec = spec, outcome = outcome, garden = "garden area", model = model,
+                           controls = subset_label(controls), weights = w$label),
+                      fit_glm(x, controls, e, w$column, family))
+  }
+  write_table(rows, c("spec", "outcome", "garden", "model", "controls", "weights", "errors", "estimate",
+                      "std_error", "n_obs", "n_params", "deviance", "r2", "effect", "effect_std_error", "status"),
+              file)
+}
+glm_plan("high", "logit", binomial(link = "logit"), "water-logit-expected.csv")
+glm_plan("repairs", "poisson", poisson(link = "log"), "water-poisson-expected.csv")
 
 writeLines(c(paste("R:", R.version.string), paste("sandwich:", packageVersion("sandwich")),
              "script: src/test/r/weights-reference.R"), file.path(out, "weights-versions.txt"))

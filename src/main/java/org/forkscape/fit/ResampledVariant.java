@@ -267,13 +267,16 @@ public final class ResampledVariant implements FitData {
     @Override
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
         prepareClusters(errors);
-        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors));
+        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), true);
         return rows;
     }
 
+    /** The draw's rows unscaled, the prior weights beside them (a GLM weighs rows itself). */
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
-        into.fill(refitRows(mom, cols, y, errors), v.coded.recorded[y], v.levels);
+        prepareClusters(errors);
+        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), false);
+        into.fill(rows, v.coded.recorded[y], v.levels);
     }
 
     @Override
@@ -286,7 +289,7 @@ public final class ResampledVariant implements FitData {
             return rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
         }
         if (clusterCodes != null && copiesAreNewClusters) {
-            fillRows(mom, s.kept, y, clusterCodes, clusterCount);
+            fillRows(mom, s.kept, y, clusterCodes, clusterCount, true);
             return rowView(s, positions, mom, codeCount(clusterCount));
         }
         return variantView(mom, s, y, clusterCodes, clusterCount);
@@ -376,7 +379,7 @@ public final class ResampledVariant implements FitData {
      * QR route, and for cluster errors when each drawn copy of a cluster is a cluster of its own: codes
      * shifted by multiples of {@code clusterCount}).
      */
-    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount) {
+    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount, boolean scale) {
         RepeatedRows repeat = repeated(mom);
         int width = cols.length;
         int n = mom.n;
@@ -398,6 +401,7 @@ public final class ResampledVariant implements FitData {
         int[] list = repeat.rows();
         double[] analytic = v.weight;
         rows.weighted = analytic != null;
+        double[] scaleBy = scale ? analytic : null;
         double[][] offset = mom.levelMeanOffset;
         for (int j = 0; j <= width; j++) {
             int col = j < width ? cols[j] : yCol;
@@ -405,8 +409,8 @@ public final class ResampledVariant implements FitData {
             double[] to = j < width ? rows.x[j] : rows.y;
             for (int k = 0; k < n; k++) {
                 int r = list[k];
-                to[k] = analytic == null ? from[r] - offset[v.level[r]][col]
-                        : (from[r] - offset[v.level[r]][col]) * Math.sqrt(analytic[r]);
+                to[k] = scaleBy == null ? from[r] - offset[v.level[r]][col]
+                        : (from[r] - offset[v.level[r]][col]) * Math.sqrt(scaleBy[r]);
             }
         }
         for (int k = 0; k < n; k++) {

@@ -11,6 +11,7 @@ import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
 import org.forkscape.plan.VariableChoice;
+import org.forkscape.plan.WeightChoice;
 import org.forkscape.run.Scale;
 import tools.jackson.databind.JsonNode;
 
@@ -67,6 +68,12 @@ final class MethodsText {
                 .anyMatch(c -> !c.columns().isEmpty())) {
             s.add("Absorbed fixed effects were removed by the within transformation, identical to including their "
                     + "dummies (Frisch & Waugh 1933, Econometrica 1(4); Lovell 1963, JASA 58(304)).");
+        }
+        if (plan.all(Decision.Weights.class).stream().flatMap(w -> w.alternatives().stream())
+                .anyMatch(WeightChoice::weighted)) {
+            s.add("Weighted specifications used analytic weights: weighted least squares, or prior weights in the "
+                    + "likelihood of the generalized linear models, as R's lm and glm take them, with rows of zero "
+                    + "or missing weight left out (McCullagh & Nelder 1989, section 2.5).");
         }
         if (usesWinsorize(plan)) {
             s.add("Winsorized variables were cut at quantiles interpolated between order statistics (Hyndman & Fan "

@@ -184,6 +184,8 @@ public final class MemoryEstimate {
                 continue;
             }
             String absorbed = absorbedColumn(plan, models.variantKey(v));
+            // a weighted variant takes the row pass for every robust error (fit.SandwichRoute)
+            boolean weighted = weighted(plan, models.variantKey(v));
             int[] levelCodes = absorbed == null ? null : LevelCodes.of(table.column(absorbed));
             int levels = levelCodes == null ? 1 : Math.max(1, count(levelCodes));
             long variantCells = cells.distinct(levelCodes, null);
@@ -198,7 +200,7 @@ public final class MemoryEstimate {
             long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
                     + workers * MemoryFootprint.momentsBuild(columns, levels);
             long fourth = 0;
-            if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
+            if (absorbed == null && !weighted && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
                 fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
                         + SpecificationMix.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
@@ -207,7 +209,7 @@ public final class MemoryEstimate {
             long clusterCells = 0;
             for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
                 long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
-                if (count > 0 && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                if (count > 0 && !weighted && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
                             + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),
@@ -308,6 +310,12 @@ public final class MemoryEstimate {
             }
         }
         return false;
+    }
+
+    /** Whether a variant is weighted (its weights alternative names a column). */
+    private static boolean weighted(Plan plan, VariantKey key) {
+        return key.weightChoice() >= 0
+                && plan.all(Decision.Weights.class).get(0).alternatives().get(key.weightChoice()).weighted();
     }
 
     /** The column whose fixed effects a variant absorbs, or null. */

@@ -10,6 +10,9 @@ import java.util.Map;
 import java.util.TreeMap;
 import java.util.concurrent.atomic.AtomicBoolean;
 import org.forkscape.data.Table;
+import org.forkscape.fit.FullFit;
+import org.forkscape.fit.FullFitter;
+import org.forkscape.fit.SpecificationModels;
 import org.forkscape.plan.Plan;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
@@ -71,6 +74,31 @@ class RWeightsGlmReferenceTest {
         AgreementReport.write("r-reference-water-" + model + ".txt", SOURCE + " (" 
                 + ReferenceFiles.versions("weights-versions.txt") + ")", worst);
         assertTrue(weighted >= 16, weighted + " weighted specifications compared");
+        assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + SOURCE + ":\n"
+                + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
+    }
+
+    /** The explorer's full fit of each weighted GLM specification gives R's key coefficient and error too. */
+    @ParameterizedTest
+    @ValueSource(strings = {"logit", "poisson"})
+    void theFullFitsKeyCoefficientAgreesWithWeightedGlm(String model) {
+        Plan plan = ReferenceFiles.plan("water-" + model + "-plan.json");
+        SpecificationModels models = new SpecificationModels(plan, ReferenceFiles.table(plan));
+        FullFitter fitter = new FullFitter();
+        List<String> failures = new ArrayList<>();
+        Map<String, Double> worst = new TreeMap<>();
+        for (Map<String, String> row : ReferenceFiles.rows("water-" + model + "-expected.csv")) {
+            String where = "spec " + row.get("spec");
+            FullFit fit = fitter.fit(plan, models, Long.parseLong(row.get("spec")) - 1);
+            if (!fit.ok()) {
+                failures.add(where + ": " + fit.status());
+                continue;
+            }
+            check(failures, worst, where, "estimate", fit.key().estimate(), row, GlmTolerance.GLM.relative);
+            check(failures, worst, where, "std_error", fit.key().stdError(), row, GlmTolerance.GLM.relative);
+            check(failures, worst, where, "n_obs", fit.nObs(), row, 0);
+        }
+        AgreementReport.write("r-reference-water-" + model + "-full-fit.txt", SOURCE, worst);
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + SOURCE + ":\n"
                 + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
     }

@@ -50,7 +50,8 @@ public final class GeneralizedLinear implements Estimator {
         int base = variant.absorbs ? mom.levelsPresent : 1;
         if (n <= base) {
             return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on "
-                    + "this specification's variables", n, base + cols.length);
+                    + "this specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    base + cols.length);
         }
         int y = spec.outcomeColumn();
         if (!(mom.totalSquares[y] > 0)) {

@@ -221,6 +221,23 @@ class AnalyticWeightsTest {
         }
     }
 
+    /** Rows whose weights are all zero leave a weighted specification without rows, and its status says why. */
+    @Test
+    void zeroWeightsAloneLeaveNoRowsAndTheStatusSaysSo() {
+        Table t = table(300, 27);
+        double[] zero = new double[t.rowCount()];
+        List<Column> cols = new ArrayList<>(t.columns());
+        cols.add(new NumericColumn("nobody", zero));
+        Table withZero = new Table("households", cols);
+        Plan p = plan("x", "{\"label\": \"none\"}, {\"label\": \"nobody\", \"column\": \"nobody\"}", "\"classical\"", "");
+        ResultTable r = new MultiverseRunner(1).run(p, withZero, RunProgress.SILENT, new AtomicBoolean()).results();
+        for (int slot = 0; slot < r.size(); slot++) {
+            boolean weighted = r.specIndex(slot) % 2 == 1;
+            assertEquals(weighted ? "too few rows: 0 rows complete on this specification's variables with positive weight"
+                    : "ok", r.status(slot));
+        }
+    }
+
     private static Table repeat(Table t, int[] counts) {
         int n = 0;
         for (int c : counts) {

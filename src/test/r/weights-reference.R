@@ -219,7 +219,7 @@ fit_glm <- function(d, controls, e, weight, family) {
 glm_plan <- function(outcome, model, family, file) {
   rows <- list()
   spec <- 0
-  for (mask in 0:3) for (w in weights) for (e in c("classical", "HC0", "HC1", "cluster:district")) {
+  for (mask in 0:3) for (w in weights) for (e in c("classical", "HC0", "HC1", "HC3", "cluster:district")) {
     x <- d_all
     x$.y <- x[[outcome]]
     x$.x <- x$garden

@@ -24,7 +24,7 @@ import org.junit.jupiter.params.provider.ValueSource;
 /**
  * Prior weights in the generalized linear models: every specification of {@code water-logit-plan.json} and
  * {@code water-poisson-plan.json} against R's {@code glm(weights = w)} with {@code vcov}, {@code
- * sandwich::vcovHC} (HC0, HC1) and {@code vcovCL} (HC0 with G/(G-1), its glm default), and the average
+ * sandwich::vcovHC} (HC0, HC1, HC3) and {@code vcovCL} (HC0 with G/(G-1), its glm default), and the average
  * marginal effect as the prior-weighted mean of mu'(eta) b with its delta-method error, all computed in
  * {@code src/test/r/weights-reference.R} (R 4.2.2, sandwich 3.0.2; {@code weights-versions.txt}) on its
  * invented survey, whose weights hold zeros and missing cells.

@@ -6,7 +6,8 @@
 import { clear, el } from '../helpers.js';
 import { count as countText } from '../numbers.js';
 import {
-  ABSORB_HELP, ABSORB_MAX_COLUMNS, ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS, alternativeCount,
+  ABSORB_HELP, ABSORB_MAX_COLUMNS, ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS,
+  WEIGHTS_HELP, alternativeCount,
   newAlternative, newDecision, parentPath, parseTransform, problemInWords,
 } from './plan-model.js';
 
@@ -192,7 +193,7 @@ function decision(f, plan, d, i) {
   box.append(head, el('p', { class: 'problem', hidden: true, role: 'alert' }));
   if (d.kind === 'controls') {
     box.append(controls(f, d, path));
-  } else if (['outcome', 'predictor', 'sample', 'errors', 'absorb', 'model'].includes(d.kind)) {
+  } else if (['outcome', 'predictor', 'sample', 'errors', 'absorb', 'model', 'weights'].includes(d.kind)) {
     box.append(alternatives(f, d, path));
   }
   return box;
@@ -222,6 +223,7 @@ function alternatives(f, d, path) {
     else if (d.kind === 'sample') sampleRule(f, a, p, row);
     else if (d.kind === 'errors') errorType(f, d, j, p, row);
     else if (d.kind === 'model') modelChoice(f, d, j, p, row);
+    else if (d.kind === 'weights') weightChoice(f, a, p, row);
     else absorbChoice(f, a, p, row);
     row.append(button('Remove', `Remove alternative ${j + 1} of ${d.name}`, false, () => {
       d.alternatives.splice(j, 1);
@@ -345,6 +347,18 @@ function absorbChoice(f, a, p, row) {
   if (names.length > 0) list.append(el('p', { class: 'hint absorb-note' }, ABSORB_HELP));
   list.append(el('p', { class: 'problem', hidden: true, role: 'alert' }));
   row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }), list);
+}
+
+/** One alternative of a weights decision: a label and a weight column, or none (unweighted). */
+function weightChoice(f, a, p, row) {
+  const field = f.column(`${p}.column`, 'Weight column', a.column || '', (v) => set(a, 'column', v),
+    'none (unweighted)');
+  const control = field.querySelector('select');
+  const note = el('p', { class: 'hint choice-note', id: `${control.id}-note` }, WEIGHTS_HELP.text, ' ',
+    el('span', { class: 'source' }, `Source: ${WEIGHTS_HELP.source}.`));
+  control.setAttribute('aria-describedby', note.id);
+  field.insertBefore(note, field.querySelector('.problem'));
+  row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }), field);
 }
 
 function controls(f, d, path) {

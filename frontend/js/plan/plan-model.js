@@ -1,7 +1,8 @@
 // The plan as the form edits it: the plan JSON itself (the same object the batch command reads), with the
 // rules the form needs to count specifications and to start new decisions and alternatives.
 
-export const KINDS = Object.freeze(['outcome', 'predictor', 'controls', 'sample', 'errors', 'absorb', 'model']);
+export const KINDS = Object.freeze(['outcome', 'predictor', 'controls', 'sample', 'errors', 'absorb', 'model',
+  'weights']);
 
 export const KIND_TITLES = Object.freeze({
   outcome: 'Outcome: which measure of the result',
@@ -11,6 +12,16 @@ export const KIND_TITLES = Object.freeze({
   errors: 'Standard errors: how uncertainty is computed',
   absorb: 'Fixed effects: which groupings are absorbed',
   model: 'Model: which estimator each specification fits',
+  weights: 'Weights: whether rows count by a weight column',
+});
+
+/** What a weight column does, shown beside each weighted alternative (README, "Plan file", weights). */
+export const WEIGHTS_HELP = Object.freeze({
+  text: 'Analytic weights: weighted least squares, or prior weights in logit, probit and Poisson, as R\u2019s '
+    + 'lm(weights = w) and glm(weights = w) use them. A row of weight 0 takes no part (N counts the rows with '
+    + 'positive weight), a missing weight drops the row, a negative one is refused.',
+  source: 'weighted least squares and prior weights as in McCullagh & Nelder 1989, Generalized Linear Models, '
+    + '2nd ed., section 2.5',
 });
 
 export const TRANSFORMS = Object.freeze(['none', 'log', 'log1p', 'sqrt', 'standardize', 'winsorize']);
@@ -110,6 +121,8 @@ export function newDecision(kind, plan) {
       return { name, kind, alternatives: [{ label: 'none', columns: [] }] };
     case 'model':
       return { name, kind, alternatives: ['ols'] };
+    case 'weights':
+      return { name, kind, alternatives: [{ label: 'unweighted' }, { label: '', column: '' }] };
     default:
       return { name, kind, alternatives: [{ label: '', column: '' }] };
   }

@@ -2,7 +2,10 @@ package org.forkscape.fit;
 
 /**
  * The cells of a variant's sufficient statistics: per (missing-pattern group, fixed-effect level) cell, the
- * row count, the sums of the shifted model columns and their cross-products (P x P, full).
+ * row count, the sums of the shifted model columns and their cross-products (P x P, full). In a weighted
+ * variant the sums and cross-products are weighted (sum w z, sum w z z') and each cell also keeps its
+ * weight total: the moments of weighted least squares, whose within matrix is then the weighted within
+ * matrix (each level centred on its weighted mean).
  */
 final class CellSums {
     /** Rows per block of the cross-product sums. */
@@ -11,6 +14,8 @@ final class CellSums {
     static final long MAX_BLOCK_DOUBLES = 1L << 24;
 
     final int[][] cellCount;
+    /** Per cell: the sum of the rows' weights; null when the variant is unweighted (the counts are the weights). */
+    final double[][] cellWeight;
     final double[][][] cellSum;
     final double[][][] cellCross;
 
@@ -18,6 +23,7 @@ final class CellSums {
     CellSums(CodedRows coded, java.util.concurrent.ExecutorService pool) {
         int groups = coded.groupMissing.length;
         cellCount = new int[groups][coded.levels];
+        cellWeight = coded.weight == null ? null : new double[groups][coded.levels];
         cellSum = new double[groups][coded.levels][];
         cellCross = new double[groups][coded.levels][];
         accumulate(coded, pool);
@@ -36,6 +42,7 @@ final class CellSums {
         int[] group = coded.group;
         int[] level = coded.level;
         double[][] shifted = coded.shifted;
+        double[] weight = coded.weight;
         int groups = coded.groupMissing.length;
         int cells = groups * levels;
         int blocks = Math.max(1, (rows + BLOCK_ROWS - 1) / BLOCK_ROWS);
@@ -46,10 +53,12 @@ final class CellSums {
         double[][][] partialSum = new double[blocks][][];
         double[][][] partialCross = new double[blocks][][];
         int[][] partialCount = new int[blocks][];
+        double[][] partialWeight = new double[blocks][];
         java.util.function.IntConsumer block = b -> {
             double[][] sum = new double[cells][];
             double[][] cross = new double[cells][];
             int[] count = new int[cells];
+            double[] weights = weight == null ? null : new double[cells];
             int from = b * blockRows;
             int to = Math.min(rows, from + blockRows);
             // rows of one cell contiguous: a counting sort of the block by cell
@@ -68,6 +77,8 @@ final class CellSums {
             // cells is 0 when no row survives the sample rules: then there is nothing to sum
             boolean oneCell = cells <= 1 || start[cells] == start[1];
             double[][] z = new double[p][];
+            double[][] wz = weight == null ? null : new double[p][];
+            double[] wc = null;
             for (int cell = 0; cell < cells; cell++) {
                 int m = start[cell + 1] - start[cell];
                 if (m == 0) {
@@ -88,10 +99,30 @@ final class CellSums {
                 count[cell] = m;
                 double[] s = new double[p];
                 double[] c = new double[p * p];
+                double[][] left = z;
+                if (weight != null) {
+                    // the weighted sums: sum w z and sum (w z) z', with the weights in the cell's row order
+                    if (wc == null || wc.length < m) {
+                        wc = new double[m];
+                    }
+                    for (int k = 0; k < m; k++) {
+                        wc[k] = weight[order[start[cell] + k]];
+                    }
+                    weights[cell] = Kernels.sum(wc, m);
+                    for (int a = 0; a < p; a++) {
+                        double[] za = z[a];
+                        double[] wza = new double[m];
+                        for (int k = 0; k < m; k++) {
+                            wza[k] = wc[k] * za[k];
+                        }
+                        wz[a] = wza;
+                    }
+                    left = wz;
+                }
                 for (int a = 0; a < p; a++) {
-                    s[a] = Kernels.sum(z[a], m);
+                    s[a] = Kernels.sum(left[a], m);
                     for (int k = a; k < p; k++) {
-                        c[a * p + k] = Kernels.dot(z[a], z[k], m);
+                        c[a * p + k] = Kernels.dot(left[a], z[k], m);
                     }
                 }
                 sum[cell] = s;
@@ -100,6 +131,7 @@ final class CellSums {
             partialSum[b] = sum;
             partialCross[b] = cross;
             partialCount[b] = count;
+            partialWeight[b] = weights;
         };
         if (pool == null || blocks == 1) {
             for (int b = 0; b < blocks; b++) {
@@ -131,6 +163,9 @@ final class CellSums {
                     continue;
                 }
                 cellCount[g][l] += partialCount[b][cell];
+                if (cellWeight != null) {
+                    cellWeight[g][l] += partialWeight[b][cell];
+                }
                 if (cellSum[g][l] == null) {
                     cellSum[g][l] = s;
                     cellCross[g][l] = partialCross[b][cell];

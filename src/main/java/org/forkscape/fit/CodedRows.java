@@ -15,6 +15,12 @@ final class CodedRows {
     final int[] tableRows;
     /** Model column values at the variant's rows, minus the row's level shift; 0 where missing. */
     final double[][] shifted;
+    /**
+     * The analytic weight of each row, all positive (rows with a missing or zero weight are not in the
+     * variant); null when the variant is unweighted. The cell sums, the level means and every pass over
+     * rows take it (see {@link AnalyticWeights}).
+     */
+    final double[] weight;
     /** Fixed-effect level of each row, 0..levels-1 (all 0 without absorption). */
     final int[] level;
     final int levels;
@@ -43,12 +49,13 @@ final class CodedRows {
      */
     final double[][] recorded;
 
-    CodedRows(ModelColumns layout, FixedEffectLevels levels, LevelShifts shifts, MissingPatterns patterns,
+    CodedRows(ModelColumns layout, FixedEffectLevels levels, double[] weight, LevelShifts shifts, MissingPatterns patterns,
             ClusterCodes clusters, double[][] recorded) {
         this.layout = layout;
         this.columns = layout.size();
         this.rows = levels.tableRows.length;
         this.tableRows = levels.tableRows;
+        this.weight = weight;
         this.level = levels.level;
         this.levels = levels.levels;
         this.absorbColumn = levels.column;

@@ -14,6 +14,7 @@ import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
 import org.forkscape.plan.VariableChoice;
+import org.forkscape.plan.WeightChoice;
 
 /**
  * A plan read once against its table, in the form the engine uses: where each decision kind sits, each
@@ -56,6 +57,8 @@ final class CompiledPlan {
     final int errorsAt;
     /** Position of the absorb decision, -1 without one. */
     final int absorbAt;
+    /** Position of the weights decision, -1 without one. */
+    final int weightsAt;
     /** Position of the model decision, -1 without one (every specification is then least squares). */
     final int modelAt;
     /** The model decision's alternatives ({@code ols} alone without one). */
@@ -79,6 +82,10 @@ final class CompiledPlan {
     final Column[][] absorbColumns;
     /** Per absorb alternative: the bits of the variables of every column it names. */
     final long[] absorbBits;
+    /** Per weights alternative: its weight column, null for the unweighted alternative. */
+    final Column[] weightColumns;
+    /** Per weights alternative: the bit of its weight column's variable (0 when unweighted). */
+    final long[] weightBits;
     /** Every column the plan names as a model variable, once: a common missing rule drops rows missing any. */
     final Column[] rawVariables;
 
@@ -91,6 +98,7 @@ final class CompiledPlan {
         int errors = -1;
         int absorb = -1;
         int model = -1;
+        int weights = -1;
         List<Integer> controlPositions = new ArrayList<>();
         List<Integer> samplePositions = new ArrayList<>();
         for (int d = 0; d < ds.size(); d++) {
@@ -109,6 +117,8 @@ final class CompiledPlan {
                 absorb = d;
             } else if (decision instanceof Decision.Model) {
                 model = d;
+            } else if (decision instanceof Decision.Weights) {
+                weights = d;
             }
         }
         outcomeAt = outcome;
@@ -116,6 +126,7 @@ final class CompiledPlan {
         errorsAt = errors;
         absorbAt = absorb;
         modelAt = model;
+        weightsAt = weights;
         families = plan.modelFamilies().toArray(new ModelFamily[0]);
         generalized = plan.generalized();
         sampleAt = samplePositions.stream().mapToInt(Integer::intValue).toArray();
@@ -133,9 +144,12 @@ final class CompiledPlan {
         List<String> clusterNames = types.stream().flatMap(t -> t.clusterColumns().stream()).distinct().toList();
         List<AbsorbChoice> absorbChoices = absorbAt < 0 ? List.of() : ((Decision.Absorb) ds.get(absorbAt)).alternatives();
         List<String> absorbNames = absorbChoices.stream().flatMap(a -> a.columns().stream()).distinct().toList();
+        List<WeightChoice> weightChoices = weightsAt < 0 ? List.of() : ((Decision.Weights) ds.get(weightsAt)).alternatives();
+        List<String> weightNames = weightChoices.stream().filter(WeightChoice::weighted).map(WeightChoice::column)
+                .distinct().toList();
         layout = new ModelColumns(outcomeChoices.stream().map(VariableChoice::column).toList(),
                 predictorChoices.stream().map(VariableChoice::column).toList(), controlColumns, clusterNames,
-                absorbNames);
+                absorbNames, weightNames);
 
         outcomes = new CodedVariable[outcomeChoices.size()];
         for (int j = 0; j < outcomes.length; j++) {
@@ -179,6 +193,13 @@ final class CompiledPlan {
                 absorbBits[a] |= bit(name);
             }
         }
+        weightColumns = new Column[weightChoices.size()];
+        weightBits = new long[weightChoices.size()];
+        for (int w = 0; w < weightColumns.length; w++) {
+            WeightChoice choice = weightChoices.get(w);
+            weightColumns[w] = choice.weighted() ? table.column(choice.column()) : null;
+            weightBits[w] = choice.weighted() ? bit(choice.column()) : 0;
+        }
 
         List<String> raw = new ArrayList<>();
         outcomeChoices.forEach(v -> raw.add(v.column()));
@@ -186,6 +207,7 @@ final class CompiledPlan {
         raw.addAll(controlColumns.keySet());
         raw.addAll(clusterNames);
         raw.addAll(absorbNames);
+        raw.addAll(weightNames);
         rawVariables = raw.stream().distinct().map(table::column).toArray(Column[]::new);
     }
 
@@ -211,6 +233,11 @@ final class CompiledPlan {
     /** Number of absorb alternatives (1 without an absorb decision: absorbing nothing). */
     int absorbAlternatives() {
         return absorbAt < 0 ? 1 : absorbColumns.length;
+    }
+
+    /** Number of weights alternatives (1 without a weights decision: unweighted). */
+    int weightAlternatives() {
+        return weightsAt < 0 ? 1 : weightColumns.length;
     }
 
     /** The rows a variant's sample choices keep, in words, for messages about transforms over them. */

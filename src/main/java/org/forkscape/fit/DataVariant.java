@@ -46,6 +46,10 @@ public final class DataVariant {
     final long[] groupMissing;
     /** Per group and level: count, sums (P) and cross-products (P x P, full). */
     final int[][] cellCount;
+    /** Per group and level: the weight total; null when unweighted. */
+    final double[][] cellWeight;
+    /** The analytic weight of each row, null when unweighted ({@link CodedRows#weight}). */
+    final double[] weight;
     final double[][][] cellSum;
     final double[][][] cellCross;
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
@@ -76,6 +80,8 @@ public final class DataVariant {
         this.clusterCounts = coded.clusterCounts;
         this.statistics = new VariantStatistics(this, cells);
         this.cellCount = statistics.cells.cellCount;
+        this.cellWeight = statistics.cells.cellWeight;
+        this.weight = coded.weight;
         this.cellSum = statistics.cells.cellSum;
         this.cellCross = statistics.cells.cellCross;
     }

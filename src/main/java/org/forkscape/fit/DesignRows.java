@@ -3,7 +3,11 @@ package org.forkscape.fit;
 /**
  * A specification's rows materialised in within coordinates (each value minus its fixed-effect level's
  * mean, or the overall mean), column by column, for the passes that need rows: the sandwich, the
- * leverages and the QR refit. One instance per worker thread; buffers grow and are reused.
+ * leverages and the QR refit. In a weighted variant each row is multiplied by the square root of its
+ * weight after centring on the weighted level means, so that least squares on these rows is weighted
+ * least squares, their residuals are the weighted residuals sqrt(w) e, and the scores and leverages the
+ * sandwich reads are those of R's weighted {@code lm} (its {@code lm.wfit} works on the same scaled rows).
+ * One instance per worker thread; buffers grow and are reused.
  */
 final class DesignRows {
     int n;
@@ -16,6 +20,10 @@ final class DesignRows {
     int[] cluster = new int[0];
     /** The variant row each row is (a bootstrap draw repeats one). */
     int[] source = new int[0];
+    /** The weight of each row, meaningful when {@link #weighted}. */
+    double[] weight = new double[0];
+    /** Whether the rows are scaled by the square roots of their weights. */
+    boolean weighted;
 
     void fill(Moments mom, int[] cols, int yCol, int[] clusterCodes) {
         DataVariant v = mom.variant;
@@ -36,21 +44,28 @@ final class DesignRows {
             level = new int[cap];
             cluster = new int[cap];
             source = new int[cap];
+            weight = new double[cap];
         }
         int k = 0;
         double[][] stored = v.rowColumns(mom);
         double[] yz = stored[yCol];
         double[][] offsets = mom.levelMeanOffset;
+        double[] w = v.weight;
+        weighted = w != null;
         for (int r = 0; r < v.rows; r++) {
             if (!mom.uses(r)) {
                 continue;
             }
             int l = v.level[r];
             double[] off = offsets[l];
+            double root = weighted ? Math.sqrt(w[r]) : 1;
             for (int j = 0; j < p; j++) {
-                x[j][k] = stored[cols[j]][r] - off[cols[j]];
+                x[j][k] = (stored[cols[j]][r] - off[cols[j]]) * root;
             }
-            y[k] = yz[r] - off[yCol];
+            y[k] = (yz[r] - off[yCol]) * root;
+            if (weighted) {
+                weight[k] = w[r];
+            }
             level[k] = l;
             source[k] = r;
             if (clusterCodes != null) {

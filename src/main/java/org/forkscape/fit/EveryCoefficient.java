@@ -41,6 +41,13 @@ final class EveryCoefficient {
         int dfResidual = n - k;
         int[] at = s.keptPositions;
 
+        // the intercept's share of each row: 1/n, or sqrt(w_i)/W on rows scaled by sqrt(w_i) (weighted
+        // least squares: the intercept is the weighted mean of y - x'b, whose variance is sigma^2 / W plus
+        // the controls' part)
+        double totalWeight = 0;
+        for (double wl : mom.levelWeight) {
+            totalWeight += wl;
+        }
         double[] xbar = new double[p];
         double ybar = 0;
         if (intercept) {
@@ -80,7 +87,7 @@ final class EveryCoefficient {
                 t[j] = v;
                 tt += v * v;
             }
-            double interceptWeight = 1.0 / n;
+            double interceptWeight = rows.weighted ? Math.sqrt(rows.weight[i]) / totalWeight : 1.0 / n;
             for (int c = 0; c < p; c++) {
                 double v = 0;
                 for (int j = c; j < p; j++) {
@@ -92,7 +99,8 @@ final class EveryCoefficient {
             if (intercept) {
                 w[p] = interceptWeight;
             }
-            double h = 1.0 / mom.levelCount[rows.level[i]] + tt;
+            double h = (rows.weighted ? rows.weight[i] / mom.levelWeight[rows.level[i]]
+                    : 1.0 / mom.levelCount[rows.level[i]]) + tt;
             double divisor = 1;
             if (errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3) {
                 if (h > KeyCoefficientSandwich.LEVERAGE_ONE) {
@@ -142,7 +150,7 @@ final class EveryCoefficient {
                         }
                         mx += v * v;
                     }
-                    variance[p] = sigma2 * (1.0 / n + mx);
+                    variance[p] = sigma2 * ((rows.weighted ? 1.0 / totalWeight : 1.0 / n) + mx);
                 }
             }
             case HC0, HC2, HC3 -> System.arraycopy(meat, 0, variance, 0, q);

@@ -50,7 +50,8 @@ public final class GeneralizedLinear implements Estimator {
         int base = variant.absorbs ? mom.levelsPresent : 1;
         if (n <= base) {
             return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on "
-                    + "this specification's variables", n, base + cols.length);
+                    + "this specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    base + cols.length);
         }
         int y = spec.outcomeColumn();
         if (!(mom.totalSquares[y] > 0)) {
@@ -227,8 +228,9 @@ public final class GeneralizedLinear implements Estimator {
      * The average marginal effect of the key predictor (Bartus 2005, "Estimation of marginal effects using
      * margeff", Stata Journal 5(3); Cameron &amp; Trivedi 2005, Microeconometrics, Cambridge University Press,
      * section 14.3): for a key predictor recorded as 0 and 1 alone, the mean over the rows of
-     * mu(eta_i at 1) - mu(eta_i at 0); otherwise the mean of d mu / d x = mu'(eta_i) b. Fills its gradient
-     * in the coefficients (levels, columns) for the delta method.
+     * mu(eta_i at 1) - mu(eta_i at 0); otherwise the mean of d mu / d x = mu'(eta_i) b. With prior weights
+     * the mean is the weighted mean, sum w_i (...) / sum w_i (the effect averaged over the population the
+     * weights stand for). Fills its gradient in the coefficients (levels, columns) for the delta method.
      */
     private double marginalEffect(GlmFamily f, int keyColumn, Moments mom, double[] levelGradient,
             double[] columnGradient, double b) {
@@ -239,18 +241,22 @@ public final class GeneralizedLinear implements Estimator {
         boolean twoValued = twoValued(mom, keyColumn, recorded);
         double sum = 0;
         double[] x = rows.x;
+        double[] prior = rows.prior;
+        double total = 0;
         for (int i = 0, at = 0; i < n; i++, at += p) {
             int l = rows.level[i];
             double eta = irls.eta[i];
+            double w = prior == null ? 1 : prior[i];
+            total += w;
             if (twoValued) {
                 double raw = recorded[rows.source[i]];
                 double eta1 = eta + b * (1 - raw);
                 double eta0 = eta - b * raw;
                 double m1 = f.mean(eta1);
                 double m0 = f.mean(eta0);
-                double s1 = f.meanSlope(eta1, m1);
-                double s0 = f.meanSlope(eta0, m0);
-                sum += m1 - m0;
+                double s1 = w * f.meanSlope(eta1, m1);
+                double s0 = w * f.meanSlope(eta0, m0);
+                sum += w * (m1 - m0);
                 levelGradient[l] += s1 - s0;
                 for (int j = 0; j < key; j++) {
                     columnGradient[j] += (s1 - s0) * x[at + j];
@@ -258,8 +264,9 @@ public final class GeneralizedLinear implements Estimator {
                 columnGradient[key] += s1 * (x[at + key] + 1 - raw) - s0 * (x[at + key] - raw);
             } else {
                 double mean = irls.mu[i];
-                double slope = f.meanSlope(eta, mean);
-                double curvature = f.meanCurvature(eta, mean, slope) * b;
+                double unitSlope = f.meanSlope(eta, mean);
+                double slope = w * unitSlope;
+                double curvature = w * f.meanCurvature(eta, mean, unitSlope) * b;
                 sum += slope;
                 levelGradient[l] += curvature;
                 for (int j = 0; j < p; j++) {
@@ -269,12 +276,12 @@ public final class GeneralizedLinear implements Estimator {
             }
         }
         for (int l = 0; l < rows.levels; l++) {
-            levelGradient[l] /= n;
+            levelGradient[l] /= total;
         }
         for (int j = 0; j < p; j++) {
-            columnGradient[j] = irls.kept[j] ? columnGradient[j] / n : 0;
+            columnGradient[j] = irls.kept[j] ? columnGradient[j] / total : 0;
         }
-        return twoValued ? sum / n : b * sum / n;
+        return twoValued ? sum / total : b * sum / total;
     }
 
     /**

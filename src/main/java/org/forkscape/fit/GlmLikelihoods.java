@@ -7,7 +7,10 @@ import org.apache.commons.math3.special.Gamma;
  * fixed effects, alone: each level's mean outcome), and the null deviance, from the fit's deviance and
  * sums per level, without a pass of logarithms over the rows for the binary families. For a 0/1 outcome
  * log L = -D / 2; for counts log L = S - D / 2 with the saturated log-likelihood S = sum (y log y - y -
- * log Gamma(y + 1)) (McCullagh &amp; Nelder 1989, section 2.3).
+ * log Gamma(y + 1)) (McCullagh &amp; Nelder 1989, section 2.3). With prior weights each row's terms are
+ * multiplied by its weight (for counts, R's {@code logLik} of a weighted Poisson {@code glm}; for 0/1
+ * outcomes log L = -D / 2 with the weighted deviance, not R's {@code logLik}, which treats binomial prior
+ * weights as numbers of trials).
  *
  * @param logLik     log L at the estimate
  * @param nullLogLik log L0 of the null model
@@ -30,18 +33,21 @@ record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
         int n = rows.n;
         int levels = rows.levels;
         double[] sum = new double[levels];
-        int[] count = new int[levels];
+        double[] count = new double[levels];
         boolean counts = family == GlmFamily.POISSON;
         double saturated = 0;
         double yLogY = 0;
+        double[] prior = rows.prior;
         for (int i = 0; i < n; i++) {
+            // with prior weights every sum is weighted (each level's null mean is its weighted mean)
+            double w = prior == null ? 1 : prior[i];
             double y = rows.y[i];
-            sum[rows.level[i]] += y;
-            count[rows.level[i]]++;
+            sum[rows.level[i]] += w * y;
+            count[rows.level[i]] += w;
             if (counts && y > 0) {
                 double l = y * Math.log(y);
-                yLogY += l;
-                saturated += l - y - Gamma.logGamma(y + 1);
+                yLogY += w * l;
+                saturated += w * (l - y - Gamma.logGamma(y + 1));
             }
         }
         double nullDeviance = counts ? 2 * yLogY : 0;

@@ -7,7 +7,9 @@ import java.util.Arrays;
  * (each value minus its fixed-effect level's mean over the usable rows, or the overall mean), row by row,
  * so that one pass over the rows reads memory in order; the outcome as recorded; each row's level among
  * the levels present (the fixed effects enter as one coefficient per level, the intercept when nothing is
- * absorbed); and the cluster codes. One instance per worker thread; buffers grow and are reused.
+ * absorbed); the cluster codes; and, in a weighted variant, each row's prior weight (R's
+ * {@code glm(weights = w)}: the weight multiplies the row's deviance, working weight and score). One
+ * instance per worker thread; buffers grow and are reused.
  */
 final class GlmRows {
     int n;
@@ -23,16 +25,21 @@ final class GlmRows {
     int[] cluster = new int[0];
     /** The variant row of each row. */
     int[] source = new int[0];
+    /** The prior weight of each row; null when the variant is unweighted. */
+    double[] prior;
+    private double[] priorBuffer = new double[0];
 
     /**
      * Copies {@code rows} (the specification's rows in within coordinates), replacing their centred outcome
      * by the recorded one.
      *
+     * @param rows            not scaled by the weights (the prior weights come from {@code rows.weight})
      * @param recordedOutcome the outcome column as recorded, indexed by variant row
      * @param variantLevels   the variant's number of fixed-effect levels
      */
     void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
         grow(rows.n, rows.p);
+        prior = rows.weighted ? priorBuffer : null;
         for (int j = 0; j < p; j++) {
             double[] column = rows.x[j];
             for (int i = 0, at = j; i < n; i++, at += p) {
@@ -45,6 +52,9 @@ final class GlmRows {
             source[i] = rows.source[i];
             y[i] = recordedOutcome[source[i]];
             cluster[i] = rows.cluster[i];
+            if (prior != null) {
+                prior[i] = rows.weight[i];
+            }
         }
     }
 
@@ -58,6 +68,7 @@ final class GlmRows {
     void fill(Moments mom, int[] cols, double[] recordedOutcome, int[] clusterCodes) {
         DataVariant v = mom.variant;
         grow(mom.n, cols.length);
+        prior = v.weight == null ? null : priorBuffer;
         int[] compact = startLevels(v.levels);
         double[][] offsets = mom.levelMeanOffset;
         double[][] columns = new double[p][];
@@ -83,6 +94,9 @@ final class GlmRows {
             source[k] = r;
             y[k] = recordedOutcome[r];
             cluster[k] = clusterCodes == null ? 0 : clusterCodes[r];
+            if (prior != null) {
+                prior[k] = v.weight[r];
+            }
         }
     }
 
@@ -97,6 +111,7 @@ final class GlmRows {
             level = new int[n];
             cluster = new int[n];
             source = new int[n];
+            priorBuffer = new double[n];
         }
     }
 

@@ -249,10 +249,28 @@ final class Irls {
         for (int from = 0; from < n; from += CHUNK) {
             int to = Math.min(n, from + CHUNK);
             predict(a, b, etaOut, from, to);
-            d += family.evaluate(rows.y, etaOut, muOut, weight, score, from, to);
+            double chunk = family.evaluate(rows.y, etaOut, muOut, weight, score, from, to);
+            d += rows.prior == null ? chunk : weigh(muOut, from, to);
             accumulate(from, to);
         }
         removeLevelMeans();
+        return d;
+    }
+
+    /**
+     * Prior weights (R's {@code glm(weights = w)}; McCullagh &amp; Nelder 1989, Generalized Linear Models,
+     * 2nd ed., section 2.5): row i's deviance, working weight and score are w_i times the family's, so the
+     * information, the score and every sandwich built from them are those of the weighted likelihood.
+     * Scales rows from..to-1's working weights and scores in place; returns their weighted deviance.
+     */
+    private double weigh(double[] muOut, int from, int to) {
+        double[] prior = rows.prior;
+        double d = 0;
+        for (int i = from; i < to; i++) {
+            d += prior[i] * family.unitDeviance(rows.y[i], muOut[i]);
+            weight[i] *= prior[i];
+            score[i] *= prior[i];
+        }
         return d;
     }
 

@@ -11,7 +11,11 @@ import org.forkscape.plan.ErrorType;
  * covariance matrix estimators with improved finite sample properties", J. Econometrics 29(3)); CR1 =
  * G/(G-1) (N-1)/(N-K) sum over clusters of (sum e_i u_i)^2 (Cameron &amp; Miller 2015, "A practitioner's
  * guide to cluster-robust inference", J. Human Resources 50(2)). Leverages h_i = 1/n_level + ||M x_i||^2,
- * the hat matrix of the model with explicit intercept or dummies. Each row is read once, in blocks
+ * the hat matrix of the model with explicit intercept or dummies. Weighted least squares is the same pass
+ * over rows scaled by sqrt(w_i): the scores become w_i e_i x_i and h_i = w_i / W_level + w_i ||M x_i||^2,
+ * which is what {@code sandwich}'s {@code estfun.lm} and {@code hatvalues} give for a weighted {@code lm}
+ * (Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical Software
+ * 16(9)). Each row is read once, in blocks
  * small enough to stay in cache; nothing is materialised beyond the block.
  */
 final class KeyCoefficientSandwich {
@@ -32,6 +36,12 @@ final class KeyCoefficientSandwich {
         double[][] offset;
         double[] yOffset;
         int[] levelCount;
+        /** Per level: the usable rows' weight total (the count when unweighted). */
+        double[] levelWeight;
+        /** Each row's analytic weight (indexed as the rows are), null when unweighted. */
+        double[] weight;
+        /** Whether the pass scales each row by sqrt(weight) (false when the rows are already scaled). */
+        boolean scaleRows;
         int[] cluster;
         int clusterCount;
         private double[][] offsets = new double[0][];
@@ -69,6 +79,9 @@ final class KeyCoefficientSandwich {
             this.offset = offsets;
             this.yOffset = yOffsets;
             this.levelCount = mom.levelCount;
+            this.levelWeight = mom.levelWeight;
+            this.weight = v.weight;
+            this.scaleRows = v.weight != null;
             this.cluster = clusterCodes;
             this.clusterCount = clusters;
             return this;
@@ -101,6 +114,9 @@ final class KeyCoefficientSandwich {
             this.offset = offsets;
             this.yOffset = yOffsets;
             this.levelCount = mom.levelCount;
+            this.levelWeight = mom.levelWeight;
+            this.weight = design.weighted ? design.weight : null;
+            this.scaleRows = false;
             this.cluster = design.cluster;
             this.clusterCount = clusters;
             return this;
@@ -211,6 +227,18 @@ final class KeyCoefficientSandwich {
                     blockU[z] = 0;
                 }
             }
+            if (view.scaleRows) {
+                for (int z = 0; z < len; z++) {
+                    blockV[z] = Math.sqrt(view.weight[blockRow[z]]);
+                    blockE[z] *= blockV[z];
+                }
+                for (int c = 0; c < p; c++) {
+                    double[] xb = blockX[c];
+                    for (int z = 0; z < len; z++) {
+                        xb[z] *= blockV[z];
+                    }
+                }
+            }
             for (int c = 0; c < p; c++) {
                 double[] xb = blockX[c];
                 double bc = b[c];
@@ -230,8 +258,14 @@ final class KeyCoefficientSandwich {
                     }
                 }
             } else if (leverage) {
-                for (int z = 0; z < len; z++) {
-                    blockH[z] = 1.0 / view.levelCount[blockLevel[z]];
+                if (view.weight == null) {
+                    for (int z = 0; z < len; z++) {
+                        blockH[z] = 1.0 / view.levelCount[blockLevel[z]];
+                    }
+                } else {
+                    for (int z = 0; z < len; z++) {
+                        blockH[z] = view.weight[blockRow[z]] / view.levelWeight[blockLevel[z]];
+                    }
                 }
                 for (int i = 0; i < p; i++) {
                     java.util.Arrays.fill(blockV, 0, len, 0);

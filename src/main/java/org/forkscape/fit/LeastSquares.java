@@ -32,7 +32,8 @@ public final class LeastSquares implements Estimator {
         int[] cols = spec.factorOrder();
         if (n <= base) {
             return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on this "
-                    + "specification's variables", n, base + cols.length);
+                    + "specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    base + cols.length);
         }
         if (!mom.demeaned) {
             return KeyFit.failed(FitStatus.NOT_CONVERGED, String.format("%,d fixed-effect demeaning",

@@ -30,7 +30,7 @@ public final class ModelColumns {
      * @param absorbed   each fixed-effect column once
      */
     ModelColumns(List<String> outcomes, List<String> predictors, Map<String, Column> controls,
-            List<String> clusters, List<String> absorbed) {
+            List<String> clusters, List<String> absorbed, List<String> weights) {
         outcomeColumns = new int[outcomes.size()];
         for (int j = 0; j < outcomes.size(); j++) {
             outcomeColumns[j] = add(outcomes.get(j), variable("outcome:" + j));
@@ -53,6 +53,7 @@ public final class ModelColumns {
         });
         clusters.forEach(this::variable);
         absorbed.forEach(this::variable);
+        weights.forEach(this::variable);
         if (variables.size() > 64) {
             throw new org.forkscape.plan.PlanException("decisions", "uses " + variables.size()
                     + " distinct model variables; at most 64 are supported");

@@ -6,13 +6,20 @@ import java.util.BitSet;
  * Sufficient statistics of one set of usable rows in a {@link DataVariant}: the count, each level's
  * count and column sums (around its shift), the within cross-product matrix of every model column
  * (centered on the mean, or on each fixed-effect level's mean when absorbing), and the diagonal of the
- * matrix centered on the overall mean (total sums of squares, for R-squared).
+ * matrix centered on the overall mean (total sums of squares, for R-squared). In a weighted variant every
+ * sum is weighted: the level means are weighted means, the within matrix is sum w (x - xbar_w)(x - xbar_w)'
+ * per level, and the total sums of squares are about the weighted overall mean, as R's {@code summary.lm}
+ * takes them for a weighted fit; {@code n} still counts rows.
  */
 public final class Moments {
     final DataVariant variant;
     final BitSet usableGroups;
     final int n;
     final int[] levelCount;
+    /** Per level: the weight total of the usable rows (the count as a double when unweighted). */
+    final double[] levelWeight;
+    /** Whether the sums are weighted (the variant's analytic weights, or a null draw's times them). */
+    final boolean weighted;
     /** Per level: mean of each column over the usable rows, relative to the level's shift. */
     final double[][] levelMeanOffset;
     final int levelsPresent;
@@ -49,7 +56,7 @@ public final class Moments {
     }
 
     Moments(DataVariant v, BitSet usable) {
-        this(v, usable, v.cellCount, v.cellSum, v.cellCross);
+        this(v, usable, v.cellCount, v.cellWeight, v.cellSum, v.cellCross);
     }
 
     /**
@@ -62,6 +69,8 @@ public final class Moments {
         this.usableGroups = usable;
         n = w.n;
         levelCount = new int[] {w.n};
+        levelWeight = new double[] {w.weightTotal};
+        weighted = w.weighted;
         levelMeanOffset = new double[1][v.columns];
         levelsPresent = w.rank;
         within = w.within;
@@ -73,13 +82,18 @@ public final class Moments {
      * The moments of the usable groups from cells laid out like the variant's own (per group and level:
      * count, sums and full cross-products around the level's shift), such as a null draw's reweighted
      * cells. Cells with a zero count are skipped.
+     *
+     * @param cellWeight per cell, the weight total the sums were weighted with; null when they are plain sums
      */
-    Moments(DataVariant v, BitSet usable, int[][] cellCount, double[][][] cellSum, double[][][] cellCross) {
+    Moments(DataVariant v, BitSet usable, int[][] cellCount, double[][] cellWeight, double[][][] cellSum,
+            double[][][] cellCross) {
         this.variant = v;
         this.usableGroups = usable;
         int p = v.columns;
         int levels = v.levels;
         levelCount = new int[levels];
+        levelWeight = new double[levels];
+        weighted = cellWeight != null;
         double[][] sums = new double[levels][p];
         double[][] cross = new double[levels][];
         for (int g = usable.nextSetBit(0); g >= 0; g = usable.nextSetBit(g + 1)) {
@@ -88,6 +102,7 @@ public final class Moments {
                     continue;
                 }
                 levelCount[l] += cellCount[g][l];
+                levelWeight[l] += weighted ? cellWeight[g][l] : cellCount[g][l];
                 double[] s = cellSum[g][l];
                 double[] c = cellCross[g][l];
                 double[] sl = sums[l];
@@ -105,15 +120,17 @@ public final class Moments {
             }
         }
         int total = 0;
+        double totalWeight = 0;
         int present = 0;
         within = new double[p * p];
         levelMeanOffset = new double[levels][p];
         for (int l = 0; l < levels; l++) {
-            int nl = levelCount[l];
-            if (nl == 0) {
+            if (levelCount[l] == 0) {
                 continue;
             }
-            total += nl;
+            double nl = levelWeight[l];
+            total += levelCount[l];
+            totalWeight += nl;
             present++;
             double[] sl = sums[l];
             double[] c = cross[l];
@@ -136,15 +153,15 @@ public final class Moments {
             double mean = 0;
             for (int l = 0; l < levels; l++) {
                 if (levelCount[l] > 0) {
-                    mean += levelCount[l] * (v.levelShift[l][j] + levelMeanOffset[l][j]);
+                    mean += levelWeight[l] * (v.levelShift[l][j] + levelMeanOffset[l][j]);
                 }
             }
-            mean /= n;
+            mean /= totalWeight;
             double between = 0;
             for (int l = 0; l < levels; l++) {
                 if (levelCount[l] > 0) {
                     double d = v.levelShift[l][j] + levelMeanOffset[l][j] - mean;
-                    between += levelCount[l] * d * d;
+                    between += levelWeight[l] * d * d;
                 }
             }
             totalSquares[j] = within[j * p + j] + between;

@@ -17,6 +17,11 @@ import org.forkscape.plan.ErrorType;
  * resampled data set; where rows are needed (the QR guard, HC and cluster errors) they are materialised
  * with that repetition.
  *
+ * <p>In a weighted variant a bootstrap draw multiplies each row's analytic weight by the number of times it
+ * was drawn (each copy is a row with the row's weight, so the draw is the weighted fit of the resampled
+ * data set); a permutation draw moves the key predictor's values and leaves every weight with its row, so
+ * the outcome keeps its weight and only the predictor's assignment is random.
+ *
  * <p>The observed sample rules, transforms and missing patterns stay as they are: a row carries its
  * coded values into the draw. A permutation moves the values of every key predictor alternative
  * together, and only between rows with the same missing pattern on those alternatives, so each
@@ -32,6 +37,8 @@ public final class ResampledVariant implements FitData {
     /** Model variable of each model column. */
     private final int[] variableOf;
     private final int[][] count;
+    /** Per cell: the draw's weight total (counts times analytic weights); null when the variant is unweighted. */
+    private final double[][] cellWeight;
     private final double[][][] sum;
     private final double[][][] cross;
     private final int[] weight;
@@ -81,6 +88,7 @@ public final class ResampledVariant implements FitData {
         predictorBits = bits;
         int groups = base.groupMissing.length;
         count = new int[groups][base.levels];
+        cellWeight = base.weight == null ? null : new double[groups][base.levels];
         sum = new double[groups][base.levels][];
         cross = new double[groups][base.levels][];
         for (int g = 0; g < groups; g++) {
@@ -175,6 +183,9 @@ public final class ResampledVariant implements FitData {
         repeatedRows.clear();
         for (int g = 0; g < count.length; g++) {
             Arrays.fill(count[g], 0);
+            if (cellWeight != null) {
+                Arrays.fill(cellWeight[g], 0);
+            }
             for (int l = 0; l < v.levels; l++) {
                 if (sum[g][l] != null) {
                     Arrays.fill(sum[g][l], 0);
@@ -182,14 +193,20 @@ public final class ResampledVariant implements FitData {
                 }
             }
         }
+        double[] analytic = v.weight;
         for (int i = 0; i < v.rows; i++) {
-            int w = weight[i];
-            if (w == 0) {
+            int drawn = weight[i];
+            if (drawn == 0) {
                 continue;
             }
             int g = v.group[i];
             int l = v.level[i];
-            count[g][l] += w;
+            count[g][l] += drawn;
+            double w = drawn;
+            if (analytic != null) {
+                w = drawn * analytic[i];
+                cellWeight[g][l] += w;
+            }
             double[] s = sum[g][l];
             double[] c = cross[g][l];
             for (int j = 0; j < p; j++) {
@@ -228,7 +245,7 @@ public final class ResampledVariant implements FitData {
         Moments m = byVariables.get(variableMask);
         if (m == null) {
             BitSet usable = UsableRows.groups(v, variableMask);
-            m = byGroups.computeIfAbsent(usable, u -> new Moments(v, u, count, sum, cross));
+            m = byGroups.computeIfAbsent(usable, u -> new Moments(v, u, count, cellWeight, sum, cross));
             byVariables.put(variableMask, m);
         }
         return m;
@@ -250,13 +267,16 @@ public final class ResampledVariant implements FitData {
     @Override
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
         prepareClusters(errors);
-        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors));
+        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), true);
         return rows;
     }
 
+    /** The draw's rows unscaled, the prior weights beside them (a GLM weighs rows itself). */
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
-        into.fill(refitRows(mom, cols, y, errors), v.coded.recorded[y], v.levels);
+        prepareClusters(errors);
+        fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), false);
+        into.fill(rows, v.coded.recorded[y], v.levels);
     }
 
     @Override
@@ -269,7 +289,7 @@ public final class ResampledVariant implements FitData {
             return rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
         }
         if (clusterCodes != null && copiesAreNewClusters) {
-            fillRows(mom, s.kept, y, clusterCodes, clusterCount);
+            fillRows(mom, s.kept, y, clusterCodes, clusterCount, true);
             return rowView(s, positions, mom, codeCount(clusterCount));
         }
         return variantView(mom, s, y, clusterCodes, clusterCount);
@@ -359,7 +379,7 @@ public final class ResampledVariant implements FitData {
      * QR route, and for cluster errors when each drawn copy of a cluster is a cluster of its own: codes
      * shifted by multiples of {@code clusterCount}).
      */
-    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount) {
+    private void fillRows(Moments mom, int[] cols, int yCol, int[] clusterCodes, int clusterCount, boolean scale) {
         RepeatedRows repeat = repeated(mom);
         int width = cols.length;
         int n = mom.n;
@@ -376,8 +396,12 @@ public final class ResampledVariant implements FitData {
             rows.level = new int[n];
             rows.cluster = new int[n];
             rows.source = new int[n];
+            rows.weight = new double[n];
         }
         int[] list = repeat.rows();
+        double[] analytic = v.weight;
+        rows.weighted = analytic != null;
+        double[] scaleBy = scale ? analytic : null;
         double[][] offset = mom.levelMeanOffset;
         for (int j = 0; j <= width; j++) {
             int col = j < width ? cols[j] : yCol;
@@ -385,13 +409,17 @@ public final class ResampledVariant implements FitData {
             double[] to = j < width ? rows.x[j] : rows.y;
             for (int k = 0; k < n; k++) {
                 int r = list[k];
-                to[k] = from[r] - offset[v.level[r]][col];
+                to[k] = scaleBy == null ? from[r] - offset[v.level[r]][col]
+                        : (from[r] - offset[v.level[r]][col]) * Math.sqrt(scaleBy[r]);
             }
         }
         for (int k = 0; k < n; k++) {
             int r = list[k];
             rows.level[k] = v.level[r];
             rows.source[k] = r;
+            if (analytic != null) {
+                rows.weight[k] = analytic[r];
+            }
             if (clusterCodes != null) {
                 rows.cluster[k] = clusterCodes[r] + (copiesAreNewClusters ? repeat.copy()[k] * clusterCount : 0);
             }

@@ -16,6 +16,10 @@ package org.forkscape.fit;
  * and the residual's coefficients grow with opposite signs on the near-copies), as do a well explained
  * outcome and badly scaled columns; the ratio sees all of them, the key's variance inflation alone does
  * not.
+ *
+ * <p>A weighted variant takes the row pass for every robust type: its cells hold sum w z z', while the
+ * meats of weighted least squares need sum w^2 e^2 u^2 (fourth moments weighted by w^2) and per-cluster
+ * sums weighted by w, structures built for no other purpose. Declining keeps one exact route for weights.
  */
 final class SandwichRoute {
     /**
@@ -34,7 +38,7 @@ final class SandwichRoute {
     }
 
     static boolean fourthMomentsPay(DataVariant v, long specifications, double meanColumns) {
-        return !v.absorbs && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
+        return !v.absorbs && v.weight == null && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
     }
 
     /**
@@ -57,7 +61,7 @@ final class SandwichRoute {
     }
 
     static boolean clusterMomentsPay(DataVariant v, long specifications, double meanColumns, int clusters) {
-        return clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
+        return v.weight == null && clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
     }
 
     /** The same choice from the sizes alone. */

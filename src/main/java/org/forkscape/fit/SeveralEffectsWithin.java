@@ -32,10 +32,16 @@ final class SeveralEffectsWithin {
     final double[][] columns;
     /** Whether every column's demeaning converged ({@link AlternatingProjections#TOLERANCE}). */
     final boolean converged;
+    /** The weight total of the set's rows (their count when unweighted). */
+    final double weightTotal;
+    /** Whether the variant is weighted: the projections, cross-products and sums of squares are then weighted. */
+    final boolean weighted;
 
     private SeveralEffectsWithin(int n, int rank, double[] within, double[] totalSquares, double[][] columns,
-            boolean converged) {
+            boolean converged, double weightTotal, boolean weighted) {
         this.n = n;
+        this.weightTotal = weightTotal;
+        this.weighted = weighted;
         this.rank = rank;
         this.within = within;
         this.totalSquares = totalSquares;
@@ -43,7 +49,12 @@ final class SeveralEffectsWithin {
         this.converged = converged;
     }
 
-    /** The within transformation of {@code v}'s rows in the missing-pattern groups {@code usable}. */
+    /**
+     * The within transformation of {@code v}'s rows in the missing-pattern groups {@code usable}. In a weighted
+     * variant it is the weighted one, as weighted least squares with the dummies written out takes it: each
+     * column centred on its weighted mean and projected off the dummies in the weighted inner product
+     * (weighted level means), the cross-products and sums of squares weighted.
+     */
     static SeveralEffectsWithin of(DataVariant v, BitSet usable) {
         CodedRows coded = v.coded;
         int p = v.columns;
@@ -64,7 +75,17 @@ final class SeveralEffectsWithin {
         double[][] compact = new double[p][];
         double[] totalSquares = new double[p];
         boolean converged = true;
-        AlternatingProjections projections = n == 0 ? null : new AlternatingProjections(codes, levels, null);
+        double[] weight = null;
+        double weightTotal = n;
+        if (v.weight != null) {
+            weight = new double[n];
+            weightTotal = 0;
+            for (int i = 0; i < n; i++) {
+                weight[i] = v.weight[rows[i]];
+                weightTotal += weight[i];
+            }
+        }
+        AlternatingProjections projections = n == 0 ? null : new AlternatingProjections(codes, levels, weight);
         long missing = 0;
         for (int g = usable.nextSetBit(0); g >= 0; g = usable.nextSetBit(g + 1)) {
             missing |= coded.groupMissing[g];
@@ -78,10 +99,10 @@ final class SeveralEffectsWithin {
             for (int i = 0; i < n; i++) {
                 x[i] = shifted[rows[i]];
             }
-            totalSquares[j] = centre(x);
+            totalSquares[j] = centre(x, weight, weightTotal);
             // centred first, so that the stopping rule is relative to the column's spread about its mean
             converged &= projections.demean(x);
-            compact[j] = x;
+            compact[j] = weight == null ? x : scaled(x, weight);
             double[] full = new double[v.rows];
             for (int i = 0; i < n; i++) {
                 full[rows[i]] = x[i];
@@ -101,7 +122,7 @@ final class SeveralEffectsWithin {
                 }
             }
         }
-        return new SeveralEffectsWithin(n, rank, within, totalSquares, columns, converged);
+        return new SeveralEffectsWithin(n, rank, within, totalSquares, columns, converged, weightTotal, weight != null);
     }
 
     /** The variant's rows in the usable groups, ascending. */
@@ -141,17 +162,45 @@ final class SeveralEffectsWithin {
      * Subtracts the mean from {@code x} (modified) and returns the sum of squares about it, by the corrected
      * two-pass formula (Chan, Golub &amp; LeVeque 1983, The American Statistician 37(3)).
      */
-    private static double centre(double[] x) {
+    private static double centre(double[] x, double[] weight, double weightTotal) {
         int n = x.length;
-        double mean = Kernels.sum(x, n) / n;
-        double c = 0;
-        for (double value : x) {
-            c += value - mean;
+        if (weight == null) {
+            double mean = Kernels.sum(x, n) / n;
+            double c = 0;
+            for (double value : x) {
+                c += value - mean;
+            }
+            mean += c / n;
+            for (int i = 0; i < n; i++) {
+                x[i] -= mean;
+            }
+            return Kernels.dot(x, x, n);
         }
-        mean += c / n;
+        // the weighted mean, corrected by a second pass (Chan, Golub & LeVeque 1983, The American Statistician 37(3))
+        double mean = 0;
+        for (int i = 0; i < n; i++) {
+            mean += weight[i] * x[i];
+        }
+        mean /= weightTotal;
+        double c = 0;
+        for (int i = 0; i < n; i++) {
+            c += weight[i] * (x[i] - mean);
+        }
+        mean += c / weightTotal;
+        double squares = 0;
         for (int i = 0; i < n; i++) {
             x[i] -= mean;
+            squares += weight[i] * x[i] * x[i];
         }
-        return Kernels.dot(x, x, n);
+        return squares;
+    }
+
+    /** The column times the square root of each row's weight, whose plain cross-products are the weighted ones. */
+    private static double[] scaled(double[] x, double[] weight) {
+        double[] out = new double[x.length];
+        for (int i = 0; i < x.length; i++) {
+            out[i] = x[i] * Math.sqrt(weight[i]);
+        }
+        return out;
     }
 }

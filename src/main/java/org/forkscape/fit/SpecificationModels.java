@@ -27,7 +27,7 @@ public final class SpecificationModels {
             sampleRadix[s] = this.plan.samples[s].alternativeCount();
             count *= sampleRadix[s];
         }
-        variantCount = count * this.plan.absorbAlternatives();
+        variantCount = count * this.plan.absorbAlternatives() * this.plan.weightAlternatives();
     }
 
     public ModelColumns layout() {
@@ -42,7 +42,7 @@ public final class SpecificationModels {
         return space;
     }
 
-    /** Number of distinct data variants (sample alternatives times absorb alternatives). */
+    /** Number of distinct data variants (sample alternatives times absorb alternatives times weights alternatives). */
     public long variantCount() {
         return variantCount;
     }
@@ -57,12 +57,21 @@ public final class SpecificationModels {
         if (plan.absorbAt >= 0) {
             v = v * plan.absorbAlternatives() + choices[plan.absorbAt];
         }
+        if (plan.weightsAt >= 0) {
+            v = v * plan.weightAlternatives() + choices[plan.weightsAt];
+        }
         return (int) v;
     }
 
     /** The variant key of an ordinal. */
     public VariantKey variantKey(int ordinal) {
         long rest = ordinal;
+        int weights = -1;
+        if (plan.weightsAt >= 0) {
+            long r = plan.weightAlternatives();
+            weights = (int) (rest % r);
+            rest /= r;
+        }
         int absorb = -1;
         if (plan.absorbAt >= 0) {
             long r = plan.absorbAlternatives();
@@ -74,7 +83,7 @@ public final class SpecificationModels {
             samples[s] = (int) (rest % sampleRadix[s]);
             rest /= sampleRadix[s];
         }
-        return new VariantKey(samples, absorb);
+        return new VariantKey(samples, absorb, weights);
     }
 
     /**
@@ -128,6 +137,9 @@ public final class SpecificationModels {
         }
         if (plan.absorbAt >= 0) {
             mask |= plan.absorbBits[(int) choices[plan.absorbAt]];
+        }
+        if (plan.weightsAt >= 0) {
+            mask |= plan.weightBits[(int) choices[plan.weightsAt]];
         }
         ModelFamily family = plan.modelAt < 0 ? ModelFamily.OLS : plan.families[(int) choices[plan.modelAt]];
         return new SpecificationModel(plan.outcomes[outcome].modelColumn(), java.util.Arrays.copyOf(buffer, count),

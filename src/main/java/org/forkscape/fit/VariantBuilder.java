@@ -5,7 +5,8 @@ import org.forkscape.data.Column;
 
 /**
  * Assembles a data variant, one job after another: the table rows it keeps ({@link RowSelection}), the
- * outcome and predictor alternatives coded over them ({@link ColumnCoding}), the absorbed fixed effect's
+ * outcome and predictor alternatives coded over them ({@link ColumnCoding}), the analytic weights, which drop
+ * rows whose weight is missing or zero ({@link AnalyticWeights}), the absorbed fixed effect's
  * levels, which drop rows missing it ({@link FixedEffectLevels}), the controls, the cluster codes
  * ({@link ClusterCodes}), the missing-pattern groups ({@link MissingPatterns}) and the level shifts
  * ({@link LevelShifts}): the {@link CodedRows}; then the cell sums of its statistics ({@link CellSums}).
@@ -23,15 +24,18 @@ final class VariantBuilder {
     static DataVariant build(CompiledPlan plan, VariantKey key, ExecutorService pool) {
         int[] sampled = RowSelection.of(plan, key);
         double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()));
+        AnalyticWeights weights = AnalyticWeights.of(
+                key.weightChoice() < 0 ? null : plan.weightColumns[key.weightChoice()], sampled);
+        weights.compact(raw);
         Column[] absorbed = key.absorbChoice() < 0 ? new Column[0] : plan.absorbColumns[key.absorbChoice()];
-        FixedEffectLevels levels = FixedEffectLevels.of(absorbed, sampled);
+        FixedEffectLevels levels = FixedEffectLevels.of(absorbed, weights.tableRows);
         levels.compact(raw);
         ColumnCoding.controls(plan, levels.tableRows, raw);
         ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows);
         MissingPatterns patterns = new MissingPatterns(plan, raw, clusters, levels.tableRows.length);
         double[][] recorded = plan.generalized ? recorded(plan, raw) : null;
         LevelShifts shifts = new LevelShifts(raw, levels);
-        CodedRows coded = new CodedRows(plan.layout, levels, shifts, patterns, clusters, recorded);
+        CodedRows coded = new CodedRows(plan.layout, levels, weights.at(levels), shifts, patterns, clusters, recorded);
         return new DataVariant(coded, new CellSums(coded, pool));
     }
 

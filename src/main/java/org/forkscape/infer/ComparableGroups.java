@@ -19,7 +19,9 @@ import org.forkscape.run.ResultTable;
 /**
  * Groups the fitted specifications whose likelihoods can be compared and whose key coefficients share one
  * scale: the same outcome alternative, key-predictor alternative and model on exactly the same rows (the
- * same sample and fixed-effect alternatives and the same usable missing-value groups), and computes
+ * same sample, fixed-effect and weights alternatives and the same usable missing-value groups; a weighted
+ * likelihood differs from the unweighted one by a constant of its rows' weights, which cancels within a
+ * group), and computes
  * {@link GroupWeights} within each: Sala-i-Martin's CDF(0) and the BIC weights,
  * estimate and posterior inclusion probabilities. Likelihoods of different outcomes or different rows
  * are not on one scale, so nothing is weighed across groups.
@@ -29,7 +31,7 @@ public final class ComparableGroups {
     public static final String NOTE = "Likelihoods and BIC compare models of the same outcome on the same rows "
             + "only, and an average of coefficients needs one coefficient on one scale, so weights are computed "
             + "within groups of specifications that share the outcome alternative, the key-predictor alternative, "
-            + "the model and exactly the same rows (sample and fixed-effect alternatives and missing values); "
+            + "the model and exactly the same rows (sample, fixed-effect and weights alternatives and missing values); "
             + "they say nothing across groups. Specifications that differ only in their standard errors are the same "
             + "model and share its weight equally.";
 
@@ -94,7 +96,8 @@ public final class ComparableGroups {
                     predictor = dec.label(choices[d]);
                 } else if (dec instanceof Decision.Model) {
                     model = dec.label(choices[d]);
-                } else if (dec instanceof Decision.Sample || dec instanceof Decision.Absorb) {
+                } else if (dec instanceof Decision.Sample || dec instanceof Decision.Absorb
+                        || dec instanceof Decision.Weights) {
                     rows.put(dec.name(), dec.label(choices[d]));
                 }
             }

@@ -171,6 +171,25 @@ public sealed interface Decision {
         }
     }
 
+    /** Analytic weights: each alternative a weight column, or none (unweighted). */
+    record Weights(String name, List<WeightChoice> alternatives) implements Decision {
+        public Weights {
+            alternatives = List.copyOf(alternatives);
+        }
+
+        public String kind() {
+            return "weights";
+        }
+
+        public long alternativeCount() {
+            return alternatives.size();
+        }
+
+        public String label(long choice) {
+            return alternatives.get((int) choice).label();
+        }
+    }
+
     /** The model each specification fits: {@code ols}, {@code logit}, {@code probit} or {@code poisson}. */
     record Model(String name, List<ModelFamily> alternatives) implements Decision {
         public Model {

@@ -66,6 +66,14 @@ public final class PlanChecker {
                     String p = path + ".alternatives[" + j + "]";
                     problems.attempt(() -> outcomeFits(family, p, plan, table));
                 }
+            } else if (d instanceof Decision.Weights w) {
+                for (int j = 0; j < w.alternatives().size(); j++) {
+                    WeightChoice choice = w.alternatives().get(j);
+                    String p = path + ".alternatives[" + j + "].column";
+                    if (choice.weighted()) {
+                        problems.attempt(() -> weightColumn(existing(choice.column(), p, table), p));
+                    }
+                }
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
@@ -259,6 +267,39 @@ public final class PlanChecker {
                 throw new PlanException(p + ".trim.column", "\"" + c.name()
                         + "\" is categorical; a z-score trim needs a numeric column" + whyText(c));
             }
+        }
+    }
+
+    /** Rows named in a message about bad weights: the first few. */
+    private static final int ROWS_NAMED = 5;
+
+    /**
+     * A weight column is numeric, and every present weight is finite and not negative: a negative or
+     * infinite analytic weight has no meaning in weighted least squares (R's {@code lm.wfit} refuses
+     * negative weights too). Zero is allowed (the row takes no part); a missing weight drops its row.
+     */
+    private static void weightColumn(Column c, String path) {
+        if (!(c instanceof NumericColumn numeric)) {
+            throw new PlanException(path, InputException.quoted(c.name()) + " is categorical; weights must be a "
+                    + "numeric column" + whyText(c));
+        }
+        double[] v = numeric.values();
+        List<Integer> bad = new java.util.ArrayList<>();
+        int count = 0;
+        for (int i = 0; i < v.length; i++) {
+            if (v[i] < 0 || Double.isInfinite(v[i])) {
+                count++;
+                if (bad.size() < ROWS_NAMED) {
+                    bad.add(i + 1);
+                }
+            }
+        }
+        if (count > 0) {
+            throw new PlanException(path, "the weights in " + InputException.quoted(c.name()) + " must be finite and "
+                    + "not negative; " + count + " row" + (count == 1 ? " is" : "s are") + " not (data row"
+                    + (count == 1 ? " " : "s ") + String.join(", ", bad.stream().map(String::valueOf).toList())
+                    + (count > bad.size() ? ", ..." : "") + ", counting from 1 below the header); fix them, or leave "
+                    + "the cell empty to drop the row");
         }
     }
 

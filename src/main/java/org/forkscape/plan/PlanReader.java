@@ -39,7 +39,7 @@ public final class PlanReader {
     private static final Set<String> TOP_KEYS = Set.of("title", "description", "data", "confidence", "missing",
             "decisions", "sample", "seed", "maxSpecifications", "nullDraws", "nullMethod", "nullCluster", "reported");
     private static final List<String> KINDS = List.of("outcome", "predictor", "controls", "sample", "errors", "absorb",
-            "model");
+            "model", "weights");
     private static final Map<String, List<String>> DECISION_KEYS = Map.of(
             "outcome", List.of("name", "kind", "alternatives"),
             "predictor", List.of("name", "kind", "alternatives"),
@@ -47,7 +47,8 @@ public final class PlanReader {
             "sample", List.of("name", "kind", "alternatives"),
             "errors", List.of("name", "kind", "alternatives"),
             "absorb", List.of("name", "kind", "alternatives"),
-            "model", List.of("name", "kind", "alternatives"));
+            "model", List.of("name", "kind", "alternatives"),
+            "weights", List.of("name", "kind", "alternatives"));
     /** Output columns of specifications.csv that a decision name must not shadow. */
     public static final Set<String> RESERVED_NAMES = Set.of("spec", "estimate", "std_error", "statistic", "df",
             "p_value", "ci_low", "ci_high", "std_estimate", "effect", "effect_std_error", "n_obs", "n_params", "r2", "adj_r2",
@@ -246,6 +247,7 @@ public final class PlanReader {
         requireCount(out, Decision.Errors.class, "errors", 0, 1);
         requireCount(out, Decision.Absorb.class, "absorb", 0, 1);
         requireCount(out, Decision.Model.class, "model", 0, 1);
+        requireCount(out, Decision.Weights.class, "weights", 0, 1);
         return out;
     }
 
@@ -294,6 +296,7 @@ public final class PlanReader {
             case "sample" -> sample(d, name, path, problems);
             case "errors" -> errors(d, name, path, problems);
             case "model" -> model(d, name, path, problems);
+            case "weights" -> weights(d, name, path, problems);
             default -> absorb(d, name, path, problems);
         };
     }
@@ -500,6 +503,33 @@ public final class PlanReader {
             });
         }
         return new Decision.Absorb(name, out);
+    }
+
+    /** A weights decision: alternatives {"label", "column"} (analytic weights) or {"label"} (unweighted). */
+    private static Decision.Weights weights(JsonNode d, String name, String path, PlanProblems problems) {
+        JsonNode alts = alternatives(d, path);
+        List<WeightChoice> out = new ArrayList<>();
+        Set<String> labels = new HashSet<>();
+        for (int j = 0; j < alts.size(); j++) {
+            String p = path + ".alternatives[" + j + "]";
+            JsonNode node = alts.get(j);
+            problems.attempt(() -> {
+                JsonNode a = object(node, p, "{\"label\": ..., \"column\": ...} or {\"label\": ...} for unweighted");
+                boolean keys = problems.attempt(() -> onlyKeys(a, p, Set.of("label", "column")));
+                String label = problems.attempt(() -> label(a, p, labels), null);
+                boolean columnRead = problems.attempt(() -> {
+                    String c = text(a, "column", p + ".column", null);
+                    if (c != null && c.isEmpty()) {
+                        throw new PlanException(p + ".column", "is empty: name the weight column, or leave the key "
+                                + "out for the unweighted alternative");
+                    }
+                });
+                if (keys && label != null && columnRead) {
+                    out.add(new WeightChoice(label, text(a, "column", p + ".column", null)));
+                }
+            });
+        }
+        return new Decision.Weights(name, out);
     }
 
     private static JsonNode alternatives(JsonNode d, String path) {

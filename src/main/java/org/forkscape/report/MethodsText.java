@@ -11,6 +11,7 @@ import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.Transform;
 import org.forkscape.plan.VariableChoice;
+import org.forkscape.plan.WeightChoice;
 import org.forkscape.run.Scale;
 import tools.jackson.databind.JsonNode;
 
@@ -74,6 +75,12 @@ final class MethodsText {
                     + "Portugal 2010, Stata Journal 10(4); Hestenes & Stiefel 1952, Journal of Research of the National "
                     + "Bureau of Standards 49(6)), and counted in K by the rank of their dummies: their levels "
                     + "less one per connected component of the levels' bipartite graph.");
+        }
+        if (plan.all(Decision.Weights.class).stream().flatMap(w -> w.alternatives().stream())
+                .anyMatch(WeightChoice::weighted)) {
+            s.add("Weighted specifications used analytic weights: weighted least squares, or prior weights in the "
+                    + "likelihood of the generalized linear models, as R's lm and glm take them, with rows of zero "
+                    + "or missing weight left out (McCullagh & Nelder 1989, section 2.5).");
         }
         if (usesWinsorize(plan)) {
             s.add("Winsorized variables were cut at quantiles interpolated between order statistics (Hyndman & Fan "

@@ -186,6 +186,8 @@ public final class MemoryEstimate {
             List<String> absorbedColumns = absorbedColumns(plan, models.variantKey(v));
             boolean several = absorbedColumns.size() > 1;
             String absorbed = absorbedColumns.isEmpty() ? null : absorbedColumns.get(0);
+            // a weighted variant takes the row pass for every robust error (fit.SandwichRoute)
+            boolean weighted = weighted(plan, models.variantKey(v));
             // several absorbed columns: one cell level, and the demeaned rows of each usable set instead
             int[] levelCodes = absorbed == null || several ? null : LevelCodes.of(table.column(absorbed));
             int levels = levelCodes == null ? 1 : Math.max(1, count(levelCodes));
@@ -202,7 +204,7 @@ public final class MemoryEstimate {
                     + workers * MemoryFootprint.momentsBuild(columns, levels)
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long fourth = 0;
-            if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
+            if (absorbed == null && !weighted && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
                 fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
                         + SpecificationMix.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
@@ -211,7 +213,7 @@ public final class MemoryEstimate {
             long clusterCells = 0;
             for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
                 long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
-                if (count > 0 && !several && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                if (count > 0 && !several && !weighted && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
                             + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),
@@ -312,6 +314,12 @@ public final class MemoryEstimate {
             }
         }
         return false;
+    }
+
+    /** Whether a variant is weighted (its weights alternative names a column). */
+    private static boolean weighted(Plan plan, VariantKey key) {
+        return key.weightChoice() >= 0
+                && plan.all(Decision.Weights.class).get(0).alternatives().get(key.weightChoice()).weighted();
     }
 
     /** The columns whose fixed effects a variant absorbs (none, one or several). */

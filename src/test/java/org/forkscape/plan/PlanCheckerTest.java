@@ -10,6 +10,7 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.List;
 import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.NumericColumn;
 import org.forkscape.data.Table;
 import org.junit.jupiter.api.Test;
 
@@ -181,5 +182,37 @@ class PlanCheckerTest {
                 + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("attendance") + "]}, "
                 + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("tutoring") + "]}]}", Path.of("."));
         assertDoesNotThrow(() -> PlanChecker.check(rows, SCHOOLS), "\"rows\" is the word for single rows, not a column");
+    }
+
+    /**
+     * Weights: the column exists and is numeric; a negative or infinite weight is refused at the
+     * alternative's column, naming the rows; zero and missing weights pass (a row of zero weight takes no
+     * part, a missing one drops the row).
+     */
+    @Test
+    void weightsAreNumericFiniteAndNotNegative() {
+        String weights = "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"none\"}, "
+                + "{\"label\": \"w\", \"column\": \"%s\"}]}";
+        fails(plan(column("attendance"), column("tutoring"), String.format(weights, "sector")),
+                "decisions[2].alternatives[1].column", "weights must be a numeric column");
+        fails(plan(column("attendance"), column("tutoring"), String.format(weights, "fess")),
+                "decisions[2].alternatives[1].column", "did you mean \"fees\"?");
+        Table bad = new Table("survey.csv", List.of(new NumericColumn("y", new double[] {1, 2, 3, 4, 5, 6}),
+                new NumericColumn("x", new double[] {0, 1, 0, 1, 1, 0}),
+                new NumericColumn("w", new double[] {1, -0.5, 0, Double.POSITIVE_INFINITY, Double.NaN, -2}),
+                new NumericColumn("ok", new double[] {1, 0.5, 0, 3, Double.NaN, 2})));
+        Plan p = new PlanReader(false).read("{\"data\": \"survey.csv\", \"decisions\": ["
+                + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("y") + "]}, "
+                + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("x") + "]}, "
+                + String.format(weights, "w") + "]}", Path.of("."));
+        PlanException e = assertThrows(PlanException.class, () -> PlanChecker.check(p, bad));
+        Plan ok = new PlanReader(false).read("{\"data\": \"survey.csv\", \"decisions\": ["
+                + "{\"name\": \"y\", \"kind\": \"outcome\", \"alternatives\": [" + column("y") + "]}, "
+                + "{\"name\": \"x\", \"kind\": \"predictor\", \"alternatives\": [" + column("x") + "]}, "
+                + String.format(weights, "ok") + "]}", Path.of("."));
+        assertDoesNotThrow(() -> PlanChecker.check(ok, bad), "zero and missing weights pass");
+        assertEquals("decisions[2].alternatives[1].column", e.where());
+        assertTrue(e.problem().contains("3 rows are not (data rows 2, 4, 6, counting from 1 below the header)"),
+                e.problem());
     }
 }

@@ -380,6 +380,19 @@ class PlanReaderTest {
         fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"two\", "
                 + "\"columns\": [\"a\", \"b\", \"c\"]}]}"), "decisions[2].alternatives[0].columns",
                 "3 fixed-effect columns: up to 2 are absorbed");
+        fails(plan("", "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"w\", "
+                + "\"column\": \"\"}]}"), "decisions[2].alternatives[0].column", "leave the key out for the unweighted");
+        fails(plan("", "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"w\", "
+                + "\"columns\": [\"w\"]}]}"), "decisions[2].alternatives[0].columns", "did you mean \"column\"?");
+        fails(plan("", "{\"name\": \"w1\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"a\"}]}",
+                "{\"name\": \"w2\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"b\"}]}"), "decisions",
+                "has 2 decisions of kind \"weights\"; at most 1");
+        Plan weighted = new PlanReader(false).read(plan("", "{\"name\": \"w\", \"kind\": \"weights\", "
+                + "\"alternatives\": [{\"label\": \"none\"}, {\"label\": \"survey\", \"column\": \"wt\"}]}"),
+                Path.of("."));
+        Decision.Weights w = (Decision.Weights) weighted.decisions().get(2);
+        assertEquals(List.of(new WeightChoice("none", null), new WeightChoice("survey", "wt")), w.alternatives());
+        assertEquals("survey", w.label(1));
         fails(plan("\"missing\": \"listwise\""), "missing", "\"per-specification\" or \"common\"");
         fails(plan("\"nullMethod\": \"jackknife\""), "nullMethod", "\"bootstrap\" or \"permute\"");
     }

@@ -214,6 +214,32 @@ class PlanFormBrowserTest {
         }
     }
 
+    /** The weights decision: a weight column per alternative, its help and source, its problems at its fields. */
+    @Test
+    void theWeightsDecisionShowsItsHelpAndItsProblemsAtItsFields() throws Exception {
+        WebDriverWait wait = openNewPlan();
+        type(wait, "decisions[0].alternatives[0].label", "turnout");
+        new Select(field("decisions[0].alternatives[0].column")).selectByValue("turnout");
+        type(wait, "decisions[1].alternatives[0].label", "hours");
+        new Select(field("decisions[1].alternatives[0].column")).selectByValue("outreach_hours");
+        addDecision("weights");
+        type(wait, "decisions[2].alternatives[1].label", "by region");
+        new Select(field("decisions[2].alternatives[1].column")).selectByValue("region");
+        WebElement note = driver.findElement(By.cssSelector("[data-path='decisions[2].alternatives[1].column'] .choice-note"));
+        assertTrue(note.getText().contains("lm(weights = w)") && note.getText().contains("Source:"), note.getText());
+        click(driver.findElement(By.id("check-plan")));
+        wait.until(d -> visibleProblems().size() == 1);
+        Map<String, String> problem = visibleProblems().get(0);
+        assertEquals("decisions[2].alternatives[1].column", problem.get("where"));
+        assertEquals("decisions[2].alternatives[1].column", problem.get("field"));
+        assertTrue(problem.get("text").startsWith("Decision 3 (weights), second alternative, the column: \"region\" is "
+                + "categorical; weights must be a numeric column"), problem.get("text"));
+        new Select(field("decisions[2].alternatives[1].column")).selectByValue("density");
+        wait.until(d -> visibleProblems().isEmpty());
+        assertEquals("2", driver.findElement(By.id("spec-count")).getText().replaceAll("[^0-9]", ""));
+        BrowserDriver.screenshot(driver, "plan-weights");
+    }
+
     @Test
     void nothingCoversAnythingAt800And900Pixels() throws Exception {
         WebDriverWait wait = openNewPlan();

@@ -77,6 +77,10 @@ public final class BenchmarkCommand {
             machine(json);
             write((String) json.get("case"), json);
         }
+        for (Map<String, Object> json : PanelBenchmark.run(out, folder, quick)) {
+            machine(json);
+            write((String) json.get("case"), json);
+        }
         for (Map<String, Object> json : ExplorerBenchmark.run(out, folder, table(1_000), "data-1000.csv", quick)) {
             machine(json);
             write((String) json.get("case"), json);
@@ -356,14 +360,14 @@ public final class BenchmarkCommand {
         return n % 2 == 1 ? s.get(n / 2) : (s.get(n / 2 - 1) + s.get(n / 2)) / 2;
     }
 
-    private static void resetPeaks() {
+    static void resetPeaks() {
         System.gc();
         for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
             pool.resetPeakUsage();
         }
     }
 
-    private static long peakHeap() {
+    static long peakHeap() {
         long sum = 0;
         for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
             if (pool.getType() == MemoryType.HEAP) {

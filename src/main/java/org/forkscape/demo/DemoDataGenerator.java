@@ -16,7 +16,8 @@ import org.apache.commons.csv.CSVPrinter;
 /**
  * The bundled demo's files: the tutoring data with a planted effect, the same pupils in a world where
  * tutoring does nothing, a plan for each, and a plan that fits the first world's fluency by least squares
- * and by Poisson regression. Generated from {@link TutoringScenario#SEED}, so the
+ * and by Poisson regression; and the panel demo's stream readings with their plan. Generated from
+ * {@link TutoringScenario#SEED} and {@link StreamPanelScenario#SEED}, so the
  * committed copies under {@code sample-data/} can be checked byte for byte against this code.
  */
 public final class DemoDataGenerator {
@@ -25,10 +26,14 @@ public final class DemoDataGenerator {
     public static final String PLAN = "civic-demo.plan.json";
     public static final String NULL_PLAN = "civic-demo-null.plan.json";
     public static final String MODELS_PLAN = "civic-demo-models.plan.json";
+    public static final String PANEL_DATA = "stream-panel.csv";
+    public static final String PANEL_PLAN = "stream-panel.plan.json";
 
     static final List<String> COLUMNS = List.of("pupil", "school", "zone", "year_group", "free_meals",
             "english_additional", "prior_score", "attendance", "home_reading", "class_size", "tutoring_hours",
             "reading_score", "reading_fluency");
+    static final List<String> PANEL_COLUMNS = List.of("site", "catchment", "season", "catchment_season", "buffer_ha",
+            "buffer_share", "rainfall_mm", "water_temp", "flow", "cropland_share", "samples", "nitrate");
 
     private DemoDataGenerator() {
     }
@@ -52,6 +57,15 @@ public final class DemoDataGenerator {
                 + "squares and by Poisson regression. On the log link the Poisson coefficient is the planted "
                 + plain(TutoringScenario.LOG_FLUENCY_EFFECT_PER_HOUR) + " log words per minute per hour of tutoring; "
                 + "the average marginal effect puts both models in words per minute.").getBytes(StandardCharsets.UTF_8));
+        List<StreamPanelScenario.Reading> readings = StreamPanelScenario.readings();
+        files.put(PANEL_DATA, panelCsv(readings));
+        files.put(PANEL_PLAN, DemoPlan.panelJson(PANEL_DATA, "Stream buffers and nitrate, a panel (invented demo)",
+                "Invented data: " + readings.size() + " readings of " + StreamPanelScenario.SITES + " stream sites over "
+                        + StreamPanelScenario.SEASONS + " seasons, unbalanced. The true effect planted in the data is "
+                        + plain(StreamPanelScenario.NITRATE_EFFECT_PER_HECTARE) + " mg/L of nitrate per hectare of "
+                        + "planted buffer; the programme enrolled the sites with the most nitrate, and nitrate fell "
+                        + "everywhere over the years, so the estimate depends on the fixed effects.")
+                .getBytes(StandardCharsets.UTF_8));
         return files;
     }
 
@@ -69,6 +83,25 @@ public final class DemoDataGenerator {
             throw new UncheckedIOException(e);
         }
         return text.toString().getBytes(StandardCharsets.UTF_8);
+    }
+
+    private static byte[] panelCsv(List<StreamPanelScenario.Reading> readings) {
+        StringWriter text = new StringWriter();
+        try (CSVPrinter out = new CSVPrinter(text, CSVFormat.RFC4180.builder().setRecordSeparator("\n").get())) {
+            out.printRecord(PANEL_COLUMNS);
+            for (StreamPanelScenario.Reading r : readings) {
+                out.printRecord(r.site(), r.catchment(), r.season(), r.catchmentSeason(), fixed(r.bufferHectares(), 1),
+                        fixed(r.bufferShare(), 1), fixed(r.rainfall(), 0), fixed(r.waterTemperature(), 1),
+                        fixed(r.flow(), 2), fixed(r.cropland(), 3), r.samples(), fixed(r.nitrate(), 2));
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return text.toString().getBytes(StandardCharsets.UTF_8);
+    }
+
+    private static String fixed(double v, int decimals) {
+        return cell(v, x -> new BigDecimal(x).setScale(decimals, RoundingMode.HALF_EVEN).toPlainString());
     }
 
     private static String plain(double v) {

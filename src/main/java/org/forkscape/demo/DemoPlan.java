@@ -151,4 +151,77 @@ final class DemoPlan {
                 }
                 """.formatted(title, description, dataFile);
     }
+
+    /**
+     * The panel demo's plan: nitrate at stream sites over seasons, with the fixed effects, weights and
+     * clustering a panel's authors must choose among (site, season or both; unweighted or weighted by the
+     * number of grab samples; errors clustered by site, or by site and season).
+     */
+    static String panelJson(String dataFile, String title, String description) {
+        return """
+                {
+                  "title": "%s",
+                  "description": "%s",
+                  "data": "%s",
+                  "confidence": 0.95,
+                  "missing": "per-specification",
+                  "decisions": [
+                    {
+                      "name": "outcome",
+                      "kind": "outcome",
+                      "alternatives": [
+                        {"label": "nitrate (mg/L)", "column": "nitrate"},
+                        {"label": "log nitrate", "column": "nitrate", "transform": "log"}
+                      ]
+                    },
+                    {
+                      "name": "buffer",
+                      "kind": "predictor",
+                      "alternatives": [
+                        {"label": "hectares planted", "column": "buffer_ha"},
+                        {"label": "share of the strip planted (%%)", "column": "buffer_share"}
+                      ]
+                    },
+                    {
+                      "name": "conditions",
+                      "kind": "controls",
+                      "optional": ["rainfall_mm", "water_temp", "flow", "cropland_share"],
+                      "combine": "all-subsets"
+                    },
+                    {
+                      "name": "fixed effects",
+                      "kind": "absorb",
+                      "alternatives": [
+                        {"label": "none", "columns": []},
+                        {"label": "site", "columns": ["site"]},
+                        {"label": "season", "columns": ["season"]},
+                        {"label": "site and season", "columns": ["site", "season"]},
+                        {"label": "site and catchment-season", "columns": ["site", "catchment_season"]}
+                      ]
+                    },
+                    {
+                      "name": "standard errors",
+                      "kind": "errors",
+                      "alternatives": ["classical", "HC1", "cluster:site", "cluster:site+season"]
+                    },
+                    {
+                      "name": "weights",
+                      "kind": "weights",
+                      "alternatives": [
+                        {"label": "unweighted"},
+                        {"label": "by grab samples", "column": "samples"}
+                      ]
+                    }
+                  ],
+                  "reported": {
+                    "outcome": "nitrate (mg/L)",
+                    "buffer": "hectares planted",
+                    "conditions": "rainfall_mm + water_temp + flow + cropland_share",
+                    "fixed effects": "site and season",
+                    "standard errors": "cluster:site+season",
+                    "weights": "by grab samples"
+                  }
+                }
+                """.formatted(title, description, dataFile);
+    }
 }

@@ -65,6 +65,9 @@ class ServerRestartTest {
         Files.writeString(demo.resolve("civic-demo.csv"), CivicTestData.csv(300, 21));
         Files.writeString(demo.resolve("civic-demo.plan.json"),
                 CivicTestData.plan().replace("\"data\": \"data.csv\"", "\"data\": \"civic-demo.csv\""));
+        for (String panelFile : List.of("stream-panel.csv", "stream-panel.plan.json")) {
+            Files.copy(Path.of("sample-data", panelFile), demo.resolve(panelFile));
+        }
         Path workspace = temp.resolve("workspace");
         int port = freePort();
         String base = "http://localhost:" + port;
@@ -110,7 +113,7 @@ class ServerRestartTest {
         for (JsonNode a : analyses) {
             demos += a.path("demo").asBoolean() ? 1 : 0;
         }
-        assertEquals(1, demos, "the demo is loaded once");
+        assertEquals(2, demos, "each of the two demos is loaded once");
         assertArrayEquals(csvBefore, bytes(files + "specifications.csv"));
         assertArrayEquals(summaryBefore, bytes(files + "summary.json"));
         assertEquals(layoutBefore, text(base + "/api/analyses/" + demoId + "/runs/" + demoRun + "/curve?drop=0.1"),
@@ -207,18 +210,29 @@ class ServerRestartTest {
                 "org.forkscape.ForkscapeApplication", "--server.port=" + port, "--forkscape.workspace=" + workspace,
                 "--forkscape.demo.data=file:" + demo.resolve("civic-demo.csv"),
                 "--forkscape.demo.plan=file:" + demo.resolve("civic-demo.plan.json"),
+                "--forkscape.demo.panel-data=file:" + demo.resolve("stream-panel.csv"),
+                "--forkscape.demo.panel-plan=file:" + demo.resolve("stream-panel.plan.json"),
                 "--forkscape.data.max-upload=3MB"));
         Path log = temp.resolve("server-" + System.nanoTime() + ".log");
         return new ProcessBuilder(command).redirectErrorStream(true).redirectOutput(log.toFile()).start();
     }
 
+    /** Waits until both demos are analyses; returns the tutoring one. */
     private JsonNode waitForDemo(String base) throws Exception {
         for (int i = 0; i < 1200; i++) {
             try {
+                JsonNode tutoring = null;
+                int demos = 0;
                 for (JsonNode a : json(text(base + "/api/analyses"))) {
                     if (a.path("demo").asBoolean()) {
-                        return a;
+                        demos++;
+                        if (a.toString().contains("civic-demo.csv")) {
+                            tutoring = a;
+                        }
                     }
+                }
+                if (demos == 2 && tutoring != null) {
+                    return tutoring;
                 }
             } catch (IOException notYet) {
                 // the server is still starting

@@ -22,10 +22,11 @@ import tools.jackson.databind.JsonNode;
 import tools.jackson.databind.node.ObjectNode;
 
 /**
- * Puts the bundled demo in the workspace at the first start (its data and plan, copied from the jar or
- * from the configured files) and runs it, so the explorer has something to show at once. Later starts
- * find it there; if its run never finished (a stop mid-run), it is run again. A missing or broken demo
- * is logged and the server serves on without it.
+ * Puts the bundled demos in the workspace at the first start (the tutoring study and the stream panel:
+ * each one's data and plan, copied from the jar or from the configured files) and runs them, so the
+ * explorer has something to show at once. Later starts find each there (a demo analysis of the same data
+ * file name); if its run never finished (a stop mid-run), it is run again. A missing or broken demo is
+ * logged and the server serves on without it.
  */
 @Component
 class DemoLoader {
@@ -49,15 +50,21 @@ class DemoLoader {
         if (demo == null || !demo.enabled()) {
             return;
         }
-        if (demo.data() == null || !demo.data().exists() || demo.plan() == null || !demo.plan().exists()) {
-            LOG.info("no demo found at {} and {}; starting without one", demo.data(), demo.plan());
+        load(demo.data(), demo.plan());
+        load(demo.panelData(), demo.panelPlan());
+    }
+
+    /** One demo: its analysis (found by its data file's name among the demo analyses, or made) and a run. */
+    private void load(Resource data, Resource plan) {
+        if (data == null || !data.exists() || plan == null || !plan.exists()) {
+            LOG.info("no demo found at {} and {}; starting without it", data, plan);
             return;
         }
         try {
-            StoredAnalysis analysis = analyses.all().stream().filter(StoredAnalysis::demo).findFirst()
-                    .orElse(null);
+            StoredAnalysis analysis = analyses.all().stream()
+                    .filter(a -> a.demo() && a.dataName().equals(name(data))).findFirst().orElse(null);
             if (analysis == null) {
-                analysis = create(demo);
+                analysis = create(data, plan);
             }
             List<StoredRun> existing = workspace.runs(analysis.id());
             boolean usable = existing.stream().anyMatch(r -> r.state() == RunState.FINISHED || !r.state().ended());
@@ -65,25 +72,25 @@ class DemoLoader {
                 runs.submit(analysis, workspace.plan(analysis.id()).orElseThrow());
             }
         } catch (IOException | InputException | IllegalStateException e) {
-            LOG.warn("the demo could not be loaded: {}", e.getMessage());
+            LOG.warn("the demo {} could not be loaded: {}", name(data), e.getMessage());
         }
     }
 
-    private StoredAnalysis create(ForkscapeSettings.Demo demo) throws IOException {
+    private StoredAnalysis create(Resource data, Resource plan) throws IOException {
         String planText;
-        try (InputStream in = demo.plan().getInputStream()) {
+        try (InputStream in = plan.getInputStream()) {
             planText = new String(in.readAllBytes(), StandardCharsets.UTF_8);
         }
-        JsonNode plan = Json.MAPPER.readTree(planText);
-        if (!(plan instanceof ObjectNode object)) {
-            throw new IllegalStateException("the demo plan " + demo.plan() + " is not a JSON object");
+        JsonNode json = Json.MAPPER.readTree(planText);
+        if (!(json instanceof ObjectNode object)) {
+            throw new IllegalStateException("the demo plan " + plan + " is not a JSON object");
         }
         // the plan names its data file beside it; in the workspace the analysis's data is always data.csv
         object.put("data", Workspace.DATA);
-        String title = plan.path("title").asString("Demo");
+        String title = json.path("title").asString("Demo");
         StoredAnalysis analysis;
-        try (InputStream in = demo.data().getInputStream()) {
-            analysis = analyses.create(title, name(demo.data()), in, true);
+        try (InputStream in = data.getInputStream()) {
+            analysis = analyses.create(title, name(data), in, true);
         }
         workspace.savePlan(analysis.id(), Json.MAPPER.writeValueAsString(object));
         return analysis;

@@ -18,8 +18,11 @@ import org.springframework.util.unit.DataSize;
 @ConfigurationProperties(prefix = "forkscape")
 public record ForkscapeSettings(Path workspace, Demo demo, Data data, Runs runs, Explore explore) {
 
-    /** @param data the demo's CSV file; @param plan its plan */
-    public record Demo(boolean enabled, Resource data, Resource plan) {
+    /**
+     * @param data      the demo's CSV file; @param plan its plan
+     * @param panelData the panel demo's CSV file; @param panelPlan its plan
+     */
+    public record Demo(boolean enabled, Resource data, Resource plan, Resource panelData, Resource panelPlan) {
     }
 
     /**

@@ -55,6 +55,8 @@ public final class Workspace {
     public static final String STATUS = "status";
     public static final String RUN_RECORD = "run.json";
     public static final String LOG = "run.log";
+    /** The analysis's folder of comparisons between runs, one folder each. */
+    public static final String COMPARISONS = "comparisons";
 
     private static final Pattern ID = Pattern.compile("[0-9]{8}-[0-9]{6}-[0-9a-z]{6}");
     private static final DateTimeFormatter STAMP = DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
@@ -405,6 +407,58 @@ public final class Workspace {
         }
         // gone from the workspace already; what a failure here leaves in the trash goes at the next start
         deleteQuietly(target);
+    }
+
+    /**
+     * A new hidden folder among the analysis's comparisons, for the caller to fill; {@link #keepComparison}
+     * moves it into place under a generated id, {@link #discardComparison} removes it, so that a comparison
+     * that fails half way leaves nothing.
+     */
+    public Path stageComparison(String analysisId) {
+        requireAnalysis(analysisId);
+        Path staging = analysisFolder(analysisId).resolve(COMPARISONS).resolve("." + randomLetters(12));
+        try {
+            Files.createDirectories(staging);
+            return staging;
+        } catch (IOException e) {
+            throw writeFailure(e, "the comparison was not kept");
+        }
+    }
+
+    /** Moves a staged comparison into place; returns its id. */
+    public String keepComparison(String analysisId, Path staged) {
+        Path comparisons = analysisFolder(analysisId).resolve(COMPARISONS);
+        if (!staged.getParent().equals(comparisons)) {
+            throw new IllegalArgumentException("not a staged comparison of analysis " + analysisId + ": " + staged);
+        }
+        Instant now = Instant.now();
+        try {
+            for (int attempt = 0; ; attempt++) {
+                String id = STAMP.format(now) + "-" + randomLetters(6);
+                Path target = comparisons.resolve(id);
+                if (Files.exists(target) && attempt < 10) {
+                    continue;
+                }
+                moveFolder(staged, target);
+                return id;
+            }
+        } catch (IOException e) {
+            deleteQuietly(staged);
+            throw writeFailure(e, "the comparison was not kept");
+        }
+    }
+
+    public void discardComparison(Path staged) {
+        deleteQuietly(staged);
+    }
+
+    /** A kept comparison's folder, or empty when the analysis has none of that id. */
+    public Optional<Path> comparisonFolder(String analysisId, String comparisonId) {
+        if (!isId(analysisId) || !isId(comparisonId)) {
+            return Optional.empty();
+        }
+        Path folder = analysisFolder(analysisId).resolve(COMPARISONS).resolve(comparisonId);
+        return Files.isDirectory(folder) ? Optional.of(folder) : Optional.empty();
     }
 
     /** The plan a run used. */

@@ -236,13 +236,67 @@ public final class Workspace {
         return readText(analysisFolder(analysisId).resolve(PLAN));
     }
 
+    /** Saves the plan being edited and records it in the plan's history (a new version when it changed). */
     public void savePlan(String analysisId, String planText) {
+        savePlan(analysisId, planText, 0);
+    }
+
+    private synchronized void savePlan(String analysisId, String planText, int restoredFrom) {
         requireAnalysis(analysisId);
+        PlanHistory history = new PlanHistory(analysisFolder(analysisId));
         try {
+            history.adoptLegacy();
             AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
         } catch (UncheckedIOException e) {
             throw writeFailure(e, "the plan was not saved");
         }
+        try {
+            history.record(planText, restoredFrom, Instant.now());
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the plan was saved but its version was not added to the plan's history");
+        }
+    }
+
+    /**
+     * Every saved version of the analysis's plan, oldest first; an analysis saved before the history was kept
+     * shows its plan as version 1.
+     */
+    public List<PlanVersion> planVersions(String analysisId) {
+        return new PlanHistory(analysisFolder(analysisId)).versions();
+    }
+
+    /** The text of version {@code version} of the analysis's plan, or empty when it has no such version. */
+    public Optional<String> planVersion(String analysisId, int version) {
+        return new PlanHistory(analysisFolder(analysisId)).text(version);
+    }
+
+    /**
+     * Makes version {@code version} the plan being edited again; the history gains a version that says it
+     * restored that one (none when it is the latest already).
+     *
+     * @throws InputException at {@code version} when there is no such version
+     */
+    public void restorePlanVersion(String analysisId, int version) {
+        String text = planVersion(analysisId, version).orElseThrow(() -> new InputException("version",
+                "the plan has no version " + version));
+        savePlan(analysisId, text, version);
+    }
+
+    /**
+     * The saved version a plan's bytes are, by their SHA-256: the latest version with that hash saved by
+     * {@code before} (a run's creation time), or empty when they are none of the saved versions (a plan sent
+     * with the run from the JSON API, or a version saved after the run).
+     */
+    public Optional<PlanVersion> versionOf(String analysisId, String planText, Instant before) {
+        String sha = Provenance.sha256(planText.getBytes(StandardCharsets.UTF_8));
+        List<PlanVersion> versions = planVersions(analysisId);
+        for (int i = versions.size() - 1; i >= 0; i--) {
+            PlanVersion v = versions.get(i);
+            if (v.sha256().equals(sha) && !v.saved().isAfter(before)) {
+                return Optional.of(v);
+            }
+        }
+        return Optional.empty();
     }
 
     /** The saved plan's lock, if it was locked; a lock file that is no lock is an {@link InputException}. */

@@ -12,12 +12,15 @@ export const HEADLINE_ROWS = Object.freeze([
   ['Share significant and negative', 'share_significant_negative', 'share'],
 ]);
 
-/** The joint tests of compare.json's headline, by the key that holds each p. */
+/**
+ * The joint tests of compare.json's headline, by the key that holds each p. A p read off null draws is a
+ * share of the draws (kind `draws`): none as extreme means only p < 1/(R + 1), and is written so.
+ */
 export const JOINT_TEST_ROWS = Object.freeze([
   ['Null draws', 'draws', 'count'],
-  ['Joint test of the median, p', 'p_median', 'p'],
-  ['Joint test of the share significant, p', 'p_share_significant', 'p'],
-  ['Stouffer\'s joint test, p', 'p_stouffer', 'p'],
+  ['Joint test of the median', 'p_median', 'draws'],
+  ['Joint test of the share significant', 'p_share_significant', 'draws'],
+  ['Stouffer\'s joint test', 'p_stouffer', 'draws'],
 ]);
 
 /** compare.json's specification counts, as [label, key]. */

@@ -4,16 +4,34 @@
 import { getJson } from '../api.js';
 import { Chart } from '../chart-setup.js';
 import { append, clear, el } from '../helpers.js';
-import { count, number, pValue, share } from '../numbers.js';
+import { count, drawClaim, number, pValue, share } from '../numbers.js';
 import { COUNT_ROWS, HEADLINE_ROWS, JOINT_TEST_ROWS, curveData, planChanges } from './compare-data.js';
 import { curvesConfig } from './compare-config.js';
 
 const root = document.getElementById('comparison');
-const FORMATS = { count, number, share, p: pValue };
+const FORMATS = { count, number, share };
 
-function valueCell(value, kind) {
+/**
+ * A p read off null draws: "p < 0.05" when no draw was as extreme (the bound 1/(R + 1), which compare.json's
+ * `p_bounds` holds, written by numbers.js's drawClaim), otherwise "p = 0.012".
+ */
+function drawnP(p, bound) {
+  if (p === 0 && bound !== null && bound !== undefined) return drawClaim(0, Math.round(1 / bound) - 1);
+  const text = pValue(p);
+  return text.startsWith('<') ? `p ${text}` : `p = ${text}`;
+}
+
+/** A cell holding a number of compare.json as `data-value`; `bound` only for a p of null draws. */
+function valueCell(value, kind, bound) {
   const missing = value === null || value === undefined;
-  return el('td', { 'data-value': missing ? '' : String(value) }, missing ? '\u2013' : FORMATS[kind](value));
+  const text = missing ? '\u2013' : kind === 'draws' ? drawnP(value, bound) : FORMATS[kind](value);
+  return el('td', { 'data-value': missing ? '' : String(value) }, text);
+}
+
+const TEST_OF = { p_median: 'median', p_share_significant: 'share_significant', p_stouffer: 'stouffer' };
+
+function boundOf(tests, key) {
+  return tests && tests.p_bounds ? tests.p_bounds[TEST_OF[key]] : null;
 }
 
 function showPlan(plan) {
@@ -46,11 +64,11 @@ function showHeadline(headline) {
     append(body, el('tr', { 'data-key': key }, el('th', { scope: 'row' }, label),
       valueCell(headline.a[key], kind), valueCell(headline.b[key], kind)));
   }
+  const a = headline.a.joint_tests;
+  const b = headline.b.joint_tests;
   for (const [label, key, kind] of JOINT_TEST_ROWS) {
-    const a = headline.a.joint_tests;
-    const b = headline.b.joint_tests;
     append(body, el('tr', { 'data-key': `joint_tests.${key}` }, el('th', { scope: 'row' }, label),
-      valueCell(a ? a[key] : null, kind), valueCell(b ? b[key] : null, kind)));
+      valueCell(a ? a[key] : null, kind, boundOf(a, key)), valueCell(b ? b[key] : null, kind, boundOf(b, key))));
   }
   if (headline.a.median_mixes_units || headline.b.median_mixes_units) {
     append(body, el('tr', {}, el('td', { colspan: 3 }, 'A whole-run median pools several comparable groups; '
@@ -69,7 +87,9 @@ function groupRow(group, side, numbers) {
     valueCell(numbers.specifications, 'count'), valueCell(numbers.median, 'number'),
     el('td', {}, `${number(numbers.lower_quartile)} to ${number(numbers.upper_quartile)}`),
     valueCell(numbers.share_significant_positive, 'share'), valueCell(numbers.share_significant_negative, 'share'),
-    valueCell(tests.p_median, 'p'), valueCell(tests.p_share_significant, 'p'), valueCell(tests.p_stouffer, 'p'));
+    valueCell(tests.p_median, 'draws', boundOf(tests, 'p_median')),
+    valueCell(tests.p_share_significant, 'draws', boundOf(tests, 'p_share_significant')),
+    valueCell(tests.p_stouffer, 'draws', boundOf(tests, 'p_stouffer')));
 }
 
 function showGroups(groups) {

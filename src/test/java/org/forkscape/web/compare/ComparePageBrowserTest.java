@@ -116,6 +116,8 @@ class ComparePageBrowserTest {
         driver.findElement(By.id("compare-runs")).click();
         checkPage(wait, expected, csv);
         BrowserDriver.screenshot(driver, "compare-page");
+        driver.executeScript("document.getElementById('curves-title').scrollIntoView()");
+        BrowserDriver.screenshot(driver, "compare-page-curves");
         JsonNode downloaded = Json.MAPPER.readTree(get(driver.findElement(By.id("download-compare-json"))
                 .getAttribute("href")));
         assertEquals(withoutFolders(expected), withoutFolders(downloaded), "the page's compare.json is the batch one");
@@ -169,6 +171,12 @@ class ComparePageBrowserTest {
             headlineRow("joint_tests." + key, headline.get("a").get("joint_tests").get(key),
                     headline.get("b").get("joint_tests").get(key));
         }
+        JsonNode bound = headline.get("a").get("joint_tests").get("p_bounds").get("median");
+        String shown = driver.findElements(By.cssSelector("#headline tr[data-key='joint_tests.p_median'] td")).get(0)
+                .getText();
+        // 19 draws: a p of 0 says only p < 1/20 (README, "Joint inference")
+        assertEquals(bound.isNull() ? "p = " + headline.get("a").get("joint_tests").get("p_median").asString()
+                : "p < 0.05", shown);
         List<WebElement> groupRows = driver.findElements(By.cssSelector("#groups tbody tr"));
         JsonNode groups = expected.get("groups");
         assertEquals(2 * groups.size(), groupRows.size());
@@ -196,6 +204,8 @@ class ComparePageBrowserTest {
         assertEquals(String.valueOf(inB), canvas.getAttribute("data-count-b"));
         assertEquals(String.valueOf(added), canvas.getAttribute("data-added"));
         assertEquals(4, added, "the 4 specifications with rainfall among turnout's");
+        assertEquals(canvas.getAttribute("data-count-a"), canvas.getAttribute("data-drawn-a"), "below 2,000: all drawn");
+        assertEquals(canvas.getAttribute("data-count-b"), canvas.getAttribute("data-drawn-b"));
     }
 
     private void headlineRow(String key, JsonNode a, JsonNode b) {

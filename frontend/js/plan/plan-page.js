@@ -1,6 +1,7 @@
 // The plan page: loads the plan and the data's columns, draws the form, keeps the specification count and
 // the server's check up to date as the plan is edited, and saves, runs, imports and exports it.
 import { ApiError, getJson, post, sendJson } from '../api.js';
+import { refreshHistory } from './plan-history.js';
 import { debounce, download, el } from '../helpers.js';
 import { clearProblems, refreshCounts, renderPlan, showProblems } from './plan-form.js';
 import { problemInWords, specificationCount } from './plan-model.js';
@@ -141,6 +142,9 @@ async function save() {
     lastProblems = [];
     clearProblems(root);
     statusNode.textContent = 'Saved. The plan is ready to run on this data.';
+    refreshHistory(analysis).catch((e) => {
+      statusNode.textContent += ` (The list of saved versions could not be drawn again: ${e.message}; reload the page.)`;
+    });
     return true;
   } catch (e) {
     const words = e instanceof ApiError ? problemInWords(e.where, e.message, plan) : e.message;

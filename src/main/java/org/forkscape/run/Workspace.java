@@ -116,6 +116,14 @@ public final class Workspace {
                     deleteTree(p);
                 }
             }
+            // comparisons a stopped server left half made (see stageComparison)
+            for (Path analysis : children(analyses)) {
+                for (Path p : children(analysis.resolve(COMPARISONS))) {
+                    if (p.getFileName().toString().startsWith(".")) {
+                        deleteTree(p);
+                    }
+                }
+            }
         } catch (IOException e) {
             throw new UncheckedIOException("cannot open the workspace " + this.root + ": " + e.getMessage(), e);
         }

@@ -62,8 +62,13 @@ function display() {
   return notes;
 }
 
+// Each check is numbered, so that the answer of one sent before a later check (the typing pause's, overtaken
+// by a save's) cannot overwrite what the later one, or the save after it, said.
+let lastCheck = 0;
+
 async function runCheck() {
   const sent = text();
+  const number = ++lastCheck;
   let answer;
   try {
     answer = await sendJson('POST', `${api}/plan/check`, sent);
@@ -71,7 +76,7 @@ async function runCheck() {
     statusNode.textContent = `The plan could not be checked: ${e.message}`;
     return null;
   }
-  if (sent !== text()) return null;
+  if (sent !== text() || number !== lastCheck) return null;
   lastProblems = answer.valid ? [] : answer.problems;
   if (answer.valid) {
     clearProblems(root);
@@ -129,7 +134,9 @@ function restructured(path) {
 }
 
 async function save() {
-  // the check lists every problem, where a refused save answers with its first: check first
+  // the check lists every problem, where a refused save answers with its first: check first, in place of
+  // the typing pause's check still waiting
+  check.cancel();
   shown.all = true;
   const notes = await runCheck();
   if (notes && notes.length > 0) {

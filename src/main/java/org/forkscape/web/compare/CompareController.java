@@ -100,10 +100,11 @@ class CompareController {
             @PathVariable String name) {
         StoredAnalysis a = lookup.analysis(analysis);
         ComparisonService.Kept kept = comparisons.read(a, comparison);
-        Path file = kept.folder().resolve(ComparisonService.offered(name) ? name : ComparisonService.RECORD);
-        if (!ComparisonService.offered(name) || !Files.isRegularFile(file)) {
+        // only the two offered names ever reach a path
+        if (!ComparisonService.offered(name) || !Files.isRegularFile(kept.folder().resolve(name))) {
             throw new NotFoundException("a comparison offers " + ComparisonFiles.CSV + " and " + ComparisonFiles.JSON);
         }
+        Path file = kept.folder().resolve(name);
         MediaType type = name.equals(ComparisonFiles.CSV) ? MediaType.parseMediaType("text/csv;charset=UTF-8")
                 : MediaType.APPLICATION_JSON;
         return ResponseEntity.ok().contentType(type)

@@ -92,12 +92,15 @@ export function num(x) {
   return typeof x === 'number' ? x : Number(x);
 }
 
+/** `fn` called once calls have paused for `ms`; `.cancel()` drops a call still waiting. */
 export function debounce(fn, ms) {
   let timer = null;
-  return (...args) => {
+  const debounced = (...args) => {
     clearTimeout(timer);
     timer = setTimeout(() => fn(...args), ms);
   };
+  debounced.cancel = () => clearTimeout(timer);
+  return debounced;
 }
 
 /** Starts a download of a Blob under a file name. */

@@ -1,6 +1,7 @@
 // The plan page: loads the plan and the data's columns, draws the form, keeps the specification count and
 // the server's check up to date as the plan is edited, and saves, runs, imports and exports it.
 import { ApiError, getJson, post, sendJson } from '../api.js';
+import { refreshHistory } from './plan-history.js';
 import { debounce, download, el } from '../helpers.js';
 import { clearProblems, refreshCounts, renderPlan, showProblems } from './plan-form.js';
 import { problemInWords, specificationCount } from './plan-model.js';
@@ -61,8 +62,13 @@ function display() {
   return notes;
 }
 
+// Each check is numbered, so that the answer of one sent before a later check (the typing pause's, overtaken
+// by a save's) cannot overwrite what the later one, or the save after it, said.
+let lastCheck = 0;
+
 async function runCheck() {
   const sent = text();
+  const number = ++lastCheck;
   let answer;
   try {
     answer = await sendJson('POST', `${api}/plan/check`, sent);
@@ -70,7 +76,7 @@ async function runCheck() {
     statusNode.textContent = `The plan could not be checked: ${e.message}`;
     return null;
   }
-  if (sent !== text()) return null;
+  if (sent !== text() || number !== lastCheck) return null;
   lastProblems = answer.valid ? [] : answer.problems;
   if (answer.valid) {
     clearProblems(root);
@@ -128,7 +134,9 @@ function restructured(path) {
 }
 
 async function save() {
-  // the check lists every problem, where a refused save answers with its first: check first
+  // the check lists every problem, where a refused save answers with its first: check first, in place of
+  // the typing pause's check still waiting
+  check.cancel();
   shown.all = true;
   const notes = await runCheck();
   if (notes && notes.length > 0) {
@@ -141,6 +149,9 @@ async function save() {
     lastProblems = [];
     clearProblems(root);
     statusNode.textContent = 'Saved. The plan is ready to run on this data.';
+    refreshHistory(analysis).catch((e) => {
+      statusNode.textContent += ` (The list of saved versions could not be drawn again: ${e.message}; reload the page.)`;
+    });
     return true;
   } catch (e) {
     const words = e instanceof ApiError ? problemInWords(e.where, e.message, plan) : e.message;

@@ -10,6 +10,7 @@ import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.report.FigureSize;
+import org.forkscape.check.ReleaseCheck;
 import org.forkscape.report.RunReport;
 import org.forkscape.run.RunOutputs;
 import org.forkscape.run.RunResult;
@@ -63,7 +64,7 @@ final class ReportCommand {
         String runWords = "run folder " + folder.toAbsolutePath().normalize().getFileName() + ", started "
                 + provenance.path("started").asString("at an unrecorded time");
         try {
-            RunReport.write(outFolder, ranked, summary, a.has("group") ? a.text("group") : "", size, title, runWords);
+            RunReport.write(outFolder, ranked, summary, ReleaseCheck.recorded(folder), a.has("group") ? a.text("group") : "", size, title, runWords);
         } catch (InputException e) {
             if (e.where().equals("group")) {
                 throw new UsageException("--group " + e.getMessage().substring("group: ".length()));

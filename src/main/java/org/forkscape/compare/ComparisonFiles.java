@@ -24,8 +24,10 @@ public final class ComparisonFiles {
      * {@code out} and returns the sentence.
      */
     public static String write(RunFiles a, RunFiles b, Path out) {
-        RunComparison c = RunComparison.of(RunFolder.read(a), RunFolder.read(b));
-        String sentence = ComparisonSentence.of(c);
+        return Comparison.of(a, b).write(out);
+    }
+
+    static void write(RunComparison c, String sentence, Path out) {
         AtomicFiles.write(out.resolve(CSV), stream -> {
             CSVPrinter csv = CsvCells.printer(stream);
             List<String> header = new ArrayList<>(c.decisionNames());
@@ -50,10 +52,9 @@ public final class ComparisonFiles {
             csv.flush();
         });
         Json.write(out.resolve(JSON), json(c, sentence));
-        return sentence;
     }
 
-    private static Map<String, Object> json(RunComparison c, String sentence) {
+    static Map<String, Object> json(RunComparison c, String sentence) {
         Map<String, Object> json = new LinkedHashMap<>();
         json.put("a", c.a().folder().toString());
         json.put("b", c.b().folder().toString());

@@ -30,6 +30,7 @@ final class Headlines {
             tests.put("p_median", draws.path("p_median"));
             tests.put("p_share_significant", draws.path("p_share_significant"));
             tests.put("p_stouffer", draws.path("p_stouffer"));
+            tests.put("p_bounds", bounds(draws.path("tests")));
             m.put("joint_tests", tests);
         } else {
             m.put("joint_tests", null);
@@ -74,11 +75,24 @@ final class Headlines {
                 p.put("p_median", t.path("median").path("p"));
                 p.put("p_share_significant", t.path("share_significant").path("p"));
                 p.put("p_stouffer", t.path("stouffer").path("p"));
+                p.put("p_bounds", bounds(t));
                 m.put("joint_tests", p);
             }
             groups.put(key(g), m);
         }
         return groups;
+    }
+
+    /**
+     * Each test's {@code p_bound} (1/(R + 1) when no draw was as extreme, else null): a p of 0 read off R draws
+     * says only that p is below it, and a reader of the comparison needs R's bound to say so.
+     */
+    private static Map<String, Object> bounds(JsonNode tests) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        for (String test : List.of("median", "share_significant", "stouffer")) {
+            m.put(test, tests.path(test).path("p_bound"));
+        }
+        return m;
     }
 
     /** Without a model decision a group has no {@code model}; its key then says {@code ols}, as least squares is. */

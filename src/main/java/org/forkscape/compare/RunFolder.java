@@ -28,6 +28,8 @@ record RunFolder(Path folder, List<PlanDecision> decisions, JsonNode summary, Li
     static RunFolder read(RunFiles files) {
         Path folder = files.folder();
         Path specifications = files.specifications();
+        // messages name the file inside the folder as the door named it, never where the door keeps it
+        String named = folder.resolve(specifications.getFileName().toString()).toString();
         JsonNode summary = files.summary();
         List<PlanDecision> decisions = PlanDecision.listOf(files.plan(), folder.resolve("plan.json").toString());
         try (Reader reader = Files.newBufferedReader(specifications, StandardCharsets.UTF_8);
@@ -37,7 +39,7 @@ record RunFolder(Path folder, List<PlanDecision> decisions, JsonNode summary, Li
             decisions.forEach(d -> needed.add(d.name()));
             for (String column : needed) {
                 if (!header.contains(column)) {
-                    throw new InputException(specifications.toString(), "has no column " + InputException.quoted(column)
+                    throw new InputException(named, "has no column " + InputException.quoted(column)
                             + (column.equals("spec") ? "" : ", which plan.json names as a decision")
                             + "; give the --out folder of a run");
                 }
@@ -46,7 +48,7 @@ record RunFolder(Path folder, List<PlanDecision> decisions, JsonNode summary, Li
             List<SpecificationRow> rows = new ArrayList<>();
             for (CSVRecord record : parser) {
                 if (record.size() != header.size()) {
-                    throw new InputException(specifications + " line " + (record.getRecordNumber() + 1),
+                    throw new InputException(named + " line " + (record.getRecordNumber() + 1),
                             "has " + record.size() + " cells, the header " + header.size());
                 }
                 Map<String, String> labels = new LinkedHashMap<>();
@@ -57,9 +59,9 @@ record RunFolder(Path folder, List<PlanDecision> decisions, JsonNode summary, Li
             }
             return new RunFolder(folder, decisions, summary, resultColumns, rows);
         } catch (IOException e) {
-            throw new UncheckedIOException("cannot read " + specifications + ": " + e.getMessage(), e);
+            throw new UncheckedIOException("cannot read " + named + ": " + e.getMessage(), e);
         } catch (IllegalArgumentException | IllegalStateException | UncheckedIOException e) {
-            throw new InputException(specifications.toString(), "is not a readable CSV file: " + e.getMessage());
+            throw new InputException(named, "is not a readable CSV file: " + e.getMessage());
         }
     }
 }

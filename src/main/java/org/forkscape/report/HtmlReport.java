@@ -1,16 +1,21 @@
 package org.forkscape.report;
 
+import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import org.forkscape.Version;
+import org.forkscape.check.ReleaseCheck;
+import org.forkscape.check.RuleResult;
 import org.forkscape.text.HumanNumbers;
 import org.springframework.web.util.HtmlUtils;
 import tools.jackson.databind.JsonNode;
 
 /**
  * report.html: one self-contained page for a review meeting, with the figure inline as SVG, the headline
- * table and joint tests, the influence of each decision (summary.json's {@code influence} and
- * {@code influence_overall}), the cautions and the provenance. Its content security policy forbids every
+ * table and joint tests, the reported specification (summary.json's {@code reported}, when the plan names
+ * one), the influence of each decision (summary.json's {@code influence} and {@code influence_overall}), the
+ * release check (the run folder's check.json, when one was run), the cautions and the provenance. Its content security policy forbids every
  * fetch, so opening it makes no request; there is no script.
  */
 final class HtmlReport {
@@ -27,7 +32,8 @@ final class HtmlReport {
     private HtmlReport() {
     }
 
-    static String of(String title, String svg, HeadlineTable table, String methods, JsonNode summary, String runWords) {
+    static String of(String title, String svg, HeadlineTable table, String methods, JsonNode summary,
+            Optional<ReleaseCheck> check, String runWords) {
         StringBuilder b = new StringBuilder();
         b.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
         b.append("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; "
@@ -49,14 +55,100 @@ final class HtmlReport {
             b.append("<p>").append(e(TableText.testsCaption(table))).append("</p>\n");
             table(b, "joint-tests", TableText.TEST_HEADER, TableText.tests(table));
         }
+        reported(b, summary.path("reported"));
         influence(b, summary);
+        releaseCheck(b, check);
         b.append("<h2>Methods</h2>\n<p>").append(e(methods.replaceFirst("^# Methods\\s*", "").strip()))
                 .append("</p>\n");
         provenance(b, summary.path("provenance"));
-        b.append("<p>Not part of this report: a reported specification and a release check; this version of "
-                + "Forkscape records neither.</p>\n");
         b.append("</body>\n</html>\n");
         return b.toString();
+    }
+
+    /** summary.json's scale keys of {@code reported.scales}, with the scale's name in words. */
+    private static final List<List<String>> REPORTED_SCALES = List.of(List.of("as_fitted", "as fitted"),
+            List.of("average_marginal_effect", "average marginal effect"), List.of("standardized",
+                    "standardized coefficient"), List.of("partial_correlation", "partial correlation"),
+            List.of("t_statistic", "t statistic"));
+
+    /** Where the plan's reported specification sits, scale by scale, from summary.json's {@code reported}. */
+    private static void reported(StringBuilder b, JsonNode reported) {
+        b.append("<h2>The reported specification</h2>\n");
+        if (!reported.isObject()) {
+            b.append("<p id=\"reported-sentence\">The plan names no reported specification (its key "
+                    + "<code>reported</code>), so this report cannot say where the estimate the paper shows sits."
+                    + "</p>\n");
+            return;
+        }
+        List<String> labels = new ArrayList<>();
+        reported.path("labels").properties().forEach(l -> labels.add(l.getKey() + ": " + l.getValue().asString()));
+        String spec = "The reported specification (number " + reported.path("spec").asString() + "; "
+                + String.join(", ", labels) + ")";
+        if (!reported.path("in_run").asBoolean(true)) {
+            b.append("<p id=\"reported-sentence\">").append(e(spec + " is not in this run: "
+                    + reported.path("note").asString())).append("</p>\n");
+            return;
+        }
+        JsonNode scales = reported.path("scales");
+        if (!scales.isObject()) {
+            b.append("<p id=\"reported-sentence\">").append(e(spec + " did not fit: "
+                    + reported.path("status").asString())).append("</p>\n");
+            return;
+        }
+        JsonNode fitted = scales.path("as_fitted");
+        b.append("<p id=\"reported-sentence\">").append(e(spec + ": the reported estimate, "
+                + HumanNumbers.number(reported.path("estimate").asDouble(Double.NaN)) + " (p "
+                + withRelation(HumanNumbers.pValue(reported.path("p_value").asDouble(Double.NaN)))
+                + "), is larger than "
+                + HumanNumbers.share(fitted.path("share_smaller").asDouble(Double.NaN)) + " of the "
+                + HumanNumbers.count(fitted.path("specifications").asLong()) + " specifications of its comparable "
+                + "group as fitted" + (fitted.has("title") ? " (" + fitted.path("title").asString() + ")" : "")
+                + "; its percentile is " + HumanNumbers.number(fitted.path("percentile").asDouble(Double.NaN), 3)
+                + ".")).append("</p>\n");
+        List<List<String>> rows = new ArrayList<>();
+        for (List<String> scale : REPORTED_SCALES) {
+            JsonNode place = scales.path(scale.get(0));
+            if (!place.isObject()) {
+                continue;
+            }
+            if (place.path("value").isNull()) {
+                rows.add(List.of(scale.get(1), "\u2013", "", "", "", "", place.path("note").asString("")));
+                continue;
+            }
+            rows.add(List.of(scale.get(1), HumanNumbers.number(place.path("value").asDouble()),
+                    HumanNumbers.count(place.path("rank").asLong()) + " of "
+                            + HumanNumbers.count(place.path("specifications").asLong()),
+                    HumanNumbers.number(place.path("percentile").asDouble(), 3),
+                    HumanNumbers.share(place.path("share_smaller").asDouble()),
+                    place.path("share_significant_same_sign").isNull() ? "\u2013"
+                            : HumanNumbers.share(place.path("share_significant_same_sign").asDouble()),
+                    place.path("title").asString("")));
+        }
+        table(b, "reported", List.of("Scale", "Value", "Rank (1 = smallest)", "Percentile", "Share smaller",
+                "Share significant in its sign", "Among"), rows);
+    }
+
+    /** The release check recorded in the run folder's check.json: each rule, what it measured, its verdict. */
+    private static void releaseCheck(StringBuilder b, Optional<ReleaseCheck> check) {
+        b.append("<h2>Release check</h2>\n");
+        if (check.isEmpty()) {
+            b.append("<p id=\"check-verdict\">No release check was run on this run (its folder has no check.json; "
+                    + "see the check command).</p>\n");
+            return;
+        }
+        ReleaseCheck c = check.get();
+        b.append("<p id=\"check-verdict\">").append(e(c.passed() ? "Passed: every rule passes or does not apply."
+                : "Failed: " + c.failures() + " of " + c.results().size() + " rules.")).append(" The rules and "
+                + "their levels are the review group's judgement, not a standard; passing them does not show that "
+                + "the effect is causal.</p>\n");
+        List<List<String>> rows = new ArrayList<>();
+        for (RuleResult r : c.results()) {
+            rows.add(List.of(r.rule(), r.verdict().word(), r.detail(), r.measured() == null ? "\u2013"
+                    : r.measured() instanceof JsonNode n && n.isString() ? n.asString() : String.valueOf(r.measured()),
+                    r.requirement()));
+        }
+        table(b, "release-check", List.of("Rule", "Result", "Measured", "Measured, as in check.json", "Required"),
+                rows);
     }
 
     private static void influence(StringBuilder b, JsonNode summary) {
@@ -115,6 +207,11 @@ final class HtmlReport {
             b.append("</tr>\n");
         }
         b.append("</tbody>\n</table>\n");
+    }
+
+    /** "= 0.012" or "< 0.001", after a "p". */
+    private static String withRelation(String p) {
+        return p.startsWith("<") ? p : "= " + p;
     }
 
     private static String e(String text) {

@@ -2,6 +2,8 @@ package org.forkscape.report;
 
 import java.nio.file.Path;
 import java.util.List;
+import java.util.Optional;
+import org.forkscape.check.ReleaseCheck;
 import org.forkscape.run.AtomicFiles;
 import org.forkscape.web.explore.RankedRun;
 import org.forkscape.web.explore.ShownSet;
@@ -23,10 +25,11 @@ public final class RunReport {
      * @param ranked   the run ranked on the report's scale
      * @param summary  the run's summary.json
      * @param group    the comparable group of the figure on a scale with units, blank for the first fitted
+     * @param check    the release check recorded in the run folder (its check.json), if one was run
      * @param runWords the run in words for captions ("run folder results")
      */
-    public static void write(Path out, RankedRun ranked, JsonNode summary, String group, FigureSize size,
-            String title, String runWords) {
+    public static void write(Path out, RankedRun ranked, JsonNode summary, Optional<ReleaseCheck> check,
+            String group, FigureSize size, String title, String runWords) {
         ShownSet shown = ShownSet.of(ranked, "", "estimate", group);
         CurveFigure figure = CurveFigure.of(ranked, shown, -1, size, runWords);
         String svg = FigureFiles.svg(figure);
@@ -39,6 +42,6 @@ public final class RunReport {
         AtomicFiles.writeString(out.resolve("table.md"), MarkdownTable.of(table, runWords));
         AtomicFiles.writeString(out.resolve("methods.md"), methods);
         AtomicFiles.writeString(out.resolve("report.html"), HtmlReport.of(title, svg, table, methods, summary,
-                runWords));
+                check, runWords));
     }
 }

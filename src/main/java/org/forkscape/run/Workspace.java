@@ -55,6 +55,8 @@ public final class Workspace {
     public static final String STATUS = "status";
     public static final String RUN_RECORD = "run.json";
     public static final String LOG = "run.log";
+    /** The analysis's folder of comparisons between runs, one folder each. */
+    public static final String COMPARISONS = "comparisons";
 
     private static final Pattern ID = Pattern.compile("[0-9]{8}-[0-9]{6}-[0-9a-z]{6}");
     private static final DateTimeFormatter STAMP = DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
@@ -112,6 +114,14 @@ public final class Workspace {
             try (Stream<Path> half = Files.list(analyses)) {
                 for (Path p : half.filter(p -> p.getFileName().toString().startsWith(".")).toList()) {
                     deleteTree(p);
+                }
+            }
+            // comparisons a stopped server left half made (see stageComparison)
+            for (Path analysis : children(analyses)) {
+                for (Path p : children(analysis.resolve(COMPARISONS))) {
+                    if (p.getFileName().toString().startsWith(".")) {
+                        deleteTree(p);
+                    }
                 }
             }
         } catch (IOException e) {
@@ -234,13 +244,67 @@ public final class Workspace {
         return readText(analysisFolder(analysisId).resolve(PLAN));
     }
 
+    /** Saves the plan being edited and records it in the plan's history (a new version when it changed). */
     public void savePlan(String analysisId, String planText) {
+        savePlan(analysisId, planText, 0);
+    }
+
+    private synchronized void savePlan(String analysisId, String planText, int restoredFrom) {
         requireAnalysis(analysisId);
+        PlanHistory history = new PlanHistory(analysisFolder(analysisId));
         try {
+            history.adoptLegacy();
             AtomicFiles.writeString(analysisFolder(analysisId).resolve(PLAN), planText);
         } catch (UncheckedIOException e) {
             throw writeFailure(e, "the plan was not saved");
         }
+        try {
+            history.record(planText, restoredFrom, Instant.now());
+        } catch (UncheckedIOException e) {
+            throw writeFailure(e, "the plan was saved but its version was not added to the plan's history");
+        }
+    }
+
+    /**
+     * Every saved version of the analysis's plan, oldest first; an analysis saved before the history was kept
+     * shows its plan as version 1.
+     */
+    public List<PlanVersion> planVersions(String analysisId) {
+        return new PlanHistory(analysisFolder(analysisId)).versions();
+    }
+
+    /** The text of version {@code version} of the analysis's plan, or empty when it has no such version. */
+    public Optional<String> planVersion(String analysisId, int version) {
+        return new PlanHistory(analysisFolder(analysisId)).text(version);
+    }
+
+    /**
+     * Makes version {@code version} the plan being edited again; the history gains a version that says it
+     * restored that one (none when it is the latest already).
+     *
+     * @throws InputException at {@code version} when there is no such version
+     */
+    public void restorePlanVersion(String analysisId, int version) {
+        String text = planVersion(analysisId, version).orElseThrow(() -> new InputException("version",
+                "the plan has no version " + version));
+        savePlan(analysisId, text, version);
+    }
+
+    /**
+     * The saved version a plan's bytes are, by their SHA-256: the latest version with that hash saved by
+     * {@code before} (a run's creation time), or empty when they are none of the saved versions (a plan sent
+     * with the run from the JSON API, or a version saved after the run).
+     */
+    public Optional<PlanVersion> versionOf(String analysisId, String planText, Instant before) {
+        String sha = Provenance.sha256(planText.getBytes(StandardCharsets.UTF_8));
+        List<PlanVersion> versions = planVersions(analysisId);
+        for (int i = versions.size() - 1; i >= 0; i--) {
+            PlanVersion v = versions.get(i);
+            if (v.sha256().equals(sha) && !v.saved().isAfter(before)) {
+                return Optional.of(v);
+            }
+        }
+        return Optional.empty();
     }
 
     /** The saved plan's lock, if it was locked; a lock file that is no lock is an {@link InputException}. */
@@ -405,6 +469,58 @@ public final class Workspace {
         }
         // gone from the workspace already; what a failure here leaves in the trash goes at the next start
         deleteQuietly(target);
+    }
+
+    /**
+     * A new hidden folder among the analysis's comparisons, for the caller to fill; {@link #keepComparison}
+     * moves it into place under a generated id, {@link #discardComparison} removes it, so that a comparison
+     * that fails half way leaves nothing.
+     */
+    public Path stageComparison(String analysisId) {
+        requireAnalysis(analysisId);
+        Path staging = analysisFolder(analysisId).resolve(COMPARISONS).resolve("." + randomLetters(12));
+        try {
+            Files.createDirectories(staging);
+            return staging;
+        } catch (IOException e) {
+            throw writeFailure(e, "the comparison was not kept");
+        }
+    }
+
+    /** Moves a staged comparison into place; returns its id. */
+    public String keepComparison(String analysisId, Path staged) {
+        Path comparisons = analysisFolder(analysisId).resolve(COMPARISONS);
+        if (!staged.getParent().equals(comparisons)) {
+            throw new IllegalArgumentException("not a staged comparison of analysis " + analysisId + ": " + staged);
+        }
+        Instant now = Instant.now();
+        try {
+            for (int attempt = 0; ; attempt++) {
+                String id = STAMP.format(now) + "-" + randomLetters(6);
+                Path target = comparisons.resolve(id);
+                if (Files.exists(target) && attempt < 10) {
+                    continue;
+                }
+                moveFolder(staged, target);
+                return id;
+            }
+        } catch (IOException e) {
+            deleteQuietly(staged);
+            throw writeFailure(e, "the comparison was not kept");
+        }
+    }
+
+    public void discardComparison(Path staged) {
+        deleteQuietly(staged);
+    }
+
+    /** A kept comparison's folder, or empty when the analysis has none of that id. */
+    public Optional<Path> comparisonFolder(String analysisId, String comparisonId) {
+        if (!isId(analysisId) || !isId(comparisonId)) {
+            return Optional.empty();
+        }
+        Path folder = analysisFolder(analysisId).resolve(COMPARISONS).resolve(comparisonId);
+        return Files.isDirectory(folder) ? Optional.of(folder) : Optional.empty();
     }
 
     /** The plan a run used. */

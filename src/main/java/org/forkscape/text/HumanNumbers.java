@@ -61,6 +61,17 @@ public final class HumanNumbers {
     }
 
     /**
+     * A nominal p-value as {@code numbers.js}'s {@code pValue} writes it: "< 0.001" below that, a bound true as
+     * written, otherwise two significant digits; "undefined" when not finite.
+     */
+    public static String pValue(double p) {
+        if (!Double.isFinite(p)) {
+            return "undefined";
+        }
+        return p < 0.001 ? "< 0.001" : number(p, 2);
+    }
+
+    /**
      * A share as a percentage with one decimal, ".0" dropped: "99.7%", "75%"; "0%" and "100%" only when
      * exact, otherwise "< 0.1%" and "> 99.9%"; "undefined" when not finite.
      */

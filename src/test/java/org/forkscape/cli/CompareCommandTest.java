@@ -205,11 +205,14 @@ class CompareCommandTest {
             assertEquals(19, whole.path("draws").asInt(), whole.toString());
             assertEquals(summary.path("null").path("p_median"), whole.path("p_median"));
             assertEquals(summary.path("null").path("p_stouffer"), whole.path("p_stouffer"));
+            assertEquals(summary.path("null").path("tests").path("median").path("p_bound"),
+                    whole.path("p_bounds").path("median"));
             JsonNode group = json.path("groups").get(0).path(side).path("joint_tests");
             JsonNode tests = summary.path("by_scale").path("groups").get(0).path("null").path("tests");
             assertTrue(tests.path("median").path("p").isNumber(), tests.toString());
             assertEquals(tests.path("median").path("p"), group.path("p_median"));
             assertEquals(tests.path("share_significant").path("p"), group.path("p_share_significant"));
+            assertEquals(tests.path("stouffer").path("p_bound"), group.path("p_bounds").path("stouffer"));
         }
     }
 

@@ -52,6 +52,27 @@ class WorkspaceTest {
     }
 
     @Test
+    void aComparisonIsKeptWholeUnderAnIdAndOneLeftHalfMadeIsGoneAtTheNextStart() throws Exception {
+        Workspace w = new Workspace(root);
+        Path upload = w.newIncomingFile();
+        Files.writeString(upload, "a,b\n1,2\n");
+        StoredAnalysis a = w.createAnalysis("Turnout study", "survey.csv", 1, 2, upload, false);
+        Path staged = w.stageComparison(a.id());
+        Files.writeString(staged.resolve("compare.json"), "{}");
+        String id = w.keepComparison(a.id(), staged);
+        assertTrue(Workspace.isId(id), id);
+        assertEquals("{}", Files.readString(w.comparisonFolder(a.id(), id).orElseThrow().resolve("compare.json")));
+        assertFalse(Files.exists(staged));
+        assertTrue(w.comparisonFolder(a.id(), "../../x").isEmpty(), "an id of another shape finds nothing");
+
+        Path halfMade = w.stageComparison(a.id());
+        Files.writeString(halfMade.resolve("compare.csv"), "spec\n");
+        new Workspace(root);
+        assertFalse(Files.exists(halfMade), "a staged comparison is removed when the next server starts");
+        assertTrue(Files.exists(w.comparisonFolder(a.id(), id).orElseThrow()), "a kept one stays");
+    }
+
+    @Test
     void runsLeftQueuedOrRunningAreMarkedInterruptedWhenTheNextServerStarts() throws Exception {
         Workspace w = new Workspace(root);
         Path upload = w.newIncomingFile();

@@ -41,6 +41,16 @@ class HumanNumbersTest {
     }
 
     @Test
+    void nominalPValuesKeepTwoDigitsAndSayLessThanAThousandthBelowIt() {
+        // as numbers.js's pValue, worked out by hand
+        assertEquals("< 0.001", HumanNumbers.pValue(0.00049));
+        assertEquals("0.001", HumanNumbers.pValue(0.001));
+        assertEquals("0.012", HumanNumbers.pValue(0.01234));
+        assertEquals("0.5", HumanNumbers.pValue(0.5));
+        assertEquals("undefined", HumanNumbers.pValue(Double.NaN));
+    }
+
+    @Test
     void sharesAreNeverRoundedToNoneOrAll() {
         // 99.65% is what a curve whose range starts just below zero may have
         assertEquals("99.7%", HumanNumbers.share(0.9965));

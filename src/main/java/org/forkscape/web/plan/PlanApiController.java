@@ -1,9 +1,11 @@
 package org.forkscape.web.plan;
 
+import java.util.List;
 import java.util.Map;
 import org.forkscape.InputException;
 import org.forkscape.run.Json;
 import org.forkscape.run.StoredAnalysis;
+import org.forkscape.run.Workspace;
 import org.forkscape.web.system.Lookup;
 import org.springframework.web.bind.annotation.GetMapping;
 import org.springframework.web.bind.annotation.PathVariable;
@@ -20,10 +22,12 @@ import tools.jackson.databind.JsonNode;
 @RequestMapping("/api/analyses/{analysis}/plan")
 class PlanApiController {
     private final PlanService plans;
+    private final Workspace workspace;
     private final Lookup lookup;
 
-    PlanApiController(PlanService plans, Lookup lookup) {
+    PlanApiController(PlanService plans, Workspace workspace, Lookup lookup) {
         this.plans = plans;
+        this.workspace = workspace;
         this.lookup = lookup;
     }
 
@@ -33,6 +37,23 @@ class PlanApiController {
      * @param defaults the value of each top-level setting the plan leaves out
      */
     record PlanView(JsonNode plan, boolean saved, PlanCheck check, PlanDefaults defaults) {
+    }
+
+    /**
+     * One saved version: {@code version}, {@code saved}, {@code sha256}, {@code restoredFrom} (0 when none),
+     * {@code runs} (the ids of the runs that ran it), {@code working} (the plan being edited).
+     */
+    record VersionView(int version, String saved, String sha256, int restoredFrom, List<String> runs,
+            boolean working) {
+    }
+
+    /** The plan's saved versions, newest first. */
+    @GetMapping("/versions")
+    List<VersionView> versions(@PathVariable String analysis) {
+        StoredAnalysis a = lookup.analysis(analysis);
+        return PlanVersions.of(workspace, a).stream().map(r -> new VersionView(r.version().version(),
+                r.version().saved().toString(), r.version().sha256(), r.version().restoredFrom(), r.runs(),
+                r.working())).toList();
     }
 
     @GetMapping

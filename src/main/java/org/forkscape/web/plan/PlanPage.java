@@ -20,7 +20,9 @@ public final class PlanPage {
         page.addObject("planText", planText);
         page.addObject("check", plans.check(analysis, planText));
         page.addObject("saved", false);
+        page.addObject("restored", "");
         page.addObject("runs", workspace.runs(analysis.id()));
+        page.addObject("versions", PlanVersions.of(workspace, analysis));
         return page;
     }
 }

@@ -20,6 +20,7 @@ import org.forkscape.run.Workspace;
 import org.forkscape.web.check.ReleaseCheckPanel;
 import org.forkscape.web.plan.PlanPage;
 import org.forkscape.web.plan.PlanService;
+import org.forkscape.web.plan.PlanVersions;
 import org.forkscape.web.system.Lookup;
 import org.forkscape.web.system.NotFoundException;
 import org.springframework.core.io.FileSystemResource;
@@ -98,6 +99,7 @@ class RunController {
             model.addAttribute("version", Version.current());
             model.addAttribute("planLock", recordedLock(folder).orElse(null));
             model.addAttribute("releaseCheck", ReleaseCheckPanel.of(folder));
+            model.addAttribute("planVersion", PlanVersions.ranVersion(workspace, r).orElse(null));
             return EXPLORE;
         }
         model.addAttribute("status", queue.status(a.id(), r.id()).orElseThrow());

@@ -375,6 +375,50 @@ class PlanFormBrowserTest {
     }
 
     /**
+     * Each save from the form appears at once in the list of saved versions, with the SHA-256 of the saved
+     * file (the JDK's MessageDigest over the analysis folder's plan.json); restoring an older version makes it
+     * the working plan again, as a new version that says so.
+     */
+    @Test
+    void savedVersionsAreListedAsTheyAreSavedAndAnOlderOneCanBeRestored() throws Exception {
+        WebDriverWait wait = openNewPlan();
+        assertEquals("No version yet: the first save of the plan is version 1.",
+                driver.findElement(By.id("no-versions")).getText());
+        List<String> plans = List.of(CivicTestData.plan(1), CivicTestData.plan(2));
+        for (int i = 0; i < plans.size(); i++) {
+            driver.executeScript("document.getElementById('plan-json').value = arguments[0];"
+                    + "document.getElementById('apply-json').click();", plans.get(i));
+            wait.until(ExpectedConditions.textToBePresentInElementLocated(By.id("plan-status"), "ready to run"));
+            click(driver.findElement(By.id("save-plan")));
+            int versions = i + 1;
+            // the rows are drawn once the save has answered, without reloading the page
+            wait.until(d -> d.findElements(By.cssSelector("#plan-versions tbody tr")).size() == versions);
+            driver.navigate().refresh();
+            wait.until(d -> !d.findElement(By.id("plan-status")).getText().isEmpty());
+        }
+        String analysis = driver.findElement(By.id("plan-editor")).getAttribute("data-analysis");
+        Path saved = TEMP.resolve("workspace/analyses/" + analysis + "/plan.json");
+        String sha = java.util.HexFormat.of().formatHex(java.security.MessageDigest.getInstance("SHA-256")
+                .digest(Files.readAllBytes(saved)));
+        WebElement newest = driver.findElement(By.cssSelector("#plan-versions tbody tr"));
+        assertEquals("2", newest.getAttribute("data-version"));
+        assertEquals(sha, newest.getAttribute("data-sha256"));
+        assertTrue(newest.getText().contains("working plan"), newest.getText());
+        assertTrue(driver.findElements(By.id("no-versions")).stream().noneMatch(WebElement::isDisplayed));
+        driver.executeScript("document.getElementById('plan-history').scrollIntoView()");
+        BrowserDriver.screenshot(driver, "plan-8-versions");
+
+        click(driver.findElement(By.id("restore-version-1")));
+        wait.until(ExpectedConditions.visibilityOfElementLocated(By.id("restored-note")));
+        List<WebElement> rows = driver.findElements(By.cssSelector("#plan-versions tbody tr"));
+        assertEquals(List.of("3", "2", "1"), rows.stream().map(r -> r.getAttribute("data-version")).toList());
+        assertTrue(rows.get(0).getText().contains("(restores version 1)"), rows.get(0).getText());
+        assertEquals(rows.get(2).getAttribute("data-sha256"), rows.get(0).getAttribute("data-sha256"));
+        assertEquals(Files.readString(saved.resolveSibling("plan-history").resolve("1.json")), Files.readString(saved),
+                "version 1's text is the working plan");
+    }
+
+    /**
      * "Lock this plan" saves and locks the plan: the page shows the time and fingerprint of the lock file
      * written into the analysis folder, and asks before locking anew.
      */

@@ -17,8 +17,9 @@
 #                                      fit), and missing weights
 #   school-panel-weighted-expected.csv per specification of school-panel-weighted-plan.json (written by
 #                                      hand): the key estimate, its standard error, df, rows, coefficients
-#                                      (lm's rank), R-squared (summary.lm's, weighted), the rank of the
-#                                      fixed-effect dummies alone, and the status
+#                                      (lm's rank), R-squared, adjusted R-squared and the model F test
+#                                      (summary.lm's, weighted), the standardized coefficient, the rank of
+#                                      the fixed-effect dummies alone, and the status
 #   school-panel-weighted-coefficients.csv  every coefficient (estimate and standard error) of the weighted
 #                                      specifications with both effects absorbed, for the full fit
 #   two-way-weights-versions.txt       the R and sandwich versions that produced them
@@ -106,7 +107,8 @@ fit_one <- function(d, controls, absorb, e, weight) {
     qr(model.matrix(reformulate(sprintf("`%s`", absorb)), data = f))$rank
   } else 1
   row <- list(errors = e, estimate = NA, std_error = NA, df = NA, n_obs = nrow(m), n_params = NA, r2 = NA,
-              effects_rank = base, status = "ok")
+              adj_r2 = NA, model_f = NA, model_p_value = NA, std_estimate = NA, effects_rank = base,
+              status = "ok")
   if (nrow(m) <= base) {
     row$status <- "too few rows"
     return(row)
@@ -123,7 +125,17 @@ fit_one <- function(d, controls, absorb, e, weight) {
     row$status <- "too few rows"
     return(row)
   }
-  row$r2 <- summary(fit)$r.squared
+  fs <- summary(fit)
+  row$r2 <- fs$r.squared
+  row$adj_r2 <- fs$adj.r.squared
+  row$model_f <- unname(fs$fstatistic["value"])
+  row$model_p_value <- pf(fs$fstatistic["value"], fs$fstatistic["numdf"], fs$fstatistic["dendf"],
+                          lower.tail = FALSE)[[1]]
+  # the coefficient in standard deviations of the outcome per standard deviation of the key predictor, both
+  # over the specification's rows about their (weighted) mean, with the same weights (README, std_estimate)
+  w <- if (length(weight) > 0) m[[weight]] else rep(1, nrow(m))
+  spread <- function(x) sum(w * (x - sum(w * x) / sum(w))^2)
+  row$std_estimate <- row$estimate * sqrt(spread(m$.x) / spread(m$.y))
   cl <- cluster_of(e)
   groups <- sapply(cl, function(c) length(unique(m[[c]])))
   row$df <- if (length(cl) > 0) min(groups) - 1 else fit$df.residual
@@ -182,7 +194,8 @@ for (mask in 0:7) for (a in absorbs) for (w in weights) for (e in errors) {
   }
 }
 columns <- c("spec", "outcome", "tutoring", "controls", "effects", "weights", "errors", "estimate", "std_error",
-             "df", "n_obs", "n_params", "r2", "effects_rank", "status")
+             "df", "n_obs", "n_params", "r2", "adj_r2", "model_f", "model_p_value", "std_estimate",
+             "effects_rank", "status")
 table <- data.frame(lapply(setNames(columns, columns), function(c) vapply(rows, function(r) {
   x <- r[[c]]
   if (is.numeric(x) || (length(x) == 1 && is.na(x))) num(as.numeric(x)) else as.character(x)

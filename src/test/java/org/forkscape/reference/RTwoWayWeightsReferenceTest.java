@@ -37,7 +37,8 @@ import tools.jackson.databind.node.ObjectNode;
  * Analytic weights together with two crossed absorbed columns (pupil and term) against R's {@code lm(weights =
  * w)} with explicit factor() dummies for every absorbed column, {@code vcov}, sandwich's vcovHC (HC0, HC1) and
  * vcovCL (one-way, and two-way with {@code type = "HC1", cadjust = TRUE, multi0 = FALSE}) on that weighted fit:
- * every specification of {@code school-panel-weighted-plan.json}, values in
+ * every specification of {@code school-panel-weighted-plan.json} (estimate, standard error, df, rows, K,
+ * R-squared, adjusted R-squared, the model F test's p-value, the standardized coefficient), values in
  * {@code school-panel-weighted-expected.csv} and every coefficient of the weighted two-way specifications in
  * {@code school-panel-weighted-coefficients.csv}, produced by {@code src/test/r/two-way-weights-reference.R}
  * with the versions in {@code two-way-weights-versions.txt} (R 4.2.2, sandwich 3.0.2). The data are the
@@ -108,7 +109,8 @@ class RTwoWayWeightsReferenceTest {
     /**
      * The explorer's full fit of each weighted specification with both effects absorbed: every coefficient
      * (the controls lm keeps with the dummies entered first, and the key) with its standard error of the
-     * specification's type, and the fit's df, K, rank of the dummies, rows and R-squared.
+     * specification's type, and the fit's df, K, rank of the dummies, rows, R-squared, adjusted R-squared and
+ * model F statistic.
      */
     @Test
     void theFullFitsEveryCoefficientAgreesWithR() {
@@ -141,6 +143,8 @@ class RTwoWayWeightsReferenceTest {
             check(failures, worst, where, "effects_rank", fit.absorbedLevels(), row,
                     "rank of R's model.matrix of the factors", 0);
             check(failures, worst, where, "r2", fit.r2(), row, "R summary.lm r.squared", RELATIVE);
+            check(failures, worst, where, "adj_r2", fit.adjustedR2(), row, "R summary.lm adj.r.squared", RELATIVE);
+            check(failures, worst, where, "model_f", fit.modelF(), row, "R summary.lm fstatistic", RELATIVE);
             Map<String, Map<String, String>> expected = coefficientsBySpec.getOrDefault(row.get("spec"), Map.of());
             List<String> terms = fit.coefficients().stream().map(FullFit.Coefficient::term).toList();
             if (!terms.equals(List.copyOf(expected.keySet()))) {
@@ -248,6 +252,11 @@ class RTwoWayWeightsReferenceTest {
             }, RELATIVE);
             check(failures, worst, where, "df", r.df(slot), row, "R df.residual or min(G) - 1", 0);
             check(failures, worst, where, "r2", r.r2(slot), row, "R summary.lm r.squared", RELATIVE);
+            check(failures, worst, where, "adj_r2", r.adjustedR2(slot), row, "R summary.lm adj.r.squared", RELATIVE);
+            check(failures, worst, where, "model_p_value", r.modelPValue(slot), row,
+                    "R pf() of summary.lm fstatistic", RLmSandwichReferenceTest.P_RELATIVE);
+            check(failures, worst, where, "std_estimate", r.standardizedEstimate(slot), row,
+                    "R coefficient times the ratio of the weighted standard deviations", RELATIVE);
             if (row.get("effects").equals(BOTH) && row.get("weights").equals(WEIGHTED)) {
                 // 50 pupils with positive weight and 10 terms in two components: rank 58, as R's model matrix
                 check(failures, worst, where, "effects_rank", 58, row, "rank of R's model.matrix of the factors", 0);

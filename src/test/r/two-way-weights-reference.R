@@ -14,7 +14,9 @@
 #                                      fixed seed (below): zeros scattered over the panel, a pupil whose
 #                                      weights are all zero (so the pupil is not among the levels present),
 #                                      a pupil left with one positive-weight row (a singleton of the weighted
-#                                      fit), and missing weights
+#                                      fit), zeros that cut school B's terms apart (four connected
+#                                      components of the weighted pupil-term graph, two unweighted), and
+#                                      missing weights
 #   school-panel-weighted-expected.csv per specification of school-panel-weighted-plan.json (written by
 #                                      hand): the key estimate, its standard error, df, rows, coefficients
 #                                      (lm's rank), R-squared, adjusted R-squared and the model F test
@@ -53,6 +55,13 @@ panel$weight[panel$pupil == "A07"] <- 0
 a12 <- which(panel$pupil == "A12")
 panel$weight[a12[-1]] <- 0
 panel$weight[a12[1]] <- 1.5
+# school B's terms cut apart by zero weights: each pupil of B keeps positive weights in terms 7-8 or in terms
+# 9-10, never both, and (with this seed) no pupil left in term 9 is left in term 10, so the weighted pupil-term
+# graph has four connected components where the unweighted one has two: rank 49 + 10 - 4 = 55
+b_pupil <- startsWith(panel$pupil, "B")
+b_late <- panel$term %in% c("T09", "T10")
+b_odd <- as.integer(substring(panel$pupil, 2)) %% 2 == 1
+panel$weight[b_pupil & ((b_odd & b_late) | (!b_odd & !b_late))] <- 0
 # missing weights: those rows leave the weighted specifications only
 panel$weight[sample(setdiff(seq_len(n), c(a12, which(panel$pupil == "A07"))), 3)] <- NA
 path <- file.path(out, "school-panel-weighted.csv")

@@ -1,11 +1,11 @@
 package org.forkscape.data;
 
-import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertInstanceOf;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.forkscape.data.SameTable.assertSameTable;
 
 import java.io.IOException;
 import java.nio.file.Files;
@@ -89,23 +89,6 @@ class ParquetTableReaderTest {
     }
 
     private static final String TYPES_HEADER = "pupils,budget,small,ratio,score,urban,fee,grant,levy,big,region,kind";
-
-    static void assertSameTable(Table expected, Table actual) {
-        assertEquals(expected.columns().stream().map(Column::name).toList(),
-                actual.columns().stream().map(Column::name).toList());
-        assertEquals(expected.rowCount(), actual.rowCount());
-        for (Column e : expected.columns()) {
-            Column a = actual.column(e.name());
-            assertEquals(e.getClass(), a.getClass(), e.name());
-            if (e instanceof NumericColumn n) {
-                assertArrayEquals(n.values(), ((NumericColumn) a).values(), e.name());
-            } else {
-                CategoricalColumn c = (CategoricalColumn) e;
-                assertEquals(c.levels(), ((CategoricalColumn) a).levels(), e.name());
-                assertArrayEquals(c.codes(), ((CategoricalColumn) a).codes(), e.name());
-            }
-        }
-    }
 
     private Table csv(String name, String text) throws IOException {
         Path file = dir.resolve(name);

@@ -271,6 +271,8 @@ class ParquetTableReaderTest {
             {"message m { required double x; optional group tags (LIST) { repeated group list { optional binary element (STRING); } } }",
                 "tags", "is a nested column (LIST)"},
             {"message m { required double x; repeated int32 counts; }", "counts", "is a repeated column"},
+            {"message m { required double x; optional binary shape (GEOMETRY); }", "shape",
+                "has the Parquet type BINARY (GEOMETRY"},
         };
         for (String[] c : cases) {
             Path file = dir.resolve(c[1] + ".parquet");

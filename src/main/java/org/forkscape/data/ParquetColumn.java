@@ -17,8 +17,9 @@ import org.apache.parquet.schema.LogicalTypeAnnotation.DecimalLogicalTypeAnnotat
  * One column of a Parquet read: its values written straight into the table's final array, since Parquet
  * states the row count before any value is read. A null is a missing cell. Numbers become doubles as the
  * same value written in a CSV file would: integers and decimals rounded once to the nearest double (as
- * {@link Double#parseDouble} rounds their decimal text), a FLOAT as the double of its shortest decimal
- * (Java's {@link Float#toString}, the text other tools print for it), NaN as missing as in CSV. Text is
+ * {@link Double#parseDouble} rounds their decimal text), a FLOAT as the double of the decimal
+ * {@link Float#toString} writes for it (its shortest decimal but in rare cases before Java 19, the text
+ * other tools print for it), NaN as missing as in CSV. Text is
  * stripped of surrounding spaces and the CSV reader's missing spellings mark missing cells, so a CSV file
  * and a Parquet copy of it give one table; each distinct text is decoded once and kept once in a
  * {@link LevelPool}.

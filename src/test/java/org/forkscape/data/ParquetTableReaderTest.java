@@ -260,6 +260,15 @@ class ParquetTableReaderTest {
     }
 
     @Test
+    void aParquetFileNamedAsCsvIsToldToBeRenamed() throws IOException {
+        Path file = ParquetFiles.write(dir.resolve("s.parquet"), TYPES, typedRows(10, 18));
+        Path misnamed = Files.move(file, dir.resolve("schools.csv"));
+        DataException e = assertThrows(DataException.class, () -> DataFiles.read(misnamed));
+        assertEquals("schools.csv", e.where());
+        assertTrue(e.problem().startsWith("looks like a Parquet file (it begins with PAR1)"), e.problem());
+    }
+
+    @Test
     void anUnsupportedTypeIsRefusedNamingTheColumnAndItsType() {
         String[][] cases = {
             {"message m { required double x; optional int32 visit (DATE); }", "visit", "has the Parquet type INT32 (DATE)"},

@@ -22,7 +22,7 @@ import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.DataFiles;
 import org.forkscape.data.ParquetFiles;
 import org.forkscape.data.Table;
-import org.forkscape.data.TableToParquet;
+import org.forkscape.bench.ParquetCopy;
 import org.forkscape.run.Json;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -59,12 +59,11 @@ class ParquetDataCommandTest {
     /** The demo's rows cut into three parts, each a Parquet file of its own. */
     private Path folderCopy(String name) throws IOException {
         Path folder = Files.createDirectory(dir.resolve(name));
-        Path whole = TableToParquet.write(demo, dir.resolve("whole-for-parts.parquet"), ParquetFiles.Options.DEFAULT);
+        Path whole = ParquetCopy.write(demo, dir.resolve("whole-for-parts.parquet"));
         Table all = DataFiles.read(whole);
         int[] cuts = {0, 700, 1900, all.rowCount()};
         for (int p = 0; p < 3; p++) {
-            TableToParquet.write(Rows.slice(all, cuts[p], cuts[p + 1]), folder.resolve("part-0000" + p + ".parquet"),
-                    ParquetFiles.Options.DEFAULT);
+            ParquetCopy.write(Rows.slice(all, cuts[p], cuts[p + 1]), folder.resolve("part-0000" + p + ".parquet"));
         }
         Files.delete(whole);
         return folder;
@@ -73,7 +72,7 @@ class ParquetDataCommandTest {
     @Test
     void theDemoPlanOnAParquetCopyWritesTheCsvRunsSpecificationsByteForByte() throws Exception {
         Path csvPlan = plan("csv.plan.json", "civic-demo.csv");
-        Path file = TableToParquet.write(demo, dir.resolve("civic-demo.parquet"), ParquetFiles.Options.DEFAULT);
+        Path file = ParquetCopy.write(demo, dir.resolve("civic-demo.parquet"));
         Path parquetPlan = plan("parquet.plan.json", "civic-demo.parquet");
         Path folder = folderCopy("civic-demo-parts");
         Path folderPlan = plan("parts.plan.json", "civic-demo-parts");
@@ -151,8 +150,7 @@ class ParquetDataCommandTest {
 
         // a changed part changes the folder's hash: verify refuses with both hashes
         Table last = DataFiles.read(folder.resolve("part-00002.parquet"));
-        TableToParquet.write(Rows.slice(last, 1, last.rowCount()), folder.resolve("part-00002.parquet"),
-                ParquetFiles.Options.DEFAULT);
+        ParquetCopy.write(Rows.slice(last, 1, last.rowCount()), folder.resolve("part-00002.parquet"));
         Outcome changed = run("verify", out.toString());
         refused(changed, "the data changed since the run");
         assertTrue(changed.line().contains(hash), changed.err());
@@ -160,8 +158,7 @@ class ParquetDataCommandTest {
 
     @Test
     void aCorruptFileOrAnUnsupportedColumnIsOneLineExitTwoAndNothingWritten() throws IOException {
-        byte[] good = Files.readAllBytes(TableToParquet.write(demo, dir.resolve("good.parquet"),
-                ParquetFiles.Options.DEFAULT));
+        byte[] good = Files.readAllBytes(ParquetCopy.write(demo, dir.resolve("good.parquet")));
         Files.write(dir.resolve("cut.parquet"), java.util.Arrays.copyOf(good, good.length - 40));
         Path cutPlan = plan("cut.plan.json", "cut.parquet");
         for (String command : List.of("run", "estimate")) {

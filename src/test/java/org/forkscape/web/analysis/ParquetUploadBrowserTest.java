@@ -11,8 +11,7 @@ import java.time.Duration;
 import java.util.Arrays;
 import java.util.List;
 import org.forkscape.data.CsvTableReader;
-import org.forkscape.data.ParquetFiles;
-import org.forkscape.data.TableToParquet;
+import org.forkscape.bench.ParquetCopy;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.BrowserDriver;
 import org.forkscape.web.CivicTestData;
@@ -71,8 +70,7 @@ class ParquetUploadBrowserTest {
 
     private Path parquetCopy(String csv, String name) throws IOException {
         Path file = Files.writeString(TEMP.resolve(name + ".csv"), csv);
-        return TableToParquet.write(new CsvTableReader().read(file), TEMP.resolve(name + ".parquet"),
-                ParquetFiles.Options.DEFAULT);
+        return ParquetCopy.write(new CsvTableReader().read(file), TEMP.resolve(name + ".parquet"));
     }
 
     @Test

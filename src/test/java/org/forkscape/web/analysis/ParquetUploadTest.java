@@ -21,8 +21,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Arrays;
 import org.forkscape.data.CsvTableReader;
-import org.forkscape.data.ParquetFiles;
-import org.forkscape.data.TableToParquet;
+import org.forkscape.bench.ParquetCopy;
 import org.forkscape.run.Workspace;
 import org.forkscape.web.CivicTestData;
 import org.forkscape.web.WebTest;
@@ -47,8 +46,7 @@ class ParquetUploadTest extends WebTest {
 
     private byte[] parquetOf(String csv) throws Exception {
         Path file = Files.writeString(dir.resolve("cells.csv"), csv);
-        return Files.readAllBytes(TableToParquet.write(new CsvTableReader().read(file), dir.resolve("cells.parquet"),
-                ParquetFiles.Options.DEFAULT));
+        return Files.readAllBytes(ParquetCopy.write(new CsvTableReader().read(file), dir.resolve("cells.parquet")));
     }
 
     @Test

@@ -24,7 +24,7 @@ import org.apache.parquet.schema.Type;
  * Parquet files for tests, written by Apache Parquet's own writer (parquet-hadoop's example writer over
  * Parquet's schema text), so that what the reader is checked on comes from the library, never from bytes
  * typed by hand. A row is a list of cells, null for a null; text, numbers and booleans are written as the
- * column's type asks (a decimal from its decimal text).
+ * column's type asks (a decimal from its decimal text); a {@code byte[]} cell is written as those bytes.
  */
 public final class ParquetFiles {
     private ParquetFiles() {
@@ -98,7 +98,8 @@ public final class ParquetFiles {
                         : ((Number) cell).longValue());
                 case FLOAT -> g.append(name, ((Number) cell).floatValue());
                 case DOUBLE -> g.append(name, ((Number) cell).doubleValue());
-                case BINARY -> g.append(name, p.getLogicalTypeAnnotation() instanceof DecimalLogicalTypeAnnotation d
+                case BINARY -> g.append(name, cell instanceof byte[] bytes ? Binary.fromConstantByteArray(bytes)
+                        : p.getLogicalTypeAnnotation() instanceof DecimalLogicalTypeAnnotation d
                         ? Binary.fromConstantByteArray(new BigDecimal(cell.toString()).setScale(d.getScale())
                                 .unscaledValue().toByteArray())
                         : Binary.fromString(cell.toString()));

@@ -294,6 +294,16 @@ class ParquetTableReaderTest {
     }
 
     @Test
+    void textThatIsNotUtf8IsRefusedAtItsRow() {
+        // 0xC3 0x28: a two-byte lead followed by a byte that cannot continue it (Unicode 15, table 3-7)
+        Path file = ParquetFiles.write(dir.resolve("bytes.parquet"), "message m { optional binary region (STRING); }",
+                List.of(List.of("north"), List.of(new byte[] {(byte) 0xC3, 0x28})));
+        DataException e = assertThrows(DataException.class, () -> new ParquetTableReader().read(file));
+        assertEquals("bytes.parquet, row 2", e.where());
+        assertEquals("the text in column \"region\" is not valid UTF-8, which a Parquet STRING must be", e.problem());
+    }
+
+    @Test
     void anInfiniteValueIsRefusedAtItsRowAndNaNIsMissing() {
         String schema = "message m { required double x; }";
         Table t = new ParquetTableReader().read(ParquetFiles.write(dir.resolve("nan.parquet"), schema,

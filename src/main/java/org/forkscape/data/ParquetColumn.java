@@ -55,14 +55,6 @@ final class ParquetColumn {
         return HeapSizes.array(rows, value.isText() ? Integer.BYTES : Double.BYTES);
     }
 
-    String name() {
-        return name;
-    }
-
-    ParquetValue value() {
-        return value;
-    }
-
     ColumnDescriptor descriptor() {
         return descriptor;
     }

@@ -36,7 +36,7 @@ export function renderPlan(root, plan, columns, defaults, hooks) {
       f.text('title', 'Title', plan.title || '', (v) => set(plan, 'title', v), { class: 'wide' }),
       f.area('description', 'Description (the reasoning behind the decisions, for the record)',
         plan.description || '', (v) => set(plan, 'description', v)),
-      el('p', { class: 'hint' }, 'Data: this analysis\u2019s file (data.csv).')));
+      el('p', { class: 'hint' }, `Data: this analysis\u2019s file (${plan.data || 'data.csv'}).`)));
   const list = el('div', { class: 'decisions', 'data-path': 'decisions' },
     el('h2', {}, 'Decisions'), el('p', { class: 'problem', hidden: true, role: 'alert' }));
   (plan.decisions || []).forEach((d, i) => list.append(decision(f, plan, d, i)));

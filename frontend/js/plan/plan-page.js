@@ -8,6 +8,8 @@ import { problemInWords, specificationCount } from './plan-model.js';
 
 const root = document.getElementById('plan-editor');
 const analysis = root.dataset.analysis;
+/** The analysis's data as its plans name it: data.csv, or data.parquet for a Parquet upload. */
+const dataFile = root.dataset.dataFile || 'data.csv';
 const api = `/api/analyses/${encodeURIComponent(analysis)}`;
 const jsonBox = document.getElementById('plan-json');
 
@@ -210,9 +212,9 @@ function adopt(parsed, source) {
     return;
   }
   let note = '';
-  if (parsed.data !== 'data.csv') {
-    note = ` The plan named the data file "${parsed.data ?? ''}"; here it uses this analysis's data, data.csv.`;
-    parsed.data = 'data.csv';
+  if (parsed.data !== dataFile) {
+    note = ` The plan named the data file "${parsed.data ?? ''}"; here it uses this analysis's data, ${dataFile}.`;
+    parsed.data = dataFile;
   }
   plan = parsed;
   shown.touched.clear();

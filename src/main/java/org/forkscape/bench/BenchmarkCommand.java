@@ -62,6 +62,9 @@ public final class BenchmarkCommand {
                 Runtime.getRuntime().availableProcessors(), System.getProperty("java.version"),
                 Runtime.getRuntime().maxMemory() >> 20);
         table(100_000);
+        Map<String, Object> parquet = ParquetLoadBenchmark.run(out, folder, quick ? 100_000 : 1_000_000, SEED);
+        machine(parquet);
+        write((String) parquet.get("case"), parquet);
         out.printf("%n%-22s %14s %13s %9s %9s %9s %9s %11s %10s%n", "case", "engine spec/s", "refit spec/s", "ratio",
                 "min", "max", "heap MiB", "max relerr", "csv spec/s");
         for (Case c : cases()) {

@@ -4,7 +4,7 @@ import java.io.PrintStream;
 import java.nio.file.Path;
 import java.util.Set;
 import org.forkscape.InputException;
-import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.DataFiles;
 import org.forkscape.data.Table;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.Plan;
@@ -46,7 +46,7 @@ final class EstimateCommand {
         NullDrawSettings.of(plan).check(plan, (int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1,
                 Integer.MAX_VALUE), a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
-        Table table = new CsvTableReader().read(plan.dataFile());
+        Table table = DataFiles.read(plan.dataFile());
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         long limit = a.has("max-memory") ? RunCommand.size(a.text("max-memory")) : MemoryEstimate.defaultLimit();
         TimeEstimate time;

@@ -49,8 +49,8 @@ final class LockCommand {
             throw new UsageException(lockFile + " exists; the plan was locked before and nothing was written (pass "
                     + "--replace yes to lock it anew, with a new time and fingerprint)");
         }
-        if (!Files.isRegularFile(plan.dataFile())) {
-            throw new InputException(planName + ", data", "no data file at " + plan.dataFile());
+        if (!Files.isRegularFile(plan.dataFile()) && !Files.isDirectory(plan.dataFile())) {
+            throw new InputException(planName + ", data", "no data file or folder at " + plan.dataFile());
         }
         PlanLock lock = PlanLock.of(planBytes, plan.dataFile());
         Json.write(lockFile, lock.toJson());

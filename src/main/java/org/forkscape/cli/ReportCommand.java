@@ -5,7 +5,7 @@ import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.util.Set;
 import org.forkscape.InputException;
-import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.DataFiles;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
@@ -56,7 +56,7 @@ final class ReportCommand {
         String planText = PlanReader.text(PlanReader.readBytes(planFile), planFile);
         Plan plan = VerifyCommand.readPlan(planText, VerifyCommand.dataFolder(planText, folder, provenance,
                 provenance.path("data_sha256").asString("")));
-        Table table = new CsvTableReader().read(plan.dataFile());
+        Table table = DataFiles.read(plan.dataFile());
         RunResult result = SpecificationsCsvReader.read(plan, table, specifications,
                 summary.path("seconds").asDouble(Double.NaN));
         RankedRun ranked = RankedRun.of(result, scale);

@@ -5,7 +5,7 @@ import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.util.Set;
 import org.forkscape.InputException;
-import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.DataFiles;
 import org.forkscape.data.Table;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawResult;
@@ -70,7 +70,7 @@ final class RunCommand {
         nullSettings.check(plan, (int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1, Integer.MAX_VALUE),
                 a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
-        Table table = new CsvTableReader().read(plan.dataFile());
+        Table table = DataFiles.read(plan.dataFile());
         if (a.has("null-cluster") && nullSettings.clusterColumn() != null
                 && table.find(nullSettings.clusterColumn()).isEmpty()) {
             String hint = table.nearestName(nullSettings.clusterColumn()).map(n -> "; did you mean \"" + n + "\"?")

@@ -14,7 +14,7 @@ import java.util.Optional;
 import java.util.Set;
 import java.util.stream.Stream;
 import org.forkscape.InputException;
-import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.DataFiles;
 import org.forkscape.data.Table;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawSettings;
@@ -73,7 +73,7 @@ final class VerifyCommand {
                 provenance.path("seed").asLong());
         NullDrawSettings nullSettings = NullDrawSettings.of(plan);
         nullSettings.check(plan, Integer.MAX_VALUE, "plan.json, nullDraws", "plan.json, nullCluster");
-        Table table = new CsvTableReader().read(plan.dataFile());
+        Table table = DataFiles.read(plan.dataFile());
         int threads = Runtime.getRuntime().availableProcessors();
         RunPipeline pipeline = new RunPipeline(threads).refusingMemoryAbove(MemoryEstimate.defaultLimit(),
                 "give Java more heap (java -Xmx) to verify this run");
@@ -139,7 +139,7 @@ final class VerifyCommand {
                 continue;
             }
             looked.add(data);
-            if (Files.isRegularFile(data)) {
+            if (Files.isRegularFile(data) || Files.isDirectory(data)) {
                 String hash = Provenance.sha256(data);
                 if (hash.equals(recordedHash)) {
                     return f;

@@ -191,6 +191,10 @@ public final class CsvTableReader {
             in.mark(BINARY_PROBE);
             byte[] head = in.readNBytes(BINARY_PROBE);
             in.reset();
+            if (head.length >= 4 && head[0] == 'P' && head[1] == 'A' && head[2] == 'R' && head[3] == '1') {
+                throw new DataException(source, "looks like a Parquet file (it begins with PAR1), which is read as "
+                        + "Parquet when its name ends in .parquet; rename it");
+            }
             for (byte b : head) {
                 if (b == 0) {
                     throw new DataException(source, "looks like a binary file (it contains NUL bytes), not CSV "

@@ -7,7 +7,7 @@ import java.util.List;
  * A declared analysis: the data, the confidence level, how missing cells are handled, and the ordered
  * decisions whose combinations are the specifications.
  *
- * @param dataFile           the CSV file, resolved against the plan's folder
+ * @param dataFile           the data (a CSV file, a Parquet file or a folder of Parquet part files), resolved against the plan's folder
  * @param confidence         interval coverage; the significance level is {@code 1 - confidence}
  * @param missing            per-specification or common rows
  * @param decisions          in declared order; exactly one outcome and one predictor decision

@@ -178,7 +178,7 @@ public final class PlanReader {
     private Path dataFile(JsonNode root, Path folder) {
         String data = text(root, "data", "data", null);
         if (data == null || data.isBlank()) {
-            throw new PlanException("data", "is required: the path of the CSV file, relative to the plan file");
+            throw new PlanException("data", "is required: the path of the data (a CSV file, a Parquet file or a folder of Parquet part files), relative to the plan file");
         }
         Path resolved;
         boolean absolute;

@@ -2,6 +2,7 @@ package org.forkscape.run;
 
 import java.io.IOException;
 import java.io.InputStream;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.security.MessageDigest;
@@ -13,6 +14,8 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 import org.forkscape.InputException;
 import org.forkscape.Version;
+import org.forkscape.data.DataException;
+import org.forkscape.data.ParquetParts;
 
 /**
  * How a run was made, written under {@code provenance} in summary.json: Forkscape's version, the SHA-256
@@ -53,8 +56,31 @@ public record Provenance(String version, String planSha256, String dataSha256, l
         return HexFormat.of().formatHex(digest().digest(bytes));
     }
 
-    /** Lower-case hex SHA-256 of a file's bytes, read in blocks so a large data file is not held twice. */
-    public static String sha256(Path file) {
+    /**
+     * Lower-case hex SHA-256 of a plan's data: of a file's bytes, read in blocks so a large data file is not
+     * held twice; of a folder of Parquet part files ({@link ParquetParts}), the SHA-256 of the text that
+     * {@code sha256sum} prints for its parts in their order, one line {@code HEX  NAME\n} per part (each
+     * part's SHA-256 and its name in the folder), so that {@code cd FOLDER && LC_ALL=C ls *.parquet | xargs
+     * sha256sum | sha256sum} gives the same digest. A part added, removed, renamed or changed changes it.
+     */
+    public static String sha256(Path data) {
+        if (!Files.isDirectory(data)) {
+            return fileSha256(data);
+        }
+        ParquetParts parts;
+        try {
+            parts = ParquetParts.of(data, data.toString());
+        } catch (DataException e) {
+            throw new InputException(data.toString(), "cannot record the data's SHA-256: " + e.problem());
+        }
+        StringBuilder listing = new StringBuilder();
+        for (Path part : parts.files()) {
+            listing.append(fileSha256(part)).append("  ").append(parts.name(part)).append('\n');
+        }
+        return sha256(listing.toString().getBytes(StandardCharsets.UTF_8));
+    }
+
+    private static String fileSha256(Path file) {
         MessageDigest digest = digest();
         byte[] block = new byte[1 << 16];
         try (InputStream in = Files.newInputStream(file)) {

@@ -28,11 +28,12 @@ import tools.jackson.databind.JsonNode;
  *
  * <pre>
  * WORKSPACE/analyses/ID/analysis.json   title, the uploaded file's name (shown, never a path), size, created, demo
- * WORKSPACE/analyses/ID/data.csv        the uploaded data, byte for byte
+ * WORKSPACE/analyses/ID/data.csv        the uploaded data, byte for byte (data.parquet for a Parquet upload)
  * WORKSPACE/analyses/ID/plan.json       the plan being edited (absent until first saved)
  * WORKSPACE/analyses/ID/plan.lock.json  the saved plan's lock ({@link PlanLock}; absent until it is locked)
  * WORKSPACE/analyses/ID/runs/RUN/plan.json            the plan exactly as run; like ID/plan.json it names
- *                                                    "data": "data.csv" and is read against ID/
+ *                                                    "data": "data.csv" (or "data.parquet") and is read
+ *                                                    against ID/
  * WORKSPACE/analyses/ID/runs/RUN/status               one word: queued, running, finished, failed, cancelled,
  *                                                    interrupted
  * WORKSPACE/analyses/ID/runs/RUN/run.json             created/started/ended times, specifications, the problem
@@ -50,6 +51,8 @@ import tools.jackson.databind.JsonNode;
 public final class Workspace {
     public static final String ANALYSIS = "analysis.json";
     public static final String DATA = "data.csv";
+    /** The name of an analysis's data when it was uploaded as a Parquet file. */
+    public static final String DATA_PARQUET = "data.parquet";
     public static final String PLAN = "plan.json";
     public static final String PLAN_LOCK = "plan.lock.json";
     public static final String STATUS = "status";
@@ -178,8 +181,13 @@ public final class Workspace {
 
     /** A fresh empty file for an upload in progress, on the workspace's file system; delete it if unused. */
     public Path newIncomingFile() {
+        return newIncomingFile(".csv");
+    }
+
+    /** A new empty file for an upload whose name ends in {@code extension} (which tells its format). */
+    public Path newIncomingFile(String extension) {
         try {
-            return Files.createTempFile(incoming, "upload-", ".csv");
+            return Files.createTempFile(incoming, "upload-", extension);
         } catch (IOException e) {
             throw writeFailure(e, "the upload was not kept");
         }
@@ -191,11 +199,23 @@ public final class Workspace {
      */
     public StoredAnalysis createAnalysis(String title, String dataName, int rows, int columns, Path data,
             boolean demo) {
+        return createAnalysis(title, dataName, rows, columns, data, DATA, demo);
+    }
+
+    /**
+     * Creates an analysis whose data is kept under {@code storedName}, {@link #DATA} or
+     * {@link #DATA_PARQUET}.
+     */
+    public StoredAnalysis createAnalysis(String title, String dataName, int rows, int columns, Path data,
+            String storedName, boolean demo) {
+        if (!storedName.equals(DATA) && !storedName.equals(DATA_PARQUET)) {
+            throw new IllegalArgumentException("an analysis's data is " + DATA + " or " + DATA_PARQUET);
+        }
         Instant now = Instant.now();
         Path staging = analyses.resolve("." + randomLetters(12));
         try {
             Files.createDirectories(staging);
-            Files.move(data, staging.resolve(DATA), StandardCopyOption.REPLACE_EXISTING);
+            Files.move(data, staging.resolve(storedName), StandardCopyOption.REPLACE_EXISTING);
             for (int attempt = 0; ; attempt++) {
                 String id = STAMP.format(now) + "-" + randomLetters(6);
                 StoredAnalysis a = new StoredAnalysis(id, title, dataName, rows, columns, now, demo, false);
@@ -230,13 +250,16 @@ public final class Workspace {
         return isId(id) ? readAnalysis(id) : Optional.empty();
     }
 
-    /** The analysis folder: plans name {@code data.csv} and are read against it. */
+    /** The analysis folder: plans name {@code data.csv} (or {@code data.parquet}) and are read against it. */
     public Path analysisFolder(String analysisId) {
         return analyses.resolve(checked(analysisId));
     }
 
+    /** The analysis's data: {@link #DATA_PARQUET} when it was uploaded as Parquet, {@link #DATA} otherwise. */
     public Path dataFile(String analysisId) {
-        return analysisFolder(analysisId).resolve(DATA);
+        Path folder = analysisFolder(analysisId);
+        Path parquet = folder.resolve(DATA_PARQUET);
+        return Files.isRegularFile(parquet) ? parquet : folder.resolve(DATA);
     }
 
     /** The plan being edited, if one was saved. */

@@ -108,7 +108,7 @@ class LockCommandTest {
         assertOneLine(run("lock", plan.toString(), "--replace", "maybe"), "forkscape: --replace must be yes or no");
         Files.delete(lockFile());
         Files.delete(data);
-        assertOneLine(run("lock", plan.toString()), "forkscape: study.plan.json, data: no data file at ");
+        assertOneLine(run("lock", plan.toString()), "forkscape: study.plan.json, data: no data file or folder at ");
         assertFalse(Files.exists(lockFile()));
     }
 

@@ -42,7 +42,7 @@ class AnalysisApiController {
     AnalysisView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
         if (AnalysisService.noFileChosen(file)) {
-            throw new InputException("file", "send the CSV file as the form field \"file\"; it is missing");
+            throw new InputException("file", "send the data file (CSV or Parquet) as the form field \"file\"; it is missing");
         }
         try (InputStream in = file.getInputStream()) {
             StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);

@@ -7,12 +7,14 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
 import java.util.List;
+import java.util.Locale;
 import java.util.Optional;
 import com.github.benmanes.caffeine.cache.Cache;
 import com.github.benmanes.caffeine.cache.Caffeine;
 import org.forkscape.data.CsvLimits;
-import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.DataFiles;
 import org.forkscape.data.DataException;
+import org.forkscape.data.ParquetParts;
 import org.forkscape.data.Table;
 import org.forkscape.data.TableFootprint;
 import org.forkscape.run.StoredAnalysis;
@@ -24,7 +26,8 @@ import org.springframework.stereotype.Service;
 import org.springframework.web.multipart.MultipartFile;
 
 /**
- * Creates analyses from uploaded CSV files and serves their data. An upload is copied to the workspace,
+ * Creates analyses from uploaded CSV or Parquet files (a name ending in {@code .parquet} is read as Parquet,
+ * any other as CSV, by {@link DataFiles}) and serves their data. An upload is copied to the workspace,
  * priced before it is parsed ({@link TableFootprint}) against the {@link MemoryBudget}, read in full
  * within its reservation, and becomes an analysis only when it reads without a problem; otherwise nothing
  * is kept and the problem, naming the uploaded file and line, goes back to the user. The uploaded file's
@@ -65,12 +68,13 @@ public class AnalysisService {
      */
     public StoredAnalysis create(String title, String fileName, InputStream content, boolean demo) {
         String shown = displayName(fileName);
-        Path incoming = workspace.newIncomingFile();
+        String stored = ParquetParts.hasParquetName(shown) ? Workspace.DATA_PARQUET : Workspace.DATA;
+        Path incoming = workspace.newIncomingFile(stored.substring(stored.lastIndexOf('.')));
         try {
             Files.copy(content, incoming, StandardCopyOption.REPLACE_EXISTING);
             Table table = read(incoming, shown, "the upload was not kept");
             StoredAnalysis a = workspace.createAnalysis(title(title, shown), shown, table.rowCount(),
-                    table.columns().size(), incoming, demo);
+                    table.columns().size(), incoming, stored, demo);
             tables.put(a.id(), table);
             return a;
         } catch (IOException e) {
@@ -145,9 +149,9 @@ public class AnalysisService {
 
     /** Prices the file before parsing it, then reads it within a reservation of the memory budget. */
     private Table read(Path file, String shown, String consequence) throws IOException {
-        TableFootprint footprint = TableFootprint.of(file, limits);
+        TableFootprint footprint = DataFiles.footprint(file, shown, limits);
         try (MemoryBudget.Reservation memory = budget.reserve(shown, footprint, consequence)) {
-            return new CsvTableReader(limits).read(file, shown, memory);
+            return DataFiles.read(file, shown, limits, memory);
         }
     }
 
@@ -173,7 +177,13 @@ public class AnalysisService {
         if (!t.isEmpty()) {
             return t;
         }
-        return shown.toLowerCase().endsWith(".csv") ? shown.substring(0, shown.length() - 4) : shown;
+        String lower = shown.toLowerCase(Locale.ROOT);
+        for (String extension : List.of(".csv", ".parquet")) {
+            if (lower.endsWith(extension) && lower.length() > extension.length()) {
+                return shown.substring(0, shown.length() - extension.length());
+            }
+        }
+        return shown;
     }
 
     private static String clean(String text, int max) {

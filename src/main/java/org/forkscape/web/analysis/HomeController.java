@@ -48,7 +48,7 @@ class HomeController {
     ModelAndView upload(@RequestParam(name = "file", required = false) MultipartFile file,
             @RequestParam(name = "title", required = false) String title) throws IOException {
         if (AnalysisService.noFileChosen(file)) {
-            return homeWithProblem(title, "Choose a CSV file to upload.", HttpStatus.BAD_REQUEST);
+            return homeWithProblem(title, "Choose a CSV or Parquet file to upload.", HttpStatus.BAD_REQUEST);
         }
         try (InputStream in = file.getInputStream()) {
             StoredAnalysis a = analyses.create(title, file.getOriginalFilename(), in, false);

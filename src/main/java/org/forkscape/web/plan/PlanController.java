@@ -41,6 +41,7 @@ class PlanController {
         StoredAnalysis a = lookup.analysis(analysis);
         String text = plans.current(a);
         model.addAttribute("analysis", a);
+        model.addAttribute("dataFile", workspace.dataFile(a.id()).getFileName().toString());
         model.addAttribute("planText", text);
         model.addAttribute("check", plans.check(a, text));
         model.addAttribute("saved", saved != null);

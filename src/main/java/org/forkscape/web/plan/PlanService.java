@@ -1,6 +1,7 @@
 package org.forkscape.web.plan;
 
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -54,7 +55,7 @@ public class PlanService {
 
     /** The plan being edited: the saved one, or a start with an outcome and a key predictor to fill in. */
     public String current(StoredAnalysis analysis) {
-        return workspace.plan(analysis.id()).orElseGet(() -> starter(analysis));
+        return workspace.plan(analysis.id()).orElseGet(() -> starter(analysis, workspace.dataFile(analysis.id()).getFileName().toString()));
     }
 
     public boolean saved(StoredAnalysis analysis) {
@@ -93,9 +94,11 @@ public class PlanService {
             throw new PlanException("", "the plan is longer than " + MAX_PLAN_CHARACTERS + " characters");
         }
         Plan plan = new PlanReader(true).read(json, workspace.analysisFolder(analysis.id()));
-        if (!plan.dataFile().equals(workspace.dataFile(analysis.id()).normalize())) {
-            throw new PlanException("data", "this analysis's data file is " + Workspace.DATA + "; the plan must name it "
-                    + "(\"data\": \"" + Workspace.DATA + "\")");
+        Path data = workspace.dataFile(analysis.id());
+        if (!plan.dataFile().equals(data.normalize())) {
+            String name = data.getFileName().toString();
+            throw new PlanException("data", "this analysis's data file is " + name + "; the plan must name it "
+                    + "(\"data\": \"" + name + "\")");
         }
         Table table = analyses.table(analysis);
         PlanChecker.check(plan, table);
@@ -183,10 +186,10 @@ public class PlanService {
         return plan.sampleSize() > 0 ? Math.min(plan.sampleSize(), all) : all;
     }
 
-    private static String starter(StoredAnalysis analysis) {
+    private static String starter(StoredAnalysis analysis, String dataName) {
         Map<String, Object> plan = new LinkedHashMap<>();
         plan.put("title", analysis.title());
-        plan.put("data", Workspace.DATA);
+        plan.put("data", dataName);
                 plan.put("decisions", List.of(emptyDecision("outcome"), emptyDecision("predictor")));
         return Json.MAPPER.writeValueAsString(plan);
     }

@@ -97,7 +97,7 @@ class ErrorAdvice {
                 }
             }
         }
-        return answer(request, HttpStatus.BAD_REQUEST, "file", "the upload could not be read: send the CSV file as "
+        return answer(request, HttpStatus.BAD_REQUEST, "file", "the upload could not be read: send the data file (CSV or Parquet) as "
                 + "the form field \"file\" of a multipart/form-data request");
     }
 

@@ -89,7 +89,7 @@ class AnalysisControllersTest extends WebTest {
                 .andExpect(model().attribute("uploadProblem", "ragged.csv, line 3: expected 2 fields as in the header, found 1"))
                 .andExpect(content().string(containsString("role=\"alert\"")));
         mvc.perform(multipart("/analyses")).andExpect(status().isBadRequest())
-                .andExpect(model().attribute("uploadProblem", "Choose a CSV file to upload."));
+                .andExpect(model().attribute("uploadProblem", "Choose a CSV or Parquet file to upload."));
         assertEquals(before, workspace.analyses().size());
     }
 

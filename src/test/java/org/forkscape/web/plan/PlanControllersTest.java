@@ -129,7 +129,7 @@ class PlanControllersTest extends WebTest {
         mvc.perform(post("/analyses/" + analysis + "/plan").param("plan", "{\"decisions\": []}"))
                 .andExpect(status().isBadRequest()).andExpect(view().name("plan/edit"))
                 .andExpect(content().string(containsString("plan-json-problem")))
-                .andExpect(content().string(containsString("is required: the path of the CSV file")));
+                .andExpect(content().string(containsString("is required: the path of the data (a CSV file, a Parquet file")));
     }
 
     /** The time is measured on this machine, so only its form is checked; a plan that cannot run is a 400. */

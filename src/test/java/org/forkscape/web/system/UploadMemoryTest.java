@@ -16,6 +16,7 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.stream.Stream;
+import org.forkscape.data.ParquetFiles;
 import org.forkscape.run.Workspace;
 import org.junit.jupiter.api.Test;
 import org.springframework.beans.factory.annotation.Autowired;
@@ -105,6 +106,34 @@ class UploadMemoryTest {
         upload("small.csv", csv.toString()).andExpect(status().isCreated())
                 .andExpect(jsonPath("$.analysis.rows").value(2_000));
         assertEquals(0, budget.held());
+    }
+
+    /**
+     * A Parquet file is priced from its footer: 60,000 rows of 4 doubles are 4 final arrays of 480,016 bytes
+     * (1.8 MiB) before its row group, above the limit; 2,000 rows of the same columns read within it.
+     */
+    @Test
+    void aParquetUploadIsPricedFromItsFooterAgainstTheSameLimit() throws Exception {
+        Path dir = Files.createTempDirectory(WORKSPACE, "parquet-");
+        String schema = "message m { required double turnout; required double age; required double distance; "
+                + "required double rainfall; }";
+        java.util.List<java.util.List<Object>> rows = new java.util.ArrayList<>();
+        for (int i = 0; i < 60_000; i++) {
+            rows.add(java.util.List.of(i % 97.0, i % 89.0, i % 7 + 0.5, i % 3.0));
+        }
+        byte[] large = Files.readAllBytes(ParquetFiles.write(dir.resolve("large.parquet"), schema, rows));
+        byte[] small = Files.readAllBytes(ParquetFiles.write(dir.resolve("small.parquet"), schema, rows.subList(0, 2_000)));
+        int before = workspace.analyses().size();
+        mvc.perform(multipart("/api/analyses").file(new MockMultipartFile("file", "wards.parquet",
+                "application/octet-stream", large))).andExpect(status().isInsufficientStorage())
+                .andExpect(jsonPath("$.message").value(startsWith("reading wards.parquet would take about 2 MB of "
+                        + "memory (60,000 rows by 4 columns")));
+        assertEquals(before, workspace.analyses().size());
+        assertEquals(0, budget.held(), "the reservation was released");
+        mvc.perform(multipart("/api/analyses").file(new MockMultipartFile("file", "few.parquet",
+                "application/octet-stream", small))).andExpect(status().isCreated())
+                .andExpect(jsonPath("$.analysis.rows").value(2_000));
+        assertEquals(0, budget.held(), "the reservation was released");
     }
 
     private ResultActions upload(String name, String csv) throws Exception {

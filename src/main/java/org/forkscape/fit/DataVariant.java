@@ -56,6 +56,14 @@ public final class DataVariant {
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
 
     DataVariant(CodedRows coded, CellSums cells) {
+        this(coded, cells, null, Map.of());
+    }
+
+    /**
+     * A variant from statistics summed elsewhere ({@link PartialStatistics#variant}): {@code coded} holds its
+     * shape without rows, and the row-free routes are taken wherever their structures were given.
+     */
+    DataVariant(CodedRows coded, CellSums cells, double[][][] groupTensors, Map<String, ClusterMoments> clusterMoments) {
         this.coded = coded;
         this.layout = coded.layout;
         this.rows = coded.rows;
@@ -71,7 +79,12 @@ public final class DataVariant {
         this.groupMissing = coded.groupMissing;
         this.clusters = coded.clusters;
         this.clusterCounts = coded.clusterCounts;
-        this.statistics = new VariantStatistics(this, cells);
+        this.statistics = coded.held() ? new VariantStatistics(this, cells)
+                : new VariantStatistics(this, cells, groupTensors, clusterMoments);
+        if (!coded.held()) {
+            useFourthMoments = groupTensors != null;
+            useClusterMoments.addAll(clusterMoments.keySet());
+        }
         this.cellCount = statistics.cells.cellCount;
         this.cellSum = statistics.cells.cellSum;
         this.cellCross = statistics.cells.cellCross;
@@ -79,6 +92,11 @@ public final class DataVariant {
 
     public int rowCount() {
         return rows;
+    }
+
+    /** Whether this variant holds its rows (false when it was built from statistics summed elsewhere). */
+    public boolean holdsRows() {
+        return coded.held();
     }
 
     /**
@@ -92,6 +110,10 @@ public final class DataVariant {
      */
     public void expect(long hcSpecifications, Map<String, Long> clusterSpecifications, double meanColumns,
             java.util.concurrent.ExecutorService pool) {
+        if (!coded.held()) {
+            // built from statistics alone: the row-free routes are those whose structures were summed
+            return;
+        }
         useFourthMoments = SandwichRoute.fourthMomentsPay(this, hcSpecifications, meanColumns);
         if (useFourthMoments) {
             statistics.buildGroupTensors(pool);

@@ -28,12 +28,15 @@ final class FixedEffectLevels {
         this.keptAt = keptAt;
     }
 
-    /** The levels of {@code absorbed} (null for none) at the table rows {@code sampled}. */
-    static FixedEffectLevels of(Column absorbed, int[] sampled) {
+    /**
+     * The levels of {@code absorbed} (null for none) at the table rows {@code sampled}; with the codes
+     * present in the whole variant given in {@code whole}, numbered among those.
+     */
+    static FixedEffectLevels of(Column absorbed, int[] sampled, WholeRows whole) {
         if (absorbed == null) {
             return new FixedEffectLevels(null, sampled, new int[sampled.length], 1, null);
         }
-        int[] codes = LevelCodes.of(absorbed);
+        int[] codes = LevelCodes.of(absorbed, whole.groupingValues(absorbed.name()));
         int m = 0;
         for (int i = 0; i < sampled.length; i++) {
             if (codes[sampled[i]] >= 0) {
@@ -52,6 +55,13 @@ final class FixedEffectLevels {
             kept[i] = sampled[keptAt[i]];
         }
         int[] dense = new int[keptAt.length];
+        int[] present = whole.absorbCodes();
+        if (present != null) {
+            for (int i = 0; i < kept.length; i++) {
+                dense[i] = java.util.Arrays.binarySearch(present, codes[kept[i]]);
+            }
+            return new FixedEffectLevels(absorbed.name(), kept, dense, Math.max(1, present.length), keptAt);
+        }
         Map<Integer, Integer> remap = new TreeMap<>();
         for (int r : kept) {
             remap.put(codes[r], 0);
@@ -64,6 +74,12 @@ final class FixedEffectLevels {
             dense[i] = remap.get(codes[kept[i]]);
         }
         return new FixedEffectLevels(absorbed.name(), kept, dense, Math.max(1, next), keptAt);
+    }
+
+    /** The distinct codes of {@code absorbed} at the table rows {@code sampled}, ascending. */
+    static int[] presentCodes(Column absorbed, int[] sampled, WholeRows whole) {
+        int[] codes = LevelCodes.of(absorbed, whole.groupingValues(absorbed.name()));
+        return java.util.Arrays.stream(sampled).map(r -> codes[r]).filter(c -> c >= 0).distinct().sorted().toArray();
     }
 
     /** Replaces each non-null column of {@code columns} (modified), given over the sampled rows, by its kept rows. */

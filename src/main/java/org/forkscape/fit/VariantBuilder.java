@@ -9,9 +9,19 @@ import org.forkscape.data.Column;
  * levels, which drop rows missing it ({@link FixedEffectLevels}), the controls, the cluster codes
  * ({@link ClusterCodes}), the missing-pattern groups ({@link MissingPatterns}) and the level shifts
  * ({@link LevelShifts}): the {@link CodedRows}; then the cell sums of its statistics ({@link CellSums}).
+ * The same steps code one part of a variant's rows when the facts that need all of them are given
+ * ({@link WholeRows}, see {@link VariantByParts}).
  */
 final class VariantBuilder {
     private VariantBuilder() {
+    }
+
+    /** The steps' results over the rows at hand, before they are joined into {@link CodedRows}. */
+    record Coding(FixedEffectLevels levels, LevelShifts shifts, MissingPatterns patterns, ClusterCodes clusters,
+            double[][] recorded) {
+        CodedRows coded(CompiledPlan plan) {
+            return new CodedRows(plan.layout, levels, shifts, patterns, clusters, recorded);
+        }
     }
 
     /**
@@ -21,18 +31,27 @@ final class VariantBuilder {
      * @param pool where to sum row blocks (the result does not depend on it), or null
      */
     static DataVariant build(CompiledPlan plan, VariantKey key, ExecutorService pool) {
-        int[] sampled = RowSelection.of(plan, key);
-        double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()));
-        Column absorbed = key.absorbChoice() < 0 ? null : plan.absorbColumns[key.absorbChoice()];
-        FixedEffectLevels levels = FixedEffectLevels.of(absorbed, sampled);
+        CodedRows coded = code(plan, key, WholeRows.NONE).coded(plan);
+        return new DataVariant(coded, new CellSums(coded, pool));
+    }
+
+    /** Codes the variant's rows of {@code plan}'s table, taking from {@code whole} the facts it gives. */
+    static Coding code(CompiledPlan plan, VariantKey key, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()), whole);
+        FixedEffectLevels levels = FixedEffectLevels.of(absorbed(plan, key), sampled, whole);
         levels.compact(raw);
         ColumnCoding.controls(plan, levels.tableRows, raw);
-        ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows);
+        ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows, whole);
         MissingPatterns patterns = new MissingPatterns(plan, raw, clusters, levels.tableRows.length);
         double[][] recorded = plan.generalized ? recorded(plan, raw) : null;
-        LevelShifts shifts = new LevelShifts(raw, levels);
-        CodedRows coded = new CodedRows(plan.layout, levels, shifts, patterns, clusters, recorded);
-        return new DataVariant(coded, new CellSums(coded, pool));
+        LevelShifts shifts = new LevelShifts(raw, levels, whole);
+        return new Coding(levels, shifts, patterns, clusters, recorded);
+    }
+
+    /** The column the variant absorbs, or null. */
+    static Column absorbed(CompiledPlan plan, VariantKey key) {
+        return key.absorbChoice() < 0 ? null : plan.absorbColumns[key.absorbChoice()];
     }
 
     /**

@@ -1,0 +1,215 @@
+package org.forkscape.fit;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.forkscape.data.Column;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.SampleRule;
+import org.forkscape.plan.Transform;
+import org.forkscape.data.Table;
+
+/**
+ * A data variant built from parts of its table (the partitions of a table held on a cluster) by the same
+ * coding steps as {@link VariantBuilder}: each part reports what the whole must decide ({@code *Facts},
+ * summed or merged across parts), the whole's decisions are handed back to every part as
+ * {@link WholeRows}, in the order the steps need them (each trim rule, then the transforms and the fixed
+ * effect's levels, then the level shifts), and each part finally sums its cells
+ * ({@link PartialStatistics}), which add up to the variant's statistics ({@link #variant}). A part's
+ * instance is built over the part's rows; the instance that decides is built over a table with the same
+ * columns and levels and no rows. The rows never leave their part.
+ */
+public final class VariantByParts {
+    private final CompiledPlan plan;
+    private final Plan source;
+
+    /** @param table one part's rows, or (to decide and to build the variant) the columns with no rows */
+    public VariantByParts(Plan plan, Table table) {
+        this.plan = new CompiledPlan(plan, table);
+        this.source = plan;
+    }
+
+    // ---- what a part reports
+
+    /** {count, mean, sum of squared deviations} of sample decision {@code sample}'s trim column over the rows kept before it. */
+    public double[] trimFacts(VariantKey key, int sample, WholeRows whole) {
+        boolean[] keep = RowSelection.kept(plan, key, sample, whole);
+        SampleRule.TrimRows t = (SampleRule.TrimRows) rule(key, sample);
+        return RowSelection.trimMoments(plan.table.column(t.column()), keep);
+    }
+
+    /**
+     * Per model column, for each outcome and predictor alternative whose transform depends on the data, its
+     * facts over the variant's rows ({@link Transforms#facts}); null entries elsewhere.
+     */
+    public double[][] transformFacts(VariantKey key, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        double[][] facts = new double[plan.layout.size()][];
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            facts[v.modelColumn()] = Transforms.facts(v.column(), v.transform(), sampled);
+        }
+        return facts;
+    }
+
+    /** The absorbed column's codes present in the variant's rows, ascending (empty when it absorbs nothing). */
+    public int[] absorbCodes(VariantKey key, WholeRows whole) {
+        Column absorbed = VariantBuilder.absorbed(plan, key);
+        return absorbed == null ? new int[0] : FixedEffectLevels.presentCodes(absorbed, RowSelection.of(plan, key,
+                whole), whole);
+    }
+
+    /** The non-missing values of the winsorized alternative at {@code modelColumn} in the variant's rows. */
+    public double[] winsorizeValues(VariantKey key, int modelColumn, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        CompiledPlan.CodedVariable v = alternative(modelColumn);
+        double[] x = Transforms.apply(v.column(), Transform.NONE, sampled, v.transformPath(), "");
+        return java.util.Arrays.stream(x).filter(d -> !Double.isNaN(d)).toArray();
+    }
+
+    /** Per level and model column: {count of non-missing values, their mean} in this part's rows of the variant. */
+    public double[][][] shiftFacts(VariantKey key, WholeRows whole) {
+        LevelShifts shifts = VariantBuilder.code(plan, key, whole.withLevelShift(null)).shifts();
+        double[][][] facts = new double[shifts.levelShift.length][shifts.levelShift[0].length][];
+        for (int l = 0; l < facts.length; l++) {
+            for (int j = 0; j < facts[l].length; j++) {
+                facts[l][j] = new double[] {shifts.nonMissing[l][j], shifts.levelShift[l][j]};
+            }
+        }
+        return facts;
+    }
+
+    /** Two parts' shift facts as one (either may be null): counts add, means by the pairwise update. */
+    public static double[][][] mergeShiftFacts(double[][][] a, double[][][] b) {
+        if (a == null || b == null) {
+            return a == null ? b : a;
+        }
+        double[][][] out = new double[a.length][a[0].length][];
+        for (int l = 0; l < a.length; l++) {
+            for (int j = 0; j < a[l].length; j++) {
+                double n = a[l][j][0] + b[l][j][0];
+                double mean = n == 0 ? 0 : a[l][j][1] + (b[l][j][1] - a[l][j][1]) * b[l][j][0] / n;
+                out[l][j] = new double[] {n, mean};
+            }
+        }
+        return out;
+    }
+
+    /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
+    public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        DataVariant part = new DataVariant(coded, new CellSums(coded, null));
+        List<String> clusters = new ArrayList<>();
+        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+            clusters.add(c.column().name());
+        }
+        return PartialStatistics.of(part, withTensors, clusters);
+    }
+
+    // ---- what the whole decides
+
+    /** The sample decisions (positions among them) whose chosen alternative in {@code key} is a trim, in order. */
+    public int[] trimSamples(VariantKey key) {
+        List<Integer> out = new ArrayList<>();
+        for (int s = 0; s < plan.samples.length; s++) {
+            if (rule(key, s) instanceof SampleRule.TrimRows) {
+                out.add(s);
+            }
+        }
+        return out.stream().mapToInt(Integer::intValue).toArray();
+    }
+
+    /** With the trim of sample decision {@code sample} from every part's merged facts, refused as the engine refuses it. */
+    public WholeRows withTrim(VariantKey key, int sample, double[] facts, WholeRows whole) {
+        SampleRule.TrimRows t = (SampleRule.TrimRows) rule(key, sample);
+        long n = (long) facts[0];
+        double sd = n > 1 ? Math.sqrt(facts[2] / (n - 1)) : 0;
+        RowSelection.requireSpread(t.column(), n, sd, "decisions[" + plan.sampleAt[sample] + "].alternatives["
+                + key.sampleChoices()[sample] + "].trim");
+        return whole.withTrim(sample, facts[1], sd);
+    }
+
+    /** With every standardize's mean and spread from the merged facts; a transform that cannot apply is refused here. */
+    public WholeRows withTransforms(VariantKey key, double[][] facts, WholeRows whole) {
+        WholeRows out = whole;
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            double[] given = Transforms.check(v.column().name(), v.transform(), facts[v.modelColumn()],
+                    v.transformPath(), plan.describeRows(key.sampleChoices()));
+            if (given != null) {
+                out = out.withStandardize(v.modelColumn(), given[0], given[1]);
+            }
+        }
+        return out;
+    }
+
+    /** Model columns of the winsorized outcome and predictor alternatives, with their fractions. */
+    public List<double[]> winsorized() {
+        List<double[]> out = new ArrayList<>();
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            if (v.transform() instanceof Transform.Winsorize w) {
+                out.add(new double[] {v.modelColumn(), w.fraction()});
+            }
+        }
+        return out;
+    }
+
+    /** With the level shifts from every part's merged {@link #shiftFacts}. */
+    public WholeRows withShifts(double[][][] facts, WholeRows whole) {
+        double[][] shift = new double[facts.length][facts[0].length];
+        for (int l = 0; l < facts.length; l++) {
+            for (int j = 0; j < facts[l].length; j++) {
+                shift[l][j] = facts[l][j][0] == 0 ? 0 : facts[l][j][1];
+            }
+        }
+        return whole.withLevelShift(shift);
+    }
+
+    /**
+     * Whether the variant's specifications need the fourth-moment tensors: some error type is HC0 or HC1
+     * and the variant absorbs nothing (the tensors' route does not cover absorbed fixed effects).
+     */
+    public boolean wantsTensors(VariantKey key) {
+        if (VariantBuilder.absorbed(plan, key) != null) {
+            return false;
+        }
+        for (ErrorType e : plan.errorTypes) {
+            if (e.kind() == ErrorType.Kind.HC0 || e.kind() == ErrorType.Kind.HC1) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Whether the tensors of {@code groups} missing patterns stay within the engine's memory bound for them. */
+    public boolean tensorsFit(int groups) {
+        long perGroup = FourthMoments.distinctFourth(plan.layout.size()) + FourthMoments.distinctThird(plan.layout.size());
+        return perGroup * groups <= SandwichRoute.MAX_TENSOR_DOUBLES;
+    }
+
+    /** The variant the solvers read, from the sum of every part's statistics and the facts they shared. */
+    public DataVariant variant(VariantKey key, WholeRows whole, PartialStatistics sum) {
+        Column absorbed = VariantBuilder.absorbed(plan, key);
+        int levels = absorbed == null ? 1 : Math.max(1, whole.absorbCodes().length);
+        return sum.variant(plan.layout, levels, absorbed == null ? null : absorbed.name(), whole.levelShift());
+    }
+
+    /** The plan this was compiled from. */
+    public Plan plan() {
+        return source;
+    }
+
+    private SampleRule rule(VariantKey key, int sample) {
+        Decision.Sample d = plan.samples[sample];
+        return d.alternatives().get(key.sampleChoices()[sample]);
+    }
+
+    private List<CompiledPlan.CodedVariable> alternatives() {
+        List<CompiledPlan.CodedVariable> all = new ArrayList<>(List.of(plan.outcomes));
+        all.addAll(List.of(plan.predictors));
+        return all;
+    }
+
+    private CompiledPlan.CodedVariable alternative(int modelColumn) {
+        return alternatives().stream().filter(v -> v.modelColumn() == modelColumn).findFirst().orElseThrow();
+    }
+}

@@ -1,0 +1,36 @@
+package org.forkscape.run;
+
+import org.forkscape.data.Table;
+import org.forkscape.fit.VariantSource;
+import org.forkscape.plan.Plan;
+
+/**
+ * Where the batch command's run takes its data from: the table the plan is checked against, and where its
+ * data variants are built. {@link #IN_MEMORY} reads the plan's CSV file into memory and codes every variant
+ * from its rows; a runner that keeps the rows elsewhere (on a cluster) gives a table of the columns with no
+ * rows, refuses the plan features it cannot compute, and builds the variants from statistics summed where
+ * the rows are.
+ */
+public interface RunData {
+    /** The plan's data file read into memory, its variants coded from the rows. */
+    RunData IN_MEMORY = new RunData() {
+        @Override
+        public Table table(Plan plan) {
+            return new org.forkscape.data.CsvTableReader().read(plan.dataFile());
+        }
+
+        @Override
+        public VariantSource variants(Plan plan, Table table) {
+            return null;
+        }
+    };
+
+    /** The table the plan is checked against; with {@link #variants} not null its rows may be absent. */
+    Table table(Plan plan);
+
+    /**
+     * Where the variants come from, or null to code them from the table's rows; a plan that cannot run on
+     * this data is refused here ({@link org.forkscape.InputException} at its JSON path).
+     */
+    VariantSource variants(Plan plan, Table table);
+}

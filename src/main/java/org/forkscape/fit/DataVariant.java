@@ -94,6 +94,11 @@ public final class DataVariant {
         return rows;
     }
 
+    /** Number of missing-value patterns among the variant's rows. */
+    public int groupCount() {
+        return groupMissing.length;
+    }
+
     /** Whether this variant holds its rows (false when it was built from statistics summed elsewhere). */
     public boolean holdsRows() {
         return coded.held();

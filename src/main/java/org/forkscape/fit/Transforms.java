@@ -156,7 +156,7 @@ final class Transforms {
      * Golub &amp; LeVeque (1983), "Algorithms for computing the sample variance: analysis and
      * recommendations", The American Statistician 37(3). Either may be null.
      */
-    public static double[] mergeFacts(double[] a, double[] b) {
+    static double[] mergeFacts(double[] a, double[] b) {
         if (a == null) {
             return b == null ? null : b.clone();
         }

@@ -79,6 +79,11 @@ public final class VariantByParts {
         return facts;
     }
 
+    /** Two parts' facts of a trim or transform as one (either may be null); see {@link Transforms#mergeFacts}. */
+    public static double[] mergeFacts(double[] a, double[] b) {
+        return Transforms.mergeFacts(a, b);
+    }
+
     /** Two parts' shift facts as one (either may be null): counts add, means by the pairwise update. */
     public static double[][][] mergeShiftFacts(double[][][] a, double[][][] b) {
         if (a == null || b == null) {

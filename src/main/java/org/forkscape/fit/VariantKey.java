@@ -6,7 +6,7 @@ import java.util.Arrays;
  * Which data variant: the chosen alternative of each sample decision (in declared order) and of the
  * absorb decision (-1 when the plan has none).
  */
-public record VariantKey(int[] sampleChoices, int absorbChoice) {
+public record VariantKey(int[] sampleChoices, int absorbChoice) implements java.io.Serializable {
     public VariantKey {
         sampleChoices = sampleChoices.clone();
     }

@@ -102,7 +102,7 @@ final class RunCommand {
         try (ResultFolder results = ResultFolder.open(folder)) {
             try {
                 completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
-                        plan.dataFile(), lock), results.staging(), (run, progress, cancel) -> InferenceSections
+                        data.hashedFile(plan), lock), results.staging(), (run, progress, cancel) -> InferenceSections
                         .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
             } catch (InputException e) {
                 throw located(planName, e);

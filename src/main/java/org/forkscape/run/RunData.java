@@ -33,4 +33,12 @@ public interface RunData {
      * this data is refused here ({@link org.forkscape.InputException} at its JSON path).
      */
     VariantSource variants(Plan plan, Table table);
+
+    /**
+     * The file whose SHA-256 summary.json's provenance records as {@code data_sha256}, or null when the data
+     * are not read through this machine (then it is null).
+     */
+    default java.nio.file.Path hashedFile(Plan plan) {
+        return plan.dataFile();
+    }
 }

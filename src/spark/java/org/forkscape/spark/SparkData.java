@@ -118,6 +118,12 @@ final class SparkData implements RunData {
         return new SparkVariants(spark, parts, planText, planFolder, plan, table, grouping);
     }
 
+    /** No hash: the data are not read through the driver (summary.json's data_sha256 is null). */
+    @Override
+    public Path hashedFile(Plan plan) {
+        return null;
+    }
+
     private static String firstLine(Throwable e) {
         String m = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
         int nl = m.indexOf('\n');

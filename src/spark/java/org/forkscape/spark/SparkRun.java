@@ -69,13 +69,15 @@ public final class SparkRun {
             builder.master("local[*]");
         }
         SparkSession spark;
+        // a session already running in this JVM (a test's) is used and left running
+        boolean running = SparkSession.getActiveSession().isDefined() || SparkSession.getDefaultSession().isDefined();
         try {
             spark = builder.getOrCreate();
         } catch (RuntimeException e) {
             return usage("Spark did not start" + (master == null ? "" : " with --master " + master) + ": "
                     + e.getMessage());
         }
-        if (!submitted) {
+        if (!submitted && !running) {
             // on one machine Spark's progress lines go down to warnings; under spark-submit the cluster's settings stay
             spark.sparkContext().setLogLevel("WARN");
         }
@@ -86,7 +88,9 @@ public final class SparkRun {
             return CommandLine.run(command.toArray(new String[0]), System.out, System.err,
                     new SparkData(spark, data, partitions, planText, plan.getParent()));
         } finally {
-            spark.stop();
+            if (!running) {
+                spark.stop();
+            }
         }
     }
 

@@ -113,8 +113,64 @@ public final class VariantByParts {
 
     // ---- what the whole decides
 
+    /**
+     * Builds the variant {@code key} from {@code parts}, in the order its steps need the whole's facts: each
+     * trim rule (its column's mean and spread over the rows kept before it), the transforms' statistics, each
+     * winsorize's quantiles, the fixed effect's levels present, the level shifts, and last the sufficient
+     * statistics. Plan errors that only the data reveal are thrown as on one machine.
+     *
+     * @param grouping the sorted values of the numeric grouping columns over the whole table
+     */
+    public DataVariant build(VariantKey key, WholeRows grouping, VariantParts parts) {
+        WholeRows facts = grouping;
+        for (int s : trimSamples(key)) {
+            WholeRows given = facts;
+            facts = withTrim(key, s, parts.reduce(part -> part.trimFacts(key, s, given), VariantByParts::mergeFacts),
+                    facts);
+        }
+        WholeRows sampled = facts;
+        facts = withTransforms(key, parts.reduce(part -> part.transformFacts(key, sampled), VariantByParts::mergeAll),
+                facts);
+        for (double[] w : winsorized()) {
+            int column = (int) w[0];
+            WholeRows given = facts;
+            double[] q = parts.quantiles(part -> part.winsorizeValues(key, column, given), w[1], 1 - w[1]);
+            facts = facts.withWinsorize(column, q[0], q[1]);
+        }
+        WholeRows coded = facts;
+        int[] codes = parts.reduce(part -> part.absorbCodes(key, coded), VariantByParts::union);
+        facts = facts.withAbsorbCodes(codes == null ? new int[0] : codes);
+        WholeRows levelled = facts;
+        facts = withShifts(parts.reduce(part -> part.shiftFacts(key, levelled), VariantByParts::mergeShiftFacts),
+                facts);
+        WholeRows shifted = facts;
+        boolean tensors = wantsTensors(key);
+        PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
+        DataVariant variant = variant(key, facts, sum);
+        if (tensors && !tensorsFit(variant.groupCount())) {
+            throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
+                    + "the rows are above the engine's memory bound for them (" + variant.groupCount()
+                    + " missing-value patterns of " + variant.layout().size() + " columns); run this plan on one "
+                    + "machine (forkscape.jar run)");
+        }
+        return variant;
+    }
+
+    private static double[][] mergeAll(double[][] a, double[][] b) {
+        double[][] out = new double[a.length][];
+        for (int j = 0; j < a.length; j++) {
+            out[j] = Transforms.mergeFacts(a[j], b[j]);
+        }
+        return out;
+    }
+
+    private static int[] union(int[] a, int[] b) {
+        return java.util.stream.IntStream.concat(java.util.stream.IntStream.of(a), java.util.stream.IntStream.of(b))
+                .distinct().sorted().toArray();
+    }
+
     /** The sample decisions (positions among them) whose chosen alternative in {@code key} is a trim, in order. */
-    public int[] trimSamples(VariantKey key) {
+    int[] trimSamples(VariantKey key) {
         List<Integer> out = new ArrayList<>();
         for (int s = 0; s < plan.samples.length; s++) {
             if (rule(key, s) instanceof SampleRule.TrimRows) {
@@ -125,7 +181,7 @@ public final class VariantByParts {
     }
 
     /** With the trim of sample decision {@code sample} from every part's merged facts, refused as the engine refuses it. */
-    public WholeRows withTrim(VariantKey key, int sample, double[] facts, WholeRows whole) {
+    WholeRows withTrim(VariantKey key, int sample, double[] facts, WholeRows whole) {
         SampleRule.TrimRows t = (SampleRule.TrimRows) rule(key, sample);
         long n = (long) facts[0];
         double sd = n > 1 ? Math.sqrt(facts[2] / (n - 1)) : 0;
@@ -135,7 +191,7 @@ public final class VariantByParts {
     }
 
     /** With every standardize's mean and spread from the merged facts; a transform that cannot apply is refused here. */
-    public WholeRows withTransforms(VariantKey key, double[][] facts, WholeRows whole) {
+    WholeRows withTransforms(VariantKey key, double[][] facts, WholeRows whole) {
         WholeRows out = whole;
         for (CompiledPlan.CodedVariable v : alternatives()) {
             double[] given = Transforms.check(v.column().name(), v.transform(), facts[v.modelColumn()],
@@ -148,7 +204,7 @@ public final class VariantByParts {
     }
 
     /** Model columns of the winsorized outcome and predictor alternatives, with their fractions. */
-    public List<double[]> winsorized() {
+    List<double[]> winsorized() {
         List<double[]> out = new ArrayList<>();
         for (CompiledPlan.CodedVariable v : alternatives()) {
             if (v.transform() instanceof Transform.Winsorize w) {
@@ -159,7 +215,7 @@ public final class VariantByParts {
     }
 
     /** With the level shifts from every part's merged {@link #shiftFacts}. */
-    public WholeRows withShifts(double[][][] facts, WholeRows whole) {
+    WholeRows withShifts(double[][][] facts, WholeRows whole) {
         double[][] shift = new double[facts.length][facts[0].length];
         for (int l = 0; l < facts.length; l++) {
             for (int j = 0; j < facts[l].length; j++) {
@@ -173,7 +229,7 @@ public final class VariantByParts {
      * Whether the variant's specifications need the fourth-moment tensors: some error type is HC0 or HC1
      * and the variant absorbs nothing (the tensors' route does not cover absorbed fixed effects).
      */
-    public boolean wantsTensors(VariantKey key) {
+    boolean wantsTensors(VariantKey key) {
         if (VariantBuilder.absorbed(plan, key) != null) {
             return false;
         }
@@ -186,13 +242,13 @@ public final class VariantByParts {
     }
 
     /** Whether the tensors of {@code groups} missing patterns stay within the engine's memory bound for them. */
-    public boolean tensorsFit(int groups) {
+    boolean tensorsFit(int groups) {
         long perGroup = FourthMoments.distinctFourth(plan.layout.size()) + FourthMoments.distinctThird(plan.layout.size());
         return perGroup * groups <= SandwichRoute.MAX_TENSOR_DOUBLES;
     }
 
     /** The variant the solvers read, from the sum of every part's statistics and the facts they shared. */
-    public DataVariant variant(VariantKey key, WholeRows whole, PartialStatistics sum) {
+    DataVariant variant(VariantKey key, WholeRows whole, PartialStatistics sum) {
         Column absorbed = VariantBuilder.absorbed(plan, key);
         int levels = absorbed == null ? 1 : Math.max(1, whole.absorbCodes().length);
         return sum.variant(plan.layout, levels, absorbed == null ? null : absorbed.name(), whole.levelShift());

@@ -16,6 +16,7 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import org.apache.spark.sql.SparkSession;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
+import org.forkscape.fit.PlanEdits;
 import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
@@ -30,10 +31,6 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
-import tools.jackson.databind.JsonNode;
-import tools.jackson.databind.ObjectMapper;
-import tools.jackson.databind.node.ArrayNode;
-import tools.jackson.databind.node.ObjectNode;
 
 /**
  * The Spark runner in local mode against the single-machine engine on the same data, read from CSV there
@@ -81,7 +78,7 @@ class SparkParityTest {
     @ParameterizedTest(name = "{0} partitions")
     @ValueSource(ints = {1, 3, 8})
     void toothGrowthEqualsTheEngineAndR(int partitions) throws IOException {
-        String planText = withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
+        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
                 "errors", List.of("HC3"));
         Comparison c = compare(planText, REFERENCE, toothParquet, partitions);
         assertTrue(c.spark.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0
@@ -114,8 +111,7 @@ class SparkParityTest {
     @ParameterizedTest(name = "{0} partitions")
     @ValueSource(ints = {1, 3, 8})
     void demoPlanEqualsTheEngine(int partitions) throws IOException {
-        String planText = withoutZoneControl(withoutAlternatives(Files.readString(SAMPLE.resolve("civic-demo.plan.json")),
-                "standard errors", List.of("HC1", "HC3")));
+        String planText = PlanEdits.demoFromStatistics(Files.readString(SAMPLE.resolve("civic-demo.plan.json")));
         Comparison c = compare(planText, SAMPLE, demoParquet, partitions);
         assertTrue(c.spark.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster cells on Spark: "
                 + c.spark.routes());
@@ -124,7 +120,7 @@ class SparkParityTest {
 
     @Test
     void theSameBitsEveryTimeForTheSamePartitioning() throws IOException {
-        String planText = withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
+        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
                 "errors", List.of("HC3"));
         RunResult first = sparkRun(planText, REFERENCE, toothParquet, 3);
         RunResult second = sparkRun(planText, REFERENCE, toothParquet, 3);
@@ -188,39 +184,6 @@ class SparkParityTest {
         double relative = Math.abs(actual - expected) / Math.max(Math.abs(expected), Double.MIN_NORMAL);
         assertTrue(relative <= tolerance, what + ": " + actual + " against " + expected + ", relative " + relative);
         return relative;
-    }
-
-    /** The plan text with the named alternatives taken out of the named decision. */
-    static String withoutAlternatives(String planText, String decision, List<String> labels) {
-        ObjectMapper json = new ObjectMapper();
-        ObjectNode root = (ObjectNode) json.readTree(planText);
-        for (JsonNode d : root.get("decisions")) {
-            if (d.get("name").asString().equals(decision)) {
-                ArrayNode kept = json.createArrayNode();
-                for (JsonNode alt : d.get("alternatives")) {
-                    if (!labels.contains(alt.asString())) {
-                        kept.add(alt);
-                    }
-                }
-                ((ObjectNode) d).set("alternatives", kept);
-            }
-        }
-        return json.writeValueAsString(root);
-    }
-
-    /** The demo plan's "school context" sets without the zone (class size alone). */
-    static String withoutZoneControl(String planText) {
-        ObjectMapper json = new ObjectMapper();
-        ObjectNode root = (ObjectNode) json.readTree(planText);
-        for (JsonNode d : root.get("decisions")) {
-            if (d.get("name").asString().equals("school context")) {
-                ObjectNode sets = json.createObjectNode();
-                sets.set("none", json.createArrayNode());
-                sets.set("class size", json.createArrayNode().add("class_size"));
-                ((ObjectNode) d).set("sets", sets);
-            }
-        }
-        return json.writeValueAsString(root);
     }
 
     static void report(String name, double[] worst) {

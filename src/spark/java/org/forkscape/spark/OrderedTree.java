@@ -1,12 +1,12 @@
 package org.forkscape.spark;
 
-import java.io.Serializable;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.Iterator;
 import java.util.List;
 import org.apache.spark.api.java.JavaPairRDD;
 import org.apache.spark.api.java.JavaRDD;
+import org.forkscape.fit.VariantParts.Merge;
 import scala.Tuple2;
 
 /**
@@ -19,11 +19,6 @@ import scala.Tuple2;
 final class OrderedTree {
     /** Partial results merged by one task per level. */
     static final int FAN_IN = 8;
-
-    /** How two partial results become one: may modify and return the first. */
-    interface Merge<T> extends Serializable {
-        T apply(T a, T b);
-    }
 
     private OrderedTree() {
     }

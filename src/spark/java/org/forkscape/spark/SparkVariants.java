@@ -11,6 +11,7 @@ import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
+import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.VariantByParts;
@@ -55,9 +56,22 @@ final class SparkVariants implements VariantSource, VariantParts {
         this.grouping = grouping;
     }
 
+    /**
+     * The variant {@code key}; a plan problem raised in a task on an executor (which Spark reports wrapped in
+     * its own exception) is rethrown as the problem itself, so that the user sees the plan's message.
+     */
     @Override
     public synchronized DataVariant variant(VariantKey key, ExecutorService pool) {
-        return built.computeIfAbsent(key, k -> whole.build(k, grouping, this));
+        try {
+            return built.computeIfAbsent(key, k -> whole.build(k, grouping, this));
+        } catch (RuntimeException e) {
+            for (Throwable t = e.getCause(); t != null; t = t.getCause()) {
+                if (t instanceof InputException problem) {
+                    throw problem;
+                }
+            }
+            throw e;
+        }
     }
 
     @Override

@@ -57,8 +57,10 @@ public final class SparkRun {
             return usage("--partitions must be a whole number of 1 or more; " + USAGE);
         } catch (IllegalArgumentException e) {
             return usage(e.getMessage());
+        } catch (java.nio.file.NoSuchFileException e) {
+            return usage(rest.get(0) + ": no such plan file");
         } catch (IOException e) {
-            return usage(rest.get(0) + ": cannot be read (" + e.getMessage() + ")");
+            return usage(rest.get(0) + ": the plan file cannot be read (" + e.getMessage() + ")");
         }
         boolean submitted = System.getProperty("spark.master") != null;
         SparkSession.Builder builder = SparkSession.builder().appName("forkscape run " + plan.getFileName())

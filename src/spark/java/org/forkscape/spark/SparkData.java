@@ -124,8 +124,13 @@ final class SparkData implements RunData {
         return null;
     }
 
+    /** The first line of the innermost cause's message: the reader's own words, not Spark's job report. */
     private static String firstLine(Throwable e) {
-        String m = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+        Throwable root = e;
+        while (root.getCause() != null && root.getCause() != root) {
+            root = root.getCause();
+        }
+        String m = root.getMessage() == null ? root.getClass().getSimpleName() : root.getMessage();
         int nl = m.indexOf('\n');
         return nl < 0 ? m : m.substring(0, nl);
     }

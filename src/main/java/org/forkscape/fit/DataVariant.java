@@ -51,6 +51,11 @@ public final class DataVariant {
     final Map<String, Integer> clusterCounts;
     /** Where each generalized linear fit of this variant starts, and the fits already made. */
     final GlmStarts glmStarts = new GlmStarts();
+    /**
+     * For a variant without rows: how its rows are reduced for a QR refit where they are held (set by
+     * {@link VariantByParts#build}); null when no refit can be made.
+     */
+    volatile RefitReduction refitReduction;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
@@ -92,6 +97,11 @@ public final class DataVariant {
 
     public int rowCount() {
         return rows;
+    }
+
+    /** A QR refit's rows reduced where the rows are held: the factor R of the usable rows' [X y]. */
+    interface RefitReduction {
+        DesignRows rows(Moments mom, int[] cols, int y);
     }
 
     /** Number of missing-value patterns among the variant's rows. */

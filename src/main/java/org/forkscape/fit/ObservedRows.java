@@ -29,6 +29,10 @@ public final class ObservedRows implements FitData {
 
     @Override
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
+        if (!variant.holdsRows() && variant.refitReduction != null) {
+            // the rows are held elsewhere: their triangular factor, reduced there, stands for them
+            return variant.refitReduction.rows(mom, cols, y);
+        }
         requireRows("the precision guard's QR refit (its cross-product matrix is too poorly conditioned to solve "
                 + "from sums)");
         rows.fill(mom, cols, y, clusterCodes(errors));

@@ -147,6 +147,7 @@ public final class VariantByParts {
         boolean tensors = wantsTensors(key);
         PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
         DataVariant variant = variant(key, facts, sum);
+        variant.refitReduction = (mom, cols, y) -> refitRows(key, shifted, variant, mom, cols, y, parts);
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
                     + "the rows are above the engine's memory bound for them (" + variant.groupCount()
@@ -154,6 +155,72 @@ public final class VariantByParts {
                     + "machine (forkscape.jar run)");
         }
         return variant;
+    }
+
+    /**
+     * A QR refit's rows from the parts: each part reduces its usable rows' [X y] in within coordinates to
+     * its triangular factor, and the factors are stacked and factored again, the tall-skinny QR of Demmel,
+     * Grigori, Hoemmen &amp; Langou (2012), "Communication-optimal parallel and sequential QR and LU
+     * factorizations", SIAM Journal on Scientific Computing 34(1). One pass over the parts' rows per refit.
+     */
+    private static DesignRows refitRows(VariantKey key, WholeRows whole, DataVariant variant, Moments mom,
+            int[] cols, int y, VariantParts parts) {
+        long[] usable = mom.usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).toArray();
+        double[][] offsets = mom.levelMeanOffset;
+        int[] columns = cols.clone();
+        double[][] factor = parts.reduce(part -> part.refitFactor(key, whole, usable, offsets, columns, y),
+                VariantByParts::stackedFactor);
+        return DesignRows.ofFactor(factor == null ? new double[0][] : factor, cols.length);
+    }
+
+    /**
+     * This part's rows among the usable missing patterns ({@code usableMasks}), columns {@code cols} and the
+     * outcome {@code y} in within coordinates (minus {@code offsets}, the usable rows' level means around the
+     * shifts), reduced to their triangular factor (at most cols.length + 1 rows).
+     */
+    public double[][] refitFactor(VariantKey key, WholeRows whole, long[] usableMasks, double[][] offsets, int[] cols,
+            int y) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        java.util.Set<Long> usable = new java.util.HashSet<>();
+        for (long m : usableMasks) {
+            usable.add(m);
+        }
+        List<double[]> rows = new ArrayList<>();
+        for (int r = 0; r < coded.rows; r++) {
+            if (!usable.contains(coded.groupMissing[coded.group[r]])) {
+                continue;
+            }
+            double[] off = offsets[coded.level[r]];
+            double[] row = new double[cols.length + 1];
+            for (int j = 0; j < cols.length; j++) {
+                row[j] = coded.shifted[cols[j]][r] - off[cols[j]];
+            }
+            row[cols.length] = coded.shifted[y][r] - off[y];
+            rows.add(row);
+        }
+        return triangular(rows.toArray(new double[0][]));
+    }
+
+    /** Two parts' factors as one: stacked, and factored again when that leaves more rows than columns. */
+    static double[][] stackedFactor(double[][] a, double[][] b) {
+        double[][] both = new double[a.length + b.length][];
+        System.arraycopy(a, 0, both, 0, a.length);
+        System.arraycopy(b, 0, both, a.length, b.length);
+        return triangular(both);
+    }
+
+    /**
+     * The triangular factor R of {@code rows} by Householder QR (Commons Math's {@code QRDecomposition}),
+     * its first min(m, n) rows; rows no more numerous than columns are returned as they are.
+     */
+    private static double[][] triangular(double[][] rows) {
+        if (rows.length == 0 || rows.length <= rows[0].length) {
+            return rows;
+        }
+        int n = rows[0].length;
+        double[][] r = new org.apache.commons.math3.linear.QRDecomposition(
+                new org.apache.commons.math3.linear.Array2DRowRealMatrix(rows, false), 0).getR().getData();
+        return java.util.Arrays.copyOf(r, n);
     }
 
     private static double[][] mergeAll(double[][] a, double[][] b) {

@@ -37,12 +37,14 @@ import org.junit.jupiter.params.provider.ValueSource;
  * and from a Parquet copy written by Spark here: every specification's estimate, standard error and p-value
  * within {@value #RELATIVE} relative (the two sum the same cells in a different order, and the level
  * shifts are merged means rather than one mean; the largest difference measured is written to
- * {@code target/spark-reports/}), and the counts exact. Two plans: the ToothGrowth reference plan of
+ * {@code target/spark-reports/}), and the counts exact. Three plans: the AirQuality reference plan without
+ * HC2 and HC3, whose constant Month dummies send some specifications to the precision guard's QR refit, made
+ * here from the partitions' triangular factors (at 3 partitions, also against R); the ToothGrowth reference plan of
  * {@code src/test/r/make-reference.R} without its HC3 alternative (refused on Spark), also held against R's
  * lm() with sandwich (toothgrowth-expected.csv, same tolerance as {@code RLmSandwichReferenceTest}); and the
- * demo plan with what Spark refuses taken out: HC1 and HC3 with absorbed fixed effects, and the zone
- * control, which is collinear with the absorbed zone and so sends its specifications to the precision
- * guard's QR refit. It still has a log, a standardize, a winsorize, a trim, a keep rule, missing cells, an
+ * demo plan with what Spark refuses taken out (HC1 and HC3 with absorbed fixed effects) and without the zone
+ * control, whose collinearity with the absorbed zone would make 576 QR refits, one Spark job each, too slow
+ * for a unit test (the refits from parts are checked on this plan by {@code fit.VariantByPartsTest}). It still has a log, a standardize, a winsorize, a trim, a keep rule, missing cells, an
  * absorbed fixed effect and cluster errors. Each at 1, 3 and 8 partitions.
  */
 class SparkParityTest {
@@ -105,6 +107,38 @@ class SparkParityTest {
             assertClose(Double.parseDouble(row.get("std_error")), r.stdError(slot), R_RELATIVE, where + " std_error");
             assertClose(Double.parseDouble(row.get("p_value")), r.pValue(slot), R_RELATIVE, where + " p_value");
             assertEquals(Integer.parseInt(row.get("n_obs")), r.nObs(slot), where + " n_obs");
+        }
+    }
+
+    @Test
+    void airqualityWithQrRefitsEqualsTheEngineAndR() throws IOException {
+        Path parquet = ParquetCopy.write(spark, new CsvTableReader().read(REFERENCE.resolve("airquality.csv")),
+                folder.resolve("airquality.parquet"), 3);
+        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("airquality-plan.json")),
+                "errors", List.of("HC2", "HC3"));
+        Comparison c = compare(planText, REFERENCE, parquet, 3);
+        assertTrue(c.spark.refitByQr() > 0 && c.spark.refitByQr() < c.spark.results().size(), c.spark.refitByQr()
+                + " specifications refit by QR from the partitions' triangular factors");
+        report("airquality-3", c.worst);
+        List<Map<String, String>> expected = new ArrayList<>();
+        for (Map<String, String> row : ReferenceFiles.rows("airquality-expected.csv")) {
+            if (!row.get("errors").equals("HC2") && !row.get("errors").equals("HC3")) {
+                expected.add(row);
+            }
+        }
+        ResultTable r = c.spark.results();
+        assertEquals(expected.size(), r.size(), "specifications against airquality-expected.csv without HC2, HC3");
+        Map<String, Integer> slots = ReferenceFiles.slotsByLabels(c.spark);
+        for (Map<String, String> row : expected) {
+            String key = String.join(" | ", row.get("outcome"), row.get("temperature"), row.get("controls"),
+                    row.get("season"), row.get("radiation outliers"), row.get("errors"));
+            int slot = slots.get(key);
+            if (!row.get("status").equals("ok")) {
+                continue;
+            }
+            String where = "R lm() and sandwich, airquality-expected.csv (" + ReferenceFiles.versions() + "), " + key;
+            assertClose(Double.parseDouble(row.get("estimate")), r.estimate(slot), R_RELATIVE, where + " estimate");
+            assertClose(Double.parseDouble(row.get("std_error")), r.stdError(slot), R_RELATIVE, where + " std_error");
         }
     }
 

@@ -2,7 +2,6 @@ package org.forkscape.fit;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
-import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.io.IOException;
@@ -14,7 +13,6 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicBoolean;
-import org.forkscape.InputException;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.data.CsvTableReader;
@@ -35,8 +33,8 @@ import org.junit.jupiter.params.provider.ValueSource;
  * slices of the demo table, as the Spark runner builds them from partitions, against the engine building
  * them from the whole table. Every specification's estimate, standard error and p-value within 1e-10
  * relative (the same cells summed in another order, shifts by merged means), counts and statuses equal;
- * the variants hold no rows; and the full demo plan, whose zone control sends specifications to the
- * precision guard's QR refit, is refused with a specification's number.
+ * the variants hold no rows; and with the zone control, which sends specifications to the precision
+ * guard's QR refit, the refits made from the parts' triangular factors (tall-skinny QR) agree too.
  */
 class VariantByPartsTest {
     static final double RELATIVE = 1e-10;
@@ -73,16 +71,31 @@ class VariantByPartsTest {
     }
 
     @ParameterizedTest(name = "{0} parts")
-    @ValueSource(ints = {3})
-    void aSpecificationThatNeedsItsRowsIsRefusedWithItsNumber(int slices) throws IOException {
+    @ValueSource(ints = {1, 3, 7})
+    void precisionGuardRefitsFromTheParts(int slices) throws IOException {
+        // the zone control is collinear with the absorbed zone: those specifications are refit by QR, here from
+        // the parts' triangular factors
         String text = PlanEdits.withoutAlternatives(Files.readString(SAMPLE.resolve("civic-demo.plan.json")),
                 "standard errors", List.of("HC1", "HC3"));
         Plan plan = new PlanReader(false).read(text, SAMPLE.toAbsolutePath());
         Table table = new CsvTableReader().read(plan.dataFile());
-        InputException e = assertThrows(InputException.class, () -> new MultiverseRunner(1)
-                .withVariants(source(plan, table, slices)).run(plan, table, RunProgress.SILENT, new AtomicBoolean()));
-        assertTrue(e.getMessage().matches("decisions: specification \\d+ cannot be fitted here: it needs the "
-                + "precision guard's QR refit .*"), e.getMessage());
+        RunResult whole = new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+        RunResult parts = new MultiverseRunner(2).withVariants(source(plan, table, slices)).run(plan, table,
+                RunProgress.SILENT, new AtomicBoolean());
+        assertTrue(whole.refitByQr() > 0 && parts.refitByQr() == whole.refitByQr(), whole.refitByQr() + " and "
+                + parts.refitByQr() + " refits by QR");
+        ResultTable a = whole.results();
+        ResultTable b = parts.results();
+        for (int slot = 0; slot < a.size(); slot++) {
+            String where = "specification " + a.specNumber(slot);
+            assertEquals(a.status(slot), b.status(slot), where);
+            assertEquals(a.nParams(slot), b.nParams(slot), where + " n_params (columns dropped)");
+            if (a.fitted(slot)) {
+                close(a.estimate(slot), b.estimate(slot), where + " estimate");
+                close(a.stdError(slot), b.stdError(slot), where + " std_error");
+                close(a.pValue(slot), b.pValue(slot), where + " p_value");
+            }
+        }
     }
 
     /** Variants built from {@code slices} consecutive slices of the table's rows. */

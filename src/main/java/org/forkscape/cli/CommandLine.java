@@ -47,7 +47,7 @@ public final class CommandLine {
         if (!(CommandHelp.isCommand(command) || HELP.contains(command) || VERSION.contains(command))) {
             return unknown(command, "", err);
         }
-        try {
+        return guarded(err, () -> {
             if (VERSION.contains(command)) {
                 if (args.length > 1) {
                     throw new UsageException(command + " takes no arguments; found " + String.join(" ",
@@ -96,6 +96,25 @@ public final class CommandLine {
                 default -> DemoDataCommand.execute(args, out);
             }
             return 0;
+        });
+    }
+
+    /**
+     * {@code run PLAN --out DIR ...} over {@code data} (where its table is read and its variants built), with
+     * the same messages and exit codes as every other command: the door of a runner that keeps the rows
+     * elsewhere, such as the Spark runner.
+     */
+    public static int run(String[] args, PrintStream out, PrintStream err, org.forkscape.run.RunData data) {
+        return guarded(err, () -> {
+            RunCommand.execute(args, out, err, data);
+            return 0;
+        });
+    }
+
+    /** Runs a command, turning its failures into one line on {@code err} and an exit code. */
+    private static int guarded(PrintStream err, java.util.function.IntSupplier command) {
+        try {
+            return command.getAsInt();
         } catch (InputException e) {
             err.println("forkscape: " + oneLine(e.getMessage()));
             return 2;

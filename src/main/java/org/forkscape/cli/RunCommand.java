@@ -5,8 +5,8 @@ import java.nio.file.InvalidPathException;
 import java.nio.file.Path;
 import java.util.Set;
 import org.forkscape.InputException;
-import org.forkscape.data.DataFiles;
 import org.forkscape.data.Table;
+import org.forkscape.fit.VariantSource;
 import org.forkscape.infer.InferenceSections;
 import org.forkscape.infer.NullDrawResult;
 import org.forkscape.infer.NullDrawSettings;
@@ -17,6 +17,7 @@ import org.forkscape.run.CompletedRun;
 import org.forkscape.run.MemoryEstimate;
 import org.forkscape.run.PlanLock;
 import org.forkscape.run.RunOrigin;
+import org.forkscape.run.RunData;
 import org.forkscape.run.RunPipeline;
 import org.forkscape.run.RunSummary;
 import org.forkscape.text.HumanNumbers;
@@ -44,6 +45,11 @@ final class RunCommand {
     }
 
     static void execute(String[] args, PrintStream out, PrintStream err) {
+        execute(args, out, err, RunData.IN_MEMORY);
+    }
+
+    /** The same command over {@code data}: where the table is read and the variants built. */
+    static void execute(String[] args, PrintStream out, PrintStream err, RunData data) {
         Arguments a = new Arguments(args, 1, OPTIONS);
         if (a.positional().size() != 1) {
             throw new UsageException((a.positional().isEmpty() ? "run needs a plan file" : "run takes one plan file, "
@@ -70,7 +76,7 @@ final class RunCommand {
         nullSettings.check(plan, (int) a.whole("max-null-draws", NullDrawSettings.DEFAULT_MAX_DRAWS, 1, Integer.MAX_VALUE),
                 a.has("null-draws") ? "--null-draws" : planName + ", nullDraws",
                 a.has("null-cluster") ? "--null-cluster" : planName + ", nullCluster");
-        Table table = DataFiles.read(plan.dataFile());
+        Table table = data.table(plan);
         if (a.has("null-cluster") && nullSettings.clusterColumn() != null
                 && table.find(nullSettings.clusterColumn()).isEmpty()) {
             String hint = table.nearestName(nullSettings.clusterColumn()).map(n -> "; did you mean \"" + n + "\"?")
@@ -81,7 +87,14 @@ final class RunCommand {
         PlanLock lock = PlanLock.readIfPresent(PlanLock.besidePlan(planFile)).orElse(null);
         int threads = (int) a.whole("threads", Runtime.getRuntime().availableProcessors(), 1, 1024);
         long memoryLimit = a.has("max-memory") ? size(a.text("max-memory")) : MemoryEstimate.defaultLimit();
-        RunPipeline pipeline = new RunPipeline(threads).refusingMemoryAbove(memoryLimit, "fit a seeded random sample "
+        VariantSource variants;
+        try {
+            variants = data.variants(plan, table);
+        } catch (InputException e) {
+            throw located(planName, e);
+        }
+        RunPipeline pipeline = variants != null ? new RunPipeline(threads).withVariants(variants)
+                : new RunPipeline(threads).refusingMemoryAbove(memoryLimit, "fit a seeded random sample "
                 + "of the specifications (--sample N --seed S), use fewer --threads, or raise the limit with "
                 + "--max-memory SIZE" + (a.has("max-memory") ? "" : " (by default " + Math.round(100
                 * MemoryEstimate.DEFAULT_HEAP_SHARE) + "% of the Java heap)") + " and the heap with java -Xmx");
@@ -89,7 +102,7 @@ final class RunCommand {
         try (ResultFolder results = ResultFolder.open(folder)) {
             try {
                 completed = pipeline.run(plan, table, planText, new RunOrigin(String.join(" ", args), planBytes,
-                        plan.dataFile(), lock), results.staging(), (run, progress, cancel) -> InferenceSections
+                        data.hashedFile(plan), lock), results.staging(), (run, progress, cancel) -> InferenceSections
                         .compute(run, nullSettings, threads, progress, cancel), new TerminalStages(err), null);
             } catch (InputException e) {
                 throw located(planName, e);

@@ -11,13 +11,32 @@ public final class Table {
     private final List<Column> columns;
     private final Map<String, Column> byName = new LinkedHashMap<>();
     private final int rows;
+    private final boolean elsewhere;
 
     public Table(String source, List<Column> columns) {
+        this(source, columns, columns.isEmpty() ? 0 : columns.get(0).size());
+    }
+
+    /**
+     * The columns of a table whose {@code rows} rows are held elsewhere (on a cluster): each column has its
+     * name, its kind and, when categorical, its levels, and no rows. Plans are checked against it, and the
+     * data variants are built where the rows are.
+     */
+    public static Table withoutRows(String source, List<Column> columns, int rows) {
+        return new Table(source, columns, rows, true);
+    }
+
+    private Table(String source, List<Column> columns, int rows) {
+        this(source, columns, rows, false);
+    }
+
+    private Table(String source, List<Column> columns, int rows, boolean elsewhere) {
         this.source = source;
         this.columns = List.copyOf(columns);
-        this.rows = columns.isEmpty() ? 0 : columns.get(0).size();
+        this.rows = rows;
+        this.elsewhere = elsewhere;
         for (Column c : columns) {
-            if (c.size() != rows) {
+            if (c.size() != (elsewhere ? 0 : rows)) {
                 throw new IllegalArgumentException("column " + c.name() + " has " + c.size() + " rows, expected " + rows);
             }
             if (byName.put(c.name(), c) != null) {
@@ -29,6 +48,11 @@ public final class Table {
     /** Where the table came from (a file name), for messages. */
     public String source() {
         return source;
+    }
+
+    /** Whether the columns hold the rows (false for {@link #withoutRows}). */
+    public boolean holdsRows() {
+        return !elsewhere;
     }
 
     public int rowCount() {

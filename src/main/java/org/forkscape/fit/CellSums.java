@@ -19,6 +19,17 @@ final class CellSums {
     final double[][][] cellSum;
     final double[][][] cellCross;
 
+    /**
+     * Cells summed elsewhere (by the parts of a table held on a cluster, {@link PartialStatistics}); unweighted,
+     * since a runner by parts refuses weights.
+     */
+    CellSums(int[][] cellCount, double[][][] cellSum, double[][][] cellCross) {
+        this.cellCount = cellCount;
+        this.cellWeight = null;
+        this.cellSum = cellSum;
+        this.cellCross = cellCross;
+    }
+
     /** Sums the cells of {@code coded}, summing row blocks on {@code pool} when given (the result does not depend on it). */
     CellSums(CodedRows coded, java.util.concurrent.ExecutorService pool) {
         int groups = coded.groupMissing.length;

@@ -14,10 +14,14 @@ final class ClusterCodes {
     /** Per cluster column name: one more than the largest code among the variant's rows. */
     final Map<String, Integer> counts = new HashMap<>();
 
-    /** The cluster codes at the table rows {@code rows}. */
-    ClusterCodes(CompiledPlan plan, int[] rows) {
+    /**
+     * The cluster codes at the table rows {@code rows}; a numeric cluster column is coded among its values
+     * over the whole table when {@code whole} gives them.
+     */
+    ClusterCodes(CompiledPlan plan, int[] rows, WholeRows whole) {
         for (CompiledPlan.ClusterColumn cluster : plan.clusterColumns) {
-            put(cluster.column().name(), LevelCodes.of(cluster.column()), rows);
+            String name = cluster.column().name();
+            put(name, LevelCodes.of(cluster.column(), whole.groupingValues(name)), rows);
         }
         for (ClusterComponents.Component intersection : plan.clusterIntersections) {
             put(intersection.key(), ClusterComponents.codes(plan.table, intersection.columns()), rows);

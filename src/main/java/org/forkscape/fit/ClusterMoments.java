@@ -14,7 +14,7 @@ import java.util.Map;
  */
 final class ClusterMoments {
     /** One (group, cluster, level) cell. */
-    private static final class Cell {
+    static final class Cell {
         final int group;
         final int cluster;
         final int level;
@@ -23,11 +23,16 @@ final class ClusterMoments {
         final double[] cross;
 
         Cell(int group, int cluster, int level, int p) {
+            this(group, cluster, level, new double[p], new double[p * p]);
+        }
+
+        /** A cell over the given sums (not copied). */
+        Cell(int group, int cluster, int level, double[] sum, double[] cross) {
             this.group = group;
             this.cluster = cluster;
             this.level = level;
-            sum = new double[p];
-            cross = new double[p * p];
+            this.sum = sum;
+            this.cross = cross;
         }
     }
 
@@ -56,6 +61,16 @@ final class ClusterMoments {
     private ClusterMoments(int p, List<Cell> cells) {
         this.p = p;
         this.cells = cells;
+    }
+
+    /** Cells summed elsewhere (by the parts of a table, {@link PartialStatistics}), over {@code p} columns. */
+    static ClusterMoments of(int p, List<Cell> cells) {
+        return new ClusterMoments(p, List.copyOf(cells));
+    }
+
+    /** The (group, cluster, level) cells, read-only. */
+    List<Cell> cells() {
+        return cells;
     }
 
     /** Cost of building, in multiply-adds: one upper triangle per row. */

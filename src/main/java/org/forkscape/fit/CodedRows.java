@@ -70,4 +70,41 @@ final class CodedRows {
         this.clusterCounts = clusters.counts;
         this.recorded = recorded;
     }
+
+    /**
+     * A variant's shape without its rows, for statistics summed elsewhere (by the parts of a table held on
+     * a cluster, {@link PartialStatistics}): the row arrays are null, and a pass over rows is refused
+     * ({@link #held}). Such a variant is unweighted and absorbs at most one column (a runner by parts refuses
+     * the others).
+     */
+    CodedRows(ModelColumns layout, int rows, int levels, String absorbColumn, double[][] levelShift,
+            long[] groupMissing, Map<String, Integer> clusterCounts) {
+        this.layout = layout;
+        this.columns = layout.size();
+        this.rows = rows;
+        this.tableRows = null;
+        this.weight = null;
+        this.level = null;
+        this.levels = levels;
+        this.absorbColumn = absorbColumn;
+        this.dimensionCodes = null;
+        this.dimensionLevels = null;
+        this.shifted = null;
+        this.levelShift = levelShift;
+        this.group = null;
+        this.groupMissing = groupMissing;
+        long any = 0;
+        for (long mask : groupMissing) {
+            any |= mask;
+        }
+        this.everMissing = any;
+        this.clusters = Map.of();
+        this.clusterCounts = Map.copyOf(clusterCounts);
+        this.recorded = null;
+    }
+
+    /** Whether the rows themselves are held here (false for a variant built from statistics alone). */
+    boolean held() {
+        return shifted != null;
+    }
 }

@@ -15,21 +15,27 @@ final class ColumnCoding {
      * The outcome and predictor alternatives at the table rows {@code sampled}, indexed by model column (the
      * controls' entries are left null). Transforms that depend on the data (standardize, winsorize) use these
      * rows, before the absorbed fixed effect drops any; a transform that cannot apply is a
-     * {@link org.forkscape.plan.PlanException} at its JSON path.
+     * {@link org.forkscape.plan.PlanException} at its JSON path. Facts given in {@code whole} (the
+     * statistics of every part of the rows) are used instead of those of {@code sampled}.
      *
      * @param rowsDescription the rows in words, for those messages
      */
-    static double[][] alternatives(CompiledPlan plan, int[] sampled, String rowsDescription) {
+    static double[][] alternatives(CompiledPlan plan, int[] sampled, String rowsDescription, WholeRows whole) {
         double[][] raw = new double[plan.layout.size()][];
         for (CompiledPlan.CodedVariable v : plan.outcomes) {
-            raw[v.modelColumn()] = Transforms.apply(v.column(), v.transform(), sampled, v.transformPath(),
-                    rowsDescription);
+            raw[v.modelColumn()] = code(v, sampled, rowsDescription, whole);
         }
         for (CompiledPlan.CodedVariable v : plan.predictors) {
-            raw[v.modelColumn()] = Transforms.apply(v.column(), v.transform(), sampled, v.transformPath(),
-                    rowsDescription);
+            raw[v.modelColumn()] = code(v, sampled, rowsDescription, whole);
         }
         return raw;
+    }
+
+    private static double[] code(CompiledPlan.CodedVariable v, int[] sampled, String rowsDescription,
+            WholeRows whole) {
+        double[] given = v.transform() instanceof org.forkscape.plan.Transform.Winsorize
+                ? whole.winsorize(v.modelColumn()) : whole.standardize(v.modelColumn());
+        return Transforms.apply(v.column(), v.transform(), sampled, v.transformPath(), rowsDescription, given);
     }
 
     /** Fills the controls' model columns of {@code raw} (modified) with their values at the table rows {@code rows}. */

@@ -57,11 +57,24 @@ public final class DataVariant {
     final Map<String, Integer> clusterCounts;
     /** Where each generalized linear fit of this variant starts, and the fits already made. */
     final GlmStarts glmStarts = new GlmStarts();
+    /**
+     * For a variant without rows: how its rows are reduced for a QR refit where they are held (set by
+     * {@link VariantByParts#build}); null when no refit can be made.
+     */
+    volatile RefitReduction refitReduction;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
 
     DataVariant(CodedRows coded, CellSums cells) {
+        this(coded, cells, null, Map.of());
+    }
+
+    /**
+     * A variant from statistics summed elsewhere ({@link PartialStatistics#variant}): {@code coded} holds its
+     * shape without rows, and the row-free routes are taken wherever their structures were given.
+     */
+    DataVariant(CodedRows coded, CellSums cells, double[][][] groupTensors, Map<String, ClusterMoments> clusterMoments) {
         this.coded = coded;
         this.layout = coded.layout;
         this.rows = coded.rows;
@@ -78,7 +91,12 @@ public final class DataVariant {
         this.groupMissing = coded.groupMissing;
         this.clusters = coded.clusters;
         this.clusterCounts = coded.clusterCounts;
-        this.statistics = new VariantStatistics(this, cells);
+        this.statistics = coded.held() ? new VariantStatistics(this, cells)
+                : new VariantStatistics(this, cells, groupTensors, clusterMoments);
+        if (!coded.held()) {
+            useFourthMoments = groupTensors != null;
+            useClusterMoments.addAll(clusterMoments.keySet());
+        }
         this.cellCount = statistics.cells.cellCount;
         this.cellWeight = statistics.cells.cellWeight;
         this.weight = coded.weight;
@@ -88,6 +106,21 @@ public final class DataVariant {
 
     public int rowCount() {
         return rows;
+    }
+
+    /** A QR refit's rows reduced where the rows are held: the factor R of the usable rows' [X y]. */
+    interface RefitReduction {
+        DesignRows rows(Moments mom, int[] cols, int y);
+    }
+
+    /** Number of missing-value patterns among the variant's rows. */
+    public int groupCount() {
+        return groupMissing.length;
+    }
+
+    /** Whether this variant holds its rows (false when it was built from statistics summed elsewhere). */
+    public boolean holdsRows() {
+        return coded.held();
     }
 
     /**
@@ -101,6 +134,10 @@ public final class DataVariant {
      */
     public void expect(long hcSpecifications, Map<String, Long> clusterSpecifications, double meanColumns,
             java.util.concurrent.ExecutorService pool) {
+        if (!coded.held()) {
+            // built from statistics alone: the row-free routes are those whose structures were summed
+            return;
+        }
         useFourthMoments = SandwichRoute.fourthMomentsPay(this, hcSpecifications, meanColumns);
         if (useFourthMoments) {
             statistics.buildGroupTensors(pool);

@@ -25,6 +25,31 @@ final class DesignRows {
     /** Whether the rows are scaled by the square roots of their weights. */
     boolean weighted;
 
+    /**
+     * Rows that stand for a specification's rows under least squares: the triangular factor R of its design
+     * and outcome [X y] = Q R (at most p + 1 rows, each {@code factor[i]} one row over the p columns and the
+     * outcome), which has the same column norms after each orthogonal step, the same solution and the same
+     * residual norm as the rows themselves. No cluster codes or levels: only a QR refit may read them.
+     */
+    static DesignRows ofFactor(double[][] factor, int p) {
+        DesignRows rows = new DesignRows();
+        int n = factor.length;
+        rows.n = n;
+        rows.p = p;
+        rows.x = new double[p][n];
+        rows.y = new double[n];
+        rows.level = new int[n];
+        rows.cluster = new int[n];
+        rows.source = new int[n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < p; j++) {
+                rows.x[j][i] = factor[i][j];
+            }
+            rows.y[i] = factor[i][p];
+        }
+        return rows;
+    }
+
     void fill(Moments mom, int[] cols, int yCol, int[] clusterCodes) {
         DataVariant v = mom.variant;
         p = cols.length;

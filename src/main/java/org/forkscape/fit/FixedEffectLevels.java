@@ -41,14 +41,17 @@ final class FixedEffectLevels {
         this.keptAt = keptAt;
     }
 
-    /** The levels of the {@code absorbed} columns (none, one or several) at the table rows {@code sampled}. */
-    static FixedEffectLevels of(Column[] absorbed, int[] sampled) {
+    /**
+     * The levels of the {@code absorbed} columns (none, one or several) at the table rows {@code sampled}; with
+     * one column and the codes present in the whole variant given in {@code whole}, numbered among those.
+     */
+    static FixedEffectLevels of(Column[] absorbed, int[] sampled, WholeRows whole) {
         if (absorbed.length == 0) {
             return new FixedEffectLevels(null, sampled, new int[sampled.length], 1, null);
         }
         int[][] codes = new int[absorbed.length][];
         for (int d = 0; d < absorbed.length; d++) {
-            codes[d] = LevelCodes.of(absorbed[d]);
+            codes[d] = LevelCodes.of(absorbed[d], whole.groupingValues(absorbed[d].name()));
         }
         int m = 0;
         for (int i = 0; i < sampled.length; i++) {
@@ -66,6 +69,14 @@ final class FixedEffectLevels {
         int[] kept = new int[keptAt.length];
         for (int i = 0; i < keptAt.length; i++) {
             kept[i] = sampled[keptAt[i]];
+        }
+        int[] present = whole.absorbCodes();
+        if (present != null && absorbed.length == 1) {
+            int[] dense = new int[kept.length];
+            for (int i = 0; i < kept.length; i++) {
+                dense[i] = java.util.Arrays.binarySearch(present, codes[0][kept[i]]);
+            }
+            return new FixedEffectLevels(absorbed[0].name(), kept, dense, Math.max(1, present.length), keptAt);
         }
         int[][] dense = new int[absorbed.length][kept.length];
         int[] levels = new int[absorbed.length];
@@ -107,6 +118,12 @@ final class FixedEffectLevels {
     /** Whether several columns are absorbed (by alternating projections rather than the cell sums). */
     boolean several() {
         return dimensionCodes != null;
+    }
+
+    /** The distinct codes of {@code absorbed} at the table rows {@code sampled}, ascending. */
+    static int[] presentCodes(Column absorbed, int[] sampled, WholeRows whole) {
+        int[] codes = LevelCodes.of(absorbed, whole.groupingValues(absorbed.name()));
+        return java.util.Arrays.stream(sampled).map(r -> codes[r]).filter(c -> c >= 0).distinct().sorted().toArray();
     }
 
     /** Replaces each non-null column of {@code columns} (modified), given over the sampled rows, by its kept rows. */

@@ -10,18 +10,39 @@ final class LevelShifts {
     final double[][] levelShift;
     /** The shifted columns: the arrays given, shifted in place. */
     final double[][] shifted;
+    /**
+     * Per level and column: the number of non-missing values the shift is the mean of (null when the
+     * shifts were given), so that the shifts of parts of the rows can be merged.
+     */
+    final int[][] nonMissing;
 
     /**
      * @param raw    the model columns over the variant's rows, NaN where missing; shifted in place
      * @param levels the rows' fixed-effect levels
+     * @param whole  when it gives the level shifts (the means over every part of the rows), those are used
      */
-    LevelShifts(double[][] raw, FixedEffectLevels levels) {
+    LevelShifts(double[][] raw, FixedEffectLevels levels, WholeRows whole) {
+        if (whole.hasLevelShift()) {
+            levelShift = whole.levelShift();
+            shifted = raw;
+            nonMissing = null;
+            int[] level = levels.level;
+            for (int j = 0; j < raw.length; j++) {
+                double[] x = raw[j];
+                for (int i = 0; i < x.length; i++) {
+                    double v = x[i];
+                    x[i] = v != v ? 0 : v - levelShift[level[i]][j];
+                }
+            }
+            return;
+        }
         int columns = raw.length;
         int rows = levels.level.length;
         int levelCount = levels.levels;
         int[] level = levels.level;
         levelShift = new double[levelCount][columns];
         shifted = new double[columns][];
+        nonMissing = new int[levelCount][columns];
         double[] levelSum = new double[levelCount];
         int[] levelN = new int[levelCount];
         for (int j = 0; j < columns; j++) {
@@ -51,6 +72,7 @@ final class LevelShifts {
             }
             for (int l = 0; l < levelCount; l++) {
                 levelShift[l][j] = levelN[l] == 0 ? 0 : levelSum[l] / levelN[l];
+                nonMissing[l][j] = levelN[l];
             }
             correct(x, j, level, levelN);
             // the raw column is not needed after this: shift it in place

@@ -29,6 +29,12 @@ public final class ObservedRows implements FitData {
 
     @Override
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
+        if (!variant.holdsRows() && variant.refitReduction != null) {
+            // the rows are held elsewhere: their triangular factor, reduced there, stands for them
+            return variant.refitReduction.rows(mom, cols, y);
+        }
+        requireRows("the precision guard's QR refit (its cross-product matrix is too poorly conditioned to solve "
+                + "from sums)");
         rows.fill(mom, cols, y, clusterCodes(errors));
         return rows;
     }
@@ -36,12 +42,16 @@ public final class ObservedRows implements FitData {
     /** Gathered straight from the variant's columns, with no column-by-column copy in between. */
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
+        requireRows("the iterations of a generalized linear model");
         into.fill(mom, cols, variant.coded.recorded[y], clusterCodes(errors));
     }
 
     @Override
     public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
             ErrorType errors, boolean refit) {
+        requireRows(errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3
+                ? errors.label() + " leverages" : "a row pass for its " + errors.label() + " standard error (the "
+                + "route from stored sums could lose digits here)");
         int[] codes = clusterCodes(errors);
         if (refit) {
             if (codes != null) {
@@ -65,6 +75,12 @@ public final class ObservedRows implements FitData {
     @Override
     public boolean momentRoutes() {
         return true;
+    }
+
+    private void requireRows(String pass) {
+        if (!variant.holdsRows()) {
+            throw new RowPassUnavailable(pass);
+        }
     }
 
     private int[] clusterCodes(ErrorType errors) {

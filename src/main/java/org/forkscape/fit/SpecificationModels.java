@@ -16,9 +16,19 @@ public final class SpecificationModels {
     private final SpecificationSpace space;
     private final long[] sampleRadix;
     private final long variantCount;
+    private final VariantSource variants;
 
     public SpecificationModels(Plan plan, Table table) {
+        this(plan, table, null);
+    }
+
+    /**
+     * @param variants where the variants come from; null to code them from {@code table}'s rows (a table
+     *                 with the columns and no rows will do when they come from elsewhere)
+     */
+    public SpecificationModels(Plan plan, Table table, VariantSource variants) {
         this.plan = new CompiledPlan(plan, table);
+        this.variants = variants != null ? variants : (key, pool) -> VariantBuilder.build(this.plan, key, pool);
         this.space = new SpecificationSpace(plan);
         int[] sampleAt = this.plan.sampleAt;
         sampleRadix = new long[sampleAt.length];
@@ -97,7 +107,7 @@ public final class SpecificationModels {
 
     /** As above, summing row blocks on {@code pool} when given (the result does not depend on it). */
     public DataVariant variant(VariantKey key, ExecutorService pool) {
-        return VariantBuilder.build(plan, key, pool);
+        return variants.variant(key, pool);
     }
 
     /** The model of a specification from its decoded choices. */

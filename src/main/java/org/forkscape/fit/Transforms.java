@@ -18,6 +18,15 @@ final class Transforms {
      * {@code path}, never a silent loss of rows.
      */
     static double[] apply(Column column, Transform transform, int[] rows, String path, String rowsDescription) {
+        return apply(column, transform, rows, path, rowsDescription, null);
+    }
+
+    /**
+     * As above; with {@code given} not null, a standardize takes its {mean, sd} and a winsorize its {low,
+     * high} bounds from it (computed over every part of the rows, and checked there, see {@link #check}).
+     */
+    static double[] apply(Column column, Transform transform, int[] rows, String path, String rowsDescription,
+            double[] given) {
         double[] out = new double[rows.length];
         if (column instanceof CategoricalColumn cat) {
             int[] codes = cat.codes();
@@ -44,13 +53,7 @@ final class Transforms {
                     bad++;
                 }
             }
-            if (bad > 0) {
-                String rule = transform instanceof Transform.Log ? "<= 0" : transform instanceof Transform.Log1p
-                        ? "<= -1" : "< 0";
-                throw new PlanException(path, transform.spelling() + " of \"" + column.name() + "\" is undefined for "
-                        + bad + " row" + (bad == 1 ? "" : "s") + " with values " + rule + " (" + rowsDescription
-                        + "); choose another transform or a sample rule that excludes them");
-            }
+            requireDomain(column.name(), transform, bad, path, rowsDescription);
             for (int i = 0; i < out.length; i++) {
                 double v = out[i];
                 out[i] = transform instanceof Transform.Log ? Math.log(v)
@@ -58,11 +61,16 @@ final class Transforms {
             }
             return out;
         }
-        double[] present = Arrays.stream(out).filter(v -> !Double.isNaN(v)).toArray();
-        if (present.length < 2) {
-            throw new PlanException(path, transform.spelling() + " of \"" + column.name()
-                    + "\" needs at least two values (" + rowsDescription + ")");
+        if (given != null) {
+            for (int i = 0; i < out.length; i++) {
+                double v = out[i];
+                out[i] = transform instanceof Transform.Standardize ? (v - given[0]) / given[1]
+                        : v != v ? v : Math.min(given[1], Math.max(given[0], v));
+            }
+            return out;
         }
+        double[] present = Arrays.stream(out).filter(v -> !Double.isNaN(v)).toArray();
+        requireTwoValues(column.name(), transform, present.length, path, rowsDescription);
         if (transform instanceof Transform.Standardize) {
             double mean = 0;
             for (double v : present) {
@@ -74,10 +82,7 @@ final class Transforms {
                 ss += (v - mean) * (v - mean);
             }
             double sd = Math.sqrt(ss / (present.length - 1));
-            if (!(sd > 0)) {
-                throw new PlanException(path, "standardize of \"" + column.name() + "\" is undefined: the column is "
-                        + "constant (" + rowsDescription + ")");
-            }
+            requireSpread(column.name(), sd, path, rowsDescription);
             for (int i = 0; i < out.length; i++) {
                 out[i] = (out[i] - mean) / sd;
             }
@@ -93,6 +98,116 @@ final class Transforms {
             }
         }
         return out;
+    }
+
+    /** The refusal of a log, log1p or sqrt with {@code bad} values outside its domain (none when 0). */
+    private static void requireDomain(String column, Transform transform, long bad, String path,
+            String rowsDescription) {
+        if (bad > 0) {
+            String rule = transform instanceof Transform.Log ? "<= 0" : transform instanceof Transform.Log1p
+                    ? "<= -1" : "< 0";
+            throw new PlanException(path, transform.spelling() + " of \"" + column + "\" is undefined for "
+                    + bad + " row" + (bad == 1 ? "" : "s") + " with values " + rule + " (" + rowsDescription
+                    + "); choose another transform or a sample rule that excludes them");
+        }
+    }
+
+    /**
+     * What a part of the rows tells about a transform that depends on all of them: for a log, log1p or
+     * sqrt {count of values outside its domain}; for a standardize or winsorize {count, mean, sum of
+     * squared deviations} of the non-missing values (Welford 1962, Technometrics 4(3)); null otherwise.
+     * Parts are merged by {@link #mergeFacts}.
+     */
+    static double[] facts(Column column, Transform transform, int[] rows) {
+        if (column instanceof CategoricalColumn || transform instanceof Transform.Identity) {
+            return null;
+        }
+        double[] x = ((NumericColumn) column).values();
+        if (transform instanceof Transform.Log || transform instanceof Transform.Log1p
+                || transform instanceof Transform.Sqrt) {
+            double floor = transform instanceof Transform.Log1p ? -1 : 0;
+            boolean strict = !(transform instanceof Transform.Sqrt);
+            long bad = 0;
+            for (int r : rows) {
+                double v = x[r];
+                if (!Double.isNaN(v) && (strict ? v <= floor : v < floor)) {
+                    bad++;
+                }
+            }
+            return new double[] {bad};
+        }
+        long n = 0;
+        double mean = 0;
+        double m2 = 0;
+        for (int r : rows) {
+            double v = x[r];
+            if (!Double.isNaN(v)) {
+                n++;
+                double d = v - mean;
+                mean += d / n;
+                m2 += d * (v - mean);
+            }
+        }
+        return new double[] {n, mean, m2};
+    }
+
+    /**
+     * Two parts' facts as one: counts add; means and squared deviations by the pairwise update of Chan,
+     * Golub &amp; LeVeque (1983), "Algorithms for computing the sample variance: analysis and
+     * recommendations", The American Statistician 37(3). Either may be null.
+     */
+    static double[] mergeFacts(double[] a, double[] b) {
+        if (a == null) {
+            return b == null ? null : b.clone();
+        }
+        if (b == null) {
+            return a.clone();
+        }
+        if (a.length == 1) {
+            return new double[] {a[0] + b[0]};
+        }
+        double n = a[0] + b[0];
+        if (n == 0) {
+            return new double[] {0, 0, 0};
+        }
+        double delta = b[1] - a[1];
+        return new double[] {n, a[1] + delta * b[0] / n, a[2] + b[2] + delta * delta * a[0] * b[0] / n};
+    }
+
+    /**
+     * Refuses a transform that cannot apply to the merged facts of every part of the rows, with the same
+     * messages as the coding of all rows at once; returns the standardize's {mean, sd}, else null.
+     */
+    static double[] check(String column, Transform transform, double[] facts, String path, String rowsDescription) {
+        if (facts == null) {
+            return null;
+        }
+        if (facts.length == 1) {
+            requireDomain(column, transform, (long) facts[0], path, rowsDescription);
+            return null;
+        }
+        requireTwoValues(column, transform, (long) facts[0], path, rowsDescription);
+        if (transform instanceof Transform.Standardize) {
+            double sd = Math.sqrt(facts[2] / (facts[0] - 1));
+            requireSpread(column, sd, path, rowsDescription);
+            return new double[] {facts[1], sd};
+        }
+        return null;
+    }
+
+    private static void requireTwoValues(String column, Transform transform, long n, String path,
+            String rowsDescription) {
+        if (n < 2) {
+            throw new PlanException(path, transform.spelling() + " of \"" + column
+                    + "\" needs at least two values (" + rowsDescription + ")");
+        }
+    }
+
+    private static void requireSpread(String column, double sd, String path, String rowsDescription) {
+        if (!(sd > 0)) {
+            throw new PlanException(path, "standardize of \"" + column + "\" is undefined: the column is "
+                    + "constant (" + rowsDescription + ")");
+        }
     }
 
     /**

@@ -10,9 +10,19 @@ import org.forkscape.data.Column;
  * levels, which drop rows missing it ({@link FixedEffectLevels}), the controls, the cluster codes
  * ({@link ClusterCodes}), the missing-pattern groups ({@link MissingPatterns}) and the level shifts
  * ({@link LevelShifts}): the {@link CodedRows}; then the cell sums of its statistics ({@link CellSums}).
+ * The same steps code one part of a variant's rows when the facts that need all of them are given
+ * ({@link WholeRows}, see {@link VariantByParts}).
  */
 final class VariantBuilder {
     private VariantBuilder() {
+    }
+
+    /** The steps' results over the rows at hand, before they are joined into {@link CodedRows}. */
+    record Coding(FixedEffectLevels levels, double[] weight, LevelShifts shifts, MissingPatterns patterns,
+            ClusterCodes clusters, double[][] recorded) {
+        CodedRows coded(CompiledPlan plan) {
+            return new CodedRows(plan.layout, levels, weight, shifts, patterns, clusters, recorded);
+        }
     }
 
     /**
@@ -22,21 +32,42 @@ final class VariantBuilder {
      * @param pool where to sum row blocks (the result does not depend on it), or null
      */
     static DataVariant build(CompiledPlan plan, VariantKey key, ExecutorService pool) {
-        int[] sampled = RowSelection.of(plan, key);
-        double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()));
+        CodedRows coded = code(plan, key, WholeRows.NONE).coded(plan);
+        return new DataVariant(coded, new CellSums(coded, pool));
+    }
+
+    /** Codes the variant's rows of {@code plan}'s table, taking from {@code whole} the facts it gives. */
+    static Coding code(CompiledPlan plan, VariantKey key, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        double[][] raw = ColumnCoding.alternatives(plan, sampled, plan.describeRows(key.sampleChoices()), whole);
         AnalyticWeights weights = AnalyticWeights.of(
                 key.weightChoice() < 0 ? null : plan.weightColumns[key.weightChoice()], sampled);
         weights.compact(raw);
-        Column[] absorbed = key.absorbChoice() < 0 ? new Column[0] : plan.absorbColumns[key.absorbChoice()];
-        FixedEffectLevels levels = FixedEffectLevels.of(absorbed, weights.tableRows);
+        FixedEffectLevels levels = FixedEffectLevels.of(absorbedColumns(plan, key), weights.tableRows, whole);
         levels.compact(raw);
         ColumnCoding.controls(plan, levels.tableRows, raw);
-        ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows);
+        ClusterCodes clusters = new ClusterCodes(plan, levels.tableRows, whole);
         MissingPatterns patterns = new MissingPatterns(plan, raw, clusters, levels.tableRows.length);
         double[][] recorded = plan.generalized ? recorded(plan, raw) : null;
-        LevelShifts shifts = new LevelShifts(raw, levels);
-        CodedRows coded = new CodedRows(plan.layout, levels, weights.at(levels), shifts, patterns, clusters, recorded);
-        return new DataVariant(coded, new CellSums(coded, pool));
+        LevelShifts shifts = new LevelShifts(raw, levels, whole);
+        return new Coding(levels, weights.at(levels), shifts, patterns, clusters, recorded);
+    }
+
+    /** The columns the variant absorbs: none, one or several. */
+    static Column[] absorbedColumns(CompiledPlan plan, VariantKey key) {
+        return key.absorbChoice() < 0 ? new Column[0] : plan.absorbColumns[key.absorbChoice()];
+    }
+
+    /**
+     * The one column the variant absorbs, or null, for a runner by parts ({@link VariantByParts}), which
+     * absorbs at most one (the Spark runner refuses plans with several).
+     */
+    static Column absorbed(CompiledPlan plan, VariantKey key) {
+        Column[] columns = absorbedColumns(plan, key);
+        if (columns.length > 1) {
+            throw new IllegalStateException("a variant built by parts absorbs one column at most");
+        }
+        return columns.length == 0 ? null : columns[0];
     }
 
     /**

@@ -6,7 +6,7 @@ import java.util.Arrays;
  * Which data variant: the chosen alternative of each sample decision (in declared order), of the absorb
  * decision and of the weights decision (-1 when the plan has none).
  */
-public record VariantKey(int[] sampleChoices, int absorbChoice, int weightChoice) {
+public record VariantKey(int[] sampleChoices, int absorbChoice, int weightChoice) implements java.io.Serializable {
     public VariantKey {
         sampleChoices = sampleChoices.clone();
     }

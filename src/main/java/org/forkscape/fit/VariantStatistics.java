@@ -26,6 +26,27 @@ final class VariantStatistics {
         this.cells = cells;
     }
 
+    /**
+     * Statistics summed elsewhere, with the structures that would otherwise be built from the rows later:
+     * the per-group tensors (null when none were summed) and the per-cluster cells by cluster column.
+     */
+    VariantStatistics(DataVariant variant, CellSums cells, double[][][] groupTensors,
+            Map<String, ClusterMoments> clusterMoments) {
+        this(variant, cells);
+        this.groupTensors = groupTensors;
+        this.clusterMoments.putAll(clusterMoments);
+    }
+
+    /** Whether the per-group tensors are built or were given. */
+    boolean hasGroupTensors() {
+        return groupTensors != null;
+    }
+
+    /** The cluster columns whose per-cluster cells were given. */
+    java.util.Set<String> givenClusterMoments() {
+        return clusterMoments.keySet();
+    }
+
     /** See {@link DataVariant#moments(long)}. */
     Moments moments(long variables) {
         long[] groupMissing = variant.groupMissing;

@@ -98,7 +98,10 @@ public final class PlanChecker {
             problems.attempt(() -> existing(plan.nullCluster(), "nullCluster", table));
         }
         problems.throwIfAny();
-        BoundToFail.refuse(plan, table);
+        if (table.holdsRows()) {
+            // a table whose rows are held elsewhere (on a cluster) cannot be searched for doomed decisions here
+            BoundToFail.refuse(plan, table);
+        }
     }
 
     /**

@@ -15,9 +15,11 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
+import org.forkscape.fit.RowPassUnavailable;
 import org.forkscape.fit.SpecificationFitter;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
+import org.forkscape.fit.VariantSource;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanChecker;
 import org.forkscape.plan.SpecificationSpace;
@@ -36,6 +38,7 @@ public final class MultiverseRunner {
 
     private final int threads;
     private final boolean allowRowFree;
+    private final VariantSource variants;
 
     public MultiverseRunner(int threads) {
         this(threads, true);
@@ -45,8 +48,22 @@ public final class MultiverseRunner {
      * @param allowRowFree false forces the one-row-pass sandwich (the benchmark's comparison route)
      */
     public MultiverseRunner(int threads, boolean allowRowFree) {
+        this(threads, allowRowFree, null);
+    }
+
+    private MultiverseRunner(int threads, boolean allowRowFree, VariantSource variants) {
         this.threads = Math.max(1, threads);
         this.allowRowFree = allowRowFree;
+        this.variants = variants;
+    }
+
+    /**
+     * The same runner taking its data variants from {@code variants} (null: coded from the table's rows);
+     * a specification that then needs a pass over rows the variant does not hold is refused
+     * ({@link RowPassUnavailable}) with its number.
+     */
+    public MultiverseRunner withVariants(VariantSource variants) {
+        return new MultiverseRunner(threads, allowRowFree, variants);
     }
 
     public MultiverseRunner() {
@@ -81,7 +98,7 @@ public final class MultiverseRunner {
         long start = System.nanoTime();
         PlanChecker.check(plan, table);
         checkCount(plan);
-        SpecificationModels models = new SpecificationModels(plan, table);
+        SpecificationModels models = new SpecificationModels(plan, table, variants);
         SpecificationSpace space = models.space();
         long[] indices = space.indices(plan.sampleSize(), plan.seed());
         boolean all = plan.sampleSize() <= 0 || plan.sampleSize() >= space.size();
@@ -142,7 +159,15 @@ public final class MultiverseRunner {
                             for (int i = from; i < to; i++) {
                                 int slot = slots[i];
                                 space.decode(indices[slot], c);
-                                KeyFit fit = fitter.fit(variant, models.model(c));
+                                KeyFit fit;
+                                try {
+                                    fit = fitter.fit(variant, models.model(c));
+                                } catch (RowPassUnavailable e) {
+                                    throw new InputException("decisions", "specification "
+                                            + results.specNumber(slot) + " cannot be fitted here: "
+                                            + e.getMessage() + "; run the plan on one machine, or leave out the "
+                                            + "choice that needs it");
+                                }
                                 results.set(slot, fit);
                                 if (fit.refitByQr()) {
                                     refits.incrementAndGet();

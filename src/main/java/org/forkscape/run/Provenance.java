@@ -19,7 +19,8 @@ import org.forkscape.data.ParquetParts;
 
 /**
  * How a run was made, written under {@code provenance} in summary.json: Forkscape's version, the SHA-256
- * of the plan's and the data's bytes (FIPS 180-4, Secure Hash Standard), the seed, the command, the start
+ * of the plan's and the data's bytes (FIPS 180-4, Secure Hash Standard; null for data read elsewhere, by the
+ * Spark runner), the seed, the command, the start
  * in UTC, the Java version and the fitting threads (which do not change results), and for a plan with a
  * lock, whether the plan and data still match it ({@link PlanLock.Status}, null without a lock).
  */
@@ -29,7 +30,7 @@ public record Provenance(String version, String planSha256, String dataSha256, l
     /** The provenance of a run starting now, from what the door gave and what the pipeline knows. */
     public static Provenance of(RunOrigin origin, long seed, int threads) {
         String plan = sha256(origin.planBytes());
-        String data = sha256(origin.dataFile());
+        String data = origin.dataFile() == null ? null : sha256(origin.dataFile());
         return new Provenance(Version.current(), plan, data, seed, origin.command(),
                 Instant.now().truncatedTo(ChronoUnit.SECONDS), System.getProperty("java.version"), threads,
                 origin.lock() == null ? null : origin.lock().check(plan, data));

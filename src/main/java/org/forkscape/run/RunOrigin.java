@@ -8,7 +8,7 @@ import java.nio.file.Path;
  *
  * @param command   the command line as given, or a short description of the web action
  * @param planBytes the plan file's bytes as the door read them (not modified)
- * @param dataFile  the data file the table was read from
+ * @param dataFile  the data file the table was read from, or null when it was read elsewhere (not hashed)
  * @param lock      the plan's lock, or null when the plan has none
  */
 public record RunOrigin(String command, byte[] planBytes, Path dataFile, PlanLock lock) {

@@ -29,6 +29,7 @@ public final class RunPipeline {
     private final int threads;
     private final MemoryLimit memoryLimit;
     private final SettingNames names;
+    private final org.forkscape.fit.VariantSource variants;
 
     /**
      * A pipeline that does not estimate memory: for a door that refused too large a plan before it queued
@@ -37,13 +38,23 @@ public final class RunPipeline {
      * @param threads fitting threads
      */
     public RunPipeline(int threads) {
-        this(threads, null, SettingNames.COMMAND_LINE);
+        this(threads, null, SettingNames.COMMAND_LINE, null);
     }
 
-    private RunPipeline(int threads, MemoryLimit memoryLimit, SettingNames names) {
+    private RunPipeline(int threads, MemoryLimit memoryLimit, SettingNames names,
+            org.forkscape.fit.VariantSource variants) {
         this.threads = threads;
         this.memoryLimit = memoryLimit;
         this.names = names;
+        this.variants = variants;
+    }
+
+    /**
+     * The same pipeline taking its data variants from {@code variants} (null: coded from the table's rows),
+     * so that a runner holding its rows elsewhere shares every other step.
+     */
+    public RunPipeline withVariants(org.forkscape.fit.VariantSource variants) {
+        return new RunPipeline(threads, memoryLimit, names, variants);
     }
 
     /**
@@ -53,12 +64,12 @@ public final class RunPipeline {
      * @param wayOut what the user can do, in the door's own words (its options or settings)
      */
     public RunPipeline refusingMemoryAbove(long bytes, String wayOut) {
-        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut), names);
+        return new RunPipeline(threads, new MemoryLimit(bytes, wayOut), names, variants);
     }
 
     /** The same pipeline, naming the settings in its messages as {@code names} does (the batch command's by default). */
     public RunPipeline naming(SettingNames names) {
-        return new RunPipeline(threads, memoryLimit, names);
+        return new RunPipeline(threads, memoryLimit, names, variants);
     }
 
     /**
@@ -102,7 +113,7 @@ public final class RunPipeline {
     private RunResult fit(Plan plan, Table table, StageListener listener, AtomicBoolean cancel) {
         RunProgress progress = listener.started(StageListener.Stage.FITTING);
         try {
-            return new MultiverseRunner(threads).run(plan, table, progress, cancel);
+            return new MultiverseRunner(threads).withVariants(variants).run(plan, table, progress, cancel);
         } finally {
             listener.ended(StageListener.Stage.FITTING);
         }

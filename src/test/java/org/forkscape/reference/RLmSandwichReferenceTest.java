@@ -77,7 +77,7 @@ class RLmSandwichReferenceTest {
             assertTrue(run.refitByQr() > 0 && run.refitByQr() < results.size(), name + ": " + run.refitByQr()
                     + " of " + results.size() + " specifications refit by QR; expected some, not all");
         }
-        Map<String, Integer> slotByLabels = slotsByLabels(run);
+        Map<String, Integer> slotByLabels = ReferenceFiles.slotsByLabels(run);
         List<String> decisionNames = plan.decisions().stream().map(Decision::name).toList();
         List<String> failures = new ArrayList<>();
         Map<String, Double> worst = new TreeMap<>();
@@ -108,22 +108,6 @@ class RLmSandwichReferenceTest {
             return "sandwich::vcovCL(type = \"HC1\"), df G - 1";
         }
         return "sandwich::vcovHC(type = \"" + errors + "\")";
-    }
-
-    private static Map<String, Integer> slotsByLabels(RunResult run) {
-        SpecificationSpace space = run.models().space();
-        List<Decision> decisions = run.plan().decisions();
-        long[] choices = new long[space.decisionCount()];
-        Map<String, Integer> out = new HashMap<>();
-        for (int slot = 0; slot < run.results().size(); slot++) {
-            space.decode(run.results().specIndex(slot), choices);
-            List<String> labels = new ArrayList<>();
-            for (int d = 0; d < decisions.size(); d++) {
-                labels.add(decisions.get(d).label(choices[d]));
-            }
-            out.put(String.join(" | ", labels), slot);
-        }
-        return out;
     }
 
     /** Compares one specification's figures, adding a line per disagreement to {@code failures}. */

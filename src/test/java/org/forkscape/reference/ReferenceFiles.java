@@ -24,11 +24,11 @@ import org.forkscape.plan.PlanReader;
  * The committed reference files under {@code src/test/resources/reference/}: data sets exported from R,
  * hand-written plans, and the values that {@code src/test/r/make-reference.R} computed for them.
  */
-final class ReferenceFiles {
+public final class ReferenceFiles {
     private ReferenceFiles() {
     }
 
-    static Path path(String name) {
+    public static Path path(String name) {
         URL url = ReferenceFiles.class.getResource("/reference/" + name);
         if (url == null) {
             throw new IllegalStateException("missing reference file " + name);
@@ -53,7 +53,7 @@ final class ReferenceFiles {
     }
 
     /** The rows of a CSV file with a header, as header-to-cell maps in file order. */
-    static List<Map<String, String>> rows(String name) {
+    public static List<Map<String, String>> rows(String name) {
         CSVFormat format = CSVFormat.RFC4180.builder().setHeader().setSkipHeaderRecord(true).get();
         try (Reader in = Files.newBufferedReader(path(name), StandardCharsets.UTF_8);
                 CSVParser parser = CSVParser.builder().setReader(in).setFormat(format).get()) {
@@ -68,7 +68,7 @@ final class ReferenceFiles {
     }
 
     /** The R and sandwich versions that produced the committed values, as one line for messages. */
-    static String versions() {
+    public static String versions() {
         return versions("versions.txt");
     }
 
@@ -84,5 +84,22 @@ final class ReferenceFiles {
     /** A cell as a number: empty means undefined (NaN). */
     static double number(String cell) {
         return cell == null || cell.isEmpty() ? Double.NaN : Double.parseDouble(cell);
+    }
+
+    /** Each slot of a run by its decision labels joined with " | ", as the reference files name specifications. */
+    public static Map<String, Integer> slotsByLabels(org.forkscape.run.RunResult run) {
+        org.forkscape.plan.SpecificationSpace space = run.models().space();
+        List<org.forkscape.plan.Decision> decisions = run.plan().decisions();
+        long[] choices = new long[space.decisionCount()];
+        Map<String, Integer> out = new java.util.HashMap<>();
+        for (int slot = 0; slot < run.results().size(); slot++) {
+            space.decode(run.results().specIndex(slot), choices);
+            List<String> labels = new ArrayList<>();
+            for (int d = 0; d < decisions.size(); d++) {
+                labels.add(decisions.get(d).label(choices[d]));
+            }
+            out.put(String.join(" | ", labels), slot);
+        }
+        return out;
     }
 }

@@ -1,0 +1,192 @@
+package org.forkscape.fit;
+
+import java.io.Serializable;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.TreeMap;
+
+/**
+ * The sufficient statistics of one part of a variant's rows, in a form that parts add up in: per
+ * (missing pattern, fixed-effect level) cell the count, column sums and cross-products around the level
+ * shifts every part shares ({@link WholeRows}); per missing pattern the third- and fourth-order sums when
+ * asked for; per cluster column the (pattern, cluster, level) cells. Cells are keyed by the pattern's
+ * missing mask rather than by a group number (which each part would number in its own order of first
+ * appearance), and kept in key order, so that merging parts in a fixed order gives the same numbers
+ * whatever the order the parts were computed in. {@link #variant} turns the sum of every part into the
+ * {@link DataVariant} the solvers read, with the very cells the single-machine engine sums from its rows.
+ * Not thread safe; {@link #add} modifies this object.
+ */
+public final class PartialStatistics implements Serializable {
+    private static final long serialVersionUID = 1L;
+
+    /** A cell's place: missing mask, cluster code (-1 for the cells of the cross-products) and level. */
+    private record CellKey(long mask, int cluster, int level) implements Comparable<CellKey>, Serializable {
+        @Override
+        public int compareTo(CellKey o) {
+            int c = Long.compare(mask, o.mask);
+            if (c != 0) {
+                return c;
+            }
+            c = Integer.compare(cluster, o.cluster);
+            return c != 0 ? c : Integer.compare(level, o.level);
+        }
+    }
+
+    /** A cell's count, column sums and full cross-products. */
+    private static final class Sums implements Serializable {
+        private static final long serialVersionUID = 1L;
+        long n;
+        final double[] sum;
+        final double[] cross;
+
+        Sums(long n, double[] sum, double[] cross) {
+            this.n = n;
+            this.sum = sum;
+            this.cross = cross;
+        }
+
+        void add(Sums o) {
+            n += o.n;
+            for (int j = 0; j < sum.length; j++) {
+                sum[j] += o.sum[j];
+            }
+            for (int k = 0; k < cross.length; k++) {
+                cross[k] += o.cross[k];
+            }
+        }
+    }
+
+    private final int columns;
+    private long rows;
+    private final TreeMap<CellKey, Sums> cells = new TreeMap<>();
+    /** Per missing mask: {fourth order, third order}; null when the tensors were not asked for. */
+    private final TreeMap<Long, double[][]> tensors;
+    private final TreeMap<String, TreeMap<CellKey, Sums>> clusterCells = new TreeMap<>();
+    private final TreeMap<String, Integer> clusterCounts = new TreeMap<>();
+
+    private PartialStatistics(int columns, boolean withTensors) {
+        this.columns = columns;
+        this.tensors = withTensors ? new TreeMap<>() : null;
+    }
+
+    /**
+     * The statistics of one part's coded rows: its cell sums, and as asked the per-group tensors and the
+     * per-cluster cells of every cluster column the plan names, each summed by the engine's own routines.
+     */
+    static PartialStatistics of(DataVariant part, boolean withTensors, List<String> clusterColumns) {
+        PartialStatistics p = new PartialStatistics(part.columns, withTensors);
+        p.rows = part.rows;
+        long[] masks = part.groupMissing;
+        for (int g = 0; g < masks.length; g++) {
+            for (int l = 0; l < part.levels; l++) {
+                if (part.cellCount[g][l] > 0) {
+                    p.cells.put(new CellKey(masks[g], -1, l),
+                            new Sums(part.cellCount[g][l], part.cellSum[g][l], part.cellCross[g][l]));
+                }
+            }
+        }
+        if (withTensors) {
+            double[][][] t = FourthMoments.groupTensors(part, null);
+            for (int g = 0; g < masks.length; g++) {
+                if (t[g][0] != null) {
+                    p.tensors.put(masks[g], t[g]);
+                }
+            }
+        }
+        for (String column : clusterColumns) {
+            TreeMap<CellKey, Sums> byCell = new TreeMap<>();
+            for (ClusterMoments.Cell c : ClusterMoments.build(part, part.clusters.get(column)).cells()) {
+                byCell.put(new CellKey(masks[c.group], c.cluster, c.level), new Sums(c.n, c.sum, c.cross));
+            }
+            p.clusterCells.put(column, byCell);
+            p.clusterCounts.put(column, part.clusterCounts.get(column));
+        }
+        return p;
+    }
+
+    /** Adds {@code other}'s sums to this one's (modified); returns this. */
+    public PartialStatistics add(PartialStatistics other) {
+        rows += other.rows;
+        addCells(cells, other.cells);
+        if (tensors != null) {
+            other.tensors.forEach((mask, t) -> tensors.merge(mask, new double[][] {t[0].clone(), t[1].clone()}, (a, b) -> {
+                for (int o = 0; o < 2; o++) {
+                    for (int k = 0; k < a[o].length; k++) {
+                        a[o][k] += b[o][k];
+                    }
+                }
+                return a;
+            }));
+        }
+        other.clusterCells.forEach((column, c) -> addCells(clusterCells.computeIfAbsent(column,
+                k -> new TreeMap<>()), c));
+        other.clusterCounts.forEach((column, g) -> clusterCounts.merge(column, g, Math::max));
+        return this;
+    }
+
+    private static void addCells(TreeMap<CellKey, Sums> into, TreeMap<CellKey, Sums> from) {
+        from.forEach((key, s) -> {
+            Sums mine = into.get(key);
+            if (mine == null) {
+                into.put(key, new Sums(s.n, s.sum.clone(), s.cross.clone()));
+            } else {
+                mine.add(s);
+            }
+        });
+    }
+
+    /** Number of rows summed. */
+    public long rows() {
+        return rows;
+    }
+
+    /**
+     * The variant of these statistics, without rows: groups numbered in ascending order of their missing
+     * masks, the row-free routes' structures where they were summed.
+     */
+    DataVariant variant(ModelColumns layout, int levels, String absorbColumn, double[][] levelShift) {
+        if (rows > Integer.MAX_VALUE) {
+            throw new IllegalArgumentException("a data variant of " + rows + " rows is above the engine's limit of "
+                    + Integer.MAX_VALUE + " rows per variant");
+        }
+        java.util.TreeSet<Long> maskSet = new java.util.TreeSet<>();
+        cells.keySet().forEach(k -> maskSet.add(k.mask()));
+        long[] masks = maskSet.stream().mapToLong(Long::longValue).toArray();
+        Map<Long, Integer> groupOf = new HashMap<>();
+        for (int g = 0; g < masks.length; g++) {
+            groupOf.put(masks[g], g);
+        }
+        int[][] count = new int[masks.length][levels];
+        double[][][] sum = new double[masks.length][levels][];
+        double[][][] cross = new double[masks.length][levels][];
+        cells.forEach((key, s) -> {
+            int g = groupOf.get(key.mask());
+            count[g][key.level()] = (int) s.n;
+            sum[g][key.level()] = s.sum;
+            cross[g][key.level()] = s.cross;
+        });
+        double[][][] groupTensors = null;
+        if (tensors != null) {
+            groupTensors = new double[masks.length][][];
+            for (int g = 0; g < masks.length; g++) {
+                double[][] t = tensors.get(masks[g]);
+                groupTensors[g] = t == null ? new double[][] {null, null} : t;
+            }
+        }
+        Map<String, ClusterMoments> clusterMoments = new HashMap<>();
+        clusterCells.forEach((column, byCell) -> {
+            List<ClusterMoments.Cell> list = new ArrayList<>(byCell.size());
+            byCell.forEach((key, s) -> {
+                ClusterMoments.Cell c = new ClusterMoments.Cell(groupOf.get(key.mask()), key.cluster(), key.level(),
+                        s.sum, s.cross);
+                c.n = (int) s.n;
+                list.add(c);
+            });
+            clusterMoments.put(column, ClusterMoments.of(columns, list));
+        });
+        CodedRows shape = new CodedRows(layout, (int) rows, levels, absorbColumn, levelShift, masks, clusterCounts);
+        return new DataVariant(shape, new CellSums(count, sum, cross), groupTensors, clusterMoments);
+    }
+}

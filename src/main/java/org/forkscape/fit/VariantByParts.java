@@ -1,0 +1,343 @@
+package org.forkscape.fit;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.forkscape.data.Column;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.SampleRule;
+import org.forkscape.plan.Transform;
+import org.forkscape.data.Table;
+
+/**
+ * A data variant built from parts of its table (the partitions of a table held on a cluster) by the same
+ * coding steps as {@link VariantBuilder}: each part reports what the whole must decide ({@code *Facts},
+ * summed or merged across parts), the whole's decisions are handed back to every part as
+ * {@link WholeRows}, in the order the steps need them (each trim rule, then the transforms and the fixed
+ * effect's levels, then the level shifts), and each part finally sums its cells
+ * ({@link PartialStatistics}), which add up to the variant's statistics ({@link #variant}). A part's
+ * instance is built over the part's rows; the instance that decides is built over a table with the same
+ * columns and levels and no rows. The rows never leave their part.
+ */
+public final class VariantByParts {
+    private final CompiledPlan plan;
+    private final Plan source;
+
+    /** @param table one part's rows, or (to decide and to build the variant) the columns with no rows */
+    public VariantByParts(Plan plan, Table table) {
+        this.plan = new CompiledPlan(plan, table);
+        this.source = plan;
+    }
+
+    // ---- what a part reports
+
+    /** {count, mean, sum of squared deviations} of sample decision {@code sample}'s trim column over the rows kept before it. */
+    public double[] trimFacts(VariantKey key, int sample, WholeRows whole) {
+        boolean[] keep = RowSelection.kept(plan, key, sample, whole);
+        SampleRule.TrimRows t = (SampleRule.TrimRows) rule(key, sample);
+        return RowSelection.trimMoments(plan.table.column(t.column()), keep);
+    }
+
+    /**
+     * Per model column, for each outcome and predictor alternative whose transform depends on the data, its
+     * facts over the variant's rows ({@link Transforms#facts}); null entries elsewhere.
+     */
+    public double[][] transformFacts(VariantKey key, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        double[][] facts = new double[plan.layout.size()][];
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            facts[v.modelColumn()] = Transforms.facts(v.column(), v.transform(), sampled);
+        }
+        return facts;
+    }
+
+    /** The absorbed column's codes present in the variant's rows, ascending (empty when it absorbs nothing). */
+    public int[] absorbCodes(VariantKey key, WholeRows whole) {
+        Column absorbed = VariantBuilder.absorbed(plan, key);
+        return absorbed == null ? new int[0] : FixedEffectLevels.presentCodes(absorbed, RowSelection.of(plan, key,
+                whole), whole);
+    }
+
+    /** The non-missing values of the winsorized alternative at {@code modelColumn} in the variant's rows. */
+    public double[] winsorizeValues(VariantKey key, int modelColumn, WholeRows whole) {
+        int[] sampled = RowSelection.of(plan, key, whole);
+        CompiledPlan.CodedVariable v = alternative(modelColumn);
+        double[] x = Transforms.apply(v.column(), Transform.NONE, sampled, v.transformPath(), "");
+        return java.util.Arrays.stream(x).filter(d -> !Double.isNaN(d)).toArray();
+    }
+
+    /** Per level and model column: {count of non-missing values, their mean} in this part's rows of the variant. */
+    public double[][][] shiftFacts(VariantKey key, WholeRows whole) {
+        LevelShifts shifts = VariantBuilder.code(plan, key, whole.withLevelShift(null)).shifts();
+        double[][][] facts = new double[shifts.levelShift.length][shifts.levelShift[0].length][];
+        for (int l = 0; l < facts.length; l++) {
+            for (int j = 0; j < facts[l].length; j++) {
+                facts[l][j] = new double[] {shifts.nonMissing[l][j], shifts.levelShift[l][j]};
+            }
+        }
+        return facts;
+    }
+
+    /** Two parts' facts of a trim or transform as one (either may be null); see {@link Transforms#mergeFacts}. */
+    public static double[] mergeFacts(double[] a, double[] b) {
+        return Transforms.mergeFacts(a, b);
+    }
+
+    /** Two parts' shift facts as one (either may be null): counts add, means by the pairwise update. */
+    public static double[][][] mergeShiftFacts(double[][][] a, double[][][] b) {
+        if (a == null || b == null) {
+            return a == null ? b : a;
+        }
+        double[][][] out = new double[a.length][a[0].length][];
+        for (int l = 0; l < a.length; l++) {
+            for (int j = 0; j < a[l].length; j++) {
+                double n = a[l][j][0] + b[l][j][0];
+                double mean = n == 0 ? 0 : a[l][j][1] + (b[l][j][1] - a[l][j][1]) * b[l][j][0] / n;
+                out[l][j] = new double[] {n, mean};
+            }
+        }
+        return out;
+    }
+
+    /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
+    public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        DataVariant part = new DataVariant(coded, new CellSums(coded, null));
+        List<String> clusters = new ArrayList<>();
+        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+            clusters.add(c.column().name());
+        }
+        return PartialStatistics.of(part, withTensors, clusters);
+    }
+
+    // ---- what the whole decides
+
+    /**
+     * Builds the variant {@code key} from {@code parts}, in the order its steps need the whole's facts: each
+     * trim rule (its column's mean and spread over the rows kept before it), the transforms' statistics, each
+     * winsorize's quantiles, the fixed effect's levels present, the level shifts, and last the sufficient
+     * statistics. Plan errors that only the data reveal are thrown as on one machine.
+     *
+     * @param grouping the sorted values of the numeric grouping columns over the whole table
+     */
+    public DataVariant build(VariantKey key, WholeRows grouping, VariantParts parts) {
+        WholeRows facts = grouping;
+        for (int s : trimSamples(key)) {
+            WholeRows given = facts;
+            facts = withTrim(key, s, parts.reduce(part -> part.trimFacts(key, s, given), VariantByParts::mergeFacts),
+                    facts);
+        }
+        WholeRows sampled = facts;
+        facts = withTransforms(key, parts.reduce(part -> part.transformFacts(key, sampled), VariantByParts::mergeAll),
+                facts);
+        for (double[] w : winsorized()) {
+            int column = (int) w[0];
+            WholeRows given = facts;
+            double[] q = parts.quantiles(part -> part.winsorizeValues(key, column, given), w[1], 1 - w[1]);
+            facts = facts.withWinsorize(column, q[0], q[1]);
+        }
+        WholeRows coded = facts;
+        int[] codes = parts.reduce(part -> part.absorbCodes(key, coded), VariantByParts::union);
+        facts = facts.withAbsorbCodes(codes == null ? new int[0] : codes);
+        WholeRows levelled = facts;
+        facts = withShifts(parts.reduce(part -> part.shiftFacts(key, levelled), VariantByParts::mergeShiftFacts),
+                facts);
+        WholeRows shifted = facts;
+        boolean tensors = wantsTensors(key);
+        PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
+        DataVariant variant = variant(key, facts, sum);
+        variant.refitReduction = (mom, cols, y) -> refitRows(key, shifted, variant, mom, cols, y, parts);
+        if (tensors && !tensorsFit(variant.groupCount())) {
+            throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
+                    + "the rows are above the engine's memory bound for them (" + variant.groupCount()
+                    + " missing-value patterns of " + variant.layout().size() + " columns); run this plan on one "
+                    + "machine (forkscape.jar run)");
+        }
+        return variant;
+    }
+
+    /**
+     * A QR refit's rows from the parts: each part reduces its usable rows' [X y] in within coordinates to
+     * its triangular factor, and the factors are stacked and factored again, the tall-skinny QR of Demmel,
+     * Grigori, Hoemmen &amp; Langou (2012), "Communication-optimal parallel and sequential QR and LU
+     * factorizations", SIAM Journal on Scientific Computing 34(1). One pass over the parts' rows per refit.
+     */
+    private static DesignRows refitRows(VariantKey key, WholeRows whole, DataVariant variant, Moments mom,
+            int[] cols, int y, VariantParts parts) {
+        long[] usable = mom.usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).toArray();
+        double[][] offsets = mom.levelMeanOffset;
+        int[] columns = cols.clone();
+        double[][] factor = parts.reduce(part -> part.refitFactor(key, whole, usable, offsets, columns, y),
+                VariantByParts::stackedFactor);
+        return DesignRows.ofFactor(factor == null ? new double[0][] : factor, cols.length);
+    }
+
+    /**
+     * This part's rows among the usable missing patterns ({@code usableMasks}), columns {@code cols} and the
+     * outcome {@code y} in within coordinates (minus {@code offsets}, the usable rows' level means around the
+     * shifts), reduced to their triangular factor (at most cols.length + 1 rows).
+     */
+    public double[][] refitFactor(VariantKey key, WholeRows whole, long[] usableMasks, double[][] offsets, int[] cols,
+            int y) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        java.util.Set<Long> usable = new java.util.HashSet<>();
+        for (long m : usableMasks) {
+            usable.add(m);
+        }
+        List<double[]> rows = new ArrayList<>();
+        for (int r = 0; r < coded.rows; r++) {
+            if (!usable.contains(coded.groupMissing[coded.group[r]])) {
+                continue;
+            }
+            double[] off = offsets[coded.level[r]];
+            double[] row = new double[cols.length + 1];
+            for (int j = 0; j < cols.length; j++) {
+                row[j] = coded.shifted[cols[j]][r] - off[cols[j]];
+            }
+            row[cols.length] = coded.shifted[y][r] - off[y];
+            rows.add(row);
+        }
+        return triangular(rows.toArray(new double[0][]));
+    }
+
+    /** Two parts' factors as one: stacked, and factored again when that leaves more rows than columns. */
+    static double[][] stackedFactor(double[][] a, double[][] b) {
+        double[][] both = new double[a.length + b.length][];
+        System.arraycopy(a, 0, both, 0, a.length);
+        System.arraycopy(b, 0, both, a.length, b.length);
+        return triangular(both);
+    }
+
+    /**
+     * The triangular factor R of {@code rows} by Householder QR (Commons Math's {@code QRDecomposition}),
+     * its first min(m, n) rows; rows no more numerous than columns are returned as they are.
+     */
+    private static double[][] triangular(double[][] rows) {
+        if (rows.length == 0 || rows.length <= rows[0].length) {
+            return rows;
+        }
+        int n = rows[0].length;
+        double[][] r = new org.apache.commons.math3.linear.QRDecomposition(
+                new org.apache.commons.math3.linear.Array2DRowRealMatrix(rows, false), 0).getR().getData();
+        return java.util.Arrays.copyOf(r, n);
+    }
+
+    private static double[][] mergeAll(double[][] a, double[][] b) {
+        double[][] out = new double[a.length][];
+        for (int j = 0; j < a.length; j++) {
+            out[j] = Transforms.mergeFacts(a[j], b[j]);
+        }
+        return out;
+    }
+
+    private static int[] union(int[] a, int[] b) {
+        return java.util.stream.IntStream.concat(java.util.stream.IntStream.of(a), java.util.stream.IntStream.of(b))
+                .distinct().sorted().toArray();
+    }
+
+    /** The sample decisions (positions among them) whose chosen alternative in {@code key} is a trim, in order. */
+    int[] trimSamples(VariantKey key) {
+        List<Integer> out = new ArrayList<>();
+        for (int s = 0; s < plan.samples.length; s++) {
+            if (rule(key, s) instanceof SampleRule.TrimRows) {
+                out.add(s);
+            }
+        }
+        return out.stream().mapToInt(Integer::intValue).toArray();
+    }
+
+    /** With the trim of sample decision {@code sample} from every part's merged facts, refused as the engine refuses it. */
+    WholeRows withTrim(VariantKey key, int sample, double[] facts, WholeRows whole) {
+        SampleRule.TrimRows t = (SampleRule.TrimRows) rule(key, sample);
+        long n = (long) facts[0];
+        double sd = n > 1 ? Math.sqrt(facts[2] / (n - 1)) : 0;
+        RowSelection.requireSpread(t.column(), n, sd, "decisions[" + plan.sampleAt[sample] + "].alternatives["
+                + key.sampleChoices()[sample] + "].trim");
+        return whole.withTrim(sample, facts[1], sd);
+    }
+
+    /** With every standardize's mean and spread from the merged facts; a transform that cannot apply is refused here. */
+    WholeRows withTransforms(VariantKey key, double[][] facts, WholeRows whole) {
+        WholeRows out = whole;
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            double[] given = Transforms.check(v.column().name(), v.transform(), facts[v.modelColumn()],
+                    v.transformPath(), plan.describeRows(key.sampleChoices()));
+            if (given != null) {
+                out = out.withStandardize(v.modelColumn(), given[0], given[1]);
+            }
+        }
+        return out;
+    }
+
+    /** Model columns of the winsorized outcome and predictor alternatives, with their fractions. */
+    List<double[]> winsorized() {
+        List<double[]> out = new ArrayList<>();
+        for (CompiledPlan.CodedVariable v : alternatives()) {
+            if (v.transform() instanceof Transform.Winsorize w) {
+                out.add(new double[] {v.modelColumn(), w.fraction()});
+            }
+        }
+        return out;
+    }
+
+    /** With the level shifts from every part's merged {@link #shiftFacts}. */
+    WholeRows withShifts(double[][][] facts, WholeRows whole) {
+        double[][] shift = new double[facts.length][facts[0].length];
+        for (int l = 0; l < facts.length; l++) {
+            for (int j = 0; j < facts[l].length; j++) {
+                shift[l][j] = facts[l][j][0] == 0 ? 0 : facts[l][j][1];
+            }
+        }
+        return whole.withLevelShift(shift);
+    }
+
+    /**
+     * Whether the variant's specifications need the fourth-moment tensors: some error type is HC0 or HC1
+     * and the variant absorbs nothing (the tensors' route does not cover absorbed fixed effects).
+     */
+    boolean wantsTensors(VariantKey key) {
+        if (VariantBuilder.absorbed(plan, key) != null) {
+            return false;
+        }
+        for (ErrorType e : plan.errorTypes) {
+            if (e.kind() == ErrorType.Kind.HC0 || e.kind() == ErrorType.Kind.HC1) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Whether the tensors of {@code groups} missing patterns stay within the engine's memory bound for them. */
+    boolean tensorsFit(int groups) {
+        long perGroup = FourthMoments.distinctFourth(plan.layout.size()) + FourthMoments.distinctThird(plan.layout.size());
+        return perGroup * groups <= SandwichRoute.MAX_TENSOR_DOUBLES;
+    }
+
+    /** The variant the solvers read, from the sum of every part's statistics and the facts they shared. */
+    DataVariant variant(VariantKey key, WholeRows whole, PartialStatistics sum) {
+        Column absorbed = VariantBuilder.absorbed(plan, key);
+        int levels = absorbed == null ? 1 : Math.max(1, whole.absorbCodes().length);
+        return sum.variant(plan.layout, levels, absorbed == null ? null : absorbed.name(), whole.levelShift());
+    }
+
+    /** The plan this was compiled from. */
+    public Plan plan() {
+        return source;
+    }
+
+    private SampleRule rule(VariantKey key, int sample) {
+        Decision.Sample d = plan.samples[sample];
+        return d.alternatives().get(key.sampleChoices()[sample]);
+    }
+
+    private List<CompiledPlan.CodedVariable> alternatives() {
+        List<CompiledPlan.CodedVariable> all = new ArrayList<>(List.of(plan.outcomes));
+        all.addAll(List.of(plan.predictors));
+        return all;
+    }
+
+    private CompiledPlan.CodedVariable alternative(int modelColumn) {
+        return alternatives().stream().filter(v -> v.modelColumn() == modelColumn).findFirst().orElseThrow();
+    }
+}

@@ -1,0 +1,184 @@
+package org.forkscape.spark;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.io.Reader;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Iterator;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVParser;
+import org.apache.commons.csv.CSVRecord;
+import org.apache.spark.sql.SparkSession;
+import org.forkscape.cli.CommandLine;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.fit.PlanEdits;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import tools.jackson.databind.JsonNode;
+import tools.jackson.databind.ObjectMapper;
+
+/**
+ * The Spark runner's command end to end: the same plan through {@code forkscape.jar run} on the CSV and
+ * through {@link SparkRun} on a Parquet copy writes the same specifications.csv (text cells equal, numbers
+ * within {@value SparkParityTest#RELATIVE} relative) and the same summary.json (numbers within 1e-9 relative,
+ * or {@value #ROUNDING_ZERO} absolute for quantities that are zero up to rounding; apart from the run's time, its
+ * provenance, whose data hash is null on Spark, and the standard-error routes, since Spark never takes the row
+ * pass); a refused feature is one line at its JSON path, exit code 2,
+ * and nothing written.
+ */
+class SparkRunCommandTest {
+    /** Below this absolute difference two summary numbers are both rounding noise around zero. */
+    static final double ROUNDING_ZERO = 1e-15;
+
+    static SparkSession spark;
+    @TempDir
+    static Path folder;
+    static Path parquet;
+    static Path plan;
+
+    @BeforeAll
+    static void start() throws IOException {
+        ((ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger(org.slf4j.Logger.ROOT_LOGGER_NAME))
+                .setLevel(ch.qos.logback.classic.Level.WARN);
+        spark = SparkSession.builder().master("local[2]").appName("forkscape-spark-command-test")
+                .config("spark.ui.enabled", "false").config("spark.sql.shuffle.partitions", "4").getOrCreate();
+        parquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
+                "toothgrowth.csv")), folder.resolve("toothgrowth.parquet"), 2);
+        Files.copy(SparkParityTest.REFERENCE.resolve("toothgrowth.csv"), folder.resolve("toothgrowth.csv"));
+        plan = folder.resolve("toothgrowth-plan.json");
+        Files.writeString(plan, PlanEdits.withoutAlternatives(Files.readString(SparkParityTest.REFERENCE
+                .resolve("toothgrowth-plan.json")), "errors", List.of("HC3")));
+    }
+
+    @AfterAll
+    static void stop() {
+        spark.stop();
+    }
+
+    @Test
+    void writesTheSameFilesAsTheSingleMachineRun() throws IOException {
+        Path local = folder.resolve("local");
+        Path onSpark = folder.resolve("spark");
+        assertEquals(0, CommandLine.execute(new String[] {"run", plan.toString(), "--out", local.toString()},
+                quiet(), quiet()));
+        assertEquals(0, SparkRun.execute(new String[] {"run", plan.toString(), "--out", onSpark.toString(),
+                "--data", parquet.toString(), "--partitions", "3"}));
+
+        List<CSVRecord> a = csv(local.resolve("specifications.csv"));
+        List<CSVRecord> b = csv(onSpark.resolve("specifications.csv"));
+        assertEquals(a.size(), b.size());
+        assertEquals(a.get(0).toList(), b.get(0).toList(), "header");
+        for (int r = 1; r < a.size(); r++) {
+            for (int c = 0; c < a.get(r).size(); c++) {
+                cell(a.get(r).get(c), b.get(r).get(c), "specifications.csv row " + r + ", " + a.get(0).get(c));
+            }
+        }
+
+        ObjectMapper json = new ObjectMapper();
+        JsonNode sa = json.readTree(local.resolve("summary.json").toFile());
+        JsonNode sb = json.readTree(onSpark.resolve("summary.json").toFile());
+        assertTrue(sb.get("provenance").get("data_sha256").isNull(), "no data hash on Spark");
+        assertEquals(sa.get("data_rows").asInt(), sb.get("data_rows").asInt());
+        // the routes differ by design: Spark never takes the row pass, which one machine may find cheaper
+        assertTrue(!sb.get("standard_error_routes").toString().contains("row_pass"), sb.get("standard_error_routes")
+                .toString());
+        same(sa, sb, "summary.json", Set.of("seconds", "provenance", "standard_error_routes"));
+        assertTrue(Files.exists(onSpark.resolve("overfitting.csv")));
+    }
+
+    @Test
+    void refusesHc3AtItsPathWithNothingWritten() throws IOException {
+        Path hc3 = folder.resolve("hc3-plan.json");
+        Files.copy(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"), hc3);
+        Path out = folder.resolve("refused");
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        PrintStream was = System.err;
+        int code;
+        System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
+        try {
+            code = SparkRun.execute(new String[] {"run", hc3.toString(), "--out", out.toString(), "--data",
+                    parquet.toString()});
+        } finally {
+            System.setErr(was);
+        }
+        assertEquals(2, code);
+        String message = err.toString(StandardCharsets.UTF_8).trim();
+        assertTrue(message.startsWith("forkscape: hc3-plan.json, decisions[4].alternatives[2]: HC3 needs each row's "
+                + "leverage"), message);
+        assertEquals(1, message.lines().count(), message);
+        assertTrue(!Files.exists(out.resolve("specifications.csv")));
+    }
+
+    private static void cell(String expected, String actual, String where) {
+        if (expected.equals(actual)) {
+            return;
+        }
+        double e;
+        double x;
+        try {
+            e = Double.parseDouble(expected);
+            x = Double.parseDouble(actual);
+        } catch (NumberFormatException notANumber) {
+            assertEquals(expected, actual, where);
+            return;
+        }
+        SparkParityTest.assertClose(e, x, SparkParityTest.RELATIVE, where);
+    }
+
+    private static void same(JsonNode a, JsonNode b, String where, Set<String> skip) {
+        if (a.isNumber() && b.isNumber()) {
+            // a share or sum that is zero up to rounding (such as a variance share of 1e-31) has no relative accuracy
+            if (Math.abs(a.asDouble() - b.asDouble()) > ROUNDING_ZERO) {
+                SparkParityTest.assertClose(a.asDouble(), b.asDouble(), 1e-9, where);
+            }
+            return;
+        }
+        assertEquals(a.getNodeType(), b.getNodeType(), where);
+        if (a.isObject()) {
+            assertEquals(names(a), names(b), where);
+            for (Map.Entry<String, JsonNode> e : a.properties()) {
+                if (!skip.contains(e.getKey())) {
+                    same(e.getValue(), b.get(e.getKey()), where + "." + e.getKey(), Set.of());
+                }
+            }
+        } else if (a.isArray()) {
+            assertEquals(a.size(), b.size(), where);
+            for (int i = 0; i < a.size(); i++) {
+                same(a.get(i), b.get(i), where + "[" + i + "]", Set.of());
+            }
+        } else {
+            assertEquals(a, b, where);
+        }
+    }
+
+    private static List<String> names(JsonNode o) {
+        List<String> out = new ArrayList<>();
+        for (Iterator<String> it = o.propertyNames().iterator(); it.hasNext();) {
+            out.add(it.next());
+        }
+        return out;
+    }
+
+    private static List<CSVRecord> csv(Path file) throws IOException {
+        try (Reader in = Files.newBufferedReader(file, StandardCharsets.UTF_8);
+                CSVParser p = CSVParser.builder().setReader(in).setFormat(CSVFormat.RFC4180).get()) {
+            return p.getRecords();
+        }
+    }
+
+    private static PrintStream quiet() {
+        return new PrintStream(new ByteArrayOutputStream(), true, StandardCharsets.UTF_8);
+    }
+}

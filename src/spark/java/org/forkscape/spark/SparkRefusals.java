@@ -1,0 +1,85 @@
+package org.forkscape.spark;
+
+import java.util.List;
+import org.forkscape.InputException;
+import org.forkscape.plan.AbsorbChoice;
+import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
+import org.forkscape.plan.Plan;
+
+/**
+ * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
+ * with the way out. They all need passes over rows beyond the sufficient statistics (README, "Beyond one
+ * machine", lists them): null draws, generalized linear models, HC2 and HC3, multi-way clustering, HC0
+ * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
+ * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
+ * statistics are unweighted sums).
+ */
+final class SparkRefusals {
+    static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
+
+    private SparkRefusals() {
+    }
+
+    static void check(Plan plan) {
+        if (plan.nullDraws() > 0) {
+            throw new InputException("nullDraws", "null draws are not made on Spark (their resampling reads every "
+                    + "row once per draw); set nullDraws to 0 or drop --null-draws" + WAY_OUT.substring(1));
+        }
+        List<Decision> ds = plan.decisions();
+        boolean absorbs = false;
+        for (Decision d : ds) {
+            if (d instanceof Decision.Absorb a) {
+                absorbs |= a.alternatives().stream().map(AbsorbChoice::columns).anyMatch(c -> !c.isEmpty());
+            }
+        }
+        for (int i = 0; i < ds.size(); i++) {
+            Decision d = ds.get(i);
+            if (d instanceof Decision.Absorb a) {
+                for (int j = 0; j < a.alternatives().size(); j++) {
+                    if (a.alternatives().get(j).columns().size() > 1) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].columns",
+                                "two absorbed columns are demeaned by alternating projections, iterations over the "
+                                        + "rows, which the Spark runner does not make" + WAY_OUT);
+                    }
+                }
+            } else if (d instanceof Decision.Weights w) {
+                for (int j = 0; j < w.alternatives().size(); j++) {
+                    if (w.alternatives().get(j).weighted()) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].column",
+                                "analytic weights are not summed on Spark (its statistics are unweighted)" + WAY_OUT);
+                    }
+                }
+            } else if (d instanceof Decision.Model m) {
+                for (int j = 0; j < m.alternatives().size(); j++) {
+                    ModelFamily f = m.alternatives().get(j);
+                    if (!f.leastSquares()) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
+                                + " is fitted by iterations over the rows, which the Spark runner does not make"
+                                + WAY_OUT);
+                    }
+                }
+            } else if (d instanceof Decision.Errors e) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    ErrorType t = e.alternatives().get(j);
+                    String at = "decisions[" + i + "].alternatives[" + j + "]";
+                    if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
+                        throw new InputException(at, t.label() + " needs each row's leverage, a pass over the rows "
+                                + "per specification, which the Spark runner does not make" + WAY_OUT);
+                    }
+                    if (t.multiway()) {
+                        throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
+                                + WAY_OUT);
+                    }
+                    if (absorbs && (t.kind() == ErrorType.Kind.HC0 || t.kind() == ErrorType.Kind.HC1)) {
+                        throw new InputException(at, t.label() + " with absorbed fixed effects needs a pass over "
+                                + "the rows per specification, which the Spark runner does not make (without "
+                                + "absorption it is computed from fourth moments; cluster errors work with both)"
+                                + WAY_OUT);
+                    }
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,133 @@
+package org.forkscape.spark;
+
+import java.io.Serializable;
+import java.math.BigDecimal;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.Iterator;
+import java.util.List;
+import java.util.Map;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.types.BooleanType;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.types.DecimalType;
+import org.apache.spark.sql.types.NumericType;
+import org.apache.spark.sql.types.StringType;
+import org.apache.spark.sql.types.StructField;
+import org.forkscape.InputException;
+import org.forkscape.data.CategoricalColumn;
+import org.forkscape.data.Column;
+import org.forkscape.data.NumericColumn;
+import org.forkscape.data.Table;
+
+/**
+ * The columns a plan reads from a Parquet data set, as Forkscape types them: integers, floats, decimals
+ * and booleans (as 0/1) are numeric, strings are categorical with their distinct values as levels in sorted
+ * order (as the CSV reader orders them), nulls and NaN are missing. Turns one partition's rows into a
+ * {@link Table} whose codes are the whole data set's, and gives the driver the same columns without rows.
+ */
+final class TableShape implements Serializable {
+    private static final long serialVersionUID = 1L;
+
+    private final String[] names;
+    private final boolean[] categorical;
+    private final String[][] levels;
+
+    TableShape(String[] names, boolean[] categorical, String[][] levels) {
+        this.names = names;
+        this.categorical = categorical;
+        this.levels = levels;
+    }
+
+    /** Whether Forkscape reads a Parquet column of this type; if so, whether it is categorical. */
+    static boolean categorical(StructField field, String source) {
+        DataType t = field.dataType();
+        if (t instanceof StringType) {
+            return true;
+        }
+        if (t instanceof NumericType || t instanceof BooleanType || t instanceof DecimalType) {
+            return false;
+        }
+        throw new InputException("data", "column \"" + field.name() + "\" of " + source + " has the Parquet type "
+                + t.simpleString() + ", which Forkscape does not read; give numbers, booleans or text");
+    }
+
+    String[] names() {
+        return names.clone();
+    }
+
+    /** The columns with no rows, for a table of {@code rows} rows held elsewhere; {@code others} are the data's further columns (for messages). */
+    Table withoutRows(String source, int rows, List<String> others) {
+        List<Column> columns = new ArrayList<>();
+        for (int c = 0; c < names.length; c++) {
+            columns.add(categorical[c] ? new CategoricalColumn(names[c], new int[0], List.of(levels[c]))
+                    : new NumericColumn(names[c], new double[0]));
+        }
+        for (String other : others) {
+            columns.add(new NumericColumn(other, new double[0]));
+        }
+        return Table.withoutRows(source, columns, rows);
+    }
+
+    /** One partition's rows (the columns of {@link #names}, in order) as a table coded like the whole. */
+    Table part(Iterator<Row> rows) {
+        int p = names.length;
+        List<Map<String, Integer>> codeOf = new ArrayList<>();
+        for (int c = 0; c < p; c++) {
+            Map<String, Integer> m = new HashMap<>();
+            if (categorical[c]) {
+                for (int k = 0; k < levels[c].length; k++) {
+                    m.put(levels[c][k], k);
+                }
+            }
+            codeOf.add(m);
+        }
+        double[][] numbers = new double[p][];
+        int[][] codes = new int[p][];
+        for (int c = 0; c < p; c++) {
+            if (categorical[c]) {
+                codes[c] = new int[1024];
+            } else {
+                numbers[c] = new double[1024];
+            }
+        }
+        int n = 0;
+        while (rows.hasNext()) {
+            Row row = rows.next();
+            if (n == (categorical[0] ? codes[0].length : numbers[0].length)) {
+                for (int c = 0; c < p; c++) {
+                    if (categorical[c]) {
+                        codes[c] = Arrays.copyOf(codes[c], 2 * n);
+                    } else {
+                        numbers[c] = Arrays.copyOf(numbers[c], 2 * n);
+                    }
+                }
+            }
+            for (int c = 0; c < p; c++) {
+                if (categorical[c]) {
+                    codes[c][n] = row.isNullAt(c) ? -1 : codeOf.get(c).get(row.getString(c));
+                } else {
+                    numbers[c][n] = row.isNullAt(c) ? Double.NaN : number(row.get(c));
+                }
+            }
+            n++;
+        }
+        List<Column> columns = new ArrayList<>(p);
+        for (int c = 0; c < p; c++) {
+            columns.add(categorical[c] ? new CategoricalColumn(names[c], Arrays.copyOf(codes[c], n),
+                    List.of(levels[c])) : new NumericColumn(names[c], Arrays.copyOf(numbers[c], n)));
+        }
+        return new Table("partition", columns);
+    }
+
+    private static double number(Object v) {
+        if (v instanceof Boolean b) {
+            return b ? 1 : 0;
+        }
+        if (v instanceof BigDecimal d) {
+            return d.doubleValue();
+        }
+        return ((Number) v).doubleValue();
+    }
+}

@@ -10,7 +10,8 @@ import java.util.Map;
  * key coefficient is sum_i e_i u_i = a' S w - beta a's - alpha w's + n alpha beta over each
  * (cluster, fixed-effect level) cell, with S, s and n the cell's cross-products, sums and count around
  * the level's shift. Cells are kept per missing-pattern group so that each specification sums exactly
- * its own usable rows.
+ * its own usable rows. Beside two absorbed columns the within values depend on the usable set, so each set's
+ * cells are summed from its own demeaned rows instead ({@link #ofWithinRows}).
  */
 final class ClusterMoments {
     /** One (group, cluster, level) cell. */
@@ -133,6 +134,88 @@ final class ClusterMoments {
             out.add(cell);
         }
         return new ClusterMoments(p, out);
+    }
+
+    /**
+     * The per-cluster cells of the explicit rows of a set with two absorbed columns: per cluster (one level,
+     * offsets 0), the count, sums and cross-products of the set's demeaned rows ({@code demeaned}, over the
+     * variant's rows), each times the square root of its weight in a weighted variant. The cluster's score
+     * a'S w is then sum_i w_i e_i u_i, the score of weighted least squares. Clusters are numbered in order
+     * of first appearance and each cell's rows summed in row order, so the cells do not depend on the
+     * thread that builds them.
+     *
+     * @param clusterCodes the variant's code of each row for the cluster column (-1 where missing)
+     */
+    static Usable ofWithinRows(Moments mom, double[][] demeaned, int[] clusterCodes) {
+        DataVariant v = mom.variant;
+        int p = v.columns;
+        int[] rows = mom.usableRows();
+        int codes = 0;
+        for (int row : rows) {
+            codes = Math.max(codes, clusterCodes[row] + 1);
+        }
+        int[] cellOfCluster = new int[codes];
+        java.util.Arrays.fill(cellOfCluster, -1);
+        int[] cellOf = new int[rows.length];
+        int cells = 0;
+        int maxCluster = -1;
+        for (int i = 0; i < rows.length; i++) {
+            int c = clusterCodes[rows[i]];
+            if (c < 0) {
+                cellOf[i] = -1;
+                continue;
+            }
+            if (cellOfCluster[c] < 0) {
+                cellOfCluster[c] = cells++;
+            }
+            cellOf[i] = cellOfCluster[c];
+            maxCluster = Math.max(maxCluster, c);
+        }
+        int[] start = new int[cells + 1];
+        for (int id : cellOf) {
+            if (id >= 0) {
+                start[id + 1]++;
+            }
+        }
+        for (int c = 0; c < cells; c++) {
+            start[c + 1] += start[c];
+        }
+        int[] order = new int[start[cells]];
+        int[] fill = start.clone();
+        for (int i = 0; i < rows.length; i++) {
+            if (cellOf[i] >= 0) {
+                order[fill[cellOf[i]]++] = rows[i];
+            }
+        }
+        int[] cluster = new int[cells];
+        int[] level = new int[cells];
+        int[] n = new int[cells];
+        double[][] sum = new double[cells][p];
+        double[][] cross = new double[cells][p * p];
+        double[][] z = new double[p][];
+        for (int id = 0; id < cells; id++) {
+            int m = start[id + 1] - start[id];
+            n[id] = m;
+            cluster[id] = clusterCodes[order[start[id]]];
+            for (int j = 0; j < p; j++) {
+                double[] col = demeaned[j];
+                double[] zj = z[j] == null || z[j].length < m ? new double[m] : z[j];
+                for (int t = 0; t < m; t++) {
+                    int row = order[start[id] + t];
+                    zj[t] = col == null ? 0 : v.weight == null ? col[row] : col[row] * Math.sqrt(v.weight[row]);
+                }
+                z[j] = zj;
+            }
+            for (int a = 0; a < p; a++) {
+                sum[id][a] = Kernels.sum(z[a], m);
+                for (int b = a; b < p; b++) {
+                    double d = Kernels.dot(z[a], z[b], m);
+                    cross[id][a * p + b] = d;
+                    cross[id][b * p + a] = d;
+                }
+            }
+        }
+        return new Usable(cluster, level, n, sum, cross, maxCluster + 1);
     }
 
     /** The (cluster, level) cells of the usable rows of {@code mom}, in first-appearance order. */

@@ -6,8 +6,10 @@ package org.forkscape.fit;
  * residual's coefficients, w the key row of (X'X)^-1, alpha and beta the specification's mean offsets),
  * sum e_i^2 u_i^2 expands into contractions of sum z(x)z(x)z(x)z, sum z(x)z(x)z, sum z z', sum z and n.
  * The fourth-order part is stored as a symmetric matrix over column pairs, Q[(i,j)][(k,l)] = sum
- * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Only variants without
- * absorbed fixed effects use it (each level would need its own tensor).
+ * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Built from the per-group
+ * tensors in variants without absorbed fixed effects (with one absorbed column each level would need its
+ * own tensor), and from the explicit demeaned rows of each usable set beside two absorbed columns
+ * ({@link #ofWithinRows}), weighted or not.
  */
 final class FourthMoments {
     final int columns;
@@ -98,7 +100,7 @@ final class FourthMoments {
         double[][][] partial = new double[tasks.size()][][];
         java.util.function.IntConsumer work = t -> {
             int[] task = tasks.get(t);
-            partial[t] = block(v, rowsOf[task[0]], task[1], task[2]);
+            partial[t] = block(v.shifted, null, rowsOf[task[0]], task[1], task[2]);
         };
         if (pool == null || tasks.size() == 1) {
             for (int t = 0; t < tasks.size(); t++) {
@@ -144,15 +146,29 @@ final class FourthMoments {
         return out;
     }
 
-    private static double[][] block(DataVariant v, int[] rows, int from, int to) {
-        int p = v.columns;
+    /**
+     * The distinct third- and fourth-order sums over the rows {@code rows[from..to)} of {@code source}, each
+     * value times the square root of its row's weight when {@code weight} is given; a null column reads as 0.
+     */
+    private static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to) {
+        int p = source.length;
         int b = to - from;
         double[][] z = new double[p][b];
         for (int j = 0; j < p; j++) {
-            double[] col = v.shifted[j];
+            double[] col = source[j];
             double[] zj = z[j];
-            for (int r = 0; r < b; r++) {
-                zj[r] = col[rows[from + r]];
+            if (col == null) {
+                continue;
+            }
+            if (weight == null) {
+                for (int r = 0; r < b; r++) {
+                    zj[r] = col[rows[from + r]];
+                }
+            } else {
+                for (int r = 0; r < b; r++) {
+                    int row = rows[from + r];
+                    zj[r] = col[row] * Math.sqrt(weight[row]);
+                }
             }
         }
         double[] f4 = new double[(int) distinctFourth(p)];
@@ -216,6 +232,53 @@ final class FourthMoments {
                 m.s2[k] += c[k];
             }
         }
+        layOut(m, f4, f3);
+        return new FourthMoments(m, count);
+    }
+
+    /**
+     * The moments of the explicit rows of a set with two absorbed columns: its demeaned rows ({@code demeaned},
+     * over the variant's rows), each times the square root of its weight in a weighted variant, so that the
+     * plain sums over them are the sums weighted least squares needs (sum w^2 e^2 u^2 = sum (sqrt(w) e)^2
+     * (sqrt(w) u)^2). Their offsets are 0. Rows are taken in fixed blocks in row order and the blocks' sums
+     * added in that order, so the result does not depend on the thread that builds it; the second-order sums
+     * are the set's within matrix, formed from the same scaled rows.
+     */
+    static FourthMoments ofWithinRows(Moments mom, double[][] demeaned) {
+        DataVariant v = mom.variant;
+        int p = v.columns;
+        int[] rows = mom.usableRows();
+        FourthMoments m = new FourthMoments(p);
+        double[] f4 = new double[(int) distinctFourth(p)];
+        double[] f3 = new double[(int) distinctThird(p)];
+        for (int from = 0; from < rows.length; from += BLOCK_ROWS) {
+            double[][] part = block(demeaned, v.weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS));
+            for (int k = 0; k < f4.length; k++) {
+                f4[k] += part[0][k];
+            }
+            for (int k = 0; k < f3.length; k++) {
+                f3[k] += part[1][k];
+            }
+        }
+        for (int j = 0; j < p; j++) {
+            double[] col = demeaned[j];
+            if (col == null) {
+                continue;
+            }
+            double t = 0;
+            for (int row : rows) {
+                t += v.weight == null ? col[row] : col[row] * Math.sqrt(v.weight[row]);
+            }
+            m.s1[j] = t;
+        }
+        System.arraycopy(mom.within, 0, m.s2, 0, p * p);
+        layOut(m, f4, f3);
+        return new FourthMoments(m, mom.n);
+    }
+
+    /** Lays the distinct sums (nested-loop order i <= j <= k <= l) out over column pairs into {@code m}. */
+    private static void layOut(FourthMoments m, double[] f4, double[] f3) {
+        int p = m.columns;
         int i4 = 0;
         int i3 = 0;
         int[] pi = m.pairIndex;
@@ -246,7 +309,6 @@ final class FourthMoments {
                 }
             }
         }
-        return new FourthMoments(m, count);
     }
 
     /**

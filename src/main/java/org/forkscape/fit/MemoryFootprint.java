@@ -96,6 +96,40 @@ public final class MemoryFootprint {
                 + INT * (long) columns * columns + 5 * ARRAY;
     }
 
+    /** Whether the run would build the fourth moments of each usable set's demeaned rows (two absorbed columns). */
+    public static boolean withinFourthMomentsPay(int rows, int columns, long specifications, double meanColumns) {
+        return SandwichRoute.withinFourthMomentsPay(rows, columns, specifications, meanColumns);
+    }
+
+    /**
+     * The fourth moments of the demeaned rows of each usable set beside two absorbed columns
+     * ({@link FourthMoments#ofWithinRows}), and while one is summed, a block of scaled rows, its products
+     * and the distinct sums, per worker building one.
+     */
+    public static long withinFourthMoments(int rows, int columns, long usableSets, int threads) {
+        long distinct = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+        long block = Math.min(rows, FourthMoments.BLOCK_ROWS);
+        return usableSets * fourthMoments(columns)
+                + Math.min(threads, usableSets) * DOUBLE * ((columns + 2L) * block + 3 * distinct);
+    }
+
+    /** Whether the run would build per-cluster cells of each usable set's demeaned rows (two absorbed columns). */
+    public static boolean withinClusterMomentsPay(int rows, int columns, long specifications, double meanColumns,
+            int clusters) {
+        return SandwichRoute.withinClusterMomentsPay(rows, columns, specifications, meanColumns, clusters);
+    }
+
+    /**
+     * The per-cluster cells of each usable set's demeaned rows beside two absorbed columns
+     * ({@link ClusterMoments#ofWithinRows}), and while one set's are formed, each row's cell and order, the
+     * cluster index and the gathered rows of the largest cluster, per worker building one.
+     */
+    public static long withinClusterCells(int rows, int columns, int clusters, int largestCluster, long usableSets,
+            int threads) {
+        return usableSets * usableClusterCells(columns, clusters)
+                + Math.min(threads, usableSets) * (INT * (3L * rows + clusters) + DOUBLE * columns * (long) largestCluster);
+    }
+
     /** Whether the run would build the per-cluster route for a cluster column. */
     public static boolean clusterMomentsPay(int rows, int columns, int levels, long clusterSpecifications,
             double meanColumns, int clusters) {

@@ -43,7 +43,8 @@ public final class Moments {
             synchronized (this) {
                 f = fourth;
                 if (f == null) {
-                    f = FourthMoments.of(this, variant.groupTensors());
+                    f = variant.absorbsSeveral ? FourthMoments.ofWithinRows(this, variant.rowColumns(this))
+                            : FourthMoments.of(this, variant.groupTensors());
                     fourth = f;
                 }
             }
@@ -52,7 +53,9 @@ public final class Moments {
     }
 
     ClusterMoments.Usable clusterCells(String column) {
-        return clusterCells.computeIfAbsent(column, c -> variant.clusterMoments(c).usable(this));
+        return clusterCells.computeIfAbsent(column, c -> variant.absorbsSeveral
+                ? ClusterMoments.ofWithinRows(this, variant.rowColumns(this), variant.clusters.get(c))
+                : variant.clusterMoments(c).usable(this));
     }
 
     Moments(DataVariant v, BitSet usable) {

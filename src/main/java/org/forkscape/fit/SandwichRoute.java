@@ -17,9 +17,13 @@ package org.forkscape.fit;
  * outcome and badly scaled columns; the ratio sees all of them, the key's variance inflation alone does
  * not.
  *
- * <p>A weighted variant takes the row pass for every robust type: its cells hold sum w z z', while the
- * meats of weighted least squares need sum w^2 e^2 u^2 (fourth moments weighted by w^2) and per-cluster
- * sums weighted by w, structures built for no other purpose. Declining keeps one exact route for weights.
+ * <p>Beside two absorbed columns the rows of each usable set are explicit (its demeaned rows, offsets 0), so
+ * both structures are summed from them per set, weighted or not: with each row scaled by sqrt(w), the plain
+ * sums are those weighted least squares needs (HC0: sum w^2 e^2 u^2; CR1: per cluster sum w e u). A cluster
+ * column with one row per cluster there takes the fourth moments, its CR1 meat being the HC0 meat. With
+ * none or one absorbed column a weighted variant takes the row pass for every robust type: its cells hold
+ * sum w z z', while those meats need fourth moments weighted by w^2 and per-cluster sums weighted by w,
+ * structures built for no other purpose.
  */
 final class SandwichRoute {
     /**
@@ -58,6 +62,26 @@ final class SandwichRoute {
         double contract = (p + 1) * (p + 1) * p * p / 4 + (double) columns * columns * columns * columns / 24;
         double rowPass = 3.0 * rows * p;
         return build + specifications * contract < specifications * rowPass;
+    }
+
+    /**
+     * Whether the fourth moments of each usable set's explicit rows pay beside two absorbed columns: the
+     * same costs, the tensor built from the set's rows (one group), weighted or not.
+     */
+    static boolean withinFourthMomentsPay(int rows, int columns, long specifications, double meanColumns) {
+        return fourthMomentsPay(rows, columns, 1, specifications, meanColumns);
+    }
+
+    /**
+     * Whether per-cluster cells of each usable set's explicit rows pay beside two absorbed columns (one
+     * level), weighted or not, and fit in {@link #MAX_TENSOR_DOUBLES}: every cluster keeps P + P^2 doubles.
+     */
+    static boolean withinClusterMomentsPay(int rows, int columns, long specifications, double meanColumns,
+            int clusters) {
+        if ((long) clusters * (columns + (long) columns * columns) > MAX_TENSOR_DOUBLES) {
+            return false;
+        }
+        return clusterMomentsPay(rows, columns, 1, specifications, meanColumns, clusters);
     }
 
     static boolean clusterMomentsPay(DataVariant v, long specifications, double meanColumns, int clusters) {

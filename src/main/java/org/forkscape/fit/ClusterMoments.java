@@ -137,16 +137,42 @@ final class ClusterMoments {
     }
 
     /**
+     * The per-cluster cross-products of the explicit rows of a set with two absorbed columns, laid out by
+     * column pair: {@code cross[pair][g]} is the sum over cluster g's rows of z_i z_j ({@code pairIndex} as in
+     * {@link FourthMoments}), so that a specification's scores a'S_g w for every cluster are a few streams over
+     * contiguous arrays, reading only the pairs of its own columns.
+     */
+    static final class WithinCells {
+        /** Clusters with rows in the set, in order of first appearance. */
+        final int clusters;
+        /** Per cluster: rows. */
+        final int[] n;
+        final int columns;
+        /** pairIndex[i * columns + j] for any order of i and j. */
+        final int[] pairIndex;
+        /** Per column pair (i <= j): the per-cluster sums of z_i z_j; null for a pair of a column not in the set. */
+        final double[][] cross;
+
+        private WithinCells(int clusters, int[] n, int columns, int[] pairIndex, double[][] cross) {
+            this.clusters = clusters;
+            this.n = n;
+            this.columns = columns;
+            this.pairIndex = pairIndex;
+            this.cross = cross;
+        }
+    }
+
+    /**
      * The per-cluster cells of the explicit rows of a set with two absorbed columns: per cluster (one level,
-     * offsets 0), the count, sums and cross-products of the set's demeaned rows ({@code demeaned}, over the
+     * offsets 0), the count and cross-products of the set's demeaned rows ({@code demeaned}, over the
      * variant's rows), each times the square root of its weight in a weighted variant. The cluster's score
      * a'S w is then sum_i w_i e_i u_i, the score of weighted least squares. Clusters are numbered in order
-     * of first appearance and each cell's rows summed in row order, so the cells do not depend on the
+     * of first appearance and each cluster's rows summed in row order, so the cells do not depend on the
      * thread that builds them.
      *
      * @param clusterCodes the variant's code of each row for the cluster column (-1 where missing)
      */
-    static Usable ofWithinRows(Moments mom, double[][] demeaned, int[] clusterCodes) {
+    static WithinCells ofWithinRows(Moments mom, double[][] demeaned, int[] clusterCodes) {
         DataVariant v = mom.variant;
         int p = v.columns;
         int[] rows = mom.usableRows();
@@ -158,7 +184,6 @@ final class ClusterMoments {
         java.util.Arrays.fill(cellOfCluster, -1);
         int[] cellOf = new int[rows.length];
         int cells = 0;
-        int maxCluster = -1;
         for (int i = 0; i < rows.length; i++) {
             int c = clusterCodes[rows[i]];
             if (c < 0) {
@@ -169,53 +194,53 @@ final class ClusterMoments {
                 cellOfCluster[c] = cells++;
             }
             cellOf[i] = cellOfCluster[c];
-            maxCluster = Math.max(maxCluster, c);
         }
-        int[] start = new int[cells + 1];
+        int[] n = new int[cells];
         for (int id : cellOf) {
             if (id >= 0) {
-                start[id + 1]++;
+                n[id]++;
             }
         }
-        for (int c = 0; c < cells; c++) {
-            start[c + 1] += start[c];
-        }
-        int[] order = new int[start[cells]];
-        int[] fill = start.clone();
-        for (int i = 0; i < rows.length; i++) {
-            if (cellOf[i] >= 0) {
-                order[fill[cellOf[i]]++] = rows[i];
+        int[] pairIndex = new int[p * p];
+        int pairs = 0;
+        for (int a = 0; a < p; a++) {
+            for (int b = a; b < p; b++) {
+                pairIndex[a * p + b] = pairs;
+                pairIndex[b * p + a] = pairs;
+                pairs++;
             }
         }
-        int[] cluster = new int[cells];
-        int[] level = new int[cells];
-        int[] n = new int[cells];
-        double[][] sum = new double[cells][p];
-        double[][] cross = new double[cells][p * p];
-        double[][] z = new double[p][];
-        for (int id = 0; id < cells; id++) {
-            int m = start[id + 1] - start[id];
-            n[id] = m;
-            cluster[id] = clusterCodes[order[start[id]]];
-            for (int j = 0; j < p; j++) {
-                double[] col = demeaned[j];
-                double[] zj = z[j] == null || z[j].length < m ? new double[m] : z[j];
-                for (int t = 0; t < m; t++) {
-                    int row = order[start[id] + t];
-                    zj[t] = col == null ? 0 : v.weight == null ? col[row] : col[row] * Math.sqrt(v.weight[row]);
+        double[] root = null;
+        if (v.weight != null) {
+            root = new double[rows.length];
+            for (int i = 0; i < rows.length; i++) {
+                root[i] = Math.sqrt(v.weight[rows[i]]);
+            }
+        }
+        double[][] cross = new double[pairs][];
+        // rows in order, each product of scaled values added to its cluster's sum: every sum in row order
+        for (int a = 0; a < p; a++) {
+            double[] ca = demeaned[a];
+            if (ca == null) {
+                continue;
+            }
+            for (int b = a; b < p; b++) {
+                double[] cb = demeaned[b];
+                if (cb == null) {
+                    continue;
                 }
-                z[j] = zj;
-            }
-            for (int a = 0; a < p; a++) {
-                sum[id][a] = Kernels.sum(z[a], m);
-                for (int b = a; b < p; b++) {
-                    double d = Kernels.dot(z[a], z[b], m);
-                    cross[id][a * p + b] = d;
-                    cross[id][b * p + a] = d;
+                double[] sum = new double[cells];
+                for (int i = 0; i < rows.length; i++) {
+                    int cell = cellOf[i];
+                    if (cell >= 0) {
+                        int row = rows[i];
+                        sum[cell] += root == null ? ca[row] * cb[row] : (ca[row] * root[i]) * (cb[row] * root[i]);
+                    }
                 }
+                cross[pairIndex[a * p + b]] = sum;
             }
         }
-        return new Usable(cluster, level, n, sum, cross, maxCluster + 1);
+        return new WithinCells(cells, n, p, pairIndex, cross);
     }
 
     /** The (cluster, level) cells of the usable rows of {@code mom}, in first-appearance order. */

@@ -202,7 +202,8 @@ public final class LeastSquares implements Estimator {
             return hc0 == null ? null : new RowFreeSandwich.Meat(hc0.value(), mom.n, VarianceRoute.FOURTH_MOMENTS);
         }
         if (type.kind() == ErrorType.Kind.CLUSTER && variant.usesClusterMoments(type.clusterColumn())) {
-            return rowFree.cluster(mom, s, y, type.clusterColumn());
+            return variant.absorbsSeveral ? rowFree.clusterWithinRows(mom, s, y, type.clusterColumn())
+                    : rowFree.cluster(mom, s, y, type.clusterColumn());
         }
         return null;
     }

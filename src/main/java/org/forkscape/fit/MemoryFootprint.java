@@ -121,13 +121,14 @@ public final class MemoryFootprint {
 
     /**
      * The per-cluster cells of each usable set's demeaned rows beside two absorbed columns
-     * ({@link ClusterMoments#ofWithinRows}), and while one set's are formed, each row's cell and order, the
-     * cluster index and the gathered rows of the largest cluster, per worker building one.
+     * ({@link ClusterMoments#ofWithinRows}: a stream over the clusters per column pair, and each cluster's
+     * rows), and while one set's are formed, each row's cell, the cluster index and the rows' square roots
+     * of the weight, per worker building one.
      */
-    public static long withinClusterCells(int rows, int columns, int clusters, int largestCluster, long usableSets,
-            int threads) {
-        return usableSets * usableClusterCells(columns, clusters)
-                + Math.min(threads, usableSets) * (INT * (3L * rows + clusters) + DOUBLE * columns * (long) largestCluster);
+    public static long withinClusterCells(int rows, int columns, int clusters, long usableSets, int threads) {
+        long pairs = (long) columns * (columns + 1) / 2;
+        return usableSets * (DOUBLE * pairs * clusters + INT * (long) clusters + ARRAY * (pairs + 2) + INT * columns * (long) columns)
+                + Math.min(threads, usableSets) * (INT * ((long) rows + clusters) + DOUBLE * rows);
     }
 
     /** Whether the run would build the per-cluster route for a cluster column. */

@@ -74,11 +74,11 @@ final class SandwichRoute {
 
     /**
      * Whether per-cluster cells of each usable set's explicit rows pay beside two absorbed columns (one
-     * level), weighted or not, and fit in {@link #MAX_TENSOR_DOUBLES}: every cluster keeps P + P^2 doubles.
+     * level), weighted or not, and fit in {@link #MAX_TENSOR_DOUBLES}: every cluster keeps P(P+1)/2 doubles.
      */
     static boolean withinClusterMomentsPay(int rows, int columns, long specifications, double meanColumns,
             int clusters) {
-        if ((long) clusters * (columns + (long) columns * columns) > MAX_TENSOR_DOUBLES) {
+        if ((long) clusters * columns * (columns + 1) / 2 > MAX_TENSOR_DOUBLES) {
             return false;
         }
         return clusterMomentsPay(rows, columns, 1, specifications, meanColumns, clusters);

@@ -226,7 +226,7 @@ public final class MemoryEstimate {
                     } else if (MemoryFootprint.withinClusterMomentsPay(rows, columns, count, profile.meanColumns,
                             clusters)) {
                         clusterCells += MemoryFootprint.withinClusterCells(rows, columns, clusters,
-                                largestCluster(c.getValue(), clusters), SpecificationMix.usableSets(
+                                SpecificationMix.usableSets(
                                         pv.clusterMasks.get(c.getKey()), pv.clusterSeen.getOrDefault(c.getKey(), 0L),
                                         count, maxUsableSets), workers);
                     }

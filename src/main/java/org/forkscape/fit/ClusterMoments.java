@@ -9,7 +9,8 @@ import java.util.Map;
  * Per-cluster cross-products for the CR1 meat without a pass over rows: the cluster's score for the
  * key coefficient is sum_i e_i u_i = a' S w - beta a's - alpha w's + n alpha beta over each
  * (cluster, fixed-effect level) cell, with S, s and n the cell's cross-products, sums and count around
- * the level's shift. Cells are kept per missing-pattern group so that each specification sums exactly
+ * the level's shift; in a weighted variant the weighted sums and the weight total, so that the score is
+ * sum_i w_i e_i u_i. Cells are kept per missing-pattern group so that each specification sums exactly
  * its own usable rows. Beside two absorbed columns the within values depend on the usable set, so each set's
  * cells are summed from its own demeaned rows instead ({@link #ofWithinRows}).
  */
@@ -20,6 +21,8 @@ final class ClusterMoments {
         final int cluster;
         final int level;
         int n;
+        /** The weight total of the cell's rows (0 when unweighted: {@link #n} serves). */
+        double weight;
         final double[] sum;
         final double[] cross;
 
@@ -37,14 +40,17 @@ final class ClusterMoments {
         final int[] cluster;
         final int[] level;
         final int[] n;
+        /** Per cell: the weight total of its rows; null when unweighted. */
+        final double[] weight;
         final double[][] sum;
         final double[][] cross;
         final int clusters;
 
-        Usable(int[] cluster, int[] level, int[] n, double[][] sum, double[][] cross, int clusters) {
+        Usable(int[] cluster, int[] level, int[] n, double[] weight, double[][] sum, double[][] cross, int clusters) {
             this.cluster = cluster;
             this.level = level;
             this.n = n;
+            this.weight = weight;
             this.sum = sum;
             this.cross = cross;
             this.clusters = clusters;
@@ -110,6 +116,8 @@ final class ClusterMoments {
         }
         List<Cell> out = new ArrayList<>(cells);
         double[][] z = new double[p][];
+        double[] w = new double[0];
+        double[] zw = new double[0];
         for (int id = 0; id < cells; id++) {
             int[] k = keys.get(id);
             Cell cell = new Cell(k[0], k[1], k[2], p);
@@ -123,6 +131,18 @@ final class ClusterMoments {
                 }
                 z[j] = zj;
             }
+            if (v.weight != null) {
+                if (w.length < m) {
+                    w = new double[m];
+                    zw = new double[m];
+                }
+                for (int t = 0; t < m; t++) {
+                    w[t] = v.weight[order[start[id] + t]];
+                }
+                weigh(cell, z, w, zw, m, p);
+                out.add(cell);
+                continue;
+            }
             for (int a = 0; a < p; a++) {
                 cell.sum[a] = Kernels.sum(z[a], m);
                 for (int b = a; b < p; b++) {
@@ -134,6 +154,29 @@ final class ClusterMoments {
             out.add(cell);
         }
         return new ClusterMoments(p, out);
+    }
+
+    /**
+     * The weighted sums of a cell of a weighted variant: its weight total, sum w z and sum w z z' around the
+     * level's shift, so that a cluster's score a'S w - beta a's - alpha w's + W alpha beta is sum w e u, the
+     * score of weighted least squares, with the weighted level means as offsets ({@link Moments}).
+     *
+     * @param w  the weights of the cell's rows (not modified); {@code zw} a workspace of the same length
+     */
+    private static void weigh(Cell cell, double[][] z, double[] w, double[] zw, int m, int p) {
+        cell.weight = Kernels.sum(w, m);
+        for (int a = 0; a < p; a++) {
+            double[] za = z[a];
+            for (int t = 0; t < m; t++) {
+                zw[t] = za[t] * w[t];
+            }
+            cell.sum[a] = Kernels.sum(zw, m);
+            for (int b = a; b < p; b++) {
+                double d = Kernels.dot(zw, z[b], m);
+                cell.cross[a * p + b] = d;
+                cell.cross[b * p + a] = d;
+            }
+        }
     }
 
     /**
@@ -250,6 +293,7 @@ final class ClusterMoments {
         List<double[]> sums = new ArrayList<>();
         List<double[]> crosses = new ArrayList<>();
         List<Integer> counts = new ArrayList<>();
+        List<Double> weights = new ArrayList<>();
         int maxCluster = -1;
         for (Cell cell : cells) {
             if (!mom.usableGroups.get(cell.group)) {
@@ -263,6 +307,7 @@ final class ClusterMoments {
                 sums.add(cell.sum.clone());
                 crosses.add(cell.cross.clone());
                 counts.add(cell.n);
+                weights.add(cell.weight);
                 maxCluster = Math.max(maxCluster, cell.cluster);
             } else {
                 double[] s = sums.get(at);
@@ -274,18 +319,23 @@ final class ClusterMoments {
                     c[k] += cell.cross[k];
                 }
                 counts.set(at, counts.get(at) + cell.n);
+                weights.set(at, weights.get(at) + cell.weight);
             }
         }
         int m = keys.size();
         int[] cluster = new int[m];
         int[] level = new int[m];
         int[] n = new int[m];
+        double[] weight = mom.variant.weight == null ? null : new double[m];
         for (int i = 0; i < m; i++) {
             cluster[i] = keys.get(i)[0];
             level[i] = keys.get(i)[1];
             n[i] = counts.get(i);
+            if (weight != null) {
+                weight[i] = weights.get(i);
+            }
         }
-        return new Usable(cluster, level, n, sums.toArray(new double[0][]), crosses.toArray(new double[0][]),
+        return new Usable(cluster, level, n, weight, sums.toArray(new double[0][]), crosses.toArray(new double[0][]),
                 maxCluster + 1);
     }
 }

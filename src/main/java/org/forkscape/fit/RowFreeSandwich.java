@@ -205,13 +205,15 @@ final class RowFreeSandwich {
         java.util.Arrays.fill(clusterAbsolute, 0, cells.clusters, 0);
         java.util.Arrays.fill(clusterSeen, 0, cells.clusters, false);
         java.util.Arrays.fill(squares, 0, p + 1, 0);
+        // in a weighted variant the cells hold weighted sums, and the counts become weight totals
+        double[] weight = cells.weight;
         double n = 0;
         for (int c = 0; c < cells.n.length; c++) {
             double[] cross = cells.cross[c];
             for (int x = 0; x <= p; x++) {
                 squares[x] += cross[aCols[x] * stride + aCols[x]];
             }
-            n += cells.n[c];
+            n += weight == null ? cells.n[c] : weight[c];
         }
         double aNorm = 0;
         double wNorm = 0;
@@ -229,7 +231,8 @@ final class RowFreeSandwich {
             double[] cross = cells.cross[c];
             double[] sum = cells.sum[c];
             double asw = 0;
-            double rowNorms = cells.n[c] / n;
+            double rows = weight == null ? cells.n[c] : weight[c];
+            double rowNorms = rows / n;
             for (int x = 0; x <= p; x++) {
                 int row = aCols[x] * stride;
                 double t = 0;
@@ -242,7 +245,7 @@ final class RowFreeSandwich {
             double as = offset(sum, aCols, aVal, p + 1);
             double ws = offset(sum, s.kept, w, p);
             int cluster = cells.cluster[c];
-            clusterScore[cluster] += asw - beta * as - alpha * ws + cells.n[c] * alpha * beta;
+            clusterScore[cluster] += asw - beta * as - alpha * ws + rows * alpha * beta;
             clusterAbsolute[cluster] += Math.sqrt((aNorm + alpha * alpha * n) * (wNorm + beta * beta * n))
                     * rowNorms;
             if (!clusterSeen[cluster]) {

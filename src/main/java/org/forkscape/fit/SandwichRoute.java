@@ -21,9 +21,9 @@ package org.forkscape.fit;
  * both structures are summed from them per set, weighted or not: with each row scaled by sqrt(w), the plain
  * sums are those weighted least squares needs (HC0: sum w^2 e^2 u^2; CR1: per cluster sum w e u). A cluster
  * column with one row per cluster there takes the fourth moments, its CR1 meat being the HC0 meat. With
- * none or one absorbed column a weighted variant takes the row pass for every robust type: its cells hold
- * sum w z z', while those meats need fourth moments weighted by w^2 and per-cluster sums weighted by w,
- * structures built for no other purpose.
+ * none or one absorbed column a weighted variant's per-cluster cells hold weighted sums (sum w z z', sum w z
+ * and the weight total), whose score is sum w e u, but it takes the row pass for HC0 and HC1: their meat
+ * needs fourth moments weighted by w^2, a structure built for no other purpose.
  */
 final class SandwichRoute {
     /**
@@ -85,7 +85,7 @@ final class SandwichRoute {
     }
 
     static boolean clusterMomentsPay(DataVariant v, long specifications, double meanColumns, int clusters) {
-        return v.weight == null && clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
+        return clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
     }
 
     /** The same choice from the sizes alone. */

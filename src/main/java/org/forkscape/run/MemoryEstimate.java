@@ -237,7 +237,7 @@ public final class MemoryEstimate {
             }
             for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
                 long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
-                if (count > 0 && !several && !weighted && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                if (count > 0 && !several && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
                             + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),

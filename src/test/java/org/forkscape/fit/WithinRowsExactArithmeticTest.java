@@ -50,7 +50,7 @@ class WithinRowsExactArithmeticTest {
     private static final String[] ERRORS = {"HC0", "HC1", "cluster:site", "cluster:reading", "cluster:site+season"};
 
     /** The stations with the season of each reading, the reading's own code and the water volume sampled. */
-    private static Table stations(double gap) {
+    static Table stations(double gap) {
         Table t = NearCopyExactArithmeticTest.stations(NearCopyExactArithmeticTest.ROWS, gap, 41);
         SplittableRandom r = new SplittableRandom(11);
         int rows = t.rowCount();

@@ -9,7 +9,9 @@ package org.forkscape.fit;
  * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Built from the per-group
  * tensors in variants without absorbed fixed effects (with one absorbed column each level would need its
  * own tensor), and from the explicit demeaned rows of each usable set beside two absorbed columns
- * ({@link #ofWithinRows}), weighted or not.
+ * ({@link #ofWithinRows}), weighted or not. In a weighted variant without absorbed columns every order is
+ * weighted by w^2 (sum w^2 z(x)z(x)z(x)z down to sum w^2), so that the same contraction gives the weighted
+ * HC0 meat sum w^2 e^2 u^2.
  */
 final class FourthMoments {
     final int columns;
@@ -23,6 +25,7 @@ final class FourthMoments {
     /** columns x columns: sum z_i z_j. */
     final double[] s2;
     final double[] s1;
+    /** The rows; in a weighted variant without absorbed columns, the sum of w^2 (every order above weighted by w^2). */
     final double n;
 
     private FourthMoments(int columns) {
@@ -100,7 +103,7 @@ final class FourthMoments {
         double[][][] partial = new double[tasks.size()][][];
         java.util.function.IntConsumer work = t -> {
             int[] task = tasks.get(t);
-            partial[t] = block(v.shifted, null, rowsOf[task[0]], task[1], task[2]);
+            partial[t] = block(v.shifted, null, rowsOf[task[0]], task[1], task[2], v.weight);
         };
         if (pool == null || tasks.size() == 1) {
             for (int t = 0; t < tasks.size(); t++) {
@@ -129,7 +132,7 @@ final class FourthMoments {
             if (out[g] == null) {
                 out[g] = partial[t];
             } else {
-                for (int o = 0; o < 2; o++) {
+                for (int o = 0; o < partial[t].length; o++) {
                     double[] into = out[g][o];
                     double[] add = partial[t][o];
                     for (int k = 0; k < into.length; k++) {
@@ -149,8 +152,13 @@ final class FourthMoments {
     /**
      * The distinct third- and fourth-order sums over the rows {@code rows[from..to)} of {@code source}, each
      * value times the square root of its row's weight when {@code weight} is given; a null column reads as 0.
+     * With {@code squaredWeight} (a weighted variant's analytic weights, for the weighted HC0 meat sum w^2 e^2
+     * u^2 in the variant's shifted coordinates) every product is weighted by w^2 instead, and the block also
+     * returns the w^2-weighted second- and first-order sums and the sum of w^2 (indices 2, 3 and 4), which
+     * the cells, weighted by w, do not hold.
      */
-    private static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to) {
+    private static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to,
+            double[] squaredWeight) {
         int p = source.length;
         int b = to - from;
         double[][] z = new double[p][b];
@@ -175,6 +183,21 @@ final class FourthMoments {
         double[] f3 = new double[(int) distinctThird(p)];
         double[] zij = new double[b];
         double[] zijk = new double[b];
+        double[] w2 = null;
+        double[] s2 = null;
+        double[] s1 = null;
+        if (squaredWeight != null) {
+            w2 = new double[b];
+            for (int r = 0; r < b; r++) {
+                double w = squaredWeight[rows[from + r]];
+                w2[r] = w * w;
+            }
+            s2 = new double[p * p];
+            s1 = new double[p];
+            for (int i = 0; i < p; i++) {
+                s1[i] = Kernels.dot(z[i], w2, b);
+            }
+        }
         int i4 = 0;
         int i3 = 0;
         for (int i = 0; i < p; i++) {
@@ -183,6 +206,14 @@ final class FourthMoments {
                 double[] zj = z[j];
                 for (int r = 0; r < b; r++) {
                     zij[r] = zi[r] * zj[r];
+                }
+                if (w2 != null) {
+                    for (int r = 0; r < b; r++) {
+                        zij[r] *= w2[r];
+                    }
+                    double t = Kernels.sum(zij, b);
+                    s2[i * p + j] = t;
+                    s2[j * p + i] = t;
                 }
                 for (int k = j; k < p; k++) {
                     double[] zk = z[k];
@@ -201,6 +232,9 @@ final class FourthMoments {
                 }
             }
         }
+        if (w2 != null) {
+            return new double[][] {f4, f3, s2, s1, {Kernels.sum(w2, b)}};
+        }
         return new double[][] {f4, f3};
     }
 
@@ -212,6 +246,7 @@ final class FourthMoments {
         double[] f4 = new double[(int) distinctFourth(p)];
         double[] f3 = new double[(int) distinctThird(p)];
         int count = 0;
+        double squaredWeights = 0;
         for (int g = mom.usableGroups.nextSetBit(0); g >= 0; g = mom.usableGroups.nextSetBit(g + 1)) {
             if (tensors[g][0] == null) {
                 continue;
@@ -221,6 +256,19 @@ final class FourthMoments {
             }
             for (int k = 0; k < f3.length; k++) {
                 f3[k] += tensors[g][1][k];
+            }
+            if (tensors[g].length > 2) {
+                // weighted: the w^2-weighted lower orders summed with the tensors
+                double[] s = tensors[g][3];
+                double[] c = tensors[g][2];
+                for (int j = 0; j < p; j++) {
+                    m.s1[j] += s[j];
+                }
+                for (int k = 0; k < c.length; k++) {
+                    m.s2[k] += c[k];
+                }
+                squaredWeights += tensors[g][4][0];
+                continue;
             }
             count += v.cellCount[g][0];
             double[] s = v.cellSum[g][0];
@@ -233,7 +281,7 @@ final class FourthMoments {
             }
         }
         layOut(m, f4, f3);
-        return new FourthMoments(m, count);
+        return new FourthMoments(m, v.weight == null ? count : squaredWeights);
     }
 
     /**
@@ -252,7 +300,7 @@ final class FourthMoments {
         double[] f4 = new double[(int) distinctFourth(p)];
         double[] f3 = new double[(int) distinctThird(p)];
         for (int from = 0; from < rows.length; from += BLOCK_ROWS) {
-            double[][] part = block(demeaned, v.weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS));
+            double[][] part = block(demeaned, v.weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS), null);
             for (int k = 0; k < f4.length; k++) {
                 f4[k] += part[0][k];
             }

@@ -81,8 +81,10 @@ public final class MemoryFootprint {
      * The per-group third- and fourth-order sums of a variant (C(P+3,4) + C(P+2,3) doubles a group), and,
      * while they are summed, one partial sum per block of rows and each worker's copy of a block.
      */
-    public static long fourthMomentTensors(int rows, int columns, int groups, int threads) {
-        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+    public static long fourthMomentTensors(int rows, int columns, int groups, int threads, boolean weighted) {
+        // a weighted variant's blocks also keep the w^2-weighted second and first orders and the sum of w^2
+        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns)
+                + (weighted ? (long) columns * columns + columns + 1 : 0);
         long blocks = (rows + FourthMoments.BLOCK_ROWS - 1L) / FourthMoments.BLOCK_ROWS + groups;
         long block = Math.min(rows, FourthMoments.BLOCK_ROWS);
         return DOUBLE * perGroup * (groups + blocks) + INT * rows

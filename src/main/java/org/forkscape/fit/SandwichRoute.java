@@ -22,8 +22,8 @@ package org.forkscape.fit;
  * sums are those weighted least squares needs (HC0: sum w^2 e^2 u^2; CR1: per cluster sum w e u). A cluster
  * column with one row per cluster there takes the fourth moments, its CR1 meat being the HC0 meat. With
  * none or one absorbed column a weighted variant's per-cluster cells hold weighted sums (sum w z z', sum w z
- * and the weight total), whose score is sum w e u, but it takes the row pass for HC0 and HC1: their meat
- * needs fourth moments weighted by w^2, a structure built for no other purpose.
+ * and the weight total), whose score is sum w e u, and without absorbed columns its fourth moments are
+ * weighted by w^2 at every order (the HC0 meat sum w^2 e^2 u^2).
  */
 final class SandwichRoute {
     /**
@@ -42,7 +42,7 @@ final class SandwichRoute {
     }
 
     static boolean fourthMomentsPay(DataVariant v, long specifications, double meanColumns) {
-        return !v.absorbs && v.weight == null && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
+        return !v.absorbs && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
     }
 
     /**

@@ -186,8 +186,7 @@ public final class MemoryEstimate {
             List<String> absorbedColumns = absorbedColumns(plan, models.variantKey(v));
             boolean several = absorbedColumns.size() > 1;
             String absorbed = absorbedColumns.isEmpty() ? null : absorbedColumns.get(0);
-            // with none or one absorbed column a weighted variant takes the row pass for every robust error
-            // (fit.SandwichRoute); beside two, the routes without rows are summed from the weighted rows
+            // a weighted variant's fourth moments also keep w^2-weighted lower orders (fit.FourthMoments)
             boolean weighted = weighted(plan, models.variantKey(v));
             // several absorbed columns: one cell level, and the demeaned rows of each usable set instead
             int[] levelCodes = absorbed == null || several ? null : LevelCodes.of(table.column(absorbed));
@@ -205,9 +204,9 @@ public final class MemoryEstimate {
                     + workers * MemoryFootprint.momentsBuild(columns, levels)
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long fourth = 0;
-            if (absorbed == null && !weighted && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
+            if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
-                fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
+                fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers, weighted)
                         + SpecificationMix.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
                         * MemoryFootprint.fourthMoments(columns);
             }

@@ -18,24 +18,26 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 
 /**
- * The per-cluster cells of a weighted variant with none or one absorbed column (sum w z z', sum w z and the
- * weight total per (cluster, level) cell, weighted level means as offsets) against exact arithmetic on the
- * near-copy design of {@link NearCopyExactArithmeticTest} with analytic weights: CR1 by site and two-way CR1
- * by site and season (Cameron, Gelbach &amp; Miller 2011, Journal of Business &amp; Economic Statistics
+ * The routes without rows of a weighted variant with none or one absorbed column against exact arithmetic on
+ * the near-copy design of {@link NearCopyExactArithmeticTest} with analytic weights: HC0 and HC1 from fourth
+ * moments weighted by w^2 at every order (no fixed effects; beside zone effects the row pass, by design),
+ * and from the per-cluster cells (sum w z z', sum w z and the weight total per (cluster, level) cell,
+ * weighted level means as offsets) CR1 by site and two-way CR1 by site and season (Cameron, Gelbach &amp; Miller 2011, Journal of Business &amp; Economic Statistics
  * 29(2)), without fixed effects and with zone effects absorbed, by the fitter that may take the cells (told
  * that they pay) and by the one that always passes over rows, against {@link ExactLeastSquares} with the
  * weights and the dummies explicit (90-digit decimals on the same doubles). Tolerance 1e-9 relative, the
- * engine's promise. The routes are asserted: the cells serve every specification whose controls are not both
- * near-copies (but the two-way errors beside zone effects, see below), and the guard declines some of those
- * that are at small gaps.
+ * engine's promise. The routes are asserted: a route without rows serves every specification whose controls
+ * are not both near-copies (but HC0/HC1 and the two-way errors beside zone effects, see below), and the guard
+ * declines some of those that are at small gaps.
  */
-class WeightedClusterCellsExactArithmeticTest {
+class WeightedRoutesExactArithmeticTest {
     private static final int SEASONS = 6;
     private static final String PLAN = "{\"data\": \"unused.csv\", \"decisions\": ["
             + "{\"name\": \"o\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"y\", \"column\": \"y\"}]},"
             + "{\"name\": \"k\", \"kind\": \"predictor\", \"alternatives\": [{\"label\": \"x\", \"column\": \"x\"}]},"
             + "{\"name\": \"c\", \"kind\": \"controls\", \"optional\": [\"a\", \"b\", \"c\"]},"
-            + "{\"name\": \"e\", \"kind\": \"errors\", \"alternatives\": [\"cluster:site\", \"cluster:site+season\"]},"
+            + "{\"name\": \"e\", \"kind\": \"errors\", \"alternatives\": [\"cluster:site\", \"cluster:site+season\", \"HC0\","
+            + "  \"HC1\"]},"
             + "{\"name\": \"f\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"none\", \"columns\": []},"
             + "  {\"label\": \"zone\", \"columns\": [\"zone\"]}]},"
             + "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"volume\", \"column\": \"volume\"}]}]}";
@@ -65,10 +67,11 @@ class WeightedClusterCellsExactArithmeticTest {
         long many = 1L << 40;
         for (int v = 0; v < models.variantCount(); v++) {
             DataVariant variant = models.variant(models.variantKey(v));
-            variant.expect(0, Map.of("site", many, "season", many, "site" + ClusterComponents.JOIN + "season", many),
+            variant.expect(many, Map.of("site", many, "season", many, "site" + ClusterComponents.JOIN + "season", many),
                     3, null);
             assertTrue(variant.weight != null && variant.usesClusterMoments("site")
                     && variant.usesClusterMoments("season"), "weighted cells built");
+            assertEquals(v == 0, variant.useFourthMoments, "weighted fourth moments without fixed effects");
             assertFalse(variant.absorbsSeveral);
             SpecificationFitter fast = new SpecificationFitter(true);
             SpecificationFitter rowPass = new SpecificationFitter(false);
@@ -87,7 +90,8 @@ class WeightedClusterCellsExactArithmeticTest {
                 double[][] x = regressors.toArray(new double[0][]);
                 int[] level = v == 1 ? zone : null;
                 ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(x, y, volume, level, null, site);
-                double expected = exact.cr1();
+                String type = new String[] {"cluster:site", "cluster:site+season", "HC0", "HC1"}[(int) choices[3]];
+                double expected = exact.stdError(type);
                 if (choices[3] == 1) {
                     expected = Math.sqrt(exact.cr1Variance()
                             + ExactLeastSquares.fit(x, y, volume, level, null, season).cr1Variance()
@@ -97,17 +101,18 @@ class WeightedClusterCellsExactArithmeticTest {
                 SpecificationModel model = models.model(choices);
                 for (SpecificationFitter fitter : new SpecificationFitter[] {fast, rowPass}) {
                     KeyFit fit = fitter.fit(variant, model);
-                    String where = String.format("gap %.0e, specification %d (controls %s, %s, route %s%s)", gap,
-                            index + 1, Long.toBinaryString(choices[2]), v == 1 ? "zone effects" : "no fixed effects",
+                    String where = String.format("gap %.0e, specification %d (%s, controls %s, %s, route %s%s)", gap,
+                            index + 1, type, Long.toBinaryString(choices[2]), v == 1 ? "zone effects" : "no fixed effects",
                             fit.route(), fit.refitByQr() ? ", refit by QR" : "");
                     assertEquals(FitStatus.OK, fit.status(), where);
                     assertEquals(exact.k(), fit.nParams(), where);
                     if (fitter == fast) {
                         fastRoutes.merge(fit.route(), 1, Integer::sum);
                         // beside zone effects the guard declines a component of the two-way error at every gap,
-                        // weighted or not (measured; the row pass then serves it)
-                        if (!nearCopies && !(v == 1 && choices[3] == 1)) {
-                            assertEquals(VarianceRoute.CLUSTER_CELLS, fit.route(), where);
+                        // weighted or not (measured; the row pass then serves it), and HC0/HC1 take the row pass
+                        if (!nearCopies && !(v == 1 && choices[3] >= 1)) {
+                            assertEquals(choices[3] >= 2 ? VarianceRoute.FOURTH_MOMENTS : VarianceRoute.CLUSTER_CELLS,
+                                    fit.route(), where);
                         } else if (fit.route() == VarianceRoute.ROW_PASS) {
                             declinedNearCopies++;
                         }

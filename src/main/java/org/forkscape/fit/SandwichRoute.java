@@ -3,7 +3,8 @@ package org.forkscape.fit;
 /**
  * Picks how the sandwich meat of a specification is computed, from cost estimates in multiply-adds,
  * so that callers never choose kernels. The row pass costs about 3 n p per specification; the
- * fourth-moment route (HC0, HC1, no absorbed fixed effects) costs n C(P+3,4) once per variant plus
+ * fourth-moment route (HC0, HC1, with none or two absorbed columns) costs n C(P+3,4) once per variant (per
+ * usable set beside two absorbed columns) plus
  * about (p+1)^2 p^2 / 4 per specification; the per-cluster route costs n P^2 / 2 once plus cells p^2.
  *
  * <p>A route that avoids the rows is declined whenever its result could lose digits. Both routes compute

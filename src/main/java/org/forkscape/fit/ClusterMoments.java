@@ -9,8 +9,10 @@ import java.util.Map;
  * Per-cluster cross-products for the CR1 meat without a pass over rows: the cluster's score for the
  * key coefficient is sum_i e_i u_i = a' S w - beta a's - alpha w's + n alpha beta over each
  * (cluster, fixed-effect level) cell, with S, s and n the cell's cross-products, sums and count around
- * the level's shift. Cells are kept per missing-pattern group so that each specification sums exactly
- * its own usable rows.
+ * the level's shift; in a weighted variant the weighted sums and the weight total, so that the score is
+ * sum_i w_i e_i u_i. Cells are kept per missing-pattern group so that each specification sums exactly
+ * its own usable rows. Beside two absorbed columns the within values depend on the usable set, so each set's
+ * cells are summed from its own demeaned rows instead ({@link #ofWithinRows}).
  */
 final class ClusterMoments {
     /** One (group, cluster, level) cell. */
@@ -19,6 +21,8 @@ final class ClusterMoments {
         final int cluster;
         final int level;
         int n;
+        /** The weight total of the cell's rows (0 when unweighted: {@link #n} serves). */
+        double weight;
         final double[] sum;
         final double[] cross;
 
@@ -41,14 +45,17 @@ final class ClusterMoments {
         final int[] cluster;
         final int[] level;
         final int[] n;
+        /** Per cell: the weight total of its rows; null when unweighted. */
+        final double[] weight;
         final double[][] sum;
         final double[][] cross;
         final int clusters;
 
-        Usable(int[] cluster, int[] level, int[] n, double[][] sum, double[][] cross, int clusters) {
+        Usable(int[] cluster, int[] level, int[] n, double[] weight, double[][] sum, double[][] cross, int clusters) {
             this.cluster = cluster;
             this.level = level;
             this.n = n;
+            this.weight = weight;
             this.sum = sum;
             this.cross = cross;
             this.clusters = clusters;
@@ -124,6 +131,8 @@ final class ClusterMoments {
         }
         List<Cell> out = new ArrayList<>(cells);
         double[][] z = new double[p][];
+        double[] w = new double[0];
+        double[] zw = new double[0];
         for (int id = 0; id < cells; id++) {
             int[] k = keys.get(id);
             Cell cell = new Cell(k[0], k[1], k[2], p);
@@ -136,6 +145,18 @@ final class ClusterMoments {
                     zj[t] = col[order[start[id] + t]];
                 }
                 z[j] = zj;
+            }
+            if (v.weight != null) {
+                if (w.length < m) {
+                    w = new double[m];
+                    zw = new double[m];
+                }
+                for (int t = 0; t < m; t++) {
+                    w[t] = v.weight[order[start[id] + t]];
+                }
+                weigh(cell, z, w, zw, m, p);
+                out.add(cell);
+                continue;
             }
             for (int a = 0; a < p; a++) {
                 cell.sum[a] = Kernels.sum(z[a], m);
@@ -150,6 +171,136 @@ final class ClusterMoments {
         return new ClusterMoments(p, out);
     }
 
+    /**
+     * The weighted sums of a cell of a weighted variant: its weight total, sum w z and sum w z z' around the
+     * level's shift, so that a cluster's score a'S w - beta a's - alpha w's + W alpha beta is sum w e u, the
+     * score of weighted least squares, with the weighted level means as offsets ({@link Moments}).
+     *
+     * @param w  the weights of the cell's rows (not modified); {@code zw} a workspace of the same length
+     */
+    private static void weigh(Cell cell, double[][] z, double[] w, double[] zw, int m, int p) {
+        cell.weight = Kernels.sum(w, m);
+        for (int a = 0; a < p; a++) {
+            double[] za = z[a];
+            for (int t = 0; t < m; t++) {
+                zw[t] = za[t] * w[t];
+            }
+            cell.sum[a] = Kernels.sum(zw, m);
+            for (int b = a; b < p; b++) {
+                double d = Kernels.dot(zw, z[b], m);
+                cell.cross[a * p + b] = d;
+                cell.cross[b * p + a] = d;
+            }
+        }
+    }
+
+    /**
+     * The per-cluster cross-products of the explicit rows of a set with two absorbed columns, laid out by
+     * column pair: {@code cross[pair][g]} is the sum over cluster g's rows of z_i z_j ({@code pairIndex} as in
+     * {@link FourthMoments}), so that a specification's scores a'S_g w for every cluster are a few streams over
+     * contiguous arrays, reading only the pairs of its own columns.
+     */
+    static final class WithinCells {
+        /** Clusters with rows in the set, in order of first appearance. */
+        final int clusters;
+        /** Per cluster: rows. */
+        final int[] n;
+        final int columns;
+        /** pairIndex[i * columns + j] for any order of i and j. */
+        final int[] pairIndex;
+        /** Per column pair (i <= j): the per-cluster sums of z_i z_j; null for a pair of a column not in the set. */
+        final double[][] cross;
+
+        private WithinCells(int clusters, int[] n, int columns, int[] pairIndex, double[][] cross) {
+            this.clusters = clusters;
+            this.n = n;
+            this.columns = columns;
+            this.pairIndex = pairIndex;
+            this.cross = cross;
+        }
+    }
+
+    /**
+     * The per-cluster cells of the explicit rows of a set with two absorbed columns: per cluster (one level,
+     * offsets 0), the count and cross-products of the set's demeaned rows ({@code demeaned}, over the
+     * variant's rows), each times the square root of its weight in a weighted variant. The cluster's score
+     * a'S w is then sum_i w_i e_i u_i, the score of weighted least squares. Clusters are numbered in order
+     * of first appearance and each cluster's rows summed in row order, so the cells do not depend on the
+     * thread that builds them.
+     *
+     * @param clusterCodes the variant's code of each row for the cluster column (-1 where missing)
+     */
+    static WithinCells ofWithinRows(Moments mom, double[][] demeaned, int[] clusterCodes) {
+        DataVariant v = mom.variant;
+        int p = v.columns;
+        int[] rows = mom.usableRows();
+        int codes = 0;
+        for (int row : rows) {
+            codes = Math.max(codes, clusterCodes[row] + 1);
+        }
+        int[] cellOfCluster = new int[codes];
+        java.util.Arrays.fill(cellOfCluster, -1);
+        int[] cellOf = new int[rows.length];
+        int cells = 0;
+        for (int i = 0; i < rows.length; i++) {
+            int c = clusterCodes[rows[i]];
+            if (c < 0) {
+                cellOf[i] = -1;
+                continue;
+            }
+            if (cellOfCluster[c] < 0) {
+                cellOfCluster[c] = cells++;
+            }
+            cellOf[i] = cellOfCluster[c];
+        }
+        int[] n = new int[cells];
+        for (int id : cellOf) {
+            if (id >= 0) {
+                n[id]++;
+            }
+        }
+        int[] pairIndex = new int[p * p];
+        int pairs = 0;
+        for (int a = 0; a < p; a++) {
+            for (int b = a; b < p; b++) {
+                pairIndex[a * p + b] = pairs;
+                pairIndex[b * p + a] = pairs;
+                pairs++;
+            }
+        }
+        double[] root = null;
+        if (v.weight != null) {
+            root = new double[rows.length];
+            for (int i = 0; i < rows.length; i++) {
+                root[i] = Math.sqrt(v.weight[rows[i]]);
+            }
+        }
+        double[][] cross = new double[pairs][];
+        // rows in order, each product of scaled values added to its cluster's sum: every sum in row order
+        for (int a = 0; a < p; a++) {
+            double[] ca = demeaned[a];
+            if (ca == null) {
+                continue;
+            }
+            for (int b = a; b < p; b++) {
+                double[] cb = demeaned[b];
+                if (cb == null) {
+                    continue;
+                }
+                double[] sum = new double[cells];
+                for (int i = 0; i < rows.length; i++) {
+                    int cell = cellOf[i];
+                    if (cell >= 0) {
+                        int row = rows[i];
+                        sum[cell] += root == null ? ca[row] * cb[row] : (ca[row] * root[i]) * (cb[row] * root[i]);
+                    }
+                }
+                cross[pairIndex[a * p + b]] = sum;
+            }
+        }
+        return new WithinCells(cells, n, p, pairIndex, cross);
+    }
+
     /** The (cluster, level) cells of the usable rows of {@code mom}, in first-appearance order. */
     Usable usable(Moments mom) {
         Map<Long, Integer> index = new HashMap<>();
@@ -157,6 +308,7 @@ final class ClusterMoments {
         List<double[]> sums = new ArrayList<>();
         List<double[]> crosses = new ArrayList<>();
         List<Integer> counts = new ArrayList<>();
+        List<Double> weights = new ArrayList<>();
         int maxCluster = -1;
         for (Cell cell : cells) {
             if (!mom.usableGroups.get(cell.group)) {
@@ -170,6 +322,7 @@ final class ClusterMoments {
                 sums.add(cell.sum.clone());
                 crosses.add(cell.cross.clone());
                 counts.add(cell.n);
+                weights.add(cell.weight);
                 maxCluster = Math.max(maxCluster, cell.cluster);
             } else {
                 double[] s = sums.get(at);
@@ -181,18 +334,23 @@ final class ClusterMoments {
                     c[k] += cell.cross[k];
                 }
                 counts.set(at, counts.get(at) + cell.n);
+                weights.set(at, weights.get(at) + cell.weight);
             }
         }
         int m = keys.size();
         int[] cluster = new int[m];
         int[] level = new int[m];
         int[] n = new int[m];
+        double[] weight = mom.variant.weight == null ? null : new double[m];
         for (int i = 0; i < m; i++) {
             cluster[i] = keys.get(i)[0];
             level[i] = keys.get(i)[1];
             n[i] = counts.get(i);
+            if (weight != null) {
+                weight[i] = weights.get(i);
+            }
         }
-        return new Usable(cluster, level, n, sums.toArray(new double[0][]), crosses.toArray(new double[0][]),
+        return new Usable(cluster, level, n, weight, sums.toArray(new double[0][]), crosses.toArray(new double[0][]),
                 maxCluster + 1);
     }
 }

@@ -65,6 +65,8 @@ public final class DataVariant {
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
+    /** Cluster columns with one row per cluster, beside two absorbed columns (see {@link #expect}). */
+    private final Set<String> clustersAreRows = ConcurrentHashMap.newKeySet();
 
     DataVariant(CodedRows coded, CellSums cells) {
         this(coded, cells, null, Map.of());
@@ -138,21 +140,74 @@ public final class DataVariant {
             // built from statistics alone: the row-free routes are those whose structures were summed
             return;
         }
+        if (absorbsSeveral) {
+            expectWithinRows(hcSpecifications, clusterSpecifications, meanColumns);
+            return;
+        }
         useFourthMoments = SandwichRoute.fourthMomentsPay(this, hcSpecifications, meanColumns);
         if (useFourthMoments) {
             statistics.buildGroupTensors(pool);
         }
         clusterSpecifications.forEach((column, count) -> {
             Integer g = clusterCounts.get(column);
-            // with several absorbed columns the within values depend on the usable rows: no shared cells
-            if (g != null && !absorbsSeveral && SandwichRoute.clusterMomentsPay(this, count, meanColumns, g)) {
+            if (g != null && SandwichRoute.clusterMomentsPay(this, count, meanColumns, g)) {
                 useClusterMoments.add(column);
             }
         });
     }
 
+    /**
+     * The same choice beside two absorbed columns, whose structures are summed per usable set from its
+     * demeaned rows (weighted or not; {@link FourthMoments#ofWithinRows}, {@link ClusterMoments#ofWithinRows}).
+     * A cluster column with one row per cluster (no two rows share a code, such as a unit x period intersection
+     * of a panel) has the HC0 meat as its CR1 meat, and every usable row is a cluster (the column is among the
+     * specification's variables, so its rows have codes), so its specifications count towards the fourth
+     * moments and are served by them.
+     */
+    private void expectWithinRows(long hcSpecifications, Map<String, Long> clusterSpecifications,
+            double meanColumns) {
+        long fourth = hcSpecifications;
+        for (Map.Entry<String, Long> e : clusterSpecifications.entrySet()) {
+            int[] codes = clusters.get(e.getKey());
+            if (codes != null && oneRowPerCluster(codes)) {
+                fourth += e.getValue();
+                clustersAreRows.add(e.getKey());
+            }
+        }
+        useFourthMoments = SandwichRoute.withinFourthMomentsPay(rows, columns, fourth, meanColumns);
+        clusterSpecifications.forEach((column, count) -> {
+            Integer g = clusterCounts.get(column);
+            if (g != null && !clustersAreRows.contains(column)
+                    && SandwichRoute.withinClusterMomentsPay(rows, columns, count, meanColumns, g)) {
+                useClusterMoments.add(column);
+            }
+        });
+    }
+
+    /** Whether no two of the variant's rows share a cluster code (rows missing the column have none). */
+    private static boolean oneRowPerCluster(int[] codes) {
+        java.util.BitSet seen = new java.util.BitSet();
+        for (int c : codes) {
+            if (c >= 0) {
+                if (seen.get(c)) {
+                    return false;
+                }
+                seen.set(c);
+            }
+        }
+        return true;
+    }
+
     boolean usesClusterMoments(String column) {
         return useClusterMoments.contains(column);
+    }
+
+    /**
+     * Whether the specifications clustered on {@code column} take their CR1 meat from the fourth moments:
+     * beside two absorbed columns, a column with one row per cluster when the fourth moments are built.
+     */
+    boolean clustersServedByFourthMoments(String column) {
+        return useFourthMoments && clustersAreRows.contains(column);
     }
 
     /** The per-group third and fourth moments, built on first use. */

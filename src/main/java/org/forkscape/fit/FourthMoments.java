@@ -6,8 +6,12 @@ package org.forkscape.fit;
  * residual's coefficients, w the key row of (X'X)^-1, alpha and beta the specification's mean offsets),
  * sum e_i^2 u_i^2 expands into contractions of sum z(x)z(x)z(x)z, sum z(x)z(x)z, sum z z', sum z and n.
  * The fourth-order part is stored as a symmetric matrix over column pairs, Q[(i,j)][(k,l)] = sum
- * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Only variants without
- * absorbed fixed effects use it (each level would need its own tensor).
+ * z_i z_j z_k z_l, so a contraction is a sum over the specification's pairs. Built from the per-group
+ * tensors in variants without absorbed fixed effects (with one absorbed column each level would need its
+ * own tensor), and from the explicit demeaned rows of each usable set beside two absorbed columns
+ * ({@link #ofWithinRows}), weighted or not. In a weighted variant without absorbed columns every order is
+ * weighted by w^2 (sum w^2 z(x)z(x)z(x)z down to sum w^2), so that the same contraction gives the weighted
+ * HC0 meat sum w^2 e^2 u^2.
  */
 final class FourthMoments {
     final int columns;
@@ -21,6 +25,7 @@ final class FourthMoments {
     /** columns x columns: sum z_i z_j. */
     final double[] s2;
     final double[] s1;
+    /** The rows; in a weighted variant without absorbed columns, the sum of w^2 (every order above weighted by w^2). */
     final double n;
 
     private FourthMoments(int columns) {
@@ -98,7 +103,7 @@ final class FourthMoments {
         double[][][] partial = new double[tasks.size()][][];
         java.util.function.IntConsumer work = t -> {
             int[] task = tasks.get(t);
-            partial[t] = block(v, rowsOf[task[0]], task[1], task[2]);
+            partial[t] = block(v.shifted, null, rowsOf[task[0]], task[1], task[2], v.weight);
         };
         if (pool == null || tasks.size() == 1) {
             for (int t = 0; t < tasks.size(); t++) {
@@ -127,7 +132,7 @@ final class FourthMoments {
             if (out[g] == null) {
                 out[g] = partial[t];
             } else {
-                for (int o = 0; o < 2; o++) {
+                for (int o = 0; o < partial[t].length; o++) {
                     double[] into = out[g][o];
                     double[] add = partial[t][o];
                     for (int k = 0; k < into.length; k++) {
@@ -144,21 +149,55 @@ final class FourthMoments {
         return out;
     }
 
-    private static double[][] block(DataVariant v, int[] rows, int from, int to) {
-        int p = v.columns;
+    /**
+     * The distinct third- and fourth-order sums over the rows {@code rows[from..to)} of {@code source}, each
+     * value times the square root of its row's weight when {@code weight} is given; a null column reads as 0.
+     * With {@code squaredWeight} (a weighted variant's analytic weights, for the weighted HC0 meat sum w^2 e^2
+     * u^2 in the variant's shifted coordinates) every product is weighted by w^2 instead, and the block also
+     * returns the w^2-weighted second- and first-order sums and the sum of w^2 (indices 2, 3 and 4), which
+     * the cells, weighted by w, do not hold.
+     */
+    private static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to,
+            double[] squaredWeight) {
+        int p = source.length;
         int b = to - from;
         double[][] z = new double[p][b];
         for (int j = 0; j < p; j++) {
-            double[] col = v.shifted[j];
+            double[] col = source[j];
             double[] zj = z[j];
-            for (int r = 0; r < b; r++) {
-                zj[r] = col[rows[from + r]];
+            if (col == null) {
+                continue;
+            }
+            if (weight == null) {
+                for (int r = 0; r < b; r++) {
+                    zj[r] = col[rows[from + r]];
+                }
+            } else {
+                for (int r = 0; r < b; r++) {
+                    int row = rows[from + r];
+                    zj[r] = col[row] * Math.sqrt(weight[row]);
+                }
             }
         }
         double[] f4 = new double[(int) distinctFourth(p)];
         double[] f3 = new double[(int) distinctThird(p)];
         double[] zij = new double[b];
         double[] zijk = new double[b];
+        double[] w2 = null;
+        double[] s2 = null;
+        double[] s1 = null;
+        if (squaredWeight != null) {
+            w2 = new double[b];
+            for (int r = 0; r < b; r++) {
+                double w = squaredWeight[rows[from + r]];
+                w2[r] = w * w;
+            }
+            s2 = new double[p * p];
+            s1 = new double[p];
+            for (int i = 0; i < p; i++) {
+                s1[i] = Kernels.dot(z[i], w2, b);
+            }
+        }
         int i4 = 0;
         int i3 = 0;
         for (int i = 0; i < p; i++) {
@@ -167,6 +206,14 @@ final class FourthMoments {
                 double[] zj = z[j];
                 for (int r = 0; r < b; r++) {
                     zij[r] = zi[r] * zj[r];
+                }
+                if (w2 != null) {
+                    for (int r = 0; r < b; r++) {
+                        zij[r] *= w2[r];
+                    }
+                    double t = Kernels.sum(zij, b);
+                    s2[i * p + j] = t;
+                    s2[j * p + i] = t;
                 }
                 for (int k = j; k < p; k++) {
                     double[] zk = z[k];
@@ -185,6 +232,9 @@ final class FourthMoments {
                 }
             }
         }
+        if (w2 != null) {
+            return new double[][] {f4, f3, s2, s1, {Kernels.sum(w2, b)}};
+        }
         return new double[][] {f4, f3};
     }
 
@@ -196,6 +246,7 @@ final class FourthMoments {
         double[] f4 = new double[(int) distinctFourth(p)];
         double[] f3 = new double[(int) distinctThird(p)];
         int count = 0;
+        double squaredWeights = 0;
         for (int g = mom.usableGroups.nextSetBit(0); g >= 0; g = mom.usableGroups.nextSetBit(g + 1)) {
             if (tensors[g][0] == null) {
                 continue;
@@ -205,6 +256,19 @@ final class FourthMoments {
             }
             for (int k = 0; k < f3.length; k++) {
                 f3[k] += tensors[g][1][k];
+            }
+            if (tensors[g].length > 2) {
+                // weighted: the w^2-weighted lower orders summed with the tensors
+                double[] s = tensors[g][3];
+                double[] c = tensors[g][2];
+                for (int j = 0; j < p; j++) {
+                    m.s1[j] += s[j];
+                }
+                for (int k = 0; k < c.length; k++) {
+                    m.s2[k] += c[k];
+                }
+                squaredWeights += tensors[g][4][0];
+                continue;
             }
             count += v.cellCount[g][0];
             double[] s = v.cellSum[g][0];
@@ -216,6 +280,53 @@ final class FourthMoments {
                 m.s2[k] += c[k];
             }
         }
+        layOut(m, f4, f3);
+        return new FourthMoments(m, v.weight == null ? count : squaredWeights);
+    }
+
+    /**
+     * The moments of the explicit rows of a set with two absorbed columns: its demeaned rows ({@code demeaned},
+     * over the variant's rows), each times the square root of its weight in a weighted variant, so that the
+     * plain sums over them are the sums weighted least squares needs (sum w^2 e^2 u^2 = sum (sqrt(w) e)^2
+     * (sqrt(w) u)^2). Their offsets are 0. Rows are taken in fixed blocks in row order and the blocks' sums
+     * added in that order, so the result does not depend on the thread that builds it; the second-order sums
+     * are the set's within matrix, formed from the same scaled rows.
+     */
+    static FourthMoments ofWithinRows(Moments mom, double[][] demeaned) {
+        DataVariant v = mom.variant;
+        int p = v.columns;
+        int[] rows = mom.usableRows();
+        FourthMoments m = new FourthMoments(p);
+        double[] f4 = new double[(int) distinctFourth(p)];
+        double[] f3 = new double[(int) distinctThird(p)];
+        for (int from = 0; from < rows.length; from += BLOCK_ROWS) {
+            double[][] part = block(demeaned, v.weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS), null);
+            for (int k = 0; k < f4.length; k++) {
+                f4[k] += part[0][k];
+            }
+            for (int k = 0; k < f3.length; k++) {
+                f3[k] += part[1][k];
+            }
+        }
+        for (int j = 0; j < p; j++) {
+            double[] col = demeaned[j];
+            if (col == null) {
+                continue;
+            }
+            double t = 0;
+            for (int row : rows) {
+                t += v.weight == null ? col[row] : col[row] * Math.sqrt(v.weight[row]);
+            }
+            m.s1[j] = t;
+        }
+        System.arraycopy(mom.within, 0, m.s2, 0, p * p);
+        layOut(m, f4, f3);
+        return new FourthMoments(m, mom.n);
+    }
+
+    /** Lays the distinct sums (nested-loop order i <= j <= k <= l) out over column pairs into {@code m}. */
+    private static void layOut(FourthMoments m, double[] f4, double[] f3) {
+        int p = m.columns;
         int i4 = 0;
         int i3 = 0;
         int[] pi = m.pairIndex;
@@ -246,7 +357,6 @@ final class FourthMoments {
                 }
             }
         }
-        return new FourthMoments(m, count);
     }
 
     /**

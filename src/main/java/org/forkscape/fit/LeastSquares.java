@@ -196,8 +196,14 @@ public final class LeastSquares implements Estimator {
         if ((type.kind() == ErrorType.Kind.HC0 || type.kind() == ErrorType.Kind.HC1) && variant.useFourthMoments) {
             return rowFree.hc0(mom, s, y);
         }
+        if (type.kind() == ErrorType.Kind.CLUSTER && variant.clustersServedByFourthMoments(type.clusterColumn())) {
+            // one row per cluster: sum over clusters of (e u)^2 is the HC0 meat, and every row is a cluster
+            RowFreeSandwich.Meat hc0 = rowFree.hc0(mom, s, y);
+            return hc0 == null ? null : new RowFreeSandwich.Meat(hc0.value(), mom.n, VarianceRoute.FOURTH_MOMENTS);
+        }
         if (type.kind() == ErrorType.Kind.CLUSTER && variant.usesClusterMoments(type.clusterColumn())) {
-            return rowFree.cluster(mom, s, y, type.clusterColumn());
+            return variant.absorbsSeveral ? rowFree.clusterWithinRows(mom, s, y, type.clusterColumn())
+                    : rowFree.cluster(mom, s, y, type.clusterColumn());
         }
         return null;
     }

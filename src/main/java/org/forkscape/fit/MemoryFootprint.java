@@ -81,8 +81,10 @@ public final class MemoryFootprint {
      * The per-group third- and fourth-order sums of a variant (C(P+3,4) + C(P+2,3) doubles a group), and,
      * while they are summed, one partial sum per block of rows and each worker's copy of a block.
      */
-    public static long fourthMomentTensors(int rows, int columns, int groups, int threads) {
-        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+    public static long fourthMomentTensors(int rows, int columns, int groups, int threads, boolean weighted) {
+        // a weighted variant's blocks also keep the w^2-weighted second and first orders and the sum of w^2
+        long perGroup = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns)
+                + (weighted ? (long) columns * columns + columns + 1 : 0);
         long blocks = (rows + FourthMoments.BLOCK_ROWS - 1L) / FourthMoments.BLOCK_ROWS + groups;
         long block = Math.min(rows, FourthMoments.BLOCK_ROWS);
         return DOUBLE * perGroup * (groups + blocks) + INT * rows
@@ -94,6 +96,41 @@ public final class MemoryFootprint {
         long pairs = (long) columns * (columns + 1) / 2;
         return DOUBLE * (pairs * pairs + pairs * columns + (long) columns * columns + columns)
                 + INT * (long) columns * columns + 5 * ARRAY;
+    }
+
+    /** Whether the run would build the fourth moments of each usable set's demeaned rows (two absorbed columns). */
+    public static boolean withinFourthMomentsPay(int rows, int columns, long specifications, double meanColumns) {
+        return SandwichRoute.withinFourthMomentsPay(rows, columns, specifications, meanColumns);
+    }
+
+    /**
+     * The fourth moments of the demeaned rows of each usable set beside two absorbed columns
+     * ({@link FourthMoments#ofWithinRows}), and while one is summed, a block of scaled rows, its products
+     * and the distinct sums, per worker building one.
+     */
+    public static long withinFourthMoments(int rows, int columns, long usableSets, int threads) {
+        long distinct = FourthMoments.distinctFourth(columns) + FourthMoments.distinctThird(columns);
+        long block = Math.min(rows, FourthMoments.BLOCK_ROWS);
+        return usableSets * fourthMoments(columns)
+                + Math.min(threads, usableSets) * DOUBLE * ((columns + 2L) * block + 3 * distinct);
+    }
+
+    /** Whether the run would build per-cluster cells of each usable set's demeaned rows (two absorbed columns). */
+    public static boolean withinClusterMomentsPay(int rows, int columns, long specifications, double meanColumns,
+            int clusters) {
+        return SandwichRoute.withinClusterMomentsPay(rows, columns, specifications, meanColumns, clusters);
+    }
+
+    /**
+     * The per-cluster cells of each usable set's demeaned rows beside two absorbed columns
+     * ({@link ClusterMoments#ofWithinRows}: a stream over the clusters per column pair, and each cluster's
+     * rows), and while one set's are formed, each row's cell, the cluster index and the rows' square roots
+     * of the weight, per worker building one.
+     */
+    public static long withinClusterCells(int rows, int columns, int clusters, long usableSets, int threads) {
+        long pairs = (long) columns * (columns + 1) / 2;
+        return usableSets * (DOUBLE * pairs * clusters + INT * (long) clusters + ARRAY * (pairs + 2) + INT * columns * (long) columns)
+                + Math.min(threads, usableSets) * (INT * ((long) rows + clusters) + DOUBLE * rows);
     }
 
     /** Whether the run would build the per-cluster route for a cluster column. */

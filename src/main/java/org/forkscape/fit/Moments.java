@@ -36,6 +36,8 @@ public final class Moments {
     private volatile FourthMoments fourth;
     private final java.util.Map<String, ClusterMoments.Usable> clusterCells =
             new java.util.concurrent.ConcurrentHashMap<>();
+    private final java.util.Map<String, ClusterMoments.WithinCells> withinClusterCells =
+            new java.util.concurrent.ConcurrentHashMap<>();
 
     FourthMoments fourthMoments() {
         FourthMoments f = fourth;
@@ -43,7 +45,8 @@ public final class Moments {
             synchronized (this) {
                 f = fourth;
                 if (f == null) {
-                    f = FourthMoments.of(this, variant.groupTensors());
+                    f = variant.absorbsSeveral ? FourthMoments.ofWithinRows(this, variant.rowColumns(this))
+                            : FourthMoments.of(this, variant.groupTensors());
                     fourth = f;
                 }
             }
@@ -53,6 +56,12 @@ public final class Moments {
 
     ClusterMoments.Usable clusterCells(String column) {
         return clusterCells.computeIfAbsent(column, c -> variant.clusterMoments(c).usable(this));
+    }
+
+    /** Beside two absorbed columns: the per-cluster cells of these rows' demeaned rows, built on first use. */
+    ClusterMoments.WithinCells withinClusterCells(String column) {
+        return withinClusterCells.computeIfAbsent(column,
+                c -> ClusterMoments.ofWithinRows(this, variant.rowColumns(this), variant.clusters.get(c)));
     }
 
     Moments(DataVariant v, BitSet usable) {

@@ -85,6 +85,101 @@ final class RowFreeSandwich {
         return new Meat(meat, 0, VarianceRoute.FOURTH_MOMENTS);
     }
 
+    private double[] pairCoef = new double[0];
+    private int[] pairList = new int[0];
+
+    /**
+     * The CR1 meat beside two absorbed columns, from the per-cluster cells of the set's demeaned rows
+     * ({@link ClusterMoments.WithinCells}; offsets 0, so each cluster's score is a'S_g w alone), or
+     * {@code null} when its rounding error bound is too large. The score collects, per column pair of the
+     * specification, the coefficient a_i w_j + a_j w_i once, and adds each pair's stream over the clusters in
+     * a fixed order. The bound is {@link #cluster}'s with alpha = beta = 0.
+     */
+    Meat clusterWithinRows(Moments mom, KeySolution s, int y, String column) {
+        load(s, y);
+        int p = s.p;
+        ClusterMoments.WithinCells cells = mom.withinClusterCells(column);
+        int g = cells.clusters;
+        if (g < 2) {
+            return new Meat(0, g, VarianceRoute.CLUSTER_CELLS);
+        }
+        int stride = cells.columns;
+        int pairs = stride * (stride + 1) / 2;
+        if (pairCoef.length < pairs) {
+            pairCoef = new double[pairs];
+            pairList = new int[pairs];
+        }
+        if (clusterScore.length < g) {
+            clusterScore = new double[g];
+            clusterAbsolute = new double[g];
+        }
+        if (squares.length < p + 1) {
+            squares = new double[p + 1];
+        }
+        // pairs in order of first use, each coefficient summed in (x, k) order
+        int listed = 0;
+        for (int x = 0; x <= p; x++) {
+            for (int k = 0; k < p; k++) {
+                int pair = cells.pairIndex[aCols[x] * stride + s.kept[k]];
+                double c = aVal[x] * w[k];
+                boolean known = false;
+                for (int t = 0; t < listed; t++) {
+                    if (pairList[t] == pair) {
+                        pairCoef[t] += c;
+                        known = true;
+                        break;
+                    }
+                }
+                if (!known) {
+                    pairList[listed] = pair;
+                    pairCoef[listed++] = c;
+                }
+            }
+        }
+        double[] score = clusterScore;
+        java.util.Arrays.fill(score, 0, g, 0);
+        for (int t = 0; t < listed; t++) {
+            double c = pairCoef[t];
+            double[] cross = cells.cross[pairList[t]];
+            for (int q = 0; q < g; q++) {
+                score[q] += c * cross[q];
+            }
+        }
+        double n = mom.n;
+        double[] rowNorms = clusterAbsolute;
+        for (int q = 0; q < g; q++) {
+            rowNorms[q] = cells.n[q] / n;
+        }
+        double aNorm = 0;
+        double wNorm = 0;
+        for (int x = 0; x <= p; x++) {
+            double[] diagonal = cells.cross[cells.pairIndex[aCols[x] * stride + aCols[x]]];
+            double total = 0;
+            for (int q = 0; q < g; q++) {
+                total += diagonal[q];
+            }
+            aNorm += aVal[x] * aVal[x] * total;
+            if (x < p) {
+                wNorm += w[x] * w[x] * total;
+            }
+            double inverse = 1 / total;
+            for (int q = 0; q < g; q++) {
+                rowNorms[q] += diagonal[q] * inverse;
+            }
+        }
+        double scale = Math.sqrt(aNorm * wNorm);
+        double meat = 0;
+        double bound = 0;
+        for (int q = 0; q < g; q++) {
+            meat += score[q] * score[q];
+            bound += 2 * Math.abs(score[q]) * scale * rowNorms[q];
+        }
+        if (!(meat > 0) || !(bound <= SandwichRoute.MAX_AMPLIFICATION * meat)) {
+            return null;
+        }
+        return new Meat(meat, g, VarianceRoute.CLUSTER_CELLS);
+    }
+
     /**
      * The CR1 meat, sum over clusters of (sum e_i u_i)^2, with the number of clusters in the rows; or
      * {@code null} when its rounding error bound is too large. With e_i u_i summed over a cell of n_c
@@ -110,13 +205,15 @@ final class RowFreeSandwich {
         java.util.Arrays.fill(clusterAbsolute, 0, cells.clusters, 0);
         java.util.Arrays.fill(clusterSeen, 0, cells.clusters, false);
         java.util.Arrays.fill(squares, 0, p + 1, 0);
+        // in a weighted variant the cells hold weighted sums, and the counts become weight totals
+        double[] weight = cells.weight;
         double n = 0;
         for (int c = 0; c < cells.n.length; c++) {
             double[] cross = cells.cross[c];
             for (int x = 0; x <= p; x++) {
                 squares[x] += cross[aCols[x] * stride + aCols[x]];
             }
-            n += cells.n[c];
+            n += weight == null ? cells.n[c] : weight[c];
         }
         double aNorm = 0;
         double wNorm = 0;
@@ -134,7 +231,8 @@ final class RowFreeSandwich {
             double[] cross = cells.cross[c];
             double[] sum = cells.sum[c];
             double asw = 0;
-            double rowNorms = cells.n[c] / n;
+            double rows = weight == null ? cells.n[c] : weight[c];
+            double rowNorms = rows / n;
             for (int x = 0; x <= p; x++) {
                 int row = aCols[x] * stride;
                 double t = 0;
@@ -147,7 +245,7 @@ final class RowFreeSandwich {
             double as = offset(sum, aCols, aVal, p + 1);
             double ws = offset(sum, s.kept, w, p);
             int cluster = cells.cluster[c];
-            clusterScore[cluster] += asw - beta * as - alpha * ws + cells.n[c] * alpha * beta;
+            clusterScore[cluster] += asw - beta * as - alpha * ws + rows * alpha * beta;
             clusterAbsolute[cluster] += Math.sqrt((aNorm + alpha * alpha * n) * (wNorm + beta * beta * n))
                     * rowNorms;
             if (!clusterSeen[cluster]) {

@@ -3,7 +3,8 @@ package org.forkscape.fit;
 /**
  * Picks how the sandwich meat of a specification is computed, from cost estimates in multiply-adds,
  * so that callers never choose kernels. The row pass costs about 3 n p per specification; the
- * fourth-moment route (HC0, HC1, no absorbed fixed effects) costs n C(P+3,4) once per variant plus
+ * fourth-moment route (HC0, HC1, with none or two absorbed columns) costs n C(P+3,4) once per variant (per
+ * usable set beside two absorbed columns) plus
  * about (p+1)^2 p^2 / 4 per specification; the per-cluster route costs n P^2 / 2 once plus cells p^2.
  *
  * <p>A route that avoids the rows is declined whenever its result could lose digits. Both routes compute
@@ -17,9 +18,13 @@ package org.forkscape.fit;
  * outcome and badly scaled columns; the ratio sees all of them, the key's variance inflation alone does
  * not.
  *
- * <p>A weighted variant takes the row pass for every robust type: its cells hold sum w z z', while the
- * meats of weighted least squares need sum w^2 e^2 u^2 (fourth moments weighted by w^2) and per-cluster
- * sums weighted by w, structures built for no other purpose. Declining keeps one exact route for weights.
+ * <p>Beside two absorbed columns the rows of each usable set are explicit (its demeaned rows, offsets 0), so
+ * both structures are summed from them per set, weighted or not: with each row scaled by sqrt(w), the plain
+ * sums are those weighted least squares needs (HC0: sum w^2 e^2 u^2; CR1: per cluster sum w e u). A cluster
+ * column with one row per cluster there takes the fourth moments, its CR1 meat being the HC0 meat. With
+ * none or one absorbed column a weighted variant's per-cluster cells hold weighted sums (sum w z z', sum w z
+ * and the weight total), whose score is sum w e u, and without absorbed columns its fourth moments are
+ * weighted by w^2 at every order (the HC0 meat sum w^2 e^2 u^2).
  */
 final class SandwichRoute {
     /**
@@ -38,7 +43,7 @@ final class SandwichRoute {
     }
 
     static boolean fourthMomentsPay(DataVariant v, long specifications, double meanColumns) {
-        return !v.absorbs && v.weight == null && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
+        return !v.absorbs && fourthMomentsPay(v.rows, v.columns, v.groupMissing.length, specifications, meanColumns);
     }
 
     /**
@@ -60,8 +65,28 @@ final class SandwichRoute {
         return build + specifications * contract < specifications * rowPass;
     }
 
+    /**
+     * Whether the fourth moments of each usable set's explicit rows pay beside two absorbed columns: the
+     * same costs, the tensor built from the set's rows (one group), weighted or not.
+     */
+    static boolean withinFourthMomentsPay(int rows, int columns, long specifications, double meanColumns) {
+        return fourthMomentsPay(rows, columns, 1, specifications, meanColumns);
+    }
+
+    /**
+     * Whether per-cluster cells of each usable set's explicit rows pay beside two absorbed columns (one
+     * level), weighted or not, and fit in {@link #MAX_TENSOR_DOUBLES}: every cluster keeps P(P+1)/2 doubles.
+     */
+    static boolean withinClusterMomentsPay(int rows, int columns, long specifications, double meanColumns,
+            int clusters) {
+        if ((long) clusters * columns * (columns + 1) / 2 > MAX_TENSOR_DOUBLES) {
+            return false;
+        }
+        return clusterMomentsPay(rows, columns, 1, specifications, meanColumns, clusters);
+    }
+
     static boolean clusterMomentsPay(DataVariant v, long specifications, double meanColumns, int clusters) {
-        return v.weight == null && clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
+        return clusterMomentsPay(v.rows, v.columns, v.levels, specifications, meanColumns, clusters);
     }
 
     /** The same choice from the sizes alone. */

@@ -186,7 +186,7 @@ public final class MemoryEstimate {
             List<String> absorbedColumns = absorbedColumns(plan, models.variantKey(v));
             boolean several = absorbedColumns.size() > 1;
             String absorbed = absorbedColumns.isEmpty() ? null : absorbedColumns.get(0);
-            // a weighted variant takes the row pass for every robust error (fit.SandwichRoute)
+            // a weighted variant's fourth moments also keep w^2-weighted lower orders (fit.FourthMoments)
             boolean weighted = weighted(plan, models.variantKey(v));
             // several absorbed columns: one cell level, and the demeaned rows of each usable set instead
             int[] levelCodes = absorbed == null || several ? null : LevelCodes.of(table.column(absorbed));
@@ -204,16 +204,39 @@ public final class MemoryEstimate {
                     + workers * MemoryFootprint.momentsBuild(columns, levels)
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long fourth = 0;
-            if (absorbed == null && !weighted && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
+            if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
-                fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers)
+                fourth = MemoryFootprint.fourthMomentTensors(rows, columns, cells.groups(), workers, weighted)
                         + SpecificationMix.usableSets(pv.hcMasks, pv.hcSeen, pv.hc, maxUsableSets)
                         * MemoryFootprint.fourthMoments(columns);
             }
             long clusterCells = 0;
+            if (several) {
+                // beside two absorbed columns: per usable set, from its demeaned rows (fit.DataVariant.expect)
+                long fourthSpecifications = pv.hc;
+                for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
+                    long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
+                    int clusters = count(c.getValue());
+                    if (count == 0) {
+                        continue;
+                    }
+                    if (largestCluster(c.getValue(), clusters) <= 1) {
+                        fourthSpecifications += count;
+                    } else if (MemoryFootprint.withinClusterMomentsPay(rows, columns, count, profile.meanColumns,
+                            clusters)) {
+                        clusterCells += MemoryFootprint.withinClusterCells(rows, columns, clusters,
+                                SpecificationMix.usableSets(
+                                        pv.clusterMasks.get(c.getKey()), pv.clusterSeen.getOrDefault(c.getKey(), 0L),
+                                        count, maxUsableSets), workers);
+                    }
+                }
+                if (MemoryFootprint.withinFourthMomentsPay(rows, columns, fourthSpecifications, profile.meanColumns)) {
+                    fourth = MemoryFootprint.withinFourthMoments(rows, columns, usable, workers);
+                }
+            }
             for (Map.Entry<String, int[]> c : clusterCodes.entrySet()) {
                 long count = pv.clusterSpecifications.getOrDefault(c.getKey(), 0L);
-                if (count > 0 && !several && !weighted && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
+                if (count > 0 && !several && MemoryFootprint.clusterMomentsPay(rows, columns, levels, count, profile.meanColumns,
                         count(c.getValue()))) {
                     clusterCells += MemoryFootprint.clusterCells(rows, columns, cells.distinct(levelCodes, c.getValue()))
                             + SpecificationMix.usableSets(pv.clusterMasks.get(c.getKey()),
@@ -331,6 +354,18 @@ public final class MemoryEstimate {
     }
 
     /** Number of codes 0..k-1 in a column of level codes (-1 missing): k. */
+    /** Rows of the most frequent code, among {@code clusters} codes (-1 for missing ignored). */
+    private static int largestCluster(int[] codes, int clusters) {
+        int[] rows = new int[clusters];
+        int largest = 0;
+        for (int c : codes) {
+            if (c >= 0) {
+                largest = Math.max(largest, ++rows[c]);
+            }
+        }
+        return largest;
+    }
+
     private static int count(int[] codes) {
         int max = -1;
         for (int c : codes) {

@@ -202,21 +202,28 @@ public final class MultiverseRunner {
                 (System.nanoTime() - start) / 1e9);
     }
 
+    /** Specifications {@link #describeWork} decodes at most. */
+    private static final int WORK_SAMPLE = 512;
+
     /**
      * Tells the variant what it is about to fit (counts of robust-error least-squares specifications and
-     * their mean size, from an even sample of at most 512 of its specifications), so that it builds the
-     * row-free sandwich structures only where they pay.
+     * their mean size, from all of them or a seeded random sample of {@value #WORK_SAMPLE}), so that it
+     * builds the row-free sandwich structures only where they pay. An evenly spaced sample would alias with
+     * the mixed radix: with the error type the last decision, every eighth specification of 4,096 has the
+     * same type.
      */
     static void describeWork(DataVariant variant, int[] slots, long[] indices, SpecificationSpace space,
             SpecificationModels models, ExecutorService pool) {
-        int step = Math.max(1, slots.length / 512);
+        boolean every = slots.length <= WORK_SAMPLE;
+        int draws = every ? slots.length : WORK_SAMPLE;
+        java.util.SplittableRandom random = new java.util.SplittableRandom(WORK_SAMPLE);
         long[] c = new long[space.decisionCount()];
         int seen = 0;
         int hc = 0;
         double columns = 0;
         java.util.Map<String, Long> clusters = new java.util.HashMap<>();
-        for (int i = 0; i < slots.length; i += step) {
-            space.decode(indices[slots[i]], c);
+        for (int i = 0; i < draws; i++) {
+            space.decode(indices[slots[every ? i : random.nextInt(slots.length)]], c);
             org.forkscape.fit.SpecificationModel m = models.model(c);
             seen++;
             if (!m.family().leastSquares()) {

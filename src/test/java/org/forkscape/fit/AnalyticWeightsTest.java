@@ -77,11 +77,11 @@ class AnalyticWeightsTest {
     }
 
     /**
-     * A weighted variant declines the fourth-moment and per-cluster routes where the unweighted one takes
-     * them, so every robust error of a weighted specification comes from the row pass.
+     * A weighted variant takes the fourth-moment and per-cluster routes where the unweighted one takes them
+     * (weighted by w^2 and by w); the values agree with the row pass.
      */
     @Test
-    void weightedVariantsTakeTheRowPass() {
+    void weightedVariantsTakeTheWeightedRoutesWithoutRows() {
         Table t = table(3000, 21);
         Plan p = plan("x", "{\"label\": \"none\"}, {\"label\": \"w\", \"column\": \"w\"}", "\"HC1\", \"cluster:region\"", "");
         SpecificationModels models = new SpecificationModels(p, t);
@@ -92,15 +92,22 @@ class AnalyticWeightsTest {
         }
         assertTrue(unweighted.useFourthMoments && unweighted.usesClusterMoments("region"),
                 "the unweighted variant should take both moment routes at these counts");
-        assertFalse(weighted.useFourthMoments || weighted.usesClusterMoments("region"),
-                "a weighted variant must decline the moment routes");
+        assertTrue(weighted.useFourthMoments && weighted.usesClusterMoments("region"),
+                "a weighted variant takes the weighted fourth moments and cells");
         long[] choices = {0, 0, 1, 0, 1, 0};
         ObservedRows rows = new ObservedRows().of(weighted);
         KeyFit hc1 = new LeastSquares(true).fit(models.model(choices), rows);
         choices[5] = 1;
         KeyFit cluster = new LeastSquares(true).fit(models.model(choices), rows);
-        assertEquals(VarianceRoute.ROW_PASS, hc1.route());
-        assertEquals(VarianceRoute.ROW_PASS, cluster.route());
+        assertEquals(VarianceRoute.FOURTH_MOMENTS, hc1.route());
+        assertEquals(VarianceRoute.CLUSTER_CELLS, cluster.route());
+        KeyFit rowPass = new LeastSquares(false).fit(models.model(choices), rows);
+        assertEquals(VarianceRoute.ROW_PASS, rowPass.route());
+        // the two routes sum the same products in different orders (common practice: a few ulps of the meat)
+        assertEquals(rowPass.stdError(), cluster.stdError(), 1e-11 * rowPass.stdError());
+        choices[5] = 0;
+        KeyFit hc1RowPass = new LeastSquares(false).fit(models.model(choices), rows);
+        assertEquals(hc1RowPass.stdError(), hc1.stdError(), 1e-11 * hc1RowPass.stdError());
     }
 
     /** A weighted specification with a collinear control takes the QR refit and gives the fit without it. */

@@ -60,6 +60,21 @@ public final class ExactLeastSquares {
      * @param cluster    cluster code of each row for CR1, or null
      */
     public static KeyResult fit(double[][] regressors, double[] y, int[] level, int[] cluster) {
+        return fit(regressors, y, null, level, null, cluster);
+    }
+
+    /**
+     * Weighted least squares with analytic weights w_i and up to two sets of fixed-effect dummies: b =
+     * (X'WX)^-1 X'Wy, s^2 = sum w e^2 / (N-K), u_i = x_i'(X'WX)^-1 e_key, HC0 = sum w_i^2 e_i^2 u_i^2, h_i =
+     * w_i x_i'(X'WX)^-1 x_i, CR1 scores sum_{i in g} w_i e_i u_i (the meats of X'W diag(e^2) WX and its
+     * per-cluster form; as R's {@code sandwich} takes them for a weighted {@code lm}).
+     *
+     * @param weight the analytic weight of each row (all positive), or null for ordinary least squares
+     * @param level2 a second fixed effect's level of each row, beside {@code level}: its dummies for every
+     *               level but the first, which is full rank when the two levels' graph is connected; or null
+     */
+    public static KeyResult fit(double[][] regressors, double[] y, double[] weight, int[] level, int[] level2,
+            int[] cluster) {
         int n = y.length;
         int levels = 0;
         if (level != null) {
@@ -67,20 +82,32 @@ public final class ExactLeastSquares {
                 levels = Math.max(levels, l + 1);
             }
         }
-        int lead = level == null ? 1 : levels;
+        int levels2 = 0;
+        if (level2 != null) {
+            for (int l : level2) {
+                levels2 = Math.max(levels2, l + 1);
+            }
+        }
+        int lead = (level == null ? 1 : levels) + Math.max(0, levels2 - 1);
         int k = lead + regressors.length;
         BigDecimal[][] x = new BigDecimal[n][k];
         for (int i = 0; i < n; i++) {
-            for (int j = 0; j < lead; j++) {
+            int first = level == null ? 1 : levels;
+            for (int j = 0; j < first; j++) {
                 x[i][j] = (level == null || level[i] == j) ? BigDecimal.ONE : BigDecimal.ZERO;
+            }
+            for (int j = first; j < lead; j++) {
+                x[i][j] = level2[i] == j - first + 1 ? BigDecimal.ONE : BigDecimal.ZERO;
             }
             for (int j = 0; j < regressors.length; j++) {
                 x[i][lead + j] = new BigDecimal(regressors[j][i]);
             }
         }
         BigDecimal[] yy = new BigDecimal[n];
+        BigDecimal[] wt = new BigDecimal[n];
         for (int i = 0; i < n; i++) {
             yy[i] = new BigDecimal(y[i]);
+            wt[i] = weight == null ? BigDecimal.ONE : new BigDecimal(weight[i]);
         }
         BigDecimal[][] a = new BigDecimal[k][k];
         BigDecimal[] xy = new BigDecimal[k];
@@ -89,7 +116,8 @@ public final class ExactLeastSquares {
                 BigDecimal s = BigDecimal.ZERO;
                 for (int i = 0; i < n; i++) {
                     if (x[i][p].signum() != 0 && x[i][q].signum() != 0) {
-                        s = s.add(x[i][p].multiply(x[i][q]));
+                        BigDecimal t = x[i][p].multiply(x[i][q]);
+                        s = s.add(weight == null ? t : t.multiply(wt[i]));
                     }
                 }
                 a[p][q] = s;
@@ -97,7 +125,8 @@ public final class ExactLeastSquares {
             }
             BigDecimal s = BigDecimal.ZERO;
             for (int i = 0; i < n; i++) {
-                s = s.add(x[i][p].multiply(yy[i]));
+                BigDecimal t = x[i][p].multiply(yy[i]);
+                s = s.add(weight == null ? t : t.multiply(wt[i]));
             }
             xy[p] = s;
         }
@@ -144,9 +173,13 @@ public final class ExactLeastSquares {
                 }
                 h = h.add(x[i][p].multiply(t, DIGITS), DIGITS);
             }
-            BigDecimal eu = e.multiply(u, DIGITS);
+            if (weight != null) {
+                h = h.multiply(wt[i], DIGITS);
+            }
+            BigDecimal eu = weight == null ? e.multiply(u, DIGITS) : e.multiply(u, DIGITS).multiply(wt[i], DIGITS);
             BigDecimal term = eu.multiply(eu, DIGITS);
-            rss = rss.add(e.multiply(e, DIGITS), DIGITS);
+            BigDecimal ee = e.multiply(e, DIGITS);
+            rss = rss.add(weight == null ? ee : ee.multiply(wt[i], DIGITS), DIGITS);
             hc0 = hc0.add(term, DIGITS);
             BigDecimal q = BigDecimal.ONE.subtract(h, DIGITS);
             hc2 = hc2.add(term.divide(q, DIGITS), DIGITS);

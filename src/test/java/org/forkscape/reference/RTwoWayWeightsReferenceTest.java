@@ -88,14 +88,18 @@ class RTwoWayWeightsReferenceTest {
 
     /**
      * The weighted two-way specifications alone (the plan cut to its "pupil and term" and "survey"
-     * alternatives): classical errors from the solve, every robust error from one pass over the rows, none
-     * from the routes without rows, which hold unweighted sums only (see {@code fit.SandwichRoute}).
+     * alternatives): classical errors from the solve, HC0 and HC1 from the fourth moments of the sets'
+     * sqrt(w)-scaled demeaned rows, cluster:pupil from their per-cluster cells, and cluster:pupil+term from the
+     * pupil and term cells and, for the pupil-term intersection, whose positive-weight rows are one per cell,
+     * the fourth moments (a multi-way error is recorded as cluster cells when no component took the row pass;
+     * see {@code fit.SandwichRoute}); the values of every route agree with R in the tests above.
      */
     @Test
-    void weightedTwoWaySpecificationsTakeTheRowPassForRobustErrors() {
+    void weightedTwoWaySpecificationsTakeTheRowFreeRoutes() {
         RunResult run = run(weightedTwoWayOnly(), new MultiverseRunner(2));
         // 8 control subsets, 1 classical and 4 robust error types, every specification fitted
-        assertEquals(Map.of(VarianceRoute.CLASSICAL, 8L, VarianceRoute.ROW_PASS, 32L), run.routes(),
+        assertEquals(Map.of(VarianceRoute.CLASSICAL, 8L, VarianceRoute.FOURTH_MOMENTS, 16L,
+                VarianceRoute.CLUSTER_CELLS, 16L), run.routes(),
                 "routes of the weighted two-way specifications");
         assertEquals(40, run.results().size());
     }

@@ -49,7 +49,10 @@ class RWeightsReferenceTest {
         return runner.run(plan, table, RunProgress.SILENT, new AtomicBoolean());
     }
 
-    /** The engine's own choice of routes (weighted specifications decline the moment routes: {@code fit.WeightedRoutesTest}). */
+    /**
+     * The engine's own choice of routes (weighted specifications decline the fourth moments and take the
+     * weighted per-cluster cells: {@code fit.AnalyticWeightsTest}).
+     */
     @Test
     void everySpecificationAgreesWithRByTheEnginesRoutes() {
         RunResult run = run(new MultiverseRunner(2));

@@ -10,6 +10,7 @@ import java.lang.management.MemoryMXBean;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.Locale;
+import java.util.Map;
 import java.util.SplittableRandom;
 import java.util.concurrent.atomic.AtomicLong;
 import org.forkscape.InputException;
@@ -44,6 +45,21 @@ class MemoryEstimateTest {
         Table table = table(40_000);
         Plan plan = plan(table, "[\"classical\"]",
                 "{\"label\": \"none\", \"columns\": []}, {\"label\": \"region\", \"columns\": [\"region\"]}", 2, 6);
+        assertOfTheRightOrder(plan, table);
+    }
+
+    /**
+     * Two absorbed columns: each usable set's demeaned rows, and the fourth moments and per-cluster cells summed
+     * from them, which the estimate counts.
+     */
+    @Test
+    void aRunWithTwoAbsorbedColumnsAndTheRoutesWithoutRows() {
+        Table table = table(40_000);
+        Plan plan = plan(table, "[\"classical\", \"HC1\", \"cluster:district\"]",
+                "{\"label\": \"district and region\", \"columns\": [\"district\", \"region\"]}", 0, 8);
+        Map<String, Long> parts = MemoryEstimate.of(plan, table, 2).parts();
+        assertTrue(parts.get("the fourth-moment tensors of the HC0/HC1 sandwich") > 0, parts.toString());
+        assertTrue(parts.get("the per-cluster cells of the cluster-robust sandwich") > 0, parts.toString());
         assertOfTheRightOrder(plan, table);
     }
 

@@ -16,8 +16,9 @@
 #                               standard error, df, rows, coefficients, R-squared, status, and for robust
 #                               types the zero-weight rows of the specification's sample and sandwich's
 #                               value when they are left in the fit (see below)
-#   water-logit-expected.csv    per specification of water-logit-plan.json and water-poisson-plan.json
-#   water-poisson-expected.csv  (written by hand): estimate, standard error, rows, coefficients, deviance,
+#   water-logit-expected.csv    per specification of water-logit-plan.json, water-probit-plan.json and
+#   water-probit-expected.csv   water-poisson-plan.json (written by hand): estimate, standard error, rows,
+#   water-poisson-expected.csv  coefficients, deviance,
 #                               McFadden's R-squared, the average marginal effect and its error
 #   weights-versions.txt        the R and sandwich versions that produced them
 #
@@ -169,7 +170,7 @@ write_table(rows, c("spec", "outcome", "garden", "controls", "rows", "effects", 
                     "std_error", "df", "n_obs", "n_params", "r2", "status", "zero_rows", "with_zero_rows"),
             "water-survey-expected.csv")
 
-# --- generalized linear models with prior weights: water-logit-plan.json, water-poisson-plan.json ---------
+# --- generalized linear models with prior weights: water-logit-plan.json, water-probit-plan.json, water-poisson-plan.json
 
 # R's glm stops on the relative deviance change; taken to 1e-14 and restarted at its estimate until the
 # covariance sandwich reads is the information at the fit's own coefficients (as glm-reference.R does).
@@ -192,7 +193,7 @@ weighted_effect <- function(fit, v) {
   b <- coef(fit)[[".x"]]
   fam <- fit$family
   d1 <- fam$mu.eta(eta)
-  d2 <- if (fam$link == "logit") d1 * (1 - 2 * plogis(eta)) else exp(eta)
+  d2 <- if (fam$link == "logit") d1 * (1 - 2 * plogis(eta)) else if (fam$link == "probit") -eta * d1 else exp(eta)
   g <- colSums(w * d2 * x) * b
   g[".x"] <- g[".x"] + sum(w * d1)
   list(effect = sum(w * d1) * b, std_error = sqrt(drop(t(g) %*% v %*% g)))
@@ -234,6 +235,7 @@ glm_plan <- function(outcome, model, family, file) {
               file)
 }
 glm_plan("high", "logit", binomial(link = "logit"), "water-logit-expected.csv")
+glm_plan("high", "probit", binomial(link = "probit"), "water-probit-expected.csv")
 glm_plan("repairs", "poisson", poisson(link = "log"), "water-poisson-expected.csv")
 
 writeLines(c(paste("R:", R.version.string), paste("sandwich:", packageVersion("sandwich")),

@@ -22,9 +22,9 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 
 /**
- * Prior weights in the generalized linear models: every specification of {@code water-logit-plan.json} and
- * {@code water-poisson-plan.json} against R's {@code glm(weights = w)} with {@code vcov}, {@code
- * sandwich::vcovHC} (HC0, HC1, HC3) and {@code vcovCL} (HC0 with G/(G-1), its glm default), and the average
+ * Prior weights in the generalized linear models: every specification of {@code water-logit-plan.json},
+ * {@code water-probit-plan.json} and {@code water-poisson-plan.json} against R's {@code glm(weights = w)}
+ * with {@code vcov}, {@code sandwich::vcovHC} (HC0, HC1, HC3) and {@code vcovCL} (HC0 with G/(G-1), its glm default), and the average
  * marginal effect as the prior-weighted mean of mu'(eta) b with its delta-method error, all computed in
  * {@code src/test/r/weights-reference.R} (R 4.2.2, sandwich 3.0.2; {@code weights-versions.txt}) on its
  * invented survey, whose weights hold zeros and missing cells.
@@ -36,7 +36,7 @@ class RWeightsGlmReferenceTest {
     private static final String SOURCE = "R glm(weights = ) with vcov, sandwich::vcovHC and vcovCL";
 
     @ParameterizedTest
-    @ValueSource(strings = {"logit", "poisson"})
+    @ValueSource(strings = {"logit", "probit", "poisson"})
     void everySpecificationAgreesWithWeightedGlm(String model) {
         Plan plan = ReferenceFiles.plan("water-" + model + "-plan.json");
         Table table = ReferenceFiles.table(plan);
@@ -80,7 +80,7 @@ class RWeightsGlmReferenceTest {
 
     /** The explorer's full fit of each weighted GLM specification gives R's key coefficient and error too. */
     @ParameterizedTest
-    @ValueSource(strings = {"logit", "poisson"})
+    @ValueSource(strings = {"logit", "probit", "poisson"})
     void theFullFitsKeyCoefficientAgreesWithWeightedGlm(String model) {
         Plan plan = ReferenceFiles.plan("water-" + model + "-plan.json");
         SpecificationModels models = new SpecificationModels(plan, ReferenceFiles.table(plan));

@@ -12,14 +12,17 @@ import org.apache.parquet.column.ColumnDescriptor;
 import org.apache.parquet.column.ColumnReader;
 import org.apache.parquet.io.api.Binary;
 import org.apache.parquet.schema.LogicalTypeAnnotation.DecimalLogicalTypeAnnotation;
+import tools.jackson.core.io.schubfach.FloatToDecimal;
 
 /**
  * One column of a Parquet read: its values written straight into the table's final array, since Parquet
  * states the row count before any value is read. A null is a missing cell. Numbers become doubles as the
  * same value written in a CSV file would: integers and decimals rounded once to the nearest double (as
- * {@link Double#parseDouble} rounds their decimal text), a FLOAT as the double of the decimal
- * {@link Float#toString} writes for it (its shortest decimal but in rare cases before Java 19, the text
- * other tools print for it), NaN as missing as in CSV. Text is
+ * {@link Double#parseDouble} rounds their decimal text), a FLOAT as the double of its shortest decimal
+ * (the text other tools print for it), by the Schubfach algorithm that Jackson bundles (Giulietti 2020, "The
+ * Schubfach way to render doubles"): Java 17's {@link Float#toString} is not always shortest (it writes
+ * -8.1109158E8 for the float whose shortest decimal is -8.110916E8, two different doubles), and Java 19's
+ * is, so the JDK's own would make a table depend on the Java release; NaN as missing as in CSV. Text is
  * stripped of surrounding spaces and the CSV reader's missing spellings mark missing cells, so a CSV file
  * and a Parquet copy of it give one table; each distinct text is decoded once and kept once in a
  * {@link LevelPool}.
@@ -92,7 +95,7 @@ final class ParquetColumn {
             case UINT32 -> Integer.toUnsignedLong(reader.getInteger());
             case INT64 -> reader.getLong();
             case UINT64 -> unsigned(reader.getLong());
-            case FLOAT -> Double.parseDouble(Float.toString(reader.getFloat()));
+            case FLOAT -> Double.parseDouble(FloatToDecimal.toString(reader.getFloat()));
             case DOUBLE -> reader.getDouble();
             case BOOLEAN -> reader.getBoolean() ? 1 : 0;
             case DECIMAL_INT32 -> BigDecimal.valueOf(reader.getInteger(), scale).doubleValue();

@@ -112,6 +112,21 @@ class ParquetTableReaderTest {
         }
     }
 
+    /**
+     * A float becomes the double of its shortest decimal on every Java release: -8.1109158E8 is what Java 17's
+     * Float.toString writes for the float whose shortest decimal is -8.110916E8 (found by comparing the two
+     * on random floats; Java 19 and later write the shortest, from memory), and the two decimals are
+     * different doubles.
+     */
+    @Test
+    void aFloatIsTheDoubleOfItsShortestDecimal() {
+        float f = -8.1109158E8f;
+        assertEquals(f, -8.110916E8f, 0.0f, "one float");
+        Table t = new ParquetTableReader().read(ParquetFiles.write(dir.resolve("f.parquet"),
+                "message m { required float ratio; }", List.of(List.of(f))));
+        assertEquals(-8.110916E8, ((NumericColumn) t.column("ratio")).values()[0], 0.0);
+    }
+
     @Test
     void numbersAreTheNearestDoubleOfTheirDecimalTextAndNullsAreMissing() {
         List<List<Object>> rows = typedRows(500, 12);

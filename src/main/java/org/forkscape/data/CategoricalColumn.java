@@ -9,10 +9,17 @@ import java.util.List;
  * @param codes  one code per row, an index into {@code levels}, or -1 where the cell was missing
  * @param levels the distinct values in sorted (natural string) order; the first is the reference level
  *               when the column enters a model as dummies
+ * @param typed  whether the file declared the column text (a Parquet STRING or ENUM), rather than its cells
+ *               making it text as in a CSV file
  */
-public record CategoricalColumn(String name, int[] codes, List<String> levels) implements Column {
+public record CategoricalColumn(String name, int[] codes, List<String> levels, boolean typed) implements Column {
     public CategoricalColumn {
         levels = List.copyOf(levels);
+    }
+
+    /** A column that is text because of its cells, as a CSV file's. */
+    public CategoricalColumn(String name, int[] codes, List<String> levels) {
+        this(name, codes, levels, false);
     }
 
     @Override
@@ -28,9 +35,12 @@ public record CategoricalColumn(String name, int[] codes, List<String> levels) i
     /**
      * The levels that are not decimal numbers, when they are few beside many numeric ones: the cells
      * that made a column of numbers categorical (a stray {@code N/A}, a unit written after a value).
-     * Empty when the column is plainly text.
+     * Empty when the column is plainly text, or was declared text by its file (its cells did not decide it).
      */
     public List<String> strayTextLevels() {
+        if (typed) {
+            return List.of();
+        }
         List<String> text = levels.stream().filter(l -> !NumberSyntax.isDecimal(l)).toList();
         boolean mostlyNumbers = levels.size() - text.size() >= 2 * text.size();
         return mostlyNumbers && text.size() <= 5 ? text : List.of();

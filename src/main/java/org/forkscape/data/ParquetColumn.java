@@ -149,6 +149,6 @@ final class ParquetColumn {
                 codes[i] = recode[codes[i]];
             }
         }
-        return new CategoricalColumn(name, codes, sorted.levels());
+        return new CategoricalColumn(name, codes, sorted.levels(), true);
     }
 }

@@ -127,6 +127,23 @@ class ParquetTableReaderTest {
         assertEquals(-8.110916E8, ((NumericColumn) t.column("ratio")).values()[0], 0.0);
     }
 
+    /**
+     * A STRING column of numeric texts is text because the file declares it, not because of a stray cell: no
+     * hint names its few non-numeric levels as the cells to fix (the CSV copy's column has that hint).
+     */
+    @Test
+    void aStringColumnOfNumbersHasNoStrayTextHint() throws IOException {
+        List<List<Object>> rows = new ArrayList<>();
+        for (int i = 0; i < 30; i++) {
+            rows.add(List.of(i == 7 ? "n/a" : Integer.toString(i)));
+        }
+        Table parquet = new ParquetTableReader().read(ParquetFiles.write(dir.resolve("codes.parquet"),
+                "message m { required binary code (STRING); }", rows));
+        assertEquals(List.of(), ((CategoricalColumn) parquet.column("code")).strayTextLevels());
+        Table csv = csv("codes.csv", csvOf("code", rows));
+        assertEquals(List.of("n/a"), ((CategoricalColumn) csv.column("code")).strayTextLevels());
+    }
+
     @Test
     void numbersAreTheNearestDoubleOfTheirDecimalTextAndNullsAreMissing() {
         List<List<Object>> rows = typedRows(500, 12);

@@ -19,10 +19,8 @@ import org.forkscape.fit.FullFit;
 import org.forkscape.fit.FullFitter;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
-import org.forkscape.plan.Decision;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
-import org.forkscape.plan.SpecificationSpace;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunProgress;
@@ -218,33 +216,14 @@ class RTwoWayWeightsReferenceTest {
         List<Map<String, String>> expected = ReferenceFiles.rows(EXPECTED);
         String source = SOURCE + " (" + ReferenceFiles.versions("two-way-weights-versions.txt") + ")";
         assertEquals(expected.size(), r.size(), "specification count against " + source);
-        int[] slotOf = new int[r.size()];
-        for (int slot = 0; slot < r.size(); slot++) {
-            slotOf[(int) r.specIndex(slot)] = slot;
-        }
-        SpecificationSpace space = run.models().space();
-        List<Decision> decisions = plan.decisions();
-        long[] choices = new long[space.decisionCount()];
         List<String> failures = new ArrayList<>();
         Map<String, Double> worst = new TreeMap<>();
         int weightedBoth = 0;
-        for (Map<String, String> row : expected) {
-            int slot = slotOf[Integer.parseInt(row.get("spec")) - 1];
-            space.decode(r.specIndex(slot), choices);
-            List<String> labels = new ArrayList<>();
-            for (int d = 0; d < decisions.size(); d++) {
-                labels.add(decisions.get(d).label(choices[d]));
-                if (!labels.get(d).equals(row.get(decisions.get(d).name()))) {
-                    failures.add("spec " + row.get("spec") + ": Forkscape's " + decisions.get(d).name() + " is "
-                            + labels.get(d) + ", R's " + row.get(decisions.get(d).name()));
-                }
-            }
-            String where = "spec " + row.get("spec") + " (" + String.join(" | ", labels) + ")";
+        for (ReferenceRows.Match match : ReferenceRows.match(run, plan, expected, failures)) {
+            Map<String, String> row = match.row();
+            int slot = match.slot();
+            String where = match.where();
             String status = row.get("status");
-            if (!r.status(slot).startsWith(status)) {
-                failures.add(where + ": status \"" + r.status(slot) + "\", R gives \"" + status + "\"");
-                continue;
-            }
             check(failures, worst, where, "n_obs", r.nObs(slot), row, "R nobs()", 0);
             if (!status.equals("ok")) {
                 continue;

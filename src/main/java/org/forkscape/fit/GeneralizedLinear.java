@@ -212,6 +212,12 @@ public final class GeneralizedLinear implements Estimator {
         double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - irls.deviance),
                 irls.keptCount);
         String note = droppedNote(mom, spec);
+        if (v != null && Double.isNaN(v[0])) {
+            // a multi-way sum that is not positive (GlmCovariance.clustered): no error, as least squares
+            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN,
+                    FitStatus.VARIANCE_NOT_POSITIVE, spec.errors().label(), "", false, VarianceRoute.ROW_PASS,
+                    Double.NaN, family, effect, Double.NaN, lr);
+        }
         if (v == null) {
             return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN, covariance.failure,
                     covariance.failureDetail, "", false, VarianceRoute.ROW_PASS, Double.NaN, family, effect,

@@ -1,5 +1,6 @@
 package org.forkscape.fit;
 
+import java.util.List;
 import org.forkscape.plan.ErrorType;
 
 /**
@@ -17,7 +18,8 @@ import org.forkscape.plan.ErrorType;
  * <li>cluster: the scores summed per cluster, times G / (G - 1), as {@code sandwich::vcovCL} computes for a
  * {@code glm} by default (Zeileis, Koell &amp; Graham 2020, "Various versatile variances", Journal of
  * Statistical Software 95(1)): its default type is HC0 for every model but {@code lm}, so the (n - 1) /
- * (n - K) factor of least squares' CR1 does not enter.</li>
+ * (n - K) factor of least squares' CR1 does not enter; multi-way: the signed sum of the components'
+ * cluster terms with that factor, as {@code vcovCL(type = "HC1")} computes (see {@link #clustered}).</li>
  * </ul>
  * Each combination needs only c = I^-1 g: the meat then reads c'x_i for each row, one pass of n p.
  */
@@ -30,8 +32,11 @@ final class GlmCovariance {
     private double[][] along = new double[0][];
     private double[][] alongLevels = new double[0][];
     private double[] meat = new double[0];
-    private double[][] clusterSums = new double[0][];
-    private boolean[] clusterSeen = new boolean[0];
+    /** Per component clustering (one for one-way errors): each combination's score summed per cluster. */
+    private double[][][] clusterSums = new double[0][][];
+    /** Per component: the clusters seen among the rows (their count is G). */
+    private boolean[][] clusterSeen = new boolean[0][];
+    private int[][] componentCodes = new int[0][];
     private double[] centred = new double[0];
 
     /**
@@ -84,12 +89,22 @@ final class GlmCovariance {
         int k = levels + fit.keptCount;
         boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
         boolean cluster = kind == ErrorType.Kind.CLUSTER;
-        int codes = 0;
+        List<ClusterComponents.Component> components = cluster ? ClusterComponents.of(errors) : List.of();
+        int parts = components.size();
+        int[][] codes = new int[parts][];
         if (cluster) {
-            for (int i = 0; i < n; i++) {
-                codes = Math.max(codes, rows.cluster[i] + 1);
+            growClusters(parts, n, count);
+            for (int c = 0; c < parts; c++) {
+                codes[c] = componentCodes[c];
+                int[] variantCodes = errors.multiway() ? rows.variantClusters.get(components.get(c).key()) : null;
+                int size = 0;
+                for (int i = 0; i < n; i++) {
+                    int g = variantCodes == null ? rows.cluster[i] : variantCodes[rows.source[i]];
+                    codes[c][i] = g;
+                    size = Math.max(size, g + 1);
+                }
+                clearCells(c, size, count);
             }
-            growClusters(codes, count);
         }
         java.util.Arrays.fill(meat, 0, count, 0);
         double[] x = rows.x;
@@ -114,32 +129,72 @@ final class GlmCovariance {
                 }
                 double e = c * s;
                 if (cluster) {
-                    int g = rows.cluster[i];
-                    clusterSums[m][g] += e;
-                    clusterSeen[g] = true;
+                    for (int part = 0; part < parts; part++) {
+                        int g = codes[part][i];
+                        clusterSums[part][m][g] += e;
+                        clusterSeen[part][g] = true;
+                    }
                 } else {
                     meat[m] += e * e * omega;
                 }
             }
         }
-        double factor = kind == ErrorType.Kind.HC1 ? n / (double) (n - k) : 1;
         if (cluster) {
-            for (int g = 0; g < codes; g++) {
-                if (clusterSeen[g]) {
-                    clusters++;
+            return clustered(errors, components, n, k, count, out);
+        }
+        double factor = kind == ErrorType.Kind.HC1 ? n / (double) (n - k) : 1;
+        for (int m = 0; m < count; m++) {
+            out[m] = meat[m] * factor;
+        }
+        return out;
+    }
+
+    /**
+     * One-way: the cluster sums of the scores times G / (G - 1), {@code vcovCL}'s default for a {@code glm}.
+     * Multi-way: V = sum over the components of sign x G_S / (G_S - 1) x their cluster sum, times
+     * (n - 1) / (n - K) (Cameron, Gelbach &amp; Miller 2011, "Robust inference with multiway clustering",
+     * Journal of Business &amp; Economic Statistics 29(2)), exactly as
+     * {@code sandwich::vcovCL(fit, cluster = ~ a + b, type = "HC1", cadjust = TRUE, multi0 = FALSE)} computes
+     * for a {@code glm}: its HC1 factor (n - 1) / (n - K), K the coefficients (levels included), applies to
+     * every model. {@link #clusters} is then the fewest clusters of one column. A combination whose sum is
+     * not positive gets NaN (for the key coefficient the caller reports
+     * {@link FitStatus#VARIANCE_NOT_POSITIVE}, least squares' status for the same case).
+     */
+    private double[] clustered(ErrorType errors, List<ClusterComponents.Component> components, int n, int k,
+            int count, double[] out) {
+        boolean multiway = errors.multiway();
+        java.util.Arrays.fill(out, 0, count, 0);
+        int fewest = Integer.MAX_VALUE;
+        for (int part = 0; part < components.size(); part++) {
+            int g = 0;
+            java.util.Arrays.fill(meat, 0, count, 0);
+            for (int code = 0; code < clusterSeen[part].length; code++) {
+                if (clusterSeen[part][code]) {
+                    g++;
                     for (int m = 0; m < count; m++) {
-                        meat[m] += clusterSums[m][g] * clusterSums[m][g];
+                        meat[m] += clusterSums[part][m][code] * clusterSums[part][m][code];
                     }
                 }
             }
-            if (clusters < 2) {
+            if (g < 2) {
                 failure = FitStatus.ONE_CLUSTER;
                 return null;
             }
-            factor = clusters / (clusters - 1.0);
+            if (components.get(part).columns().size() == 1) {
+                fewest = Math.min(fewest, g);
+            }
+            double adjust = components.get(part).sign() * (double) g / (g - 1);
+            for (int m = 0; m < count; m++) {
+                out[m] += adjust * meat[m];
+            }
         }
+        clusters = fewest;
+        if (!multiway) {
+            return out;
+        }
+        double hc1 = (n - 1.0) / (n - k);
         for (int m = 0; m < count; m++) {
-            out[m] = meat[m] * factor;
+            out[m] = out[m] > 0 ? out[m] * hc1 : Double.NaN;
         }
         return out;
     }
@@ -176,14 +231,31 @@ final class GlmCovariance {
         }
     }
 
-    private void growClusters(int codes, int count) {
-        if (clusterSeen.length < codes || clusterSums.length < count) {
-            clusterSeen = new boolean[Math.max(codes, clusterSeen.length)];
-            clusterSums = new double[Math.max(count, clusterSums.length)][clusterSeen.length];
+    private void growClusters(int parts, int n, int count) {
+        if (componentCodes.length < parts || componentCodes[0].length < n) {
+            componentCodes = new int[Math.max(parts, componentCodes.length)][n];
         }
-        java.util.Arrays.fill(clusterSeen, 0, codes, false);
+        if (clusterSums.length < parts) {
+            clusterSums = java.util.Arrays.copyOf(clusterSums, parts);
+            clusterSeen = java.util.Arrays.copyOf(clusterSeen, parts);
+        }
+    }
+
+    /** Empties component {@code part}'s cells for codes 0..size-1, growing them as needed. */
+    private void clearCells(int part, int size, int count) {
+        double[][] sums = clusterSums[part];
+        if (sums == null || sums.length < count || sums[0].length < size) {
+            sums = new double[Math.max(count, sums == null ? 0 : sums.length)][Math.max(size,
+                    sums == null ? 0 : sums[0].length)];
+            clusterSums[part] = sums;
+        }
+        if (clusterSeen[part] == null || clusterSeen[part].length != size) {
+            clusterSeen[part] = new boolean[size];
+        } else {
+            java.util.Arrays.fill(clusterSeen[part], false);
+        }
         for (int m = 0; m < count; m++) {
-            java.util.Arrays.fill(clusterSums[m], 0, codes, 0);
+            java.util.Arrays.fill(sums[m], 0, size, 0);
         }
     }
 }

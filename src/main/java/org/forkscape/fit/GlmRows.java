@@ -23,6 +23,12 @@ final class GlmRows {
     /** The variant's level of each compact level, for carrying starts between specifications. */
     int[] variantLevel = new int[0];
     int[] cluster = new int[0];
+    /**
+     * The variant's cluster codes by component key (indexed by variant row, see {@link #source}), which a
+     * multi-way error type reads once per component; null for resampled rows, since null draws of a plan
+     * with multi-way clustering are refused.
+     */
+    java.util.Map<String, int[]> variantClusters;
     /** The variant row of each row. */
     int[] source = new int[0];
     /** The prior weight of each row; null when the variant is unweighted. */
@@ -39,6 +45,7 @@ final class GlmRows {
      */
     void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
         grow(rows.n, rows.p);
+        variantClusters = null;
         prior = rows.weighted ? priorBuffer : null;
         for (int j = 0; j < p; j++) {
             double[] column = rows.x[j];
@@ -68,6 +75,7 @@ final class GlmRows {
     void fill(Moments mom, int[] cols, double[] recordedOutcome, int[] clusterCodes) {
         DataVariant v = mom.variant;
         grow(mom.n, cols.length);
+        variantClusters = v.clusters;
         prior = v.weight == null ? null : priorBuffer;
         int[] compact = startLevels(v.levels);
         double[][] offsets = mom.levelMeanOffset;

@@ -195,10 +195,14 @@ public final class MemoryFootprint {
      *
      * @param specificationColumns the most columns a specification has, outcome included
      * @param levels               fixed-effect levels (1 without), each with a row of weighted means
+     * @param clusterParts         the most component clusterings of one cluster error type (0 without
+     *                             cluster errors, 1 one-way, 3 two-way): each a code per row and, at most a
+     *                             cluster per row, the cluster sums of the key and its marginal effect
      */
-    public static long glmFitter(int rows, int specificationColumns, int levels) {
+    public static long glmFitter(int rows, int specificationColumns, int levels, int clusterParts) {
         return (long) rows * (DOUBLE * (specificationColumns + 7L) + 3 * INT)
-                + (long) levels * DOUBLE * (specificationColumns + 6);
+                + (long) levels * DOUBLE * (specificationColumns + 6)
+                + (long) rows * clusterParts * (INT + 2 * DOUBLE + 1);
     }
 
     /** One fit's start kept for its children ({@link GlmStarts}): a coefficient per column and per level, and the key. */

@@ -51,14 +51,6 @@ public final class PlanChecker {
                                     + "column and enter the other as a categorical control");
                         });
                     }
-                    if (t.multiway() && plan.generalized()) {
-                        problems.attempt(() -> {
-                            throw new PlanException(p, InputException.quoted(t.label()) + ": clustering on several "
-                                    + "columns is computed for least squares (ols) only, not yet for logit, probit or "
-                                    + "poisson; cluster on one column, or fit these specifications in a plan whose "
-                                    + "model decision is ols alone");
-                        });
-                    }
                 }
             } else if (d instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {

@@ -156,9 +156,11 @@ public final class MemoryEstimate {
         }
         RowCells cells = new RowCells(table, variables, missingBits);
         Map<String, int[]> clusterCodes = new LinkedHashMap<>();
+        int clusterParts = 0;
         for (Decision.Errors e : plan.all(Decision.Errors.class)) {
             for (ErrorType t : e.alternatives()) {
                 if (t.kind() == ErrorType.Kind.CLUSTER) {
+                    clusterParts = Math.max(clusterParts, ClusterComponents.of(t).size());
                     for (ClusterComponents.Component c : ClusterComponents.of(t)) {
                         clusterCodes.computeIfAbsent(c.key(), k -> ClusterComponents.codes(table, c.columns()));
                     }
@@ -196,7 +198,8 @@ public final class MemoryEstimate {
             // at most every specification of the variant a generalized linear fit, each keeping its start
             long starts = generalized ? pv.specifications * MemoryFootprint.glmStart(profile.maxColumns + 1, levels)
                     : 0;
-            long glmFitters = generalized ? workers * MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels)
+            long glmFitters = generalized
+                    ? workers * MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels, clusterParts)
                     : 0;
             allVariants += base + starts;
             long usable = SpecificationMix.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);
@@ -262,7 +265,8 @@ public final class MemoryEstimate {
                         permute ? predictors : 0) + usable * (MemoryFootprint.moments(columns, levels, 0)
                         + (pv.robust > 0 ? MemoryFootprint.repeatedRows(rows) : 0))
                         + MemoryFootprint.fitterRows(rows, profile.maxColumns + 1)
-                        + (generalized ? MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels) : 0);
+                        + (generalized ? MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels,
+                                clusterParts) : 0);
             }
         }
 

@@ -37,6 +37,8 @@ final class GlmCovariance {
     /** Per component: the clusters seen among the rows (their count is G). */
     private boolean[][] clusterSeen = new boolean[0][];
     private int[][] componentCodes = new int[0][];
+    /** Per component: the cluster codes in use, 0..cellCount-1. */
+    private int[] cellCount = new int[0];
     private double[] centred = new double[0];
 
     /**
@@ -168,7 +170,7 @@ final class GlmCovariance {
         for (int part = 0; part < components.size(); part++) {
             int g = 0;
             java.util.Arrays.fill(meat, 0, count, 0);
-            for (int code = 0; code < clusterSeen[part].length; code++) {
+            for (int code = 0; code < cellCount[part]; code++) {
                 if (clusterSeen[part][code]) {
                     g++;
                     for (int m = 0; m < count; m++) {
@@ -238,6 +240,7 @@ final class GlmCovariance {
         if (clusterSums.length < parts) {
             clusterSums = java.util.Arrays.copyOf(clusterSums, parts);
             clusterSeen = java.util.Arrays.copyOf(clusterSeen, parts);
+            cellCount = new int[parts];
         }
     }
 
@@ -249,11 +252,12 @@ final class GlmCovariance {
                     sums == null ? 0 : sums[0].length)];
             clusterSums[part] = sums;
         }
-        if (clusterSeen[part] == null || clusterSeen[part].length != size) {
+        if (clusterSeen[part] == null || clusterSeen[part].length < size) {
             clusterSeen[part] = new boolean[size];
         } else {
-            java.util.Arrays.fill(clusterSeen[part], false);
+            java.util.Arrays.fill(clusterSeen[part], 0, size, false);
         }
+        cellCount[part] = size;
         for (int m = 0; m < count; m++) {
             java.util.Arrays.fill(sums[m], 0, size, 0);
         }

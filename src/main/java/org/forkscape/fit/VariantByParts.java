@@ -2,6 +2,7 @@ package org.forkscape.fit;
 
 import java.util.ArrayList;
 import java.util.List;
+import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
@@ -129,8 +130,10 @@ public final class VariantByParts {
                     facts);
         }
         WholeRows sampled = facts;
-        facts = withTransforms(key, parts.reduce(part -> part.transformFacts(key, sampled), VariantByParts::mergeAll),
-                facts);
+        // a pass over the parts only for what needs one: transforms with facts, an absorbed column's levels
+        double[][] transformed = needsTransformFacts() ? parts.reduce(part -> part.transformFacts(key, sampled),
+                VariantByParts::mergeAll) : new double[plan.layout.size()][];
+        facts = withTransforms(key, transformed, facts);
         for (double[] w : winsorized()) {
             int column = (int) w[0];
             WholeRows given = facts;
@@ -138,7 +141,8 @@ public final class VariantByParts {
             facts = facts.withWinsorize(column, q[0], q[1]);
         }
         WholeRows coded = facts;
-        int[] codes = parts.reduce(part -> part.absorbCodes(key, coded), VariantByParts::union);
+        int[] codes = VariantBuilder.absorbed(plan, key) == null ? null
+                : parts.reduce(part -> part.absorbCodes(key, coded), VariantByParts::union);
         facts = facts.withAbsorbCodes(codes == null ? new int[0] : codes);
         WholeRows levelled = facts;
         facts = withShifts(parts.reduce(part -> part.shiftFacts(key, levelled), VariantByParts::mergeShiftFacts),
@@ -268,6 +272,12 @@ public final class VariantByParts {
             }
         }
         return out;
+    }
+
+    /** Whether some outcome or predictor alternative's transform depends on the data ({@link Transforms#facts}). */
+    private boolean needsTransformFacts() {
+        return alternatives().stream().anyMatch(v -> !(v.column() instanceof CategoricalColumn
+                || v.transform() instanceof Transform.Identity));
     }
 
     /** Model columns of the winsorized outcome and predictor alternatives, with their fractions. */

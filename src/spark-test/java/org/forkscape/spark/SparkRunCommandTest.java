@@ -98,6 +98,46 @@ class SparkRunCommandTest {
         assertTrue(Files.exists(onSpark.resolve("overfitting.csv")));
     }
 
+    /**
+     * The scale command's small case: the generated table, read back from its Parquet parts by one machine,
+     * gives the Spark run's every specification (within {@value SparkParityTest#RELATIVE} relative), and
+     * the report's row names the row count and the aggregation's time beside Spark's own sums.
+     */
+    @Test
+    void scaleRunsItsGeneratedPlanAsOneMachineDoes() throws IOException {
+        Path out = folder.resolve("scale");
+        ByteArrayOutputStream report = new ByteArrayOutputStream();
+        PrintStream was = System.out;
+        int code;
+        System.setOut(new PrintStream(report, true, StandardCharsets.UTF_8));
+        try {
+            code = SparkRun.execute(new String[] {"scale", "--rows", "3000", "--out", out.toString(), "--partitions",
+                    "3"});
+        } finally {
+            System.setOut(was);
+        }
+        assertEquals(0, code);
+        // the table's lines; the test's logging also goes to the standard output
+        List<String> lines = report.toString(StandardCharsets.UTF_8).lines().filter(l -> l.startsWith("|")).toList();
+        assertEquals(3, lines.size(), lines.toString());
+        assertTrue(lines.get(2).startsWith("| 3,000 | "), lines.get(2));
+        assertTrue(lines.get(2).endsWith("| not run |"), lines.get(2));
+
+        Path rows = out.resolve("rows-3000");
+        Path local = rows.resolve("single");
+        assertEquals(0, CommandLine.execute(new String[] {"run", rows.resolve("plan.json").toString(), "--out",
+                local.toString()}, quiet(), quiet()));
+        List<CSVRecord> a = csv(local.resolve("specifications.csv"));
+        List<CSVRecord> b = csv(rows.resolve("spark-run").resolve("specifications.csv"));
+        assertEquals(1 + 2 * 1024, a.size(), "every subset of ten controls, two error types");
+        assertEquals(a.size(), b.size());
+        for (int r = 1; r < a.size(); r++) {
+            for (int c = 0; c < a.get(r).size(); c++) {
+                cell(a.get(r).get(c), b.get(r).get(c), "specifications.csv row " + r + ", " + a.get(0).get(c));
+            }
+        }
+    }
+
     @Test
     void refusesHc3AtItsPathWithNothingWritten() throws IOException {
         Path hc3 = folder.resolve("hc3-plan.json");

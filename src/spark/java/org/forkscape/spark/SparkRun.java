@@ -32,7 +32,8 @@ public final class SparkRun {
     /** Runs the command and returns its exit code (0, or 2 for bad input, 1 for an internal error). */
     static int execute(String[] args) {
         List<String> rest = new ArrayList<>(Arrays.asList(args));
-        if (!rest.isEmpty() && rest.get(0).equals("run")) {
+        boolean scale = !rest.isEmpty() && rest.get(0).equals("scale");
+        if (!rest.isEmpty() && (scale || rest.get(0).equals("run"))) {
             rest.remove(0);
         }
         String master;
@@ -48,11 +49,15 @@ public final class SparkRun {
             if (partitions < 0) {
                 throw new NumberFormatException();
             }
-            if (rest.isEmpty() || rest.get(0).startsWith("--")) {
+            if (scale) {
+                plan = null;
+                planText = null;
+            } else if (rest.isEmpty() || rest.get(0).startsWith("--")) {
                 return usage("the Spark runner needs a plan file; " + USAGE);
+            } else {
+                plan = Path.of(rest.get(0)).toAbsolutePath();
+                planText = Files.readString(plan, StandardCharsets.UTF_8);
             }
-            plan = Path.of(rest.get(0)).toAbsolutePath();
-            planText = Files.readString(plan, StandardCharsets.UTF_8);
         } catch (NumberFormatException e) {
             return usage("--partitions must be a whole number of 1 or more; " + USAGE);
         } catch (IllegalArgumentException e) {
@@ -63,7 +68,8 @@ public final class SparkRun {
             return usage(rest.get(0) + ": the plan file cannot be read (" + e.getMessage() + ")");
         }
         boolean submitted = System.getProperty("spark.master") != null;
-        SparkSession.Builder builder = SparkSession.builder().appName("forkscape run " + plan.getFileName())
+        SparkSession.Builder builder = SparkSession.builder().appName(scale ? "forkscape scale"
+                : "forkscape run " + plan.getFileName())
                 .config("spark.ui.showConsoleProgress", "false");
         if (master != null) {
             builder.master(master);
@@ -84,6 +90,9 @@ public final class SparkRun {
             spark.sparkContext().setLogLevel("WARN");
         }
         try {
+            if (scale) {
+                return SparkScale.execute(rest, spark, partitions);
+            }
             List<String> command = new ArrayList<>();
             command.add("run");
             command.addAll(rest);

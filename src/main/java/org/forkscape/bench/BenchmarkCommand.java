@@ -177,8 +177,8 @@ public final class BenchmarkCommand {
         SpecificationsCsv.write(last, csv, cores, RunProgress.SILENT);
         double csvRate = csvRate(last, csv, 1);
         double csvRateAllCores = csvRate(last, csv, cores);
-        double engine = median(engineRates);
-        double refit = median(refitRates);
+        double engine = Medians.of(engineRates);
+        double refit = Medians.of(refitRates);
         double[] ratio = ratioRange(engineRates, refitRates);
         out.printf("%-22s %,14.0f %,13.1f %,9.0f %,9.0f %,9.0f %,9d %11.1e %,10.0f %,12.0f%n", c.name(), engine, refit,
                 engine / refit, ratio[0], ratio[1], heap, maxRelative, csvRate, csvRateAllCores);
@@ -253,8 +253,8 @@ public final class BenchmarkCommand {
                         part.results().stdError(i), part.results().stdError(i)));
             }
         }
-        double f = median(fastRates);
-        double rr = median(rowRates);
+        double f = Medians.of(fastRates);
+        double rr = Medians.of(rowRates);
         out.printf("%s: row-free route %,.0f spec/s (%,d of %,d specifications served without rows; its guard sent "
                 + "the rest to the row pass), one-row-pass route %,.0f spec/s (sample of %d), ratio %,.0f, max relative "
                 + "difference %.1e%n", c.name(), f, withoutRows, specifications, rr, sample, f / rr, maxRelative);
@@ -354,13 +354,6 @@ public final class BenchmarkCommand {
     /** |a - b| relative to |b|, or to the scale given when b is near zero. */
     private static double relative(double a, double b, double scale) {
         return Math.abs(a - b) / Math.max(Math.abs(b), Math.abs(scale));
-    }
-
-    private static double median(List<Double> v) {
-        List<Double> s = new ArrayList<>(v);
-        s.sort(null);
-        int n = s.size();
-        return n % 2 == 1 ? s.get(n / 2) : (s.get(n / 2 - 1) + s.get(n / 2)) / 2;
     }
 
     static void resetPeaks() {

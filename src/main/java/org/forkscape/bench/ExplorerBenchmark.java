@@ -92,27 +92,21 @@ final class ExplorerBenchmark {
             int n = run.results().size();
             out.printf("explorer on %,d specifications (fitted in %.1f s, ranked in %.2f s): filter %.1f ms, summary "
                     + "%.1f ms, influence %.1f ms, reduced curve %.1f ms; whole filter change %.1f ms (medians)%n", n,
-                    fitSeconds, rankSeconds, median(filter), median(summary), median(influence), median(curve),
-                    median(change));
+                    fitSeconds, rankSeconds, Medians.of(filter), Medians.of(summary), Medians.of(influence), Medians.of(curve),
+                    Medians.of(change));
             Map<String, Object> json = new LinkedHashMap<>();
             json.put("case", "explorer-" + n);
             json.put("specifications", n);
             json.put("fit_seconds", fitSeconds);
             json.put("rank_seconds", rankSeconds);
-            json.put("filter_ms", median(filter));
-            json.put("summary_ms", median(summary));
-            json.put("influence_ms", median(influence));
-            json.put("reduced_curve_ms", median(curve));
-            json.put("filter_change_ms", median(change));
+            json.put("filter_ms", Medians.of(filter));
+            json.put("summary_ms", Medians.of(summary));
+            json.put("influence_ms", Medians.of(influence));
+            json.put("reduced_curve_ms", Medians.of(curve));
+            json.put("filter_change_ms", Medians.of(change));
             json.put("bytes_per_specification", run.results().bytesPerSpecification());
             results.add(json);
         }
         return results;
-    }
-
-    private static double median(double[] v) {
-        double[] s = v.clone();
-        java.util.Arrays.sort(s);
-        return s.length % 2 == 1 ? s[s.length / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
     }
 }

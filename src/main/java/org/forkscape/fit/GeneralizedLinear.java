@@ -31,13 +31,22 @@ public final class GeneralizedLinear implements Estimator {
     private boolean twoValued;
     private double[] startBeta = new double[0];
 
+    /** Whether a start's kept information serves the child's first pass ({@link Irls.Information}). */
+    private final boolean reuseInformation;
+
     public GeneralizedLinear() {
-        irls = new Irls();
+        this(Irls.MAX_ITERATIONS, true);
     }
 
     /** An estimator that gives up after {@code maxIterations} (for the test of that status). */
     GeneralizedLinear(int maxIterations) {
+        this(maxIterations, true);
+    }
+
+    /** @param reuseInformation false to sum every start's information in full (for the test that it is the same) */
+    GeneralizedLinear(int maxIterations, boolean reuseInformation) {
         irls = new Irls(maxIterations);
+        this.reuseInformation = reuseInformation;
     }
 
     @Override
@@ -78,6 +87,11 @@ public final class GeneralizedLinear implements Estimator {
         }
         return GlmFullFit.of(irls, rows, covariance, spec, data.variant(), data.moments(spec.variableMask()), check,
                 confidence, keyTerm);
+    }
+
+    /** Whether the last fit started from its parent's information ({@link Irls.Information}). */
+    boolean startedFromParentInformation() {
+        return irls.extended;
     }
 
     /** Whether the last fit factored its information by QR of the weighted design ({@link Irls#orthogonal}). */
@@ -127,7 +141,7 @@ public final class GeneralizedLinear implements Estimator {
     /** What a fit passes on as a start: its own coefficients when it converged, else the start it had. */
     private GlmStarts.Start startFor(GlmStarts.Key key, Moments mom, GlmStarts.Start previous) {
         if (irls.outcome == Irls.Outcome.CONVERGED) {
-            return GlmStarts.of(irls, rows, key.columns(), mom.levelMeanOffset, mom.variant.levels);
+            return GlmStarts.of(irls, rows, key.columns(), mom, mom.variant.levels);
         }
         return previous;
     }
@@ -140,8 +154,11 @@ public final class GeneralizedLinear implements Estimator {
             startBeta = new double[Math.max(rows.p, startBeta.length)];
         }
         boolean[] spanned = spannedByLevels(mom, key.columns());
-        if (start != null && GlmStarts.apply(start, rows, key.columns(), mom.levelMeanOffset, startAlpha, startBeta)) {
-            irls.fit(rows, family, startAlpha, startBeta, spanned);
+        if (start != null && GlmStarts.apply(start, rows, key.columns(), mom, startAlpha, startBeta)) {
+            // the parent's information, when the start is the parent's own estimate on these rows
+            boolean parent = reuseInformation && start.information() != null && start.rows() == mom
+                    && start.beta().length == rows.p - 1;
+            irls.fit(rows, family, startAlpha, startBeta, spanned, parent ? start.information() : null);
         } else {
             irls.fit(rows, family, null, null, spanned);
         }
@@ -258,8 +275,9 @@ public final class GeneralizedLinear implements Estimator {
                 double raw = recorded[rows.source[i]];
                 double eta1 = eta + b * (1 - raw);
                 double eta0 = eta - b * raw;
-                double m1 = f.mean(eta1);
-                double m0 = f.mean(eta0);
+                // the row's own value gives back its fitted mean (eta + b 0 is eta): one mean computed, not two
+                double m1 = raw == 1 ? irls.mu[i] : f.mean(eta1);
+                double m0 = raw == 0 ? irls.mu[i] : f.mean(eta0);
                 double s1 = w * f.meanSlope(eta1, m1);
                 double s0 = w * f.meanSlope(eta0, m0);
                 sum += w * (m1 - m0);

@@ -34,6 +34,10 @@ final class GlmRows {
     /** The prior weight of each row; null when the variant is unweighted. */
     double[] prior;
     private double[] priorBuffer = new double[0];
+    /** What the per-row arrays other than the columns were last filled from by the observed rows, or null. */
+    private Moments filledRows;
+    private double[] filledOutcome;
+    private int[] filledClusters;
 
     /**
      * Copies {@code rows} (the specification's rows in within coordinates), replacing their centred outcome
@@ -44,6 +48,7 @@ final class GlmRows {
      * @param variantLevels   the variant's number of fixed-effect levels
      */
     void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
+        filledRows = null;
         grow(rows.n, rows.p);
         variantClusters = null;
         prior = rows.weighted ? priorBuffer : null;
@@ -74,16 +79,26 @@ final class GlmRows {
      */
     void fill(Moments mom, int[] cols, double[] recordedOutcome, int[] clusterCodes) {
         DataVariant v = mom.variant;
+        // the same rows, outcome and clusters as the last fill (a specification after its sibling): only the
+        // columns are new
+        boolean rowsAsBefore = mom == filledRows && recordedOutcome == filledOutcome && clusterCodes == filledClusters;
         grow(mom.n, cols.length);
         variantClusters = v.clusters;
         prior = v.weight == null ? null : priorBuffer;
-        int[] compact = startLevels(v.levels);
         double[][] offsets = mom.levelMeanOffset;
         double[][] columns = new double[p][];
         for (int j = 0; j < p; j++) {
             columns[j] = v.shifted[cols[j]];
         }
         int[] used = mom.n == v.rows ? null : mom.usableRows();
+        if (rowsAsBefore) {
+            fillColumns(v, cols, offsets, columns, used);
+            return;
+        }
+        filledRows = mom;
+        filledOutcome = recordedOutcome;
+        filledClusters = clusterCodes;
+        int[] compact = startLevels(v.levels);
         double[] off = new double[p];
         int lastLevel = -1;
         for (int k = 0; k < n; k++) {
@@ -104,6 +119,25 @@ final class GlmRows {
             cluster[k] = clusterCodes == null ? 0 : clusterCodes[r];
             if (prior != null) {
                 prior[k] = v.weight[r];
+            }
+        }
+    }
+
+    /** The columns of {@link #fill(Moments, int[], double[], int[])} alone, for rows already filled. */
+    private void fillColumns(DataVariant v, int[] cols, double[][] offsets, double[][] columns, int[] used) {
+        double[] off = new double[p];
+        int lastLevel = -1;
+        for (int k = 0; k < n; k++) {
+            int r = used == null ? k : used[k];
+            int l = v.level[r];
+            if (l != lastLevel) {
+                for (int j = 0; j < p; j++) {
+                    off[j] = offsets[l][cols[j]];
+                }
+                lastLevel = l;
+            }
+            for (int j = 0, at = k * p; j < p; j++) {
+                x[at + j] = columns[j][r] - off[j];
             }
         }
     }

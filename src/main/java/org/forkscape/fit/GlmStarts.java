@@ -46,12 +46,23 @@ final class GlmStarts {
         }
     }
 
-    /** Coefficients in level-free coordinates: kappa per variant level (NaN where absent), b per column. */
-    record Start(double[] kappa, double[] beta) {
+    /**
+     * Coefficients in level-free coordinates: kappa per variant level (NaN where absent), b per column; and,
+     * for a fit on the same rows (the usable rows' statistics object {@code rows}), the level coefficients
+     * exactly as fitted ({@code alpha}, per compact level) and the information at the estimate, or null
+     * when it is larger than {@link #KEPT_INFORMATION} doubles.
+     */
+    record Start(double[] kappa, double[] beta, Moments rows, double[] alpha, Irls.Information information) {
     }
 
+    /**
+     * The largest information kept with a start, in doubles (32 KiB): a few columns over up to a few hundred
+     * levels. Larger ones (many absorbed levels) are summed again by the child, to the same bits.
+     */
+    static final int KEPT_INFORMATION = 4096;
+
     /** What a fit that did not converge from a cold start passes on: a cold start again. */
-    static final Start COLD = new Start(new double[0], new double[0]);
+    static final Start COLD = new Start(new double[0], new double[0], null, null, null);
 
     private final ConcurrentHashMap<Key, Start> fitted = new ConcurrentHashMap<>();
 
@@ -64,8 +75,12 @@ final class GlmStarts {
         fitted.putIfAbsent(key, start == null ? COLD : start);
     }
 
-    /** The start of {@code fit}'s coefficients in level-free coordinates, given the rows' level offsets. */
-    static Start of(Irls fit, GlmRows rows, int[] columns, double[][] levelOffset, int variantLevels) {
+    /**
+     * The start of {@code fit}'s coefficients in level-free coordinates, given the rows' level offsets, with
+     * its exact level coefficients and information for children on the same rows {@code mom}.
+     */
+    static Start of(Irls fit, GlmRows rows, int[] columns, Moments mom, int variantLevels) {
+        double[][] levelOffset = mom.levelMeanOffset;
         int p = rows.p;
         double[] kappa = new double[variantLevels];
         Arrays.fill(kappa, Double.NaN);
@@ -77,16 +92,19 @@ final class GlmStarts {
             }
             kappa[l] = k;
         }
-        return new Start(kappa, Arrays.copyOf(fit.beta, p));
+        Irls.Information information = Irls.Information.doubles(p, rows.levels) <= KEPT_INFORMATION
+                ? fit.information() : null;
+        return new Start(kappa, Arrays.copyOf(fit.beta, p), mom, Arrays.copyOf(fit.alpha, rows.levels), information);
     }
 
     /**
      * Writes {@code start} into the coefficients of {@code rows} (levels compact, columns {@code columns},
      * whose first {@code start.beta.length - 1} entries and last one are the start's, a new column in
-     * between at 0). Returns false for {@link #COLD} and when a level present here is absent from the start.
+     * between at 0), on the rows {@code mom}: the level coefficients exactly as fitted when the start was
+     * fitted on these rows, else from its level-free coordinates. Returns false for {@link #COLD} and when a
+     * level present here is absent from the start.
      */
-    static boolean apply(Start start, GlmRows rows, int[] columns, double[][] levelOffset, double[] alpha,
-            double[] beta) {
+    static boolean apply(Start start, GlmRows rows, int[] columns, Moments mom, double[] alpha, double[] beta) {
         if (start == COLD) {
             return false;
         }
@@ -95,6 +113,11 @@ final class GlmStarts {
         for (int j = 0; j < p; j++) {
             beta[j] = j < from - 1 ? start.beta[j] : j == p - 1 ? start.beta[from - 1] : 0;
         }
+        if (start.rows == mom) {
+            System.arraycopy(start.alpha, 0, alpha, 0, rows.levels);
+            return true;
+        }
+        double[][] levelOffset = mom.levelMeanOffset;
         for (int c = 0; c < rows.levels; c++) {
             int l = rows.variantLevel[c];
             double k = start.kappa[l];

@@ -95,6 +95,8 @@ final class Irls {
         return spanned != null && spanned[j];
     }
 
+    /** Whether this fit's start took its parent's information ({@link #extend}). */
+    boolean extended;
     /** Whether this fit factors by QR of the weighted design ({@link #ORTHOGONAL_BELOW_SHARE}). */
     boolean orthogonal;
     /** The weighted design's columns, column by column, overwritten by their Householder vectors. */
@@ -121,6 +123,16 @@ final class Irls {
      *                weighted spread), or null for none
      */
     void fit(GlmRows rows, GlmFamily family, double[] startAlpha, double[] startBeta, boolean[] spanned) {
+        fit(rows, family, startAlpha, startBeta, spanned, null);
+    }
+
+    /**
+     * @param parent the information at the estimate of the fit whose coefficients are the start, on the same
+     *               rows with the columns of these rows but the one before the last (see {@link Information});
+     *               null to sum the start's information in full
+     */
+    void fit(GlmRows rows, GlmFamily family, double[] startAlpha, double[] startBeta, boolean[] spanned,
+            Information parent) {
         this.rows = rows;
         this.family = family;
         int n = rows.n;
@@ -141,7 +153,8 @@ final class Irls {
             }
         }
         orthogonal = false;
-        deviance = evaluate(alpha, beta, eta, mu);
+        extended = parent != null;
+        deviance = parent == null ? evaluate(alpha, beta, eta, mu) : extend(parent);
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= maxIterations; iterations++) {
@@ -258,6 +271,159 @@ final class Irls {
     }
 
     /**
+     * The information at a converged fit's estimate (the within cross-products' lower triangle, row by row;
+     * each level's weight and weighted column means), kept for the fits that start from it: a child, the
+     * same model on the same rows with one more column before the key, starts from the parent's
+     * coefficients with the new one at 0, so its linear predictors, weights and scores are the parent's, and
+     * of its information only the new column's cross-products are new. {@link #extend} sums those and the
+     * score, and takes the rest from here: p + 1 products a row instead of p (p + 1) / 2. Each entry of the
+     * information is the same sum, over the same rows in the same order, whichever columns surround it, so
+     * the start's information is the same to the last bit either way.
+     */
+    record Information(double[] lowerGram, double[] levelWeight, double[] levelMean) {
+        /** Doubles kept for a fit of {@code p} columns and {@code levels} levels. */
+        static long doubles(int p, int levels) {
+            return (long) p * (p + 1) / 2 + (long) levels * (p + 1);
+        }
+    }
+
+    /** The information at the estimate of the fit just made (which must have converged). */
+    Information information() {
+        int p = rows.p;
+        int levels = rows.levels;
+        double[] lower = new double[p * (p + 1) / 2];
+        for (int j = 0, at = 0; j < p; j++) {
+            System.arraycopy(gram, j * p, lower, at, j + 1);
+            at += j + 1;
+        }
+        return new Information(lower, Arrays.copyOf(levelWeight, levels), Arrays.copyOf(levelMean, levels * p));
+    }
+
+    /**
+     * The start's pass when the start is {@code parent}'s estimate ({@link Information}): the linear
+     * predictors, means, deviance, weights and scores as {@link #evaluate} computes them, the level sums
+     * and cross-products of the new column (index p - 2) by the same expressions as {@link #accumulate},
+     * the rest of the information copied.
+     */
+    private double extend(Information parent) {
+        int n = rows.n;
+        int p = rows.p;
+        int levels = rows.levels;
+        int added = p - 2;
+        System.arraycopy(parent.levelWeight, 0, levelWeight, 0, levels);
+        for (int l = 0; l < levels; l++) {
+            int from = l * (p - 1);
+            int to = l * p;
+            System.arraycopy(parent.levelMean, from, levelMean, to, added);
+            levelMean[to + added] = 0;
+            levelMean[to + p - 1] = parent.levelMean[from + added];
+        }
+        Arrays.fill(levelScore, 0, levels, 0);
+        Arrays.fill(rhs, 0, p, 0);
+        Arrays.fill(gram, added * p, added * p + added + 1, 0);
+        gram[(p - 1) * p + added] = 0;
+        double d = 0;
+        for (int from = 0; from < n; from += CHUNK) {
+            int to = Math.min(n, from + CHUNK);
+            predict(alpha, beta, eta, from, to);
+            double chunk = family.evaluate(rows.y, eta, mu, weight, score, from, to);
+            d += rows.prior == null ? chunk : weigh(mu, from, to);
+            accumulateAdded(from, to, added);
+        }
+        for (int l = 0; l < levels; l++) {
+            levelMean[l * p + added] /= levelWeight[l];
+        }
+        for (int l = 0; l < levels; l++) {
+            double s = levelWeight[l];
+            int lo = l * p;
+            double u = levelScore[l];
+            for (int j = 0; j < p; j++) {
+                rhs[j] -= levelMean[lo + j] * u;
+            }
+            double sm = s * levelMean[lo + added];
+            for (int k = 0; k <= added; k++) {
+                gram[added * p + k] -= sm * levelMean[lo + k];
+            }
+            gram[(p - 1) * p + added] -= s * levelMean[lo + p - 1] * levelMean[lo + added];
+        }
+        for (int j = 0, at = 0; j < p - 1; j++) {
+            int row = j == added ? p - 1 : j;
+            for (int k = 0; k <= j; k++) {
+                gram[row * p + (k == added ? p - 1 : k)] = parent.lowerGram[at++];
+            }
+        }
+        return d;
+    }
+
+    /**
+     * {@link #accumulate}'s sums that involve column {@code added} (its level sums and cross-products),
+     * with the levels' scores and the columns' score, by the same expressions, rows grouped as there.
+     */
+    private void accumulateAdded(int from, int to, int added) {
+        int p = rows.p;
+        double[] x = rows.x;
+        int[] level = rows.level;
+        boolean oneLevel = rows.levels == 1;
+        int key = p - 1;
+        int blocks = from + (to - from) - (to - from) % BLOCK;
+        for (int i = from; i < blocks; i += BLOCK) {
+            int b0 = i * p;
+            int b1 = b0 + p;
+            int b2 = b1 + p;
+            int b3 = b2 + p;
+            double w0 = weight[i];
+            double w1 = weight[i + 1];
+            double w2 = weight[i + 2];
+            double w3 = weight[i + 3];
+            double u0 = score[i];
+            double u1 = score[i + 1];
+            double u2 = score[i + 2];
+            double u3 = score[i + 3];
+            double a0 = w0 * x[b0 + added];
+            double a1 = w1 * x[b1 + added];
+            double a2 = w2 * x[b2 + added];
+            double a3 = w3 * x[b3 + added];
+            if (oneLevel) {
+                levelScore[0] += u0 + u1 + u2 + u3;
+                levelMean[added] += a0 + a1 + a2 + a3;
+            } else {
+                for (int r = 0; r < BLOCK; r++) {
+                    int l = level[i + r];
+                    levelScore[l] += score[i + r];
+                    levelMean[l * p + added] += weight[i + r] * x[(i + r) * p + added];
+                }
+            }
+            for (int j = 0; j < p; j++) {
+                rhs[j] = fma4(x[b0 + j], u0, x[b1 + j], u1, x[b2 + j], u2, x[b3 + j], u3, rhs[j]);
+            }
+            int go = added * p;
+            for (int k = 0; k <= added; k++) {
+                gram[go + k] = fma4(a0, x[b0 + k], a1, x[b1 + k], a2, x[b2 + k], a3, x[b3 + k], gram[go + k]);
+            }
+            int gk = key * p + added;
+            gram[gk] = fma4(w0 * x[b0 + key], x[b0 + added], w1 * x[b1 + key], x[b1 + added], w2 * x[b2 + key],
+                    x[b2 + added], w3 * x[b3 + key], x[b3 + added], gram[gk]);
+        }
+        for (int i = blocks; i < to; i++) {
+            int at = i * p;
+            double w = weight[i];
+            double u = score[i];
+            int l = level[i];
+            levelScore[l] += u;
+            levelMean[l * p + added] += w * x[at + added];
+            for (int j = 0; j < p; j++) {
+                rhs[j] = Math.fma(x[at + j], u, rhs[j]);
+            }
+            double a = w * x[at + added];
+            int go = added * p;
+            for (int k = 0; k <= added; k++) {
+                gram[go + k] = Math.fma(a, x[at + k], gram[go + k]);
+            }
+            gram[key * p + added] = Math.fma(w * x[at + key], x[at + added], gram[key * p + added]);
+        }
+    }
+
+    /**
      * Prior weights (R's {@code glm(weights = w)}; McCullagh &amp; Nelder 1989, Generalized Linear Models,
      * 2nd ed., section 2.5): row i's deviance, working weight and score are w_i times the family's, so the
      * information, the score and every sandwich built from them are those of the weighted likelihood.
@@ -295,10 +461,10 @@ final class Irls {
             double e3 = a[level[i + 3]];
             for (int j = 0; j < p; j++) {
                 double c = b[j];
-                e0 += x[b0 + j] * c;
-                e1 += x[b1 + j] * c;
-                e2 += x[b2 + j] * c;
-                e3 += x[b3 + j] * c;
+                e0 = Math.fma(x[b0 + j], c, e0);
+                e1 = Math.fma(x[b1 + j], c, e1);
+                e2 = Math.fma(x[b2 + j], c, e2);
+                e3 = Math.fma(x[b3 + j], c, e3);
             }
             etaOut[i] = e0;
             etaOut[i + 1] = e1;
@@ -308,7 +474,7 @@ final class Irls {
         for (int i = blocks, at = blocks * p; i < to; i++, at += p) {
             double e = a[level[i]];
             for (int j = 0; j < p; j++) {
-                e += x[at + j] * b[j];
+                e = Math.fma(x[at + j], b[j], e);
             }
             etaOut[i] = e;
         }
@@ -371,8 +537,8 @@ final class Irls {
                     levelMean[j] += a0 + a1 + a2 + a3;
                     levelMean[j + 1] += c0 + c1 + c2 + c3;
                 }
-                rhs[j] += x0 * u0 + x1 * u1 + x2 * u2 + x3 * u3;
-                rhs[j + 1] += y0 * u0 + y1 * u1 + y2 * u2 + y3 * u3;
+                rhs[j] = fma4(x0, u0, x1, u1, x2, u2, x3, u3, rhs[j]);
+                rhs[j + 1] = fma4(y0, u0, y1, u1, y2, u2, y3, u3, rhs[j + 1]);
                 int go = j * p;
                 int gn = go + p;
                 for (int k = 0; k <= j; k++) {
@@ -380,10 +546,10 @@ final class Irls {
                     double v1 = x[b1 + k];
                     double v2 = x[b2 + k];
                     double v3 = x[b3 + k];
-                    gram[go + k] += a0 * v0 + a1 * v1 + a2 * v2 + a3 * v3;
-                    gram[gn + k] += c0 * v0 + c1 * v1 + c2 * v2 + c3 * v3;
+                    gram[go + k] = fma4(a0, v0, a1, v1, a2, v2, a3, v3, gram[go + k]);
+                    gram[gn + k] = fma4(c0, v0, c1, v1, c2, v2, c3, v3, gram[gn + k]);
                 }
-                gram[gn + j + 1] += c0 * y0 + c1 * y1 + c2 * y2 + c3 * y3;
+                gram[gn + j + 1] = fma4(c0, y0, c1, y1, c2, y2, c3, y3, gram[gn + j + 1]);
             }
             if (j < p) {
                 double x0 = x[b0 + j];
@@ -397,10 +563,10 @@ final class Irls {
                 if (oneLevel) {
                     levelMean[j] += a0 + a1 + a2 + a3;
                 }
-                rhs[j] += x0 * u0 + x1 * u1 + x2 * u2 + x3 * u3;
+                rhs[j] = fma4(x0, u0, x1, u1, x2, u2, x3, u3, rhs[j]);
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {
-                    gram[go + k] += a0 * x[b0 + k] + a1 * x[b1 + k] + a2 * x[b2 + k] + a3 * x[b3 + k];
+                    gram[go + k] = fma4(a0, x[b0 + k], a1, x[b1 + k], a2, x[b2 + k], a3, x[b3 + k], gram[go + k]);
                 }
             }
         }
@@ -411,13 +577,23 @@ final class Irls {
             addToLevel(level[i], w, u, x, at, p);
             for (int j = 0; j < p; j++) {
                 double a = w * x[at + j];
-                rhs[j] += x[at + j] * u;
+                rhs[j] = Math.fma(x[at + j], u, rhs[j]);
                 int go = j * p;
                 for (int k = 0; k <= j; k++) {
-                    gram[go + k] += a * x[at + k];
+                    gram[go + k] = Math.fma(a, x[at + k], gram[go + k]);
                 }
             }
         }
+    }
+
+    /**
+     * acc + a0 b0 + a1 b1 + a2 b2 + a3 b3, row by row in that order, each product added by a fused
+     * multiply-add (one rounding instead of two, and one instruction where the processor has it: the
+     * cross-products' pass is bound by its arithmetic, p (p + 1) / 2 products a row).
+     */
+    private static double fma4(double a0, double b0, double a1, double b1, double a2, double b2, double a3,
+            double b3, double acc) {
+        return Math.fma(a3, b3, Math.fma(a2, b2, Math.fma(a1, b1, Math.fma(a0, b0, acc))));
     }
 
     /**

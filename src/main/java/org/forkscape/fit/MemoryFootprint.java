@@ -205,9 +205,15 @@ public final class MemoryFootprint {
                 + (long) rows * clusterParts * (INT + 2 * DOUBLE + 1);
     }
 
-    /** One fit's start kept for its children ({@link GlmStarts}): a coefficient per column and per level, and the key. */
+    /**
+     * One fit's start kept for its children ({@link GlmStarts}): a coefficient per column and two per level,
+     * the key, and the information at the estimate when it is small enough to keep
+     * ({@link GlmStarts#KEPT_INFORMATION}).
+     */
     public static long glmStart(int specificationColumns, int levels) {
-        return DOUBLE * ((long) specificationColumns + levels) + 4L * INT * specificationColumns + 6 * ARRAY;
+        long information = Irls.Information.doubles(specificationColumns, levels);
+        return DOUBLE * ((long) specificationColumns + 2L * levels) + 4L * INT * specificationColumns + 10 * ARRAY
+                + (information <= GlmStarts.KEPT_INFORMATION ? DOUBLE * information : 0);
     }
 
     /** The outcome and predictor alternatives as recorded, kept beside the shifted columns for these models. */

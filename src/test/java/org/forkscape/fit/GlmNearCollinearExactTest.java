@@ -21,13 +21,24 @@ import org.junit.jupiter.params.provider.CsvSource;
  * likelihood fit of the same doubles in 60-digit decimal arithmetic ({@link ExactGeneralizedLinear}). The
  * cross-products of such a design square its condition number, so a Cholesky factor of them keeps too few
  * digits (or, below a pivot share of 1e-8, drops the column that R's {@code glm} keeps); the iterations then
- * factor the weighted design by QR. The test asserts which factorisation was used.
+ * factor the weighted design by QR. The test asserts which factorisation was used. The errors: classical,
+ * HC0, HC1, and one-way and two-way cluster-robust ({@link ExactGeneralizedLinear.KeyResult#clustered}), all
+ * from the same exact scores.
  *
  * <p>Tolerance 1e-7 relative, the engine's stopping tolerance against a fit run past convergence
  * (reference.GlmTolerance.GLM); the errors' own rounding is far below it.
  */
 class GlmNearCollinearExactTest {
     private static final int ROWS = 600;
+    private static final int[] SCHOOL = new int[ROWS];
+    private static final int[] WAVE = new int[ROWS];
+
+    static {
+        for (int i = 0; i < ROWS; i++) {
+            SCHOOL[i] = i % 30;
+            WAVE[i] = (i * 7 / 11) % 12;
+        }
+    }
 
     private static Table rows(double gap, boolean poisson) {
         SplittableRandom r = new SplittableRandom(29);
@@ -59,8 +70,16 @@ class GlmNearCollinearExactTest {
                 y[i] = r.nextDouble() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
             }
         }
+        // two crossed groupings of the rows (30 schools, 12 survey waves), fixed by the row number alone
+        double[] school = new double[ROWS];
+        double[] wave = new double[ROWS];
+        for (int i = 0; i < ROWS; i++) {
+            school[i] = SCHOOL[i];
+            wave[i] = WAVE[i];
+        }
         return new Table("near.csv", List.of(new NumericColumn("y", y), new NumericColumn("key", key),
-                new NumericColumn("first", first), new NumericColumn("second", second)));
+                new NumericColumn("first", first), new NumericColumn("second", second),
+                new NumericColumn("school", school), new NumericColumn("wave", wave)));
     }
 
     @ParameterizedTest(name = "{0}, gap {1}")
@@ -74,7 +93,8 @@ class GlmNearCollinearExactTest {
             ((NumericColumn) table.column("key")).values()};
         ExactGeneralizedLinear.KeyResult exact = ExactGeneralizedLinear.fit(poisson, regressors,
                 ((NumericColumn) table.column("y")).values());
-        for (String errors : new String[] {"classical", "HC0", "HC1"}) {
+        double oneWay = Double.NaN;
+        for (String errors : new String[] {"classical", "HC0", "HC1", "cluster:school", "cluster:school+wave"}) {
             GeneralizedLinear glm = new GeneralizedLinear();
             KeyFit fit = fit(glm, table, model, errors);
             String where = model + ", gap " + gap + ", " + errors;
@@ -83,8 +103,16 @@ class GlmNearCollinearExactTest {
             double se = switch (errors) {
                 case "classical" -> exact.classical();
                 case "HC0" -> exact.hc0();
-                default -> exact.hc1();
+                case "HC1" -> exact.hc1();
+                case "cluster:school" -> exact.clustered(SCHOOL);
+                default -> exact.clustered(SCHOOL, WAVE);
             };
+            if (errors.equals("cluster:school")) {
+                oneWay = fit.stdError();
+            } else if (errors.contains("+")) {
+                // the two-way route, not the one-way sum again
+                assertTrue(Math.abs(fit.stdError() - oneWay) > 1e-4 * oneWay, where + ": two-way equals one-way");
+            }
             assertEquals(exact.estimate(), fit.estimate(), 1e-7 * Math.abs(exact.estimate()), where + " estimate");
             assertEquals(se, fit.stdError(), 1e-7 * se, where + " standard error (exact 60-digit arithmetic)");
         }

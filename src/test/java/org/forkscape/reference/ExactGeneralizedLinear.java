@@ -14,15 +14,55 @@ import java.math.RoundingMode;
  * classical se^2 = (I^-1)_kk (dispersion 1, as R's {@code summary.glm} for these families); with
  * c = I^-1 e_key, HC0 = sum (y_i - mu_i)^2 (x_i'c)^2 and HC1 = HC0 N/(N-K) (White 1980, Econometrica
  * 48(4); Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical
- * Software 16(9), for a {@code glm} with a canonical link).
+ * Software 16(9), for a {@code glm} with a canonical link); the cluster-robust errors from the same scores
+ * ({@link KeyResult#clustered}).
  */
 public final class ExactGeneralizedLinear {
     static final int DIGIT_COUNT = 60;
     private static final MathContext DIGITS = new MathContext(DIGIT_COUNT, RoundingMode.HALF_EVEN);
     private static final BigDecimal STOP = new BigDecimal("1e-45");
 
-    /** The key coefficient and its classical, HC0 and HC1 standard errors, each rounded once to a double. */
-    public record KeyResult(double estimate, double classical, double hc0, double hc1) {
+    /**
+     * The key coefficient and its classical, HC0 and HC1 standard errors, each rounded once to a double, and
+     * each row's score of the key coefficient, e_i = (y_i - mu_i) x_i'c, for the cluster-robust errors.
+     */
+    public record KeyResult(double estimate, double classical, double hc0, double hc1, BigDecimal[] keyScores,
+            int parameters) {
+        /**
+         * The cluster-robust standard error, rounded once to a double. One column: G/(G-1) sum_g (sum_{i in g}
+         * e_i)^2, {@code sandwich::vcovCL}'s default (HC0 type) for a {@code glm} (Zeileis, Koell &amp; Graham
+         * 2020, Journal of Statistical Software 95(1)). Several: over every non-empty subset S of the columns,
+         * (-1)^(|S|+1) G_S/(G_S-1) times the sum over the clusters of S's intersection, all times
+         * (n-1)/(n-K) (Cameron, Gelbach &amp; Miller 2011, Journal of Business &amp; Economic Statistics 29(2),
+         * as {@code vcovCL(type = "HC1", cadjust = TRUE, multi0 = FALSE)} computes); NaN when not positive.
+         */
+        public double clustered(int[]... columns) {
+            int n = keyScores.length;
+            BigDecimal total = BigDecimal.ZERO;
+            for (int subset = 1; subset < 1 << columns.length; subset++) {
+                java.util.Map<String, BigDecimal> sums = new java.util.HashMap<>();
+                for (int i = 0; i < n; i++) {
+                    StringBuilder cell = new StringBuilder();
+                    for (int c = 0; c < columns.length; c++) {
+                        if ((subset >> c & 1) == 1) {
+                            cell.append(columns[c][i]).append('/');
+                        }
+                    }
+                    sums.merge(cell.toString(), keyScores[i], (a, b) -> a.add(b, DIGITS));
+                }
+                BigDecimal squares = BigDecimal.ZERO;
+                for (BigDecimal sum : sums.values()) {
+                    squares = squares.add(sum.multiply(sum, DIGITS), DIGITS);
+                }
+                int g = sums.size();
+                BigDecimal term = squares.multiply(BigDecimal.valueOf(g)).divide(BigDecimal.valueOf(g - 1), DIGITS);
+                total = Integer.bitCount(subset) % 2 == 1 ? total.add(term, DIGITS) : total.subtract(term, DIGITS);
+            }
+            if (columns.length > 1) {
+                total = total.multiply(BigDecimal.valueOf(n - 1)).divide(BigDecimal.valueOf(n - parameters), DIGITS);
+            }
+            return total.signum() > 0 ? total.sqrt(DIGITS).doubleValue() : Double.NaN;
+        }
     }
 
     private ExactGeneralizedLinear() {
@@ -82,18 +122,20 @@ public final class ExactGeneralizedLinear {
         unit[p - 1] = BigDecimal.ONE;
         BigDecimal[] c = solve(info, unit);
         BigDecimal meat = BigDecimal.ZERO;
+        BigDecimal[] scores = new BigDecimal[n];
         for (int i = 0; i < n; i++) {
             BigDecimal along = BigDecimal.ZERO;
             for (int j = 0; j < p; j++) {
                 along = along.add(x[i][j].multiply(c[j], DIGITS), DIGITS);
             }
             BigDecimal e = yy[i].subtract(mu[i]).multiply(along, DIGITS);
+            scores[i] = e;
             meat = meat.add(e.multiply(e, DIGITS), DIGITS);
         }
         double hc0 = meat.sqrt(DIGITS).doubleValue();
         double hc1 = meat.multiply(BigDecimal.valueOf(n)).divide(BigDecimal.valueOf(n - p), DIGITS).sqrt(DIGITS)
                 .doubleValue();
-        return new KeyResult(b[p - 1].doubleValue(), c[p - 1].sqrt(DIGITS).doubleValue(), hc0, hc1);
+        return new KeyResult(b[p - 1].doubleValue(), c[p - 1].sqrt(DIGITS).doubleValue(), hc0, hc1, scores, p);
     }
 
     private static void means(boolean poisson, BigDecimal[][] x, BigDecimal[] b, BigDecimal[] mu) {

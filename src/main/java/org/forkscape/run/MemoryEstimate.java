@@ -16,6 +16,7 @@ import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VariantKey;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
@@ -169,7 +170,9 @@ public final class MemoryEstimate {
         }
         SpecificationMix profile = SpecificationMix.of(models, fitted, missingBits);
         int maxUsableSets = Long.bitCount(missingBits) >= 30 ? Integer.MAX_VALUE : 1 << Long.bitCount(missingBits);
-        long fitterRows = workers * MemoryFootprint.fitterRows(rows, profile.maxColumns + 1);
+        // the QR refit buffers of least squares; a plan of generalized linear models alone never fills them
+        boolean leastSquares = plan.modelFamilies().stream().anyMatch(ModelFamily::leastSquares);
+        long fitterRows = leastSquares ? workers * MemoryFootprint.fitterRows(rows, profile.maxColumns + 1) : 0;
         boolean generalized = plan.generalized();
         long recorded = generalized ? MemoryFootprint.recordedColumns(rows,
                 plan.outcome().alternatives().size() + plan.predictor().alternatives().size()) : 0;

@@ -137,9 +137,10 @@ class MemoryEstimateTest {
                 + MemoryEstimate.format(measured);
         assertTrue(measured > 8L << 20, "the case is too small to measure: " + report);
         assertTrue(estimate.bytes() >= measured * 2 / 3, "the estimate is too low: " + report);
-        // up to 4x: the estimate counts each fitting thread's buffers for QR refits, which a run whose
-        // specifications need no refit never fills (measured here from 2.9x to 3.1x on the GLM case)
-        assertTrue(estimate.bytes() <= measured * 4, "the estimate is too high: " + report);
+        // up to 3x: the estimate counts each fitting thread's buffers for QR refits, which a least-squares run
+        // whose specifications need no refit never fills (measured here: 1.1x to 1.4x for least squares, 1.7x
+        // for the GLM case, which is not charged for them)
+        assertTrue(estimate.bytes() <= measured * 3, "the estimate is too high: " + report);
     }
 
     /**

@@ -23,8 +23,20 @@ final class IgnoredClustering {
      * @param errorClusters the columns the errors decision clusters on
      */
     static String warning(NullDrawSettings settings, List<String> errorClusters, Table table, ResampleDesign design) {
-        List<String> split = errorClusters.stream()
-                .filter(c -> !design.keepsWhole(GroupingCodes.of(table.column(c)))).toList();
+        return sentence(settings, errorClusters.stream()
+                .filter(c -> !design.keepsWhole(GroupingCodes.of(table.column(c)))).toList());
+    }
+
+    /**
+     * The same without the rows, for draws that either resample single rows or whole clusters of the one
+     * column the errors cluster on (the Spark runner refuses any other clustering beside its draws): every
+     * error clustering but the resampled column's is split up.
+     */
+    static String warning(NullDrawSettings settings, List<String> errorClusters) {
+        return sentence(settings, errorClusters.stream().filter(c -> !c.equals(settings.clusterColumn())).toList());
+    }
+
+    private static String sentence(NullDrawSettings settings, List<String> split) {
         if (split.isEmpty()) {
             return null;
         }

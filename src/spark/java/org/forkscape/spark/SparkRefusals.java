@@ -2,6 +2,8 @@ package org.forkscape.spark;
 
 import java.util.List;
 import org.forkscape.InputException;
+import org.forkscape.infer.NullDrawSettings;
+import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
@@ -11,10 +13,11 @@ import org.forkscape.plan.Plan;
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out. They all need passes over rows beyond the sufficient statistics (README, "Beyond one
- * machine", lists them): null draws, generalized linear models, HC2 and HC3, multi-way clustering, HC0
+ * machine", lists them): generalized linear models, HC2 and HC3, multi-way clustering, HC0
  * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
  * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
- * statistics are unweighted sums).
+ * statistics are unweighted sums); beside null draws, the permutation and whole clusters of a column the errors
+ * do not cluster on.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -23,11 +26,10 @@ final class SparkRefusals {
     }
 
     static void check(Plan plan) {
-        if (plan.nullDraws() > 0) {
-            throw new InputException("nullDraws", "null draws are not made on Spark (their resampling reads every "
-                    + "row once per draw); set nullDraws to 0 or drop --null-draws" + WAY_OUT.substring(1));
-        }
         List<Decision> ds = plan.decisions();
+        if (plan.nullDraws() > 0) {
+            nullDraws(plan, ds);
+        }
         boolean absorbs = false;
         for (Decision d : ds) {
             if (d instanceof Decision.Absorb a) {
@@ -77,6 +79,40 @@ final class SparkRefusals {
                                 + "the rows per specification, which the Spark runner does not make (without "
                                 + "absorption it is computed from fourth moments; cluster errors work with both)"
                                 + WAY_OUT);
+                    }
+                }
+            }
+        }
+    }
+
+    /**
+     * Null draws on Spark are Poisson bootstrap draws ({@link org.forkscape.fit.BootstrapByParts}). Refused:
+     * the permutation (a uniformly random permutation of each variant's rows needs them in one place), and
+     * whole clusters of one column beside errors clustered on another, whose clusters a drawn copy would have
+     * to renew or keep depending on how the two columns nest, which only the rows tell.
+     */
+    private static void nullDraws(Plan plan, List<Decision> ds) {
+        NullDrawSettings settings = NullDrawSettings.of(plan);
+        if (settings.method() == NullMethod.PERMUTE) {
+            throw new InputException("nullMethod", "permutation draws are not made on Spark (a random permutation "
+                    + "of each variant's rows needs them all in one place); use the bootstrap (\"nullMethod\": "
+                    + "\"bootstrap\", --null-method bootstrap), or run this plan on one machine (forkscape.jar run)");
+        }
+        String resampled = settings.clusterColumn();
+        if (resampled == null) {
+            return;
+        }
+        for (int i = 0; i < ds.size(); i++) {
+            if (ds.get(i) instanceof Decision.Errors e) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    ErrorType t = e.alternatives().get(j);
+                    if (t.kind() == ErrorType.Kind.CLUSTER && !t.multiway() && !t.clusterColumn().equals(resampled)) {
+                        throw new InputException("nullCluster", "the null draws resample whole clusters of \""
+                                + resampled + "\" while the errors at decisions[" + i + "].alternatives[" + j
+                                + "] cluster on \"" + t.clusterColumn() + "\"; on Spark the draws resample either "
+                                + "single rows or the clusters of the column the errors cluster on: set nullCluster "
+                                + "to \"" + t.clusterColumn() + "\" or \"" + Plan.NULL_CLUSTER_ROWS + "\", or run "
+                                + "this plan on one machine (forkscape.jar run)");
                     }
                 }
             }

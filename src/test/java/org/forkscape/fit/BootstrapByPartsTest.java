@@ -31,33 +31,8 @@ class BootstrapByPartsTest {
     static final double RELATIVE = 1e-10;
     static final int DRAWS = 12;
 
-    /** No absorbed effects: classical, HC1 (from the fourth moments by parts) and school clusters. */
-    static final String PLAN = """
-            {"data": "schools.csv",
-             "decisions": [
-               {"name": "outcome", "kind": "outcome", "alternatives": [
-                  {"label": "first measure", "column": "y"},
-                  {"label": "second measure, standardized", "column": "y2", "transform": "standardize"}]},
-               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
-               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
-               {"name": "rows", "kind": "sample", "alternatives": [
-                  {"label": "all"}, {"label": "b above -1", "keep": "b > -1"}]},
-               {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1", "cluster:school"]}
-             ]}
-            """;
-
-    /** A district fixed effect absorbed or not, with classical and school-clustered errors. */
-    static final String ABSORBING_PLAN = """
-            {"data": "schools.csv",
-             "decisions": [
-               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "first measure", "column": "y"}]},
-               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
-               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
-               {"name": "effects", "kind": "absorb", "alternatives": [
-                  {"label": "none", "columns": []}, {"label": "district", "columns": ["district"]}]},
-               {"name": "errors", "kind": "errors", "alternatives": ["classical", "cluster:school"]}
-             ]}
-            """;
+    static final String PLAN = PartsOfTable.ROWS_PLAN;
+    static final String ABSORBING_PLAN = PartsOfTable.SCHOOLS_PLAN;
 
     @ParameterizedTest(name = "{0} slices")
     @ValueSource(ints = {1, 3, 7})

@@ -17,6 +17,34 @@ import org.forkscape.plan.Plan;
  * counts by {@link ResampledVariant}; and an invented clustered table.
  */
 public final class PartsOfTable {
+    /** No absorbed effects: classical, HC1 (from the fourth moments by parts) and school clusters. */
+    public static final String ROWS_PLAN = """
+            {"data": "schools.csv",
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [
+                  {"label": "first measure", "column": "y"},
+                  {"label": "second measure, standardized", "column": "y2", "transform": "standardize"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
+               {"name": "rows", "kind": "sample", "alternatives": [
+                  {"label": "all"}, {"label": "b above -1", "keep": "b > -1"}]},
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1", "cluster:school"]}
+             ]}
+            """;
+
+    /** A district fixed effect absorbed or not, with classical and school-clustered errors. */
+    public static final String SCHOOLS_PLAN = """
+            {"data": "schools.csv",
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "first measure", "column": "y"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
+               {"name": "effects", "kind": "absorb", "alternatives": [
+                  {"label": "none", "columns": []}, {"label": "district", "columns": ["district"]}]},
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "cluster:school"]}
+             ]}
+            """;
+
     private PartsOfTable() {
     }
 

@@ -9,18 +9,20 @@ import org.apache.commons.math3.distribution.PoissonDistribution;
  * The counts of a Poisson bootstrap draw as a pure function of (seed, unit, draw): each resampled unit (a
  * row, or a cluster) appears in draw d as often as a Poisson(1) variate says, and that variate is read off
  * a hash of the seed, the unit's identity and d, so that every part of a partitioned table computes the
- * same counts for its rows whatever the partitioning, without drawing from a shared stream (Hanley &amp;
- * MacGibbon 2006, "Creating non-parametric bootstrap samples using Poisson frequencies", Computer Methods
- * and Programs in Biomedicine 83(1): the Poisson(1) frequency of each unit approximates the multinomial
- * frequencies of Efron's bootstrap, whose total is fixed at N, with a total that varies around N).
+ * same counts for its rows whatever the partitioning, without drawing from a shared stream (the Poisson
+ * bootstrap: Hanley &amp; MacGibbon 2006, "Creating non-parametric bootstrap samples using Poisson
+ * frequencies", Computer Methods and Programs in Biomedicine 83(1), citation from memory, not checked against
+ * the paper here: independent Poisson(1) frequencies per unit approximate the multinomial frequencies of
+ * Efron's bootstrap, whose total is fixed at N, with a total that varies around N).
  *
  * <p>The hash: the 64-bit finaliser of SplitMix64 (Steele, Lea &amp; Flood 2014, "Fast splittable pseudorandom
  * number generators", OOPSLA; Stafford's "variant 13" constants, the same function as
  * {@code java.util.SplittableRandom}'s mix64), applied in a chain: h = mix64(mix64(mix64(seed XOR D) XOR unit)
  * + (d + 1) gamma), gamma = 0x9e3779b97f4a7c15 (the golden-ratio increment of SplitMix64). The uniform is the
  * top 53 bits of h times 2^-53, in [0, 1), and the count the smallest k with u &lt; F(k), F the Poisson(1)
- * distribution function from Commons Math (inversion; Devroye 1986, Non-Uniform Random Variate Generation,
- * section 2.2). Text (a file name, a cluster's text) enters as the first 8 bytes of its UTF-8 SHA-256 (FIPS
+ * distribution function from Commons Math (inversion by sequential search, the textbook method for a
+ * discrete distribution: Devroye 1986, Non-Uniform Random Variate Generation, Springer, chapter III; from
+ * memory). Text (a file name, a cluster's text) enters as the first 8 bytes of its UTF-8 SHA-256 (FIPS
  * 180-4), big-endian.
  */
 public final class PoissonCounts {

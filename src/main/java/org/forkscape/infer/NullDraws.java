@@ -97,7 +97,8 @@ public final class NullDraws {
                     progress, cancel, start);
         }
         if (!variants.run().table().holdsRows()) {
-            throw new IllegalStateException("permutation draws need the rows in memory");
+            throw new IllegalStateException("null draws over variants without rows are made by their source "
+                    + "(VariantSource.bootstrap)");
         }
         SplittableRandom[] streams = DrawStreams.of(settings.seed(), draws);
         ResampleDesign design = ResampleDesign.of(variants.run().table(), settings.clusterColumn());

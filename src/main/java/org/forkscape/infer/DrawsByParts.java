@@ -7,7 +7,6 @@ import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
-import org.forkscape.InputException;
 import org.forkscape.fit.BootstrapByParts;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
@@ -24,7 +23,10 @@ import org.forkscape.run.WorkerPools;
  * variant in every draw of the batch; the driver then fits each specification of each draw with the
  * engine's estimator (each draw by one worker thread) and hands the draws' fits to the same statistics as
  * {@link NullDraws} on one machine, in the same order (variants in order, their specifications in slot order),
- * so the numbers do not depend on the thread count.
+ * so the numbers do not depend on the thread count. A specification whose standard error in a draw would need a
+ * pass over the rows (its sandwich from the draw's sums could lose digits, as in a draw of copies of one cluster
+ * alone, whose scores cancel) is left out of that draw and counted among the failed fits, where one machine's row
+ * pass would give it a standard error.
  */
 final class DrawsByParts {
     private DrawsByParts() {
@@ -70,7 +72,6 @@ final class DrawsByParts {
                     }
                     DataVariant[] inDraw = source.draws(models.variantKey(v), variants.variant(v), from, to);
                     AtomicInteger next = new AtomicInteger();
-                    int first = from;
                     List<Future<?>> futures = new ArrayList<>();
                     for (int w = 0; w < workers; w++) {
                         futures.add(pool.submit(() -> {
@@ -82,11 +83,9 @@ final class DrawsByParts {
                                     try {
                                         fit = fitter.fit(inDraw[b], variants.model(i));
                                     } catch (RowPassUnavailable e) {
-                                        throw new InputException("nullDraws", "null draw " + (first + b + 1)
-                                                + ": specification " + variants.run().results().specNumber(
-                                                variants.slot(i)) + " cannot be fitted on these data: "
-                                                + e.getMessage() + "; run the plan on one machine, or leave out "
-                                                + "the choice that needs it");
+                                        // its sandwich from sums could lose digits in this draw (say, copies
+                                        // of one cluster alone): left out of the draw, as a failed fit is
+                                        continue;
                                     }
                                     if (fit.ok() && fit.stdError() > 0) {
                                         estimate[b][i] = fit.estimate() - observedEstimate[i];

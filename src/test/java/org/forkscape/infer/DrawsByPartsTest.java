@@ -25,7 +25,8 @@ import org.junit.jupiter.api.Test;
  * The null draws of variants held in parts, as the Spark runner makes them (here on slices of an invented table
  * in memory): the same numbers on 1, 2 and 3 threads, bit for bit (each draw fitted by one thread, the
  * statistics taken in a fixed order), a draw the same in any batch and in a run of fewer draws, and the warning about split clusters
- * worded as one machine words it for the same settings (exact text).
+ * worded as one machine words it for the same settings (exact text); degenerate draws (no rows, or a sandwich
+ * the draw's sums cannot give) left out and counted, not fatal.
  */
 class DrawsByPartsTest {
     private static final Table TABLE = PartsOfTable.schools(11, 20, 10, 0.3, 0);
@@ -89,6 +90,21 @@ class DrawsByPartsTest {
                 }
             }
         }
+    }
+
+    @Test
+    void degenerateDrawsAreLeftOutNotFatal() {
+        // three schools drawn whole: some draws hold copies of one school alone (whose cluster scores cancel, so
+        // the sandwich from sums would lose digits) or no school at all (e^-3 of them)
+        Table three = PartsOfTable.schools(11, 3, 10, 0.3, 0);
+        Plan plan = new PlanReader(false).read(PartsOfTable.SCHOOLS_PLAN, Path.of(".")).withNull(60, "bootstrap", null,
+                5);
+        RunResult run = new MultiverseRunner(1).withVariants(PartsOfTable.source(plan, three, PartsOfTable.rowKeys(
+                "schools.parquet", three.rowCount()), 3)).run(plan, three, RunProgress.SILENT, new AtomicBoolean());
+        NullDrawResult r = draws(run, 2);
+        assertEquals(60, r.drawCount());
+        assertTrue(r.emptyDraws() > 0, r.emptyDraws() + " draws with nothing fitted");
+        assertTrue(r.failedFits() > 0, r.failedFits() + " fits left out");
     }
 
     @Test

@@ -37,6 +37,11 @@ import org.forkscape.run.WorkerPools;
  * <p>Each draw is computed alone from its own random stream ({@link DrawStreams}) by one thread, in a fixed
  * order, so the numbers are identical whatever the number of threads.
  *
+ * <p>Variants whose rows are held in parts (the Spark runner's) are resampled where the rows are, by the
+ * Poisson bootstrap ({@link BootstrapByParts}, {@link DrawsByParts}): each unit's count in a draw is a hash of the
+ * seed, the unit and the draw rather than a multinomial draw from one stream, so that no part needs the others;
+ * the draws' fits then go through the same statistics.
+ *
  * <p>Besides the whole run's statistics, each draw is judged on the {@link ScaleCurves}: per comparable
  * group as fitted and on the unit-free t and partial-correlation scales, so that no median, and no band,
  * pools estimates in different units.

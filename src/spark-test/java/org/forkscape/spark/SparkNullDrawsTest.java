@@ -54,7 +54,7 @@ import org.junit.jupiter.api.io.TempDir;
  * repeated by {@code fit.ResampledVariant}, within {@value #RELATIVE} (common practice for two exact routes in
  * double precision). Both for single rows and for whole schools (each drawn copy a new cluster). (c) The batch
  * command writes the draws' files, the same at 3 and 8 partitions. (d) What the draws cannot do on Spark is
- * refused at its JSON path. The calibration of this bootstrap is {@code infer.PoissonBootstrapCalibrationTest}'s.
+ * refused at its JSON path, and data whose files share a name (so that their rows would share identities). The calibration of this bootstrap is {@code infer.PoissonBootstrapCalibrationTest}'s.
  */
 class SparkNullDrawsTest {
     static final double RELATIVE = 1e-10;
@@ -284,6 +284,30 @@ class SparkNullDrawsTest {
                 + "Spark"), message);
         assertEquals(1, message.lines().count(), message);
         assertFalse(Files.exists(out.resolve("specifications.csv")));
+    }
+
+    @Test
+    void refusesFilesThatShareANameBeforeAnyWork() throws IOException {
+        // a partitioned data set whose folders hold part files of the same name
+        Path shared = folder.resolve("shared-names.parquet");
+        Path part;
+        try (Stream<Path> list = Files.list(parquet)) {
+            part = list.filter(f -> f.getFileName().toString().endsWith(".parquet")).sorted().findFirst().orElseThrow();
+        }
+        for (String k : List.of("k=1", "k=2")) {
+            Files.createDirectories(shared.resolve(k));
+            Files.copy(part, shared.resolve(k).resolve(part.getFileName()));
+        }
+        String planText = withDraws(PartsOfTable.ROWS_PLAN, "rows");
+        SparkData data = new SparkData(spark, shared.toString(), 0, planText, folder);
+        InputException e = assertThrows(InputException.class, () -> data.table(plan(planText)));
+        assertEquals("data", e.where());
+        assertTrue(e.problem().contains("two files of " + shared + " are named \"" + part.getFileName() + "\""),
+                e.problem());
+        // without null draws the names do not matter
+        String noDraws = PartsOfTable.ROWS_PLAN;
+        assertEquals(2 * DataFiles.read(part).rowCount(), new SparkData(spark, shared.toString(), 0, noDraws, folder)
+                .table(plan(noDraws)).rowCount());
     }
 
     private static Plan plan(String text) {

@@ -3,6 +3,7 @@ package org.forkscape.spark;
 import java.util.List;
 import java.util.Map;
 import org.apache.spark.sql.Column;
+import org.forkscape.InputException;
 import org.forkscape.fit.PoissonCounts;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
@@ -15,7 +16,8 @@ import static org.apache.spark.sql.functions.col;
  * of the Parquet file the row is in and its 0-based index within that file, Spark's hidden file metadata
  * columns {@code _metadata.file_name} and {@code _metadata.row_index} (the latter for Parquet since Spark 3.5),
  * read before any repartitioning. The file's name rather than its path, so that the same files give the same
- * draws wherever they are stored; a folder's part files have distinct names.
+ * draws wherever they are stored; a folder's part files have distinct names, and data whose files share a
+ * name are refused ({@link #requireDistinctNames}).
  */
 final class RowIdentity {
     static final String FILE = "__forkscape_file_name";
@@ -32,6 +34,25 @@ final class RowIdentity {
     /** The two columns to read beside the plan's, in this order. */
     static List<Column> columns() {
         return List.of(col("_metadata.file_name").as(FILE), col("_metadata.row_index").as(ROW));
+    }
+
+    /**
+     * Refuses data whose files share a name (as part files in different folders of a partitioned data set
+     * can): their rows would share identities, and so their counts in every draw.
+     *
+     * @param files the data's files as Spark lists them ({@code Dataset.inputFiles})
+     */
+    static void requireDistinctNames(String[] files, String source) {
+        Map<String, String> byName = new java.util.HashMap<>();
+        for (String file : files) {
+            String name = file.substring(file.lastIndexOf('/') + 1);
+            String other = byName.put(name, file);
+            if (other != null) {
+                throw new InputException("data", "the null draws tell rows apart by their file's name and row "
+                        + "index, and two files of " + source + " are named \"" + name + "\" (" + other + " and "
+                        + file + "); give the Parquet files distinct names, or ask for no null draws");
+            }
+        }
     }
 
     /** {@link PoissonCounts#rowKey} of the row, each file's name hashed once per partition ({@code fileHash}). */

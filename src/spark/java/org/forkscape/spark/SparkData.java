@@ -82,6 +82,7 @@ final class SparkData implements RunData {
                 .toList());
         keyed = RowIdentity.needed(plan);
         if (keyed) {
+            RowIdentity.requireDistinctNames(all.inputFiles(), source);
             read.addAll(RowIdentity.columns());
         }
         Dataset<Row> selected = all.select(read.toArray(org.apache.spark.sql.Column[]::new));

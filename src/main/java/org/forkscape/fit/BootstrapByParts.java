@@ -1,5 +1,8 @@
 package org.forkscape.fit;
 
+import java.util.ArrayList;
+import java.util.List;
+
 /**
  * Poisson bootstrap draws of variants whose rows are held in parts ({@link VariantParts}, the partitions of
  * a data set on a cluster): each part computes its rows' counts in a draw from their identities
@@ -20,6 +23,8 @@ public final class BootstrapByParts {
     private final VariantByParts whole;
     private final VariantParts parts;
     private final BootstrapDesign design;
+    /** The error cluster columns nested in the resampled units, found on first use ({@link #keptWhole}). */
+    private String[] renewed;
 
     /**
      * @param whole the instance that decides (over the columns with no rows)
@@ -33,6 +38,33 @@ public final class BootstrapByParts {
 
     public BootstrapDesign design() {
         return design;
+    }
+
+    /**
+     * The error cluster columns whose every cluster lies within one resampled unit, so that a draw keeps
+     * them whole and makes each drawn copy of them a new cluster: the resampled column itself, and each other
+     * column nested in it over the whole table (one pass over the parts per column, on first use; one machine
+     * asks the same of each variant's rows, which gives the same answer unless a sample rule removes every row
+     * that puts a cluster in two units). None when single rows are drawn.
+     */
+    public synchronized List<String> keptWhole() {
+        if (renewed == null) {
+            List<String> out = new ArrayList<>();
+            String resampled = design.resampledColumn();
+            BootstrapDesign d = design;
+            for (String column : resampled == null ? List.<String>of() : whole.clusterColumnNames()) {
+                if (column.equals(resampled)) {
+                    out.add(column);
+                    continue;
+                }
+                ClusterNesting n = parts.reduce(part -> part.nesting(column, d), ClusterNesting::merge);
+                if (n == null || n.nested()) {
+                    out.add(column);
+                }
+            }
+            renewed = out.toArray(new String[0]);
+        }
+        return List.of(renewed);
     }
 
     /** How many draws of {@code observed}'s variant one pass over the parts computes (at least 1). */
@@ -53,21 +85,22 @@ public final class BootstrapByParts {
         }
         boolean tensors = whole.wantsTensors(key);
         BootstrapDesign d = design;
-        PartialStatistics[] sums = parts.reduce(part -> part.bootstrapStatistics(key, facts, tensors, d, from, to),
-                VariantByParts::addEach);
+        String[] kept = keptWhole().toArray(new String[0]);
+        PartialStatistics[] sums = parts.reduce(part -> part.bootstrapStatistics(key, facts, tensors, d, kept, from,
+                to), VariantByParts::addEach);
         DataVariant[] out = new DataVariant[to - from];
         for (int b = 0; b < out.length; b++) {
-            out[b] = whole.drawVariant(key, facts, sums[b], inDraw(parts, d, from + b));
+            out[b] = whole.drawVariant(key, facts, sums[b], inDraw(parts, d, kept, from + b));
         }
         return out;
     }
 
     /** The parts as they are in draw {@code draw}, for the QR refits of that draw (one pass each). */
-    private static VariantParts inDraw(VariantParts parts, BootstrapDesign design, int draw) {
+    private static VariantParts inDraw(VariantParts parts, BootstrapDesign design, String[] renewed, int draw) {
         return new VariantParts() {
             @Override
             public <T> T reduce(PartFunction<T> f, Merge<T> merge) {
-                return parts.reduce(part -> f.apply(part.inDraw(design, draw)), merge);
+                return parts.reduce(part -> f.apply(part.inDraw(design, draw, renewed)), merge);
             }
 
             @Override

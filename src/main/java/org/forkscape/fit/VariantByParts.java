@@ -28,8 +28,8 @@ public final class VariantByParts {
     private final long[] rowKeys;
     /** In a draw's copy of a part ({@link #inDraw}): which copy of its row each row is, 0, 1, ...; else null. */
     private final int[] copyOfRow;
-    /** In a draw's copy: the cluster column whose clusters each drawn copy makes new clusters of, or null. */
-    private final String renewedClusters;
+    /** In a draw's copy: the cluster columns whose clusters each drawn copy makes new clusters of; else null. */
+    private final String[] renewedClusters;
     /** The resampled unit of each row under {@link #unitsOf}, kept for the next draw of the same design. */
     private long[] unitKeys;
     private BootstrapDesign unitsOf;
@@ -49,7 +49,7 @@ public final class VariantByParts {
         this(plan, table, rowKeys, null, null);
     }
 
-    private VariantByParts(Plan plan, Table table, long[] rowKeys, int[] copyOfRow, String renewedClusters) {
+    private VariantByParts(Plan plan, Table table, long[] rowKeys, int[] copyOfRow, String[] renewedClusters) {
         this.plan = new CompiledPlan(plan, table);
         this.source = plan;
         this.rowKeys = rowKeys;
@@ -131,7 +131,9 @@ public final class VariantByParts {
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         if (renewedClusters != null) {
-            renewCopies(coded, whole);
+            for (String column : renewedClusters) {
+                renewCopies(coded, whole, column);
+            }
         }
         DataVariant part = new DataVariant(coded, new CellSums(coded, null));
         List<String> clusters = new ArrayList<>();
@@ -148,11 +150,13 @@ public final class VariantByParts {
      * ({@link BootstrapDesign}), in row order, copies together. The copy codes and sums exactly as the
      * resampled rows would: every fact the coding needs comes from the observed whole ({@link WholeRows}),
      * so each copy carries its row's observed coded values, as {@link ResampledVariant} has them on one
-     * machine. When the draws resample the clusters of a column the errors cluster on, each drawn copy of a
-     * cluster is a new cluster (code + copy x clusters; Cameron, Gelbach &amp; Miller 2008, Review of
-     * Economics and Statistics 90(3)); with single rows drawn, copies stay in their clusters.
+     * machine. Each drawn copy of a unit is a copy of the clusters nested in it, which become new clusters
+     * (code + copy x clusters; Cameron, Gelbach &amp; Miller 2008, Review of Economics and Statistics 90(3)):
+     * the clusters of {@code renewed}; the copies of other clusters' rows stay in them.
+     *
+     * @param renewed the error cluster columns nested in the resampled units ({@link ClusterNesting}); not modified
      */
-    public VariantByParts inDraw(BootstrapDesign design, int draw) {
+    public VariantByParts inDraw(BootstrapDesign design, int draw, String[] renewed) {
         if (rowKeys == null) {
             throw new IllegalStateException("a part without row identities cannot be resampled");
         }
@@ -174,17 +178,32 @@ public final class VariantByParts {
                 copy[k++] = c;
             }
         }
-        String column = design.resampledColumn();
-        boolean renews = column != null && java.util.Arrays.stream(plan.clusterColumns).anyMatch(c -> c.column().name().equals(column));
-        return new VariantByParts(source, rowsAt(plan.table, rowOf), null, copy, renews ? column : null);
+        return new VariantByParts(source, rowsAt(plan.table, rowOf), null, copy, renewed);
+    }
+
+    /** This part's clusters of {@code column} and the units {@code design} resamples them in. */
+    public ClusterNesting nesting(String column, BootstrapDesign design) {
+        if (rowKeys == null) {
+            throw new IllegalStateException("a part without row identities cannot be resampled");
+        }
+        return ClusterNesting.of(plan.table, rowKeys, column, design);
+    }
+
+    /** The one-way cluster columns the plan's error types name, in plan order. */
+    List<String> clusterColumnNames() {
+        List<String> out = new ArrayList<>();
+        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+            out.add(c.column().name());
+        }
+        return out;
     }
 
     /** Draws {@code from} to {@code to - 1}: this part's {@link #statistics} in each, in draw order. */
     public PartialStatistics[] bootstrapStatistics(VariantKey key, WholeRows whole, boolean withTensors,
-            BootstrapDesign design, int from, int to) {
+            BootstrapDesign design, String[] renewed, int from, int to) {
         PartialStatistics[] out = new PartialStatistics[to - from];
         for (int d = from; d < to; d++) {
-            out[d - from] = inDraw(design, d).statistics(key, whole, withTensors);
+            out[d - from] = inDraw(design, d, renewed).statistics(key, whole, withTensors);
         }
         return out;
     }
@@ -201,10 +220,10 @@ public final class VariantByParts {
      * Copy c of a cluster becomes cluster code + c G, G the renewed column's clusters over the whole table
      * (its levels, or its distinct values), so that every part numbers the same copy alike.
      */
-    private void renewCopies(CodedRows coded, WholeRows whole) {
-        int[] codes = coded.clusters.get(renewedClusters);
-        Column c = plan.table.column(renewedClusters);
-        int g = c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(renewedClusters).length;
+    private void renewCopies(CodedRows coded, WholeRows whole, String column) {
+        int[] codes = coded.clusters.get(column);
+        Column c = plan.table.column(column);
+        int g = c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
         int copies = 1;
         for (int r = 0; r < codes.length; r++) {
             if (codes[r] >= 0) {
@@ -213,7 +232,7 @@ public final class VariantByParts {
                 copies = Math.max(copies, copy + 1);
             }
         }
-        coded.clusterCounts.put(renewedClusters, Math.multiplyExact(g, copies));
+        coded.clusterCounts.put(column, Math.multiplyExact(g, copies));
     }
 
     /** The rows {@code rows} of {@code table} (repeats allowed), in that order. */

@@ -28,12 +28,11 @@ final class IgnoredClustering {
     }
 
     /**
-     * The same without the rows, for draws that either resample single rows or whole clusters of the one
-     * column the errors cluster on (the Spark runner refuses any other clustering beside its draws): every
-     * error clustering but the resampled column's is split up.
+     * The same for draws made where the rows are held, which tell the clusterings they keep whole
+     * ({@code fit.BootstrapByParts#keptWhole}).
      */
-    static String warning(NullDrawSettings settings, List<String> errorClusters) {
-        return sentence(settings, errorClusters.stream().filter(c -> !c.equals(settings.clusterColumn())).toList());
+    static String warning(NullDrawSettings settings, List<String> errorClusters, List<String> keptWhole) {
+        return sentence(settings, errorClusters.stream().filter(c -> !keptWhole.contains(c)).toList());
     }
 
     private static String sentence(NullDrawSettings settings, List<String> split) {

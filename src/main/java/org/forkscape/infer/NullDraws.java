@@ -243,7 +243,8 @@ public final class NullDraws {
                     outCurves[d] = curves.evaluate(estimate, error, df, p, z, spec, m, alpha, curveWork);
                     return failures;
                 });
-        String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns());
+        String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns(),
+                source.keptWhole());
         return new NullDrawResult(settings, warning, observed, out, curves, observedCurves, outCurves, failed,
                 (System.nanoTime() - start) / 1e9);
     }

@@ -52,7 +52,8 @@ import org.junit.jupiter.api.io.TempDir;
  * Spark draw's fits equal one machine's with the same counts: the Parquet parts read back by the single-machine
  * reader, each row's identity from its part's name and index, the counts computed in plain Java and the rows
  * repeated by {@code fit.ResampledVariant}, within {@value #RELATIVE} (common practice for two exact routes in
- * double precision). Both for single rows and for whole schools (each drawn copy a new cluster). (c) The batch
+ * double precision). For single rows, for whole schools (each drawn copy a new cluster), and for whole schools
+ * beside errors clustered on classes (within schools: new classes in each copy) and on districts (copies stay). (c) The batch
  * command writes the draws' files, the same at 3 and 8 partitions. (d) What the draws cannot do on Spark is
  * refused at its JSON path, and data whose files share a name (so that their rows would share identities). The calibration of this bootstrap is {@code infer.PoissonBootstrapCalibrationTest}'s.
  */
@@ -112,6 +113,11 @@ class SparkNullDrawsTest {
     @Test
     void schoolDrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
         SparkParityTest.report("draws-schools", sameDraws(withDraws(PartsOfTable.SCHOOLS_PLAN, "school"), "school"));
+    }
+
+    @Test
+    void schoolDrawsMakeNewClassesOnEveryPartitioningAsOneMachineDoes() {
+        SparkParityTest.report("draws-classes", sameDraws(withDraws(PartsOfTable.CLASSES_PLAN, "school"), "school"));
     }
 
     /**
@@ -245,11 +251,6 @@ class SparkNullDrawsTest {
         assertTrue(e.problem().startsWith("permutation draws are not made on Spark"), e.problem());
         assertTrue(e.problem().contains("use the bootstrap"), e.problem());
 
-        Plan otherColumn = plan(withDraws(PartsOfTable.ROWS_PLAN, "district"));
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(otherColumn));
-        assertEquals("nullCluster", e.where());
-        assertTrue(e.problem().contains("errors at decisions[4].alternatives[2] cluster on \"school\""), e.problem());
-
         // what Spark refused before still is, beside draws
         Plan hc3 = plan(withDraws(PartsOfTable.ROWS_PLAN, "rows").replace("\"HC1\"", "\"HC3\""));
         e = assertThrows(InputException.class, () -> SparkRefusals.check(hc3));
@@ -261,6 +262,7 @@ class SparkNullDrawsTest {
         // and draws on what Spark computes are not
         SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "rows")));
         SparkRefusals.check(plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school")));
+        SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "district")));
     }
 
     @Test

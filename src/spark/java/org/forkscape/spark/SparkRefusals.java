@@ -16,8 +16,7 @@ import org.forkscape.plan.Plan;
  * machine", lists them): generalized linear models, HC2 and HC3, multi-way clustering, HC0
  * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
  * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
- * statistics are unweighted sums); beside null draws, the permutation and whole clusters of a column the errors
- * do not cluster on.
+ * statistics are unweighted sums); beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -28,7 +27,7 @@ final class SparkRefusals {
     static void check(Plan plan) {
         List<Decision> ds = plan.decisions();
         if (plan.nullDraws() > 0) {
-            nullDraws(plan, ds);
+            nullDraws(plan);
         }
         boolean absorbs = false;
         for (Decision d : ds) {
@@ -87,35 +86,13 @@ final class SparkRefusals {
 
     /**
      * Null draws on Spark are Poisson bootstrap draws ({@link org.forkscape.fit.BootstrapByParts}). Refused:
-     * the permutation (a uniformly random permutation of each variant's rows needs them in one place), and
-     * whole clusters of one column beside errors clustered on another, whose clusters a drawn copy would have
-     * to renew or keep depending on how the two columns nest, which only the rows tell.
+     * the permutation, since a uniformly random permutation of each variant's rows needs them in one place.
      */
-    private static void nullDraws(Plan plan, List<Decision> ds) {
-        NullDrawSettings settings = NullDrawSettings.of(plan);
-        if (settings.method() == NullMethod.PERMUTE) {
+    private static void nullDraws(Plan plan) {
+        if (NullDrawSettings.of(plan).method() == NullMethod.PERMUTE) {
             throw new InputException("nullMethod", "permutation draws are not made on Spark (a random permutation "
                     + "of each variant's rows needs them all in one place); use the bootstrap (\"nullMethod\": "
                     + "\"bootstrap\", --null-method bootstrap), or run this plan on one machine (forkscape.jar run)");
-        }
-        String resampled = settings.clusterColumn();
-        if (resampled == null) {
-            return;
-        }
-        for (int i = 0; i < ds.size(); i++) {
-            if (ds.get(i) instanceof Decision.Errors e) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    ErrorType t = e.alternatives().get(j);
-                    if (t.kind() == ErrorType.Kind.CLUSTER && !t.multiway() && !t.clusterColumn().equals(resampled)) {
-                        throw new InputException("nullCluster", "the null draws resample whole clusters of \""
-                                + resampled + "\" while the errors at decisions[" + i + "].alternatives[" + j
-                                + "] cluster on \"" + t.clusterColumn() + "\"; on Spark the draws resample either "
-                                + "single rows or the clusters of the column the errors cluster on: set nullCluster "
-                                + "to \"" + t.clusterColumn() + "\" or \"" + Plan.NULL_CLUSTER_ROWS + "\", or run "
-                                + "this plan on one machine (forkscape.jar run)");
-                    }
-                }
-            }
         }
     }
 }

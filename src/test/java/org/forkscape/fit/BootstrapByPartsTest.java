@@ -22,7 +22,8 @@ import org.junit.jupiter.params.provider.ValueSource;
  * Poisson bootstrap draws by parts (what the Spark runner computes on its partitions, here on slices of a table
  * in memory) against one machine given the same counts: every specification of every draw refit by
  * {@link ResampledVariant}, which repeats each row by its count, makes each drawn copy of a resampled school a
- * new cluster, and sandwiches from the repeated rows. The two sum different things (cell sums of repeated rows
+ * new cluster (and of its classes), keeps a copy's rows in a district that holds several schools, and sandwiches
+ * from the repeated rows. The two sum different things (cell sums of repeated rows
  * in part order, against a pass over the repeated rows), so they agree to rounding: {@value #RELATIVE}
  * relative (common practice for two exact routes in double precision). The counts themselves are identical for
  * 1, 3 and 7 slices, so each draw's rows per specification (n_obs) are equal exactly.
@@ -44,6 +45,18 @@ class BootstrapByPartsTest {
     @ValueSource(ints = {1, 3, 7})
     void schoolDrawsMakeNewClustersAsOneMachineDoes(int slices) {
         compare(ABSORBING_PLAN, new BootstrapDesign(42, "school"), slices);
+    }
+
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void schoolDrawsMakeNewClassesAndKeepDistrictsAsOneMachineDoes(int slices) {
+        Table table = PartsOfTable.schools(6, 24, 12, 0.3, 0.1);
+        Plan plan = new PlanReader(false).read(PartsOfTable.CLASSES_PLAN, Path.of("."));
+        BootstrapDesign design = new BootstrapDesign(44, "school");
+        BootstrapByParts draws = PartsOfTable.source(plan, table, PartsOfTable.rowKeys("schools.parquet",
+                table.rowCount()), slices).bootstrap(design);
+        assertEquals(List.of("class"), draws.keptWhole(), "classes lie within schools, districts do not");
+        compare(PartsOfTable.CLASSES_PLAN, table, design, slices);
     }
 
     @ParameterizedTest(name = "{0} slices")

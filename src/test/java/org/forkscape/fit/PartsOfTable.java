@@ -45,6 +45,20 @@ public final class PartsOfTable {
              ]}
             """;
 
+    /**
+     * Errors clustered on classes (nested in schools) and on districts (which hold several schools), for draws
+     * of whole schools: each drawn copy of a school makes new classes, while its rows stay in their district.
+     */
+    public static final String CLASSES_PLAN = """
+            {"data": "schools.csv",
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "first measure", "column": "y"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
+               {"name": "errors", "kind": "errors", "alternatives": ["cluster:class", "cluster:district"]}
+             ]}
+            """;
+
     private PartsOfTable() {
     }
 
@@ -134,8 +148,8 @@ public final class PartsOfTable {
     /**
      * Invented pupils in schools: {@code schools} schools of {@code pupils} pupils, a key predictor x and two
      * outcome measures y and y2 each with an intra-school correlation of {@code icc}, plus {@code effect} x in
-     * y; controls a (with about 5% of its cells missing) and b; the school as text ("s000", ...), and a numeric
-     * district (school mod 7) as a coarser grouping.
+     * y; controls a (with about 5% of its cells missing) and b; the school as text ("s000", ...), three classes
+     * per school as text ("s000-0", ...), and a numeric district (school mod 7) as a coarser grouping.
      */
     public static Table schools(long seed, int schools, int pupils, double icc, double effect) {
         SplittableRandom r = new SplittableRandom(seed);
@@ -147,16 +161,22 @@ public final class PartsOfTable {
         double[] b = new double[n];
         double[] district = new double[n];
         int[] school = new int[n];
+        int[] classOf = new int[n];
         List<String> levels = new ArrayList<>();
+        List<String> classes = new ArrayList<>();
         double shared = Math.sqrt(icc);
         double own = Math.sqrt(1 - icc);
         for (int k = 0; k < schools; k++) {
             levels.add(String.format("s%03d", k));
+            for (int c = 0; c < 3; c++) {
+                classes.add(String.format("s%03d-%d", k, c));
+            }
             double gx = gaussian(r);
             double gy = gaussian(r);
             double gy2 = gaussian(r);
             for (int i = k * pupils; i < (k + 1) * pupils; i++) {
                 school[i] = k;
+                classOf[i] = 3 * k + i % 3;
                 district[i] = k % 7;
                 x[i] = shared * gx + own * gaussian(r);
                 a[i] = r.nextDouble() < 0.05 ? Double.NaN : gaussian(r);
@@ -167,7 +187,7 @@ public final class PartsOfTable {
         }
         List<Column> cols = List.of(new NumericColumn("y", y), new NumericColumn("y2", y2), new NumericColumn("x", x),
                 new NumericColumn("a", a), new NumericColumn("b", b), new CategoricalColumn("school", school, levels),
-                new NumericColumn("district", district));
+                new CategoricalColumn("class", classOf, classes), new NumericColumn("district", district));
         return new Table("schools.csv", cols);
     }
 

@@ -116,5 +116,12 @@ class DrawsByPartsTest {
         assertTrue(oneMachine != null && oneMachine.contains("\"school\""), oneMachine);
         assertEquals(oneMachine, warning, "single rows split up the errors' school clusters");
         assertNull(draws(run(PartsOfTable.SCHOOLS_PLAN, 5, null), 2).warning(), "whole schools keep them");
+        // whole schools keep the classes within them, not the districts that hold several schools
+        RunResult classes = run(PartsOfTable.CLASSES_PLAN, 5, "school");
+        String split = draws(classes, 2).warning();
+        RunResult classesInMemory = new MultiverseRunner(1).run(classes.plan(), TABLE, RunProgress.SILENT,
+                new AtomicBoolean());
+        assertEquals(draws(classesInMemory, 2).warning(), split);
+        assertTrue(split.contains("\"district\"") && !split.contains("\"class\""), split);
     }
 }

@@ -14,8 +14,9 @@ import static org.apache.spark.sql.functions.col;
 /**
  * A row's identity for the Poisson bootstrap, the same however Spark reads or repartitions the data: the name
  * of the Parquet file the row is in and its 0-based index within that file, Spark's hidden file metadata
- * columns {@code _metadata.file_name} and {@code _metadata.row_index} (the latter for Parquet since Spark 3.5),
- * read before any repartitioning. The file's name rather than its path, so that the same files give the same
+ * columns {@code _metadata.file_name} and {@code _metadata.row_index} (both given for Parquet by Spark 4.1.1,
+ * the latter the row's position in its file; {@code SparkNullDrawsTest} recomputes every identity from the files
+ * and checks the draws against them), read before any repartitioning. The file's name rather than its path, so that the same files give the same
  * draws wherever they are stored; a folder's part files have distinct names, and data whose files share a
  * name are refused ({@link #requireDistinctNames}).
  */

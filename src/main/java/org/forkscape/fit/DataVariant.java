@@ -62,6 +62,11 @@ public final class DataVariant {
      * {@link VariantByParts#build}); null when no refit can be made.
      */
     volatile RefitReduction refitReduction;
+    /**
+     * For a variant built from parts: the facts of the whole its parts were coded with (set by
+     * {@link VariantByParts#build}), with which a bootstrap draw codes its copies; null otherwise.
+     */
+    volatile WholeRows partsFacts;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();

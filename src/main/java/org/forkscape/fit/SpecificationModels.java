@@ -110,6 +110,11 @@ public final class SpecificationModels {
         return variants.variant(key, pool);
     }
 
+    /** Bootstrap draws made where the rows are held, or null when the variants hold their rows ({@link VariantSource#bootstrap}). */
+    public BootstrapByParts bootstrap(BootstrapDesign design) {
+        return variants.bootstrap(design);
+    }
+
     /** The model of a specification from its decoded choices. */
     public SpecificationModel model(long[] choices) {
         ModelColumns layout = plan.layout;

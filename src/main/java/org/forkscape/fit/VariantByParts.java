@@ -24,11 +24,37 @@ import org.forkscape.data.Table;
 public final class VariantByParts {
     private final CompiledPlan plan;
     private final Plan source;
+    /** Each row's identity for the Poisson bootstrap ({@link PoissonCounts#rowKey}); null when not given. */
+    private final long[] rowKeys;
+    /** In a draw's copy of a part ({@link #inDraw}): which copy of its row each row is, 0, 1, ...; else null. */
+    private final int[] copyOfRow;
+    /** In a draw's copy: the cluster columns whose clusters each drawn copy makes new clusters of; else null. */
+    private final String[] renewedClusters;
+    /** The resampled unit of each row under {@link #unitsOf}, kept for the next draw of the same design. */
+    private long[] unitKeys;
+    private BootstrapDesign unitsOf;
 
     /** @param table one part's rows, or (to decide and to build the variant) the columns with no rows */
     public VariantByParts(Plan plan, Table table) {
+        this(plan, table, null);
+    }
+
+    /**
+     * A part whose rows can be resampled by the Poisson bootstrap ({@link #inDraw}).
+     *
+     * @param rowKeys each row's identity, which must not depend on how the table was cut into parts
+     *                ({@link PoissonCounts#rowKey}); not modified
+     */
+    public VariantByParts(Plan plan, Table table, long[] rowKeys) {
+        this(plan, table, rowKeys, null, null);
+    }
+
+    private VariantByParts(Plan plan, Table table, long[] rowKeys, int[] copyOfRow, String[] renewedClusters) {
         this.plan = new CompiledPlan(plan, table);
         this.source = plan;
+        this.rowKeys = rowKeys;
+        this.copyOfRow = copyOfRow;
+        this.renewedClusters = renewedClusters;
     }
 
     // ---- what a part reports
@@ -104,12 +130,132 @@ public final class VariantByParts {
     /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        if (renewedClusters != null) {
+            for (String column : renewedClusters) {
+                renewCopies(coded, whole, column);
+            }
+        }
         DataVariant part = new DataVariant(coded, new CellSums(coded, null));
         List<String> clusters = new ArrayList<>();
         for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
             clusters.add(c.column().name());
         }
         return PartialStatistics.of(part, withTensors, clusters);
+    }
+
+    // ---- a Poisson bootstrap draw of this part
+
+    /**
+     * This part in bootstrap draw {@code draw}: each row repeated as often as its unit's Poisson count
+     * ({@link BootstrapDesign}), in row order, copies together. The copy codes and sums exactly as the
+     * resampled rows would: every fact the coding needs comes from the observed whole ({@link WholeRows}),
+     * so each copy carries its row's observed coded values, as {@link ResampledVariant} has them on one
+     * machine. Each drawn copy of a unit is a copy of the clusters nested in it, which become new clusters
+     * (code + copy x clusters; Cameron, Gelbach &amp; Miller 2008, Review of Economics and Statistics 90(3)):
+     * the clusters of {@code renewed}; the copies of other clusters' rows stay in them.
+     *
+     * @param renewed the error cluster columns nested in the resampled units ({@link ClusterNesting}); not modified
+     */
+    public VariantByParts inDraw(BootstrapDesign design, int draw, String[] renewed) {
+        if (rowKeys == null) {
+            throw new IllegalStateException("a part without row identities cannot be resampled");
+        }
+        if (unitKeys == null || !design.equals(unitsOf)) {
+            unitKeys = design.unitKeys(plan.table, rowKeys);
+            unitsOf = design;
+        }
+        int[] counts = design.counts(unitKeys, draw);
+        int total = 0;
+        for (int c : counts) {
+            total += c;
+        }
+        int[] rowOf = new int[total];
+        int[] copy = new int[total];
+        int k = 0;
+        for (int r = 0; r < counts.length; r++) {
+            for (int c = 0; c < counts[r]; c++) {
+                rowOf[k] = r;
+                copy[k++] = c;
+            }
+        }
+        return new VariantByParts(source, rowsAt(plan.table, rowOf), null, copy, renewed);
+    }
+
+    /** This part's clusters of {@code column} and the units {@code design} resamples them in. */
+    public ClusterNesting nesting(String column, BootstrapDesign design) {
+        if (rowKeys == null) {
+            throw new IllegalStateException("a part without row identities cannot be resampled");
+        }
+        return ClusterNesting.of(plan.table, rowKeys, column, design);
+    }
+
+    /** The one-way cluster columns the plan's error types name, in plan order. */
+    List<String> clusterColumnNames() {
+        List<String> out = new ArrayList<>();
+        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+            out.add(c.column().name());
+        }
+        return out;
+    }
+
+    /** Draws {@code from} to {@code to - 1}: this part's {@link #statistics} in each, in draw order. */
+    public PartialStatistics[] bootstrapStatistics(VariantKey key, WholeRows whole, boolean withTensors,
+            BootstrapDesign design, String[] renewed, int from, int to) {
+        PartialStatistics[] out = new PartialStatistics[to - from];
+        for (int d = from; d < to; d++) {
+            out[d - from] = inDraw(design, d, renewed).statistics(key, whole, withTensors);
+        }
+        return out;
+    }
+
+    /** Two parts' statistics of the same draws as one, draw by draw ({@code a} modified and returned). */
+    public static PartialStatistics[] addEach(PartialStatistics[] a, PartialStatistics[] b) {
+        for (int i = 0; i < a.length; i++) {
+            a[i].add(b[i]);
+        }
+        return a;
+    }
+
+    /**
+     * Copy c of a cluster becomes cluster code + c G, G the renewed column's clusters over the whole table
+     * (its levels, or its distinct values), so that every part numbers the same copy alike.
+     */
+    private void renewCopies(CodedRows coded, WholeRows whole, String column) {
+        int[] codes = coded.clusters.get(column);
+        Column c = plan.table.column(column);
+        int g = c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
+        int copies = 1;
+        for (int r = 0; r < codes.length; r++) {
+            if (codes[r] >= 0) {
+                int copy = copyOfRow[coded.tableRows[r]];
+                codes[r] += copy * g;
+                copies = Math.max(copies, copy + 1);
+            }
+        }
+        coded.clusterCounts.put(column, Math.multiplyExact(g, copies));
+    }
+
+    /** The rows {@code rows} of {@code table} (repeats allowed), in that order. */
+    private static Table rowsAt(Table table, int[] rows) {
+        List<Column> columns = new ArrayList<>(table.columns().size());
+        for (Column c : table.columns()) {
+            if (c instanceof CategoricalColumn cat) {
+                int[] from = cat.codes();
+                int[] to = new int[rows.length];
+                for (int i = 0; i < rows.length; i++) {
+                    to[i] = from[rows[i]];
+                }
+                columns.add(new CategoricalColumn(c.name(), to, cat.levels(), cat.typed()));
+            } else {
+                double[] from = ((org.forkscape.data.NumericColumn) c).values();
+                double[] to = new double[rows.length];
+                for (int i = 0; i < rows.length; i++) {
+                    to[i] = from[rows[i]];
+                }
+                columns.add(new org.forkscape.data.NumericColumn(c.name(), to));
+            }
+        }
+        return new Table(table.source(), columns);
     }
 
     // ---- what the whole decides
@@ -152,12 +298,24 @@ public final class VariantByParts {
         PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
         DataVariant variant = variant(key, facts, sum);
         variant.refitReduction = (mom, cols, y) -> refitRows(key, shifted, variant, mom, cols, y, parts);
+        variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
                     + "the rows are above the engine's memory bound for them (" + variant.groupCount()
                     + " missing-value patterns of " + variant.layout().size() + " columns); run this plan on one "
                     + "machine (forkscape.jar run)");
         }
+        return variant;
+    }
+
+    /**
+     * The variant {@code key} in one bootstrap draw, from the draw's statistics summed over the parts, coded
+     * with the observed variant's facts ({@code facts}); its QR refits reduce {@code drawParts}, the parts
+     * in that draw.
+     */
+    DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
+        DataVariant variant = variant(key, facts, sum);
+        variant.refitReduction = (mom, cols, y) -> refitRows(key, facts, variant, mom, cols, y, drawParts);
         return variant;
     }
 

@@ -15,4 +15,12 @@ public interface VariantSource {
      * @param pool where to sum row blocks (the result does not depend on it), or null
      */
     DataVariant variant(VariantKey key, ExecutorService pool);
+
+    /**
+     * Bootstrap draws made where the rows are held ({@link BootstrapByParts}), or null when the variants hold
+     * their rows and the draws resample them in memory ({@link ResampledVariant}), as by default.
+     */
+    default BootstrapByParts bootstrap(BootstrapDesign design) {
+        return null;
+    }
 }

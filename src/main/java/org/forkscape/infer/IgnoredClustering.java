@@ -23,8 +23,19 @@ final class IgnoredClustering {
      * @param errorClusters the columns the errors decision clusters on
      */
     static String warning(NullDrawSettings settings, List<String> errorClusters, Table table, ResampleDesign design) {
-        List<String> split = errorClusters.stream()
-                .filter(c -> !design.keepsWhole(GroupingCodes.of(table.column(c)))).toList();
+        return sentence(settings, errorClusters.stream()
+                .filter(c -> !design.keepsWhole(GroupingCodes.of(table.column(c)))).toList());
+    }
+
+    /**
+     * The same for draws made where the rows are held, which tell the clusterings they keep whole
+     * ({@code fit.BootstrapByParts#keptWhole}).
+     */
+    static String warning(NullDrawSettings settings, List<String> errorClusters, List<String> keptWhole) {
+        return sentence(settings, errorClusters.stream().filter(c -> !keptWhole.contains(c)).toList());
+    }
+
+    private static String sentence(NullDrawSettings settings, List<String> split) {
         if (split.isEmpty()) {
             return null;
         }

@@ -10,6 +10,8 @@ import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
 import org.forkscape.InputException;
+import org.forkscape.fit.BootstrapByParts;
+import org.forkscape.fit.BootstrapDesign;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.DrawFit;
 import org.forkscape.fit.ResampledVariant;
@@ -34,6 +36,11 @@ import org.forkscape.run.WorkerPools;
  *
  * <p>Each draw is computed alone from its own random stream ({@link DrawStreams}) by one thread, in a fixed
  * order, so the numbers are identical whatever the number of threads.
+ *
+ * <p>Variants whose rows are held in parts (the Spark runner's) are resampled where the rows are, by the
+ * Poisson bootstrap ({@link BootstrapByParts}, {@link DrawsByParts}): each unit's count in a draw is a hash of the
+ * seed, the unit and the draw rather than a multinomial draw from one stream, so that no part needs the others;
+ * the draws' fits then go through the same statistics.
  *
  * <p>Besides the whole run's statistics, each draw is judged on the {@link ScaleCurves}: per comparable
  * group as fitted and on the unit-free t and partial-correlation scales, so that no median, and no band,
@@ -87,9 +94,19 @@ public final class NullDraws {
                 observedP, observedZ, everySpec, size, alpha, new ScaleCurves.Workspace(curves, size));
 
         int draws = settings.draws();
+        boolean bootstrap = settings.method() == NullMethod.BOOTSTRAP;
+        BootstrapByParts byParts = bootstrap ? variants.run().models().bootstrap(new BootstrapDesign(settings.seed(),
+                settings.clusterColumn())) : null;
+        if (byParts != null) {
+            return byParts(variants, settings, byParts, observed, observedEstimate, curves, observedCurves, threads,
+                    progress, cancel, start);
+        }
+        if (!variants.run().table().holdsRows()) {
+            throw new IllegalStateException("null draws over variants without rows are made by their source "
+                    + "(VariantSource.bootstrap)");
+        }
         SplittableRandom[] streams = DrawStreams.of(settings.seed(), draws);
         ResampleDesign design = ResampleDesign.of(variants.run().table(), settings.clusterColumn());
-        boolean bootstrap = settings.method() == NullMethod.BOOTSTRAP;
         int predictors = variants.run().plan().predictor().alternatives().size();
         CurveStatistics[] out = new CurveStatistics[draws];
         ScaleCurves.DrawCurve[][] outCurves = new ScaleCurves.DrawCurve[draws][];
@@ -180,6 +197,55 @@ public final class NullDraws {
         String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns(),
                 variants.run().table(), design);
         return new NullDrawResult(settings, warning, observed, out, curves, observedCurves, outCurves, failed.get(),
+                (System.nanoTime() - start) / 1e9);
+    }
+
+    /**
+     * Poisson bootstrap draws made where the rows are held ({@link DrawsByParts}): each draw's fits become its
+     * statistics here, in the order the single-machine loop above takes them.
+     */
+    private static NullDrawResult byParts(RunVariants variants, NullDrawSettings settings, BootstrapByParts source,
+            CurveStatistics observed, double[] observedEstimate, ScaleCurves curves,
+            ScaleCurves.DrawCurve[] observedCurves, int threads, RunProgress progress, AtomicBoolean cancel,
+            long start) {
+        int size = variants.size();
+        int draws = settings.draws();
+        double alpha = variants.run().plan().alpha();
+        CurveStatistics[] out = new CurveStatistics[draws];
+        ScaleCurves.DrawCurve[][] outCurves = new ScaleCurves.DrawCurve[draws][];
+        double[] estimate = new double[size];
+        double[] error = new double[size];
+        double[] df = new double[size];
+        double[] scratch = new double[size];
+        double[] p = new double[size];
+        double[] z = new double[size];
+        int[] spec = new int[size];
+        ScaleCurves.Workspace curveWork = new ScaleCurves.Workspace(curves, size);
+        long failed = DrawsByParts.run(variants, source, observedEstimate, draws, threads, progress, cancel,
+                (d, drawEstimate, drawError, drawDf, ok) -> {
+                    int m = 0;
+                    long failures = 0;
+                    for (int v = 0; v < variants.variantCount(); v++) {
+                        for (int i : variants.specificationsOf(v)) {
+                            if (!ok[i]) {
+                                failures++;
+                                continue;
+                            }
+                            estimate[m] = drawEstimate[i];
+                            error[m] = drawError[i];
+                            df[m] = drawDf[i];
+                            spec[m] = i;
+                            m++;
+                        }
+                    }
+                    CurveStatistics.score(estimate, error, df, m, p, z);
+                    out[d] = CurveStatistics.ofScored(estimate, estimate, p, z, m, alpha, scratch);
+                    outCurves[d] = curves.evaluate(estimate, error, df, p, z, spec, m, alpha, curveWork);
+                    return failures;
+                });
+        String warning = IgnoredClustering.warning(settings, variants.run().plan().errorClusterColumns(),
+                source.keptWhole());
+        return new NullDrawResult(settings, warning, observed, out, curves, observedCurves, outCurves, failed,
                 (System.nanoTime() - start) / 1e9);
     }
 }

@@ -2,6 +2,7 @@ package org.forkscape.spark;
 
 import java.util.LinkedHashSet;
 import java.util.Set;
+import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
@@ -9,7 +10,7 @@ import org.forkscape.plan.Plan;
 import org.forkscape.plan.SampleRule;
 import org.forkscape.plan.VariableChoice;
 
-/** Every column a plan reads, once, in plan order: the only columns read from the Parquet data. */
+/** Every column a plan reads, once, in plan order (the null draws' resampled column last): the only columns read from the Parquet data. */
 final class PlanColumns {
     private PlanColumns() {
     }
@@ -40,6 +41,10 @@ final class PlanColumns {
             } else if (d instanceof Decision.Absorb a) {
                 a.alternatives().stream().map(AbsorbChoice::columns).forEach(names::addAll);
             }
+        }
+        String resampled = plan.nullDraws() > 0 ? NullDrawSettings.of(plan).clusterColumn() : null;
+        if (resampled != null) {
+            names.add(resampled);
         }
         return names;
     }

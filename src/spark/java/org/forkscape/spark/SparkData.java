@@ -40,6 +40,8 @@ final class SparkData implements RunData {
     private TableShape shape;
     private Dataset<Row> data;
     private WholeRows grouping;
+    /** Whether the partitions carry their rows' identities (for bootstrap draws; {@link RowIdentity}). */
+    private boolean keyed;
 
     /**
      * @param location   where the data are (a path or URI Spark reads), or null for the plan's own data file
@@ -76,8 +78,14 @@ final class SparkData implements RunData {
         String[] names = present.toArray(new String[0]);
         boolean[] categorical = new boolean[names.length];
         String[][] levels = new String[names.length][];
-        Dataset<Row> selected = all.select(present.stream().map(n -> col("`" + n + "`")).toArray(
-                org.apache.spark.sql.Column[]::new));
+        List<org.apache.spark.sql.Column> read = new ArrayList<>(present.stream().map(n -> col("`" + n + "`"))
+                .toList());
+        keyed = RowIdentity.needed(plan);
+        if (keyed) {
+            RowIdentity.requireDistinctNames(all.inputFiles(), source);
+            read.addAll(RowIdentity.columns());
+        }
+        Dataset<Row> selected = all.select(read.toArray(org.apache.spark.sql.Column[]::new));
         Map<String, double[]> groupingValues = new HashMap<>();
         Set<String> grouping = PlanColumns.grouping(plan);
         try {
@@ -113,7 +121,8 @@ final class SparkData implements RunData {
     public VariantSource variants(Plan plan, Table table) {
         SparkRefusals.check(plan);
         TableShape s = shape;
-        JavaRDD<Table> parts = data.javaRDD().mapPartitions(rows -> List.of(s.part(rows)).iterator())
+        boolean withKeys = keyed;
+        JavaRDD<SparkPart> parts = data.javaRDD().mapPartitions(rows -> List.of(s.part(rows, withKeys)).iterator())
                 .persist(StorageLevel.MEMORY_ONLY());
         return new SparkVariants(spark, parts, planText, planFolder, plan, table, grouping);
     }

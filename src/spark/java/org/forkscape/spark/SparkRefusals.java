@@ -2,6 +2,8 @@ package org.forkscape.spark;
 
 import java.util.List;
 import org.forkscape.InputException;
+import org.forkscape.infer.NullDrawSettings;
+import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
@@ -11,10 +13,10 @@ import org.forkscape.plan.Plan;
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out. They all need passes over rows beyond the sufficient statistics (README, "Beyond one
- * machine", lists them): null draws, generalized linear models, HC2 and HC3, multi-way clustering, HC0
+ * machine", lists them): generalized linear models, HC2 and HC3, multi-way clustering, HC0
  * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
  * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
- * statistics are unweighted sums).
+ * statistics are unweighted sums); beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -23,11 +25,10 @@ final class SparkRefusals {
     }
 
     static void check(Plan plan) {
-        if (plan.nullDraws() > 0) {
-            throw new InputException("nullDraws", "null draws are not made on Spark (their resampling reads every "
-                    + "row once per draw); set nullDraws to 0 or drop --null-draws" + WAY_OUT.substring(1));
-        }
         List<Decision> ds = plan.decisions();
+        if (plan.nullDraws() > 0) {
+            nullDraws(plan);
+        }
         boolean absorbs = false;
         for (Decision d : ds) {
             if (d instanceof Decision.Absorb a) {
@@ -80,6 +81,18 @@ final class SparkRefusals {
                     }
                 }
             }
+        }
+    }
+
+    /**
+     * Null draws on Spark are Poisson bootstrap draws ({@link org.forkscape.fit.BootstrapByParts}). Refused:
+     * the permutation, since a uniformly random permutation of each variant's rows needs them in one place.
+     */
+    private static void nullDraws(Plan plan) {
+        if (NullDrawSettings.of(plan).method() == NullMethod.PERMUTE) {
+            throw new InputException("nullMethod", "permutation draws are not made on Spark (a random permutation "
+                    + "of each variant's rows needs them all in one place); use the bootstrap (\"nullMethod\": "
+                    + "\"bootstrap\", --null-method bootstrap), or run this plan on one machine (forkscape.jar run)");
         }
     }
 }

@@ -20,7 +20,8 @@ import org.forkscape.cli.CommandLine;
  */
 public final class SparkRun {
     static final String USAGE = "usage: run PLAN.json --out DIR [--master URL] [--data LOCATION] [--partitions N] "
-            + "[--sample N --seed S] [--threads T] [--max-specifications N]";
+            + "[--sample N --seed S] [--null-draws R] [--null-cluster COLUMN|rows] [--threads T] "
+            + "[--max-specifications N]";
 
     private SparkRun() {
     }

@@ -21,7 +21,10 @@ import org.apache.spark.storage.RDDInfo;
 import org.apache.spark.util.SizeEstimator;
 import org.forkscape.cli.CommandLine;
 import org.forkscape.data.Table;
+import org.forkscape.fit.BootstrapByParts;
+import org.forkscape.fit.BootstrapDesign;
 import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.VariantKey;
 import org.forkscape.fit.VariantSource;
 import org.forkscape.plan.Plan;
 import org.forkscape.run.RunData;
@@ -43,13 +46,14 @@ import static org.apache.spark.sql.functions.xxhash64;
  * the executors' cached rows, and the size of the statistics the driver keeps, which must not grow with the
  * rows. With {@code --single-machine JAR} it also runs {@code java -jar JAR run} on the same plan and data
  * in a child JVM with the JVM's default heap and reports its time and peak resident memory, or that it did
- * not fit.
+ * not fit. With {@code --null-draws R} the plan also asks for R bootstrap null draws (whole clusters), whose
+ * time summary.json records.
  */
 final class SparkScale {
     static final int CONTROLS = 10;
     static final int CLUSTERS = 1000;
     private static final String USAGE = "usage: scale --rows N[,N...] --out DIR [--master URL] [--partitions N] "
-            + "[--single-machine JAR]";
+            + "[--null-draws R] [--single-machine JAR]";
 
     private SparkScale() {
     }
@@ -58,29 +62,37 @@ final class SparkScale {
         String rows = take(args, "--rows");
         String out = take(args, "--out");
         String single = take(args, "--single-machine");
-        if (rows == null || out == null || !args.isEmpty()) {
+        String drawsText = take(args, "--null-draws");
+        int draws;
+        try {
+            draws = drawsText == null ? 0 : Integer.parseInt(drawsText.trim());
+        } catch (NumberFormatException e) {
+            draws = -1;
+        }
+        if (rows == null || out == null || !args.isEmpty() || draws < 0) {
             System.err.println("forkscape: " + USAGE);
             return 2;
         }
         System.out.println("| rows | aggregation passes (s) | groupBy().agg(sum) (s) | groupBy(g).agg(sum) (s) "
                 + "| ratio to groupBy(g) | the rest: levels, row count, solves, writing (s) | whole run (s) | peak heap of the JVM (MB) "
-                + "| cached rows on the executors (MB) | statistics kept on the driver (KB) | single machine |");
-        System.out.println("|---|---|---|---|---|---|---|---|---|---|---|");
+                + "| cached rows on the executors (MB) | statistics kept on the driver (KB) | null draws (s) | single machine |");
+        System.out.println("|---|---|---|---|---|---|---|---|---|---|---|---|");
         for (String n : rows.split(",")) {
             long count = Long.parseLong(n.trim().replace("_", ""));
             Path folder = Path.of(out, "rows-" + count);
-            System.out.println(measure(spark, count, folder, partitions, single));
+            System.out.println(measure(spark, count, folder, partitions, draws, single));
         }
         return 0;
     }
 
-    private static String measure(SparkSession spark, long rows, Path folder, int partitions, String single) {
+    private static String measure(SparkSession spark, long rows, Path folder, int partitions, int draws,
+            String single) {
         Path data = folder.resolve("data");
         Path plan = folder.resolve("plan.json");
         try {
             Files.createDirectories(folder);
             generate(spark, rows, data);
-            Files.writeString(plan, plan("data"), StandardCharsets.UTF_8);
+            Files.writeString(plan, plan("data", draws), StandardCharsets.UTF_8);
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
@@ -123,9 +135,11 @@ final class SparkScale {
         spark.sparkContext().getPersistentRDDs().values().foreach(r -> r.unpersist(true));
         String singleMachine = single == null ? "not run" : SingleMachineRun.measure(Path.of(single), plan,
                 folder.resolve("single-run"));
-        return String.format(Locale.ROOT, "| %,d | %.1f | %.1f | %.1f | %.1fx | %.1f | %.1f | %,d | %,d | %,d | %s |",
+        String drawSeconds = draws == 0 ? "none" : String.format(Locale.ROOT, "%.1f (%,d draws)",
+                nullDrawSeconds(folder.resolve("spark-run").resolve("summary.json")), draws);
+        return String.format(Locale.ROOT, "| %,d | %.1f | %.1f | %.1f | %.1fx | %.1f | %.1f | %,d | %,d | %,d | %s | %s |",
                 rows, timed.seconds, global, perCluster, timed.seconds / perCluster, whole - timed.seconds, whole,
-                heap >> 20, cached >> 20, kept >> 10, singleMachine);
+                heap >> 20, cached >> 20, kept >> 10, drawSeconds, singleMachine);
     }
 
     /**
@@ -153,19 +167,32 @@ final class SparkScale {
         return pmod(xxhash64(col("id"), lit(stream)), lit(1L << 24)).divide((double) (1L << 24)).minus(0.5);
     }
 
-    /** Every subset of the ten controls (1,024), with HC1 and cluster errors: 2,048 specifications. */
-    static String plan(String data) {
+    /** The null draws' time as summary.json records it ({@code null.seconds}). */
+    private static double nullDrawSeconds(Path summary) {
+        try {
+            return new com.fasterxml.jackson.databind.ObjectMapper().readTree(summary.toFile()).get("null").get("seconds")
+                    .asDouble();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /**
+     * Every subset of the ten controls (1,024), with HC1 and cluster errors: 2,048 specifications; with
+     * {@code draws} bootstrap null draws (whole clusters of g, the errors' clusters, by default).
+     */
+    static String plan(String data, int draws) {
         StringBuilder optional = new StringBuilder();
         for (int j = 1; j <= CONTROLS; j++) {
             optional.append(j == 1 ? "" : ", ").append("\"c").append(j).append('"');
         }
         return """
-                {"data": "%s", "decisions": [
+                {"data": "%s", "nullDraws": %d, "seed": 2026, "decisions": [
                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
                   {"name": "controls", "kind": "controls", "optional": [%s]},
                   {"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g"]}]}
-                """.formatted(data, optional);
+                """.formatted(data, draws, optional);
     }
 
     private static String[] columns() {
@@ -251,16 +278,24 @@ final class SparkScale {
         @Override
         public VariantSource variants(Plan plan, Table table) {
             VariantSource source = data.variants(plan, table);
-            return (key, pool) -> {
-                long start = System.nanoTime();
-                DataVariant v = source.variant(key, pool);
-                synchronized (this) {
-                    seconds += (System.nanoTime() - start) / 1e9;
-                    if (!variants.contains(v)) {
-                        variants.add(v);
+            return new VariantSource() {
+                @Override
+                public DataVariant variant(VariantKey key, java.util.concurrent.ExecutorService pool) {
+                    long start = System.nanoTime();
+                    DataVariant v = source.variant(key, pool);
+                    synchronized (Timed.this) {
+                        seconds += (System.nanoTime() - start) / 1e9;
+                        if (!variants.contains(v)) {
+                            variants.add(v);
+                        }
                     }
+                    return v;
                 }
-                return v;
+
+                @Override
+                public BootstrapByParts bootstrap(BootstrapDesign design) {
+                    return source.bootstrap(design);
+                }
             };
         }
 

@@ -13,6 +13,8 @@ import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
 import org.forkscape.InputException;
 import org.forkscape.data.Table;
+import org.forkscape.fit.BootstrapByParts;
+import org.forkscape.fit.BootstrapDesign;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.VariantByParts;
 import org.forkscape.fit.VariantKey;
@@ -32,7 +34,7 @@ import org.forkscape.plan.PlanReader;
  */
 final class SparkVariants implements VariantSource, VariantParts {
     private final SparkSession spark;
-    private final JavaRDD<Table> parts;
+    private final JavaRDD<SparkPart> parts;
     private final String planText;
     private final String planFolder;
     private final VariantByParts whole;
@@ -40,13 +42,14 @@ final class SparkVariants implements VariantSource, VariantParts {
     private final Map<VariantKey, DataVariant> built = new ConcurrentHashMap<>();
 
     /**
-     * @param parts      each partition's rows as one table, kept in executor memory between the passes
+     * @param parts      each partition's rows as one table (with the rows' identities when bootstrap draws are
+     *                   asked for), kept in executor memory between the passes
      * @param planText   the plan file's text, read again on the executors (a plan is not serializable)
      * @param planFolder the plan's folder
      * @param columns    the plan's columns without rows (the driver's table)
      * @param grouping   the sorted values of the numeric grouping columns over the whole data set
      */
-    SparkVariants(SparkSession spark, JavaRDD<Table> parts, String planText, Path planFolder, Plan plan,
+    SparkVariants(SparkSession spark, JavaRDD<SparkPart> parts, String planText, Path planFolder, Plan plan,
             Table columns, WholeRows grouping) {
         this.spark = spark;
         this.parts = parts;
@@ -107,9 +110,18 @@ final class SparkVariants implements VariantSource, VariantParts {
     }
 
     /** The coding of one partition's rows, the plan read again from its text on the executor. */
-    private static VariantByParts coding(String planText, String planFolder, Table table) {
+    private static VariantByParts coding(String planText, String planFolder, SparkPart part) {
         Plan plan = new PlanReader(false).read(planText, Path.of(planFolder));
-        return new VariantByParts(plan, table);
+        return new VariantByParts(plan, part.table(), part.rowKeys());
+    }
+
+    /**
+     * Poisson bootstrap draws over the same partitions: each draw's statistics are summed where the rows are,
+     * several draws per pass, and reduced in partition order as the observed ones are.
+     */
+    @Override
+    public BootstrapByParts bootstrap(BootstrapDesign design) {
+        return new BootstrapByParts(whole, this, design);
     }
 
     /** A possibly null result, so that Spark never handles a null element. */

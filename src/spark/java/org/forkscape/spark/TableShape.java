@@ -70,8 +70,11 @@ final class TableShape implements Serializable {
         return Table.withoutRows(source, columns, rows);
     }
 
-    /** One partition's rows (the columns of {@link #names}, in order) as a table coded like the whole. */
-    Table part(Iterator<Row> rows) {
+    /**
+     * One partition's rows (the columns of {@link #names}, in order) as a table coded like the whole; with
+     * {@code keyed}, each row's two further fields (file name, row index; {@link RowIdentity}) give its identity.
+     */
+    SparkPart part(Iterator<Row> rows, boolean keyed) {
         int p = names.length;
         List<Map<String, Integer>> codeOf = new ArrayList<>();
         for (int c = 0; c < p; c++) {
@@ -92,10 +95,15 @@ final class TableShape implements Serializable {
                 numbers[c] = new double[1024];
             }
         }
+        long[] keys = keyed ? new long[1024] : null;
+        Map<String, Long> fileHash = new HashMap<>();
         int n = 0;
         while (rows.hasNext()) {
             Row row = rows.next();
             if (n == (categorical[0] ? codes[0].length : numbers[0].length)) {
+                if (keyed) {
+                    keys = Arrays.copyOf(keys, 2 * n);
+                }
                 for (int c = 0; c < p; c++) {
                     if (categorical[c]) {
                         codes[c] = Arrays.copyOf(codes[c], 2 * n);
@@ -111,6 +119,9 @@ final class TableShape implements Serializable {
                     numbers[c][n] = row.isNullAt(c) ? Double.NaN : number(row.get(c));
                 }
             }
+            if (keyed) {
+                keys[n] = RowIdentity.key(fileHash, row.getString(p), row.getLong(p + 1));
+            }
             n++;
         }
         List<Column> columns = new ArrayList<>(p);
@@ -118,7 +129,7 @@ final class TableShape implements Serializable {
             columns.add(categorical[c] ? new CategoricalColumn(names[c], Arrays.copyOf(codes[c], n),
                     List.of(levels[c])) : new NumericColumn(names[c], Arrays.copyOf(numbers[c], n)));
         }
-        return new Table("partition", columns);
+        return new SparkPart(new Table("partition", columns), keyed ? Arrays.copyOf(keys, n) : null);
     }
 
     private static double number(Object v) {

@@ -185,6 +185,19 @@ class CrossedDummyLeverageTest {
         }
         assertTrue(worst <= ABSOLUTE, where + ": largest difference " + worst + " from Commons Math's SVD "
                 + "pseudo-inverse of D'WD");
+        // the leverages of a projection sum to its rank (textbook: the trace of an idempotent matrix), here the
+        // dummies' rank by connected components
+        double trace = 0;
+        for (int r : rows) {
+            trace += leverage.at(r);
+        }
+        int[] unit = new int[rows.length];
+        int[] period = new int[rows.length];
+        for (int i = 0; i < rows.length; i++) {
+            unit[i] = d.unit[rows[i]];
+            period[i] = d.period[rows[i]];
+        }
+        assertEquals(FixedEffectRank.ofTwo(unit, d.units, period, d.periods), trace, 1e-9, where + ": the leverages' sum");
     }
 
     private static int[] all(int n) {

@@ -36,19 +36,28 @@ class ExploreTwoWayEffectsApiTest extends WebTest {
         return out;
     }
 
-    @Test
-    void theFullFitOfASpecificationWithBothEffectsAbsorbedIsLmsWithDummies() throws Exception {
-        String analysis = upload("school-panel.csv", Files.readString(reference("school-panel.csv")));
-        String plan = Files.readString(reference("school-panel-plan.json")).replace("\"school-panel.csv\"", "\"data.csv\"");
-        String run = runToEnd(analysis, plan);
-        String base = "/api/analyses/" + analysis + "/runs/" + run;
+    /** A run's API address, its specifications.csv and R's reference rows, each by spec number. */
+    private record Ran(String base, Map<String, CSVRecord> written, Map<String, CSVRecord> expected) {
+    }
+
+    /** Uploads {@code name}.csv, runs {@code name}-plan.json on it through the web door, and reads the results. */
+    private Ran run(String name) throws Exception {
+        String analysis = upload(name + ".csv", Files.readString(reference(name + ".csv")));
+        String plan = Files.readString(reference(name + "-plan.json")).replace("\"" + name + ".csv\"", "\"data.csv\"");
+        String base = "/api/analyses/" + analysis + "/runs/" + runToEnd(analysis, plan);
         String file = mvc.perform(get(base.replace("/api/", "/") + "/files/specifications.csv")).andExpect(status().isOk())
                 .andReturn().getResponse().getContentAsString();
-        Map<String, CSVRecord> written = bySpec(new StringReader(file));
-        Map<String, CSVRecord> expected;
-        try (Reader in = Files.newBufferedReader(reference("school-panel-expected.csv"), StandardCharsets.UTF_8)) {
-            expected = bySpec(in);
+        try (Reader in = Files.newBufferedReader(reference(name + "-expected.csv"), StandardCharsets.UTF_8)) {
+            return new Ran(base, bySpec(new StringReader(file)), bySpec(in));
         }
+    }
+
+    @Test
+    void theFullFitOfASpecificationWithBothEffectsAbsorbedIsLmsWithDummies() throws Exception {
+        Ran ran = run("school-panel");
+        String base = ran.base();
+        Map<String, CSVRecord> written = ran.written();
+        Map<String, CSVRecord> expected = ran.expected();
         // spec 18: score on hours, no controls, both schools, pupil and term effects, HC1
         CSVRecord r = expected.get("18");
         assertEquals("pupil and term", r.get("effects"));
@@ -83,18 +92,10 @@ class ExploreTwoWayEffectsApiTest extends WebTest {
      */
     @Test
     void theFullFitOfAnHc3SpecificationWithBothEffectsAbsorbedIsSandwichs() throws Exception {
-        String analysis = upload("school-panel-leverage.csv", Files.readString(reference("school-panel-leverage.csv")));
-        String plan = Files.readString(reference("school-panel-leverage-plan.json"))
-                .replace("\"school-panel-leverage.csv\"", "\"data.csv\"");
-        String run = runToEnd(analysis, plan);
-        String base = "/api/analyses/" + analysis + "/runs/" + run;
-        String file = mvc.perform(get(base.replace("/api/", "/") + "/files/specifications.csv")).andExpect(status().isOk())
-                .andReturn().getResponse().getContentAsString();
-        Map<String, CSVRecord> written = bySpec(new StringReader(file));
-        Map<String, CSVRecord> expected;
-        try (Reader in = Files.newBufferedReader(reference("school-panel-leverage-expected.csv"), StandardCharsets.UTF_8)) {
-            expected = bySpec(in);
-        }
+        Ran ran = run("school-panel-leverage");
+        String base = ran.base();
+        Map<String, CSVRecord> written = ran.written();
+        Map<String, CSVRecord> expected = ran.expected();
         // specs 20, 22, 24: no controls, pupils seen twice or more, pupil and term effects, unweighted, design and
         // survey weights, HC3
         for (String spec : new String[] {"20", "22", "24"}) {

@@ -15,7 +15,8 @@ import org.forkscape.plan.ErrorType;
  * G/(G-1) (N-1)/(N-K) sum over clusters of (sum_i e_i W_ij)^2 (CR1; Cameron &amp; Miller 2015, J. Human
  * Resources 50(2)), for multi-way clustering the signed sum of that over the intersections of its columns
  * ({@link ClusterComponents}); classical ones are s^2 (X'X)^-1, with s^2 (1/n + xbar'(X'X)^-1 xbar) for the intercept.
- * The leverage h_i = 1/n_level + x_i'(X'X)^-1 x_i is that of the model with explicit intercept or dummies.
+ * The leverage h_i = 1/n_level + x_i'(X'X)^-1 x_i is that of the model with explicit intercept or dummies;
+ * beside two absorbed columns the first term is the crossed dummies' leverage ({@link CrossedDummyLeverage}).
  */
 final class EveryCoefficient {
     private EveryCoefficient() {
@@ -73,6 +74,10 @@ final class EveryCoefficient {
         double[] w = new double[q];
         double[] m = s.m;
         boolean leverageOne = false;
+        boolean leverages = errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3;
+        // beside two absorbed columns the crossed dummies' own part of each leverage (usable: the key fit that
+        // precedes a full fit has the status of an ill-conditioned one)
+        CrossedDummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
         for (int i = 0; i < n; i++) {
             double e = rows.y[i];
             for (int c = 0; c < p; c++) {
@@ -99,10 +104,10 @@ final class EveryCoefficient {
             if (intercept) {
                 w[p] = interceptWeight;
             }
-            double h = (rows.weighted ? rows.weight[i] / mom.levelWeight[rows.level[i]]
-                    : 1.0 / mom.levelCount[rows.level[i]]) + tt;
+            double h = (dummies != null ? dummies.at(rows.source[i]) : rows.weighted
+                    ? rows.weight[i] / mom.levelWeight[rows.level[i]] : 1.0 / mom.levelCount[rows.level[i]]) + tt;
             double divisor = 1;
-            if (errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3) {
+            if (leverages) {
                 if (h > KeyCoefficientSandwich.LEVERAGE_ONE) {
                     leverageOne = true;
                 }

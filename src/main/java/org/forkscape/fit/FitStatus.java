@@ -21,6 +21,9 @@ public enum FitStatus {
             + "terms outweigh the others)"),
     /** Detail: the error type's label. */
     LEVERAGE_ONE("undefined: leverage 1 for %s (a row fits perfectly, such as a fixed-effect level with one row)"),
+    /** Detail: the error type's label. */
+    LEVERAGE_ILL_CONDITIONED("undefined: the fixed effects' leverages for %s cannot be computed to full precision "
+            + "(groups of levels of the two absorbed columns are joined by rows of almost no weight)"),
     /** Detail: the iteration limit. */
     NOT_CONVERGED("not converged after %s iterations"),
     /** Detail: which rows are fitted at the boundary. */

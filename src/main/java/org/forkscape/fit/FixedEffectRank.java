@@ -50,7 +50,7 @@ final class FixedEffectRank {
     }
 
     /** The root of v's set, halving the path on the way (parent modified). */
-    private static int root(int[] parent, int v) {
+    static int root(int[] parent, int v) {
         while (parent[v] != v) {
             parent[v] = parent[parent[v]];
             v = parent[v];

@@ -11,7 +11,9 @@ import org.forkscape.plan.ErrorType;
  * covariance matrix estimators with improved finite sample properties", J. Econometrics 29(3)); CR1 =
  * G/(G-1) (N-1)/(N-K) sum over clusters of (sum e_i u_i)^2 (Cameron &amp; Miller 2015, "A practitioner's
  * guide to cluster-robust inference", J. Human Resources 50(2)). Leverages h_i = 1/n_level + ||M x_i||^2,
- * the hat matrix of the model with explicit intercept or dummies. Weighted least squares is the same pass
+ * the hat matrix of the model with explicit intercept or dummies; beside two absorbed columns the first term
+ * is the crossed dummies' own leverage ({@link CrossedDummyLeverage}), the hat matrix of a partitioned
+ * regression being the sum of the dummies' and the demeaned columns' (Frisch-Waugh-Lovell). Weighted least squares is the same pass
  * over rows scaled by sqrt(w_i): the scores become w_i e_i x_i and h_i = w_i / W_level + w_i ||M x_i||^2,
  * which is what {@code sandwich}'s {@code estfun.lm} and {@code hatvalues} give for a weighted {@code lm}
  * (Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical Software
@@ -44,6 +46,13 @@ final class KeyCoefficientSandwich {
         boolean scaleRows;
         int[] cluster;
         int clusterCount;
+        /**
+         * Beside two absorbed columns, for HC2 and HC3: the dummies' part of each row's leverage, by variant row;
+         * null otherwise (the part is then 1/n_level, or w_i/W_level).
+         */
+        CrossedDummyLeverage dummies;
+        /** The variant row of each row the view reads, when they are materialised rows; null when rows are variant rows. */
+        int[] source;
         private double[][] offsets = new double[0][];
         private double[] yOffsets = new double[0];
 
@@ -84,6 +93,8 @@ final class KeyCoefficientSandwich {
             this.scaleRows = v.weight != null;
             this.cluster = clusterCodes;
             this.clusterCount = clusters;
+            this.dummies = null;
+            this.source = null;
             return this;
         }
 
@@ -119,6 +130,14 @@ final class KeyCoefficientSandwich {
             this.scaleRows = false;
             this.cluster = design.cluster;
             this.clusterCount = clusters;
+            this.dummies = null;
+            this.source = design.source;
+            return this;
+        }
+
+        /** Sets the dummies' part of the leverages (see {@link #dummies}); returns this. */
+        RowView withDummyLeverage(CrossedDummyLeverage d) {
+            this.dummies = d;
             return this;
         }
     }
@@ -168,6 +187,9 @@ final class KeyCoefficientSandwich {
         }
         s.keyRow(w);
         boolean leverage = type.kind() == ErrorType.Kind.HC2 || type.kind() == ErrorType.Kind.HC3;
+        if (leverage && view.dummies != null && view.dummies.illConditioned) {
+            return new Variance(Double.NaN, 0, FitStatus.LEVERAGE_ILL_CONDITIONED, type.label());
+        }
         if (leverage) {
             for (int i = 0; i < p; i++) {
                 for (int j = 0; j <= i; j++) {
@@ -258,7 +280,12 @@ final class KeyCoefficientSandwich {
                     }
                 }
             } else if (leverage) {
-                if (view.weight == null) {
+                if (view.dummies != null) {
+                    // two absorbed columns: the crossed dummies' exact part, weighted by w_i when weighted
+                    for (int z = 0; z < len; z++) {
+                        blockH[z] = view.dummies.at(view.source == null ? blockRow[z] : view.source[blockRow[z]]);
+                    }
+                } else if (view.weight == null) {
                     for (int z = 0; z < len; z++) {
                         blockH[z] = 1.0 / view.levelCount[blockLevel[z]];
                     }

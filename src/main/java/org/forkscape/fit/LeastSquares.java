@@ -104,11 +104,6 @@ public final class LeastSquares implements Estimator {
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     free.route(), sdRatio);
         }
-        if (variant.absorbsSeveral && (spec.errors().kind() == ErrorType.Kind.HC2
-                || spec.errors().kind() == ErrorType.Kind.HC3)) {
-            // the leverages of several crossed dummies have no closed form; PlanChecker refuses the plan
-            throw new IllegalStateException(spec.errors().label() + " with several absorbed columns");
-        }
         KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
         KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
         if (v.failure() != null) {

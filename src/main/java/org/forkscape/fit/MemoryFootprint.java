@@ -66,6 +66,23 @@ public final class MemoryFootprint {
         return cached + Math.min(threads, usableSets) * build;
     }
 
+    /**
+     * HC2 and HC3 beside two absorbed columns: each usable set's {@link CrossedDummyLeverage} (per level of the
+     * column with more levels its first pair, per pair of levels present its level and value; at most one pair
+     * per row), and each worker building one: its rows sorted by level, the pairs' weight sums, and the dense
+     * Schur complement over the smaller column's levels with the copies its Cholesky factorisation and
+     * inverse make (five matrices of that order at once).
+     *
+     * @param leverageSets usable sets with HC2 or HC3 specifications
+     */
+    public static long crossedLeverages(int rows, int largerLevels, int smallerLevels, long leverageSets,
+            int threads) {
+        long held = CrossedDummyLeverage.bytes(largerLevels, rows) + 2 * ARRAY;
+        long build = 5 * DOUBLE * smallerLevels * (long) smallerLevels + (2 * INT + DOUBLE) * (long) rows
+                + (3 * INT + DOUBLE) * (long) (largerLevels + smallerLevels);
+        return leverageSets * held + Math.min(threads, leverageSets) * build;
+    }
+
     /** What building one {@link Moments} holds for a while: each level's sums and cross-products. */
     public static long momentsBuild(int columns, int levels) {
         return DOUBLE * levels * (columns + (long) columns * columns) + ARRAY * 2L * levels;

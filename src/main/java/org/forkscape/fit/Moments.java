@@ -54,6 +54,23 @@ public final class Moments {
         return f;
     }
 
+    private volatile CrossedDummyLeverage dummyLeverage;
+
+    /** Beside two absorbed columns: the dummies' part of these rows' leverages (HC2, HC3), built on first use. */
+    CrossedDummyLeverage dummyLeverage() {
+        CrossedDummyLeverage d = dummyLeverage;
+        if (d == null) {
+            synchronized (this) {
+                d = dummyLeverage;
+                if (d == null) {
+                    d = CrossedDummyLeverage.of(this);
+                    dummyLeverage = d;
+                }
+            }
+        }
+        return d;
+    }
+
     ClusterMoments.Usable clusterCells(String column) {
         return clusterCells.computeIfAbsent(column, c -> variant.clusterMoments(c).usable(this));
     }

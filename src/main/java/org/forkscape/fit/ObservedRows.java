@@ -53,6 +53,8 @@ public final class ObservedRows implements FitData {
                 ? errors.label() + " leverages" : "a row pass for its " + errors.label() + " standard error (the "
                 + "route from stored sums could lose digits here)");
         int[] codes = clusterCodes(errors);
+        boolean leverages = errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3;
+        CrossedDummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
         if (refit) {
             if (codes != null) {
                 // a multi-way error type reads the refit rows once per component clustering
@@ -60,11 +62,11 @@ public final class ObservedRows implements FitData {
                     rows.cluster[i] = codes[rows.source[i]];
                 }
             }
-            return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows));
+            return view.overRows(rows, positions, s.p, mom, clusterCountOf(rows)).withDummyLeverage(dummies);
         }
         int count = codes == null ? 0 : variant.clusterCounts.get(errors.clusterColumn());
         return view.over(variant.rowColumns(mom), s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
-                count);
+                count).withDummyLeverage(dummies);
     }
 
     @Override

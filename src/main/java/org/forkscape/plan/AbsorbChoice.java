@@ -10,6 +10,13 @@ public record AbsorbChoice(String label, List<String> columns) {
      */
     public static final int MAX_COLUMNS = 2;
 
+    /**
+     * Most levels, on the one of two absorbed columns with fewer of them, for HC2 and HC3 errors: their
+     * leverages factor and invert a dense matrix of that order once per set of usable rows (2,000: 32 MB and
+     * about 8e9 multiply-adds; the cost grows with the cube).
+     */
+    public static final int MAX_LEVERAGE_LEVELS = 2_000;
+
     public AbsorbChoice {
         columns = List.copyOf(columns);
     }

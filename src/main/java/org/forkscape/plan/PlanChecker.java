@@ -42,14 +42,8 @@ public final class PlanChecker {
                     for (String column : t.clusterColumns()) {
                         problems.attempt(() -> existing(column, p, table));
                     }
-                    String several = plan.severalAbsorbedPath();
-                    if ((t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) && several != null) {
-                        problems.attempt(() -> {
-                            throw new PlanException(p, InputException.quoted(t.label()) + " needs each row's "
-                                    + "leverage, which has no exact closed form when several fixed-effect columns "
-                                    + "are absorbed (" + several + "); use HC0, HC1 or cluster errors, or absorb one "
-                                    + "column and enter the other as a categorical control");
-                        });
+                    if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
+                        problems.attempt(() -> leverageLevels(t, p, plan, table));
                     }
                 }
             } else if (d instanceof Decision.Model m) {
@@ -181,6 +175,60 @@ public final class PlanChecker {
                         + (count == 1 ? " " : "s ") + rows + " (counting data rows from 1)");
             }
         }
+    }
+
+    /**
+     * HC2 and HC3 beside two absorbed columns take each row's leverage from a dense factorisation over the
+     * levels of the column with fewer of them ({@code fit.CrossedDummyLeverage}): at most
+     * {@link AbsorbChoice#MAX_LEVERAGE_LEVELS} levels there, counted over the table's rows where both columns
+     * have a value (no specification's rows hold more). A column that is not in the table is reported at its
+     * own field.
+     */
+    private static void leverageLevels(ErrorType t, String path, Plan plan, Table table) {
+        if (!table.holdsRows()) {
+            return;
+        }
+        List<Decision> ds = plan.decisions();
+        for (int i = 0; i < ds.size(); i++) {
+            if (!(ds.get(i) instanceof Decision.Absorb a)) {
+                continue;
+            }
+            for (int j = 0; j < a.alternatives().size(); j++) {
+                AbsorbChoice choice = a.alternatives().get(j);
+                List<String> cols = choice.columns();
+                if (cols.size() != 2 || table.find(cols.get(0)).isEmpty() || table.find(cols.get(1)).isEmpty()) {
+                    continue;
+                }
+                long[] levels = levelsWhereBoth(table.column(cols.get(0)), table.column(cols.get(1)));
+                if (Math.min(levels[0], levels[1]) > AbsorbChoice.MAX_LEVERAGE_LEVELS) {
+                    throw new PlanException(path, InputException.quoted(t.label()) + " beside two absorbed columns "
+                            + "needs each row's leverage, computed exactly from a factorisation over the levels of the "
+                            + "column with fewer of them; here " + InputException.quoted(cols.get(0)) + " has "
+                            + String.format("%,d", levels[0]) + " and " + InputException.quoted(cols.get(1)) + " "
+                            + String.format("%,d", levels[1]) + " levels (decisions[" + i + "].alternatives[" + j
+                            + "], " + choice.label() + "), more than the " + String.format("%,d",
+                            AbsorbChoice.MAX_LEVERAGE_LEVELS) + " that keep it cheap; use HC0, HC1 or cluster errors, "
+                            + "or absorb one column and enter the other as a categorical control");
+                }
+            }
+        }
+    }
+
+    /** The distinct values of two grouping columns over the rows where both have one. */
+    private static long[] levelsWhereBoth(Column first, Column second) {
+        java.util.Set<Object> a = new java.util.HashSet<>();
+        java.util.Set<Object> b = new java.util.HashSet<>();
+        for (int r = 0; r < first.size(); r++) {
+            if (!first.isMissing(r) && !second.isMissing(r)) {
+                a.add(valueAt(first, r));
+                b.add(valueAt(second, r));
+            }
+        }
+        return new long[] {a.size(), b.size()};
+    }
+
+    private static Object valueAt(Column c, int row) {
+        return c instanceof CategoricalColumn cat ? (Object) cat.codes()[row] : (Object) ((NumericColumn) c).values()[row];
     }
 
     /** A generalized linear model enters absorbed fixed effects as coefficients: at most so many levels. */

@@ -75,6 +75,12 @@ final class MethodsText {
                     + "Portugal 2010, Stata Journal 10(4); Hestenes & Stiefel 1952, Journal of Research of the National "
                     + "Bureau of Standards 49(6)), and counted in K by the rank of their dummies: their levels "
                     + "less one per connected component of the levels' bipartite graph.");
+            if (errors.contains(ErrorType.Kind.HC2) || errors.contains(ErrorType.Kind.HC3)) {
+                s.add("Beside them, the leverages of HC2/HC3 were exact: the hat matrix of the partitioned regression "
+                        + "is the dummies' plus the demeaned columns' (Frisch-Waugh-Lovell; Davidson & MacKinnon 2004, "
+                        + "Econometric Theory and Methods, sections 2.4 and 2.6), the dummies' part from the Schur "
+                        + "complement of their cross-product matrix, one level fixed per connected component.");
+            }
         }
         if (plan.all(Decision.Weights.class).stream().flatMap(w -> w.alternatives().stream())
                 .anyMatch(WeightChoice::weighted)) {

@@ -209,6 +209,15 @@ public final class MemoryEstimate {
             long moments = usable * MemoryFootprint.moments(columns, levels, pv.robust > 0 ? rows : 0)
                     + workers * MemoryFootprint.momentsBuild(columns, levels)
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
+            long leverages = 0;
+            if (several && pv.leverageSeen > 0) {
+                // HC2 and HC3: the crossed dummies' leverages of each usable set they use
+                int first = count(LevelCodes.of(table.column(absorbedColumns.get(0))));
+                int second = count(LevelCodes.of(table.column(absorbedColumns.get(1))));
+                leverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second), Math.min(first, second),
+                        SpecificationMix.usableSets(pv.leverageMasks, pv.leverageSeen, pv.leverage, maxUsableSets),
+                        workers);
+            }
             long fourth = 0;
             if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
                     profile.meanColumns)) {
@@ -254,6 +263,7 @@ public final class MemoryEstimate {
             variantParts.put("the largest data variant's columns, cross-products and cached moments", base
                     + MemoryFootprint.variantBuild(rows, columns, variantCells, workers) + moments);
             variantParts.put("the fourth-moment tensors of the HC0/HC1 sandwich", fourth);
+            variantParts.put("the two absorbed columns' leverages of the HC2/HC3 sandwich", leverages);
             variantParts.put("the per-cluster cells of the cluster-robust sandwich", clusterCells);
             variantParts.put("the fitting threads' row buffers for refits by QR", fitterRows);
             variantParts.put("the generalized linear models' rows, iteration state and starts", glmFitters + starts);

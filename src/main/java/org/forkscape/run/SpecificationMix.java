@@ -35,8 +35,12 @@ final class SpecificationMix {
         long robust;
         long seen;
         long hcSeen;
+        /** HC2 and HC3 specifications (scaled to the run, and sampled), and the missing masks they use. */
+        long leverage;
+        long leverageSeen;
         final Set<Long> masks = new HashSet<>();
         final Set<Long> hcMasks = new HashSet<>();
+        final Set<Long> leverageMasks = new HashSet<>();
         final Map<String, Long> clusterSpecifications = new HashMap<>();
         final Map<String, Long> clusterSeen = new HashMap<>();
         final Map<String, Set<Long>> clusterMasks = new HashMap<>();
@@ -95,7 +99,12 @@ final class SpecificationMix {
                     v.robust++;
                     v.hcMasks.add(mask);
                 }
-                case HC2, HC3 -> v.robust++;
+                case HC2, HC3 -> {
+                    v.robust++;
+                    v.leverage++;
+                    v.leverageSeen++;
+                    v.leverageMasks.add(mask);
+                }
                 case CLUSTER -> {
                     v.robust++;
                     for (ClusterComponents.Component c : ClusterComponents.of(m.errors())) {
@@ -114,6 +123,7 @@ final class SpecificationMix {
             v.specifications = Math.round(v.seen * scale);
             v.hc = Math.round(v.hc * scale);
             v.robust = Math.round(v.robust * scale);
+            v.leverage = Math.round(v.leverage * scale);
             v.clusterSpecifications.replaceAll((k, c) -> Math.round(c * scale));
         }
         return p;

@@ -4,7 +4,6 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.SplittableRandom;
-import org.apache.commons.math3.linear.Array2DRowRealMatrix;
 import org.apache.commons.math3.linear.ArrayRealVector;
 import org.apache.commons.math3.linear.RealMatrix;
 import org.apache.commons.math3.linear.RealVector;
@@ -21,53 +20,10 @@ class AlternatingProjectionsTest {
     /** The stated accuracy of the demeaned columns: 1e-12 relative to the column's norm about its mean. */
     static final double RELATIVE = 1e-12;
 
-    /** An unbalanced two-way design over {@code groups} disconnected blocks of units and periods. */
-    private record Design(int[] unit, int units, int[] period, int periods) {
-        static Design of(long seed, int groups, int unitsPerGroup, int periodsPerGroup, double observed) {
-            SplittableRandom random = new SplittableRandom(seed);
-            int n = 0;
-            int[] unit = new int[groups * unitsPerGroup * periodsPerGroup + groups];
-            int[] period = new int[unit.length];
-            for (int g = 0; g < groups; g++) {
-                for (int u = 0; u < unitsPerGroup; u++) {
-                    for (int t = 0; t < periodsPerGroup; t++) {
-                        if (random.nextDouble() < observed) {
-                            unit[n] = g * unitsPerGroup + u;
-                            period[n] = g * periodsPerGroup + t;
-                            n++;
-                        }
-                    }
-                }
-            }
-            // one unit seen once per group: singletons
-            int units = groups * unitsPerGroup;
-            for (int g = 0; g < groups; g++) {
-                unit[n] = units++;
-                period[n] = g * periodsPerGroup;
-                n++;
-            }
-            return new Design(java.util.Arrays.copyOf(unit, n), units, java.util.Arrays.copyOf(period, n),
-                    groups * periodsPerGroup);
-        }
-
-        int n() {
-            return unit.length;
-        }
-
-        RealMatrix dummies() {
-            RealMatrix d = new Array2DRowRealMatrix(n(), units + periods);
-            for (int i = 0; i < n(); i++) {
-                d.setEntry(i, unit[i], 1);
-                d.setEntry(i, units + period[i], 1);
-            }
-            return d;
-        }
-    }
-
     @Test
     void theDemeanedColumnIsTheResidualOnTheExplicitDummies() {
         for (int groups = 1; groups <= 3; groups++) {
-            Design design = Design.of(1000 + groups, groups, 25, 7, 0.75);
+            TwoWayDesign design = TwoWayDesign.of(1000 + groups, groups, 25, 7, 0.75);
             double[] x = column(design, 7 * groups, false);
             double[] weights = null;
             check(design, x, weights, "groups " + groups);
@@ -76,7 +32,7 @@ class AlternatingProjectionsTest {
 
     @Test
     void weightedLevelMeansGiveTheWeightedResidual() {
-        Design design = Design.of(77, 2, 20, 6, 0.8);
+        TwoWayDesign design = TwoWayDesign.of(77, 2, 20, 6, 0.8);
         SplittableRandom random = new SplittableRandom(78);
         double[] weights = new double[design.n()];
         for (int i = 0; i < weights.length; i++) {
@@ -89,12 +45,12 @@ class AlternatingProjectionsTest {
     @Test
     void theRankLosesOneLevelPerConnectedComponent() {
         for (int groups = 1; groups <= 4; groups++) {
-            Design design = Design.of(2000 + groups, groups, 12, 5, 0.6);
+            TwoWayDesign design = TwoWayDesign.of(2000 + groups, groups, 12, 5, 0.6);
             int rank = new SingularValueDecomposition(design.dummies()).getRank();
-            assertEquals(rank, FixedEffectRank.ofTwo(design.unit, design.units, design.period, design.periods),
+            assertEquals(rank, FixedEffectRank.ofTwo(design.unit(), design.units(), design.period(), design.periods()),
                     "rank with " + groups + " components, Commons Math SingularValueDecomposition.getRank");
             // the blocks share no levels, so at least one level is lost per block (more where a block splits)
-            assertTrue(rank <= design.units + design.periods - groups, "rank " + rank + " with " + groups
+            assertTrue(rank <= design.units() + design.periods() - groups, "rank " + rank + " with " + groups
                     + " disconnected blocks");
         }
     }
@@ -111,21 +67,21 @@ class AlternatingProjectionsTest {
             unit[2 * u + 1] = u;
             period[2 * u + 1] = u + 1;
         }
-        Design design = new Design(unit, units, period, units + 1);
+        TwoWayDesign design = new TwoWayDesign(unit, units, period, units + 1);
         check(design, column(design, 5, false), null, "chain");
     }
 
-    private static double[] column(Design design, long seed, boolean withEffects) {
+    private static double[] column(TwoWayDesign design, long seed, boolean withEffects) {
         SplittableRandom random = new SplittableRandom(seed);
-        double[] unitEffect = random.doubles(design.units).toArray();
+        double[] unitEffect = random.doubles(design.units()).toArray();
         double[] x = new double[design.n()];
         for (int i = 0; i < x.length; i++) {
-            x[i] = 100 + random.nextGaussian() + (withEffects ? 5 * unitEffect[design.unit[i]] : 0) + design.period[i];
+            x[i] = 100 + random.nextGaussian() + (withEffects ? 5 * unitEffect[design.unit()[i]] : 0) + design.period()[i];
         }
         return x;
     }
 
-    private static void check(Design design, double[] x, double[] weights, String where) {
+    private static void check(TwoWayDesign design, double[] x, double[] weights, String where) {
         int n = design.n();
         double mean = 0;
         for (double v : x) {
@@ -153,8 +109,8 @@ class AlternatingProjectionsTest {
         RealVector b = new SingularValueDecomposition(scaled).getSolver().solve(target);
         RealVector expected = new ArrayRealVector(x).subtract(d.operate(b));
 
-        AlternatingProjections projections = new AlternatingProjections(new int[][] {design.unit, design.period},
-                new int[] {design.units, design.periods}, weights);
+        AlternatingProjections projections = new AlternatingProjections(new int[][] {design.unit(), design.period()},
+                new int[] {design.units(), design.periods()}, weights);
         double[] demeaned = centred.clone();
         assertTrue(projections.demean(demeaned), where + ": converged");
         assertTrue(projections.iterations > 0, where + ": the projections iterated");

@@ -56,21 +56,59 @@ class PlanCheckerTest {
                 SCHOOLS));
     }
 
-    /** Two absorbed columns: HC2 and HC3 (no closed-form leverages) and the GLMs are refused at their paths. */
+    /**
+     * Two absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact), and the GLMs are
+     * refused at their path.
+     */
     @Test
     void whatTwoAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
         String both = "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"none\", "
                 + "\"columns\": []}, {\"label\": \"district and band\", \"columns\": [\"district\", \"grade_band\"]}]}";
         assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
                 "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
-                        + "\"cluster:district\", \"cluster:district+sector\"]}", both), SCHOOLS));
-        fails(plan(column("attendance"), column("tutoring"),
-                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC3\"]}", both),
-                "decisions[2].alternatives[1]", "\"HC3\" needs each row's leverage, which has no exact closed form "
-                        + "when several fixed-effect columns are absorbed (decisions[3].alternatives[1], district and band)");
+                        + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", both), SCHOOLS));
         fails(plan(column("passed"), column("tutoring"),
                 "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", both),
                 "decisions[3].alternatives[1].columns", "several fixed-effect columns are absorbed for least squares");
+    }
+
+    /**
+     * HC2 and HC3 beside two absorbed columns whose smaller one has more levels than the leverages' dense
+     * factorisation allows: refused at each such error type, naming both columns' level counts (over the rows
+     * where both have a value) and the way out; at the limit itself the plan passes.
+     */
+    @Test
+    void leveragesBesideTwoColumnsWithTooManyLevelsAreRefusedAtTheErrorType() {
+        int limit = AbsorbChoice.MAX_LEVERAGE_LEVELS;
+        Table wide = unitsAndPeriods(limit + 1);
+        String both = "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"unit and period\", "
+                + "\"columns\": [\"unit\", \"period\"]}]}";
+        String errors = "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC2\", \"HC3\"]}";
+        Plan plan = plan(column("y"), column("x"), errors, both);
+        PlanException e = assertThrows(PlanException.class, () -> PlanChecker.check(plan, wide));
+        assertEquals(List.of("decisions[2].alternatives[1]", "decisions[2].alternatives[2]"),
+                e.all().stream().map(PlanException::where).toList());
+        assertEquals("\"HC2\" beside two absorbed columns needs each row's leverage, computed exactly from a "
+                + "factorisation over the levels of the column with fewer of them; here \"unit\" has 2,002 and "
+                + "\"period\" 2,001 levels (decisions[3].alternatives[0], unit and period), more than the 2,000 that "
+                + "keep it cheap; use HC0, HC1 or cluster errors, or absorb one column and enter the other as a "
+                + "categorical control", e.problem());
+        assertDoesNotThrow(() -> PlanChecker.check(plan, unitsAndPeriods(limit)));
+    }
+
+    /**
+     * {@code periods} periods, each with its own unit and one unit seen in the first: periods + 1 units where
+     * both columns have a value, and a row whose period is missing with one more unit, which is not counted.
+     */
+    private static Table unitsAndPeriods(int periods) {
+        StringBuilder csv = new StringBuilder("y,x,unit,period\n");
+        for (int t = 0; t < periods; t++) {
+            csv.append(t % 7).append(',').append(t % 5).append(",u").append(t).append(",p").append(t).append('\n');
+        }
+        csv.append("1,2,extra,p0\n");
+        csv.append("1,2,unseen,\n");
+        return new CsvTableReader().read(new ByteArrayInputStream(csv.toString().getBytes(StandardCharsets.UTF_8)),
+                "panel.csv");
     }
 
     @Test

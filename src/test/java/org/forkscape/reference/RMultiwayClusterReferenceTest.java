@@ -1,5 +1,6 @@
 package org.forkscape.reference;
 
+import static org.forkscape.reference.ReferenceChecks.check;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -149,18 +150,5 @@ class RMultiwayClusterReferenceTest {
                 + notPositive);
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + source + ":\n"
                 + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
-    }
-
-    private static void check(List<String> failures, Map<String, Double> worst, String where, String column,
-            double actual, Map<String, String> row, String source, double tolerance) {
-        double e = ReferenceFiles.number(row.get(column));
-        double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
-        if (tolerance > 0) {
-            worst.merge(column + " (relative)", err, Math::max);
-        }
-        if (!(err <= tolerance)) {
-            failures.add(String.format("%s: %s %.17g, %s gives %.17g (tolerance %.0e)", where, column, actual, source,
-                    e, tolerance));
-        }
     }
 }

@@ -1,5 +1,7 @@
 package org.forkscape.reference;
 
+import static org.forkscape.reference.ReferenceChecks.bits;
+import static org.forkscape.reference.ReferenceChecks.check;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -94,17 +96,6 @@ class RTwoWayEffectsReferenceTest {
                 + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
     }
 
-    private static long[] bits(ResultTable r) {
-        long[] out = new long[3 * r.size()];
-        for (int slot = 0; slot < r.size(); slot++) {
-            int at = 3 * (int) r.specIndex(slot);
-            out[at] = Double.doubleToRawLongBits(r.estimate(slot));
-            out[at + 1] = Double.doubleToRawLongBits(r.stdError(slot));
-            out[at + 2] = Double.doubleToRawLongBits(r.r2(slot));
-        }
-        return out;
-    }
-
     private void agree(RunResult run, String report) {
         ResultTable r = run.results();
         List<Map<String, String>> expected = ReferenceFiles.rows("school-panel-expected.csv");
@@ -148,18 +139,5 @@ class RTwoWayEffectsReferenceTest {
         assertEquals(6 * 2 * 2 * 5, droppedBesideBoth, "specifications refitted by QR beside both effects");
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + source + ":\n"
                 + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
-    }
-
-    private static void check(List<String> failures, Map<String, Double> worst, String where, String column,
-            double actual, Map<String, String> row, String source, double tolerance) {
-        double e = ReferenceFiles.number(row.get(column));
-        double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
-        if (tolerance > 0) {
-            worst.merge(column + " (relative)", err, Math::max);
-        }
-        if (!(err <= tolerance)) {
-            failures.add(String.format("%s: %s %.17g, %s gives %.17g (tolerance %.0e)", where, column, actual, source,
-                    e, tolerance));
-        }
     }
 }

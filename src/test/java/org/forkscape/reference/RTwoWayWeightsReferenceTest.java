@@ -1,5 +1,9 @@
 package org.forkscape.reference;
 
+import static org.forkscape.reference.ReferenceChecks.bits;
+import static org.forkscape.reference.ReferenceChecks.check;
+import static org.forkscape.reference.ReferenceChecks.compareCoefficients;
+import static org.forkscape.reference.ReferenceChecks.coefficientsBySpec;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -9,7 +13,6 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.TreeMap;
@@ -120,10 +123,7 @@ class RTwoWayWeightsReferenceTest {
     void theFullFitsEveryCoefficientAgreesWithR() {
         SpecificationModels models = new SpecificationModels(plan, table);
         FullFitter fitter = new FullFitter();
-        Map<String, Map<String, Map<String, String>>> coefficientsBySpec = new LinkedHashMap<>();
-        for (Map<String, String> c : ReferenceFiles.rows("school-panel-weighted-coefficients.csv")) {
-            coefficientsBySpec.computeIfAbsent(c.get("spec"), s -> new LinkedHashMap<>()).put(c.get("term"), c);
-        }
+        Map<String, Map<String, Map<String, String>>> coefficientsBySpec = coefficientsBySpec("school-panel-weighted-coefficients.csv");
         List<String> failures = new ArrayList<>();
         Map<String, Double> worst = new TreeMap<>();
         int compared = 0;
@@ -149,19 +149,8 @@ class RTwoWayWeightsReferenceTest {
             check(failures, worst, where, "r2", fit.r2(), row, "R summary.lm r.squared", RELATIVE);
             check(failures, worst, where, "adj_r2", fit.adjustedR2(), row, "R summary.lm adj.r.squared", RELATIVE);
             check(failures, worst, where, "model_f", fit.modelF(), row, "R summary.lm fstatistic", RELATIVE);
-            Map<String, Map<String, String>> expected = coefficientsBySpec.getOrDefault(row.get("spec"), Map.of());
-            List<String> terms = fit.coefficients().stream().map(FullFit.Coefficient::term).toList();
-            if (!terms.equals(List.copyOf(expected.keySet()))) {
-                failures.add(where + ": coefficients " + terms + ", R keeps " + expected.keySet());
-                continue;
-            }
-            for (FullFit.Coefficient c : fit.coefficients()) {
-                String at = where + " " + c.term();
-                Map<String, String> r = expected.get(c.term());
-                check(failures, worst, at, "estimate", c.estimate(), r, "R lm() coefficient", RELATIVE);
-                check(failures, worst, at, "std_error", c.stdError(), r, "vcov(), vcovHC or vcovCL", RELATIVE);
-                coefficients++;
-            }
+            coefficients += compareCoefficients(fit, coefficientsBySpec.getOrDefault(row.get("spec"), Map.of()), where,
+                    "vcov(), vcovHC or vcovCL", RELATIVE, failures, worst);
         }
         AgreementReport.write("r-reference-school-panel-weighted-full-fit.txt", SOURCE, worst);
         assertEquals(40, compared, "weighted specifications with both effects absorbed");
@@ -198,17 +187,6 @@ class RTwoWayWeightsReferenceTest {
             assertEquals(1, alternatives.size(), "the plan's " + decision.get("kind").asString() + " decision holds " + keep);
         }
         return new PlanReader(false).read(mapper.writeValueAsString(root), file.getParent());
-    }
-
-    private static long[] bits(ResultTable r) {
-        long[] out = new long[3 * r.size()];
-        for (int slot = 0; slot < r.size(); slot++) {
-            int at = 3 * (int) r.specIndex(slot);
-            out[at] = Double.doubleToRawLongBits(r.estimate(slot));
-            out[at + 1] = Double.doubleToRawLongBits(r.stdError(slot));
-            out[at + 2] = Double.doubleToRawLongBits(r.r2(slot));
-        }
-        return out;
     }
 
     private void agree(RunResult run, String report) {
@@ -255,18 +233,5 @@ class RTwoWayWeightsReferenceTest {
         assertEquals(40, weightedBoth, "weighted specifications with both effects absorbed");
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + source + ":\n"
                 + String.join("\n", failures.subList(0, Math.min(20, failures.size()))));
-    }
-
-    private static void check(List<String> failures, Map<String, Double> worst, String where, String column,
-            double actual, Map<String, String> row, String source, double tolerance) {
-        double e = ReferenceFiles.number(row.get(column));
-        double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
-        if (tolerance > 0) {
-            worst.merge(column + " (relative)", err, Math::max);
-        }
-        if (!(err <= tolerance)) {
-            failures.add(String.format("%s: %s %.17g, %s gives %.17g (tolerance %.0e)", where, column, actual, source,
-                    e, tolerance));
-        }
     }
 }

@@ -10,7 +10,10 @@ import org.forkscape.run.Scale;
 import org.junit.jupiter.api.Test;
 import tools.jackson.databind.json.JsonMapper;
 
-/** The methods paragraph names the two-way demeaning and its sources only when a plan absorbs two columns. */
+/**
+ * The methods paragraph names the two-way demeaning and its sources only when a plan absorbs two columns, and the
+ * exact leverages beside them only when it also has HC2 or HC3.
+ */
 class MethodsTextTest {
     private static Plan plan(String name) throws Exception {
         return new PlanReader(false).read(Path.of(MethodsTextTest.class.getResource("/reference/" + name).toURI()));
@@ -25,5 +28,15 @@ class MethodsTextTest {
         String one = MethodsText.of(plan("plot-panel-plan.json"), summary, Scale.AS_FITTED);
         assertTrue(one.contains("within transformation"), one);
         assertFalse(one.contains("alternating projections"), one);
+        assertFalse(two.contains("leverages of HC2/HC3"), "no HC2/HC3 in that plan: " + two);
+    }
+
+    /** HC2 or HC3 beside two absorbed columns: the exact leverages and their source. */
+    @Test
+    void leveragesBesideTwoAbsorbedColumnsAreDescribed() throws Exception {
+        var summary = JsonMapper.builder().build().readTree("{\"fitted\": 192}");
+        String text = MethodsText.of(plan("school-panel-leverage-plan.json"), summary, Scale.AS_FITTED);
+        assertTrue(text.contains("the leverages of HC2/HC3 were exact") && text.contains("Davidson & MacKinnon 2004, "
+                + "Econometric Theory and Methods, sections 2.4 and 2.6"), text);
     }
 }

@@ -63,6 +63,23 @@ class MemoryEstimateTest {
         assertOfTheRightOrder(plan, table);
     }
 
+    /**
+     * HC2 and HC3 beside two absorbed columns: each usable set's leverages of the crossed dummies and the dense
+     * factorisation that builds them, which the estimate counts (and nothing for them beside one column).
+     */
+    @Test
+    void aRunWithLeveragesBesideTwoAbsorbedColumns() {
+        Table table = table(40_000);
+        String part = "the two absorbed columns' leverages of the HC2/HC3 sandwich";
+        Plan plan = plan(table, "[\"HC2\", \"HC3\"]",
+                "{\"label\": \"district and band\", \"columns\": [\"district\", \"band\"]}", 0, 6);
+        Map<String, Long> parts = MemoryEstimate.of(plan, table, 2).parts();
+        assertTrue(parts.get(part) > 0, parts.toString());
+        Plan one = plan(table, "[\"HC2\", \"HC3\"]", "{\"label\": \"district\", \"columns\": [\"district\"]}", 0, 6);
+        assertEquals(0L, MemoryEstimate.of(one, table, 2).parts().getOrDefault(part, 0L), "nothing beside one column");
+        assertOfTheRightOrder(plan, table);
+    }
+
     /** Logistic regressions: each worker's rows and iteration state, and every fit's start for its children. */
     @Test
     void aRunOfGeneralizedLinearModels() {

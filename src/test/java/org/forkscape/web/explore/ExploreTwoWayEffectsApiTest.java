@@ -36,19 +36,28 @@ class ExploreTwoWayEffectsApiTest extends WebTest {
         return out;
     }
 
-    @Test
-    void theFullFitOfASpecificationWithBothEffectsAbsorbedIsLmsWithDummies() throws Exception {
-        String analysis = upload("school-panel.csv", Files.readString(reference("school-panel.csv")));
-        String plan = Files.readString(reference("school-panel-plan.json")).replace("\"school-panel.csv\"", "\"data.csv\"");
-        String run = runToEnd(analysis, plan);
-        String base = "/api/analyses/" + analysis + "/runs/" + run;
+    /** A run's API address, its specifications.csv and R's reference rows, each by spec number. */
+    private record Ran(String base, Map<String, CSVRecord> written, Map<String, CSVRecord> expected) {
+    }
+
+    /** Uploads {@code name}.csv, runs {@code name}-plan.json on it through the web door, and reads the results. */
+    private Ran run(String name) throws Exception {
+        String analysis = upload(name + ".csv", Files.readString(reference(name + ".csv")));
+        String plan = Files.readString(reference(name + "-plan.json")).replace("\"" + name + ".csv\"", "\"data.csv\"");
+        String base = "/api/analyses/" + analysis + "/runs/" + runToEnd(analysis, plan);
         String file = mvc.perform(get(base.replace("/api/", "/") + "/files/specifications.csv")).andExpect(status().isOk())
                 .andReturn().getResponse().getContentAsString();
-        Map<String, CSVRecord> written = bySpec(new StringReader(file));
-        Map<String, CSVRecord> expected;
-        try (Reader in = Files.newBufferedReader(reference("school-panel-expected.csv"), StandardCharsets.UTF_8)) {
-            expected = bySpec(in);
+        try (Reader in = Files.newBufferedReader(reference(name + "-expected.csv"), StandardCharsets.UTF_8)) {
+            return new Ran(base, bySpec(new StringReader(file)), bySpec(in));
         }
+    }
+
+    @Test
+    void theFullFitOfASpecificationWithBothEffectsAbsorbedIsLmsWithDummies() throws Exception {
+        Ran ran = run("school-panel");
+        String base = ran.base();
+        Map<String, CSVRecord> written = ran.written();
+        Map<String, CSVRecord> expected = ran.expected();
         // spec 18: score on hours, no controls, both schools, pupil and term effects, HC1
         CSVRecord r = expected.get("18");
         assertEquals("pupil and term", r.get("effects"));
@@ -72,5 +81,50 @@ class ExploreTwoWayEffectsApiTest extends WebTest {
         assertEquals(se, key.path("stdError").asDouble(), 1e-9 * se, "sandwich::vcovHC HC1");
         assertEquals(Double.parseDouble(written.get("18").get("estimate")), key.path("estimate").asDouble(),
                 1e-12 * Math.abs(estimate), "the run's own estimate");
+    }
+
+    /**
+     * The explorer's full fit of HC3 specifications with both effects absorbed ({@code school-panel-leverage-plan.json}):
+     * unweighted and weighted, the key coefficient's standard error is sandwich's vcovHC HC3 on R's lm with factor()
+     * dummies ({@code school-panel-leverage-expected.csv} from {@code src/test/r/two-way-leverage-reference.R}), as in
+     * the run's specifications.csv; with a singleton pupil among the rows the fit has the leverage status R's
+     * hatvalues of 1 give.
+     */
+    @Test
+    void theFullFitOfAnHc3SpecificationWithBothEffectsAbsorbedIsSandwichs() throws Exception {
+        Ran ran = run("school-panel-leverage");
+        String base = ran.base();
+        Map<String, CSVRecord> written = ran.written();
+        Map<String, CSVRecord> expected = ran.expected();
+        // specs 20, 22, 24: no controls, pupils seen twice or more, pupil and term effects, unweighted, design and
+        // survey weights, HC3
+        for (String spec : new String[] {"20", "22", "24"}) {
+            CSVRecord r = expected.get(spec);
+            assertEquals("pupil and term", r.get("effects"));
+            assertEquals("HC3", r.get("errors"));
+            assertEquals("ok", r.get("status"));
+            JsonNode key = keyOf(json(mvc.perform(get(base + "/specifications/" + spec + "/fit")).andExpect(status().isOk())
+                    .andReturn().getResponse().getContentAsString()).path("fit"));
+            double se = Double.parseDouble(r.get("std_error"));
+            assertEquals(se, key.path("stdError").asDouble(), 1e-9 * se, "spec " + spec + ": sandwich::vcovHC HC3");
+            assertEquals(Double.parseDouble(written.get(spec).get("std_error")), key.path("stdError").asDouble(),
+                    1e-12 * se, "spec " + spec + ": the run's own standard error");
+        }
+        // spec 8: every pupil (singletons among them), pupil and term effects, unweighted, HC3
+        assertEquals("undefined: leverage 1", expected.get("8").get("status"));
+        JsonNode undefined = json(mvc.perform(get(base + "/specifications/8/fit")).andExpect(status().isOk())
+                .andReturn().getResponse().getContentAsString()).path("fit");
+        assertEquals("undefined: leverage 1 for HC3 (a row fits perfectly, such as a fixed-effect level with one row)",
+                undefined.path("status").asString(), undefined.toString());
+        assertEquals(written.get("8").get("status"), undefined.path("status").asString());
+    }
+
+    private static JsonNode keyOf(JsonNode fit) {
+        for (JsonNode c : fit.path("coefficients")) {
+            if (c.path("role").asString().equals("key")) {
+                return c;
+            }
+        }
+        throw new AssertionError("no key coefficient in " + fit);
     }
 }

@@ -1,6 +1,7 @@
 package org.forkscape.web.plan;
 
 import static org.hamcrest.Matchers.containsString;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.get;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.post;
 import static org.springframework.test.web.servlet.request.MockMvcRequestBuilders.put;
@@ -59,6 +60,17 @@ class PlanControllersTest extends WebTest {
                 .andExpect(jsonPath("$.specifications").value(576)).andExpect(jsonPath("$.fitted").value(576));
         check(CivicTestData.plan().replace("\"seed\": 7,", "\"seed\": 7, \"sample\": 100,"))
                 .andExpect(jsonPath("$.fitted").value(100));
+    }
+
+    /** The plan form's live check: HC2 and HC3 beside two absorbed columns are valid (their leverages are exact). */
+    @Test
+    void checkAcceptsHc2AndHc3BesideTwoAbsorbedColumns() throws Exception {
+        String plan = CivicTestData.plan().replace("[\"classical\", \"HC1\", \"cluster:district\"]", "[\"HC2\", \"HC3\"]")
+                .replace("{\"label\": \"region\", \"columns\": [\"region\"]}",
+                        "{\"label\": \"district and urban\", \"columns\": [\"district\", \"urban\"]}");
+        assertTrue(plan.contains("[\"HC2\", \"HC3\"]")
+                && plan.contains("[\"district\", \"urban\"]"), plan);
+        check(plan).andExpect(jsonPath("$.valid").value(true));
     }
 
     @Test

@@ -58,9 +58,9 @@ class RMultiwayGlmReferenceTest {
             Map<String, String> row = match.row();
             int slot = match.slot();
             String where = match.where();
-            check(failures, worst, where, "n_obs", r.nObs(slot), row, 0);
-            check(failures, worst, where, "n_params", r.nParams(slot), row, 0);
-            check(failures, worst, where, "estimate", r.estimate(slot), row, tolerance);
+            ReferenceChecks.check(failures, worst, where, "n_obs", r.nObs(slot), row, SOURCE, 0);
+            ReferenceChecks.check(failures, worst, where, "n_params", r.nParams(slot), row, SOURCE, 0);
+            ReferenceChecks.check(failures, worst, where, "estimate", r.estimate(slot), row, SOURCE, tolerance);
             if (!row.get("status").equals("ok")) {
                 notPositive++;
                 if (!Double.isNaN(r.stdError(slot))) {
@@ -69,11 +69,11 @@ class RMultiwayGlmReferenceTest {
                 }
                 continue;
             }
-            check(failures, worst, where, "std_error", r.stdError(slot), row, tolerance);
+            ReferenceChecks.check(failures, worst, where, "std_error", r.stdError(slot), row, SOURCE, tolerance);
             double z = r.estimate(slot) / r.stdError(slot);
-            check(failures, worst, where, "p_value", r.pValue(slot), row, GlmTolerance.GLM.pValue(z));
-            check(failures, worst, where, "effect", r.effect(slot), row, tolerance);
-            check(failures, worst, where, "effect_std_error", r.effectStdError(slot), row, tolerance);
+            ReferenceChecks.check(failures, worst, where, "p_value", r.pValue(slot), row, SOURCE, GlmTolerance.GLM.pValue(z));
+            ReferenceChecks.check(failures, worst, where, "effect", r.effect(slot), row, SOURCE, tolerance);
+            ReferenceChecks.check(failures, worst, where, "effect_std_error", r.effectStdError(slot), row, SOURCE, tolerance);
             if (!row.get("one_way_std_error").isEmpty()) {
                 multiway++;
                 // the route taken is the multi-way sum with its (n - 1)/(n - K): neither the first column's
@@ -112,9 +112,9 @@ class RMultiwayGlmReferenceTest {
                 failures.add(where + ": " + fit.status());
                 continue;
             }
-            check(failures, worst, where, "estimate", fit.key().estimate(), row, GlmTolerance.GLM.relative);
-            check(failures, worst, where, "std_error", fit.key().stdError(), row, GlmTolerance.GLM.relative);
-            check(failures, worst, where, "n_obs", fit.nObs(), row, 0);
+            ReferenceChecks.check(failures, worst, where, "estimate", fit.key().estimate(), row, SOURCE, GlmTolerance.GLM.relative);
+            ReferenceChecks.check(failures, worst, where, "std_error", fit.key().stdError(), row, SOURCE, GlmTolerance.GLM.relative);
+            ReferenceChecks.check(failures, worst, where, "n_obs", fit.nObs(), row, SOURCE, 0);
         }
         AgreementReport.write("r-reference-tutoring-" + model + "-full-fit.txt", SOURCE, worst);
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + SOURCE + ":\n"
@@ -126,36 +126,9 @@ class RMultiwayGlmReferenceTest {
     void multiwayPoissonIsBitIdenticalWhateverTheThreadCount() {
         Plan plan = ReferenceFiles.plan("tutoring-poisson-plan.json");
         Table table = ReferenceFiles.table(plan);
-        assertArrayEquals(bits(new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
-                .results()), bits(new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
+        assertArrayEquals(ReferenceChecks.bits(new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
+                .results()), ReferenceChecks.bits(new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
                 .results()));
-    }
-
-    private static long[] bits(ResultTable r) {
-        long[] out = new long[3 * r.size()];
-        for (int slot = 0; slot < r.size(); slot++) {
-            int at = 3 * (int) r.specIndex(slot);
-            out[at] = Double.doubleToRawLongBits(r.estimate(slot));
-            out[at + 1] = Double.doubleToRawLongBits(r.stdError(slot));
-            out[at + 2] = Double.doubleToRawLongBits(r.effectStdError(slot));
-        }
-        return out;
-    }
-
-    private static void check(List<String> failures, Map<String, Double> worst, String where, String column,
-            double actual, Map<String, String> row, double tolerance) {
-        double e = ReferenceFiles.number(row.get(column));
-        if (Double.isNaN(e) && Double.isNaN(actual)) {
-            return;
-        }
-        double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
-        if (tolerance > 0) {
-            worst.merge(column + " (relative)", err, Math::max);
-        }
-        if (!(err <= tolerance)) {
-            failures.add(String.format("%s: %s %.17g, %s gives %.17g (tolerance %.0e)", where, column, actual, SOURCE,
-                    e, tolerance));
-        }
     }
 
     private static void differs(List<String> failures, String where, String column, double actual,

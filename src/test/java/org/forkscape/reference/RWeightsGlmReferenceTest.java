@@ -62,14 +62,14 @@ class RWeightsGlmReferenceTest {
             if (row.get("weights").equals("survey")) {
                 weighted++;
             }
-            check(failures, worst, where, "n_obs", r.nObs(slot), row, 0);
-            check(failures, worst, where, "n_params", r.nParams(slot), row, 0);
-            check(failures, worst, where, "estimate", r.estimate(slot), row, tolerance);
-            check(failures, worst, where, "std_error", r.stdError(slot), row, tolerance);
-            check(failures, worst, where, "effect", r.effect(slot), row, tolerance);
-            check(failures, worst, where, "effect_std_error", r.effectStdError(slot), row, tolerance);
-            check(failures, worst, where, "deviance", r.deviance(slot), row, GlmTolerance.LIKELIHOOD);
-            check(failures, worst, where, "r2", r.r2(slot), row, GlmTolerance.LIKELIHOOD);
+            ReferenceChecks.check(failures, worst, where, "n_obs", r.nObs(slot), row, SOURCE, 0);
+            ReferenceChecks.check(failures, worst, where, "n_params", r.nParams(slot), row, SOURCE, 0);
+            ReferenceChecks.check(failures, worst, where, "estimate", r.estimate(slot), row, SOURCE, tolerance);
+            ReferenceChecks.check(failures, worst, where, "std_error", r.stdError(slot), row, SOURCE, tolerance);
+            ReferenceChecks.check(failures, worst, where, "effect", r.effect(slot), row, SOURCE, tolerance);
+            ReferenceChecks.check(failures, worst, where, "effect_std_error", r.effectStdError(slot), row, SOURCE, tolerance);
+            ReferenceChecks.check(failures, worst, where, "deviance", r.deviance(slot), row, SOURCE, GlmTolerance.LIKELIHOOD);
+            ReferenceChecks.check(failures, worst, where, "r2", r.r2(slot), row, SOURCE, GlmTolerance.LIKELIHOOD);
         }
         AgreementReport.write("r-reference-water-" + model + ".txt", SOURCE + " (" 
                 + ReferenceFiles.versions("weights-versions.txt") + ")", worst);
@@ -94,9 +94,9 @@ class RWeightsGlmReferenceTest {
                 failures.add(where + ": " + fit.status());
                 continue;
             }
-            check(failures, worst, where, "estimate", fit.key().estimate(), row, GlmTolerance.GLM.relative);
-            check(failures, worst, where, "std_error", fit.key().stdError(), row, GlmTolerance.GLM.relative);
-            check(failures, worst, where, "n_obs", fit.nObs(), row, 0);
+            ReferenceChecks.check(failures, worst, where, "estimate", fit.key().estimate(), row, SOURCE, GlmTolerance.GLM.relative);
+            ReferenceChecks.check(failures, worst, where, "std_error", fit.key().stdError(), row, SOURCE, GlmTolerance.GLM.relative);
+            ReferenceChecks.check(failures, worst, where, "n_obs", fit.nObs(), row, SOURCE, 0);
         }
         AgreementReport.write("r-reference-water-" + model + "-full-fit.txt", SOURCE, worst);
         assertTrue(failures.isEmpty(), failures.size() + " disagreements with " + SOURCE + ":\n"
@@ -108,32 +108,8 @@ class RWeightsGlmReferenceTest {
     void weightedLogitIsBitIdenticalWhateverTheThreadCount() {
         Plan plan = ReferenceFiles.plan("water-logit-plan.json");
         Table table = ReferenceFiles.table(plan);
-        assertArrayEquals(bits(new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
-                .results()), bits(new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
+        assertArrayEquals(ReferenceChecks.bits(new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
+                .results()), ReferenceChecks.bits(new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
                 .results()));
-    }
-
-    private static long[] bits(ResultTable r) {
-        long[] out = new long[3 * r.size()];
-        for (int slot = 0; slot < r.size(); slot++) {
-            int at = 3 * (int) r.specIndex(slot);
-            out[at] = Double.doubleToRawLongBits(r.estimate(slot));
-            out[at + 1] = Double.doubleToRawLongBits(r.stdError(slot));
-            out[at + 2] = Double.doubleToRawLongBits(r.effect(slot));
-        }
-        return out;
-    }
-
-    private static void check(List<String> failures, Map<String, Double> worst, String where, String column,
-            double actual, Map<String, String> row, double tolerance) {
-        double e = ReferenceFiles.number(row.get(column));
-        double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
-        if (tolerance > 0) {
-            worst.merge(column + " (relative)", err, Math::max);
-        }
-        if (!(err <= tolerance)) {
-            failures.add(String.format("%s: %s %.17g, %s gives %.17g (tolerance %.0e)", where, column, actual, SOURCE,
-                    e, tolerance));
-        }
     }
 }

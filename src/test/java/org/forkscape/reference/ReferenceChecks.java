@@ -16,12 +16,16 @@ final class ReferenceChecks {
 
     /**
      * Compares {@code actual} with the reference row's {@code column}: exactly when {@code tolerance} is 0, else
-     * within it relatively (recording the largest relative error per column in {@code worst}); a disagreement is
-     * added to {@code failures} with where it is and the reference's source.
+     * within it relatively (recording the largest relative error per column in {@code worst}); no number on both
+     * sides (a variance that is not positive, say) agrees. A disagreement is added to {@code failures} with where
+     * it is and the reference's source.
      */
     static void check(List<String> failures, Map<String, Double> worst, String where, String column, double actual,
             Map<String, String> row, String source, double tolerance) {
         double e = ReferenceFiles.number(row.get(column));
+        if (Double.isNaN(e) && Double.isNaN(actual)) {
+            return;
+        }
         double err = tolerance == 0 ? (actual == e ? 0 : Double.POSITIVE_INFINITY) : Agreement.relativeError(actual, e);
         if (tolerance > 0) {
             worst.merge(column + " (relative)", err, Math::max);
@@ -32,14 +36,19 @@ final class ReferenceChecks {
         }
     }
 
-    /** Each specification's estimate, standard error and R-squared as raw bits, in specification order. */
+    /**
+     * Each specification's estimate, standard error, R-squared, average marginal effect and its standard error
+     * as raw bits, in specification order.
+     */
     static long[] bits(ResultTable r) {
-        long[] out = new long[3 * r.size()];
+        long[] out = new long[5 * r.size()];
         for (int slot = 0; slot < r.size(); slot++) {
-            int at = 3 * (int) r.specIndex(slot);
+            int at = 5 * (int) r.specIndex(slot);
             out[at] = Double.doubleToRawLongBits(r.estimate(slot));
             out[at + 1] = Double.doubleToRawLongBits(r.stdError(slot));
             out[at + 2] = Double.doubleToRawLongBits(r.r2(slot));
+            out[at + 3] = Double.doubleToRawLongBits(r.effect(slot));
+            out[at + 4] = Double.doubleToRawLongBits(r.effectStdError(slot));
         }
         return out;
     }

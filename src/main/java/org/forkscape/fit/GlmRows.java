@@ -26,7 +26,7 @@ final class GlmRows {
     /**
      * The variant's cluster codes by component key (indexed by variant row, see {@link #source}), which a
      * multi-way error type reads once per component; null for resampled rows, since null draws of a plan
-     * with multi-way clustering are refused.
+     * beside a generalized linear model with multi-way clustering are refused.
      */
     java.util.Map<String, int[]> variantClusters;
     /** The variant row of each row. */

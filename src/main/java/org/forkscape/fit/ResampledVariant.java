@@ -286,6 +286,9 @@ public final class ResampledVariant implements FitData {
         int[] clusterCodes = clusterCodes(errors);
         int clusterCount = clusterCount(errors);
         if (refit) {
+            if (clusterCodes != null) {
+                labelClusters(mom, clusterCodes, clusterCount);
+            }
             return rowView(s, positions, mom, clusterCodes == null ? 0 : codeCount(clusterCount));
         }
         if (clusterCodes != null && copiesAreNewClusters) {
@@ -305,16 +308,31 @@ public final class ResampledVariant implements FitData {
         return false;
     }
 
+    /**
+     * One-way clustering on a column or on one component of a multi-way error type (an intersection's codes
+     * are kept under its component key): a drawn copy starts new clusters when the clustering's clusters
+     * lie within the resampled units. A multi-way error type itself has no codes; its components are read
+     * one at a time ({@link LeastSquares}).
+     */
     private void prepareClusters(ErrorType errors) {
-        copiesAreNewClusters = errors.kind() == ErrorType.Kind.CLUSTER && nestedInUnits(errors.clusterColumn());
+        copiesAreNewClusters = errors.clusterColumn() != null && nestedInUnits(errors.clusterColumn());
     }
 
     private int[] clusterCodes(ErrorType errors) {
-        return errors.kind() == ErrorType.Kind.CLUSTER ? v.clusters.get(errors.clusterColumn()) : null;
+        return errors.clusterColumn() != null ? v.clusters.get(errors.clusterColumn()) : null;
     }
 
     private int clusterCount(ErrorType errors) {
-        return errors.kind() == ErrorType.Kind.CLUSTER ? v.clusterCounts.get(errors.clusterColumn()) : 0;
+        return errors.clusterColumn() != null ? v.clusterCounts.get(errors.clusterColumn()) : 0;
+    }
+
+    /** The refit rows' clusters of one clustering (a multi-way error type reads them once per component). */
+    private void labelClusters(Moments mom, int[] clusterCodes, int clusterCount) {
+        RepeatedRows repeat = repeated(mom);
+        int[] list = repeat.rows();
+        for (int k = 0; k < rows.n; k++) {
+            rows.cluster[k] = clusterCodes[list[k]] + (copiesAreNewClusters ? repeat.copy()[k] * clusterCount : 0);
+        }
     }
 
     /** Whether every cluster of the column lies within one resampled unit (false for single rows). */

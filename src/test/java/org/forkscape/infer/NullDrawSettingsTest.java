@@ -56,12 +56,25 @@ class NullDrawSettingsTest {
     }
 
     @Test
-    void drawsAreRefusedWhenTheErrorsClusterOnSeveralColumns() {
+    void leastSquaresDrawsTakeErrorsClusteredOnSeveralColumnsGeneralizedLinearOnesAreRefused() {
         Plan twoWay = plan("\"HC1\", \"cluster:g+district\"", "");
+        NullDrawSettings settings = NullDrawSettings.of(twoWay);
+        settings.check(twoWay, 100, "nullDraws", "nullCluster");
+        assertNull(settings.clusterColumn(), "no single column to resample: single rows, with the warning");
+        Plan logit = Scenarios.plan("""
+                {"data": "simulated.csv", "nullDraws": 10,
+                 "decisions": [
+                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+                   {"name": "model", "kind": "model", "alternatives": ["ols", "logit"]},
+                   {"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g+district"]}
+                 ]}
+                """);
         InputException e = assertThrows(InputException.class,
-                () -> NullDrawSettings.of(twoWay).check(twoWay, 100, "nullDraws", "nullCluster"));
+                () -> NullDrawSettings.of(logit).check(logit, 100, "nullDraws", "nullCluster"));
         assertEquals("nullDraws", e.where());
-        assertTrue(e.getMessage().contains("decisions[2].alternatives[1], cluster:g+district"), e.getMessage());
+        assertTrue(e.getMessage().contains("decisions[3].alternatives[1], cluster:g+district"), e.getMessage());
+        assertTrue(e.getMessage().contains("logit, probit or poisson"), e.getMessage());
     }
 
     @Test

@@ -61,6 +61,20 @@ class NullDrawsDeterminismTest {
         assertSameDraws(one, two);
     }
 
+    /** Least squares with two-way clustered errors: single rows by default, or whole clusters of one of them. */
+    @Test
+    void multiwayClusteredDrawsDoNotDependOnTheThreadCount() {
+        String plan = PLAN.replace("[\"classical\", \"HC3\", \"cluster:g\"]", "[\"HC1\", \"cluster:g+pass\"]");
+        RunResult run = Scenarios.run(plan, Scenarios.table(90, 0.2, 7, 12));
+        assertEquals(64, run.results().size(), "2 outcomes x 2 codings x 8 control sets x 2 error types");
+        for (String cluster : new String[] {null, "g"}) {
+            NullDrawResult one = Scenarios.nullDraws(run, 30, NullMethod.BOOTSTRAP, 5, cluster, 1);
+            NullDrawResult three = Scenarios.nullDraws(run, 30, NullMethod.BOOTSTRAP, 5, cluster, 3);
+            assertSameDraws(one, three);
+            assertTrue(one.failedFits() < 30L * 64 / 10, cluster + ": " + one.failedFits() + " failed fits");
+        }
+    }
+
     /** The generalized linear models: their fits, warm-started from the plan's tree, and their refits in draws. */
     @Test
     void generalizedLinearFitsAndDrawsDoNotDependOnTheThreadCount() {

@@ -42,6 +42,10 @@ class ResampledVariantTest {
                {"name": "fe", "kind": "absorb", "alternatives": [{"label": "none", "columns": []}, {"label": "f", "columns": ["f"]}]}
              ]}
             """;
+    /** The same plan with multi-way cluster errors, two-way and three-way (h a grouping that cuts across g). */
+    private static final String MULTIWAY_PLAN = PLAN.replace(
+            "[\"classical\", \"HC0\", \"HC1\", \"HC2\", \"HC3\", \"cluster:g\"]",
+            "[\"cluster:g+h\", \"cluster:g+h+b\"]");
     private static final double TOLERANCE = 1e-9;
 
     private static Table data(boolean missingKey) {
@@ -131,6 +135,54 @@ class ResampledVariantTest {
         assertTrue(compared > 100, "compared " + compared);
     }
 
+    /**
+     * Multi-way clustering (Cameron, Gelbach &amp; Miller 2011): each component of the signed sum (every column
+     * and every intersection of them) is one clustering, and a drawn copy starts new clusters in exactly the
+     * components whose clusters lie within one resampled unit, as the repeated table, whose resampled column
+     * is renamed per copy, has them: here g and the intersections with g, not h, b or h and b.
+     */
+    @Test
+    void multiwayClusterBootstrapRenewsTheComponentsNestedInTheResampledUnits() {
+        Table table = withCrossingGroups(data(false));
+        int[] cluster = ((CategoricalColumn) table.column("g")).codes();
+        int[] clusterDraws = new int[15];
+        SplittableRandom r = new SplittableRandom(8);
+        for (int k = 0; k < 15; k++) {
+            clusterDraws[r.nextInt(15)]++;
+        }
+        int[] weights = new int[table.rowCount()];
+        for (int i = 0; i < weights.length; i++) {
+            weights[i] = clusterDraws[cluster[i]];
+        }
+        Table repeated = repeat(table, weights, "g");
+        int compared = compare(MULTIWAY_PLAN, table, repeated, rv -> rv.bootstrap(weights, cluster));
+        assertTrue(compared > 80, "compared " + compared);
+    }
+
+    @Test
+    void multiwayRowBootstrapEqualsTheEngineOnTheRepeatedRows() {
+        Table table = withCrossingGroups(data(false));
+        int[] weights = new int[table.rowCount()];
+        SplittableRandom r = new SplittableRandom(3);
+        for (int k = 0; k < weights.length; k++) {
+            weights[r.nextInt(weights.length)]++;
+        }
+        int compared = compare(MULTIWAY_PLAN, table, repeat(table, weights, null), rv -> rv.bootstrap(weights, null));
+        assertTrue(compared > 80, "compared " + compared);
+    }
+
+    /** The table with a grouping h of six levels drawn independently of g (so that it cuts across it). */
+    private static Table withCrossingGroups(Table table) {
+        SplittableRandom r = new SplittableRandom(99);
+        int[] h = new int[table.rowCount()];
+        for (int i = 0; i < h.length; i++) {
+            h[i] = r.nextInt(6);
+        }
+        List<Column> cols = new ArrayList<>(table.columns());
+        cols.add(new CategoricalColumn("h", h, levels("h", 6)));
+        return new Table(table.source(), cols);
+    }
+
     @Test
     void permutationEqualsTheEngineOnThePermutedPredictor() {
         Table table = data(true);
@@ -194,9 +246,13 @@ class ResampledVariantTest {
     }
 
     private int compare(Table table, Table resampled, java.util.function.Consumer<ResampledVariant> draw) {
-        Plan plan = Scenarios.plan(PLAN);
+        return compare(PLAN, table, resampled, draw);
+    }
+
+    private int compare(String json, Table table, Table resampled, java.util.function.Consumer<ResampledVariant> draw) {
+        Plan plan = Scenarios.plan(json);
         SpecificationModels models = new SpecificationModels(plan, table);
-        RunResult expected = Scenarios.run(PLAN, resampled);
+        RunResult expected = Scenarios.run(json, resampled);
         assertTrue(expected.refitByQr() > 0, "the QR route is exercised");
         int compared = 0;
         for (int v = 0; v < models.variantCount(); v++) {

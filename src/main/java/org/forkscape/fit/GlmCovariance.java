@@ -98,10 +98,13 @@ final class GlmCovariance {
             growClusters(parts, n, count);
             for (int c = 0; c < parts; c++) {
                 codes[c] = componentCodes[c];
-                int[] variantCodes = errors.multiway() ? rows.variantClusters.get(components.get(c).key()) : null;
+                String key = components.get(c).key();
+                int[] drawCodes = errors.multiway() && rows.drawClusters != null ? rows.drawClusters.get(key) : null;
+                int[] variantCodes = errors.multiway() && drawCodes == null ? rows.variantClusters.get(key) : null;
                 int size = 0;
                 for (int i = 0; i < n; i++) {
-                    int g = variantCodes == null ? rows.cluster[i] : variantCodes[rows.source[i]];
+                    int g = drawCodes != null ? drawCodes[i]
+                            : variantCodes == null ? rows.cluster[i] : variantCodes[rows.source[i]];
                     codes[c][i] = g;
                     size = Math.max(size, g + 1);
                 }

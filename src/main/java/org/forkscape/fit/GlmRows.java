@@ -25,10 +25,15 @@ final class GlmRows {
     int[] cluster = new int[0];
     /**
      * The variant's cluster codes by component key (indexed by variant row, see {@link #source}), which a
-     * multi-way error type reads once per component; null for resampled rows, since null draws of a plan
-     * beside a generalized linear model with multi-way clustering are refused.
+     * multi-way error type reads once per component; null for resampled rows, which carry theirs in
+     * {@link #drawClusters}.
      */
     java.util.Map<String, int[]> variantClusters;
+    /**
+     * A null draw's cluster codes by component key, indexed by row (a drawn copy of a row may be in a new
+     * cluster of some components and not of others); null for the observed rows and one-way clustering.
+     */
+    java.util.Map<String, int[]> drawClusters;
     /** The variant row of each row. */
     int[] source = new int[0];
     /** The prior weight of each row; null when the variant is unweighted. */
@@ -51,6 +56,7 @@ final class GlmRows {
         filledRows = null;
         grow(rows.n, rows.p);
         variantClusters = null;
+        drawClusters = null;
         prior = rows.weighted ? priorBuffer : null;
         for (int j = 0; j < p; j++) {
             double[] column = rows.x[j];
@@ -84,6 +90,7 @@ final class GlmRows {
         boolean rowsAsBefore = mom == filledRows && recordedOutcome == filledOutcome && clusterCodes == filledClusters;
         grow(mom.n, cols.length);
         variantClusters = v.clusters;
+        drawClusters = null;
         prior = v.weight == null ? null : priorBuffer;
         double[][] offsets = mom.levelMeanOffset;
         double[][] columns = new double[p][];

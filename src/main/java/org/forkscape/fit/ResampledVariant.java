@@ -277,6 +277,28 @@ public final class ResampledVariant implements FitData {
         prepareClusters(errors);
         fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), false);
         into.fill(rows, v.coded.recorded[y], v.levels);
+        if (errors.multiway()) {
+            into.drawClusters = componentClusters(mom, errors);
+        }
+    }
+
+    /** Each component's cluster of every drawn row of {@code mom}, a copy renewed where it is nested. */
+    private Map<String, int[]> componentClusters(Moments mom, ErrorType errors) {
+        RepeatedRows repeat = repeated(mom);
+        int[] list = repeat.rows();
+        Map<String, int[]> out = new HashMap<>();
+        for (ClusterComponents.Component c : ClusterComponents.of(errors)) {
+            ErrorType one = c.oneWay();
+            prepareClusters(one);
+            int[] codes = clusterCodes(one);
+            int count = clusterCount(one);
+            int[] drawn = new int[mom.n];
+            for (int k = 0; k < drawn.length; k++) {
+                drawn[k] = codes[list[k]] + (copiesAreNewClusters ? repeat.copy()[k] * count : 0);
+            }
+            out.put(c.key(), drawn);
+        }
+        return out;
     }
 
     @Override

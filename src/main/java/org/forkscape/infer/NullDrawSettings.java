@@ -37,10 +37,8 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
     }
 
     /**
-     * Refuses settings that cannot run: more draws than the cap, draws on a plan whose errors cluster on
-     * several columns beside a generalized linear model (its scores are summed per component from codes
-     * the resampled rows do not carry), draws beside several absorbed columns, whole clusters with the
-     * permutation.
+     * Refuses settings that cannot run: more draws than the cap, draws beside several absorbed columns,
+     * whole clusters with the permutation.
      *
      * @param drawsWhere   the plan key or command-line option the number of draws came from, for the message
      * @param clusterWhere likewise for the cluster column
@@ -49,12 +47,6 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
         if (draws > maxDraws) {
             throw new InputException(drawsWhere, String.format("%,d null draws are above the cap of %,d; ask for "
                     + "fewer, or raise the cap with --max-null-draws", draws, maxDraws));
-        }
-        String multiway = plan.multiwayClusterPath();
-        if (draws > 0 && multiway != null && plan.generalized()) {
-            throw new InputException(drawsWhere, "null draws are not computed yet for logit, probit or poisson "
-                    + "specifications with errors clustered on several columns (" + multiway + "); ask for no null "
-                    + "draws, make that error type one-way, as in cluster:COLUMN, or fit least squares (ols) alone");
         }
         String several = plan.severalAbsorbedPath();
         if (draws > 0 && several != null) {

@@ -98,28 +98,17 @@ final class GlmRows {
             columns[j] = v.shifted[cols[j]];
         }
         int[] used = mom.n == v.rows ? null : mom.usableRows();
+        fillColumns(v, cols, offsets, columns, used);
         if (rowsAsBefore) {
-            fillColumns(v, cols, offsets, columns, used);
             return;
         }
         filledRows = mom;
         filledOutcome = recordedOutcome;
         filledClusters = clusterCodes;
         int[] compact = startLevels(v.levels);
-        double[] off = new double[p];
-        int lastLevel = -1;
         for (int k = 0; k < n; k++) {
             int r = used == null ? k : used[k];
             int l = v.level[r];
-            if (l != lastLevel) {
-                for (int j = 0; j < p; j++) {
-                    off[j] = offsets[l][cols[j]];
-                }
-                lastLevel = l;
-            }
-            for (int j = 0, at = k * p; j < p; j++) {
-                x[at + j] = columns[j][r] - off[j];
-            }
             level[k] = compactLevel(compact, l);
             source[k] = r;
             y[k] = recordedOutcome[r];
@@ -130,7 +119,7 @@ final class GlmRows {
         }
     }
 
-    /** The columns of {@link #fill(Moments, int[], double[], int[])} alone, for rows already filled. */
+    /** The columns of {@link #fill(Moments, int[], double[], int[])}, row by row in within coordinates. */
     private void fillColumns(DataVariant v, int[] cols, double[][] offsets, double[][] columns, int[] used) {
         double[] off = new double[p];
         int lastLevel = -1;

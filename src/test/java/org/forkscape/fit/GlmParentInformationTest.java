@@ -43,7 +43,7 @@ class GlmParentInformationTest {
                 eta += (j % 2 == 0 ? 0.3 : -0.2) * attributes[j][i];
             }
             joined[i] = r.nextDouble() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
-            dropOffs[i] = poisson(r, Math.exp(0.3 * eta));
+            dropOffs[i] = GlmStatusTest.poisson(r, Math.exp(0.3 * eta));
             weight[i] = 0.5 + r.nextDouble();
         }
         return new Table("households.csv", List.of(new NumericColumn("joined", joined),
@@ -53,17 +53,6 @@ class GlmParentInformationTest {
                 new NumericColumn("tenure", attributes[4]), new NumericColumn("design_weight", weight),
                 new CategoricalColumn("district", district, List.of("north", "east", "south", "west", "harbour",
                         "hills", "old town"))));
-    }
-
-    private static double poisson(SplittableRandom r, double mean) {
-        double limit = Math.exp(-mean);
-        double product = r.nextDouble();
-        int k = 0;
-        while (product > limit) {
-            product *= r.nextDouble();
-            k++;
-        }
-        return k;
     }
 
     private static String plan(String outcome, String models) {

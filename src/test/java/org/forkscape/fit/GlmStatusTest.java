@@ -43,7 +43,8 @@ class GlmStatusTest {
                 new NumericColumn("current_copy", current.clone()), new NumericColumn("closed", closed)));
     }
 
-    private static double poisson(SplittableRandom r, double mean) {
+    /** A Poisson variate: uniforms multiplied until their product falls below e^-mean (Knuth, The Art of Computer Programming, vol. 2, section 3.4.1; from memory). */
+    static double poisson(SplittableRandom r, double mean) {
         double limit = Math.exp(-mean);
         double product = r.nextDouble();
         int k = 0;

@@ -105,15 +105,7 @@ class ResampledVariantTest {
     void clusterBootstrapEqualsTheEngineWithEachCopyAsANewCluster() {
         Table table = data(false);
         int[] cluster = ((CategoricalColumn) table.column("g")).codes();
-        int[] clusterDraws = new int[15];
-        SplittableRandom r = new SplittableRandom(8);
-        for (int k = 0; k < 15; k++) {
-            clusterDraws[r.nextInt(15)]++;
-        }
-        int[] weights = new int[table.rowCount()];
-        for (int i = 0; i < weights.length; i++) {
-            weights[i] = clusterDraws[cluster[i]];
-        }
+        int[] weights = clusterDrawCounts(cluster, 8);
         Table repeated = repeat(table, weights, "g");
         int compared = compare(table, repeated, rv -> rv.bootstrap(weights, cluster));
         assertTrue(compared > 300, "compared " + compared);
@@ -145,15 +137,7 @@ class ResampledVariantTest {
     void multiwayClusterBootstrapRenewsTheComponentsNestedInTheResampledUnits() {
         Table table = withCrossingGroups(data(false));
         int[] cluster = ((CategoricalColumn) table.column("g")).codes();
-        int[] clusterDraws = new int[15];
-        SplittableRandom r = new SplittableRandom(8);
-        for (int k = 0; k < 15; k++) {
-            clusterDraws[r.nextInt(15)]++;
-        }
-        int[] weights = new int[table.rowCount()];
-        for (int i = 0; i < weights.length; i++) {
-            weights[i] = clusterDraws[cluster[i]];
-        }
+        int[] weights = clusterDrawCounts(cluster, 8);
         Table repeated = repeat(table, weights, "g");
         int compared = compare(MULTIWAY_PLAN, table, repeated, rv -> rv.bootstrap(weights, cluster));
         assertTrue(compared > 80, "compared " + compared);
@@ -180,20 +164,26 @@ class ResampledVariantTest {
     void multiwayClusteredLogitDrawsRenewTheComponentsNestedInTheResampledUnits() {
         Table table = withCrossingGroups(data(false));
         int[] cluster = ((CategoricalColumn) table.column("g")).codes();
-        int[] clusterDraws = new int[15];
-        SplittableRandom r = new SplittableRandom(21);
-        for (int k = 0; k < 15; k++) {
-            clusterDraws[r.nextInt(15)]++;
-        }
-        int[] weights = new int[table.rowCount()];
-        for (int i = 0; i < weights.length; i++) {
-            weights[i] = clusterDraws[cluster[i]];
-        }
+        int[] weights = clusterDrawCounts(cluster, 21);
         String logit = MULTIWAY_PLAN.replace("\"column\": \"y\"}]}", "\"column\": \"passed\"}]},\n"
                 + "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"logit\"]}");
         int compared = compare(logit, table, repeat(table, weights, "g"), rv -> rv.bootstrap(weights, cluster), 1e-7,
                 false);
         assertTrue(compared > 60, "compared " + compared);
+    }
+
+    /** Each row's count in a draw of the 15 clusters of g with replacement (a seeded multinomial draw). */
+    private static int[] clusterDrawCounts(int[] cluster, long seed) {
+        int[] clusterDraws = new int[15];
+        SplittableRandom r = new SplittableRandom(seed);
+        for (int k = 0; k < 15; k++) {
+            clusterDraws[r.nextInt(15)]++;
+        }
+        int[] weights = new int[cluster.length];
+        for (int i = 0; i < weights.length; i++) {
+            weights[i] = clusterDraws[cluster[i]];
+        }
+        return weights;
     }
 
     /**

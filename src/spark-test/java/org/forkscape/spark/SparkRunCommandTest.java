@@ -139,9 +139,10 @@ class SparkRunCommandTest {
     }
 
     @Test
-    void refusesHc3AtItsPathWithNothingWritten() throws IOException {
+    void refusesHc3BesideNullDrawsAtItsPathWithNothingWritten() throws IOException {
         Path hc3 = folder.resolve("hc3-plan.json");
-        Files.copy(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"), hc3);
+        Files.writeString(hc3, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
+                .replace("\"confidence\": 0.99,", "\"confidence\": 0.99, \"nullDraws\": 20,"));
         Path out = folder.resolve("refused");
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         PrintStream was = System.err;
@@ -155,8 +156,8 @@ class SparkRunCommandTest {
         }
         assertEquals(2, code);
         String message = err.toString(StandardCharsets.UTF_8).trim();
-        assertTrue(message.startsWith("forkscape: hc3-plan.json, decisions[4].alternatives[2]: HC3 needs each row's "
-                + "leverage"), message);
+        assertTrue(message.startsWith("forkscape: hc3-plan.json, decisions[4].alternatives[2]: HC3 needs a pass over "
+                + "the rows for its standard error"), message);
         assertEquals(1, message.lines().count(), message);
         assertTrue(!Files.exists(out.resolve("specifications.csv")));
     }

@@ -12,11 +12,12 @@ import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
- * with the way out. They all need passes over rows beyond the sufficient statistics (README, "Beyond one
- * machine", lists them): generalized linear models, HC2 and HC3, multi-way clustering, HC0
- * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
- * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
- * statistics are unweighted sums); beside null draws, the permutation.
+ * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
+ * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
+ * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation, and the
+ * error types whose variance needs a pass over the rows (HC2, HC3, and HC0 or HC1 beside an absorbed column),
+ * which the observed fits make by batches ({@link org.forkscape.fit.RowPassesByParts}) but a bootstrap draw's
+ * variants, summed draw by draw, do not.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -65,19 +66,19 @@ final class SparkRefusals {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
                     String at = "decisions[" + i + "].alternatives[" + j + "]";
-                    if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
-                        throw new InputException(at, t.label() + " needs each row's leverage, a pass over the rows "
-                                + "per specification, which the Spark runner does not make" + WAY_OUT);
-                    }
                     if (t.multiway()) {
                         throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
                                 + WAY_OUT);
                     }
-                    if (absorbs && (t.kind() == ErrorType.Kind.HC0 || t.kind() == ErrorType.Kind.HC1)) {
-                        throw new InputException(at, t.label() + " with absorbed fixed effects needs a pass over "
-                                + "the rows per specification, which the Spark runner does not make (without "
-                                + "absorption it is computed from fourth moments; cluster errors work with both)"
-                                + WAY_OUT);
+                    boolean rowPass = t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3
+                            || absorbs && (t.kind() == ErrorType.Kind.HC0 || t.kind() == ErrorType.Kind.HC1);
+                    if (rowPass && plan.nullDraws() > 0) {
+                        throw new InputException(at, t.label() + (absorbs && t.kind() != ErrorType.Kind.HC2
+                                && t.kind() != ErrorType.Kind.HC3 ? " beside absorbed fixed effects" : "")
+                                + " needs a pass over the rows for its standard error, which the Spark runner "
+                                + "makes for the observed fits but not for the null draws' resampled ones; run "
+                                + "this plan on one machine (forkscape.jar run), leave that choice out, or ask for "
+                                + "no null draws (\"nullDraws\": 0)");
                     }
                 }
             }

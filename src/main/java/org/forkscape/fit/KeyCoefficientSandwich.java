@@ -16,7 +16,9 @@ import org.forkscape.plan.ErrorType;
  * which is what {@code sandwich}'s {@code estfun.lm} and {@code hatvalues} give for a weighted {@code lm}
  * (Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical Software
  * 16(9)). Each row is read once, in blocks
- * small enough to stay in cache; nothing is materialised beyond the block.
+ * small enough to stay in cache; nothing is materialised beyond the block. For rows held in parts the same
+ * pass runs over each part's rows ({@link #partSum}), the parts' meats are added, and {@link #finish} makes
+ * the variance as {@link #variance} does ({@link RowPassesByParts}).
  */
 final class KeyCoefficientSandwich {
     /** A leverage this close to 1 makes HC2 and HC3 undefined. */

@@ -9,7 +9,8 @@ import org.forkscape.plan.ErrorType;
  * the outcome, the coefficients b, the key row w of (X'X)^-1, the lower triangular M with (X'X)^-1 = M'M
  * (for the leverages h_i = 1/n_level + ||M x_i||^2), the usable rows' missing patterns, and per fixed-effect
  * level the offsets that turn the stored level-shifted values into within values and the level's usable row
- * count. Small: O(p^2 + levels p) doubles, independent of the rows. Immutable once made.
+ * count. Small: O(p^2 + levels p) doubles, independent of the rows. Unweighted, as every variant built from
+ * parts is. Immutable once made.
  */
 public final class RowPassRequest implements Serializable {
     private static final long serialVersionUID = 1L;

@@ -251,14 +251,17 @@ class SparkNullDrawsTest {
         assertTrue(e.problem().startsWith("permutation draws are not made on Spark"), e.problem());
         assertTrue(e.problem().contains("use the bootstrap"), e.problem());
 
-        // what Spark refused before still is, beside draws
+        // the error types the observed fits take from the row passes are refused beside draws, whose variants make none
         Plan hc3 = plan(withDraws(PartsOfTable.ROWS_PLAN, "rows").replace("\"HC1\"", "\"HC3\""));
         e = assertThrows(InputException.class, () -> SparkRefusals.check(hc3));
         assertEquals("decisions[4].alternatives[1]", e.where());
+        assertTrue(e.problem().contains("not for the null draws' resampled ones"), e.problem());
+        SparkRefusals.check(plan(PartsOfTable.ROWS_PLAN.replace("\"HC1\"", "\"HC3\"")));
         Plan absorbedHc1 = plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school").replace("\"classical\", \"cluster",
                 "\"HC1\", \"cluster"));
         e = assertThrows(InputException.class, () -> SparkRefusals.check(absorbedHc1));
         assertEquals("decisions[4].alternatives[0]", e.where());
+        assertTrue(e.problem().startsWith("HC1 beside absorbed fixed effects needs a pass over the rows"), e.problem());
         // and draws on what Spark computes are not
         SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "rows")));
         SparkRefusals.check(plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school")));

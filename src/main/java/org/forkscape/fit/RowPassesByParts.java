@@ -31,13 +31,16 @@ public final class RowPassesByParts {
      * Every deferred specification's fit with its variance, in the order given (which the caller keeps
      * fixed, so that the batches and their results are the same every time).
      *
-     * @param maxPerBatch at most this many specifications per pass (at most {@link #MAX_PER_BATCH} is usual;
-     *                    the numbers do not depend on it)
+     * @param maxPerBatch   at most this many specifications per pass (at most {@link #MAX_PER_BATCH} is usual;
+     *                      the numbers do not depend on it)
+     * @param beforeEachPass run before each pass (the caller's cancel check, which may throw to stop)
      */
-    public static KeyFit[] finish(DataVariant variant, List<Deferred> deferred, int maxPerBatch) {
+    public static KeyFit[] finish(DataVariant variant, List<Deferred> deferred, int maxPerBatch,
+            Runnable beforeEachPass) {
         KeyFit[] out = new KeyFit[deferred.size()];
         int from = 0;
         while (from < deferred.size()) {
+            beforeEachPass.run();
             int to = from;
             long bytes = 0;
             while (to < deferred.size() && to - from < maxPerBatch

@@ -209,7 +209,7 @@ public final class MultiverseRunner {
                     WorkerPools.await(f);
                 }
                 checkCancel(cancel);
-                finishRowPasses(variant, deferred, results);
+                finishRowPasses(variant, deferred, results, cancel);
             }
         } finally {
             WorkerPools.stop(pool);
@@ -229,13 +229,13 @@ public final class MultiverseRunner {
      * in slot order (so that the batches, and the bits, do not depend on which worker solved what).
      */
     private void finishRowPasses(DataVariant variant, java.util.Collection<RowPassesByParts.Deferred> deferred,
-            ResultTable results) {
+            ResultTable results, AtomicBoolean cancel) {
         if (deferred.isEmpty()) {
             return;
         }
         List<RowPassesByParts.Deferred> inOrder = new ArrayList<>(deferred);
         inOrder.sort(java.util.Comparator.comparingInt(RowPassesByParts.Deferred::slot));
-        KeyFit[] fits = RowPassesByParts.finish(variant, inOrder, rowPassBatch);
+        KeyFit[] fits = RowPassesByParts.finish(variant, inOrder, rowPassBatch, () -> checkCancel(cancel));
         for (int i = 0; i < fits.length; i++) {
             results.set(inOrder.get(i).slot(), fits[i]);
         }

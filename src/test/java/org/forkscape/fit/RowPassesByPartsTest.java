@@ -1,6 +1,7 @@
 package org.forkscape.fit;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.concurrent.atomic.AtomicBoolean;
@@ -26,7 +27,8 @@ import org.junit.jupiter.params.provider.ValueSource;
  * trim, a winsorize and QR refits) with their variants built by {@link VariantByParts} from 1, 3 and 7 slices
  * of the table, against the engine building them from the whole table: every specification within 1e-10
  * relative, statuses equal (leverage 1 among them), and the specifications served counted. The batch size
- * does not change a bit: each part's sums are the same whatever batch carries them.
+ * does not change a bit: each part's sums are the same whatever batch carries them. A cancel stops the run
+ * before the next pass.
  */
 class RowPassesByPartsTest {
     static final double RELATIVE = 1e-10;
@@ -63,6 +65,29 @@ class RowPassesByPartsTest {
             assertEquals(all.results().stdError(slot), seven.results().stdError(slot), 0.0, "batches of 7");
             assertEquals(all.results().status(slot), one.results().status(slot));
         }
+    }
+
+    @Test
+    void aCancelStopsTheRunBetweenPasses() {
+        Plan plan = plan("chickweight-plan.json");
+        Table table = new CsvTableReader().read(plan.dataFile());
+        VariantSource built = VariantByPartsTest.source(plan, table, 3);
+        AtomicBoolean cancel = new AtomicBoolean();
+        java.util.concurrent.atomic.AtomicLong passes = new java.util.concurrent.atomic.AtomicLong();
+        VariantSource source = (key, pool) -> {
+            DataVariant v = built.variant(key, pool);
+            DataVariant.RowPassReduction parts = v.rowPassReduction;
+            // the cancel arrives while the first pass is made
+            v.rowPassReduction = batch -> {
+                passes.incrementAndGet();
+                cancel.set(true);
+                return parts.sums(batch);
+            };
+            return v;
+        };
+        assertThrows(org.forkscape.run.RunCancelledException.class, () -> new MultiverseRunner(2)
+                .withVariants(source).withRowPassBatch(1).run(plan, table, RunProgress.SILENT, cancel));
+        assertEquals(1, passes.get(), "passes made after the cancel");
     }
 
     /** Every specification on parts against the whole table; returns the run on parts. */

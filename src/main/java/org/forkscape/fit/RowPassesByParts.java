@@ -63,6 +63,33 @@ public final class RowPassesByParts {
         return out;
     }
 
+    /**
+     * Every specification of {@code models} fitted on {@code variant} by {@code fitter} (which defers its row
+     * passes), the deferred ones finished by batches; null for a specification that needs a pass over rows that
+     * cannot be made ({@link RowPassUnavailable}).
+     */
+    public static KeyFit[] fitEach(SpecificationFitter fitter, DataVariant variant, List<SpecificationModel> models,
+            Runnable beforeEachPass) {
+        KeyFit[] out = new KeyFit[models.size()];
+        List<Deferred> deferred = new ArrayList<>();
+        for (int i = 0; i < out.length; i++) {
+            try {
+                out[i] = fitter.fit(variant, models.get(i));
+            } catch (RowPassUnavailable e) {
+                continue;
+            }
+            RowPassRequest later = fitter.takeDeferred();
+            if (later != null) {
+                deferred.add(new Deferred(i, out[i], models.get(i).errors(), later));
+            }
+        }
+        KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass);
+        for (int j = 0; j < finished.length; j++) {
+            out[deferred.get(j).slot()] = finished[j];
+        }
+        return out;
+    }
+
     /** The fit with the variance from its meat summed over every part, as {@link LeastSquares} ends a row pass. */
     private static KeyFit finished(Deferred d, double sum) {
         KeyFit fit = d.fit();

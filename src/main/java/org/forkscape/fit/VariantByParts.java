@@ -318,6 +318,8 @@ public final class VariantByParts {
     DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
         DataVariant variant = variant(key, facts, sum);
         variant.refitReduction = (mom, cols, y) -> refitRows(key, facts, variant, mom, cols, y, drawParts);
+        variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
+                VariantByParts::addSums);
         return variant;
     }
 

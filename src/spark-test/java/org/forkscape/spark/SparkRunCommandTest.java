@@ -143,25 +143,25 @@ class SparkRunCommandTest {
     }
 
     @Test
-    void refusesHc3BesideNullDrawsAtItsPathWithNothingWritten() throws IOException {
-        Path hc3 = folder.resolve("hc3-plan.json");
-        Files.writeString(hc3, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
-                .replace("\"confidence\": 0.99,", "\"confidence\": 0.99, \"nullDraws\": 20,"));
+    void refusesMultiwayClusteringAtItsPathWithNothingWritten() throws IOException {
+        Path multiway = folder.resolve("multiway-plan.json");
+        Files.writeString(multiway, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
+                .replace("\"cluster:dose\"", "\"cluster:dose+supp\""));
         Path out = folder.resolve("refused");
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         PrintStream was = System.err;
         int code;
         System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
         try {
-            code = SparkRun.execute(new String[] {"run", hc3.toString(), "--out", out.toString(), "--data",
+            code = SparkRun.execute(new String[] {"run", multiway.toString(), "--out", out.toString(), "--data",
                     parquet.toString()});
         } finally {
             System.setErr(was);
         }
         assertEquals(2, code);
         String message = err.toString(StandardCharsets.UTF_8).trim();
-        assertTrue(message.startsWith("forkscape: hc3-plan.json, decisions[4].alternatives[2]: HC3 needs a pass over "
-                + "the rows for its standard error"), message);
+        assertTrue(message.startsWith("forkscape: multiway-plan.json, decisions[4].alternatives[3]: cluster:dose+supp "
+                + "(multi-way clustering) is not computed on Spark"), message);
         assertEquals(1, message.lines().count(), message);
         assertTrue(!Files.exists(out.resolve("specifications.csv")));
     }

@@ -4,7 +4,6 @@ import java.util.List;
 import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
-import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
@@ -14,10 +13,7 @@ import org.forkscape.plan.Plan;
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
  * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
- * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation, and the
- * error types whose variance needs a pass over the rows (HC2, HC3, and HC0 or HC1 beside an absorbed column),
- * which the observed fits make by batches ({@link org.forkscape.fit.RowPassesByParts}) but a bootstrap draw's
- * variants, summed draw by draw, do not.
+ * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -29,12 +25,6 @@ final class SparkRefusals {
         List<Decision> ds = plan.decisions();
         if (plan.nullDraws() > 0) {
             nullDraws(plan);
-        }
-        boolean absorbs = false;
-        for (Decision d : ds) {
-            if (d instanceof Decision.Absorb a) {
-                absorbs |= a.alternatives().stream().map(AbsorbChoice::columns).anyMatch(c -> !c.isEmpty());
-            }
         }
         for (int i = 0; i < ds.size(); i++) {
             Decision d = ds.get(i);
@@ -69,16 +59,6 @@ final class SparkRefusals {
                     if (t.multiway()) {
                         throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
                                 + WAY_OUT);
-                    }
-                    boolean rowPass = t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3
-                            || absorbs && (t.kind() == ErrorType.Kind.HC0 || t.kind() == ErrorType.Kind.HC1);
-                    if (rowPass && plan.nullDraws() > 0) {
-                        throw new InputException(at, t.label() + (absorbs && t.kind() != ErrorType.Kind.HC2
-                                && t.kind() != ErrorType.Kind.HC3 ? " beside absorbed fixed effects" : "")
-                                + " needs a pass over the rows for its standard error, which the Spark runner "
-                                + "makes for the observed fits but not for the null draws' resampled ones; run "
-                                + "this plan on one machine (forkscape.jar run), leave that choice out, or ask for "
-                                + "no null draws (\"nullDraws\": 0)");
                     }
                 }
             }

@@ -63,6 +63,14 @@ public final class DataVariant {
      */
     volatile RefitReduction refitReduction;
     /**
+     * For a variant without rows: how a batch of specifications' sandwich meats is summed where the rows are
+     * held (set by {@link VariantByParts#build}; {@link RowPassesByParts}); null when no such pass can be made.
+     */
+    volatile RowPassReduction rowPassReduction;
+    /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
+    final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
+    final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
+    /**
      * For a variant built from parts: the facts of the whole its parts were coded with (set by
      * {@link VariantByParts#build}), with which a bootstrap draw codes its copies; null otherwise.
      */
@@ -118,6 +126,24 @@ public final class DataVariant {
     /** A QR refit's rows reduced where the rows are held: the factor R of the usable rows' [X y]. */
     interface RefitReduction {
         DesignRows rows(Moments mom, int[] cols, int y);
+    }
+
+    /**
+     * A batch of specifications' HC0 to HC3 meats summed over their usable rows where the rows are held, one
+     * per request in order (NaN where a leverage is one).
+     */
+    interface RowPassReduction {
+        double[] sums(RowPassRequest[] batch);
+    }
+
+    /** How many passes over the parts' rows served this variant's sandwiches ({@link RowPassesByParts}). */
+    public long rowPassBatches() {
+        return rowPassBatches.get();
+    }
+
+    /** How many specifications those passes served. */
+    public long rowPassesServed() {
+        return rowPassesServed.get();
     }
 
     /** Number of missing-value patterns among the variant's rows. */

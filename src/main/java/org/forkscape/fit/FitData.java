@@ -36,6 +36,20 @@ public sealed interface FitData permits ObservedRows, ResampledVariant {
     KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y, ErrorType errors,
             boolean refit);
 
+    /**
+     * Whether the HC0 to HC3 row pass of the fit being made is to wait for a pass over rows held elsewhere,
+     * made for a batch of specifications after the variant's solves ({@link RowPassesByParts}): then the
+     * estimator hands its pieces to {@link #defer} instead of asking for {@link #sandwichRows}.
+     */
+    default boolean defersRowPass() {
+        return false;
+    }
+
+    /** Keeps the pieces of the fit being made for the later pass; see {@link #defersRowPass}. */
+    default void defer(RowPassRequest request) {
+        throw new UnsupportedOperationException("these rows make their own passes");
+    }
+
     /** Whether these are the observed rows (not a null draw's resample). */
     boolean observed();
 

@@ -18,7 +18,9 @@ import org.forkscape.plan.ErrorType;
  * which is what {@code sandwich}'s {@code estfun.lm} and {@code hatvalues} give for a weighted {@code lm}
  * (Zeileis 2006, "Object-oriented computation of sandwich estimators", Journal of Statistical Software
  * 16(9)). Each row is read once, in blocks
- * small enough to stay in cache; nothing is materialised beyond the block.
+ * small enough to stay in cache; nothing is materialised beyond the block. For rows held in parts the same
+ * pass runs over each part's rows ({@link #partSum}), the parts' meats are added, and {@link #finish} makes
+ * the variance as {@link #variance} does ({@link RowPassesByParts}).
  */
 final class KeyCoefficientSandwich {
     /** A leverage this close to 1 makes HC2 and HC3 undefined. */
@@ -140,6 +142,44 @@ final class KeyCoefficientSandwich {
             this.dummies = d;
             return this;
         }
+
+        /**
+         * Points the view at a part of a specification's rows held elsewhere ({@link RowPassRequest}): the
+         * part's stored (level-shifted) columns {@code columns[kept[c]]} and {@code columns[y]}, read through
+         * {@code rows}, its rows' levels, and the whole specification's offsets and level counts (one row per
+         * level and kept column, then the outcome's offset last), unweighted, no clusters.
+         */
+        RowView overPart(double[][] columns, int[] level, int[] kept, int y, int[] rows, int n,
+                double[][] levelOffsets, int[] levelCounts) {
+            int p = kept.length;
+            if (x.length < p) {
+                x = new double[p][];
+            }
+            for (int c = 0; c < p; c++) {
+                x[c] = columns[kept[c]];
+            }
+            if (offsets.length != levelOffsets.length || offsets[0].length < p) {
+                offsets = new double[levelOffsets.length][p];
+                yOffsets = new double[levelOffsets.length];
+            }
+            for (int l = 0; l < levelOffsets.length; l++) {
+                System.arraycopy(levelOffsets[l], 0, offsets[l], 0, p);
+                yOffsets[l] = levelOffsets[l][p];
+            }
+            this.y = columns[y];
+            this.rows = rows;
+            this.n = n;
+            this.level = level;
+            this.offset = offsets;
+            this.yOffset = yOffsets;
+            this.levelCount = levelCounts;
+            this.levelWeight = null;
+            this.weight = null;
+            this.scaleRows = false;
+            this.cluster = null;
+            this.clusterCount = 0;
+            return this;
+        }
     }
 
     /** Rows per block: the block's columns stay in the first-level cache. */
@@ -178,13 +218,7 @@ final class KeyCoefficientSandwich {
      */
     Variance variance(RowView view, KeySolution s, ErrorType type, int k) {
         int p = s.p;
-        int n = view.n;
-        if (w.length < p) {
-            w = new double[p];
-        }
-        if (m.length < p * p) {
-            m = new double[p * p];
-        }
+        ensure(p);
         s.keyRow(w);
         boolean leverage = type.kind() == ErrorType.Kind.HC2 || type.kind() == ErrorType.Kind.HC3;
         if (leverage && view.dummies != null && view.dummies.illConditioned) {
@@ -206,12 +240,76 @@ final class KeyCoefficientSandwich {
             java.util.Arrays.fill(clusterScore, 0, view.clusterCount, 0);
             java.util.Arrays.fill(clusterSeen, 0, view.clusterCount, false);
         }
-        boolean hc3 = type.kind() == ErrorType.Kind.HC3;
-        double[] b = s.b;
-        double[][] x = view.x;
+        double sum = rowSum(view, p, s.b, type.kind());
+        int n = view.n;
+        if (cluster) {
+            int groups = 0;
+            double meat = 0;
+            for (int g = 0; g < view.clusterCount; g++) {
+                if (clusterSeen[g]) {
+                    groups++;
+                }
+                meat += clusterScore[g] * clusterScore[g];
+            }
+            if (groups < 2) {
+                return new Variance(Double.NaN, groups, FitStatus.ONE_CLUSTER, "");
+            }
+            return new Variance(meat * groups / (groups - 1) * (n - 1.0) / (n - k), groups, null, "");
+        }
+        return finish(sum, type, n, k);
+    }
+
+    /**
+     * The HC0 to HC3 variance from the meat summed over every usable row: NaN (a leverage of one, which makes
+     * HC2 and HC3 undefined) becomes that status; HC1 scales by N/(N-K).
+     *
+     * @param sum the meat over all {@code n} usable rows, a sum of {@link #partSum}s in a fixed order or one
+     *            {@link #rowSum}
+     */
+    static Variance finish(double sum, ErrorType type, int n, int k) {
+        if (Double.isNaN(sum)) {
+            return new Variance(Double.NaN, 0, FitStatus.LEVERAGE_ONE, type.label());
+        }
+        return new Variance(type.kind() == ErrorType.Kind.HC1 ? sum * n / (n - k) : sum, 0, null, "");
+    }
+
+    /**
+     * The HC0 to HC3 meat over the rows of {@code view} alone (a part of a specification's rows), from the
+     * solution's pieces: {@code b} the coefficients, {@code w} the key row of (X'X)^-1, {@code m} the lower
+     * triangular M with (X'X)^-1 = M'M (row-major p x p; read for HC2 and HC3 only), none modified. NaN when a
+     * row's leverage is one: NaN stays NaN through the sum of the parts, and {@link #finish} reports it.
+     */
+    double partSum(RowView view, int p, double[] b, double[] w, double[] m, ErrorType.Kind kind) {
+        ensure(p);
+        System.arraycopy(w, 0, this.w, 0, p);
+        if (kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3) {
+            System.arraycopy(m, 0, this.m, 0, p * p);
+        }
+        return rowSum(view, p, b, kind);
+    }
+
+    private void ensure(int p) {
+        if (w.length < p) {
+            w = new double[p];
+        }
+        if (m.length < p * p) {
+            m = new double[p * p];
+        }
         ensureBlock(p);
+    }
+
+    /**
+     * The one pass over the rows of {@code view}, with {@link #w} and (for HC2, HC3) {@link #m} set: the HC0
+     * to HC3 meat sum of (e_i u_i)^2, divided by (1 - h_i) or its square, or NaN at the first leverage of one;
+     * for clusters, each cluster's score sum of e_i u_i into {@link #clusterScore} (and 0 returned).
+     */
+    private double rowSum(RowView view, int p, double[] b, ErrorType.Kind kind) {
+        int n = view.n;
+        boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
+        boolean cluster = kind == ErrorType.Kind.CLUSTER;
+        boolean hc3 = kind == ErrorType.Kind.HC3;
+        double[][] x = view.x;
         double sum = 0;
-        int groups = 0;
         // rows in blocks: gather the block's within values column by column, then every step is a
         // loop over the block that the JIT vectorises (axpy form), instead of scalar work per row
         for (int t0 = 0; t0 < n; t0 += BLOCK) {
@@ -274,10 +372,7 @@ final class KeyCoefficientSandwich {
                 for (int z = 0; z < len; z++) {
                     int g = view.cluster[blockRow[z]];
                     clusterScore[g] += blockE[z] * blockU[z];
-                    if (!clusterSeen[g]) {
-                        clusterSeen[g] = true;
-                        groups++;
-                    }
+                    clusterSeen[g] = true;
                 }
             } else if (leverage) {
                 if (view.dummies != null) {
@@ -310,7 +405,7 @@ final class KeyCoefficientSandwich {
                 for (int z = 0; z < len; z++) {
                     double h = blockH[z];
                     if (h > LEVERAGE_ONE) {
-                        return new Variance(Double.NaN, 0, FitStatus.LEVERAGE_ONE, type.label());
+                        return Double.NaN;
                     }
                     double eu = blockE[z] * blockU[z];
                     double q = 1 - h;
@@ -323,16 +418,6 @@ final class KeyCoefficientSandwich {
                 }
             }
         }
-        if (cluster) {
-            if (groups < 2) {
-                return new Variance(Double.NaN, groups, FitStatus.ONE_CLUSTER, "");
-            }
-            double meat = 0;
-            for (int g = 0; g < view.clusterCount; g++) {
-                meat += clusterScore[g] * clusterScore[g];
-            }
-            return new Variance(meat * groups / (groups - 1) * (n - 1.0) / (n - k), groups, null, "");
-        }
-        return new Variance(type.kind() == ErrorType.Kind.HC1 ? sum * n / (n - k) : sum, 0, null, "");
+        return sum;
     }
 }

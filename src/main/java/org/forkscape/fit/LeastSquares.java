@@ -104,6 +104,13 @@ public final class LeastSquares implements Estimator {
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     free.route(), sdRatio);
         }
+        if (spec.errors().kind() != ErrorType.Kind.CLUSTER && data.defersRowPass()) {
+            // the rows are held in parts: the variance follows from a pass over them for a batch of
+            // specifications (RowPassesByParts.finish, with KeyCoefficientSandwich.finish as below)
+            data.defer(RowPassRequest.of(mom, s, y, spec.errors().kind()));
+            return new KeyFit(s.keyEstimate(), Double.NaN, df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(),
+                    refit, VarianceRoute.ROW_PASS, sdRatio);
+        }
         KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
         KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
         if (v.failure() != null) {

@@ -10,6 +10,9 @@ public final class ObservedRows implements FitData {
     private DataVariant variant;
     private final DesignRows rows = new DesignRows();
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
+    /** Whether row passes of variants held in parts wait for a batch ({@link RowPassesByParts}). */
+    private boolean deferring;
+    private RowPassRequest deferred;
 
     /** Points this worker's view at {@code v}; returns this. */
     ObservedRows of(DataVariant v) {
@@ -67,6 +70,29 @@ public final class ObservedRows implements FitData {
         int count = codes == null ? 0 : variant.clusterCounts.get(errors.clusterColumn());
         return view.over(variant.rowColumns(mom), s.kept, s.p, y, mom, mom.n == variant.rows ? null : mom.usableRows(), codes,
                 count).withDummyLeverage(dummies);
+    }
+
+    /** Makes this worker keep the row passes of variants held in parts for a batch; returns this. */
+    ObservedRows deferringRowPasses() {
+        deferring = true;
+        return this;
+    }
+
+    @Override
+    public boolean defersRowPass() {
+        return deferring && !variant.holdsRows() && variant.rowPassReduction != null;
+    }
+
+    @Override
+    public void defer(RowPassRequest request) {
+        deferred = request;
+    }
+
+    /** The pieces the last fit kept for a later pass, or null; cleared. */
+    RowPassRequest takeDeferred() {
+        RowPassRequest r = deferred;
+        deferred = null;
+        return r;
     }
 
     @Override

@@ -22,7 +22,22 @@ public final class SpecificationFitter {
         estimator = new ModelDispatch(allowRowFree);
     }
 
+    /**
+     * Makes this fitter keep, rather than refuse, the HC0 to HC3 row pass of a variant held in parts: such a
+     * fit comes back without its standard error, and {@link #takeDeferred} gives the pieces that
+     * {@link RowPassesByParts#finish} completes it with. Returns this.
+     */
+    public SpecificationFitter deferringRowPasses() {
+        rows.deferringRowPasses();
+        return this;
+    }
+
     public KeyFit fit(DataVariant variant, SpecificationModel spec) {
         return estimator.fit(spec, rows.of(variant));
+    }
+
+    /** The row pass the last {@link #fit} left for a batch, or null (then that fit is complete). */
+    public RowPassRequest takeDeferred() {
+        return rows.takeDeferred();
     }
 }

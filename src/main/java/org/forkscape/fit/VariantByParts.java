@@ -298,6 +298,8 @@ public final class VariantByParts {
         PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
         DataVariant variant = variant(key, facts, sum);
         variant.refitReduction = (mom, cols, y) -> refitRows(key, shifted, variant, mom, cols, y, parts);
+        variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
+                VariantByParts::addSums);
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -316,6 +318,8 @@ public final class VariantByParts {
     DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
         DataVariant variant = variant(key, facts, sum);
         variant.refitReduction = (mom, cols, y) -> refitRows(key, facts, variant, mom, cols, y, drawParts);
+        variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
+                VariantByParts::addSums);
         return variant;
     }
 
@@ -361,6 +365,46 @@ public final class VariantByParts {
             rows.add(row);
         }
         return triangular(rows.toArray(new double[0][]));
+    }
+
+    /**
+     * This part's share of each requested specification's HC0 to HC3 meat: the engine's row pass
+     * ({@link KeyCoefficientSandwich#partSum}) over this part's rows among the request's usable missing
+     * patterns, in within coordinates by the request's level offsets, with its leverages from the whole
+     * specification's level counts. One double per request (NaN where a row's leverage is one); what the
+     * part holds besides its coding is one array of row numbers, reused from request to request.
+     */
+    public double[] rowPassSums(VariantKey key, WholeRows whole, RowPassRequest[] batch) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        KeyCoefficientSandwich sandwich = new KeyCoefficientSandwich();
+        KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
+        int[] rows = new int[coded.rows];
+        int n = 0;
+        long[] rowsOf = null;
+        double[] out = new double[batch.length];
+        for (int i = 0; i < batch.length; i++) {
+            RowPassRequest r = batch[i];
+            if (!java.util.Arrays.equals(r.usableMasks, rowsOf)) {
+                n = 0;
+                for (int row = 0; row < coded.rows; row++) {
+                    if (java.util.Arrays.binarySearch(r.usableMasks, coded.groupMissing[coded.group[row]]) >= 0) {
+                        rows[n++] = row;
+                    }
+                }
+                rowsOf = r.usableMasks;
+            }
+            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts);
+            out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
+        }
+        return out;
+    }
+
+    /** Two parts' meats as one, specification by specification ({@code a} modified and returned). */
+    static double[] addSums(double[] a, double[] b) {
+        for (int i = 0; i < a.length; i++) {
+            a[i] += b[i];
+        }
+        return a;
     }
 
     /** Two parts' factors as one: stacked, and factored again when that leaves more rows than columns. */

@@ -10,7 +10,7 @@ import java.util.concurrent.atomic.AtomicInteger;
 import org.forkscape.fit.BootstrapByParts;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
-import org.forkscape.fit.RowPassUnavailable;
+import org.forkscape.fit.RowPassesByParts;
 import org.forkscape.fit.SpecificationFitter;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.run.RunCancelledException;
@@ -71,18 +71,28 @@ final class DrawsByParts {
                         throw new RunCancelledException();
                     }
                     DataVariant[] inDraw = source.draws(models.variantKey(v), variants.variant(v), from, to);
+                    List<org.forkscape.fit.SpecificationModel> specModels = new ArrayList<>(specs.length);
+                    for (int i : specs) {
+                        specModels.add(variants.model(i));
+                    }
                     AtomicInteger next = new AtomicInteger();
                     List<Future<?>> futures = new ArrayList<>();
                     for (int w = 0; w < workers; w++) {
                         futures.add(pool.submit(() -> {
-                            SpecificationFitter fitter = new SpecificationFitter();
+                            SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses();
                             int b;
                             while ((b = next.getAndIncrement()) < count) {
-                                for (int i : specs) {
-                                    KeyFit fit;
-                                    try {
-                                        fit = fitter.fit(inDraw[b], variants.model(i));
-                                    } catch (RowPassUnavailable e) {
+                                // the row passes of HC2, HC3 (and HC0, HC1 beside an absorbed column) by batches
+                                // over this draw's parts
+                                KeyFit[] fits = RowPassesByParts.fitEach(fitter, inDraw[b], specModels, () -> {
+                                    if (cancel != null && cancel.get()) {
+                                        throw new RunCancelledException();
+                                    }
+                                });
+                                for (int s = 0; s < specs.length; s++) {
+                                    int i = specs[s];
+                                    KeyFit fit = fits[s];
+                                    if (fit == null) {
                                         // its sandwich from sums could lose digits in this draw (say, copies
                                         // of one cluster alone): left out of the draw, as a failed fit is
                                         continue;

@@ -15,7 +15,9 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
+import org.forkscape.fit.RowPassRequest;
 import org.forkscape.fit.RowPassUnavailable;
+import org.forkscape.fit.RowPassesByParts;
 import org.forkscape.fit.SpecificationFitter;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
@@ -39,6 +41,8 @@ public final class MultiverseRunner {
     private final int threads;
     private final boolean allowRowFree;
     private final VariantSource variants;
+    /** Specifications per pass over the rows of a variant held in parts ({@link RowPassesByParts}). */
+    private final int rowPassBatch;
 
     public MultiverseRunner(int threads) {
         this(threads, true);
@@ -48,13 +52,14 @@ public final class MultiverseRunner {
      * @param allowRowFree false forces the one-row-pass sandwich (the benchmark's comparison route)
      */
     public MultiverseRunner(int threads, boolean allowRowFree) {
-        this(threads, allowRowFree, null);
+        this(threads, allowRowFree, null, RowPassesByParts.MAX_PER_BATCH);
     }
 
-    private MultiverseRunner(int threads, boolean allowRowFree, VariantSource variants) {
+    private MultiverseRunner(int threads, boolean allowRowFree, VariantSource variants, int rowPassBatch) {
         this.threads = Math.max(1, threads);
         this.allowRowFree = allowRowFree;
         this.variants = variants;
+        this.rowPassBatch = rowPassBatch;
     }
 
     /**
@@ -63,7 +68,15 @@ public final class MultiverseRunner {
      * ({@link RowPassUnavailable}) with its number.
      */
     public MultiverseRunner withVariants(VariantSource variants) {
-        return new MultiverseRunner(threads, allowRowFree, variants);
+        return new MultiverseRunner(threads, allowRowFree, variants, rowPassBatch);
+    }
+
+    /**
+     * The same runner making the row passes of variants held in parts for at most {@code specifications} at a
+     * time (default {@link RowPassesByParts#MAX_PER_BATCH}); the results do not depend on it.
+     */
+    public MultiverseRunner withRowPassBatch(int specifications) {
+        return new MultiverseRunner(threads, allowRowFree, variants, Math.max(1, specifications));
     }
 
     public MultiverseRunner() {
@@ -142,10 +155,11 @@ public final class MultiverseRunner {
                 int[] slots = slotsByVariant[v];
                 describeWork(variant, slots, indices, space, models, pool);
                 AtomicInteger next = new AtomicInteger();
+                java.util.Queue<RowPassesByParts.Deferred> deferred = new java.util.concurrent.ConcurrentLinkedQueue<>();
                 List<Future<?>> futures = new ArrayList<>();
                 for (int t = 0; t < threads; t++) {
                     futures.add(pool.submit(() -> {
-                        SpecificationFitter fitter = new SpecificationFitter(allowRowFree);
+                        SpecificationFitter fitter = new SpecificationFitter(allowRowFree).deferringRowPasses();
                         long[] c = new long[space.decisionCount()];
                         // counted per worker and added once per chunk: no shared counter in the per-fit loop
                         long[] routed = new long[VarianceRoute.values().length];
@@ -168,7 +182,14 @@ public final class MultiverseRunner {
                                             + e.getMessage() + "; run the plan on one machine, or leave out the "
                                             + "choice that needs it");
                                 }
-                                results.set(slot, fit);
+                                RowPassRequest later = fitter.takeDeferred();
+                                if (later != null) {
+                                    // set once its variance is known (finishRowPasses)
+                                    deferred.add(new RowPassesByParts.Deferred(slot, fit,
+                                            models.model(c).errors(), later));
+                                } else {
+                                    results.set(slot, fit);
+                                }
                                 if (fit.refitByQr()) {
                                     refits.incrementAndGet();
                                 }
@@ -188,6 +209,7 @@ public final class MultiverseRunner {
                     WorkerPools.await(f);
                 }
                 checkCancel(cancel);
+                finishRowPasses(variant, deferred, results, cancel);
             }
         } finally {
             WorkerPools.stop(pool);
@@ -200,6 +222,23 @@ public final class MultiverseRunner {
         }
         return new RunResult(plan, table, models, results, refits.get(), routeCounts,
                 (System.nanoTime() - start) / 1e9);
+    }
+
+    /**
+     * The variances of the specifications whose rows are held in parts, by batches of passes over the parts
+     * in slot order (so that the batches, and the bits, do not depend on which worker solved what).
+     */
+    private void finishRowPasses(DataVariant variant, java.util.Collection<RowPassesByParts.Deferred> deferred,
+            ResultTable results, AtomicBoolean cancel) {
+        if (deferred.isEmpty()) {
+            return;
+        }
+        List<RowPassesByParts.Deferred> inOrder = new ArrayList<>(deferred);
+        inOrder.sort(java.util.Comparator.comparingInt(RowPassesByParts.Deferred::slot));
+        KeyFit[] fits = RowPassesByParts.finish(variant, inOrder, rowPassBatch, () -> checkCancel(cancel));
+        for (int i = 0; i < fits.length; i++) {
+            results.set(inOrder.get(i).slot(), fits[i]);
+        }
     }
 
     /** Specifications {@link #describeWork} decodes at most. */

@@ -28,6 +28,7 @@ import org.forkscape.fit.DrawFit;
 import org.forkscape.fit.KeyFit;
 import org.forkscape.fit.PartsOfTable;
 import org.forkscape.fit.PoissonCounts;
+import org.forkscape.fit.RowPassesByParts;
 import org.forkscape.fit.SpecificationFitter;
 import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.VariantKey;
@@ -111,6 +112,14 @@ class SparkNullDrawsTest {
     }
 
     @Test
+    void hc3DrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
+        // HC3, and HC1 beside the absorbed district: the draws' row passes over each draw's partitions
+        SparkParityTest.report("draws-hc3", sameDraws(withDraws(PartsOfTable.SCHOOLS_PLAN.replace("[\"classical\"",
+                "[\"HC1\", \"HC3\""), "school"), "school"));
+        assertTrue(rowPasses > 0, rowPasses + " draw fits from row passes");
+    }
+
+    @Test
     void schoolDrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
         SparkParityTest.report("draws-schools", sameDraws(withDraws(PartsOfTable.SCHOOLS_PLAN, "school"), "school"));
     }
@@ -125,8 +134,12 @@ class SparkNullDrawsTest {
      *
      * @return the largest relative differences from one machine: estimate, standard error, p-value
      */
+    /** Specifications fitted by row passes over a draw's partitions in the last {@link #sameDraws}. */
+    private static long rowPasses;
+
     private static double[] sameDraws(String planText, String resampled) {
         double[] worst = new double[3];
+        rowPasses = 0;
         Plan plan = new PlanReader(false).read(planText, folder);
         BootstrapDesign design = new BootstrapDesign(plan.seed(), resampled);
         assertEquals(resampled, NullDrawSettings.of(plan).clusterColumn());
@@ -140,7 +153,7 @@ class SparkNullDrawsTest {
             BootstrapByParts draws = run.models().bootstrap(design);
             assertTrue(draws != null, "the Spark runner makes its draws by partitions");
             KeyFit[][][] fits = new KeyFit[indexed.variantCount()][][];
-            SpecificationFitter fitter = new SpecificationFitter();
+            SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses();
             for (int v = 0; v < indexed.variantCount(); v++) {
                 int[] specs = indexed.specificationsOf(v);
                 if (specs.length == 0) {
@@ -159,8 +172,13 @@ class SparkNullDrawsTest {
                 for (int d = 0; d < DRAWS; d++) {
                     DrawFit[] one = PartsOfTable.oneMachine(inMemory.models().variant(key), predictors, models,
                             readBack, rowKeys, design, d);
+                    // as the null draws fit them, the row passes by batches over the draw's partitions
+                    long served = inDraw[d].rowPassesServed();
+                    KeyFit[] drawFits = RowPassesByParts.fitEach(fitter, inDraw[d], models, () -> { });
+                    rowPasses += inDraw[d].rowPassesServed() - served;
                     for (int s = 0; s < specs.length; s++) {
-                        KeyFit fit = fitter.fit(inDraw[d], models.get(s));
+                        KeyFit fit = drawFits[s];
+                        assertTrue(fit != null, "a row pass refused by partitions");
                         fits[v][d][s] = fit;
                         String where = partitions + " partitions, variant " + v + ", draw " + d + ", specification "
                                 + run.results().specNumber(indexed.slot(specs[s]));
@@ -204,8 +222,9 @@ class SparkNullDrawsTest {
     @Test
     void theCommandWritesTheDrawsFilesTheSameOnThreeAndEightPartitions() throws IOException {
         Path plan = folder.resolve("schools-plan.json");
-        Files.writeString(plan, withDraws(PartsOfTable.SCHOOLS_PLAN, "school").replace("\"nullDraws\": " + DRAWS,
-                "\"nullDraws\": 40"));
+        // with HC3 beside classical and school errors: the draws' row passes through the command too
+        Files.writeString(plan, withDraws(PartsOfTable.SCHOOLS_PLAN.replace("[\"classical\"", "[\"HC3\", \"classical\""),
+                "school").replace("\"nullDraws\": " + DRAWS, "\"nullDraws\": 40"));
         List<List<CSVRecord>> files = new ArrayList<>();
         List<com.fasterxml.jackson.databind.JsonNode> summaries = new ArrayList<>();
         for (int partitions : new int[] {3, 8}) {
@@ -251,14 +270,10 @@ class SparkNullDrawsTest {
         assertTrue(e.problem().startsWith("permutation draws are not made on Spark"), e.problem());
         assertTrue(e.problem().contains("use the bootstrap"), e.problem());
 
-        // what Spark refused before still is, beside draws
-        Plan hc3 = plan(withDraws(PartsOfTable.ROWS_PLAN, "rows").replace("\"HC1\"", "\"HC3\""));
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(hc3));
-        assertEquals("decisions[4].alternatives[1]", e.where());
-        Plan absorbedHc1 = plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school").replace("\"classical\", \"cluster",
-                "\"HC1\", \"cluster"));
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(absorbedHc1));
-        assertEquals("decisions[4].alternatives[0]", e.where());
+        // the error types that need the row passes are computed beside draws too
+        SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "rows").replace("\"HC1\"", "\"HC3\"")));
+        SparkRefusals.check(plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school").replace("\"classical\", \"cluster",
+                "\"HC1\", \"cluster")));
         // and draws on what Spark computes are not
         SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "rows")));
         SparkRefusals.check(plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school")));

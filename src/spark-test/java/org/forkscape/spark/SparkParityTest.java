@@ -8,7 +8,6 @@ import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
@@ -37,15 +36,17 @@ import org.junit.jupiter.params.provider.ValueSource;
  * and from a Parquet copy written by Spark here: every specification's estimate, standard error and p-value
  * within {@value #RELATIVE} relative (the two sum the same cells in a different order, and the level
  * shifts are merged means rather than one mean; the largest difference measured is written to
- * {@code target/spark-reports/}), and the counts exact. Three plans: the AirQuality reference plan without
- * HC2 and HC3, whose constant Month dummies send some specifications to the precision guard's QR refit, made
- * here from the partitions' triangular factors (at 3 partitions, also against R); the ToothGrowth reference plan of
- * {@code src/test/r/make-reference.R} without its HC3 alternative (refused on Spark), also held against R's
- * lm() with sandwich (toothgrowth-expected.csv, same tolerance as {@code RLmSandwichReferenceTest}); and the
- * demo plan with what Spark refuses taken out (HC1 and HC3 with absorbed fixed effects) and without the zone
- * control, whose collinearity with the absorbed zone would make 576 QR refits, one Spark job each, too slow
- * for a unit test (the refits from parts are checked on this plan by {@code fit.VariantByPartsTest}). It still has a log, a standardize, a winsorize, a trim, a keep rule, missing cells, an
- * absorbed fixed effect and cluster errors. Each at 1, 3 and 8 partitions.
+ * {@code target/spark-reports/}), and the counts exact. Three plans: the AirQuality reference plan, whose
+ * constant Month dummies send some specifications to the precision guard's QR refit, made here from the
+ * partitions' triangular factors, and whose HC2 and HC3 come from the row passes by batches (at 3
+ * partitions, also against R); the ToothGrowth reference plan of {@code src/test/r/make-reference.R}, its HC3
+ * from the row passes, also held against R's lm() with sandwich (toothgrowth-expected.csv, same tolerance as
+ * {@code RLmSandwichReferenceTest}); and the demo plan without the zone control, whose collinearity with the
+ * absorbed zone would make 576 QR refits, one Spark job each, too slow for a unit test (the refits from parts
+ * are checked on this plan by {@code fit.VariantByPartsTest}). It still has a log, a standardize, a
+ * winsorize, a trim, a keep rule, missing cells, an absorbed fixed effect, cluster errors, and HC1 and HC3
+ * beside the absorbed zone (row passes by batches). Each at 1, 3 and 8 partitions; {@code SparkRowPassTest}
+ * has the ChickWeight plan's leverages of 1 and the batch size.
  */
 class SparkParityTest {
     static final double RELATIVE = 1e-10;
@@ -80,23 +81,19 @@ class SparkParityTest {
     @ParameterizedTest(name = "{0} partitions")
     @ValueSource(ints = {1, 3, 8})
     void toothGrowthEqualsTheEngineAndR(int partitions) throws IOException {
-        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
-                "errors", List.of("HC3"));
+        String planText = Files.readString(REFERENCE.resolve("toothgrowth-plan.json"));
         Comparison c = compare(planText, REFERENCE, toothParquet, partitions);
         assertTrue(c.spark.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0
                 && c.spark.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "HC1 from fourth moments and "
                 + "cluster errors from cluster cells on Spark: " + c.spark.routes());
+        // HC3: 3 outcomes x 2 dose controls x 2 samples, every one from the row passes
+        assertEquals(12, SparkRowPassTest.served(c.spark), "specifications served by the row passes");
         report("toothgrowth-" + partitions, c.worst);
 
-        // and against R: every specification of the plan without HC3 joined by its labels
-        List<Map<String, String>> expected = new ArrayList<>();
-        for (Map<String, String> row : ReferenceFiles.rows("toothgrowth-expected.csv")) {
-            if (!row.get("errors").equals("HC3")) {
-                expected.add(row);
-            }
-        }
+        // and against R: every specification of the plan joined by its labels
+        List<Map<String, String>> expected = ReferenceFiles.rows("toothgrowth-expected.csv");
         ResultTable r = c.spark.results();
-        assertEquals(expected.size(), r.size(), "specifications against toothgrowth-expected.csv without HC3");
+        assertEquals(expected.size(), r.size(), "specifications against toothgrowth-expected.csv");
         Map<String, Integer> slots = ReferenceFiles.slotsByLabels(c.spark);
         for (Map<String, String> row : expected) {
             String key = String.join(" | ", row.get("outcome"), row.get("supplement"), row.get("dose"), row.get("doses"),
@@ -114,20 +111,17 @@ class SparkParityTest {
     void airqualityWithQrRefitsEqualsTheEngineAndR() throws IOException {
         Path parquet = ParquetCopy.write(spark, new CsvTableReader().read(REFERENCE.resolve("airquality.csv")),
                 folder.resolve("airquality.parquet"), 3);
-        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("airquality-plan.json")),
-                "errors", List.of("HC2", "HC3"));
+        String planText = Files.readString(REFERENCE.resolve("airquality-plan.json"));
         Comparison c = compare(planText, REFERENCE, parquet, 3);
         assertTrue(c.spark.refitByQr() > 0 && c.spark.refitByQr() < c.spark.results().size(), c.spark.refitByQr()
                 + " specifications refit by QR from the partitions' triangular factors");
+        // HC2 and HC3: 2 of the 7 error types of 3 x 3 x 8 x 2 x 2 specifications, all from the row passes
+        assertTrue(SparkRowPassTest.served(c.spark) >= 2 * 288, SparkRowPassTest.served(c.spark)
+                + " specifications served by the row passes");
         report("airquality-3", c.worst);
-        List<Map<String, String>> expected = new ArrayList<>();
-        for (Map<String, String> row : ReferenceFiles.rows("airquality-expected.csv")) {
-            if (!row.get("errors").equals("HC2") && !row.get("errors").equals("HC3")) {
-                expected.add(row);
-            }
-        }
+        List<Map<String, String>> expected = ReferenceFiles.rows("airquality-expected.csv");
         ResultTable r = c.spark.results();
-        assertEquals(expected.size(), r.size(), "specifications against airquality-expected.csv without HC2, HC3");
+        assertEquals(expected.size(), r.size(), "specifications against airquality-expected.csv");
         Map<String, Integer> slots = ReferenceFiles.slotsByLabels(c.spark);
         for (Map<String, String> row : expected) {
             String key = String.join(" | ", row.get("outcome"), row.get("temperature"), row.get("controls"),
@@ -145,17 +139,17 @@ class SparkParityTest {
     @ParameterizedTest(name = "{0} partitions")
     @ValueSource(ints = {1, 3, 8})
     void demoPlanEqualsTheEngine(int partitions) throws IOException {
-        String planText = PlanEdits.demoFromStatistics(Files.readString(SAMPLE.resolve("civic-demo.plan.json")));
+        String planText = PlanEdits.withoutZoneControl(Files.readString(SAMPLE.resolve("civic-demo.plan.json")));
         Comparison c = compare(planText, SAMPLE, demoParquet, partitions);
         assertTrue(c.spark.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster cells on Spark: "
                 + c.spark.routes());
+        assertTrue(SparkRowPassTest.served(c.spark) > 0, "HC1 and HC3 beside the absorbed zone from the row passes");
         report("demo-" + partitions, c.worst);
     }
 
     @Test
     void theSameBitsEveryTimeForTheSamePartitioning() throws IOException {
-        String planText = PlanEdits.withoutAlternatives(Files.readString(REFERENCE.resolve("toothgrowth-plan.json")),
-                "errors", List.of("HC3"));
+        String planText = Files.readString(REFERENCE.resolve("toothgrowth-plan.json"));
         RunResult first = sparkRun(planText, REFERENCE, toothParquet, 3);
         RunResult second = sparkRun(planText, REFERENCE, toothParquet, 3);
         for (int slot = 0; slot < first.results().size(); slot++) {

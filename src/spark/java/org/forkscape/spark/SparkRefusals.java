@@ -4,7 +4,6 @@ import java.util.List;
 import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
-import org.forkscape.plan.AbsorbChoice;
 import org.forkscape.plan.Decision;
 import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
@@ -12,11 +11,9 @@ import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
- * with the way out. They all need passes over rows beyond the sufficient statistics (README, "Beyond one
- * machine", lists them): generalized linear models, HC2 and HC3, multi-way clustering, HC0
- * or HC1 together with absorbed fixed effects (the fourth-moment route covers them without absorption only),
- * two absorbed columns (their within transformation iterates over the rows) and analytic weights (the parts'
- * statistics are unweighted sums); beside null draws, the permutation.
+ * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
+ * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
+ * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -28,12 +25,6 @@ final class SparkRefusals {
         List<Decision> ds = plan.decisions();
         if (plan.nullDraws() > 0) {
             nullDraws(plan);
-        }
-        boolean absorbs = false;
-        for (Decision d : ds) {
-            if (d instanceof Decision.Absorb a) {
-                absorbs |= a.alternatives().stream().map(AbsorbChoice::columns).anyMatch(c -> !c.isEmpty());
-            }
         }
         for (int i = 0; i < ds.size(); i++) {
             Decision d = ds.get(i);
@@ -65,18 +56,8 @@ final class SparkRefusals {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
                     String at = "decisions[" + i + "].alternatives[" + j + "]";
-                    if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
-                        throw new InputException(at, t.label() + " needs each row's leverage, a pass over the rows "
-                                + "per specification, which the Spark runner does not make" + WAY_OUT);
-                    }
                     if (t.multiway()) {
                         throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
-                                + WAY_OUT);
-                    }
-                    if (absorbs && (t.kind() == ErrorType.Kind.HC0 || t.kind() == ErrorType.Kind.HC1)) {
-                        throw new InputException(at, t.label() + " with absorbed fixed effects needs a pass over "
-                                + "the rows per specification, which the Spark runner does not make (without "
-                                + "absorption it is computed from fourth moments; cluster errors work with both)"
                                 + WAY_OUT);
                     }
                 }

@@ -88,6 +88,27 @@ final class SparkVariants implements VariantSource, VariantParts {
     }
 
     /**
+     * {@code shared} goes to each executor once as a broadcast variable (a batch of specifications' pieces for
+     * the row pass, {@link org.forkscape.fit.RowPassesByParts}), destroyed when the job is done.
+     */
+    @Override
+    public <S extends java.io.Serializable, T> T reduce(S shared, SharedPartFunction<S, T> f, Merge<T> merge) {
+        String text = planText;
+        String folder = planFolder;
+        org.apache.spark.broadcast.Broadcast<S> sent = org.apache.spark.api.java.JavaSparkContext
+                .fromSparkContext(spark.sparkContext()).broadcast(shared);
+        try {
+            JavaRDD<Holder<T>> results = parts.map(table -> new Holder<>(f.apply(coding(text, folder, table),
+                    sent.value())));
+            Holder<T> h = OrderedTree.reduce(results, (a, b) -> new Holder<>(a.value == null ? b.value
+                    : b.value == null ? a.value : merge.apply(a.value, b.value)));
+            return h == null ? null : h.value;
+        } finally {
+            sent.destroy();
+        }
+    }
+
+    /**
      * Spark's {@code percentile} aggregate is exact: it interpolates linearly between the order statistics
      * at (n - 1) p, which is type 7 of Hyndman &amp; Fan (1996), the engine's.
      */

@@ -61,6 +61,22 @@ class BootstrapByPartsTest {
 
     @ParameterizedTest(name = "{0} slices")
     @ValueSource(ints = {1, 3, 7})
+    void hc2AndHc3DrawsPassOverThatDrawsParts(int slices) {
+        Result r = compare(PLAN.replace("[\"classical\", \"HC1\"", "[\"HC2\", \"HC3\""), new BootstrapDesign(45, null),
+                slices);
+        assertTrue(r.rowPasses > 0, "draw fits from row passes over the draw's parts");
+    }
+
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void absorbedHc1AndHc3DrawsPassOverThatDrawsParts(int slices) {
+        Result r = compare(ABSORBING_PLAN.replace("[\"classical\"", "[\"HC1\", \"HC3\""), new BootstrapDesign(46,
+                "school"), slices);
+        assertTrue(r.rowPasses > 0, "draw fits from row passes over the draw's parts");
+    }
+
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
     void qrRefitsInADrawReduceThatDrawsParts(int slices) {
         // a control b2 = 2 b + 1, collinear with b and the intercept in every draw: the precision guard
         // declines each fit with both, and the QR refit drops b2, from the triangular factors of the draw's parts
@@ -78,7 +94,7 @@ class BootstrapByPartsTest {
         assertTrue(r.refits > 0, "some draw fits refit by QR from the draw's parts");
     }
 
-    record Result(int compared, int refits) {
+    record Result(int compared, int refits, long rowPasses) {
     }
 
     private static Result compare(String planJson, BootstrapDesign design, int slices) {
@@ -96,9 +112,10 @@ class BootstrapByPartsTest {
         BootstrapByParts draws = byParts.models().bootstrap(design);
         assertNotNull(draws, "a source by parts makes its draws by parts");
         int predictors = plan.predictor().alternatives().size();
-        SpecificationFitter fitter = new SpecificationFitter();
+        SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses();
         int compared = 0;
         int refits = 0;
+        long rowPasses = 0;
         for (int v = 0; v < indexed.variantCount(); v++) {
             int[] specs = indexed.specificationsOf(v);
             if (specs.length == 0) {
@@ -114,10 +131,16 @@ class BootstrapByPartsTest {
             for (int d = 0; d < DRAWS; d++) {
                 DrawFit[] expected = PartsOfTable.oneMachine(inMemory.models().variant(key), predictors, models, table,
                         keys, design, d);
+                // as the null draws fit them: HC2, HC3 (and HC0, HC1 beside an absorbed column) by row passes over
+                // the draw's parts
+                long served = inDraw[d].rowPassesServed();
+                KeyFit[] fits = RowPassesByParts.fitEach(fitter, inDraw[d], models, () -> { });
+                rowPasses += inDraw[d].rowPassesServed() - served;
                 for (int s = 0; s < specs.length; s++) {
-                    KeyFit fit = fitter.fit(inDraw[d], models.get(s));
+                    KeyFit fit = fits[s];
                     String where = "variant " + v + ", draw " + d + ", specification "
                             + byParts.results().specNumber(indexed.slot(specs[s]));
+                    assertNotNull(fit, where + ": a row pass refused by parts");
                     if (expected[s] == null || !(expected[s].stdError() > 0)) {
                         assertTrue(!fit.ok() || !(fit.stdError() > 0), where + ": fitted by parts, not on one machine");
                         continue;
@@ -134,7 +157,7 @@ class BootstrapByPartsTest {
             }
         }
         assertTrue(compared > DRAWS * indexed.size() / 2, compared + " fits compared");
-        return new Result(compared, refits);
+        return new Result(compared, refits, rowPasses);
     }
 
     private static void close(double expected, double actual, String what) {

@@ -1,0 +1,102 @@
+package org.forkscape.fit;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.forkscape.plan.ErrorType;
+
+/**
+ * The HC2 and HC3 leverages, and the HC0 and HC1 sandwiches that the fourth moments do not serve (beside an
+ * absorbed column, or where their guard declines), of a variant whose rows are held in parts
+ * ({@link VariantByParts#build}): the driver solves every specification from the statistics first and keeps
+ * each such specification's small pieces ({@link RowPassRequest}); then, for a batch of them, one pass over
+ * every part's rows sums each specification's meat over its usable rows ({@link VariantByParts#rowPassSums}),
+ * reduced in part order, and {@link KeyCoefficientSandwich#finish} makes each variance as one machine does.
+ * A batch is bounded by {@link #MAX_PER_BATCH} specifications and {@link #BYTES_PER_BATCH} of their pieces,
+ * so that what is shipped to the parts and what each part returns (one double per specification) stay small.
+ */
+public final class RowPassesByParts {
+    /** Specifications per pass at most: a part's work per pass is this many passes over its rows. */
+    public static final int MAX_PER_BATCH = 256;
+    /** The pieces shipped per pass at most (a single larger specification goes alone). */
+    public static final long BYTES_PER_BATCH = 8L << 20;
+
+    private RowPassesByParts() {
+    }
+
+    /** A specification solved on the driver whose variance waits for the pass over its rows. */
+    public record Deferred(int slot, KeyFit fit, ErrorType errors, RowPassRequest request) {
+    }
+
+    /**
+     * Every deferred specification's fit with its variance, in the order given (which the caller keeps
+     * fixed, so that the batches and their results are the same every time).
+     *
+     * @param maxPerBatch   at most this many specifications per pass (at most {@link #MAX_PER_BATCH} is usual;
+     *                      the numbers do not depend on it)
+     * @param beforeEachPass run before each pass (the caller's cancel check, which may throw to stop)
+     */
+    public static KeyFit[] finish(DataVariant variant, List<Deferred> deferred, int maxPerBatch,
+            Runnable beforeEachPass) {
+        KeyFit[] out = new KeyFit[deferred.size()];
+        int from = 0;
+        while (from < deferred.size()) {
+            beforeEachPass.run();
+            int to = from;
+            long bytes = 0;
+            while (to < deferred.size() && to - from < maxPerBatch
+                    && (to == from || bytes + deferred.get(to).request().bytes() <= BYTES_PER_BATCH)) {
+                bytes += deferred.get(to).request().bytes();
+                to++;
+            }
+            List<RowPassRequest> batch = new ArrayList<>(to - from);
+            for (int i = from; i < to; i++) {
+                batch.add(deferred.get(i).request());
+            }
+            double[] sums = variant.rowPassReduction.sums(batch.toArray(new RowPassRequest[0]));
+            variant.rowPassBatches.incrementAndGet();
+            variant.rowPassesServed.addAndGet(to - from);
+            for (int i = from; i < to; i++) {
+                out[i] = finished(deferred.get(i), sums[i - from]);
+            }
+            from = to;
+        }
+        return out;
+    }
+
+    /**
+     * Every specification of {@code models} fitted on {@code variant} by {@code fitter} (which defers its row
+     * passes), the deferred ones finished by batches; null for a specification that needs a pass over rows that
+     * cannot be made ({@link RowPassUnavailable}).
+     */
+    public static KeyFit[] fitEach(SpecificationFitter fitter, DataVariant variant, List<SpecificationModel> models,
+            Runnable beforeEachPass) {
+        KeyFit[] out = new KeyFit[models.size()];
+        List<Deferred> deferred = new ArrayList<>();
+        for (int i = 0; i < out.length; i++) {
+            try {
+                out[i] = fitter.fit(variant, models.get(i));
+            } catch (RowPassUnavailable e) {
+                continue;
+            }
+            RowPassRequest later = fitter.takeDeferred();
+            if (later != null) {
+                deferred.add(new Deferred(i, out[i], models.get(i).errors(), later));
+            }
+        }
+        KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass);
+        for (int j = 0; j < finished.length; j++) {
+            out[deferred.get(j).slot()] = finished[j];
+        }
+        return out;
+    }
+
+    /** The fit with the variance from its meat summed over every part, as {@link LeastSquares} ends a row pass. */
+    private static KeyFit finished(Deferred d, double sum) {
+        KeyFit fit = d.fit();
+        KeyCoefficientSandwich.Variance v = KeyCoefficientSandwich.finish(sum, d.errors(), fit.nObs(), fit.nParams());
+        if (v.failure() != null) {
+            return fit.withError(Double.NaN, Double.NaN, v.failure(), v.failureDetail(), "", VarianceRoute.ROW_PASS);
+        }
+        return fit.withError(Math.sqrt(v.value()), fit.df(), FitStatus.OK, "", fit.note(), VarianceRoute.ROW_PASS);
+    }
+}

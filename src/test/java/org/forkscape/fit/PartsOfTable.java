@@ -84,23 +84,7 @@ public final class PartsOfTable {
         }
         VariantByParts decider = new VariantByParts(plan, table);
         WholeRows grouping = WholeRows.NONE.withGroupingValues(VariantByPartsTest.numericGroupingValues(table));
-        VariantParts inMemory = new VariantParts() {
-            @Override
-            public <T> T reduce(PartFunction<T> f, Merge<T> merge) {
-                T acc = null;
-                for (VariantByParts p : parts) {
-                    T next = f.apply(p);
-                    acc = acc == null ? next : next == null ? acc : merge.apply(acc, next);
-                }
-                return acc;
-            }
-
-            @Override
-            public double[] quantiles(PartFunction<double[]> values, double low, double high) {
-                double[] all = parts.stream().flatMapToDouble(p -> Arrays.stream(values.apply(p))).sorted().toArray();
-                return new double[] {Transforms.quantileType7(all, low), Transforms.quantileType7(all, high)};
-            }
-        };
+        VariantParts inMemory = VariantByPartsTest.inMemory(parts);
         return new VariantSource() {
             private final java.util.Map<VariantKey, DataVariant> built = new java.util.concurrent.ConcurrentHashMap<>();
 

@@ -98,16 +98,9 @@ class VariantByPartsTest {
         }
     }
 
-    /** Variants built from {@code slices} consecutive slices of the table's rows. */
-    static VariantSource source(Plan plan, Table table, int slices) {
-        List<VariantByParts> parts = new ArrayList<>();
-        int n = table.rowCount();
-        for (int s = 0; s < slices; s++) {
-            parts.add(new VariantByParts(plan, slice(table, s * n / slices, (s + 1) * n / slices)));
-        }
-        VariantByParts decider = new VariantByParts(plan, table);
-        WholeRows grouping = WholeRows.NONE.withGroupingValues(numericGroupingValues(table));
-        VariantParts inMemory = new VariantParts() {
+    /** The parts reduced in their order, in memory, as a distributed engine reduces them in a fixed order. */
+    static VariantParts inMemory(List<VariantByParts> parts) {
+        return new VariantParts() {
             @Override
             public <T> T reduce(PartFunction<T> f, Merge<T> merge) {
                 T acc = null;
@@ -124,6 +117,18 @@ class VariantByPartsTest {
                 return new double[] {Transforms.quantileType7(all, low), Transforms.quantileType7(all, high)};
             }
         };
+    }
+
+    /** Variants built from {@code slices} consecutive slices of the table's rows. */
+    static VariantSource source(Plan plan, Table table, int slices) {
+        List<VariantByParts> parts = new ArrayList<>();
+        int n = table.rowCount();
+        for (int s = 0; s < slices; s++) {
+            parts.add(new VariantByParts(plan, slice(table, s * n / slices, (s + 1) * n / slices)));
+        }
+        VariantByParts decider = new VariantByParts(plan, table);
+        WholeRows grouping = WholeRows.NONE.withGroupingValues(numericGroupingValues(table));
+        VariantParts inMemory = inMemory(parts);
         return (key, pool) -> decider.build(key, grouping, inMemory);
     }
 

@@ -34,9 +34,10 @@ public final class RowPassesByParts {
      * @param maxPerBatch   at most this many specifications per pass (at most {@link #MAX_PER_BATCH} is usual;
      *                      the numbers do not depend on it)
      * @param beforeEachPass run before each pass (the caller's cancel check, which may throw to stop)
+     * @param afterEachPass  told how many specifications each pass finished (the caller's progress)
      */
     public static KeyFit[] finish(DataVariant variant, List<Deferred> deferred, int maxPerBatch,
-            Runnable beforeEachPass) {
+            Runnable beforeEachPass, java.util.function.IntConsumer afterEachPass) {
         KeyFit[] out = new KeyFit[deferred.size()];
         int from = 0;
         while (from < deferred.size()) {
@@ -58,6 +59,7 @@ public final class RowPassesByParts {
             for (int i = from; i < to; i++) {
                 out[i] = finished(deferred.get(i), sums[i - from]);
             }
+            afterEachPass.accept(to - from);
             from = to;
         }
         return out;
@@ -83,7 +85,7 @@ public final class RowPassesByParts {
                 deferred.add(new Deferred(i, out[i], models.get(i).errors(), later));
             }
         }
-        KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass);
+        KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass, served -> { });
         for (int j = 0; j < finished.length; j++) {
             out[deferred.get(j).slot()] = finished[j];
         }

@@ -170,6 +170,7 @@ public final class MultiverseRunner {
                                 return;
                             }
                             int to = Math.min(slots.length, from + CHUNK);
+                            int waiting = 0;
                             for (int i = from; i < to; i++) {
                                 int slot = slots[i];
                                 space.decode(indices[slot], c);
@@ -187,6 +188,7 @@ public final class MultiverseRunner {
                                     // set once its variance is known (finishRowPasses)
                                     deferred.add(new RowPassesByParts.Deferred(slot, fit,
                                             models.model(c).errors(), later));
+                                    waiting++;
                                 } else {
                                     results.set(slot, fit);
                                 }
@@ -201,7 +203,8 @@ public final class MultiverseRunner {
                                     routed[r] = 0;
                                 }
                             }
-                            progress.update(done.addAndGet(to - from), indices.length);
+                            // a specification waiting for its pass over the rows is counted when it is done
+                            progress.update(done.addAndGet(to - from - waiting), indices.length);
                         }
                     }));
                 }
@@ -209,7 +212,8 @@ public final class MultiverseRunner {
                     WorkerPools.await(f);
                 }
                 checkCancel(cancel);
-                finishRowPasses(variant, deferred, results, cancel);
+                finishRowPasses(variant, deferred, results, cancel,
+                        served -> progress.update(done.addAndGet(served), indices.length));
             }
         } finally {
             WorkerPools.stop(pool);
@@ -229,13 +233,13 @@ public final class MultiverseRunner {
      * in slot order (so that the batches, and the bits, do not depend on which worker solved what).
      */
     private void finishRowPasses(DataVariant variant, java.util.Collection<RowPassesByParts.Deferred> deferred,
-            ResultTable results, AtomicBoolean cancel) {
+            ResultTable results, AtomicBoolean cancel, java.util.function.IntConsumer served) {
         if (deferred.isEmpty()) {
             return;
         }
         List<RowPassesByParts.Deferred> inOrder = new ArrayList<>(deferred);
         inOrder.sort(java.util.Comparator.comparingInt(RowPassesByParts.Deferred::slot));
-        KeyFit[] fits = RowPassesByParts.finish(variant, inOrder, rowPassBatch, () -> checkCancel(cancel));
+        KeyFit[] fits = RowPassesByParts.finish(variant, inOrder, rowPassBatch, () -> checkCancel(cancel), served);
         for (int i = 0; i < fits.length; i++) {
             results.set(inOrder.get(i).slot(), fits[i]);
         }

@@ -67,6 +67,42 @@ class RowPassesByPartsTest {
         }
     }
 
+    /**
+     * The progress counts a specification that waits for its pass over the rows when the pass is made: the
+     * count never goes back and reaches the total exactly once, with the last pass (common practice for a
+     * progress bar).
+     */
+    @Test
+    void progressCountsADeferredSpecificationWhenItsPassIsMade() {
+        Plan plan = plan("chickweight-plan.json");
+        Table table = new CsvTableReader().read(plan.dataFile());
+        VariantSource source = VariantByPartsTest.source(plan, table, 3);
+        java.util.List<Long> seen = java.util.Collections.synchronizedList(new java.util.ArrayList<>());
+        java.util.concurrent.atomic.AtomicLong passes = new java.util.concurrent.atomic.AtomicLong();
+        java.util.concurrent.atomic.AtomicLong doneAtFirstPass = new java.util.concurrent.atomic.AtomicLong(-1);
+        VariantSource counting = (key, pool) -> {
+            DataVariant v = source.variant(key, pool);
+            DataVariant.RowPassReduction parts = v.rowPassReduction;
+            v.rowPassReduction = batch -> {
+                if (passes.getAndIncrement() == 0) {
+                    doneAtFirstPass.set(seen.isEmpty() ? 0 : seen.get(seen.size() - 1));
+                }
+                return parts.sums(batch);
+            };
+            return v;
+        };
+        RunResult run = new MultiverseRunner(1).withVariants(counting).withRowPassBatch(1)
+                .run(plan, table, (done, total) -> seen.add(done), new AtomicBoolean());
+        long total = run.results().size();
+        assertTrue(passes.get() > 0, "the plan has specifications that need their rows");
+        assertTrue(doneAtFirstPass.get() < total, "counted done before their pass: " + doneAtFirstPass.get());
+        for (int i = 1; i < seen.size(); i++) {
+            assertTrue(seen.get(i) >= seen.get(i - 1), "the count went back at update " + i);
+        }
+        assertEquals(total, (long) seen.get(seen.size() - 1));
+        assertEquals(1, seen.stream().filter(d -> d == total).count(), "the total is reached once");
+    }
+
     @Test
     void aCancelStopsTheRunBetweenPasses() {
         Plan plan = plan("chickweight-plan.json");

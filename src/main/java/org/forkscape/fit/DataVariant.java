@@ -126,7 +126,15 @@ public final class DataVariant {
     /** A QR refit's rows reduced where the rows are held: the factor R of the usable rows' [X y]. */
     interface RefitReduction {
         DesignRows rows(Moments mom, int[] cols, int y);
+
+        /** The factors of several refits, in order, from one pass over the rows where they are held. */
+        double[][][] factors(java.util.List<RefitRequest> requests);
     }
+
+    /** The refits' factors reduced in batches ahead of their fits (see {@link RefitPending}). */
+    final java.util.Map<RefitRequest, double[][]> refitFactors = new java.util.concurrent.ConcurrentHashMap<>();
+    /** Passes over the parts made for batches of refits (counted for the tests and the report). */
+    public final java.util.concurrent.atomic.AtomicLong refitBatches = new java.util.concurrent.atomic.AtomicLong();
 
     /**
      * A batch of specifications' HC0 to HC3 meats summed over their usable rows where the rows are held, one

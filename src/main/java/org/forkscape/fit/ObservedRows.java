@@ -12,6 +12,7 @@ public final class ObservedRows implements FitData {
     private final KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView();
     /** Whether row passes of variants held in parts wait for a batch ({@link RowPassesByParts}). */
     private boolean deferring;
+    private boolean deferringRefits;
     private RowPassRequest deferred;
 
     /** Points this worker's view at {@code v}; returns this. */
@@ -34,7 +35,15 @@ public final class ObservedRows implements FitData {
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
         if (!variant.holdsRows() && variant.refitReduction != null) {
             // the rows are held elsewhere: their triangular factor, reduced there, stands for them
-            return variant.refitReduction.rows(mom, cols, y);
+            if (!deferringRefits) {
+                return variant.refitReduction.rows(mom, cols, y);
+            }
+            RefitRequest request = new RefitRequest(mom, cols.clone(), y);
+            double[][] factor = variant.refitFactors.get(request);
+            if (factor == null) {
+                throw new RefitPending(request);
+            }
+            return DesignRows.ofFactor(factor, cols.length);
         }
         requireRows("the precision guard's QR refit (its cross-product matrix is too poorly conditioned to solve "
                 + "from sums)");
@@ -73,6 +82,12 @@ public final class ObservedRows implements FitData {
     }
 
     /** Makes this worker keep the row passes of variants held in parts for a batch; returns this. */
+    /** Makes a refit of a variant held in parts wait for a batch ({@link RefitPending}) unless already reduced. */
+    ObservedRows deferringRefits() {
+        deferringRefits = true;
+        return this;
+    }
+
     ObservedRows deferringRowPasses() {
         deferring = true;
         return this;

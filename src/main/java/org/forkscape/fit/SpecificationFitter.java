@@ -32,6 +32,16 @@ public final class SpecificationFitter {
         return this;
     }
 
+    /**
+     * Makes this fitter throw {@link RefitPending} for a QR refit of a variant held in parts that has not been
+     * reduced yet, so that the runner reduces a variant's refits in batches and fits those specifications
+     * again. Returns this.
+     */
+    public SpecificationFitter deferringRefits() {
+        rows.deferringRefits();
+        return this;
+    }
+
     public KeyFit fit(DataVariant variant, SpecificationModel spec) {
         return estimator.fit(spec, rows.of(variant));
     }

@@ -297,7 +297,7 @@ public final class VariantByParts {
         boolean tensors = wantsTensors(key);
         PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
         DataVariant variant = variant(key, facts, sum);
-        variant.refitReduction = (mom, cols, y) -> refitRows(key, shifted, variant, mom, cols, y, parts);
+        variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
                 VariantByParts::addSums);
         variant.partsFacts = shifted;
@@ -317,7 +317,7 @@ public final class VariantByParts {
      */
     DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
         DataVariant variant = variant(key, facts, sum);
-        variant.refitReduction = (mom, cols, y) -> refitRows(key, facts, variant, mom, cols, y, drawParts);
+        variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
                 VariantByParts::addSums);
         return variant;
@@ -331,22 +331,73 @@ public final class VariantByParts {
      */
     private static DesignRows refitRows(VariantKey key, WholeRows whole, DataVariant variant, Moments mom,
             int[] cols, int y, VariantParts parts) {
-        long[] usable = mom.usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).toArray();
-        double[][] offsets = mom.levelMeanOffset;
-        int[] columns = cols.clone();
-        double[][] factor = parts.reduce(part -> part.refitFactor(key, whole, usable, offsets, columns, y),
-                VariantByParts::stackedFactor);
+        RefitPiece piece = RefitPiece.of(variant, new RefitRequest(mom, cols.clone(), y));
+        double[][] factor = parts.reduce(part -> part.refitFactor(key, whole, piece), VariantByParts::stackedFactor);
         return DesignRows.ofFactor(factor == null ? new double[0][] : factor, cols.length);
     }
 
-    /**
-     * This part's rows among the usable missing patterns ({@code usableMasks}), columns {@code cols} and the
-     * outcome {@code y} in within coordinates (minus {@code offsets}, the usable rows' level means around the
-     * shifts), reduced to their triangular factor (at most cols.length + 1 rows).
-     */
-    public double[][] refitFactor(VariantKey key, WholeRows whole, long[] usableMasks, double[][] offsets, int[] cols,
-            int y) {
+    /** A variant's QR refits from its parts: one at a time, or a batch in one pass. */
+    private static DataVariant.RefitReduction refits(VariantKey key, WholeRows whole, DataVariant variant,
+            VariantParts parts) {
+        return new DataVariant.RefitReduction() {
+            @Override
+            public DesignRows rows(Moments mom, int[] cols, int y) {
+                return refitRows(key, whole, variant, mom, cols, y, parts);
+            }
+
+            /**
+             * Each part reduces its rows of every refit of the batch to their factors, merged refit by refit
+             * in part order exactly as {@link #rows} merges one, so a factor has the same bits either way.
+             */
+            @Override
+            public double[][][] factors(List<RefitRequest> requests) {
+                RefitPiece[] pieces = requests.stream().map(r -> RefitPiece.of(variant, r)).toArray(RefitPiece[]::new);
+                return parts.reduce(pieces, (part, p) -> part.refitFactors(key, whole, p),
+                        VariantByParts::stackedFactors);
+            }
+        };
+    }
+
+    /** What a part needs of one refit: the usable missing patterns, the level offsets, columns and outcome. */
+    record RefitPiece(long[] usableMasks, double[][] offsets, int[] columns, int outcome) implements java.io.Serializable {
+        static RefitPiece of(DataVariant variant, RefitRequest r) {
+            long[] usable = r.rows().usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).toArray();
+            return new RefitPiece(usable, r.rows().levelMeanOffset, r.columns(), r.outcome());
+        }
+    }
+
+    /** This part's factors of a batch of refits ({@link #refitFactor}), coded once. */
+    public double[][][] refitFactors(VariantKey key, WholeRows whole, RefitPiece[] pieces) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        double[][][] out = new double[pieces.length][][];
+        for (int i = 0; i < pieces.length; i++) {
+            out[i] = refitFactor(coded, pieces[i]);
+        }
+        return out;
+    }
+
+    private static double[][][] stackedFactors(double[][][] a, double[][][] b) {
+        for (int i = 0; i < a.length; i++) {
+            a[i] = stackedFactor(a[i], b[i]);
+        }
+        return a;
+    }
+
+    /** This part's factor of one refit ({@link #refitFactor(CodedRows, RefitPiece)}). */
+    public double[][] refitFactor(VariantKey key, WholeRows whole, RefitPiece piece) {
+        return refitFactor(VariantBuilder.code(plan, key, whole).coded(plan), piece);
+    }
+
+    /**
+     * This part's rows among the refit's usable missing patterns, its columns and outcome in within
+     * coordinates (minus the usable rows' level means around the shifts), reduced to their triangular factor
+     * (at most columns + 1 rows).
+     */
+    private static double[][] refitFactor(CodedRows coded, RefitPiece piece) {
+        long[] usableMasks = piece.usableMasks();
+        double[][] offsets = piece.offsets();
+        int[] cols = piece.columns();
+        int y = piece.outcome();
         java.util.Set<Long> usable = new java.util.HashSet<>();
         for (long m : usableMasks) {
             usable.add(m);

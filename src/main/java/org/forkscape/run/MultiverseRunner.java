@@ -15,10 +15,14 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
+import org.forkscape.fit.RefitPending;
+import org.forkscape.fit.RefitRequest;
+import org.forkscape.fit.RefitsByParts;
 import org.forkscape.fit.RowPassRequest;
 import org.forkscape.fit.RowPassUnavailable;
 import org.forkscape.fit.RowPassesByParts;
 import org.forkscape.fit.SpecificationFitter;
+import org.forkscape.fit.SpecificationModel;
 import org.forkscape.fit.SpecificationModels;
 import org.forkscape.fit.VarianceRoute;
 import org.forkscape.fit.VariantSource;
@@ -43,6 +47,8 @@ public final class MultiverseRunner {
     private final VariantSource variants;
     /** Specifications per pass over the rows of a variant held in parts ({@link RowPassesByParts}). */
     private final int rowPassBatch;
+    /** QR refits per pass over the rows of a variant held in parts ({@link RefitsByParts}). */
+    private final int refitBatch;
 
     public MultiverseRunner(int threads) {
         this(threads, true);
@@ -52,14 +58,16 @@ public final class MultiverseRunner {
      * @param allowRowFree false forces the one-row-pass sandwich (the benchmark's comparison route)
      */
     public MultiverseRunner(int threads, boolean allowRowFree) {
-        this(threads, allowRowFree, null, RowPassesByParts.MAX_PER_BATCH);
+        this(threads, allowRowFree, null, RowPassesByParts.MAX_PER_BATCH, RefitsByParts.MAX_PER_BATCH);
     }
 
-    private MultiverseRunner(int threads, boolean allowRowFree, VariantSource variants, int rowPassBatch) {
+    private MultiverseRunner(int threads, boolean allowRowFree, VariantSource variants, int rowPassBatch,
+            int refitBatch) {
         this.threads = Math.max(1, threads);
         this.allowRowFree = allowRowFree;
         this.variants = variants;
         this.rowPassBatch = rowPassBatch;
+        this.refitBatch = refitBatch;
     }
 
     /**
@@ -68,7 +76,7 @@ public final class MultiverseRunner {
      * ({@link RowPassUnavailable}) with its number.
      */
     public MultiverseRunner withVariants(VariantSource variants) {
-        return new MultiverseRunner(threads, allowRowFree, variants, rowPassBatch);
+        return new MultiverseRunner(threads, allowRowFree, variants, rowPassBatch, refitBatch);
     }
 
     /**
@@ -76,7 +84,15 @@ public final class MultiverseRunner {
      * time (default {@link RowPassesByParts#MAX_PER_BATCH}); the results do not depend on it.
      */
     public MultiverseRunner withRowPassBatch(int specifications) {
-        return new MultiverseRunner(threads, allowRowFree, variants, Math.max(1, specifications));
+        return new MultiverseRunner(threads, allowRowFree, variants, Math.max(1, specifications), refitBatch);
+    }
+
+    /**
+     * The same runner reducing the QR refits of variants held in parts at most {@code refits} per pass
+     * (default {@link RefitsByParts#MAX_PER_BATCH}); the results do not depend on it.
+     */
+    public MultiverseRunner withRefitBatch(int refits) {
+        return new MultiverseRunner(threads, allowRowFree, variants, rowPassBatch, Math.max(1, refits));
     }
 
     public MultiverseRunner() {
@@ -156,10 +172,12 @@ public final class MultiverseRunner {
                 describeWork(variant, slots, indices, space, models, pool);
                 AtomicInteger next = new AtomicInteger();
                 java.util.Queue<RowPassesByParts.Deferred> deferred = new java.util.concurrent.ConcurrentLinkedQueue<>();
+                java.util.Queue<PendingRefit> pendingRefits = new java.util.concurrent.ConcurrentLinkedQueue<>();
                 List<Future<?>> futures = new ArrayList<>();
                 for (int t = 0; t < threads; t++) {
                     futures.add(pool.submit(() -> {
-                        SpecificationFitter fitter = new SpecificationFitter(allowRowFree).deferringRowPasses();
+                        SpecificationFitter fitter = new SpecificationFitter(allowRowFree).deferringRowPasses()
+                                .deferringRefits();
                         long[] c = new long[space.decisionCount()];
                         // counted per worker and added once per chunk: no shared counter in the per-fit loop
                         long[] routed = new long[VarianceRoute.values().length];
@@ -176,12 +194,12 @@ public final class MultiverseRunner {
                                 space.decode(indices[slot], c);
                                 KeyFit fit;
                                 try {
-                                    fit = fitter.fit(variant, models.model(c));
-                                } catch (RowPassUnavailable e) {
-                                    throw new InputException("decisions", "specification "
-                                            + results.specNumber(slot) + " cannot be fitted here: "
-                                            + e.getMessage() + "; run the plan on one machine, or leave out the "
-                                            + "choice that needs it");
+                                    fit = fitOne(fitter, variant, models.model(c), results, slot);
+                                } catch (RefitPending e) {
+                                    // fitted again once the variant's pending refits are reduced in batches
+                                    pendingRefits.add(new PendingRefit(slot, e.request()));
+                                    waiting++;
+                                    continue;
                                 }
                                 RowPassRequest later = fitter.takeDeferred();
                                 if (later != null) {
@@ -212,6 +230,8 @@ public final class MultiverseRunner {
                     WorkerPools.await(f);
                 }
                 checkCancel(cancel);
+                fitPendingRefits(variant, pendingRefits, models, space, indices, results, deferred, refits, routes,
+                        cancel, () -> progress.update(done.incrementAndGet(), indices.length));
                 finishRowPasses(variant, deferred, results, cancel,
                         served -> progress.update(done.addAndGet(served), indices.length));
             }
@@ -226,6 +246,66 @@ public final class MultiverseRunner {
         }
         return new RunResult(plan, table, models, results, refits.get(), routeCounts,
                 (System.nanoTime() - start) / 1e9);
+    }
+
+    /** A specification whose fit waits for its QR refit to be reduced where the rows are held. */
+    private record PendingRefit(int slot, RefitRequest request) {
+    }
+
+    private static KeyFit fitOne(SpecificationFitter fitter, DataVariant variant, SpecificationModel model,
+            ResultTable results, int slot) {
+        try {
+            return fitter.fit(variant, model);
+        } catch (RowPassUnavailable e) {
+            throw new InputException("decisions", "specification " + results.specNumber(slot) + " cannot be "
+                    + "fitted here: " + e.getMessage() + "; run the plan on one machine, or leave out the choice "
+                    + "that needs it");
+        }
+    }
+
+    /**
+     * The specifications of a variant held in parts whose precision guard asked for a QR refit: their refits
+     * reduced in batches ({@link RefitsByParts}), one pass over the parts each (in slot order, so that the
+     * batches do not depend on which worker met which), then those specifications fitted again, in slot
+     * order, from the reduced factors (the same bits as one refit per pass, see
+     * {@code VariantByParts.refits}). A fit that then asks for another refit waits for the next round.
+     */
+    private void fitPendingRefits(DataVariant variant, java.util.Collection<PendingRefit> pending,
+            SpecificationModels models, SpecificationSpace space, long[] indices, ResultTable results,
+            java.util.Collection<RowPassesByParts.Deferred> deferred, AtomicLong refits, AtomicLongArray routes,
+            AtomicBoolean cancel, Runnable fitted) {
+        List<PendingRefit> round = new ArrayList<>(pending);
+        SpecificationFitter fitter = new SpecificationFitter(allowRowFree).deferringRowPasses().deferringRefits();
+        long[] c = new long[space.decisionCount()];
+        while (!round.isEmpty()) {
+            round.sort(java.util.Comparator.comparingInt(PendingRefit::slot));
+            RefitsByParts.reduce(variant, round.stream().map(PendingRefit::request).toList(), refitBatch,
+                    () -> checkCancel(cancel));
+            List<PendingRefit> next = new ArrayList<>();
+            for (PendingRefit p : round) {
+                space.decode(indices[p.slot()], c);
+                SpecificationModel model = models.model(c);
+                KeyFit fit;
+                try {
+                    fit = fitOne(fitter, variant, model, results, p.slot());
+                } catch (RefitPending e) {
+                    next.add(new PendingRefit(p.slot(), e.request()));
+                    continue;
+                }
+                RowPassRequest later = fitter.takeDeferred();
+                if (later != null) {
+                    deferred.add(new RowPassesByParts.Deferred(p.slot(), fit, model.errors(), later));
+                } else {
+                    results.set(p.slot(), fit);
+                    fitted.run();
+                }
+                if (fit.refitByQr()) {
+                    refits.incrementAndGet();
+                }
+                routes.incrementAndGet(fit.route().ordinal());
+            }
+            round = next;
+        }
     }
 
     /**

@@ -42,10 +42,10 @@ import org.junit.jupiter.params.provider.ValueSource;
  * partitions, also against R); the ToothGrowth reference plan of {@code src/test/r/make-reference.R}, its HC3
  * from the row passes, also held against R's lm() with sandwich (toothgrowth-expected.csv, same tolerance as
  * {@code RLmSandwichReferenceTest}); and the demo plan without the zone control, whose collinearity with the
- * absorbed zone would make 576 QR refits, one Spark job each, too slow for a unit test (the refits from parts
- * are checked on this plan by {@code fit.VariantByPartsTest}). It still has a log, a standardize, a
- * winsorize, a trim, a keep rule, missing cells, an absorbed fixed effect, cluster errors, and HC1 and HC3
- * beside the absorbed zone (row passes by batches). Each at 1, 3 and 8 partitions; {@code SparkRowPassTest}
+ * absorbed zone sends hundreds of specifications to the QR refit (the whole plan, refits reduced in batches,
+ * at 3 partitions only). It still has a log, a standardize, a winsorize, a trim, a keep rule, missing cells,
+ * an absorbed fixed effect, cluster errors, and HC1 and HC3 beside the absorbed zone (row passes by
+ * batches). Each at 1, 3 and 8 partitions; {@code SparkRowPassTest}
  * has the ChickWeight plan's leverages of 1 and the batch size.
  */
 class SparkParityTest {
@@ -145,6 +145,23 @@ class SparkParityTest {
                 + c.spark.routes());
         assertTrue(SparkRowPassTest.served(c.spark) > 0, "HC1 and HC3 beside the absorbed zone from the row passes");
         report("demo-" + partitions, c.worst);
+    }
+
+    /**
+     * The whole demo plan at 3 partitions: its zone control, collinear with the absorbed zone, sends hundreds
+     * of specifications to the precision guard, whose QR refits are reduced in batches, one Spark job for up
+     * to 64 of them ({@code fit.RefitsByParts}).
+     */
+    @Test
+    void demoPlanWithItsQrRefitsEqualsTheEngine() throws IOException {
+        Comparison c = compare(Files.readString(SAMPLE.resolve("civic-demo.plan.json")), SAMPLE, demoParquet, 3);
+        long passes = 0;
+        for (int v = 0; v < c.spark.models().variantCount(); v++) {
+            passes += c.spark.models().variant(c.spark.models().variantKey(v)).refitBatches.get();
+        }
+        assertTrue(passes > 0 && c.spark.refitByQr() > 8 * passes, c.spark.refitByQr() + " QR refits in " + passes
+                + " Spark jobs");
+        report("demo-refits", c.worst);
     }
 
     @Test

@@ -24,6 +24,7 @@ import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
 import org.forkscape.run.RunProgress;
 import org.forkscape.run.RunResult;
+import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 
@@ -68,6 +69,49 @@ class VariantByPartsTest {
             }
         }
         assertEquals(a.size(), fitted);
+    }
+
+    /**
+     * The refits a run meets are reduced in batches (one pass over the parts for up to 64 of them), each
+     * factor merged part by part as a refit reduced alone is: a batch of 64, a batch of 1 and a refit reduced
+     * on its own by a fitter that does not batch give the same bits (an engine property).
+     */
+    @Test
+    void refitsReducedInBatchesGiveTheBitsOfARefitReducedAlone() throws IOException {
+        String text = PlanEdits.withoutAlternatives(Files.readString(SAMPLE.resolve("civic-demo.plan.json")),
+                "standard errors", List.of("HC1", "HC3"));
+        Plan plan = new PlanReader(false).read(text, SAMPLE.toAbsolutePath());
+        Table table = new CsvTableReader().read(plan.dataFile());
+        java.util.Map<VariantKey, DataVariant> kept = new java.util.concurrent.ConcurrentHashMap<>();
+        VariantSource built = source(plan, table, 3);
+        VariantSource keeping = (key, pool) -> kept.computeIfAbsent(key, k -> built.variant(k, pool));
+        RunResult batched = new MultiverseRunner(2).withVariants(keeping).run(plan, table, RunProgress.SILENT,
+                new AtomicBoolean());
+        long passes = kept.values().stream().mapToLong(v -> v.refitBatches.get()).sum();
+        assertTrue(batched.refitByQr() > 2 * passes && passes > 0, batched.refitByQr() + " refits in " + passes
+                + " passes");
+        RunResult single = new MultiverseRunner(2).withVariants(source(plan, table, 3)).withRefitBatch(1)
+                .run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+        SpecificationFitter alone = new SpecificationFitter();
+        VariantSource fresh = source(plan, table, 3);
+        java.util.Map<VariantKey, DataVariant> freshKept = new java.util.HashMap<>();
+        SpecificationModels models = batched.models();
+        long[] c = new long[models.space().decisionCount()];
+        ResultTable a = batched.results();
+        int refitAlone = 0;
+        for (int slot = 0; slot < a.size(); slot++) {
+            models.space().decode(a.specIndex(slot), c);
+            VariantKey key = models.variantKey(models.variantOrdinal(c));
+            KeyFit fit = alone.fit(freshKept.computeIfAbsent(key, k -> fresh.variant(k, null)), models.model(c));
+            String where = "specification " + a.specNumber(slot);
+            assertEquals(a.status(slot), single.results().status(slot), where);
+            assertEquals(a.estimate(slot), single.results().estimate(slot), 0.0, where + ", batches of 1");
+            assertEquals(a.stdError(slot), single.results().stdError(slot), 0.0, where + ", batches of 1");
+            assertEquals(a.estimate(slot), fit.estimate(), 0.0, where + ", reduced alone");
+            assertEquals(a.stdError(slot), fit.stdError(), 0.0, where + ", reduced alone");
+            refitAlone += fit.refitByQr() ? 1 : 0;
+        }
+        assertEquals(batched.refitByQr(), refitAlone);
     }
 
     @ParameterizedTest(name = "{0} parts")

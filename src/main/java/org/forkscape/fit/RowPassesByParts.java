@@ -67,24 +67,40 @@ public final class RowPassesByParts {
 
     /**
      * Every specification of {@code models} fitted on {@code variant} by {@code fitter} (which defers its row
-     * passes), the deferred ones finished by batches; null for a specification that needs a pass over rows that
-     * cannot be made ({@link RowPassUnavailable}).
+     * passes, and may defer its QR refits: those are then reduced in batches, {@link RefitsByParts}, and
+     * their specifications fitted again), the deferred ones finished by batches; null for a specification
+     * that needs a pass over rows that cannot be made ({@link RowPassUnavailable}).
      */
     public static KeyFit[] fitEach(SpecificationFitter fitter, DataVariant variant, List<SpecificationModel> models,
             Runnable beforeEachPass) {
         KeyFit[] out = new KeyFit[models.size()];
         List<Deferred> deferred = new ArrayList<>();
+        List<Integer> round = new ArrayList<>();
         for (int i = 0; i < out.length; i++) {
-            try {
-                out[i] = fitter.fit(variant, models.get(i));
-            } catch (RowPassUnavailable e) {
-                continue;
-            }
-            RowPassRequest later = fitter.takeDeferred();
-            if (later != null) {
-                deferred.add(new Deferred(i, out[i], models.get(i).errors(), later));
-            }
+            round.add(i);
         }
+        while (!round.isEmpty()) {
+            List<Integer> waiting = new ArrayList<>();
+            List<RefitRequest> refits = new ArrayList<>();
+            for (int i : round) {
+                try {
+                    out[i] = fitter.fit(variant, models.get(i));
+                } catch (RowPassUnavailable e) {
+                    continue;
+                } catch (RefitPending e) {
+                    waiting.add(i);
+                    refits.add(e.request());
+                    continue;
+                }
+                RowPassRequest later = fitter.takeDeferred();
+                if (later != null) {
+                    deferred.add(new Deferred(i, out[i], models.get(i).errors(), later));
+                }
+            }
+            RefitsByParts.reduce(variant, refits, RefitsByParts.MAX_PER_BATCH, beforeEachPass);
+            round = waiting;
+        }
+        deferred.sort(java.util.Comparator.comparingInt(Deferred::slot));
         KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass, served -> { });
         for (int j = 0; j < finished.length; j++) {
             out[deferred.get(j).slot()] = finished[j];

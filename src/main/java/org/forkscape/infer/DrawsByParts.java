@@ -79,7 +79,7 @@ final class DrawsByParts {
                     List<Future<?>> futures = new ArrayList<>();
                     for (int w = 0; w < workers; w++) {
                         futures.add(pool.submit(() -> {
-                            SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses();
+                            SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses().deferringRefits();
                             int b;
                             while ((b = next.getAndIncrement()) < count) {
                                 // the row passes of HC2, HC3 (and HC0, HC1 beside an absorbed column) by batches

@@ -79,6 +79,7 @@ public final class RowPassesByParts {
         for (int i = 0; i < out.length; i++) {
             round.add(i);
         }
+        boolean first = true;
         while (!round.isEmpty()) {
             List<Integer> waiting = new ArrayList<>();
             List<RefitRequest> refits = new ArrayList<>();
@@ -98,7 +99,12 @@ public final class RowPassesByParts {
                 }
             }
             RefitsByParts.reduce(variant, refits, RefitsByParts.MAX_PER_BATCH, beforeEachPass);
+            if (!first && !waiting.isEmpty() && waiting.size() == round.size()) {
+                // every factor was reduced and kept, so a fit that asks again would ask forever
+                throw new IllegalStateException("the QR refits of a variant held in parts were reduced but not found");
+            }
             round = waiting;
+            first = false;
         }
         deferred.sort(java.util.Comparator.comparingInt(Deferred::slot));
         KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass, served -> { });

@@ -304,6 +304,10 @@ public final class MultiverseRunner {
                 }
                 routes.incrementAndGet(fit.route().ordinal());
             }
+            if (next.size() == round.size()) {
+                // every factor was reduced and kept, so a fit that asks again would ask forever
+                throw new IllegalStateException("the QR refits of a variant held in parts were reduced but not found");
+            }
             round = next;
         }
     }

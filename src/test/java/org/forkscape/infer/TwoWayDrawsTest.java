@@ -1,6 +1,7 @@
 package org.forkscape.infer;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.ArrayList;
@@ -133,6 +134,32 @@ class TwoWayDrawsTest {
                     rv -> rv.bootstrap(weights, school));
             assertTrue(compared[1] > 200, "two-way specifications compared: " + compared[1] + " of " + compared[0]);
         }
+    }
+
+    /** A draw in which no row of a variant was drawn fits nothing there, without failing. */
+    @Test
+    void aDrawWithoutRowsFitsNothing() {
+        Table table = panel(false);
+        SpecificationModels models = new SpecificationModels(Scenarios.plan(WEIGHTED), table);
+        int[] none = new int[table.rowCount()];
+        long[] choices = new long[models.space().decisionCount()];
+        int tried = 0;
+        for (int v = 0; v < models.variantCount(); v++) {
+            if (models.variantKey(v).absorbChoice() != TWO_COLUMNS) {
+                continue;
+            }
+            ResampledVariant rv = new ResampledVariant(models.variant(models.variantKey(v)), 2);
+            rv.bootstrap(none, null);
+            assertTrue(rv.demeansEachDraw());
+            for (long index = 0; index < models.space().count().longValueExact(); index++) {
+                models.space().decode(index, choices);
+                if (models.variantOrdinal(choices) == v) {
+                    assertNull(rv.fit(models.model(choices)));
+                    tried++;
+                }
+            }
+        }
+        assertEquals(2 * 112, tried, "two weights alternatives x 112 specifications absorbing two columns");
     }
 
     /** The permuted key predictor is demeaned again with the other columns, over each specification's rows. */

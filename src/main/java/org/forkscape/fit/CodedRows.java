@@ -103,6 +103,72 @@ final class CodedRows {
         this.recorded = null;
     }
 
+    /**
+     * A null draw's rows as a data set of their own: row {@code k} is {@code base}'s row {@code from[k]} (a row
+     * drawn several times appears as often), with its coded values, weight, levels and missing pattern, and
+     * the cluster codes given (a drawn copy of a resampled cluster relabelled as a new cluster where its
+     * clusters are nested in the resampled units). The shifts stay the base's: they only centre the columns.
+     * Only least squares reads it (the plan checker refuses generalized linear models beside two absorbed
+     * columns, the one use of this copy), so the columns as recorded are not kept.
+     *
+     * @param columnValues  the model columns over the base's rows, as shifted: the base's own, or a permutation
+     *                      draw's with the key predictor moved (not modified)
+     * @param clusters      per cluster key, one code per new row (not copied)
+     * @param clusterCounts per cluster key, one more than the largest code
+     */
+    CodedRows(CodedRows base, double[][] columnValues, int[] from, Map<String, int[]> clusters,
+            Map<String, Integer> clusterCounts) {
+        this.layout = base.layout;
+        this.columns = base.columns;
+        this.rows = from.length;
+        this.tableRows = gather(base.tableRows, from);
+        this.weight = base.weight == null ? null : gather(base.weight, from);
+        this.level = gather(base.level, from);
+        this.levels = base.levels;
+        this.absorbColumn = base.absorbColumn;
+        if (base.dimensionCodes == null) {
+            this.dimensionCodes = null;
+        } else {
+            this.dimensionCodes = new int[base.dimensionCodes.length][];
+            for (int d = 0; d < dimensionCodes.length; d++) {
+                dimensionCodes[d] = gather(base.dimensionCodes[d], from);
+            }
+        }
+        this.dimensionLevels = base.dimensionLevels;
+        this.shifted = gatherColumns(columnValues, from);
+        this.levelShift = base.levelShift;
+        this.group = gather(base.group, from);
+        this.groupMissing = base.groupMissing;
+        this.everMissing = base.everMissing;
+        this.clusters = clusters;
+        this.clusterCounts = clusterCounts;
+        this.recorded = null;
+    }
+
+    private static int[] gather(int[] values, int[] from) {
+        int[] out = new int[from.length];
+        for (int k = 0; k < from.length; k++) {
+            out[k] = values[from[k]];
+        }
+        return out;
+    }
+
+    private static double[] gather(double[] values, int[] from) {
+        double[] out = new double[from.length];
+        for (int k = 0; k < from.length; k++) {
+            out[k] = values[from[k]];
+        }
+        return out;
+    }
+
+    private static double[][] gatherColumns(double[][] columns, int[] from) {
+        double[][] out = new double[columns.length][];
+        for (int j = 0; j < columns.length; j++) {
+            out[j] = columns[j] == null ? null : gather(columns[j], from);
+        }
+        return out;
+    }
+
     /** Whether the rows themselves are held here (false for a variant built from statistics alone). */
     boolean held() {
         return shifted != null;

@@ -199,6 +199,19 @@ public final class MemoryFootprint {
                 + 4 * DOUBLE * levels * columns + permuted;
     }
 
+    /**
+     * Beside two absorbed columns, one null draw's rows materialised as a variant of their own
+     * ({@link ResampledVariant}): the variant's arrays, each row's two dimension codes, source row and copy
+     * number (and weight when weighted), and the demeaned rows of its usable sets, which one worker builds.
+     *
+     * @param rows the draw's rows, copies counted (as many as the table's for a bootstrap of rows)
+     */
+    public static long drawnRows(int rows, int columns, long cells, int clusterColumns, long usableSets,
+            boolean weighted) {
+        return variant(rows, columns, cells, 1, clusterColumns) + (long) rows * (4 * INT + (weighted ? DOUBLE : 0))
+                + demeanedRows(rows, columns, usableSets, 1);
+    }
+
     /** A null draw's list of one usable row set's rows, each repeated as often as it was drawn. */
     public static long repeatedRows(int rows) {
         return 2 * INT * (long) rows;

@@ -27,6 +27,11 @@ import org.forkscape.plan.ErrorType;
  * together, and only between rows with the same missing pattern on those alternatives, so each
  * specification keeps its rows.
  *
+ * <p>Beside two absorbed columns the cells cannot serve: a row's two-way within values depend on every other
+ * row of its specification's sample. There the draw's rows are materialised as a data variant of their own (each
+ * row as often as it was drawn, or once with the key predictor permuted) and every specification is fitted on
+ * them as observed rows are, each usable set demeaned again ({@link #materialise}).
+ *
  * <p>Not thread safe: one instance per worker thread and variant, reused for every draw (its buffers are
  * allocated once).
  */
@@ -67,6 +72,13 @@ public final class ResampledVariant implements FitData {
     private PermutationBlocks blocks;
     /** Bit v set for the model variables of the key predictor alternatives. */
     private final long predictorBits;
+    /**
+     * Beside two absorbed columns: the draw's rows as a data variant of their own (each row as often as it was
+     * drawn, nested clusters renewed per copy), fitted as the observed rows are; null otherwise or between draws.
+     */
+    private DataVariant drawnRows;
+    /** The observed rows' reader pointed at {@link #drawnRows}, with its row buffers. */
+    private final ObservedRows drawnReader = new ObservedRows();
 
     /**
      * @param base                  the observed variant (read only; shared between threads)
@@ -128,7 +140,11 @@ public final class ResampledVariant implements FitData {
             weight[i] = tableWeights[v.tableRows[i]];
             maxWeight = Math.max(maxWeight, weight[i]);
         }
-        accumulate();
+        if (v.absorbsSeveral) {
+            materialise();
+        } else {
+            accumulate();
+        }
     }
 
     /**
@@ -174,7 +190,66 @@ public final class ResampledVariant implements FitData {
             }
             drawColumns[j] = to;
         }
-        accumulate();
+        if (v.absorbsSeveral) {
+            materialise();
+        } else {
+            accumulate();
+        }
+    }
+
+    /**
+     * Beside two absorbed columns, the draw's rows become a data variant of their own, fitted as observed rows
+     * are: a row's two-way within values depend on every other row of its specification's sample, so each usable
+     * set is demeaned again over the drawn rows ({@link SeveralEffectsWithin}, by {@link AlternatingProjections}),
+     * with N, K (the levels and connected components of the drawn rows, {@link FixedEffectRank}), the HC
+     * leverages ({@link CrossedDummyLeverage}) and the clusters all those of the resampled data set, since every
+     * drawn copy is a row. Its routes are the row passes: a draw builds no fourth moments or cluster cells.
+     */
+    private void materialise() {
+        int total = 0;
+        for (int i = 0; i < v.rows; i++) {
+            total += weight[i];
+        }
+        int[] from = new int[total];
+        int[] copy = new int[total];
+        int k = 0;
+        for (int i = 0; i < v.rows; i++) {
+            for (int c = 0; c < weight[i]; c++) {
+                from[k] = i;
+                copy[k++] = c;
+            }
+        }
+        Map<String, int[]> codes = new HashMap<>();
+        Map<String, Integer> counts = new HashMap<>();
+        for (Map.Entry<String, int[]> e : v.clusters.entrySet()) {
+            int[] base = e.getValue();
+            int count = v.clusterCounts.get(e.getKey());
+            boolean renew = nestedInUnits(e.getKey());
+            int[] drawn = new int[total];
+            for (int r = 0; r < total; r++) {
+                int code = base[from[r]];
+                drawn[r] = code < 0 || !renew ? code : code + copy[r] * count;
+            }
+            codes.put(e.getKey(), drawn);
+            counts.put(e.getKey(), renew ? count * Math.max(1, maxWeight) : count);
+        }
+        CodedRows rows = new CodedRows(v.coded, drawColumns, from, codes, counts);
+        drawnRows = new DataVariant(rows, new CellSums(rows, null));
+        drawnReader.of(drawnRows);
+    }
+
+    /**
+     * Lets go of the draw's rows where they were materialised (beside two absorbed columns), once every
+     * specification of this variant is fitted in the draw, so that a worker holds one such copy at a time.
+     */
+    public void finishDraw() {
+        drawnRows = null;
+        drawnReader.of(null);
+    }
+
+    /** Whether the last draw's rows were materialised and demeaned again (beside two absorbed columns). */
+    public boolean demeansEachDraw() {
+        return drawnRows != null;
     }
 
     private void accumulate() {
@@ -237,11 +312,14 @@ public final class ResampledVariant implements FitData {
 
     @Override
     public DataVariant variant() {
-        return v;
+        return drawnRows != null ? drawnRows : v;
     }
 
     @Override
     public Moments moments(long variableMask) {
+        if (drawnRows != null) {
+            return drawnRows.moments(variableMask);
+        }
         Moments m = byVariables.get(variableMask);
         if (m == null) {
             BitSet usable = UsableRows.groups(v, variableMask);
@@ -266,6 +344,9 @@ public final class ResampledVariant implements FitData {
 
     @Override
     public DesignRows refitRows(Moments mom, int[] cols, int y, ErrorType errors) {
+        if (drawnRows != null) {
+            return drawnReader.refitRows(mom, cols, y, errors);
+        }
         prepareClusters(errors);
         fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), true);
         return rows;
@@ -274,6 +355,9 @@ public final class ResampledVariant implements FitData {
     /** The draw's rows unscaled, the prior weights beside them (a GLM weighs rows itself). */
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
+        if (drawnRows != null) {
+            throw new IllegalStateException("generalized linear models are not fitted beside two absorbed columns");
+        }
         prepareClusters(errors);
         fillRows(mom, cols, y, clusterCodes(errors), clusterCount(errors), false);
         into.fill(rows, v.coded.recorded[y], v.levels);
@@ -304,6 +388,9 @@ public final class ResampledVariant implements FitData {
     @Override
     public KeyCoefficientSandwich.RowView sandwichRows(Moments mom, KeySolution s, int[] positions, int y,
             ErrorType errors, boolean refit) {
+        if (drawnRows != null) {
+            return drawnReader.sandwichRows(mom, s, positions, y, errors, refit);
+        }
         prepareClusters(errors);
         int[] clusterCodes = clusterCodes(errors);
         int clusterCount = clusterCount(errors);

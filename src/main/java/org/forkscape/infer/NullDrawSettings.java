@@ -37,8 +37,8 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
     }
 
     /**
-     * Refuses settings that cannot run: more draws than the cap, draws beside several absorbed columns,
-     * whole clusters with the permutation.
+     * Refuses settings that cannot run: more draws than the cap, whole clusters with the permutation. Draws
+     * beside two absorbed columns run (each draw demeans its own rows again, {@code fit.ResampledVariant}).
      *
      * @param drawsWhere   the plan key or command-line option the number of draws came from, for the message
      * @param clusterWhere likewise for the cluster column
@@ -47,12 +47,6 @@ public record NullDrawSettings(int draws, NullMethod method, long seed, String c
         if (draws > maxDraws) {
             throw new InputException(drawsWhere, String.format("%,d null draws are above the cap of %,d; ask for "
                     + "fewer, or raise the cap with --max-null-draws", draws, maxDraws));
-        }
-        String several = plan.severalAbsorbedPath();
-        if (draws > 0 && several != null) {
-            throw new InputException(drawsWhere, "null draws are not computed yet for plans that absorb several "
-                    + "fixed-effect columns (" + several + "): each draw would need its own demeaning; ask for no "
-                    + "null draws, or absorb one column");
         }
         if (draws > 0 && method == NullMethod.PERMUTE && clusterColumn != null) {
             throw new InputException(clusterWhere, "whole clusters are resampled by the bootstrap only; the "

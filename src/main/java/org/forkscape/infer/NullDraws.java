@@ -175,6 +175,7 @@ public final class NullDraws {
                                 spec[m] = i;
                                 m++;
                             }
+                            rv.finishDraw();
                         }
                         // each specification's p and normal score once, for the whole curve and every other
                         CurveStatistics.score(estimate, error, df, m, p, z);

@@ -29,7 +29,8 @@ import org.forkscape.plan.Plan;
  * and each worker's row buffers (every worker is taken to refit some specification by QR, as a collinear
  * control makes it do). Afterwards the inference stage rebuilds every data variant at once and keeps a
  * model per fitted specification, and each null-draw worker keeps a resampled copy of every variant, each
- * with row buffers of its own. The estimate is the larger phase, each part counted from its arrays
+ * with row buffers of its own; beside two absorbed columns a worker also holds one draw's rows at a time as a
+ * variant of its own, with their demeaned rows and leverages (taken to be as many rows as the table's). The estimate is the larger phase, each part counted from its arrays
  * ({@link MemoryFootprint}); a variant is counted with all the table's rows (sample rules only remove
  * rows). The missing-pattern groups and fixed-effect and cluster cells are counted in the table, and how
  * many usable row sets and robust-error specifications each variant has from a seeded sample of the
@@ -181,6 +182,7 @@ public final class MemoryEstimate {
         Map<String, Long> largestVariantParts = Map.of();
         long allVariants = 0;
         long drawCopies = 0;
+        long drawnRows = 0;
         boolean permute = plan.nullMethod().equals("permute");
         int predictors = plan.predictor().alternatives().size();
         for (int v = 0; v < models.variantCount(); v++) {
@@ -210,13 +212,17 @@ public final class MemoryEstimate {
                     + workers * MemoryFootprint.momentsBuild(columns, levels)
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long leverages = 0;
+            long drawnLeverages = 0;
             if (several && pv.leverageSeen > 0) {
                 // HC2 and HC3: the crossed dummies' leverages of each usable set they use
                 int first = count(LevelCodes.of(table.column(absorbedColumns.get(0))));
                 int second = count(LevelCodes.of(table.column(absorbedColumns.get(1))));
+                long leverageSets = SpecificationMix.usableSets(pv.leverageMasks, pv.leverageSeen, pv.leverage,
+                        maxUsableSets);
                 leverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second), Math.min(first, second),
-                        SpecificationMix.usableSets(pv.leverageMasks, pv.leverageSeen, pv.leverage, maxUsableSets),
-                        workers);
+                        leverageSets, workers);
+                drawnLeverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second),
+                        Math.min(first, second), leverageSets, 1);
             }
             long fourth = 0;
             if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
@@ -280,6 +286,11 @@ public final class MemoryEstimate {
                         + MemoryFootprint.fitterRows(rows, profile.maxColumns + 1)
                         + (generalized ? MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels,
                                 clusterParts) : 0);
+                if (several) {
+                    // a draw's rows as a variant of their own, demeaned again: one at a time per worker
+                    drawnRows = Math.max(drawnRows, MemoryFootprint.drawnRows(rows, columns, variantCells,
+                            clusterCodes.size(), usable, weighted) + drawnLeverages);
+                }
             }
         }
 
@@ -297,7 +308,8 @@ public final class MemoryEstimate {
                 fitted * (INFERENCE_BYTES + Math.round(4 * (profile.meanColumns + profile.factors))));
         if (plan.nullDraws() > 0) {
             int drawWorkers = Math.max(1, Math.min(workers, plan.nullDraws()));
-            long perWorker = (DRAW_WORKER_BYTES + DRAW_CURVE_WORKER_BYTES) * fitted + DRAW_ROW_BYTES * rows + drawCopies;
+            long perWorker = (DRAW_WORKER_BYTES + DRAW_CURVE_WORKER_BYTES) * fitted + DRAW_ROW_BYTES * rows + drawCopies
+                    + drawnRows;
             inference.put("the null draws' resampled copies of the variants", drawWorkers * perWorker);
             // one curve per comparable group as fitted, then the t statistic and the partial correlation
             long curves = plan.outcome().alternativeCount() * plan.predictor().alternativeCount()

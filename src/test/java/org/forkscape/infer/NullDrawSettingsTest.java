@@ -3,10 +3,8 @@ package org.forkscape.infer;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNull;
-import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import org.forkscape.InputException;
 import org.forkscape.plan.Plan;
 import org.junit.jupiter.api.Test;
 
@@ -73,20 +71,21 @@ class NullDrawSettingsTest {
         NullDrawSettings.of(logit).check(logit, 100, "nullDraws", "nullCluster");
     }
 
+    /** Draws beside two absorbed columns run, by either method (each draw demeans again; TwoWayDrawsTest). */
     @Test
-    void drawsAreRefusedWhenSeveralColumnsAreAbsorbed() {
-        Plan plan = Scenarios.plan("""
-                {"data": "simulated.csv", "nullDraws": 10,
-                 "decisions": [
-                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
-                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
-                   {"name": "effects", "kind": "absorb", "alternatives": [{"label": "g", "columns": ["g"]},
-                     {"label": "g and district", "columns": ["g", "district"]}]}
-                 ]}
-                """);
-        InputException e = assertThrows(InputException.class,
-                () -> NullDrawSettings.of(plan).check(plan, 100, "nullDraws", "nullCluster"));
-        assertEquals("nullDraws", e.where());
-        assertTrue(e.getMessage().contains("decisions[2].alternatives[1], g and district"), e.getMessage());
+    void drawsAreAcceptedWhenTwoColumnsAreAbsorbed() {
+        for (String method : new String[] {"bootstrap", "permute"}) {
+            Plan plan = Scenarios.plan("""
+                    {"data": "simulated.csv", "nullDraws": 10, "nullMethod": "%s",
+                     "decisions": [
+                       {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                       {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+                       {"name": "effects", "kind": "absorb", "alternatives": [{"label": "g", "columns": ["g"]},
+                         {"label": "g and district", "columns": ["g", "district"]}]}
+                     ]}
+                    """.formatted(method));
+            assertEquals("decisions[2].alternatives[1], g and district", plan.severalAbsorbedPath());
+            NullDrawSettings.of(plan).check(plan, 100, "nullDraws", "nullCluster");
+        }
     }
 }

@@ -24,7 +24,7 @@ class NullDrawsDeterminismTest {
                {"name": "controls", "kind": "controls", "optional": ["a", "b", "c"]},
                {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC3", "cluster:g"]}""");
 
-    private static void assertSameDraws(NullDrawResult a, NullDrawResult b) {
+    static void assertSameDraws(NullDrawResult a, NullDrawResult b) {
         assertEquals(a.drawCount(), b.drawCount());
         for (int d = 0; d < a.drawCount(); d++) {
             assertEquals(a.draw(d), b.draw(d), "draw " + (d + 1));

@@ -297,7 +297,7 @@ class ResampledVariantTest {
         return compareVariant(models, expected, rv, v, TOLERANCE);
     }
 
-    private static int compareVariant(SpecificationModels models, ResultTable expected, ResampledVariant rv, int v,
+    static int compareVariant(SpecificationModels models, ResultTable expected, ResampledVariant rv, int v,
             double tolerance) {
         long[] choices = new long[models.space().decisionCount()];
         int compared = 0;
@@ -325,7 +325,7 @@ class ResampledVariantTest {
      * The table with row i repeated weights[i] times; with {@code newClusters}, the k-th copy of a row
      * gets that column's value suffixed with k, so each drawn copy of a cluster is a cluster of its own.
      */
-    private static Table repeat(Table table, int[] weights, String newClusters) {
+    static Table repeat(Table table, int[] weights, String newClusters) {
         int total = Arrays.stream(weights).sum();
         int[] from = new int[total];
         int[] copy = new int[total];

@@ -80,6 +80,26 @@ class MemoryEstimateTest {
         assertOfTheRightOrder(plan, table);
     }
 
+    /**
+     * Null draws beside two absorbed columns: each draw worker holds one draw's rows at a time as a variant of
+     * its own, with their demeaned rows, which the estimate counts on top of the resampled copies.
+     */
+    @Test
+    void aRunWithNullDrawsBesideTwoAbsorbedColumns() {
+        Table table = table(40_000);
+        String part = "the null draws' resampled copies of the variants";
+        Plan two = plan(table, "[\"classical\", \"HC1\"]",
+                "{\"label\": \"district and band\", \"columns\": [\"district\", \"band\"]}", 2, 6);
+        Plan one = plan(table, "[\"classical\", \"HC1\"]",
+                "{\"label\": \"district\", \"columns\": [\"district\"]}", 2, 6);
+        long twoWay = MemoryEstimate.of(two, table, 2).parts().getOrDefault(part, 0L);
+        long oneWay = MemoryEstimate.of(one, table, 2).parts().getOrDefault(part, 0L);
+        // the parts are the larger phase's (0 when fitting is larger): at least the draw's rows as a variant (8
+        // model columns and more of 8 bytes a row) on each of 2 workers
+        assertTrue(twoWay > oneWay + 2L * 40_000 * 8 * 8, oneWay + " then " + twoWay);
+        assertOfTheRightOrder(two, table);
+    }
+
     /** Logistic regressions: each worker's rows and iteration state, and every fit's start for its children. */
     @Test
     void aRunOfGeneralizedLinearModels() {

@@ -87,8 +87,9 @@ public final class SparkRun {
                     + e.getMessage());
         }
         if (!submitted && !running) {
-            // on one machine Spark's progress lines go down to warnings; under spark-submit the cluster's settings stay
-            spark.sparkContext().setLogLevel("WARN");
+            // on one machine Spark's own log is silenced: a failed task would print its Java stack trace, where the
+            // command says what failed in one line; under spark-submit the cluster's log settings stay
+            spark.sparkContext().setLogLevel("OFF");
         }
         try {
             if (scale) {

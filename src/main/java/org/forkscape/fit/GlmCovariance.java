@@ -126,6 +126,33 @@ final class GlmCovariance {
                 }
                 omega = kind == ErrorType.Kind.HC2 ? 1 / (1 - h) : 1 / ((1 - h) * (1 - h));
             }
+            if (count == 2) {
+                // the key coefficient and the marginal effect together: each column value read once for both
+                // sums, each sum the same expression as in the loop below
+                double[] v0 = along[0];
+                double[] v1 = along[1];
+                double c0 = alongLevels[0][l];
+                double c1 = alongLevels[1][l];
+                for (int j = 0; j < p; j++) {
+                    double xj = x[at + j];
+                    c0 += xj * v0[j];
+                    c1 += xj * v1[j];
+                }
+                double e0 = c0 * s;
+                double e1 = c1 * s;
+                if (cluster) {
+                    for (int part = 0; part < parts; part++) {
+                        int g = codes[part][i];
+                        clusterSums[part][0][g] += e0;
+                        clusterSums[part][1][g] += e1;
+                        clusterSeen[part][g] = true;
+                    }
+                } else {
+                    meat[0] += e0 * e0 * omega;
+                    meat[1] += e1 * e1 * omega;
+                }
+                continue;
+            }
             for (int m = 0; m < count; m++) {
                 double[] v = along[m];
                 double c = alongLevels[m][l];

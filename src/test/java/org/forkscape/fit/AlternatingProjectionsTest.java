@@ -58,16 +58,7 @@ class AlternatingProjectionsTest {
     /** A thinly connected chain (each unit shares one period with the next) still converges, and accurately. */
     @Test
     void aThinlyConnectedChainConverges() {
-        int units = 60;
-        int[] unit = new int[2 * units];
-        int[] period = new int[2 * units];
-        for (int u = 0; u < units; u++) {
-            unit[2 * u] = u;
-            period[2 * u] = u;
-            unit[2 * u + 1] = u;
-            period[2 * u + 1] = u + 1;
-        }
-        TwoWayDesign design = new TwoWayDesign(unit, units, period, units + 1);
+        TwoWayDesign design = TwoWayDesign.chain(60);
         check(design, column(design, 5, false), null, "chain");
     }
 

@@ -62,16 +62,7 @@ class CrossedDummyLeverageTest {
     /** A thinly connected chain (each unit shares one period with the next): every row is a bridge, leverage 1. */
     @Test
     void aChainOfBridgesHasLeverageOne() {
-        int units = 30;
-        int[] unit = new int[2 * units];
-        int[] period = new int[2 * units];
-        for (int u = 0; u < units; u++) {
-            unit[2 * u] = u;
-            period[2 * u] = u;
-            unit[2 * u + 1] = u;
-            period[2 * u + 1] = u + 1;
-        }
-        TwoWayDesign d = new TwoWayDesign(unit, units, period, units + 1);
+        TwoWayDesign d = TwoWayDesign.chain(30);
         check(d, null, all(d.n()), "chain");
         CrossedDummyLeverage leverage = of(d, null, all(d.n()));
         for (int i = 0; i < d.n(); i++) {

@@ -88,6 +88,8 @@ class GlmBadlyScaledTest {
                     // the offset cancels before any product is formed, so both fits take the Cholesky of
                     // the cross-products: had it not, their pivots would have sent the far one to QR
                     assertFalse(nearFit.factoredByQr() || farFit.factoredByQr(), where + ": factored by QR");
+                    assertTrue(nearFit.startedFromParentInformation() && farFit.startedFromParentInformation(),
+                            where + ": started from the parent's information");
                     assertTrue(a.ok() && b.ok(), where + ": " + a.statusText() + " / " + b.statusText());
                     assertEquals(ModelFamily.valueOf(model.toUpperCase()), b.family(), where);
                     assertEquals(a.estimate(), b.estimate(), 1e-9 * Math.abs(a.estimate()), where);

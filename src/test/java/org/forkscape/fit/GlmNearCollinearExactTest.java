@@ -100,6 +100,8 @@ class GlmNearCollinearExactTest {
             String where = model + ", gap " + gap + ", " + errors;
             assertTrue(fit.ok() && fit.statusText().equals("ok"), where + ": " + fit.statusText());
             assertEquals(byQr, glm.factoredByQr(), where + ": factored by QR");
+            // its start is its parent's estimate (the model without the second control), whose information it takes
+            assertTrue(glm.startedFromParentInformation(), where + ": started from the parent's information");
             double se = switch (errors) {
                 case "classical" -> exact.classical();
                 case "HC0" -> exact.hc0();

@@ -9,6 +9,19 @@ import org.apache.commons.math3.linear.RealMatrix;
  * over {@code groups} blocks of units and periods that share no levels, with one unit per block seen once.
  */
 record TwoWayDesign(int[] unit, int units, int[] period, int periods) {
+    /** A thinly connected chain of {@code units} units: each unit seen in its own period and the next one's. */
+    static TwoWayDesign chain(int units) {
+        int[] unit = new int[2 * units];
+        int[] period = new int[2 * units];
+        for (int u = 0; u < units; u++) {
+            unit[2 * u] = u;
+            period[2 * u] = u;
+            unit[2 * u + 1] = u;
+            period[2 * u + 1] = u + 1;
+        }
+        return new TwoWayDesign(unit, units, period, units + 1);
+    }
+
     static TwoWayDesign of(long seed, int groups, int unitsPerGroup, int periodsPerGroup, double observed) {
         SplittableRandom random = new SplittableRandom(seed);
         int n = 0;

@@ -19,7 +19,7 @@ import org.junit.jupiter.params.provider.EnumSource;
  */
 class NullDrawsCalibrationTest {
     /** Two outcomes x all subsets of two controls x two error types = 16 specifications. */
-    private static final String PLAN = """
+    static final String PLAN = """
             {"data": "simulated.csv",
              "decisions": [
                {"name": "outcome", "kind": "outcome", "alternatives": [

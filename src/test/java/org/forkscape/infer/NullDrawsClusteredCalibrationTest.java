@@ -30,7 +30,7 @@ class NullDrawsClusteredCalibrationTest {
      * specifications; the sample decision makes the specifications differ by more than their controls, so
      * that the share significant is not confined to a few values.
      */
-    private static final String PLAN = """
+    static final String PLAN = """
             {"data": "simulated.csv",
              "decisions": [
                {"name": "outcome", "kind": "outcome", "alternatives": [

@@ -36,31 +36,9 @@ class PoissonBootstrapCalibrationTest {
     private static final double LEVEL = 0.05;
     private static final String[] TESTS = {"median", "share significant", "Stouffer", "best specification (min-p)"};
 
-    /** Two outcomes x all subsets of two controls x classical and HC1 errors = 16 specifications. */
-    private static final String ROWS_PLAN = """
-            {"data": "simulated.csv",
-             "decisions": [
-               {"name": "outcome", "kind": "outcome", "alternatives": [
-                  {"label": "score", "column": "y"}, {"label": "score, second measure", "column": "y2"}]},
-               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
-               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
-               {"name": "errors", "kind": "errors", "alternatives": ["classical", "HC1"]}
-             ]}
-            """;
-
-    /** As {@link NullDrawsClusteredCalibrationTest}'s: 8 specifications with cluster-robust errors. */
-    private static final String CLUSTERED_PLAN = """
-            {"data": "simulated.csv",
-             "decisions": [
-               {"name": "outcome", "kind": "outcome", "alternatives": [
-                  {"label": "first measure", "column": "y"}, {"label": "second measure", "column": "y2"}]},
-               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
-               {"name": "controls", "kind": "controls", "optional": ["a"]},
-               {"name": "rows", "kind": "sample", "alternatives": [
-                  {"label": "all"}, {"label": "b above -0.5", "keep": "b > -0.5"}]},
-               {"name": "errors", "kind": "errors", "alternatives": ["cluster:g"]}
-             ]}
-            """;
+    /** The single-machine calibration's plans, so that the two bootstraps are judged on the same curves. */
+    private static final String ROWS_PLAN = NullDrawsCalibrationTest.PLAN;
+    private static final String CLUSTERED_PLAN = NullDrawsClusteredCalibrationTest.PLAN;
 
     @Test
     void rowDrawsOnPureNoiseRejectAboutFivePercent() {

@@ -80,7 +80,8 @@ class ResampledVariantTest {
                 new CategoricalColumn("f", f, levels("f", 4)), new NumericColumn("c", c)));
     }
 
-    private static List<String> levels(String prefix, int count) {
+    /** Level names prefix00, prefix01, ... */
+    static List<String> levels(String prefix, int count) {
         List<String> out = new ArrayList<>();
         for (int k = 0; k < count; k++) {
             out.add(String.format("%s%02d", prefix, k));
@@ -91,11 +92,7 @@ class ResampledVariantTest {
     @Test
     void rowBootstrapEqualsTheEngineOnTheRepeatedRows() {
         Table table = data(false);
-        int[] weights = new int[table.rowCount()];
-        SplittableRandom r = new SplittableRandom(3);
-        for (int k = 0; k < weights.length; k++) {
-            weights[r.nextInt(weights.length)]++;
-        }
+        int[] weights = rowDrawCounts(table.rowCount(), 3);
         Table repeated = repeat(table, weights, null);
         int compared = compare(table, repeated, rv -> rv.bootstrap(weights, null));
         assertTrue(compared > 300, "most of the 384 specifications fit in the resample; compared " + compared);
@@ -146,11 +143,7 @@ class ResampledVariantTest {
     @Test
     void multiwayRowBootstrapEqualsTheEngineOnTheRepeatedRows() {
         Table table = withCrossingGroups(data(false));
-        int[] weights = new int[table.rowCount()];
-        SplittableRandom r = new SplittableRandom(3);
-        for (int k = 0; k < weights.length; k++) {
-            weights[r.nextInt(weights.length)]++;
-        }
+        int[] weights = rowDrawCounts(table.rowCount(), 3);
         int compared = compare(MULTIWAY_PLAN, table, repeat(table, weights, null), rv -> rv.bootstrap(weights, null));
         assertTrue(compared > 80, "compared " + compared);
     }
@@ -170,6 +163,16 @@ class ResampledVariantTest {
         int compared = compare(logit, table, repeat(table, weights, "g"), rv -> rv.bootstrap(weights, cluster), 1e-7,
                 false);
         assertTrue(compared > 60, "compared " + compared);
+    }
+
+    /** Each of {@code rows} rows' count in a draw of as many rows with replacement (a seeded multinomial draw). */
+    static int[] rowDrawCounts(int rows, long seed) {
+        int[] weights = new int[rows];
+        SplittableRandom r = new SplittableRandom(seed);
+        for (int k = 0; k < rows; k++) {
+            weights[r.nextInt(rows)]++;
+        }
+        return weights;
     }
 
     /** Each row's count in a draw of the 15 clusters of g with replacement (a seeded multinomial draw). */

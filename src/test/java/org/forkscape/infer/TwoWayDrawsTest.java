@@ -91,28 +91,16 @@ class TwoWayDrawsTest {
                     + (1 + Math.abs(xi)) * Scenarios.gaussian(r);
         }
         return new Table("panel.csv", List.of(new NumericColumn("y", y), new NumericColumn("x", x),
-                new NumericColumn("x2", x2), new NumericColumn("a", a), new CategoricalColumn("b", b, levels("b", 3)),
-                new NumericColumn("c", c), new NumericColumn("w", w), new CategoricalColumn("f", f, levels("f", 40)),
-                new CategoricalColumn("t", t, levels("t", 8)), new CategoricalColumn("g", g, levels("g", 10)),
-                new CategoricalColumn("h", h, levels("h", 5))));
-    }
-
-    private static List<String> levels(String prefix, int count) {
-        List<String> out = new ArrayList<>();
-        for (int k = 0; k < count; k++) {
-            out.add(String.format("%s%02d", prefix, k));
-        }
-        return out;
+                new NumericColumn("x2", x2), new NumericColumn("a", a), new CategoricalColumn("b", b, ResampledVariantTest.levels("b", 3)),
+                new NumericColumn("c", c), new NumericColumn("w", w), new CategoricalColumn("f", f, ResampledVariantTest.levels("f", 40)),
+                new CategoricalColumn("t", t, ResampledVariantTest.levels("t", 8)), new CategoricalColumn("g", g, ResampledVariantTest.levels("g", 10)),
+                new CategoricalColumn("h", h, ResampledVariantTest.levels("h", 5))));
     }
 
     @Test
     void rowBootstrapEqualsTheEngineOnTheRepeatedRows() {
         Table table = panel(false);
-        int[] weights = new int[table.rowCount()];
-        SplittableRandom r = new SplittableRandom(5);
-        for (int k = 0; k < weights.length; k++) {
-            weights[r.nextInt(weights.length)]++;
-        }
+        int[] weights = ResampledVariantTest.rowDrawCounts(table.rowCount(), 5);
         int[] compared = compare(WEIGHTED, table, ResampledVariantTest.repeat(table, weights, null),
                 rv -> rv.bootstrap(weights, null));
         // of the 224 two-way specifications, those with HC2 or HC3 errors and a pupil drawn once have leverage 1

@@ -6,7 +6,7 @@
 import { clear, el } from '../helpers.js';
 import { count as countText } from '../numbers.js';
 import {
-  ABSORB_HELP, ABSORB_MAX_COLUMNS, ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS,
+  ABSORB_HELP, ERROR_HELP, ERROR_TYPES, KINDS, KIND_TITLES, MISSING_HELP, MODELS, NULL_METHOD_HELP, TRANSFORMS,
   WEIGHTS_HELP, alternativeCount,
   newAlternative, newDecision, parentPath, parseTransform, problemInWords,
 } from './plan-model.js';
@@ -321,9 +321,9 @@ function modelChoice(f, d, j, p, row) {
 }
 
 /**
- * One alternative of an absorb decision: a field per absorbed column (its problems at columns[k]), and while
- * fewer than ABSORB_MAX_COLUMNS are chosen one more to add a crossed column; problems of the list as a whole
- * (too many columns, a model that cannot absorb several) show at the list.
+ * One alternative of an absorb decision: a field per absorbed column (its problems at columns[k]), and one more
+ * to add a crossed column; problems of the list as a whole (too many levels for the exact rank of three or more,
+ * a model that cannot absorb several) show at the list.
  */
 function absorbChoice(f, a, p, row) {
   if (!Array.isArray(a.columns)) a.columns = [];
@@ -336,14 +336,12 @@ function absorbChoice(f, a, p, row) {
       write();
     }, k === 0 ? 'none (no fixed effects)' : 'no further column', true));
   });
-  if (names.length < ABSORB_MAX_COLUMNS) {
-    const k = names.length;
-    list.append(f.column(`${p}.columns[${k}]`, k === 0 ? 'Absorb the fixed effects of' : 'and of (crossed)', '',
-      (v) => {
-        names.push(v);
-        write();
-      }, k === 0 ? 'none (no fixed effects)' : 'no further column', true));
-  }
+  const k = names.length;
+  list.append(f.column(`${p}.columns[${k}]`, k === 0 ? 'Absorb the fixed effects of' : 'and of (crossed)', '',
+    (v) => {
+      names.push(v);
+      write();
+    }, k === 0 ? 'none (no fixed effects)' : 'no further column', true));
   if (names.length > 0) list.append(el('p', { class: 'hint absorb-note' }, ABSORB_HELP));
   list.append(el('p', { class: 'problem', hidden: true, role: 'alert' }));
   row.append(f.text(`${p}.label`, 'Label', a.label || '', (v) => { a.label = v; }), list);

@@ -81,15 +81,15 @@ export const MISSING_HELP = Object.freeze({
   source: 'listwise deletion over the whole plan (common practice)' },
 });
 
-/** Most columns one absorb alternative may list (the plan reader's AbsorbChoice.MAX_COLUMNS). */
-export const ABSORB_MAX_COLUMNS = 2;
-
-/** The line beside an absorb alternative: what absorbing one or two columns computes, and its source. */
+/** The line beside an absorb alternative: what absorbing one or several columns computes, and its source. */
 export const ABSORB_HELP = 'The same coefficients, standard errors and R-squared as entering every level as a '
-  + 'dummy; two columns are crossed effects (as pupil and term), demeaned by alternating projections (Gaure 2013, '
-  + 'Computational Statistics & Data Analysis 66), with least squares only; beside them HC2 and HC3 take each '
-  + 'row\u2019s exact leverage (Frisch\u2013Waugh\u2013Lovell; Davidson & MacKinnon 2004, Econometric Theory and '
-  + 'Methods, 2.4 and 2.6) while the column with fewer levels has at most 2,000.';
+  + 'dummy; two or more columns are crossed effects (as pupil and term), demeaned by alternating projections '
+  + '(Gaure 2013, Computational Statistics & Data Analysis 66), with least squares only; beside two, HC2 and HC3 '
+  + 'take each row\u2019s exact leverage (Frisch\u2013Waugh\u2013Lovell; Davidson & MacKinnon 2004, Econometric '
+  + 'Theory and Methods, 2.4 and 2.6) while the column with fewer levels has at most 2,000; beside three or more, '
+  + 'K counts the dummies by their exact rank (computed modulo a prime and certified by exact null vectors) while '
+  + 'the columns other than the one with most levels have at most 2,000 levels together, and HC2 and HC3 take '
+  + 'the exact leverages too.';
 
 /** Alternatives of one decision, as the engine counts them (every subset of the optional controls). */
 export function alternativeCount(d) {

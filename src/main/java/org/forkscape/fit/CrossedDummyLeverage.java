@@ -35,7 +35,7 @@ import org.forkscape.plan.AbsorbChoice;
  * dummies written out (R's {@code hatvalues} of {@code lm(weights = )}): the counts are weight sums and row i's
  * value is w_i d_i'(D'WD)^- d_i. Immutable once built; safe for concurrent reads.
  */
-final class CrossedDummyLeverage {
+final class CrossedDummyLeverage implements DummyLeverage {
     /**
      * A Cholesky pivot of a unit-diagonal block below this means a condition number above about 1e8, where the
      * leverages could lose more than half their digits (two groups of levels joined by rows of almost no
@@ -276,11 +276,17 @@ final class CrossedDummyLeverage {
      * The dummies' part of the leverage of {@code row} (an index into the arrays this was built over, a row of
      * the set): w_r d_r'(D'WD)^- d_r, or d_r'(D'D)^- d_r when unweighted.
      */
-    double at(int row) {
+    @Override
+    public double at(int row) {
         int a = bigCodes[row];
         int at = java.util.Arrays.binarySearch(pairSmall, pairStart[a], pairStart[a + 1], smallCodes[row]);
         double value = pairValue[at];
         return weight == null ? value : weight[row] * value;
+    }
+
+    @Override
+    public boolean illConditioned() {
+        return illConditioned;
     }
 
     /** Bytes this holds beyond the arrays it shares with the variant (for {@link MemoryFootprint}). */
@@ -293,7 +299,7 @@ final class CrossedDummyLeverage {
      * returns it, by Cholesky on its unit-diagonal scaling D s D, D = diag(s)^-1/2, whose pivots are relative to
      * the diagonal: s^-1 = D (D s D)^-1 D. Null (and {@code s} unchanged) when a pivot is below {@link #MIN_PIVOT}.
      */
-    private static double[] invert(double[] s, int size) {
+    static double[] invert(double[] s, int size) {
         if (size == 0) {
             return new double[0];
         }

@@ -77,7 +77,7 @@ final class EveryCoefficient {
         boolean leverages = errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3;
         // beside two absorbed columns the crossed dummies' own part of each leverage (usable: the key fit that
         // precedes a full fit has the status of an ill-conditioned one)
-        CrossedDummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
+        DummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
         for (int i = 0; i < n; i++) {
             double e = rows.y[i];
             for (int c = 0; c < p; c++) {

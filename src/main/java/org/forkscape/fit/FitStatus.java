@@ -24,6 +24,9 @@ public enum FitStatus {
     /** Detail: the error type's label. */
     LEVERAGE_ILL_CONDITIONED("undefined: the fixed effects' leverages for %s cannot be computed to full precision "
             + "(groups of levels of the two absorbed columns are joined by rows of almost no weight)"),
+    /** Detail: the number of primes tried ({@link ModularDummyRank}). */
+    RANK_NOT_CERTIFIED("undefined: the rank of the absorbed fixed effects' dummies could not be certified exactly "
+            + "with %s primes"),
     /** Detail: the iteration limit. */
     NOT_CONVERGED("not converged after %s iterations"),
     /** Detail: which rows are fitted at the boundary. */

@@ -1,17 +1,37 @@
 package org.forkscape.fit;
 
 /**
- * The rank of the dummies of two crossed fixed-effect dimensions over a set of rows: the levels of both
+ * The rank of the dummies of several crossed fixed-effect dimensions over a set of rows. For two: the levels of both
  * present in the rows, less one per connected component of the bipartite graph whose vertices are the
  * levels and whose edges are the rows (a row joins its level of one dimension to its level of the other).
  * Within a component the two sets of dummies both sum to the component's indicator, which is the one linear
  * dependency there; components share no rows, so each loses exactly one (Abowd, Creecy &amp; Kramarz 2002,
  * "Computing person and firm effects using linked longitudinal employer-employee data", U.S. Census Bureau
  * technical paper TP-2002-06). Components are counted with union-find, by rank-free union and path halving
- * (Tarjan 1975, "Efficiency of a good but not linear set union algorithm", Journal of the ACM 22(2)).
+ * (Tarjan 1975, "Efficiency of a good but not linear set union algorithm", Journal of the ACM 22(2)). For
+ * three or more no such count holds (a third dimension can be nested in, or collinear with, combinations of the
+ * others), and the rank is computed exactly over the rationals and certified by {@link ModularDummyRank}.
  */
 final class FixedEffectRank {
     private FixedEffectRank() {
+    }
+
+    /**
+     * The rank of the dummies of {@code codes.length} dimensions, or empty when it could not be certified (three
+     * or more dimensions only; see {@link ModularDummyRank}).
+     *
+     * @param codes  per dimension, the dense level (0..levels-1) of each row, not modified
+     * @param levels per dimension, its levels, each present in some row
+     */
+    static java.util.OptionalInt of(int[][] codes, int[] levels) {
+        if (codes[0].length == 0) {
+            return java.util.OptionalInt.of(0);
+        }
+        return switch (codes.length) {
+            case 1 -> java.util.OptionalInt.of(levels[0]);
+            case 2 -> java.util.OptionalInt.of(ofTwo(codes[0], levels[0], codes[1], levels[1]));
+            default -> new ModularDummyRank(codes, levels).rank();
+        };
     }
 
     /**

@@ -52,7 +52,7 @@ final class KeyCoefficientSandwich {
          * Beside two absorbed columns, for HC2 and HC3: the dummies' part of each row's leverage, by variant row;
          * null otherwise (the part is then 1/n_level, or w_i/W_level).
          */
-        CrossedDummyLeverage dummies;
+        DummyLeverage dummies;
         /** The variant row of each row the view reads, when they are materialised rows; null when rows are variant rows. */
         int[] source;
         private double[][] offsets = new double[0][];
@@ -138,7 +138,7 @@ final class KeyCoefficientSandwich {
         }
 
         /** Sets the dummies' part of the leverages (see {@link #dummies}); returns this. */
-        RowView withDummyLeverage(CrossedDummyLeverage d) {
+        RowView withDummyLeverage(DummyLeverage d) {
             this.dummies = d;
             return this;
         }
@@ -221,7 +221,7 @@ final class KeyCoefficientSandwich {
         ensure(p);
         s.keyRow(w);
         boolean leverage = type.kind() == ErrorType.Kind.HC2 || type.kind() == ErrorType.Kind.HC3;
-        if (leverage && view.dummies != null && view.dummies.illConditioned) {
+        if (leverage && view.dummies != null && view.dummies.illConditioned()) {
             return new Variance(Double.NaN, 0, FitStatus.LEVERAGE_ILL_CONDITIONED, type.label());
         }
         if (leverage) {

@@ -35,6 +35,10 @@ public final class LeastSquares implements Estimator {
                     + "specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
                     base + cols.length);
         }
+        if (!mom.rankCertified) {
+            return KeyFit.failed(FitStatus.RANK_NOT_CERTIFIED, Integer.toString(ModularDummyRank.PRIMES.length), n,
+                    base + cols.length);
+        }
         if (!mom.demeaned) {
             return KeyFit.failed(FitStatus.NOT_CONVERGED, String.format("%,d fixed-effect demeaning",
                     AlternatingProjections.MAX_ITERATIONS), n, base + cols.length);

@@ -83,6 +83,32 @@ public final class MemoryFootprint {
         return leverageSets * held + Math.min(threads, leverageSets) * build;
     }
 
+    /**
+     * Beside three or more absorbed columns, what building one usable set's exact rank holds for a while
+     * ({@link ModularDummyRank}): the dense complement over the levels outside the largest column (8 bytes an
+     * entry) and the rows' distinct combinations of levels (at most one per row: its array of levels, its count and
+     * its hash entry, about 96 bytes).
+     *
+     * @param outsideLargest levels outside the absorbed column with most levels
+     */
+    public static long exactRank(int rows, int outsideLargest) {
+        return DOUBLE * outsideLargest * (long) outsideLargest + 96L * rows;
+    }
+
+    /**
+     * HC2 and HC3 beside three or more absorbed columns: each usable set's {@link SeveralDummyLeverage} (per variant
+     * row its combination, per combination its value), and each worker building one: the exact rank's workspace
+     * ({@link #exactRank}) and the complement on the pivot levels with the copies its Cholesky factorisation and
+     * inverse make (five matrices of that order at once).
+     *
+     * @param leverageSets usable sets with HC2 or HC3 specifications
+     */
+    public static long severalLeverages(int rows, int outsideLargest, long leverageSets, int threads) {
+        long held = (INT + DOUBLE) * (long) rows + 2 * ARRAY;
+        long build = exactRank(rows, outsideLargest) + 5 * DOUBLE * outsideLargest * (long) outsideLargest;
+        return leverageSets * held + Math.min(threads, leverageSets) * build;
+    }
+
     /** What building one {@link Moments} holds for a while: each level's sums and cross-products. */
     public static long momentsBuild(int columns, int levels) {
         return DOUBLE * levels * (columns + (long) columns * columns) + ARRAY * 2L * levels;

@@ -23,6 +23,11 @@ public final class Moments {
     /** Per level: mean of each column over the usable rows, relative to the level's shift. */
     final double[][] levelMeanOffset;
     final int levelsPresent;
+    /**
+     * Whether {@link #levelsPresent} is exact: always but beside three or more absorbed columns whose dummies'
+     * rank {@link ModularDummyRank} could not certify (then the specification is not fitted).
+     */
+    final boolean rankCertified;
     /** Within cross-products, P x P, row-major. */
     final double[] within;
     /** Sum of squares of each column about its overall mean (over the usable rows). */
@@ -54,16 +59,20 @@ public final class Moments {
         return f;
     }
 
-    private volatile CrossedDummyLeverage dummyLeverage;
+    private volatile DummyLeverage dummyLeverage;
 
-    /** Beside two absorbed columns: the dummies' part of these rows' leverages (HC2, HC3), built on first use. */
-    CrossedDummyLeverage dummyLeverage() {
-        CrossedDummyLeverage d = dummyLeverage;
+    /**
+     * Beside two or more absorbed columns: the dummies' part of these rows' leverages (HC2, HC3), built on first
+     * use ({@link CrossedDummyLeverage} for two, {@link SeveralDummyLeverage} for three or more).
+     */
+    DummyLeverage dummyLeverage() {
+        DummyLeverage d = dummyLeverage;
         if (d == null) {
             synchronized (this) {
                 d = dummyLeverage;
                 if (d == null) {
-                    d = CrossedDummyLeverage.of(this);
+                    d = variant.coded.dimensionCodes.length == 2 ? CrossedDummyLeverage.of(this)
+                            : SeveralDummyLeverage.of(this);
                     dummyLeverage = d;
                 }
             }
@@ -99,6 +108,7 @@ public final class Moments {
         weighted = w.weighted;
         levelMeanOffset = new double[1][v.columns];
         levelsPresent = w.rank;
+        rankCertified = w.rankCertified;
         within = w.within;
         totalSquares = w.totalSquares;
         demeaned = w.converged;
@@ -169,6 +179,7 @@ public final class Moments {
         }
         n = total;
         levelsPresent = present;
+        rankCertified = true;
         demeaned = true;
         totalSquares = new double[p];
         if (n == 0) {

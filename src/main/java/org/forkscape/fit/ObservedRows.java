@@ -66,7 +66,7 @@ public final class ObservedRows implements FitData {
                 + "route from stored sums could lose digits here)");
         int[] codes = clusterCodes(errors);
         boolean leverages = errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3;
-        CrossedDummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
+        DummyLeverage dummies = leverages && variant.absorbsSeveral ? mom.dummyLeverage() : null;
         if (refit) {
             if (codes != null) {
                 // a multi-way error type reads the refit rows once per component clustering

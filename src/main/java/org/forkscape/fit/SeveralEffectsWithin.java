@@ -3,7 +3,7 @@ package org.forkscape.fit;
 import java.util.BitSet;
 
 /**
- * The within transformation of a variant that absorbs two crossed fixed-effect columns, for one set of
+ * The within transformation of a variant that absorbs two or more crossed fixed-effect columns, for one set of
  * usable rows: every model column complete on those rows, demeaned by {@link AlternatingProjections} over
  * exactly those rows, and the sufficient statistics a specification solves from (the demeaned columns'
  * cross-products, the total sums of squares about the overall mean, the rank of the dummies). Unlike one
@@ -19,8 +19,10 @@ import java.util.BitSet;
 final class SeveralEffectsWithin {
     /** Rows of the set. */
     final int n;
-    /** Rank of the fixed-effect dummies over the set's rows. */
+    /** Rank of the fixed-effect dummies over the set's rows (0 when {@link #rankCertified} is false). */
     final int rank;
+    /** Whether the rank is exact: always with two columns, and when {@link ModularDummyRank} certified it. */
+    final boolean rankCertified;
     /** Cross-products of the demeaned columns, P x P row-major (0 for columns not complete on the rows). */
     final double[] within;
     /** Sum of squares of each column about its mean over the set's rows. */
@@ -37,12 +39,13 @@ final class SeveralEffectsWithin {
     /** Whether the variant is weighted: the projections, cross-products and sums of squares are then weighted. */
     final boolean weighted;
 
-    private SeveralEffectsWithin(int n, int rank, double[] within, double[] totalSquares, double[][] columns,
+    private SeveralEffectsWithin(int n, java.util.OptionalInt rank, double[] within, double[] totalSquares, double[][] columns,
             boolean converged, double weightTotal, boolean weighted) {
         this.n = n;
         this.weightTotal = weightTotal;
         this.weighted = weighted;
-        this.rank = rank;
+        this.rank = rank.orElse(0);
+        this.rankCertified = rank.isPresent();
         this.within = within;
         this.totalSquares = totalSquares;
         this.columns = columns;
@@ -67,10 +70,7 @@ final class SeveralEffectsWithin {
             codes[d] = new int[n];
             levels[d] = renumber(dims[d], coded.dimensionLevels[d], rows, codes[d]);
         }
-        if (dims.length != 2) {
-            throw new IllegalStateException(dims.length + " absorbed dimensions; the plan reader allows two");
-        }
-        int rank = n == 0 ? 0 : FixedEffectRank.ofTwo(codes[0], levels[0], codes[1], levels[1]);
+        java.util.OptionalInt rank = FixedEffectRank.of(codes, levels);
         double[][] columns = new double[p][];
         double[][] compact = new double[p][];
         double[] totalSquares = new double[p];
@@ -144,7 +144,7 @@ final class SeveralEffectsWithin {
     }
 
     /** Writes the levels at {@code rows} renumbered densely in first-seen order into {@code out}; returns the count. */
-    private static int renumber(int[] codes, int levels, int[] rows, int[] out) {
+    static int renumber(int[] codes, int levels, int[] rows, int[] out) {
         int[] dense = new int[levels];
         java.util.Arrays.fill(dense, -1);
         int next = 0;

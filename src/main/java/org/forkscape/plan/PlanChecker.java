@@ -72,6 +72,11 @@ public final class PlanChecker {
                                     + "decision is ols alone");
                         });
                     }
+                    if (cols.size() > 2) {
+                        AbsorbChoice choice = a.alternatives().get(j);
+                        String p = path + ".alternatives[" + j + "].columns";
+                        problems.attempt(() -> rankLevels(choice, p, table));
+                    }
                     for (int k = 0; k < cols.size(); k++) {
                         String name = cols.get(k);
                         String p = path + ".alternatives[" + j + "].columns[" + k + "]";
@@ -181,13 +186,11 @@ public final class PlanChecker {
      * HC2 and HC3 beside two absorbed columns take each row's leverage from a dense factorisation over the
      * levels of the column with fewer of them ({@code fit.CrossedDummyLeverage}): at most
      * {@link AbsorbChoice#MAX_LEVERAGE_LEVELS} levels there, counted over the table's rows where both columns
-     * have a value (no specification's rows hold more). A column that is not in the table is reported at its
-     * own field.
+     * have a value (no specification's rows hold more). Beside three or more columns the leverages come from the
+     * exact rank's pivot levels ({@code fit.SeveralDummyLeverage}), within the limit {@link #rankLevels} checks.
+     * A column that is not in the table is reported at its own field.
      */
     private static void leverageLevels(ErrorType t, String path, Plan plan, Table table) {
-        if (!table.holdsRows()) {
-            return;
-        }
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
             if (!(ds.get(i) instanceof Decision.Absorb a)) {
@@ -196,10 +199,11 @@ public final class PlanChecker {
             for (int j = 0; j < a.alternatives().size(); j++) {
                 AbsorbChoice choice = a.alternatives().get(j);
                 List<String> cols = choice.columns();
-                if (cols.size() != 2 || table.find(cols.get(0)).isEmpty() || table.find(cols.get(1)).isEmpty()) {
+                if (!table.holdsRows() || cols.size() != 2 || table.find(cols.get(0)).isEmpty()
+                        || table.find(cols.get(1)).isEmpty()) {
                     continue;
                 }
-                long[] levels = levelsWhereBoth(table.column(cols.get(0)), table.column(cols.get(1)));
+                long[] levels = levelsWhereAll(cols.stream().map(table::column).toList());
                 if (Math.min(levels[0], levels[1]) > AbsorbChoice.MAX_LEVERAGE_LEVELS) {
                     throw new PlanException(path, InputException.quoted(t.label()) + " beside two absorbed columns "
                             + "needs each row's leverage, computed exactly from a factorisation over the levels of the "
@@ -214,17 +218,52 @@ public final class PlanChecker {
         }
     }
 
-    /** The distinct values of two grouping columns over the rows where both have one. */
-    private static long[] levelsWhereBoth(Column first, Column second) {
-        java.util.Set<Object> a = new java.util.HashSet<>();
-        java.util.Set<Object> b = new java.util.HashSet<>();
-        for (int r = 0; r < first.size(); r++) {
-            if (!first.isMissing(r) && !second.isMissing(r)) {
-                a.add(valueAt(first, r));
-                b.add(valueAt(second, r));
+    /**
+     * Three or more absorbed columns: the dummies' exact rank eliminates a dense matrix over the levels outside
+     * the column with most of them ({@code fit.ModularDummyRank}), at most {@link AbsorbChoice#MAX_RANK_LEVELS},
+     * counted over the table's rows where every column has a value (no specification's rows hold more outside
+     * their own largest column). A column that is not in the table is reported at its own field.
+     */
+    private static void rankLevels(AbsorbChoice choice, String path, Table table) {
+        List<String> cols = choice.columns();
+        if (!table.holdsRows() || cols.stream().anyMatch(c -> table.find(c).isEmpty())) {
+            return;
+        }
+        long[] levels = levelsWhereAll(cols.stream().map(table::column).toList());
+        long total = java.util.Arrays.stream(levels).sum();
+        long most = java.util.Arrays.stream(levels).max().orElse(0);
+        if (total - most > AbsorbChoice.MAX_RANK_LEVELS) {
+            StringBuilder counts = new StringBuilder();
+            for (int k = 0; k < cols.size(); k++) {
+                counts.append(k == 0 ? "" : k == cols.size() - 1 ? " and " : ", ")
+                        .append(InputException.quoted(cols.get(k))).append(" has ")
+                        .append(String.format("%,d", levels[k]));
+            }
+            throw new PlanException(path, choice.label() + ": the exact rank of " + cols.size() + " absorbed columns' "
+                    + "dummies eliminates a dense matrix over the levels outside the column with most of them; here "
+                    + counts + " levels, so " + String.format("%,d", total - most) + " lie outside it, more than the "
+                    + String.format("%,d", AbsorbChoice.MAX_RANK_LEVELS) + " that keep it cheap; absorb the two "
+                    + "columns with most levels and enter the others as categorical controls");
+        }
+    }
+
+    /** The distinct values of each grouping column over the rows where all of them have one. */
+    private static long[] levelsWhereAll(List<Column> columns) {
+        List<java.util.Set<Object>> seen = new java.util.ArrayList<>();
+        for (int k = 0; k < columns.size(); k++) {
+            seen.add(new java.util.HashSet<>());
+        }
+        int rows = columns.get(0).size();
+        for (int r = 0; r < rows; r++) {
+            final int row = r;
+            if (columns.stream().anyMatch(c -> c.isMissing(row))) {
+                continue;
+            }
+            for (int k = 0; k < columns.size(); k++) {
+                seen.get(k).add(valueAt(columns.get(k), r));
             }
         }
-        return new long[] {a.size(), b.size()};
+        return seen.stream().mapToLong(java.util.Set::size).toArray();
     }
 
     private static Object valueAt(Column c, int row) {

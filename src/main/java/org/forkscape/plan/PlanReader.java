@@ -487,16 +487,7 @@ public final class PlanReader {
                 JsonNode a = object(node, p, "{\"label\": ..., \"columns\": [...]}");
                 boolean keys = problems.attempt(() -> onlyKeys(a, p, Set.of("label", "columns")));
                 String label = problems.attempt(() -> label(a, p, labels), null);
-                List<String> columns = problems.attempt(() -> {
-                    List<String> cs = columns(a.get("columns"), p + ".columns");
-                    if (cs.size() > AbsorbChoice.MAX_COLUMNS) {
-                        throw new PlanException(p + ".columns", cs.size() + " fixed-effect columns: up to "
-                                + AbsorbChoice.MAX_COLUMNS + " are absorbed (the rank of three or more crossed "
-                                + "dimensions has no exact count here); absorb two, and add the others as "
-                                + "categorical controls");
-                    }
-                    return cs;
-                }, null);
+                List<String> columns = problems.attempt(() -> columns(a.get("columns"), p + ".columns"), null);
                 if (keys && label != null && columns != null) {
                     out.add(new AbsorbChoice(label, columns));
                 }

@@ -213,16 +213,33 @@ public final class MemoryEstimate {
                     + (several ? MemoryFootprint.demeanedRows(rows, columns, usable, workers) : 0);
             long leverages = 0;
             long drawnLeverages = 0;
+            int outsideLargest = 0;
+            if (absorbedColumns.size() > 2) {
+                // three or more: each worker building a usable set holds its exact rank's workspace
+                int most = 0;
+                for (String column : absorbedColumns) {
+                    int levelsHere = count(LevelCodes.of(table.column(column)));
+                    outsideLargest += levelsHere;
+                    most = Math.max(most, levelsHere);
+                }
+                outsideLargest -= most;
+                moments += Math.min(workers, usable) * MemoryFootprint.exactRank(rows, outsideLargest);
+            }
             if (several && pv.leverageSeen > 0) {
-                // HC2 and HC3: the crossed dummies' leverages of each usable set they use
-                int first = count(LevelCodes.of(table.column(absorbedColumns.get(0))));
-                int second = count(LevelCodes.of(table.column(absorbedColumns.get(1))));
+                // HC2 and HC3: the dummies' leverages of each usable set they use
                 long leverageSets = SpecificationMix.usableSets(pv.leverageMasks, pv.leverageSeen, pv.leverage,
                         maxUsableSets);
-                leverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second), Math.min(first, second),
-                        leverageSets, workers);
-                drawnLeverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second),
-                        Math.min(first, second), leverageSets, 1);
+                if (absorbedColumns.size() > 2) {
+                    leverages = MemoryFootprint.severalLeverages(rows, outsideLargest, leverageSets, workers);
+                    drawnLeverages = MemoryFootprint.severalLeverages(rows, outsideLargest, leverageSets, 1);
+                } else {
+                    int first = count(LevelCodes.of(table.column(absorbedColumns.get(0))));
+                    int second = count(LevelCodes.of(table.column(absorbedColumns.get(1))));
+                    leverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second),
+                            Math.min(first, second), leverageSets, workers);
+                    drawnLeverages = MemoryFootprint.crossedLeverages(rows, Math.max(first, second),
+                            Math.min(first, second), leverageSets, 1);
+                }
             }
             long fourth = 0;
             if (absorbed == null && MemoryFootprint.fourthMomentsPay(rows, columns, cells.groups(), pv.hc,
@@ -269,7 +286,7 @@ public final class MemoryEstimate {
             variantParts.put("the largest data variant's columns, cross-products and cached moments", base
                     + MemoryFootprint.variantBuild(rows, columns, variantCells, workers) + moments);
             variantParts.put("the fourth-moment tensors of the HC0/HC1 sandwich", fourth);
-            variantParts.put("the two absorbed columns' leverages of the HC2/HC3 sandwich", leverages);
+            variantParts.put("the absorbed columns' leverages of the HC2/HC3 sandwich", leverages);
             variantParts.put("the per-cluster cells of the cluster-robust sandwich", clusterCells);
             variantParts.put("the fitting threads' row buffers for refits by QR", fitterRows);
             variantParts.put("the generalized linear models' rows, iteration state and starts", glmFitters + starts);

@@ -56,7 +56,7 @@ class TwoWayDrawsTest {
      * 240 rows of 40 pupils (f) in 10 schools (g, four pupils each); pupils 0-19 are seen in terms 0-3 and pupils
      * 20-39 in terms 4-7, so the pupil-term graph has two connected components; h cuts across the schools.
      */
-    private static Table panel(boolean missingKey) {
+    static Table panel(boolean missingKey) {
         int n = 240;
         SplittableRandom r = new SplittableRandom(17);
         double[] y = new double[n];
@@ -178,8 +178,8 @@ class TwoWayDrawsTest {
         NullDrawsDeterminismTest.assertSameDraws(one, three);
     }
 
-    /** The table with x and x2 moved together: the k-th row with x in the order gets the k-th row's in row order. */
-    private static Table permuteKey(Table table, int[] order) {
+    /** The table with x and x2 moved together (for the permutation draws of other tests too): the k-th row with x in the order gets the k-th row's in row order. */
+    static Table permuteKey(Table table, int[] order) {
         double[] x = ((NumericColumn) table.column("x")).values();
         double[] x2 = ((NumericColumn) table.column("x2")).values();
         List<Integer> byRow = new ArrayList<>();
@@ -213,6 +213,15 @@ class TwoWayDrawsTest {
      * compared, in all and in the two-absorbed variants, after asserting each variant's route.
      */
     private static int[] compare(String json, Table table, Table resampled, Consumer<ResampledVariant> draw) {
+        return compare(json, table, resampled, draw, choice -> choice == TWO_COLUMNS);
+    }
+
+    /**
+     * As {@link #compare(String, Table, Table, Consumer)}, with the absorb alternatives of several columns named
+     * by {@code several} (their variants must demean each draw's rows again).
+     */
+    static int[] compare(String json, Table table, Table resampled, Consumer<ResampledVariant> draw,
+            java.util.function.IntPredicate several) {
         Plan plan = Scenarios.plan(json);
         SpecificationModels models = new SpecificationModels(plan, table);
         RunResult expected = Scenarios.run(json, resampled);
@@ -222,7 +231,7 @@ class TwoWayDrawsTest {
         for (int v = 0; v < models.variantCount(); v++) {
             ResampledVariant rv = new ResampledVariant(models.variant(models.variantKey(v)), 2);
             draw.accept(rv);
-            boolean two = models.variantKey(v).absorbChoice() == TWO_COLUMNS;
+            boolean two = several.test(models.variantKey(v).absorbChoice());
             assertEquals(two, rv.demeansEachDraw(), "variant " + v + " " + models.variantKey(v));
             int compared = ResampledVariantTest.compareVariant(models, expected.results(), rv, v, 1e-9);
             all += compared;

@@ -97,6 +97,56 @@ class PlanCheckerTest {
     }
 
     /**
+     * Three absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact); the GLMs are
+     * refused at the list of columns.
+     */
+    @Test
+    void whatThreeAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
+        String three = "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"all three\", "
+                + "\"columns\": [\"district\", \"grade_band\", \"sector\"]}]}";
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
+                        + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", three), SCHOOLS));
+        fails(plan(column("passed"), column("tutoring"),
+                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", three),
+                "decisions[3].alternatives[0].columns", "several fixed-effect columns are absorbed for least squares");
+    }
+
+    /**
+     * Three absorbed columns whose levels outside the one with most of them exceed the exact rank's limit (over
+     * the rows where all three have a value): refused at the list of columns, with every count and the way out;
+     * at the limit itself the plan passes.
+     */
+    @Test
+    void threeColumnsWithTooManyLevelsOutsideTheLargestAreRefusedAtTheColumns() {
+        int limit = AbsorbChoice.MAX_RANK_LEVELS;
+        String three = "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"three-way\", "
+                + "\"columns\": [\"unit\", \"period\", \"region\"]}]}";
+        Plan plan = plan(column("y"), column("x"), three);
+        // periods + 1 units, periods periods and 2 regions: periods + 2 levels outside the units
+        PlanException e = assertThrows(PlanException.class, () -> PlanChecker.check(plan,
+                unitsPeriodsAndRegions(limit - 1)));
+        assertEquals("decisions[2].alternatives[0].columns", e.where());
+        assertEquals("three-way: the exact rank of 3 absorbed columns' dummies eliminates a dense matrix over the "
+                + "levels outside the column with most of them; here \"unit\" has 2,000, \"period\" has 1,999 and "
+                + "\"region\" has 2 levels, so 2,001 lie outside it, more than the 2,000 that keep it cheap; absorb "
+                + "the two columns with most levels and enter the others as categorical controls", e.problem());
+        assertDoesNotThrow(() -> PlanChecker.check(plan, unitsPeriodsAndRegions(limit - 2)));
+    }
+
+    private static Table unitsPeriodsAndRegions(int periods) {
+        StringBuilder csv = new StringBuilder("y,x,unit,period,region\n");
+        for (int t = 0; t < periods; t++) {
+            csv.append(t % 7).append(',').append(t % 5).append(",u").append(t).append(",p").append(t).append(",r")
+                    .append(t % 2).append('\n');
+        }
+        csv.append("1,2,extra,p0,r0\n");
+        csv.append("1,2,unseen,,r1\n");
+        return new CsvTableReader().read(new ByteArrayInputStream(csv.toString().getBytes(StandardCharsets.UTF_8)),
+                "panel.csv");
+    }
+
+    /**
      * {@code periods} periods, each with its own unit and one unit seen in the first: periods + 1 units where
      * both columns have a value, and a row whose period is missing with one more unit, which is not counted.
      */

@@ -377,9 +377,9 @@ class PlanReaderTest {
                 "decisions[2].alternatives[0]", "clusters on 5 columns; at most 4");
         fails(plan("", "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"cluster:a+b\", "
                 + "\"cluster: a + b\"]}"), "decisions[2].alternatives[1]", "\"cluster:a+b\" is listed twice");
-        fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"two\", "
-                + "\"columns\": [\"a\", \"b\", \"c\"]}]}"), "decisions[2].alternatives[0].columns",
-                "3 fixed-effect columns: up to 2 are absorbed");
+        fails(plan("", "{\"name\": \"fe\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"three\", "
+                + "\"columns\": [\"a\", \"b\", \"a\"]}]}"), "decisions[2].alternatives[0].columns[2]",
+                "\"a\" is listed twice");
         fails(plan("", "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"w\", "
                 + "\"column\": \"\"}]}"), "decisions[2].alternatives[0].column", "leave the key out for the unweighted");
         fails(plan("", "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"w\", "

@@ -70,13 +70,27 @@ class MemoryEstimateTest {
     @Test
     void aRunWithLeveragesBesideTwoAbsorbedColumns() {
         Table table = table(40_000);
-        String part = "the two absorbed columns' leverages of the HC2/HC3 sandwich";
+        String part = "the absorbed columns' leverages of the HC2/HC3 sandwich";
         Plan plan = plan(table, "[\"HC2\", \"HC3\"]",
                 "{\"label\": \"district and band\", \"columns\": [\"district\", \"band\"]}", 0, 6);
         Map<String, Long> parts = MemoryEstimate.of(plan, table, 2).parts();
         assertTrue(parts.get(part) > 0, parts.toString());
         Plan one = plan(table, "[\"HC2\", \"HC3\"]", "{\"label\": \"district\", \"columns\": [\"district\"]}", 0, 6);
         assertEquals(0L, MemoryEstimate.of(one, table, 2).parts().getOrDefault(part, 0L), "nothing beside one column");
+        assertOfTheRightOrder(plan, table);
+    }
+
+    /**
+     * HC2 and HC3 beside three absorbed columns: each usable set's leverages from the exact rank's pivot levels, and
+     * each worker's workspace for that rank and the factorisation, which the estimate counts.
+     */
+    @Test
+    void aRunWithLeveragesBesideThreeAbsorbedColumns() {
+        Table table = table(40_000);
+        Plan plan = plan(table, "[\"HC1\", \"HC3\"]",
+                "{\"label\": \"district, band and region\", \"columns\": [\"district\", \"band\", \"region\"]}", 0, 6);
+        Map<String, Long> parts = MemoryEstimate.of(plan, table, 2).parts();
+        assertTrue(parts.get("the absorbed columns' leverages of the HC2/HC3 sandwich") > 0, parts.toString());
         assertOfTheRightOrder(plan, table);
     }
 

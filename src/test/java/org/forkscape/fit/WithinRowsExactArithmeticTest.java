@@ -22,7 +22,8 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 
 /**
- * The row-free routes beside two absorbed columns, unweighted and with analytic weights, against exact
+ * The row-free routes beside two absorbed columns (and three: a crossed sampling shift added, whose K comes from the
+ * exact rank), unweighted and with analytic weights, against exact
  * arithmetic on the near-copy design of {@link NearCopyExactArithmeticTest}: zone and season effects absorbed
  * (crossed, one connected component), HC0, HC1, CR1 by site (per-cluster cells of the sets' demeaned rows),
  * CR1 by reading (one row per cluster: the fourth moments serve it) and two-way CR1 by site and season (the
@@ -37,6 +38,8 @@ import org.junit.jupiter.params.provider.ValueSource;
  */
 class WithinRowsExactArithmeticTest {
     private static final int SEASONS = 6;
+    /** The sampling shift of a reading: a third crossed column for the three-way alternative. */
+    private static final int SHIFTS = 3;
     private static final String PLAN = "{\"data\": \"unused.csv\", \"decisions\": ["
             + "{\"name\": \"o\", \"kind\": \"outcome\", \"alternatives\": [{\"label\": \"y\", \"column\": \"y\"}]},"
             + "{\"name\": \"k\", \"kind\": \"predictor\", \"alternatives\": [{\"label\": \"x\", \"column\": \"x\"}]},"
@@ -44,7 +47,8 @@ class WithinRowsExactArithmeticTest {
             + "{\"name\": \"e\", \"kind\": \"errors\", \"alternatives\": [\"HC0\", \"HC1\", \"cluster:site\","
             + "  \"cluster:reading\", \"cluster:site+season\"]},"
             + "{\"name\": \"f\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": \"zone and season\","
-            + "  \"columns\": [\"zone\", \"season\"]}]},"
+            + "  \"columns\": [\"zone\", \"season\"]}, {\"label\": \"zone, season and shift\","
+            + "  \"columns\": [\"zone\", \"season\", \"shift\"]}]},"
             + "{\"name\": \"w\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"unweighted\"},"
             + "  {\"label\": \"volume\", \"column\": \"volume\"}]}]}";
     private static final String[] ERRORS = {"HC0", "HC1", "cluster:site", "cluster:reading", "cluster:site+season"};
@@ -56,6 +60,7 @@ class WithinRowsExactArithmeticTest {
         int rows = t.rowCount();
         int[] season = new int[rows];
         int[] reading = new int[rows];
+        int[] shift = new int[rows];
         double[] volume = new double[rows];
         List<String> seasons = new ArrayList<>();
         for (int s = 0; s < SEASONS; s++) {
@@ -67,10 +72,12 @@ class WithinRowsExactArithmeticTest {
             reading[i] = i;
             readings.add(String.format("r%03d", i));
             volume[i] = 0.25 + 3 * r.nextDouble();
+            shift[i] = r.nextInt(SHIFTS);
         }
         List<Column> columns = new ArrayList<>(t.columns());
         columns.add(new CategoricalColumn("season", season, seasons));
         columns.add(new CategoricalColumn("reading", reading, readings));
+        columns.add(new CategoricalColumn("shift", shift, List.of("early", "midday", "late")));
         columns.add(new NumericColumn("volume", volume));
         return new Table("stations", columns);
     }
@@ -85,6 +92,7 @@ class WithinRowsExactArithmeticTest {
         int[] season = NearCopyExactArithmeticTest.codes(t, "season");
         int[] site = NearCopyExactArithmeticTest.codes(t, "site");
         int[] reading = NearCopyExactArithmeticTest.codes(t, "reading");
+        int[] shift = NearCopyExactArithmeticTest.codes(t, "shift");
         int[] siteSeason = new int[site.length];
         for (int i = 0; i < site.length; i++) {
             siteSeason[i] = site[i] * SEASONS + season[i];
@@ -124,13 +132,15 @@ class WithinRowsExactArithmeticTest {
                 regressors.add(NearCopyExactArithmeticTest.values(t, "x"));
                 double[][] x = regressors.toArray(new double[0][]);
                 String type = ERRORS[(int) choices[3]];
-                ExactLeastSquares.KeyResult exact = ExactLeastSquares.fit(x, y, weight, zone, season,
+                // the second absorb alternative adds the shift: three crossed columns, every set of dummies explicit
+                int[][] more = choices[4] == 0 ? new int[][] {season} : new int[][] {season, shift};
+                ExactLeastSquares.KeyResult exact = ExactLeastSquares.fitWithEffects(x, y, weight, zone, more,
                         type.equals("cluster:reading") ? reading : site);
                 double expected = exact.stdError(type);
                 if (type.equals("cluster:site+season")) {
                     double variance = exact.cr1Variance()
-                            + ExactLeastSquares.fit(x, y, weight, zone, season, season).cr1Variance()
-                            - ExactLeastSquares.fit(x, y, weight, zone, season, siteSeason).cr1Variance();
+                            + ExactLeastSquares.fitWithEffects(x, y, weight, zone, more, season).cr1Variance()
+                            - ExactLeastSquares.fitWithEffects(x, y, weight, zone, more, siteSeason).cr1Variance();
                     expected = Math.sqrt(variance);
                 }
                 boolean nearCopies = (choices[2] & 3) == 3;
@@ -161,8 +171,8 @@ class WithinRowsExactArithmeticTest {
             }
         }
         AgreementReport.write(String.format("within-rows-gap-%.0e.txt", gap), String.format("largest relative error "
-                + "of estimate or standard error against 90-digit arithmetic beside two absorbed columns, near-copy "
-                + "gap %.0e, by route", gap), worstByRoute);
+                + "of estimate or standard error against 90-digit arithmetic beside two and three absorbed columns, "
+                + "near-copy gap %.0e, by route", gap), worstByRoute);
         assertTrue(worst <= NearCopyExactArithmeticTest.RELATIVE, String.format("worst relative error %.2e at %s; "
                 + "tolerance 1e-9 (exact 90-digit arithmetic on the same doubles)", worst, worstAt));
         // 6 subsets without both near-copies, 2 weightings: HC0 and HC1 and one-row clusters by fourth moments

@@ -75,6 +75,20 @@ public final class ExactLeastSquares {
      */
     public static KeyResult fit(double[][] regressors, double[] y, double[] weight, int[] level, int[] level2,
             int[] cluster) {
+        return fitWithEffects(regressors, y, weight, level, level2 == null ? new int[0][] : new int[][] {level2},
+                cluster);
+    }
+
+    /**
+     * As {@link #fit(double[][], double[], double[], int[], int[], int[])} with any number of further fixed
+     * effects beside {@code level}: each one's dummies for every level but the first, which is full rank when the
+     * design has no dependency among them beyond the one per extra set (checked by the inverse, which fails on a
+     * singular matrix).
+     *
+     * @param extra further fixed effects' levels of each row (not modified)
+     */
+    public static KeyResult fitWithEffects(double[][] regressors, double[] y, double[] weight, int[] level,
+            int[][] extra, int[] cluster) {
         int n = y.length;
         int levels = 0;
         if (level != null) {
@@ -82,22 +96,27 @@ public final class ExactLeastSquares {
                 levels = Math.max(levels, l + 1);
             }
         }
-        int levels2 = 0;
-        if (level2 != null) {
-            for (int l : level2) {
-                levels2 = Math.max(levels2, l + 1);
+        int[] extraStart = new int[extra.length + 1];
+        extraStart[0] = level == null ? 1 : levels;
+        for (int d = 0; d < extra.length; d++) {
+            int count = 0;
+            for (int l : extra[d]) {
+                count = Math.max(count, l + 1);
             }
+            extraStart[d + 1] = extraStart[d] + Math.max(0, count - 1);
         }
-        int lead = (level == null ? 1 : levels) + Math.max(0, levels2 - 1);
+        int lead = extraStart[extra.length];
         int k = lead + regressors.length;
         BigDecimal[][] x = new BigDecimal[n][k];
         for (int i = 0; i < n; i++) {
-            int first = level == null ? 1 : levels;
+            int first = extraStart[0];
             for (int j = 0; j < first; j++) {
                 x[i][j] = (level == null || level[i] == j) ? BigDecimal.ONE : BigDecimal.ZERO;
             }
-            for (int j = first; j < lead; j++) {
-                x[i][j] = level2[i] == j - first + 1 ? BigDecimal.ONE : BigDecimal.ZERO;
+            for (int d = 0; d < extra.length; d++) {
+                for (int j = extraStart[d]; j < extraStart[d + 1]; j++) {
+                    x[i][j] = extra[d][i] == j - extraStart[d] + 1 ? BigDecimal.ONE : BigDecimal.ZERO;
+                }
             }
             for (int j = 0; j < regressors.length; j++) {
                 x[i][lead + j] = new BigDecimal(regressors[j][i]);

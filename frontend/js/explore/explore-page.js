@@ -540,8 +540,9 @@ function fitBody(body, view) {
       el('caption', { class: 'visually-hidden' }, 'Coefficients'), el('thead', {}, head), el('tbody', {}, rows))),
     el('div', { class: 'fit-facts', id: 'fit-facts' }, ...facts,
       f.absorbed ? el('p', {}, `Fixed effects of ${f.absorbed} ${glm ? 'entered as one coefficient per level'
-        : 'absorbed'} (${count(f.absorbedLevels)} ${f.absorbedDimensions > 1
-        ? 'in K: the levels less one per connected group of levels' : 'levels'})`) : null,
+        : 'absorbed'} (${count(f.absorbedLevels)} ${f.absorbedDimensions > 2
+        ? 'in K: the exact rank of their dummies' : f.absorbedDimensions > 1
+          ? 'in K: the levels less one per connected group of levels' : 'levels'})`) : null,
       f.clusters > 0 ? el('p', {}, `${count(f.clusters)} clusters`) : null,
       f.note ? el('p', {}, f.note) : null));
 }

@@ -84,6 +84,44 @@ class ExploreTwoWayEffectsApiTest extends WebTest {
     }
 
     /**
+     * Three absorbed columns through the web door ({@code three-way-panel-plan.json}): the explorer's full fit of
+     * HC3 specifications absorbing pupil, term and teacher, unweighted and weighted, has R's K, the dummies' rank
+     * ({@code qr()} on the factors' model matrix, not the levels less one per connected component), and sandwich's
+     * vcovHC HC3 on lm with factor() dummies ({@code three-way-panel-expected.csv} from
+     * {@code src/test/r/three-way-effects-reference.R}).
+     */
+    @Test
+    void theFullFitWithThreeEffectsAbsorbedIsLmsWithDummies() throws Exception {
+        Ran ran = run("three-way-panel");
+        // specs 173 and 180: no controls, the steady pupils, pupil, term and teacher effects, unweighted and survey
+        // weights, HC3
+        for (String spec : new String[] {"173", "180"}) {
+            CSVRecord r = ran.expected().get(spec);
+            assertEquals("pupil, term and teacher", r.get("effects"));
+            assertEquals("HC3", r.get("errors"));
+            JsonNode fit = json(mvc.perform(get(ran.base() + "/specifications/" + spec + "/fit"))
+                    .andExpect(status().isOk()).andReturn().getResponse().getContentAsString()).path("fit");
+            assertEquals("pupil, term, teacher", fit.path("absorbed").asString());
+            assertEquals(3, fit.path("absorbedDimensions").asInt());
+            assertEquals(Integer.parseInt(r.get("effects_rank")), fit.path("absorbedLevels").asInt(),
+                    "rank of R's model.matrix of the factors");
+            assertEquals(Integer.parseInt(r.get("n_params")), fit.path("nParams").asInt(), "R lm() rank");
+            JsonNode key = null;
+            for (JsonNode c : fit.path("coefficients")) {
+                if (c.path("role").asString().equals("key")) {
+                    key = c;
+                }
+            }
+            double estimate = Double.parseDouble(r.get("estimate"));
+            assertEquals(estimate, key.path("estimate").asDouble(), 1e-9 * Math.abs(estimate), "R lm() coefficient");
+            double se = Double.parseDouble(r.get("std_error"));
+            assertEquals(se, key.path("stdError").asDouble(), 1e-9 * se, "sandwich::vcovHC HC3");
+            assertEquals(Double.parseDouble(ran.written().get(spec).get("std_error")), key.path("stdError").asDouble(),
+                    1e-12 * se, "the run's own standard error");
+        }
+    }
+
+    /**
      * The explorer's full fit of HC3 specifications with both effects absorbed ({@code school-panel-leverage-plan.json}):
      * unweighted and weighted, the key coefficient's standard error is sandwich's vcovHC HC3 on R's lm with factor()
      * dummies ({@code school-panel-leverage-expected.csv} from {@code src/test/r/two-way-leverage-reference.R}), as in

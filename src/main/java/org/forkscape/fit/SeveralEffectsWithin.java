@@ -39,8 +39,8 @@ final class SeveralEffectsWithin {
     /** Whether the variant is weighted: the projections, cross-products and sums of squares are then weighted. */
     final boolean weighted;
 
-    private SeveralEffectsWithin(int n, java.util.OptionalInt rank, double[] within, double[] totalSquares, double[][] columns,
-            boolean converged, double weightTotal, boolean weighted) {
+    private SeveralEffectsWithin(int n, java.util.OptionalInt rank, double[] within, double[] totalSquares,
+            double[][] columns, boolean converged, double weightTotal, boolean weighted) {
         this.n = n;
         this.weightTotal = weightTotal;
         this.weighted = weighted;

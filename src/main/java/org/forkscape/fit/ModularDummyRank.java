@@ -27,9 +27,10 @@ import org.forkscape.plan.AbsorbChoice;
  *
  * <p><b>Upper bound certificate.</b> The echelon form mod p gives, per non-pivot column f, a null vector of S
  * mod p (1 at f, 0 at the other non-pivot columns, the pivots' entries by back substitution). Each entry is
- * lifted to a fraction a/b with |a|, b at most sqrt(q/2) (q the modulus) by rational reconstruction (Wang 1981, "A p-adic algorithm for univariate partial
- * fractions", Proc. ACM SYMSAC '81; von zur Gathen &amp; Gerhard 2013, Modern Computer Algebra, 3rd ed.,
- * section 5.10: the extended Euclidean algorithm stopped at the first remainder below the bound), the
+ * lifted to a fraction a/b with |a|, b at most sqrt(q/2) (q the modulus) by rational reconstruction (Wang
+ * 1981, "A p-adic algorithm for univariate partial fractions", Proc. ACM SYMSAC '81; von zur Gathen &amp;
+ * Gerhard 2013, Modern Computer Algebra, 3rd ed., section 5.10: the extended Euclidean algorithm stopped at the
+ * first remainder below the bound), the
  * denominators are cleared, and D v = 0 is checked exactly in integers on the distinct level combinations
  * present: for every level a of m, the other dimensions' entries of v must sum to the same value on every
  * combination at a (that value's negative is then v's entry at a). The vectors are independent (each is

@@ -48,8 +48,10 @@ public final class DataVariant {
     final int[][] cellCount;
     /** Per group and level: the weight total; null when unweighted. */
     final double[][] cellWeight;
-    /** The analytic weight of each row, null when unweighted ({@link CodedRows#weight}). */
+    /** The analytic weight of each row, null when unweighted or held elsewhere ({@link CodedRows#weight}). */
     final double[] weight;
+    /** Whether the variant is weighted, its rows held here or not ({@link CodedRows#weighted}). */
+    final boolean weighted;
     final double[][][] cellSum;
     final double[][][] cellCross;
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
@@ -115,6 +117,7 @@ public final class DataVariant {
         this.cellCount = statistics.cells.cellCount;
         this.cellWeight = statistics.cells.cellWeight;
         this.weight = coded.weight;
+        this.weighted = coded.weighted;
         this.cellSum = statistics.cells.cellSum;
         this.cellCross = statistics.cells.cellCross;
     }

@@ -147,10 +147,15 @@ final class KeyCoefficientSandwich {
          * Points the view at a part of a specification's rows held elsewhere ({@link RowPassRequest}): the
          * part's stored (level-shifted) columns {@code columns[kept[c]]} and {@code columns[y]}, read through
          * {@code rows}, its rows' levels, and the whole specification's offsets and level counts (one row per
-         * level and kept column, then the outcome's offset last), unweighted, no clusters.
+         * level and kept column, then the outcome's offset last), no clusters; in a weighted variant the part's
+         * rows' weights and the whole specification's level weight totals, each row scaled by sqrt(w) as
+         * {@link #over} scales it.
+         *
+         * @param weight       the part's rows' weights, null when unweighted (not modified)
+         * @param levelWeights per level, the specification's usable weight total; null when unweighted
          */
         RowView overPart(double[][] columns, int[] level, int[] kept, int y, int[] rows, int n,
-                double[][] levelOffsets, int[] levelCounts) {
+                double[][] levelOffsets, int[] levelCounts, double[] weight, double[] levelWeights) {
             int p = kept.length;
             if (x.length < p) {
                 x = new double[p][];
@@ -173,9 +178,9 @@ final class KeyCoefficientSandwich {
             this.offset = offsets;
             this.yOffset = yOffsets;
             this.levelCount = levelCounts;
-            this.levelWeight = null;
-            this.weight = null;
-            this.scaleRows = false;
+            this.levelWeight = levelWeights;
+            this.weight = weight;
+            this.scaleRows = weight != null;
             this.cluster = null;
             this.clusterCount = 0;
             return this;

@@ -32,7 +32,7 @@ public final class LeastSquares implements Estimator {
         int[] cols = spec.factorOrder();
         if (n <= base) {
             return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on this "
-                    + "specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    + "specification's variables" + (variant.weighted ? " with positive weight" : ""), n,
                     base + cols.length);
         }
         if (!mom.demeaned) {

@@ -391,7 +391,9 @@ public final class VariantByParts {
     /**
      * This part's rows among the refit's usable missing patterns, its columns and outcome in within
      * coordinates (minus the usable rows' level means around the shifts), reduced to their triangular factor
-     * (at most columns + 1 rows).
+     * (at most columns + 1 rows). In a weighted variant the level means are weighted and each row is scaled
+     * by the square root of its weight after centring, as {@link DesignRows} scales it on one machine, so the
+     * factor is that of weighted least squares.
      */
     private static double[][] refitFactor(CodedRows coded, RefitPiece piece) {
         long[] usableMasks = piece.usableMasks();
@@ -408,11 +410,12 @@ public final class VariantByParts {
                 continue;
             }
             double[] off = offsets[coded.level[r]];
+            double root = coded.weight == null ? 1 : Math.sqrt(coded.weight[r]);
             double[] row = new double[cols.length + 1];
             for (int j = 0; j < cols.length; j++) {
-                row[j] = coded.shifted[cols[j]][r] - off[cols[j]];
+                row[j] = (coded.shifted[cols[j]][r] - off[cols[j]]) * root;
             }
-            row[cols.length] = coded.shifted[y][r] - off[y];
+            row[cols.length] = (coded.shifted[y][r] - off[y]) * root;
             rows.add(row);
         }
         return triangular(rows.toArray(new double[0][]));
@@ -444,7 +447,8 @@ public final class VariantByParts {
                 }
                 rowsOf = r.usableMasks;
             }
-            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts);
+            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
+                    coded.weight, r.levelWeights);
             out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
         }
         return out;

@@ -101,6 +101,13 @@ final class SparkData implements RunData {
                             .collectAsList().stream().mapToDouble(r -> r.getDouble(0)).sorted().toArray());
                 }
             }
+            java.util.Set<String> categoricalNames = new java.util.HashSet<>();
+            for (int c = 0; c < names.length; c++) {
+                if (categorical[c]) {
+                    categoricalNames.add(names[c]);
+                }
+            }
+            SparkWeights.check(plan, selected, categoricalNames, source);
             long rows = selected.count();
             if (rows > Integer.MAX_VALUE) {
                 throw new InputException("data", String.format("%s has %,d rows, above the engine's limit of %,d "

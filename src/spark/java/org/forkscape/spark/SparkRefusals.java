@@ -12,8 +12,8 @@ import org.forkscape.plan.Plan;
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
- * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
- * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation.
+ * rows), multi-way clustering and two absorbed columns (their within transformation iterates over the rows);
+ * beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -34,13 +34,6 @@ final class SparkRefusals {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "].columns",
                                 "two absorbed columns are demeaned by alternating projections, iterations over the "
                                         + "rows, which the Spark runner does not make" + WAY_OUT);
-                    }
-                }
-            } else if (d instanceof Decision.Weights w) {
-                for (int j = 0; j < w.alternatives().size(); j++) {
-                    if (w.alternatives().get(j).weighted()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].column",
-                                "analytic weights are not summed on Spark (its statistics are unweighted)" + WAY_OUT);
                     }
                 }
             } else if (d instanceof Decision.Model m) {

@@ -96,6 +96,35 @@ class BootstrapByPartsTest {
                 + " passes over the draws' parts");
     }
 
+    /**
+     * Whole schools drawn from a weighted table (invented survey weights with zeros and missing cells): a
+     * copy of a row keeps its analytic weight, so the draw's weights are the counts times the analytic weights,
+     * which {@link ResampledVariant} multiplies on one machine (HC1 from the weighted fourth moments and
+     * school clusters from the weighted cells, HC3 and absorbed HC1 from weighted row passes over the draw's
+     * parts).
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void weightedDrawsMultiplyTheAnalyticWeightsByTheCounts(int slices) {
+        Table base = PartsOfTable.schools(8, 24, 12, 0.3, 0.1);
+        java.util.SplittableRandom random = new java.util.SplittableRandom(9);
+        double[] w = new double[base.rowCount()];
+        for (int i = 0; i < w.length; i++) {
+            double u = random.nextDouble();
+            w[i] = u < 0.05 ? Double.NaN : u < 0.1 ? 0 : 0.5 + 2 * random.nextDouble();
+        }
+        List<org.forkscape.data.Column> cols = new ArrayList<>(base.columns());
+        cols.add(new org.forkscape.data.NumericColumn("w", w));
+        Table table = new Table("schools.csv", cols);
+        String plan = ABSORBING_PLAN.replace("{\"name\": \"errors\", \"kind\": \"errors\", \"alternatives\": "
+                + "[\"classical\", \"cluster:school\"]}", "{\"name\": \"weights\", \"kind\": \"weights\", "
+                + "\"alternatives\": [{\"label\": \"survey\", \"column\": \"w\"}]}, {\"name\": \"errors\", "
+                + "\"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC3\", \"cluster:school\"]}");
+        assertTrue(plan.contains("\"weights\""), "the plan edit took");
+        Result r = compare(plan, table, new BootstrapDesign(47, "school"), slices);
+        assertTrue(r.rowPasses > 0, "weighted draw fits from row passes over the draw's parts");
+    }
+
     record Result(int compared, int refits, long rowPasses, long refitPasses) {
     }
 

@@ -1,0 +1,138 @@
+package org.forkscape.spark;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import org.apache.spark.sql.SparkSession;
+import org.forkscape.InputException;
+import org.forkscape.data.Column;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.NumericColumn;
+import org.forkscape.data.Table;
+import org.forkscape.fit.PlanEdits;
+import org.forkscape.fit.VarianceRoute;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.ReferenceFiles;
+import org.forkscape.run.ResultTable;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
+
+/**
+ * Analytic weights on Spark local mode: the weights reference plan ({@code water-survey-plan.json}: zero
+ * weights, a district whose weights are all zero, missing weights, district effects absorbed or not, a
+ * control constant within districts so QR refits, classical, HC0 to HC3 and district clusters) from a Parquet
+ * copy at 1, 3 and 8 partitions against the single-machine engine on the CSV within 1e-10 relative
+ * ({@link SparkParityTest#compare}), with the routes asserted taken (weighted fourth moments, weighted
+ * per-cluster cells, weighted row passes, QR refits from the partitions' weighted factors); at 3 partitions
+ * also against R's {@code lm(weights = )} with sandwich (water-survey-expected.csv from
+ * {@code src/test/r/weights-reference.R}, the tolerance of {@link SparkParityTest#R_RELATIVE}); and a
+ * negative weight refused at its JSON path, as the plan check refuses it on one machine.
+ */
+class SparkWeightsAndClustersTest {
+    static SparkSession spark;
+    @TempDir
+    static Path folder;
+    static Path waterParquet;
+
+    @BeforeAll
+    static void start() {
+        ((ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger(org.slf4j.Logger.ROOT_LOGGER_NAME))
+                .setLevel(ch.qos.logback.classic.Level.WARN);
+        spark = SparkSession.builder().master("local[2]").appName("forkscape-spark-test")
+                .config("spark.ui.enabled", "false").config("spark.sql.shuffle.partitions", "4").getOrCreate();
+        SparkParityTest.spark = spark;
+        waterParquet = ParquetCopy.write(spark, new CsvTableReader().read(
+                SparkParityTest.REFERENCE.resolve("water-survey.csv")), folder.resolve("water-survey.parquet"), 3);
+    }
+
+    @AfterAll
+    static void stop() {
+        spark.stop();
+    }
+
+    @ParameterizedTest(name = "{0} partitions")
+    @ValueSource(ints = {1, 3, 8})
+    void weightedPlanEqualsTheEngine(int partitions) throws IOException {
+        SparkParityTest.Comparison c = SparkParityTest.compare(weightsPlan(), SparkParityTest.REFERENCE,
+                waterParquet, partitions);
+        Map<VarianceRoute, Long> routes = c.spark().routes();
+        assertTrue(routes.getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0
+                && routes.getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "HC0 and HC1 from the weighted fourth "
+                + "moments, district clusters from the weighted cells: " + routes);
+        assertTrue(SparkRowPassTest.served(c.spark()) > 0, "weighted HC2 and HC3 from the row passes");
+        assertTrue(c.spark().refitByQr() > 0, "QR refits from the partitions' weighted factors");
+        SparkParityTest.report("water-survey-" + partitions, c.worst());
+        if (partitions == 3) {
+            againstR(c);
+        }
+    }
+
+    @Test
+    void aNegativeWeightIsRefusedAtItsPath() throws IOException {
+        Table table = new CsvTableReader().read(SparkParityTest.REFERENCE.resolve("water-survey.csv"));
+        List<Column> columns = new ArrayList<>();
+        for (Column col : table.columns()) {
+            if (col.name().equals("weight")) {
+                double[] w = ((NumericColumn) col).values().clone();
+                w[10] = -1;
+                col = new NumericColumn("weight", w);
+            }
+            columns.add(col);
+        }
+        Path parquet = ParquetCopy.write(spark, new Table(table.source(), columns), folder.resolve("negative.parquet"),
+                2);
+        String planText = weightsPlan();
+        SparkData data = new SparkData(spark, parquet.toString(), 0, planText, SparkParityTest.REFERENCE
+                .toAbsolutePath());
+        InputException e = assertThrows(InputException.class, () -> data.table(new PlanReader(false).read(planText,
+                SparkParityTest.REFERENCE.toAbsolutePath())));
+        assertEquals("decisions[5].alternatives[1].column", e.where());
+        assertTrue(e.problem().startsWith("the weights in \"weight\" must be finite and not negative; 1 row of"),
+                e.problem());
+    }
+
+    /** The weights reference plan without its two-way cluster errors. */
+    private static String weightsPlan() throws IOException {
+        return PlanEdits.withoutAlternatives(Files.readString(SparkParityTest.REFERENCE.resolve(
+                "water-survey-plan.json")), "errors", List.of("cluster:district+wave"));
+    }
+
+    /** Every specification R fitted, joined by its labels (the script's own loops number them). */
+    private static void againstR(SparkParityTest.Comparison c) {
+        ResultTable r = c.spark().results();
+        Map<String, Integer> slots = ReferenceFiles.slotsByLabels(c.spark());
+        int compared = 0;
+        for (Map<String, String> row : ReferenceFiles.rows("water-survey-expected.csv")) {
+            String key = String.join(" | ", row.get("outcome"), row.get("garden"), row.get("controls"),
+                    row.get("rows"), row.get("effects"), row.get("weights"), row.get("errors"));
+            Integer slot = slots.get(key);
+            if (slot == null) {
+                assertTrue(row.get("errors").contains("+"), "no Spark specification for " + key);
+                continue;
+            }
+            String where = "R lm(weights = ) and sandwich, water-survey-expected.csv, " + key;
+            assertEquals(Integer.parseInt(row.get("n_obs")), r.nObs(slot), where + " n_obs");
+            if (!row.get("status").equals("ok")) {
+                continue;
+            }
+            SparkParityTest.assertClose(Double.parseDouble(row.get("estimate")), r.estimate(slot),
+                    SparkParityTest.R_RELATIVE, where + " estimate");
+            SparkParityTest.assertClose(Double.parseDouble(row.get("std_error")), r.stdError(slot),
+                    SparkParityTest.R_RELATIVE, where + " std_error");
+            assertEquals(Double.parseDouble(row.get("df")), r.df(slot), 0.0, where + " df");
+            compared++;
+        }
+        assertTrue(compared > 600, compared + " specifications compared with R");
+    }
+}

@@ -69,6 +69,13 @@ public final class DataVariant {
      * held (set by {@link VariantByParts#build}; {@link RowPassesByParts}); null when no such pass can be made.
      */
     volatile RowPassReduction rowPassReduction;
+    /**
+     * For a variant without rows: how one specification's cluster scores are summed where the rows are held
+     * (set by {@link VariantByParts#build}; {@link ClusterScoresByParts}); null when no such pass can be made.
+     */
+    volatile ClusterScoreReduction clusterScoreReduction;
+    /** The passes over the parts' rows made for cluster scores of this variant's specifications. */
+    final java.util.concurrent.atomic.AtomicLong clusterScorePasses = new java.util.concurrent.atomic.AtomicLong();
     /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
     final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
@@ -145,6 +152,19 @@ public final class DataVariant {
      */
     interface RowPassReduction {
         double[] sums(RowPassRequest[] batch);
+    }
+
+    /**
+     * One specification's score per cluster of one clustering (a cluster column, or an intersection's key),
+     * summed over its usable rows where the rows are held, keyed by the cluster's key over the whole table.
+     */
+    interface ClusterScoreReduction {
+        java.util.SortedMap<Long, Double> scores(RowPassRequest request, String clusterKey);
+    }
+
+    /** How many passes over the parts' rows made cluster scores for this variant ({@link ClusterScoresByParts}). */
+    public long clusterScorePasses() {
+        return clusterScorePasses.get();
     }
 
     /** How many passes over the parts' rows served this variant's sandwiches ({@link RowPassesByParts}). */

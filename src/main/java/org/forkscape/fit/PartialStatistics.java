@@ -24,15 +24,18 @@ import java.util.TreeMap;
 public final class PartialStatistics implements Serializable {
     private static final long serialVersionUID = 1L;
 
-    /** A cell's place: missing mask, cluster code (-1 for the cells of the cross-products) and level. */
-    private record CellKey(long mask, int cluster, int level) implements Comparable<CellKey>, Serializable {
+    /**
+     * A cell's place: missing mask, cluster (-1 for the cells of the cross-products; a cluster code, or for an
+     * intersection of cluster columns its key over the whole table, {@link #of}) and level.
+     */
+    private record CellKey(long mask, long cluster, int level) implements Comparable<CellKey>, Serializable {
         @Override
         public int compareTo(CellKey o) {
             int c = Long.compare(mask, o.mask);
             if (c != 0) {
                 return c;
             }
-            c = Integer.compare(cluster, o.cluster);
+            c = Long.compare(cluster, o.cluster);
             return c != 0 ? c : Integer.compare(level, o.level);
         }
     }
@@ -75,6 +78,8 @@ public final class PartialStatistics implements Serializable {
     private final TreeMap<Long, double[][]> tensors;
     private final TreeMap<String, TreeMap<CellKey, Sums>> clusterCells = new TreeMap<>();
     private final TreeMap<String, Integer> clusterCounts = new TreeMap<>();
+    /** The intersections of cluster columns, whose cells are keyed by their clusters' keys, not codes. */
+    private final java.util.TreeSet<String> intersections = new java.util.TreeSet<>();
 
     private PartialStatistics(int columns, boolean withTensors) {
         this.columns = columns;
@@ -83,9 +88,15 @@ public final class PartialStatistics implements Serializable {
 
     /**
      * The statistics of one part's coded rows: its cell sums, and as asked the per-group tensors and the
-     * per-cluster cells of every cluster column the plan names, each summed by the engine's own routines.
+     * per-cluster cells of every cluster column the plan names and of every intersection of them a multi-way
+     * error type needs ({@link ClusterComponents}), each summed by the engine's own routines. A part numbers an
+     * intersection's clusters in its own order of first appearance, so its cells are keyed instead by each
+     * cluster's key over the whole table ({@code intersectionKeys}), which {@link #variant} numbers densely.
+     *
+     * @param intersectionKeys per intersection key, the whole table's key of each of the part's cluster codes
      */
-    static PartialStatistics of(DataVariant part, boolean withTensors, List<String> clusterColumns) {
+    static PartialStatistics of(DataVariant part, boolean withTensors, List<String> clusterColumns,
+            Map<String, long[]> intersectionKeys) {
         PartialStatistics p = new PartialStatistics(part.columns, withTensors);
         p.rows = part.rows;
         p.weighted = part.weighted;
@@ -107,13 +118,21 @@ public final class PartialStatistics implements Serializable {
                 }
             }
         }
-        for (String column : clusterColumns) {
+        List<String> keys = new ArrayList<>(clusterColumns);
+        keys.addAll(intersectionKeys.keySet());
+        for (String column : keys) {
+            long[] global = intersectionKeys.get(column);
             TreeMap<CellKey, Sums> byCell = new TreeMap<>();
             for (ClusterMoments.Cell c : ClusterMoments.build(part, part.clusters.get(column)).cells()) {
-                byCell.put(new CellKey(masks[c.group], c.cluster, c.level), new Sums(c.n, c.weight, c.sum, c.cross));
+                byCell.put(new CellKey(masks[c.group], global == null ? c.cluster : global[c.cluster], c.level),
+                        new Sums(c.n, c.weight, c.sum, c.cross));
             }
             p.clusterCells.put(column, byCell);
-            p.clusterCounts.put(column, part.clusterCounts.get(column));
+            if (global == null) {
+                p.clusterCounts.put(column, part.clusterCounts.get(column));
+            } else {
+                p.intersections.add(column);
+            }
         }
         return p;
     }
@@ -136,6 +155,7 @@ public final class PartialStatistics implements Serializable {
         other.clusterCells.forEach((column, c) -> addCells(clusterCells.computeIfAbsent(column,
                 k -> new TreeMap<>()), c));
         other.clusterCounts.forEach((column, g) -> clusterCounts.merge(column, g, Math::max));
+        intersections.addAll(other.intersections);
         return this;
     }
 
@@ -201,10 +221,19 @@ public final class PartialStatistics implements Serializable {
             }
         }
         Map<String, ClusterMoments> clusterMoments = new HashMap<>();
+        Map<String, Integer> counts = new TreeMap<>(clusterCounts);
         clusterCells.forEach((column, byCell) -> {
+            // an intersection's clusters numbered densely in the order of their keys, the same on every part
+            Map<Long, Integer> dense = new HashMap<>();
+            if (intersections.contains(column)) {
+                new java.util.TreeSet<>(byCell.keySet().stream().map(CellKey::cluster).toList())
+                        .forEach(k -> dense.put(k, dense.size()));
+                counts.put(column, dense.size());
+            }
             List<ClusterMoments.Cell> list = new ArrayList<>(byCell.size());
             byCell.forEach((key, s) -> {
-                ClusterMoments.Cell c = new ClusterMoments.Cell(groupOf.get(key.mask()), key.cluster(), key.level(),
+                int cluster = dense.isEmpty() ? (int) key.cluster() : dense.get(key.cluster());
+                ClusterMoments.Cell c = new ClusterMoments.Cell(groupOf.get(key.mask()), cluster, key.level(),
                         s.sum, s.cross);
                 c.n = (int) s.n;
                 c.weight = s.weight;
@@ -212,7 +241,7 @@ public final class PartialStatistics implements Serializable {
             });
             clusterMoments.put(column, ClusterMoments.of(columns, list));
         });
-        CodedRows shape = new CodedRows(layout, (int) rows, levels, absorbColumn, levelShift, masks, clusterCounts,
+        CodedRows shape = new CodedRows(layout, (int) rows, levels, absorbColumn, levelShift, masks, counts,
                 weighted);
         return new DataVariant(shape, new CellSums(count, weight, sum, cross), groupTensors, clusterMoments);
     }

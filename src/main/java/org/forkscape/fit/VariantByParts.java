@@ -1,7 +1,9 @@
 package org.forkscape.fit;
 
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.plan.Decision;
@@ -130,6 +132,10 @@ public final class VariantByParts {
     /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        Map<String, long[]> intersections = new HashMap<>();
+        for (ClusterComponents.Component c : plan.clusterIntersections) {
+            intersections.put(c.key(), intersectionKeys(coded, whole, c));
+        }
         if (renewedClusters != null) {
             for (String column : renewedClusters) {
                 renewCopies(coded, whole, column);
@@ -140,7 +146,35 @@ public final class VariantByParts {
         for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
             clusters.add(c.column().name());
         }
-        return PartialStatistics.of(part, withTensors, clusters);
+        return PartialStatistics.of(part, withTensors, clusters, intersections);
+    }
+
+    /**
+     * Per cluster code of the intersection {@code c} in this part (numbered in the part's own order), the key of
+     * that cluster over the whole table: its columns' codes, each among the column's clusters over the whole
+     * table (its levels, or its distinct values), in mixed radix, so that every part keys a combination alike.
+     */
+    private long[] intersectionKeys(CodedRows coded, WholeRows whole, ClusterComponents.Component c) {
+        int[] local = coded.clusters.get(c.key());
+        long[] out = new long[coded.clusterCounts.get(c.key())];
+        for (int r = 0; r < local.length; r++) {
+            if (local[r] < 0) {
+                continue;
+            }
+            long key = 0;
+            for (String column : c.columns()) {
+                key = Math.addExact(Math.multiplyExact(key, wholeClusterCount(column, whole)),
+                        coded.clusters.get(column)[r]);
+            }
+            out[local[r]] = key;
+        }
+        return out;
+    }
+
+    /** The clusters of {@code column} over the whole table: its levels, or its distinct values. */
+    private int wholeClusterCount(String column, WholeRows whole) {
+        Column c = plan.table.column(column);
+        return c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
     }
 
     // ---- a Poisson bootstrap draw of this part
@@ -222,8 +256,7 @@ public final class VariantByParts {
      */
     private void renewCopies(CodedRows coded, WholeRows whole, String column) {
         int[] codes = coded.clusters.get(column);
-        Column c = plan.table.column(column);
-        int g = c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
+        int g = wholeClusterCount(column, whole);
         int copies = 1;
         for (int r = 0; r < codes.length; r++) {
             if (codes[r] >= 0) {
@@ -300,6 +333,8 @@ public final class VariantByParts {
         variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
                 VariantByParts::addSums);
+        variant.clusterScoreReduction = (request, cluster) -> parts.reduce(part -> part.clusterScores(key, shifted,
+                request, cluster), VariantByParts::addScores);
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -452,6 +487,46 @@ public final class VariantByParts {
             out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
         }
         return out;
+    }
+
+    /**
+     * This part's score of each cluster of {@code clusterKey} (a cluster column, or an intersection's key) for
+     * one specification: the engine's row pass ({@link KeyCoefficientSandwich#partClusterScores}) over this
+     * part's rows among the request's usable missing patterns, in within coordinates by the request's level
+     * offsets, weighted as {@link #rowPassSums} weighs, keyed by the cluster's code over the whole table (an
+     * intersection's key, {@link #intersectionKeys}), in key order.
+     */
+    public java.util.TreeMap<Long, Double> clusterScores(VariantKey key, WholeRows whole, RowPassRequest r,
+            String clusterKey) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        ClusterComponents.Component intersection = plan.clusterIntersections.stream()
+                .filter(c -> c.key().equals(clusterKey)).findFirst().orElse(null);
+        long[] global = intersection == null ? null : intersectionKeys(coded, whole, intersection);
+        int[] rows = new int[coded.rows];
+        int n = 0;
+        for (int row = 0; row < coded.rows; row++) {
+            if (java.util.Arrays.binarySearch(r.usableMasks, coded.groupMissing[coded.group[row]]) >= 0) {
+                rows[n++] = row;
+            }
+        }
+        KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView().overPart(coded.shifted,
+                coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts, coded.weight, r.levelWeights);
+        KeyCoefficientSandwich.withClusters(view, coded.clusters.get(clusterKey), coded.clusterCounts.get(clusterKey));
+        double[] scores = new KeyCoefficientSandwich().partClusterScores(view, r.kept.length, r.b, r.w);
+        java.util.TreeMap<Long, Double> out = new java.util.TreeMap<>();
+        for (int g = 0; g < scores.length; g++) {
+            if (!Double.isNaN(scores[g])) {
+                out.put(global == null ? g : global[g], scores[g]);
+            }
+        }
+        return out;
+    }
+
+    /** Two parts' cluster scores as one, cluster by cluster ({@code a} modified and returned). */
+    static java.util.TreeMap<Long, Double> addScores(java.util.TreeMap<Long, Double> a,
+            java.util.TreeMap<Long, Double> b) {
+        b.forEach((cluster, score) -> a.merge(cluster, score, Double::sum));
+        return a;
     }
 
     /** Two parts' meats as one, specification by specification ({@code a} modified and returned). */

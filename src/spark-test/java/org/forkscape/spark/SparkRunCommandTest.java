@@ -143,10 +143,11 @@ class SparkRunCommandTest {
     }
 
     @Test
-    void refusesMultiwayClusteringAtItsPathWithNothingWritten() throws IOException {
+    void refusesNullDrawsBesideMultiwayClusteringAtItsPathWithNothingWritten() throws IOException {
         Path multiway = folder.resolve("multiway-plan.json");
         Files.writeString(multiway, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
-                .replace("\"cluster:dose\"", "\"cluster:dose+supp\""));
+                .replace("\"cluster:dose\"", "\"cluster:dose+supp\"")
+                .replace("\"confidence\": 0.99,", "\"confidence\": 0.99, \"nullDraws\": 20,"));
         Path out = folder.resolve("refused");
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         PrintStream was = System.err;
@@ -160,8 +161,8 @@ class SparkRunCommandTest {
         }
         assertEquals(2, code);
         String message = err.toString(StandardCharsets.UTF_8).trim();
-        assertTrue(message.startsWith("forkscape: multiway-plan.json, decisions[4].alternatives[3]: cluster:dose+supp "
-                + "(multi-way clustering) is not computed on Spark"), message);
+        assertTrue(message.startsWith("forkscape: multiway-plan.json, decisions[4].alternatives[3]: null draws beside "
+                + "cluster:dose+supp (multi-way clustering) are not made on Spark"), message);
         assertEquals(1, message.lines().count(), message);
         assertTrue(!Files.exists(out.resolve("specifications.csv")));
     }

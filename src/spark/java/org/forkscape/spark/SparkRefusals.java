@@ -12,8 +12,9 @@ import org.forkscape.plan.Plan;
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
- * rows), multi-way clustering and two absorbed columns (their within transformation iterates over the rows);
- * beside null draws, the permutation.
+ * rows) and two absorbed columns (their within transformation iterates over the rows); beside null draws, the
+ * permutation and multi-way clustering (a draw's copies of a resampled unit would make new clusters of the
+ * intersections nested in it, which the draws by parts do not track).
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -49,9 +50,10 @@ final class SparkRefusals {
                 for (int j = 0; j < e.alternatives().size(); j++) {
                     ErrorType t = e.alternatives().get(j);
                     String at = "decisions[" + i + "].alternatives[" + j + "]";
-                    if (t.multiway()) {
-                        throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
-                                + WAY_OUT);
+                    if (t.multiway() && plan.nullDraws() > 0) {
+                        throw new InputException(at, "null draws beside " + t.label() + " (multi-way clustering) are "
+                                + "not made on Spark; run this plan on one machine (forkscape.jar run), leave that "
+                                + "choice out, or run it without null draws (\"nullDraws\": 0, --null-draws 0)");
                     }
                 }
             }

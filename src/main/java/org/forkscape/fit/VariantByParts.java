@@ -138,7 +138,12 @@ public final class VariantByParts {
         }
         if (renewedClusters != null) {
             for (String column : renewedClusters) {
-                renewCopies(coded, whole, column);
+                long[] keys = intersections.get(column);
+                if (keys == null) {
+                    renewCopies(coded, whole, column);
+                } else {
+                    intersections.put(column, renewIntersectionCopies(coded, column, keys));
+                }
             }
         }
         DataVariant part = new DataVariant(coded, new CellSums(coded, null));
@@ -217,10 +222,20 @@ public final class VariantByParts {
 
     /** This part's clusters of {@code column} and the units {@code design} resamples them in. */
     public ClusterNesting nesting(String column, BootstrapDesign design) {
+        return nesting(List.of(column), design);
+    }
+
+    /** This part's clusters of the intersection of {@code columns} and the units {@code design} resamples them in. */
+    public ClusterNesting nesting(List<String> columns, BootstrapDesign design) {
         if (rowKeys == null) {
             throw new IllegalStateException("a part without row identities cannot be resampled");
         }
-        return ClusterNesting.of(plan.table, rowKeys, column, design);
+        return ClusterNesting.of(plan.table, rowKeys, columns, design);
+    }
+
+    /** The intersections of cluster columns the plan's multi-way error types need, in plan order. */
+    List<ClusterComponents.Component> clusterIntersections() {
+        return plan.clusterIntersections;
     }
 
     /** The one-way cluster columns the plan's error types name, in plan order. */
@@ -266,6 +281,38 @@ public final class VariantByParts {
             }
         }
         coded.clusterCounts.put(column, Math.multiplyExact(g, copies));
+    }
+
+    /**
+     * Copy c of an intersection's cluster becomes a cluster of its own: the part's codes are renumbered by
+     * (code, copy), and the copy's key over the whole table is the cluster's key times the copies a draw can
+     * make, plus c, so that every part keys the same copy alike (the driver numbers them densely,
+     * {@link PartialStatistics}). One machine's rule for a nested clustering ({@link ResampledVariant}).
+     *
+     * @param keys the whole table's key of each of the part's codes ({@link #intersectionKeys})
+     * @return the whole table's key of each new code
+     */
+    private long[] renewIntersectionCopies(CodedRows coded, String key, long[] keys) {
+        int[] codes = coded.clusters.get(key);
+        long copies = PoissonCounts.maxCount() + 1L;
+        Map<Long, Integer> renumbered = new HashMap<>();
+        List<Long> out = new ArrayList<>();
+        for (int r = 0; r < codes.length; r++) {
+            if (codes[r] < 0) {
+                continue;
+            }
+            int copy = copyOfRow[coded.tableRows[r]];
+            long whole = Math.addExact(Math.multiplyExact(keys[codes[r]], copies), copy);
+            Integer code = renumbered.get(whole);
+            if (code == null) {
+                code = out.size();
+                renumbered.put(whole, code);
+                out.add(whole);
+            }
+            codes[r] = code;
+        }
+        coded.clusterCounts.put(key, out.size());
+        return out.stream().mapToLong(Long::longValue).toArray();
     }
 
     /** The rows {@code rows} of {@code table} (repeats allowed), in that order. */

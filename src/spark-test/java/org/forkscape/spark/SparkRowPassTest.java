@@ -125,16 +125,12 @@ class SparkRowPassTest {
         SparkRefusals.check(plan(tooth));
         String chick = Files.readString(SparkParityTest.REFERENCE.resolve("chickweight-plan.json"));
         SparkRefusals.check(plan(chick));
-        // multi-way clustering is computed, but not beside null draws
+        // multi-way clustering is computed, with and without null draws
         String multiway = chick.replace("[\"classical\", \"HC0\"", "[\"classical\", \"HC0\", \"cluster:Chick+Diet\"");
         SparkRefusals.check(plan(multiway));
-        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(multiway.replaceFirst(
-                "\\{", "{\"nullDraws\": 20, "))));
-        assertEquals("decisions[5].alternatives[2]", e.where());
-        assertTrue(e.problem().startsWith("null draws beside cluster:Chick+Diet (multi-way clustering) are not made on "
-                + "Spark"), e.problem());
+        SparkRefusals.check(plan(multiway.replaceFirst("\\{", "{\"nullDraws\": 20, ")));
         // still refused: two absorbed columns, generalized linear models
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
+        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
                 "\"columns\": [\"Chick\", \"Diet\"]"))));
         assertEquals("decisions[4].alternatives[1].columns", e.where());
         // analytic weights are summed on Spark

@@ -150,8 +150,9 @@ class SparkWeightsAndClustersTest {
         String planText = weightsPlan();
         SparkData data = new SparkData(spark, parquet.toString(), 0, planText, SparkParityTest.REFERENCE
                 .toAbsolutePath());
-        InputException e = assertThrows(InputException.class, () -> data.table(new PlanReader(false).read(planText,
-                SparkParityTest.REFERENCE.toAbsolutePath())));
+        org.forkscape.plan.Plan plan = new PlanReader(false).read(planText, SparkParityTest.REFERENCE.toAbsolutePath());
+        Table shape = data.table(plan);
+        InputException e = assertThrows(InputException.class, () -> data.variants(plan, shape));
         assertEquals("decisions[5].alternatives[1].column", e.where());
         assertTrue(e.problem().startsWith("the weights in \"weight\" must be finite and not negative; 1 row of"),
                 e.problem());

@@ -5,7 +5,6 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
@@ -13,8 +12,7 @@ import org.forkscape.plan.Plan;
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
  * rows) and two absorbed columns (their within transformation iterates over the rows); beside null draws, the
- * permutation and multi-way clustering (a draw's copies of a resampled unit would make new clusters of the
- * intersections nested in it, which the draws by parts do not track).
+ * permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -44,16 +42,6 @@ final class SparkRefusals {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
                                 + " is fitted by iterations over the rows, which the Spark runner does not make"
                                 + WAY_OUT);
-                    }
-                }
-            } else if (d instanceof Decision.Errors e) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    ErrorType t = e.alternatives().get(j);
-                    String at = "decisions[" + i + "].alternatives[" + j + "]";
-                    if (t.multiway() && plan.nullDraws() > 0) {
-                        throw new InputException(at, "null draws beside " + t.label() + " (multi-way clustering) are "
-                                + "not made on Spark; run this plan on one machine (forkscape.jar run), leave that "
-                                + "choice out, or run it without null draws (\"nullDraws\": 0, --null-draws 0)");
                     }
                 }
             }

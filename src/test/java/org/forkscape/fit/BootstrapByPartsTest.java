@@ -125,6 +125,54 @@ class BootstrapByPartsTest {
         assertTrue(r.rowPasses > 0, "weighted draw fits from row passes over the draw's parts");
     }
 
+    /**
+     * Whole schools drawn beside two-way clusters: the intersections of a nested column (the school, and the
+     * classes within it) with the district, which is not nested, are nested too, so each drawn copy makes new
+     * clusters of them, while the district's stay as they are; one machine's rule ({@link ResampledVariant}).
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void multiwayDrawsMakeNewClustersOfTheNestedIntersections(int slices) {
+        Table table = PartsOfTable.schools(6, 24, 12, 0.3, 0.1);
+        String planJson = PartsOfTable.CLASSES_PLAN.replace("[\"cluster:class\", \"cluster:district\"]",
+                "[\"cluster:school+district\", \"cluster:class+district\"]");
+        Plan plan = new PlanReader(false).read(planJson, Path.of("."));
+        BootstrapDesign design = new BootstrapDesign(48, "school");
+        BootstrapByParts draws = PartsOfTable.source(plan, table, PartsOfTable.rowKeys("schools.parquet",
+                table.rowCount()), slices).bootstrap(design);
+        String join = ClusterComponents.JOIN;
+        assertEquals(List.of("school", "class", "school" + join + "district", "class" + join + "district"),
+                draws.keptWhole(), "the school, its classes and their intersections with the district are nested");
+        compare(planJson, table, design, slices);
+    }
+
+    /**
+     * Whole classes drawn beside clusters of school x third of the pupils, which are the classes: the
+     * intersection is nested in the resampled classes though neither of its columns is, which only the
+     * combinations of values tell.
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void anIntersectionIsNestedByItsCombinationsOfValues(int slices) {
+        Table base = PartsOfTable.schools(6, 24, 12, 0.3, 0.1);
+        double[] third = new double[base.rowCount()];
+        for (int i = 0; i < third.length; i++) {
+            third[i] = i % 3;
+        }
+        List<org.forkscape.data.Column> cols = new ArrayList<>(base.columns());
+        cols.add(new org.forkscape.data.NumericColumn("third", third));
+        Table table = new Table("schools.csv", cols);
+        String planJson = PartsOfTable.CLASSES_PLAN.replace("[\"cluster:class\", \"cluster:district\"]",
+                "[\"cluster:school+third\"]");
+        Plan plan = new PlanReader(false).read(planJson, Path.of("."));
+        BootstrapDesign design = new BootstrapDesign(49, "class");
+        BootstrapByParts draws = PartsOfTable.source(plan, table, PartsOfTable.rowKeys("schools.parquet",
+                table.rowCount()), slices).bootstrap(design);
+        assertEquals(List.of("school" + ClusterComponents.JOIN + "third"), draws.keptWhole(),
+                "school x third is nested in the classes, neither school nor third is");
+        compare(planJson, table, design, slices);
+    }
+
     record Result(int compared, int refits, long rowPasses, long refitPasses) {
     }
 

@@ -17,8 +17,8 @@ final class CodedRows {
     final double[][] shifted;
     /**
      * The analytic weight of each row, all positive (rows with a missing or zero weight are not in the
-     * variant); null when the variant is unweighted. The cell sums, the level means and every pass over
-     * rows take it (see {@link AnalyticWeights}).
+     * variant); null when the variant is unweighted or its rows are held elsewhere. The cell sums, the level
+     * means and every pass over rows take it (see {@link AnalyticWeights}).
      */
     final double[] weight;
     /**

@@ -45,7 +45,8 @@ public final class BootstrapByParts {
      * them whole and makes each drawn copy of them a new cluster: the resampled column itself, and each other
      * column nested in it over the whole table (one pass over the parts per column, on first use; one machine
      * asks the same of each variant's rows, which gives the same answer unless a sample rule removes every row
-     * that puts a cluster in two units). None when single rows are drawn.
+     * that puts a cluster in two units), and the intersections of cluster columns a multi-way error type needs
+     * that are nested so (by their {@link ClusterComponents} keys). None when single rows are drawn.
      */
     public synchronized List<String> keptWhole() {
         if (renewed == null) {
@@ -60,6 +61,20 @@ public final class BootstrapByParts {
                 ClusterNesting n = parts.reduce(part -> part.nesting(column, d), ClusterNesting::merge);
                 if (n == null || n.nested()) {
                     out.add(column);
+                }
+            }
+            // an intersection of cluster columns (a multi-way error type's component) is nested when one of
+            // its columns is, and otherwise when each combination of their values lies within one unit
+            for (ClusterComponents.Component c : resampled == null ? List.<ClusterComponents.Component>of()
+                    : whole.clusterIntersections()) {
+                List<String> columns = c.columns();
+                boolean nested = columns.stream().anyMatch(out::contains);
+                if (!nested) {
+                    ClusterNesting n = parts.reduce(part -> part.nesting(columns, d), ClusterNesting::merge);
+                    nested = n == null || n.nested();
+                }
+                if (nested) {
+                    out.add(c.key());
                 }
             }
             renewed = out.toArray(new String[0]);

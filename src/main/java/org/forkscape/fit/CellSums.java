@@ -20,12 +20,13 @@ final class CellSums {
     final double[][][] cellCross;
 
     /**
-     * Cells summed elsewhere (by the parts of a table held on a cluster, {@link PartialStatistics}); unweighted,
-     * since a runner by parts refuses weights.
+     * Cells summed elsewhere (by the parts of a table held on a cluster, {@link PartialStatistics}).
+     *
+     * @param cellWeight per cell, the weight total of a weighted variant's sums; null when unweighted
      */
-    CellSums(int[][] cellCount, double[][][] cellSum, double[][][] cellCross) {
+    CellSums(int[][] cellCount, double[][] cellWeight, double[][][] cellSum, double[][][] cellCross) {
         this.cellCount = cellCount;
-        this.cellWeight = null;
+        this.cellWeight = cellWeight;
         this.cellSum = cellSum;
         this.cellCross = cellCross;
     }

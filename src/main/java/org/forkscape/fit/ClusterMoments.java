@@ -341,7 +341,7 @@ final class ClusterMoments {
         int[] cluster = new int[m];
         int[] level = new int[m];
         int[] n = new int[m];
-        double[] weight = mom.variant.weight == null ? null : new double[m];
+        double[] weight = mom.variant.weighted ? new double[m] : null;
         for (int i = 0; i < m; i++) {
             cluster[i] = keys.get(i)[0];
             level[i] = keys.get(i)[1];

@@ -19,7 +19,8 @@ import org.forkscape.data.Table;
 public final class ClusterNesting implements Serializable {
     private static final long serialVersionUID = 1L;
 
-    private final HashMap<Long, Long> unitOf = new HashMap<>();
+    /** Per cluster (its value's key, or for an intersection the list of its columns' keys): its unit. */
+    private final HashMap<Object, Long> unitOf = new HashMap<>();
     private boolean split;
 
     private ClusterNesting() {
@@ -27,32 +28,63 @@ public final class ClusterNesting implements Serializable {
 
     /** One part's clusters of {@code column} and the units their rows are in. */
     static ClusterNesting of(Table part, long[] rowKeys, String column, BootstrapDesign design) {
+        return of(part, rowKeys, java.util.List.of(column), design);
+    }
+
+    /**
+     * One part's clusters of the intersection of {@code columns} (one cluster per combination of their values;
+     * a single column is its own intersection) and the units their rows are in. Rows missing any of the
+     * columns belong to no cluster.
+     */
+    static ClusterNesting of(Table part, long[] rowKeys, java.util.List<String> columns, BootstrapDesign design) {
         ClusterNesting n = new ClusterNesting();
         long[] units = design.unitKeys(part, rowKeys);
-        Column c = part.column(column);
-        if (c instanceof CategoricalColumn cat) {
-            long[] levelKey = new long[cat.levels().size()];
-            for (int l = 0; l < levelKey.length; l++) {
-                levelKey[l] = PoissonCounts.textKey(cat.levels().get(l));
-            }
-            int[] codes = cat.codes();
-            for (int r = 0; r < codes.length && !n.split; r++) {
-                if (codes[r] >= 0) {
-                    n.place(levelKey[codes[r]], units[r]);
+        long[][] keys = new long[columns.size()][];
+        boolean[][] present = new boolean[columns.size()][];
+        for (int j = 0; j < keys.length; j++) {
+            Column c = part.column(columns.get(j));
+            keys[j] = new long[part.rowCount()];
+            present[j] = new boolean[part.rowCount()];
+            if (c instanceof CategoricalColumn cat) {
+                long[] levelKey = new long[cat.levels().size()];
+                for (int l = 0; l < levelKey.length; l++) {
+                    levelKey[l] = PoissonCounts.textKey(cat.levels().get(l));
+                }
+                int[] codes = cat.codes();
+                for (int r = 0; r < codes.length; r++) {
+                    present[j][r] = codes[r] >= 0;
+                    keys[j][r] = codes[r] >= 0 ? levelKey[codes[r]] : 0;
+                }
+            } else {
+                double[] x = ((NumericColumn) c).values();
+                for (int r = 0; r < x.length; r++) {
+                    present[j][r] = !Double.isNaN(x[r]);
+                    keys[j][r] = present[j][r] ? PoissonCounts.numberKey(x[r]) : 0;
                 }
             }
-        } else {
-            double[] x = ((NumericColumn) c).values();
-            for (int r = 0; r < x.length && !n.split; r++) {
-                if (!Double.isNaN(x[r])) {
-                    n.place(PoissonCounts.numberKey(x[r]), units[r]);
+        }
+        for (int r = 0; r < part.rowCount() && !n.split; r++) {
+            boolean complete = true;
+            for (boolean[] p : present) {
+                complete &= p[r];
+            }
+            if (!complete) {
+                continue;
+            }
+            if (keys.length == 1) {
+                n.place(keys[0][r], units[r]);
+            } else {
+                java.util.List<Long> combination = new java.util.ArrayList<>(keys.length);
+                for (long[] k : keys) {
+                    combination.add(k[r]);
                 }
+                n.place(combination, units[r]);
             }
         }
         return n;
     }
 
-    private void place(long cluster, long unit) {
+    private void place(Object cluster, long unit) {
         Long before = unitOf.putIfAbsent(cluster, unit);
         if (before != null && before != unit) {
             split = true;
@@ -62,7 +94,7 @@ public final class ClusterNesting implements Serializable {
     /** Two parts' clusters as one ({@code a} modified and returned). */
     static ClusterNesting merge(ClusterNesting a, ClusterNesting b) {
         a.split |= b.split;
-        for (Map.Entry<Long, Long> e : b.unitOf.entrySet()) {
+        for (Map.Entry<Object, Long> e : b.unitOf.entrySet()) {
             if (a.split) {
                 break;
             }

@@ -17,10 +17,15 @@ final class CodedRows {
     final double[][] shifted;
     /**
      * The analytic weight of each row, all positive (rows with a missing or zero weight are not in the
-     * variant); null when the variant is unweighted. The cell sums, the level means and every pass over
-     * rows take it (see {@link AnalyticWeights}).
+     * variant); null when the variant is unweighted or its rows are held elsewhere. The cell sums, the level
+     * means and every pass over rows take it (see {@link AnalyticWeights}).
      */
     final double[] weight;
+    /**
+     * Whether the variant is weighted: {@link #weight} is given, or for a variant without rows, its cells were
+     * summed with weights ({@link PartialStatistics}).
+     */
+    final boolean weighted;
     /** Fixed-effect level of each row, 0..levels-1 (all 0 without absorption). */
     final int[] level;
     final int levels;
@@ -56,6 +61,7 @@ final class CodedRows {
         this.rows = levels.tableRows.length;
         this.tableRows = levels.tableRows;
         this.weight = weight;
+        this.weighted = weight != null;
         this.level = levels.level;
         this.levels = levels.levels;
         this.absorbColumn = levels.column;
@@ -74,16 +80,18 @@ final class CodedRows {
     /**
      * A variant's shape without its rows, for statistics summed elsewhere (by the parts of a table held on
      * a cluster, {@link PartialStatistics}): the row arrays are null, and a pass over rows is refused
-     * ({@link #held}). Such a variant is unweighted and absorbs at most one column (a runner by parts refuses
-     * the others).
+     * ({@link #held}). Such a variant absorbs at most one column (a runner by parts refuses the others).
+     *
+     * @param weighted whether its cells hold weighted sums and weight totals
      */
     CodedRows(ModelColumns layout, int rows, int levels, String absorbColumn, double[][] levelShift,
-            long[] groupMissing, Map<String, Integer> clusterCounts) {
+            long[] groupMissing, Map<String, Integer> clusterCounts, boolean weighted) {
         this.layout = layout;
         this.columns = layout.size();
         this.rows = rows;
         this.tableRows = null;
         this.weight = null;
+        this.weighted = weighted;
         this.level = null;
         this.levels = levels;
         this.absorbColumn = absorbColumn;
@@ -123,6 +131,7 @@ final class CodedRows {
         this.rows = from.length;
         this.tableRows = gather(base.tableRows, from);
         this.weight = base.weight == null ? null : gather(base.weight, from);
+        this.weighted = base.weighted;
         this.level = gather(base.level, from);
         this.levels = base.levels;
         this.absorbColumn = base.absorbColumn;

@@ -48,8 +48,10 @@ public final class DataVariant {
     final int[][] cellCount;
     /** Per group and level: the weight total; null when unweighted. */
     final double[][] cellWeight;
-    /** The analytic weight of each row, null when unweighted ({@link CodedRows#weight}). */
+    /** The analytic weight of each row, null when unweighted or held elsewhere ({@link CodedRows#weight}). */
     final double[] weight;
+    /** Whether the variant is weighted, its rows held here or not ({@link CodedRows#weighted}). */
+    final boolean weighted;
     final double[][][] cellSum;
     final double[][][] cellCross;
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
@@ -67,6 +69,13 @@ public final class DataVariant {
      * held (set by {@link VariantByParts#build}; {@link RowPassesByParts}); null when no such pass can be made.
      */
     volatile RowPassReduction rowPassReduction;
+    /**
+     * For a variant without rows: how one specification's cluster scores are summed where the rows are held
+     * (set by {@link VariantByParts#build}; {@link ClusterScoresByParts}); null when no such pass can be made.
+     */
+    volatile ClusterScoreReduction clusterScoreReduction;
+    /** The passes over the parts' rows made for cluster scores of this variant's specifications. */
+    final java.util.concurrent.atomic.AtomicLong clusterScorePasses = new java.util.concurrent.atomic.AtomicLong();
     /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
     final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
@@ -115,6 +124,7 @@ public final class DataVariant {
         this.cellCount = statistics.cells.cellCount;
         this.cellWeight = statistics.cells.cellWeight;
         this.weight = coded.weight;
+        this.weighted = coded.weighted;
         this.cellSum = statistics.cells.cellSum;
         this.cellCross = statistics.cells.cellCross;
     }
@@ -142,6 +152,19 @@ public final class DataVariant {
      */
     interface RowPassReduction {
         double[] sums(RowPassRequest[] batch);
+    }
+
+    /**
+     * One specification's score per cluster of one clustering (a cluster column, or an intersection's key),
+     * summed over its usable rows where the rows are held, keyed by the cluster's key over the whole table.
+     */
+    interface ClusterScoreReduction {
+        java.util.SortedMap<Long, Double> scores(RowPassRequest request, String clusterKey);
+    }
+
+    /** How many passes over the parts' rows made cluster scores for this variant ({@link ClusterScoresByParts}). */
+    public long clusterScorePasses() {
+        return clusterScorePasses.get();
     }
 
     /** How many passes over the parts' rows served this variant's sandwiches ({@link RowPassesByParts}). */

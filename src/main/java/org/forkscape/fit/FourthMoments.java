@@ -281,7 +281,7 @@ final class FourthMoments {
             }
         }
         layOut(m, f4, f3);
-        return new FourthMoments(m, v.weight == null ? count : squaredWeights);
+        return new FourthMoments(m, v.weighted ? squaredWeights : count);
     }
 
     /**

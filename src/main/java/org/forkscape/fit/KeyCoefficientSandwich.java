@@ -147,10 +147,15 @@ final class KeyCoefficientSandwich {
          * Points the view at a part of a specification's rows held elsewhere ({@link RowPassRequest}): the
          * part's stored (level-shifted) columns {@code columns[kept[c]]} and {@code columns[y]}, read through
          * {@code rows}, its rows' levels, and the whole specification's offsets and level counts (one row per
-         * level and kept column, then the outcome's offset last), unweighted, no clusters.
+         * level and kept column, then the outcome's offset last), no clusters; in a weighted variant the part's
+         * rows' weights and the whole specification's level weight totals, each row scaled by sqrt(w) as
+         * {@link #over} scales it.
+         *
+         * @param weight       the part's rows' weights, null when unweighted (not modified)
+         * @param levelWeights per level, the specification's usable weight total; null when unweighted
          */
         RowView overPart(double[][] columns, int[] level, int[] kept, int y, int[] rows, int n,
-                double[][] levelOffsets, int[] levelCounts) {
+                double[][] levelOffsets, int[] levelCounts, double[] weight, double[] levelWeights) {
             int p = kept.length;
             if (x.length < p) {
                 x = new double[p][];
@@ -173,13 +178,23 @@ final class KeyCoefficientSandwich {
             this.offset = offsets;
             this.yOffset = yOffsets;
             this.levelCount = levelCounts;
-            this.levelWeight = null;
-            this.weight = null;
-            this.scaleRows = false;
+            this.levelWeight = levelWeights;
+            this.weight = weight;
+            this.scaleRows = weight != null;
             this.cluster = null;
             this.clusterCount = 0;
             return this;
         }
+    }
+
+    /**
+     * Sets the rows' cluster codes on a part's view ({@link RowView#overPart}), for {@link #partClusterScores};
+     * returns the view.
+     */
+    static RowView withClusters(RowView view, int[] codes, int count) {
+        view.cluster = codes;
+        view.clusterCount = count;
+        return view;
     }
 
     /** Rows per block: the block's columns stay in the first-level cache. */
@@ -286,6 +301,29 @@ final class KeyCoefficientSandwich {
             System.arraycopy(m, 0, this.m, 0, p * p);
         }
         return rowSum(view, p, b, kind);
+    }
+
+    /**
+     * Each cluster's score over the rows of {@code view} alone (a part of a specification's rows): sum of
+     * e_i u_i over the cluster's rows (w_i e_i u_i when weighted), the CR1 meat's terms before they are squared,
+     * from the solution's pieces {@code b} and {@code w} (not modified); NaN for a code with no row here. The
+     * scores of the parts add up to the whole's, cluster by cluster.
+     */
+    double[] partClusterScores(RowView view, int p, double[] b, double[] w) {
+        ensure(p);
+        System.arraycopy(w, 0, this.w, 0, p);
+        if (clusterScore.length < view.clusterCount) {
+            clusterScore = new double[view.clusterCount];
+            clusterSeen = new boolean[view.clusterCount];
+        }
+        java.util.Arrays.fill(clusterScore, 0, view.clusterCount, 0);
+        java.util.Arrays.fill(clusterSeen, 0, view.clusterCount, false);
+        rowSum(view, p, b, ErrorType.Kind.CLUSTER);
+        double[] out = new double[view.clusterCount];
+        for (int g = 0; g < out.length; g++) {
+            out[g] = clusterSeen[g] ? clusterScore[g] : Double.NaN;
+        }
+        return out;
     }
 
     private void ensure(int p) {

@@ -32,7 +32,7 @@ public final class LeastSquares implements Estimator {
         int[] cols = spec.factorOrder();
         if (n <= base) {
             return KeyFit.failed(FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on this "
-                    + "specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    + "specification's variables" + (variant.weighted ? " with positive weight" : ""), n,
                     base + cols.length);
         }
         if (!mom.rankCertified) {
@@ -115,8 +115,7 @@ public final class LeastSquares implements Estimator {
             return new KeyFit(s.keyEstimate(), Double.NaN, df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(),
                     refit, VarianceRoute.ROW_PASS, sdRatio);
         }
-        KeyCoefficientSandwich.RowView view = data.sandwichRows(mom, s, positions, y, spec.errors(), refit);
-        KeyCoefficientSandwich.Variance v = sandwich.variance(view, s, spec.errors(), k);
+        KeyCoefficientSandwich.Variance v = rowPassVariance(data, mom, s, positions, y, spec.errors(), refit, k);
         if (v.failure() != null) {
             return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF, v.failure(), v.failureDetail(), "",
                     refit, VarianceRoute.ROW_PASS, sdRatio);
@@ -152,8 +151,7 @@ public final class LeastSquares implements Estimator {
                 g = free.clusters();
                 part = g < 2 ? Double.NaN : free.value() * g / (g - 1) * (n - 1.0) / (n - k);
             } else {
-                KeyCoefficientSandwich.Variance v = sandwich.variance(
-                        data.sandwichRows(mom, s, positions, y, one, refit), s, one, k);
+                KeyCoefficientSandwich.Variance v = rowPassVariance(data, mom, s, positions, y, one, refit, k);
                 g = v.clusters();
                 part = v.value();
                 route = VarianceRoute.ROW_PASS;
@@ -170,6 +168,21 @@ public final class LeastSquares implements Estimator {
             return fit.withError(Double.NaN, fewest - 1, FitStatus.VARIANCE_NOT_POSITIVE, type.label(), "", route);
         }
         return fit.withError(Math.sqrt(variance), fewest - 1, FitStatus.OK, "", fit.note(), route);
+    }
+
+    /**
+     * The variance by a pass over the specification's rows: where the variant holds them, the one fused pass;
+     * for cluster errors of a variant whose rows are held in parts, each cluster's score summed where the rows
+     * are ({@link ClusterScoresByParts}).
+     */
+    private KeyCoefficientSandwich.Variance rowPassVariance(FitData data, Moments mom, KeySolution s, int[] positions,
+            int y, ErrorType type, boolean refit, int k) {
+        DataVariant v = data.variant();
+        if (type.kind() == ErrorType.Kind.CLUSTER && !v.holdsRows() && v.clusterScoreReduction != null) {
+            return ClusterScoresByParts.variance(v, RowPassRequest.of(mom, s, y, type.kind()), type.clusterColumn(),
+                    mom.n, k);
+        }
+        return sandwich.variance(data.sandwichRows(mom, s, positions, y, type, refit), s, type, k);
     }
 
     /** Every coefficient from a QR refit of the specification's rows ({@link EveryCoefficient}). */

@@ -42,6 +42,11 @@ public final class PoissonCounts {
     private PoissonCounts() {
     }
 
+    /** The largest count a unit can have in a draw (where the distribution's table ends). */
+    static int maxCount() {
+        return CDF.length - 1;
+    }
+
     private static double[] distribution() {
         PoissonDistribution poisson = new PoissonDistribution(null, 1, PoissonDistribution.DEFAULT_EPSILON,
                 PoissonDistribution.DEFAULT_MAX_ITERATIONS);

@@ -9,8 +9,9 @@ import org.forkscape.plan.ErrorType;
  * the outcome, the coefficients b, the key row w of (X'X)^-1, the lower triangular M with (X'X)^-1 = M'M
  * (for the leverages h_i = 1/n_level + ||M x_i||^2), the usable rows' missing patterns, and per fixed-effect
  * level the offsets that turn the stored level-shifted values into within values and the level's usable row
- * count. Small: O(p^2 + levels p) doubles, independent of the rows. Unweighted, as every variant built from
- * parts is. Immutable once made.
+ * count; in a weighted variant also each level's usable weight total (the leverages' w_i / W_level; the
+ * offsets are then weighted level means, and the part scales its rows by sqrt(w_i) as one machine does).
+ * Small: O(p^2 + levels p) doubles, independent of the rows. Immutable once made.
  */
 public final class RowPassRequest implements Serializable {
     private static final long serialVersionUID = 1L;
@@ -26,10 +27,12 @@ public final class RowPassRequest implements Serializable {
     /** Per level: the kept columns' offsets, then the outcome's. */
     final double[][] levelOffsets;
     final int[] levelCounts;
+    /** Per level: the usable rows' weight total; null when the variant is unweighted. */
+    final double[] levelWeights;
     final ErrorType.Kind kind;
 
     private RowPassRequest(int[] kept, int y, double[] b, double[] w, double[] m, long[] usableMasks,
-            double[][] levelOffsets, int[] levelCounts, ErrorType.Kind kind) {
+            double[][] levelOffsets, int[] levelCounts, double[] levelWeights, ErrorType.Kind kind) {
         this.kept = kept;
         this.y = y;
         this.b = b;
@@ -38,6 +41,7 @@ public final class RowPassRequest implements Serializable {
         this.usableMasks = usableMasks;
         this.levelOffsets = levelOffsets;
         this.levelCounts = levelCounts;
+        this.levelWeights = levelWeights;
         this.kind = kind;
     }
 
@@ -65,13 +69,13 @@ public final class RowPassRequest implements Serializable {
             offsets[l][p] = mom.levelMeanOffset[l][y];
         }
         return new RowPassRequest(kept, y, java.util.Arrays.copyOf(s.b, p), w, m, masks, offsets,
-                mom.levelCount.clone(), kind);
+                mom.levelCount.clone(), v.weighted ? mom.levelWeight.clone() : null, kind);
     }
 
     /** Approximate size when serialized, in bytes: what a batch of requests is bounded by. */
     long bytes() {
         long p = kept.length;
         return 64 + 4 * p + 8 * (2 * p + p * p) + 8L * usableMasks.length
-                + (long) levelOffsets.length * (16 + 8 * (p + 1)) + 4L * levelCounts.length;
+                + (long) levelOffsets.length * (16 + 8 * (p + 1)) + 12L * levelCounts.length;
     }
 }

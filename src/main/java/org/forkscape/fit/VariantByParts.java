@@ -1,7 +1,9 @@
 package org.forkscape.fit;
 
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import org.forkscape.data.CategoricalColumn;
 import org.forkscape.data.Column;
 import org.forkscape.plan.Decision;
@@ -130,9 +132,18 @@ public final class VariantByParts {
     /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        Map<String, long[]> intersections = new HashMap<>();
+        for (ClusterComponents.Component c : plan.clusterIntersections) {
+            intersections.put(c.key(), intersectionKeys(coded, whole, c));
+        }
         if (renewedClusters != null) {
             for (String column : renewedClusters) {
-                renewCopies(coded, whole, column);
+                long[] keys = intersections.get(column);
+                if (keys == null) {
+                    renewCopies(coded, whole, column);
+                } else {
+                    intersections.put(column, renewIntersectionCopies(coded, column, keys));
+                }
             }
         }
         DataVariant part = new DataVariant(coded, new CellSums(coded, null));
@@ -140,7 +151,35 @@ public final class VariantByParts {
         for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
             clusters.add(c.column().name());
         }
-        return PartialStatistics.of(part, withTensors, clusters);
+        return PartialStatistics.of(part, withTensors, clusters, intersections);
+    }
+
+    /**
+     * Per cluster code of the intersection {@code c} in this part (numbered in the part's own order), the key of
+     * that cluster over the whole table: its columns' codes, each among the column's clusters over the whole
+     * table (its levels, or its distinct values), in mixed radix, so that every part keys a combination alike.
+     */
+    private long[] intersectionKeys(CodedRows coded, WholeRows whole, ClusterComponents.Component c) {
+        int[] local = coded.clusters.get(c.key());
+        long[] out = new long[coded.clusterCounts.get(c.key())];
+        for (int r = 0; r < local.length; r++) {
+            if (local[r] < 0) {
+                continue;
+            }
+            long key = 0;
+            for (String column : c.columns()) {
+                key = Math.addExact(Math.multiplyExact(key, wholeClusterCount(column, whole)),
+                        coded.clusters.get(column)[r]);
+            }
+            out[local[r]] = key;
+        }
+        return out;
+    }
+
+    /** The clusters of {@code column} over the whole table: its levels, or its distinct values. */
+    private int wholeClusterCount(String column, WholeRows whole) {
+        Column c = plan.table.column(column);
+        return c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
     }
 
     // ---- a Poisson bootstrap draw of this part
@@ -183,10 +222,20 @@ public final class VariantByParts {
 
     /** This part's clusters of {@code column} and the units {@code design} resamples them in. */
     public ClusterNesting nesting(String column, BootstrapDesign design) {
+        return nesting(List.of(column), design);
+    }
+
+    /** This part's clusters of the intersection of {@code columns} and the units {@code design} resamples them in. */
+    public ClusterNesting nesting(List<String> columns, BootstrapDesign design) {
         if (rowKeys == null) {
             throw new IllegalStateException("a part without row identities cannot be resampled");
         }
-        return ClusterNesting.of(plan.table, rowKeys, column, design);
+        return ClusterNesting.of(plan.table, rowKeys, columns, design);
+    }
+
+    /** The intersections of cluster columns the plan's multi-way error types need, in plan order. */
+    List<ClusterComponents.Component> clusterIntersections() {
+        return plan.clusterIntersections;
     }
 
     /** The one-way cluster columns the plan's error types name, in plan order. */
@@ -222,8 +271,7 @@ public final class VariantByParts {
      */
     private void renewCopies(CodedRows coded, WholeRows whole, String column) {
         int[] codes = coded.clusters.get(column);
-        Column c = plan.table.column(column);
-        int g = c instanceof CategoricalColumn cat ? cat.levels().size() : whole.groupingValues(column).length;
+        int g = wholeClusterCount(column, whole);
         int copies = 1;
         for (int r = 0; r < codes.length; r++) {
             if (codes[r] >= 0) {
@@ -233,6 +281,38 @@ public final class VariantByParts {
             }
         }
         coded.clusterCounts.put(column, Math.multiplyExact(g, copies));
+    }
+
+    /**
+     * Copy c of an intersection's cluster becomes a cluster of its own: the part's codes are renumbered by
+     * (code, copy), and the copy's key over the whole table is the cluster's key times the copies a draw can
+     * make, plus c, so that every part keys the same copy alike (the driver numbers them densely,
+     * {@link PartialStatistics}). One machine's rule for a nested clustering ({@link ResampledVariant}).
+     *
+     * @param keys the whole table's key of each of the part's codes ({@link #intersectionKeys})
+     * @return the whole table's key of each new code
+     */
+    private long[] renewIntersectionCopies(CodedRows coded, String key, long[] keys) {
+        int[] codes = coded.clusters.get(key);
+        long copies = PoissonCounts.maxCount() + 1L;
+        Map<Long, Integer> renumbered = new HashMap<>();
+        List<Long> out = new ArrayList<>();
+        for (int r = 0; r < codes.length; r++) {
+            if (codes[r] < 0) {
+                continue;
+            }
+            int copy = copyOfRow[coded.tableRows[r]];
+            long whole = Math.addExact(Math.multiplyExact(keys[codes[r]], copies), copy);
+            Integer code = renumbered.get(whole);
+            if (code == null) {
+                code = out.size();
+                renumbered.put(whole, code);
+                out.add(whole);
+            }
+            codes[r] = code;
+        }
+        coded.clusterCounts.put(key, out.size());
+        return out.stream().mapToLong(Long::longValue).toArray();
     }
 
     /** The rows {@code rows} of {@code table} (repeats allowed), in that order. */
@@ -300,6 +380,8 @@ public final class VariantByParts {
         variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
                 VariantByParts::addSums);
+        variant.clusterScoreReduction = (request, cluster) -> parts.reduce(part -> part.clusterScores(key, shifted,
+                request, cluster), VariantByParts::addScores);
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -391,7 +473,9 @@ public final class VariantByParts {
     /**
      * This part's rows among the refit's usable missing patterns, its columns and outcome in within
      * coordinates (minus the usable rows' level means around the shifts), reduced to their triangular factor
-     * (at most columns + 1 rows).
+     * (at most columns + 1 rows). In a weighted variant the level means are weighted and each row is scaled
+     * by the square root of its weight after centring, as {@link DesignRows} scales it on one machine, so the
+     * factor is that of weighted least squares.
      */
     private static double[][] refitFactor(CodedRows coded, RefitPiece piece) {
         long[] usableMasks = piece.usableMasks();
@@ -408,11 +492,12 @@ public final class VariantByParts {
                 continue;
             }
             double[] off = offsets[coded.level[r]];
+            double root = coded.weight == null ? 1 : Math.sqrt(coded.weight[r]);
             double[] row = new double[cols.length + 1];
             for (int j = 0; j < cols.length; j++) {
-                row[j] = coded.shifted[cols[j]][r] - off[cols[j]];
+                row[j] = (coded.shifted[cols[j]][r] - off[cols[j]]) * root;
             }
-            row[cols.length] = coded.shifted[y][r] - off[y];
+            row[cols.length] = (coded.shifted[y][r] - off[y]) * root;
             rows.add(row);
         }
         return triangular(rows.toArray(new double[0][]));
@@ -444,10 +529,51 @@ public final class VariantByParts {
                 }
                 rowsOf = r.usableMasks;
             }
-            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts);
+            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
+                    coded.weight, r.levelWeights);
             out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
         }
         return out;
+    }
+
+    /**
+     * This part's score of each cluster of {@code clusterKey} (a cluster column, or an intersection's key) for
+     * one specification: the engine's row pass ({@link KeyCoefficientSandwich#partClusterScores}) over this
+     * part's rows among the request's usable missing patterns, in within coordinates by the request's level
+     * offsets, weighted as {@link #rowPassSums} weighs, keyed by the cluster's code over the whole table (an
+     * intersection's key, {@link #intersectionKeys}), in key order.
+     */
+    public java.util.TreeMap<Long, Double> clusterScores(VariantKey key, WholeRows whole, RowPassRequest r,
+            String clusterKey) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        ClusterComponents.Component intersection = plan.clusterIntersections.stream()
+                .filter(c -> c.key().equals(clusterKey)).findFirst().orElse(null);
+        long[] global = intersection == null ? null : intersectionKeys(coded, whole, intersection);
+        int[] rows = new int[coded.rows];
+        int n = 0;
+        for (int row = 0; row < coded.rows; row++) {
+            if (java.util.Arrays.binarySearch(r.usableMasks, coded.groupMissing[coded.group[row]]) >= 0) {
+                rows[n++] = row;
+            }
+        }
+        KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView().overPart(coded.shifted,
+                coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts, coded.weight, r.levelWeights);
+        KeyCoefficientSandwich.withClusters(view, coded.clusters.get(clusterKey), coded.clusterCounts.get(clusterKey));
+        double[] scores = new KeyCoefficientSandwich().partClusterScores(view, r.kept.length, r.b, r.w);
+        java.util.TreeMap<Long, Double> out = new java.util.TreeMap<>();
+        for (int g = 0; g < scores.length; g++) {
+            if (!Double.isNaN(scores[g])) {
+                out.put(global == null ? g : global[g], scores[g]);
+            }
+        }
+        return out;
+    }
+
+    /** Two parts' cluster scores as one, cluster by cluster ({@code a} modified and returned). */
+    static java.util.TreeMap<Long, Double> addScores(java.util.TreeMap<Long, Double> a,
+            java.util.TreeMap<Long, Double> b) {
+        b.forEach((cluster, score) -> a.merge(cluster, score, Double::sum));
+        return a;
     }
 
     /** Two parts' meats as one, specification by specification ({@code a} modified and returned). */

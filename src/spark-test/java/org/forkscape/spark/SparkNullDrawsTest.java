@@ -130,6 +130,34 @@ class SparkNullDrawsTest {
     }
 
     /**
+     * Two-way clusters beside whole schools: the intersections of the school and of its classes with the
+     * district are nested in the schools, so each drawn copy makes new clusters of them, as one machine does.
+     */
+    @Test
+    void multiwayDrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
+        SparkParityTest.report("draws-multiway", sameDraws(withDraws(PartsOfTable.CLASSES_PLAN.replace(
+                "[\"cluster:class\", \"cluster:district\"]", "[\"cluster:school+district\", \"cluster:class+district\"]"),
+                "school"), "school"));
+    }
+
+    /**
+     * Analytic weights in the draws: the district's number as a weight (0 to 6, so the rows of district 0 drop
+     * out), the draw's weights the counts times them, HC1 from the weighted fourth moments, school clusters
+     * from the weighted cells, HC3 from weighted row passes over each draw's partitions.
+     */
+    @Test
+    void weightedDrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
+        String plan = withDraws(PartsOfTable.ROWS_PLAN.replace("{\"name\": \"errors\", \"kind\": \"errors\", "
+                + "\"alternatives\": [\"classical\", \"HC1\", \"cluster:school\"]}", "{\"name\": \"weights\", "
+                + "\"kind\": \"weights\", \"alternatives\": [{\"label\": \"by district\", \"column\": "
+                + "\"district\"}]}, {\"name\": \"errors\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", "
+                + "\"HC3\", \"cluster:school\"]}"), "rows");
+        assertTrue(plan.contains("\"by district\""), "the plan edit took");
+        SparkParityTest.report("draws-weighted", sameDraws(plan, null));
+        assertTrue(rowPasses > 0, rowPasses + " weighted draw fits from row passes");
+    }
+
+    /**
      * Every specification in every draw: fits at 1, 3 and 8 partitions and on one machine.
      *
      * @return the largest relative differences from one machine: estimate, standard error, p-value

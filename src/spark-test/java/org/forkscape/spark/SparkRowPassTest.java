@@ -125,19 +125,18 @@ class SparkRowPassTest {
         SparkRefusals.check(plan(tooth));
         String chick = Files.readString(SparkParityTest.REFERENCE.resolve("chickweight-plan.json"));
         SparkRefusals.check(plan(chick));
-        // still refused: multi-way clustering, two absorbed columns, analytic weights, generalized linear models
-        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("[\"classical\", \"HC0\"",
-                "[\"classical\", \"HC0\", \"cluster:Chick+Diet\""))));
-        assertEquals("decisions[5].alternatives[2]", e.where());
-        assertTrue(e.problem().contains("multi-way clustering"), e.problem());
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
+        // multi-way clustering is computed, with and without null draws
+        String multiway = chick.replace("[\"classical\", \"HC0\"", "[\"classical\", \"HC0\", \"cluster:Chick+Diet\"");
+        SparkRefusals.check(plan(multiway));
+        SparkRefusals.check(plan(multiway.replaceFirst("\\{", "{\"nullDraws\": 20, ")));
+        // still refused: two absorbed columns, generalized linear models
+        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
                 "\"columns\": [\"Chick\", \"Diet\"]"))));
         assertEquals("decisions[4].alternatives[1].columns", e.where());
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"",
-                "{\"name\": \"weights\", \"kind\": \"weights\", \"alternatives\": [{\"label\": \"by time\", "
-                        + "\"column\": \"Time\"}]},\n    {\"name\": \"outcome\""))));
-        assertEquals("decisions[0].alternatives[0].column", e.where());
-        assertTrue(e.problem().startsWith("analytic weights are not summed on Spark"), e.problem());
+        // analytic weights are summed on Spark
+        SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"", "{\"name\": \"weights\", \"kind\": "
+                + "\"weights\", \"alternatives\": [{\"label\": \"by time\", \"column\": \"Time\"}]},\n    "
+                + "{\"name\": \"outcome\"")));
         e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"",
                 "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]},"
                         + "\n    {\"name\": \"outcome\""))));

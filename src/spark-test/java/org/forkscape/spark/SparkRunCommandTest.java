@@ -34,7 +34,7 @@ import tools.jackson.databind.ObjectMapper;
  * within {@value SparkParityTest#RELATIVE} relative) and the same summary.json (numbers within 1e-9 relative,
  * or {@value #ROUNDING_ZERO} absolute for quantities that are zero up to rounding; apart from the run's time, its
  * provenance, whose data hash is null on Spark, and the standard-error routes, since Spark takes the row pass
- * only where no route without rows serves, here for HC3); a refused feature is one line at its JSON path, exit code 2,
+ * only where no route without rows serves, here for HC3); a refused plan (negative weights, counted on the executors) is one line at its JSON path, exit code 2,
  * and nothing written.
  */
 class SparkRunCommandTest {
@@ -143,25 +143,37 @@ class SparkRunCommandTest {
     }
 
     @Test
-    void refusesMultiwayClusteringAtItsPathWithNothingWritten() throws IOException {
-        Path multiway = folder.resolve("multiway-plan.json");
-        Files.writeString(multiway, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
-                .replace("\"cluster:dose\"", "\"cluster:dose+supp\""));
+    void refusesNegativeWeightsAtTheirPathWithNothingWritten() throws IOException {
+        // weights of length - 10: negative in the shortest teeth, counted on the executors
+        org.forkscape.data.Table tooth = new CsvTableReader().read(SparkParityTest.REFERENCE.resolve("toothgrowth.csv"));
+        double[] w = ((org.forkscape.data.NumericColumn) tooth.column("len")).values().clone();
+        for (int i = 0; i < w.length; i++) {
+            w[i] -= 10;
+        }
+        java.util.List<org.forkscape.data.Column> columns = new java.util.ArrayList<>(tooth.columns());
+        columns.add(new org.forkscape.data.NumericColumn("w", w));
+        Path weighted = ParquetCopy.write(spark, new org.forkscape.data.Table(tooth.source(), columns),
+                folder.resolve("weighted.parquet"), 2);
+        Path planFile = folder.resolve("negative-weights-plan.json");
+        Files.writeString(planFile, Files.readString(SparkParityTest.REFERENCE.resolve("toothgrowth-plan.json"))
+                .replace("{\"name\": \"outcome\"", "{\"name\": \"weights\", \"kind\": \"weights\", "
+                        + "\"alternatives\": [{\"label\": \"by length\", \"column\": \"w\"}]},\n    "
+                        + "{\"name\": \"outcome\""));
         Path out = folder.resolve("refused");
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         PrintStream was = System.err;
         int code;
         System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
         try {
-            code = SparkRun.execute(new String[] {"run", multiway.toString(), "--out", out.toString(), "--data",
-                    parquet.toString()});
+            code = SparkRun.execute(new String[] {"run", planFile.toString(), "--out", out.toString(), "--data",
+                    weighted.toString()});
         } finally {
             System.setErr(was);
         }
         assertEquals(2, code);
         String message = err.toString(StandardCharsets.UTF_8).trim();
-        assertTrue(message.startsWith("forkscape: multiway-plan.json, decisions[4].alternatives[3]: cluster:dose+supp "
-                + "(multi-way clustering) is not computed on Spark"), message);
+        assertTrue(message.startsWith("forkscape: negative-weights-plan.json, decisions[0].alternatives[0].column: "
+                + "the weights in \"w\" must be finite and not negative; "), message);
         assertEquals(1, message.lines().count(), message);
         assertTrue(!Files.exists(out.resolve("specifications.csv")));
     }

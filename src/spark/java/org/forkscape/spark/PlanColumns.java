@@ -9,6 +9,7 @@ import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.SampleRule;
 import org.forkscape.plan.VariableChoice;
+import org.forkscape.plan.WeightChoice;
 
 /** Every column a plan reads, once, in plan order (the null draws' resampled column last): the only columns read from the Parquet data. */
 final class PlanColumns {
@@ -40,6 +41,9 @@ final class PlanColumns {
                 e.alternatives().stream().map(ErrorType::clusterColumns).forEach(names::addAll);
             } else if (d instanceof Decision.Absorb a) {
                 a.alternatives().stream().map(AbsorbChoice::columns).forEach(names::addAll);
+            } else if (d instanceof Decision.Weights w) {
+                w.alternatives().stream().filter(WeightChoice::weighted).map(WeightChoice::column)
+                        .forEach(names::add);
             }
         }
         String resampled = plan.nullDraws() > 0 ? NullDrawSettings.of(plan).clusterColumn() : null;

@@ -40,6 +40,9 @@ final class SparkData implements RunData {
     private TableShape shape;
     private Dataset<Row> data;
     private WholeRows grouping;
+    /** The columns read as categorical, and the data's name in messages (set by {@link #table}). */
+    private Set<String> categoricalNames;
+    private String source;
     /** Whether the partitions carry their rows' identities (for bootstrap draws; {@link RowIdentity}). */
     private boolean keyed;
 
@@ -101,6 +104,13 @@ final class SparkData implements RunData {
                             .collectAsList().stream().mapToDouble(r -> r.getDouble(0)).sorted().toArray());
                 }
             }
+            categoricalNames = new java.util.HashSet<>();
+            for (int c = 0; c < names.length; c++) {
+                if (categorical[c]) {
+                    categoricalNames.add(names[c]);
+                }
+            }
+            this.source = source;
             long rows = selected.count();
             if (rows > Integer.MAX_VALUE) {
                 throw new InputException("data", String.format("%s has %,d rows, above the engine's limit of %,d "
@@ -120,6 +130,7 @@ final class SparkData implements RunData {
     @Override
     public VariantSource variants(Plan plan, Table table) {
         SparkRefusals.check(plan);
+        SparkWeights.check(plan, data, categoricalNames, source);
         TableShape s = shape;
         boolean withKeys = keyed;
         JavaRDD<SparkPart> parts = data.javaRDD().mapPartitions(rows -> List.of(s.part(rows, withKeys)).iterator())

@@ -5,15 +5,14 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
- * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
- * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation.
+ * rows) and two absorbed columns (their within transformation iterates over the rows); beside null draws, the
+ * permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -36,28 +35,12 @@ final class SparkRefusals {
                                         + "rows, which the Spark runner does not make" + WAY_OUT);
                     }
                 }
-            } else if (d instanceof Decision.Weights w) {
-                for (int j = 0; j < w.alternatives().size(); j++) {
-                    if (w.alternatives().get(j).weighted()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].column",
-                                "analytic weights are not summed on Spark (its statistics are unweighted)" + WAY_OUT);
-                    }
-                }
             } else if (d instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
                     ModelFamily f = m.alternatives().get(j);
                     if (!f.leastSquares()) {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
                                 + " is fitted by iterations over the rows, which the Spark runner does not make"
-                                + WAY_OUT);
-                    }
-                }
-            } else if (d instanceof Decision.Errors e) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    ErrorType t = e.alternatives().get(j);
-                    String at = "decisions[" + i + "].alternatives[" + j + "]";
-                    if (t.multiway()) {
-                        throw new InputException(at, t.label() + " (multi-way clustering) is not computed on Spark"
                                 + WAY_OUT);
                     }
                 }

@@ -96,6 +96,83 @@ class BootstrapByPartsTest {
                 + " passes over the draws' parts");
     }
 
+    /**
+     * Whole schools drawn from a weighted table (invented survey weights with zeros and missing cells): a
+     * copy of a row keeps its analytic weight, so the draw's weights are the counts times the analytic weights,
+     * which {@link ResampledVariant} multiplies on one machine (HC1 from the weighted fourth moments and
+     * school clusters from the weighted cells, HC3 and absorbed HC1 from weighted row passes over the draw's
+     * parts).
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void weightedDrawsMultiplyTheAnalyticWeightsByTheCounts(int slices) {
+        Table base = PartsOfTable.schools(8, 24, 12, 0.3, 0.1);
+        java.util.SplittableRandom random = new java.util.SplittableRandom(9);
+        double[] w = new double[base.rowCount()];
+        for (int i = 0; i < w.length; i++) {
+            double u = random.nextDouble();
+            w[i] = u < 0.05 ? Double.NaN : u < 0.1 ? 0 : 0.5 + 2 * random.nextDouble();
+        }
+        List<org.forkscape.data.Column> cols = new ArrayList<>(base.columns());
+        cols.add(new org.forkscape.data.NumericColumn("w", w));
+        Table table = new Table("schools.csv", cols);
+        String plan = ABSORBING_PLAN.replace("{\"name\": \"errors\", \"kind\": \"errors\", \"alternatives\": "
+                + "[\"classical\", \"cluster:school\"]}", "{\"name\": \"weights\", \"kind\": \"weights\", "
+                + "\"alternatives\": [{\"label\": \"survey\", \"column\": \"w\"}]}, {\"name\": \"errors\", "
+                + "\"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC3\", \"cluster:school\"]}");
+        assertTrue(plan.contains("\"weights\""), "the plan edit took");
+        Result r = compare(plan, table, new BootstrapDesign(47, "school"), slices);
+        assertTrue(r.rowPasses > 0, "weighted draw fits from row passes over the draw's parts");
+    }
+
+    /**
+     * Whole schools drawn beside two-way clusters: the intersections of a nested column (the school, and the
+     * classes within it) with the district, which is not nested, are nested too, so each drawn copy makes new
+     * clusters of them, while the district's stay as they are; one machine's rule ({@link ResampledVariant}).
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void multiwayDrawsMakeNewClustersOfTheNestedIntersections(int slices) {
+        Table table = PartsOfTable.schools(6, 24, 12, 0.3, 0.1);
+        String planJson = PartsOfTable.CLASSES_PLAN.replace("[\"cluster:class\", \"cluster:district\"]",
+                "[\"cluster:school+district\", \"cluster:class+district\"]");
+        Plan plan = new PlanReader(false).read(planJson, Path.of("."));
+        BootstrapDesign design = new BootstrapDesign(48, "school");
+        BootstrapByParts draws = PartsOfTable.source(plan, table, PartsOfTable.rowKeys("schools.parquet",
+                table.rowCount()), slices).bootstrap(design);
+        String join = ClusterComponents.JOIN;
+        assertEquals(List.of("school", "class", "school" + join + "district", "class" + join + "district"),
+                draws.keptWhole(), "the school, its classes and their intersections with the district are nested");
+        compare(planJson, table, design, slices);
+    }
+
+    /**
+     * Whole classes drawn beside clusters of school x third of the pupils, which are the classes: the
+     * intersection is nested in the resampled classes though neither of its columns is, which only the
+     * combinations of values tell.
+     */
+    @ParameterizedTest(name = "{0} slices")
+    @ValueSource(ints = {1, 3, 7})
+    void anIntersectionIsNestedByItsCombinationsOfValues(int slices) {
+        Table base = PartsOfTable.schools(6, 24, 12, 0.3, 0.1);
+        double[] third = new double[base.rowCount()];
+        for (int i = 0; i < third.length; i++) {
+            third[i] = i % 3;
+        }
+        List<org.forkscape.data.Column> cols = new ArrayList<>(base.columns());
+        cols.add(new org.forkscape.data.NumericColumn("third", third));
+        Table table = new Table("schools.csv", cols);
+        String planJson = PartsOfTable.CLASSES_PLAN.replace("[\"cluster:class\", \"cluster:district\"]",
+                "[\"cluster:school+third\"]");
+        Plan plan = new PlanReader(false).read(planJson, Path.of("."));
+        BootstrapDesign design = new BootstrapDesign(49, "class");
+        BootstrapByParts draws = PartsOfTable.source(plan, table, PartsOfTable.rowKeys("schools.parquet",
+                table.rowCount()), slices).bootstrap(design);
+        assertEquals(List.of("school" + ClusterComponents.JOIN + "third"), draws.keptWhole(),
+                "school x third is nested in the classes, neither school nor third is");
+        compare(planJson, table, design, slices);
+    }
+
     record Result(int compared, int refits, long rowPasses, long refitPasses) {
     }
 

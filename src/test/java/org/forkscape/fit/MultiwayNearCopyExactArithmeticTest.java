@@ -26,7 +26,9 @@ import org.junit.jupiter.params.provider.ValueSource;
  * each one-way CR1 variance computed by {@link ExactLeastSquares} in 90-digit decimals on the same doubles
  * and rounded once, then added. Every subset of the controls, with and without absorbed zone effects, by
  * the fitter that may take the per-cluster cells (told that they pay for every component) and by the one
- * that always passes over rows. Tolerance 1e-9 relative, the engine's promise; the routes taken are
+ * that always passes over rows, and with the variants built from 3 parts of the table (a runner by parts:
+ * the parts' per-cluster cells, or where they decline the clusters' scores summed over the parts' rows,
+ * {@link ClusterScoresByParts}). Tolerance 1e-9 relative, the engine's promise; the routes taken are
  * asserted, so a guard that declined the cells everywhere could not pass.
  */
 class MultiwayNearCopyExactArithmeticTest {
@@ -72,6 +74,8 @@ class MultiwayNearCopyExactArithmeticTest {
             NearCopyExactArithmeticTest.values(t, "c")};
         double[] y = NearCopyExactArithmeticTest.values(t, "y");
         Map<VarianceRoute, Integer> routes = new EnumMap<>(VarianceRoute.class);
+        Map<VarianceRoute, Integer> partsRoutes = new EnumMap<>(VarianceRoute.class);
+        VariantSource parts = VariantByPartsTest.source(plan, t, 3);
         long[] choices = new long[models.space().decisionCount()];
         double worst = 0;
         String worstAt = "";
@@ -83,6 +87,8 @@ class MultiwayNearCopyExactArithmeticTest {
             assertTrue(variant.usesClusterMoments("site") && variant.usesClusterMoments("season"), "cells built");
             SpecificationFitter cells = new SpecificationFitter(true);
             SpecificationFitter rowPass = new SpecificationFitter(false);
+            SpecificationFitter byParts = new SpecificationFitter(true);
+            DataVariant fromParts = parts.variant(models.variantKey(v), null);
             for (long index = 0; index < models.space().size(); index++) {
                 models.space().decode(index, choices);
                 if (models.variantOrdinal(choices) != v) {
@@ -101,11 +107,14 @@ class MultiwayNearCopyExactArithmeticTest {
                 double variance = bySite.cr1Variance() + ExactLeastSquares.fit(x, y, zone, season).cr1Variance()
                         - ExactLeastSquares.fit(x, y, zone, both).cr1Variance();
                 SpecificationModel model = models.model(choices);
-                for (SpecificationFitter fitter : new SpecificationFitter[] {cells, rowPass}) {
-                    KeyFit fit = fitter.fit(variant, model);
-                    String where = String.format("gap %.0e, specification %d (controls %s, %s, route %s%s)", gap,
+                for (SpecificationFitter fitter : new SpecificationFitter[] {cells, rowPass, byParts}) {
+                    KeyFit fit = fitter == byParts ? fitter.fit(fromParts, model) : fitter.fit(variant, model);
+                    String where = String.format("gap %.0e, specification %d (controls %s, %s, route %s%s%s)", gap,
                             index + 1, Long.toBinaryString(choices[2]), v == 1 ? "zone effects" : "no fixed effects",
-                            fit.route(), fit.refitByQr() ? ", refit by QR" : "");
+                            fit.route(), fit.refitByQr() ? ", refit by QR" : "", fitter == byParts ? ", by parts" : "");
+                    if (fitter == byParts) {
+                        partsRoutes.merge(fit.route(), 1, Integer::sum);
+                    }
                     assertEquals(bySite.k(), fit.nParams(), where);
                     assertEquals(SEASONS - 1, fit.df(), 0, where + ": df = fewest clusters - 1");
                     routes.merge(fit.route(), 1, Integer::sum);
@@ -127,5 +136,7 @@ class MultiwayNearCopyExactArithmeticTest {
                 + "tolerance 1e-9 (exact 90-digit arithmetic on the same doubles)", worst, worstAt));
         assertTrue(routes.getOrDefault(VarianceRoute.CLUSTER_CELLS, 0) >= 4, "cluster cells taken: " + routes);
         assertTrue(routes.getOrDefault(VarianceRoute.ROW_PASS, 0) >= 16, "row pass taken: " + routes);
+        assertTrue(partsRoutes.getOrDefault(VarianceRoute.CLUSTER_CELLS, 0) + partsRoutes.getOrDefault(
+                VarianceRoute.ROW_PASS, 0) == 16, "by parts, from the cells or the clusters' scores: " + partsRoutes);
     }
 }

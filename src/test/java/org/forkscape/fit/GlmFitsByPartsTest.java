@@ -1,0 +1,149 @@
+package org.forkscape.fit;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Map;
+import java.util.TreeMap;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.Table;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.ReferenceFiles;
+import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunProgress;
+import org.forkscape.run.RunResult;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
+
+/**
+ * Generalized linear fits of variants held in parts, without Spark ({@link GlmFitsByParts}): plans with
+ * logit, probit and Poisson models run with their variants built by {@link VariantByParts} from 1, 3 and 8
+ * slices of the table, against the engine fitting them from the whole table: every specification's status,
+ * rows and coefficients exactly, its estimate, standard error, p-value, average marginal effect and its
+ * error, deviance, pseudo-R-squared and model p-value within 1e-10 relative. The plans: the demo's Poisson
+ * plan (Poisson beside least squares, HC1 and school clusters, the absorbed zone, a winsorize, a sample
+ * rule), and three of the GLM reference plans of {@code src/test/r/glm-reference.R} (birthwt-smoking: logit
+ * and probit, classical, HC0 to HC3 and age clusters, with and without the absorbed race, a 0/1 key;
+ * quine: Poisson with HC2 and HC3 beside the absorbed age group; school: separation among the statuses).
+ * The route is asserted: every fitted generalized linear specification came from the passes over the parts,
+ * in fewer rounds than passes. The largest differences go to {@code target/parts-reports/}.
+ */
+class GlmFitsByPartsTest {
+    static final double RELATIVE = 1e-10;
+
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void demoPoissonPlan(int slices) {
+        compare(Path.of("sample-data/civic-demo-models.plan.json"), "demo-models", slices);
+    }
+
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void birthWeightLogitAndProbit(int slices) {
+        compare(ReferenceFiles.path("glm/birthwt-smoking-plan.json"), "birthwt-smoking", slices);
+    }
+
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void quinePoissonWithLeverages(int slices) {
+        compare(ReferenceFiles.path("glm/quine-plan.json"), "quine", slices);
+    }
+
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void schoolWithSeparation(int slices) {
+        RunResult parts = compare(ReferenceFiles.path("glm/school-plan.json"), "school", slices);
+        long separated = 0;
+        for (int slot = 0; slot < parts.results().size(); slot++) {
+            if (parts.results().status(slot).startsWith("separation")) {
+                separated++;
+            }
+        }
+        assertTrue(separated > 0, "the school plan has separated specifications (glm/school-expected.csv)");
+    }
+
+    /** Every specification on parts against the whole table; returns the run on parts. */
+    static RunResult compare(Path planFile, String name, int slices) {
+        Plan plan = new PlanReader(false).read(planFile);
+        Table table = new CsvTableReader().read(plan.dataFile());
+        RunResult whole = new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+        RunResult parts = runOnParts(plan, table, slices);
+        ResultTable a = whole.results();
+        ResultTable b = parts.results();
+        Map<String, Double> worst = new TreeMap<>();
+        long generalizedFitted = 0;
+        for (int slot = 0; slot < a.size(); slot++) {
+            String where = name + ", specification " + a.specNumber(slot);
+            assertEquals(a.status(slot), b.status(slot), where);
+            assertEquals(a.nObs(slot), b.nObs(slot), where);
+            assertEquals(a.nParams(slot), b.nParams(slot), where);
+            if (!a.fitted(slot)) {
+                continue;
+            }
+            close(a.estimate(slot), b.estimate(slot), where, "estimate", worst);
+            close(a.stdError(slot), b.stdError(slot), where, "std_error", worst);
+            close(a.pValue(slot), b.pValue(slot), where, "p_value", worst);
+            if (!a.family(slot).leastSquares()) {
+                generalizedFitted++;
+                close(a.effect(slot), b.effect(slot), where, "effect", worst);
+                close(a.effectStdError(slot), b.effectStdError(slot), where, "effect_std_error", worst);
+                close(a.deviance(slot), b.deviance(slot), where, "deviance", worst);
+                close(a.r2(slot), b.r2(slot), where, "r2", worst);
+                close(a.modelPValue(slot), b.modelPValue(slot), where, "model_p_value", worst);
+            }
+        }
+        long served = 0;
+        long rounds = 0;
+        long passes = 0;
+        for (int v = 0; v < parts.models().variantCount(); v++) {
+            DataVariant variant = parts.models().variant(parts.models().variantKey(v));
+            assertFalse(variant.holdsRows());
+            served += variant.glmFitsServed();
+            rounds += variant.glmRounds();
+            passes += variant.glmPasses();
+        }
+        assertTrue(generalizedFitted > 0 && served >= generalizedFitted, served + " specifications fitted from the "
+                + "passes over the parts, of which at least the " + generalizedFitted + " fitted generalized linear ones");
+        assertTrue(rounds > 0 && rounds < passes, rounds + " rounds for " + passes + " passes");
+        report(name + "-" + slices, worst, served, rounds, passes);
+        return parts;
+    }
+
+    static RunResult runOnParts(Plan plan, Table table, int slices) {
+        VariantSource built = VariantByPartsTest.source(plan, table, slices);
+        // kept once built, as the Spark runner keeps them, so that the counts of the passes can be read after
+        Map<VariantKey, DataVariant> kept = new java.util.concurrent.ConcurrentHashMap<>();
+        VariantSource source = (key, pool) -> kept.computeIfAbsent(key, k -> built.variant(k, pool));
+        return new MultiverseRunner(2).withVariants(source).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+    }
+
+    private static void close(double expected, double actual, String where, String what, Map<String, Double> worst) {
+        if (expected == actual || Double.isNaN(expected) && Double.isNaN(actual)) {
+            worst.merge(what, 0.0, Math::max);
+            return;
+        }
+        double relative = Math.abs(actual - expected) / Math.abs(expected);
+        worst.merge(what, relative, Math::max);
+        assertTrue(relative <= RELATIVE, where + " " + what + ": " + actual + " against " + expected + ", relative "
+                + relative);
+    }
+
+    private static void report(String name, Map<String, Double> worst, long served, long rounds, long passes) {
+        StringBuilder text = new StringBuilder("generalized linear fits from parts against the whole table, " + name
+                + "\nspecifications served " + served + ", rounds " + rounds + ", passes " + passes + "\n");
+        worst.forEach((what, value) -> text.append(what).append(' ').append(value).append('\n'));
+        try {
+            Path dir = Path.of("target", "parts-reports");
+            Files.createDirectories(dir);
+            Files.writeString(dir.resolve("glm-by-parts-" + name + ".txt"), text);
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+    }
+}

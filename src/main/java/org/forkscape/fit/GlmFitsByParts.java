@@ -119,8 +119,11 @@ public final class GlmFitsByParts {
                     out[task] = body.run(task, request -> rounds.pass(task, request));
                 } catch (RowPassUnavailable e) {
                     unavailable[task] = e;
-                } catch (RuntimeException | Error e) {
-                    failures[task] = e instanceof RuntimeException r ? r : new IllegalStateException(e);
+                } catch (RuntimeException e) {
+                    failures[task] = e;
+                } catch (Exception | Error e) {
+                    // a checked exception a library throws undeclared (a task that cannot be serialized, say)
+                    failures[task] = new IllegalStateException(e);
                 } finally {
                     rounds.done();
                 }
@@ -219,6 +222,10 @@ public final class GlmFitsByParts {
                 variant.glmPasses.addAndGet(batch.length);
             } catch (RuntimeException e) {
                 fail(e);
+                return;
+            } catch (Exception e) {
+                // a checked exception thrown undeclared (Spark's serializer does): every waiting fit stops
+                fail(new IllegalStateException(e));
                 return;
             }
             asked.clear();

@@ -2,6 +2,7 @@ package org.forkscape.fit;
 
 import java.io.Serializable;
 import org.forkscape.plan.ErrorType;
+import org.forkscape.plan.ModelFamily;
 
 /**
  * One pass of a generalized linear fit over the rows of a variant held in parts, as the driver asks it of
@@ -37,7 +38,8 @@ public final class GlmPassRequest implements Serializable {
 
     final Kind kind;
     final Rows rows;
-    final GlmFamily family;
+    /** The model by name: its {@link GlmFamily} is one of three shared instances, not sent. */
+    private final ModelFamily model;
     final double[] alpha;
     final double[] beta;
     // MARGINS
@@ -56,7 +58,8 @@ public final class GlmPassRequest implements Serializable {
             double[] levelMean, double[] factor, boolean[] kept) {
         this.kind = kind;
         this.rows = rows;
-        this.family = family;
+        this.model = family == GlmFamily.LOGIT ? ModelFamily.LOGIT : family == GlmFamily.PROBIT ? ModelFamily.PROBIT
+                : ModelFamily.POISSON;
         this.alpha = alpha;
         this.beta = beta;
         this.twoValued = twoValued;
@@ -89,6 +92,10 @@ public final class GlmPassRequest implements Serializable {
             double[] factor, boolean[] kept) {
         return new GlmPassRequest(Kind.MEAT, rows, family, alpha.clone(), beta.clone(), false, along, alongLevels,
                 errorKind, levelWeight, levelMean, factor, kept);
+    }
+
+    GlmFamily family() {
+        return GlmFamily.of(model);
     }
 
     /**

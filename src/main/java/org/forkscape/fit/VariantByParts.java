@@ -474,19 +474,19 @@ public final class VariantByParts {
                 case START -> {
                     double[] sums = new double[r.layout()];
                     double[] outcome = Irls.outcomeSums(rows, new double[2 * levels]);
-                    double[] nulls = GlmLikelihoods.nullSums(rows, r.family, new double[2 * levels + 2]);
+                    double[] nulls = GlmLikelihoods.nullSums(rows, r.family(), new double[2 * levels + 2]);
                     System.arraycopy(outcome, 0, sums, 0, 2 * levels);
                     System.arraycopy(nulls, 0, sums, 2 * levels, 2 * levels + 2);
                     sums[4 * levels + 2] = GeneralizedLinear.otherThanZeroOrOne(rows,
                             coded.recorded[r.rows.columns()[p - 1]]);
                     yield sums;
                 }
-                case EVALUATE -> irls.partSums(rows, r.family, r.alpha, r.beta);
+                case EVALUATE -> irls.partSums(rows, r.family(), r.alpha, r.beta);
                 case MARGINS -> {
-                    irls.partSums(rows, r.family, r.alpha, r.beta);
+                    irls.partSums(rows, r.family(), r.alpha, r.beta);
                     double[] gradientLevels = new double[levels];
                     double[] gradientColumns = new double[p];
-                    double[] sums = GeneralizedLinear.marginSums(rows, irls, r.family,
+                    double[] sums = GeneralizedLinear.marginSums(rows, irls, r.family(),
                             coded.recorded[r.rows.columns()[p - 1]], r.twoValued, r.beta[p - 1], gradientLevels,
                             gradientColumns);
                     double[] all = new double[r.layout()];
@@ -499,7 +499,7 @@ public final class VariantByParts {
                 case MEAT -> {
                     // its own fit: the meat takes the driver's information into the fit's arrays
                     Irls atEstimate = new Irls();
-                    atEstimate.partSums(rows, r.family, r.alpha, r.beta);
+                    atEstimate.partSums(rows, r.family(), r.alpha, r.beta);
                     yield new GlmCovariance().partMeat(atEstimate, rows, r);
                 }
             };

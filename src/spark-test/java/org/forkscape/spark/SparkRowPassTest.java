@@ -126,6 +126,7 @@ class SparkRowPassTest {
         String chick = Files.readString(SparkParityTest.REFERENCE.resolve("chickweight-plan.json"));
         SparkRefusals.check(plan(chick));
         // still refused: multi-way clustering, two absorbed columns, analytic weights, generalized linear models
+        // beside null draws
         InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("[\"classical\", \"HC0\"",
                 "[\"classical\", \"HC0\", \"cluster:Chick+Diet\""))));
         assertEquals("decisions[5].alternatives[2]", e.where());
@@ -138,11 +139,13 @@ class SparkRowPassTest {
                         + "\"column\": \"Time\"}]},\n    {\"name\": \"outcome\""))));
         assertEquals("decisions[0].alternatives[0].column", e.where());
         assertTrue(e.problem().startsWith("analytic weights are not summed on Spark"), e.problem());
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"",
-                "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]},"
-                        + "\n    {\"name\": \"outcome\""))));
+        String poisson = chick.replace("{\"name\": \"outcome\"", "{\"name\": \"model\", \"kind\": \"model\", "
+                + "\"alternatives\": [\"ols\", \"poisson\"]},\n    {\"name\": \"outcome\"");
+        SparkRefusals.check(plan(poisson));
+        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(poisson.replaceFirst("\\{",
+                "{\"nullDraws\": 20, "))));
         assertEquals("decisions[0].alternatives[1]", e.where());
-        assertTrue(e.problem().contains("iterations over the rows"), e.problem());
+        assertTrue(e.problem().contains("beside null draws"), e.problem());
     }
 
     /** Specifications the row passes of a run's variants served. */

@@ -11,9 +11,10 @@ import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
- * with the way out (README, "Beyond one machine", lists them): generalized linear models (iterations over the
- * rows), multi-way clustering, two absorbed columns (their within transformation iterates over the rows) and
- * analytic weights (the parts' statistics are unweighted sums); beside null draws, the permutation.
+ * with the way out (README, "Beyond one machine", lists them): multi-way clustering, two absorbed columns
+ * (their within transformation iterates over the rows) and analytic weights (the parts' statistics are
+ * unweighted sums); beside null draws, the permutation and generalized linear models (each draw would refit
+ * them by iterations over the draw's rows, which {@link org.forkscape.fit.BootstrapByParts} does not make).
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -43,13 +44,13 @@ final class SparkRefusals {
                                 "analytic weights are not summed on Spark (its statistics are unweighted)" + WAY_OUT);
                     }
                 }
-            } else if (d instanceof Decision.Model m) {
+            } else if (d instanceof Decision.Model m && plan.nullDraws() > 0) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
                     ModelFamily f = m.alternatives().get(j);
                     if (!f.leastSquares()) {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
-                                + " is fitted by iterations over the rows, which the Spark runner does not make"
-                                + WAY_OUT);
+                                + " beside null draws is not fitted on Spark (each draw would refit it by iterations "
+                                + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
                     }
                 }
             } else if (d instanceof Decision.Errors e) {

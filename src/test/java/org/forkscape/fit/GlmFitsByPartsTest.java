@@ -68,6 +68,46 @@ class GlmFitsByPartsTest {
         assertTrue(separated > 0, "the school plan has separated specifications (glm/school-expected.csv)");
     }
 
+    /**
+     * The batch changes no bit: every variant of birthwt-smoking fitted from 3 slices with one fit at a
+     * time, with 7 side by side and with up to {@link GlmFitsByParts#MAX_PER_BATCH}, each time on freshly built
+     * variants (no start kept from before); one at a time takes the most rounds.
+     */
+    @org.junit.jupiter.api.Test
+    void theBatchSizeChangesNoBit() {
+        Plan plan = new PlanReader(false).read(ReferenceFiles.path("glm/birthwt-smoking-plan.json"));
+        Table table = new CsvTableReader().read(plan.dataFile());
+        SpecificationModels models = new SpecificationModels(plan, table);
+        org.forkscape.plan.SpecificationSpace space = models.space();
+        java.util.Map<Integer, java.util.List<SpecificationModel>> byVariant = new TreeMap<>();
+        long[] choices = new long[space.decisionCount()];
+        for (long index = 0; index < space.count().longValueExact(); index++) {
+            space.decode(index, choices);
+            byVariant.computeIfAbsent(models.variantOrdinal(choices), v -> new java.util.ArrayList<>())
+                    .add(models.model(choices));
+        }
+        long[] rounds = new long[3];
+        int[] batches = {1, 7, GlmFitsByParts.MAX_PER_BATCH};
+        for (Map.Entry<Integer, java.util.List<SpecificationModel>> e : byVariant.entrySet()) {
+            KeyFit[][] fits = new KeyFit[3][];
+            for (int b = 0; b < 3; b++) {
+                DataVariant variant = VariantByPartsTest.source(plan, table, 3).variant(models.variantKey(e.getKey()),
+                        null);
+                fits[b] = GlmFitsByParts.fit(variant, e.getValue(), batches[b], () -> { }).fits();
+                rounds[b] += variant.glmRounds();
+            }
+            for (int i = 0; i < fits[0].length; i++) {
+                for (int b = 1; b < 3; b++) {
+                    assertEquals(fits[0][i].statusText(), fits[b][i].statusText());
+                    assertEquals(fits[0][i].estimate(), fits[b][i].estimate(), 0.0, "estimate, batches of " + batches[b]);
+                    assertEquals(fits[0][i].stdError(), fits[b][i].stdError(), 0.0, "std_error, batches of " + batches[b]);
+                    assertEquals(fits[0][i].effect(), fits[b][i].effect(), 0.0, "effect, batches of " + batches[b]);
+                }
+            }
+        }
+        assertTrue(rounds[0] > rounds[1] && rounds[1] > rounds[2], java.util.Arrays.toString(rounds) + " rounds");
+    }
+
     /** Every specification on parts against the whole table; returns the run on parts. */
     static RunResult compare(Path planFile, String name, int slices) {
         Plan plan = new PlanReader(false).read(planFile);

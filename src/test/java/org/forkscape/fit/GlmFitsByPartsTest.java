@@ -108,6 +108,37 @@ class GlmFitsByPartsTest {
         assertTrue(rounds[0] > rounds[1] && rounds[1] > rounds[2], java.util.Arrays.toString(rounds) + " rounds");
     }
 
+    /**
+     * Where one machine factors a fit's weighted design by QR (two controls nearly equal, the design of
+     * {@link GlmNearCollinearExactTest}), the run from parts refuses that specification by number, naming
+     * the pass it cannot make, instead of fitting it otherwise; with the controls far apart it fits as the
+     * whole table does.
+     */
+    @org.junit.jupiter.api.Test
+    void aFitThatNeedsTheQrOfItsDesignIsRefusedByNumber() {
+        String json = """
+                {"data": "near.csv", "decisions": [
+                  {"name": "o", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                  {"name": "k", "kind": "predictor", "alternatives": [{"label": "x", "column": "key"}]},
+                  {"name": "c", "kind": "controls", "required": ["first", "second"]},
+                  {"name": "e", "kind": "errors", "alternatives": ["HC1"]},
+                  {"name": "m", "kind": "model", "alternatives": ["logit"]}]}
+                """;
+        Plan plan = new PlanReader(false).read(json, Path.of("."));
+        Table near = GlmNearCollinearExactTest.rows(1e-5, false);
+        org.forkscape.InputException e = org.junit.jupiter.api.Assertions.assertThrows(
+                org.forkscape.InputException.class, () -> runOnParts(plan, near, 3));
+        assertEquals("decisions", e.where());
+        assertTrue(e.problem().startsWith("specification 1 cannot be fitted here: it needs a QR factorisation of its "
+                + "weighted design"), e.problem());
+        Table far = GlmNearCollinearExactTest.rows(1e-1, false);
+        ResultTable whole = new MultiverseRunner(1).run(plan, far, RunProgress.SILENT, new AtomicBoolean()).results();
+        ResultTable parts = runOnParts(plan, far, 3).results();
+        assertEquals("ok", parts.status(0));
+        close(whole.estimate(0), parts.estimate(0), "far apart", "estimate", new TreeMap<>());
+        close(whole.stdError(0), parts.stdError(0), "far apart", "std_error", new TreeMap<>());
+    }
+
     /** Every specification on parts against the whole table; returns the run on parts. */
     static RunResult compare(Path planFile, String name, int slices) {
         Plan plan = new PlanReader(false).read(planFile);

@@ -24,7 +24,10 @@ import java.util.Arrays;
  * stops while a probit's coefficients are still off by 1e-4 of their standard errors. A step that leaves
  * the deviance undefined or larger is halved. Each trial point's one pass over the rows gives its deviance
  * and, speculatively, its information and score, so the next step (and, at the estimate, the covariance)
- * needs no pass of its own. Not thread safe: one per worker thread, buffers reused.
+ * needs no pass of its own. For rows held in parts ({@link GlmRows#fillHeldInParts}) each such pass is
+ * one request to the parts ({@link #evaluateInParts}, each part running {@link #partSums}, the same pass over
+ * its rows) and everything between passes is this class's own code, unchanged. Not thread safe: one per
+ * worker thread, buffers reused.
  */
 final class Irls {
     static final double TOLERANCE = 1e-10;

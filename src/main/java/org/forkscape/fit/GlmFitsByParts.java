@@ -32,8 +32,8 @@ public final class GlmFitsByParts {
     }
 
     /**
-     * What could not be fitted from the parts: the fits, with null where a specification needs a pass over
-     * rows that cannot be made from parts (its reason in {@code unavailable}).
+     * The fits, in the order asked, with null where a specification needs a pass over rows that cannot be
+     * made from parts (its reason at the same place in {@code unavailable}).
      */
     public record Fits(KeyFit[] fits, RowPassUnavailable[] unavailable) {
     }
@@ -64,7 +64,10 @@ public final class GlmFitsByParts {
         return new Fits(fits, unavailable);
     }
 
-    /** A specification's pass requests in bytes, about ({@link GlmPassRequest#bytes}). */
+    /**
+     * About the bytes of a specification's largest pass request (its level offsets, its coefficients, at the
+     * estimate the information's factor and level means), which bound a batch.
+     */
     private static long bytes(DataVariant variant, SpecificationModel model) {
         long p = model.factorOrder().length;
         long levels = variant.levels;

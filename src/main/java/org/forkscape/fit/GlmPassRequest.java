@@ -100,11 +100,12 @@ public final class GlmPassRequest implements Serializable {
 
     /**
      * The length of this pass's sums: START 4 L + 3 ({@link Irls#outcomeSums}, then
-     * {@link GlmLikelihoods#nullSums}, then the key values other than 0 and 1), EVALUATE 2 + 2 L + L p + p^2 + p (deviance,
-     * rows at the boundary, per level the weight, the score, the weighted column sums; the cross-products,
-     * the columns' score), MARGINS 2 + L + p (the effect's sum, the rows, the gradient over levels and
-     * columns), MEAT m without clusters (one meat per combination), m G + G with them (each combination's
-     * score sum per cluster, then per cluster its rows): L levels, p columns, m combinations, G clusters.
+     * {@link GlmLikelihoods#nullSums}, then the key values other than 0 and 1), EVALUATE
+     * 2 + 2 L + L p + p^2 + p (deviance, rows at the boundary, per level the weight, the score, the weighted
+     * column sums; the cross-products, the columns' score), MARGINS 2 + L + p (the effect's sum, the rows'
+     * weight, the gradient over levels and columns), MEAT m without clusters (one meat per combination),
+     * m G + G with them (each combination's score sum per cluster, then per cluster the parts holding rows
+     * of it, so that a cluster seen anywhere counts): L levels, p columns, m combinations, G clusters.
      */
     int layout() {
         int l = rows.levels;
@@ -115,17 +116,5 @@ public final class GlmPassRequest implements Serializable {
             case MARGINS -> 2 + l + p;
             case MEAT -> rows.clusterColumn == null ? along.length : (along.length + 1) * rows.clusterCount;
         };
-    }
-
-    /** Approximate size when serialized, in bytes: what a round of passes is bounded by. */
-    long bytes() {
-        long p = rows.columns.length;
-        long l = rows.levels;
-        long size = 128 + 8L * rows.usableMasks.length + (long) rows.offsets.length * (16 + 8 * p)
-                + 4L * rows.compactLevel.length + 8 * (l + p);
-        if (kind == Kind.MEAT) {
-            size += 8 * (along.length * (p + l) + l + l * p + p * p) + p;
-        }
-        return size;
     }
 }

@@ -226,8 +226,9 @@ public final class GlmFitsByParts {
             } catch (RuntimeException e) {
                 fail(e);
                 return;
-            } catch (Exception e) {
-                // a checked exception thrown undeclared (Spark's serializer does): every waiting fit stops
+            } catch (Exception | Error e) {
+                // a checked exception thrown undeclared (Spark's serializer does), or an error: every waiting
+                // fit stops, so that none waits for a round that will not come
                 fail(new IllegalStateException(e));
                 return;
             }

@@ -139,6 +139,44 @@ class GlmFitsByPartsTest {
         close(whole.stdError(0), parts.stdError(0), "far apart", "std_error", new TreeMap<>());
     }
 
+    /**
+     * A cancel that arrives during a round stops every fit of the batch before the next round (none left
+     * waiting), and a round that fails stops the run with its exception.
+     */
+    @org.junit.jupiter.api.Test
+    void aCancelOrAFailedRoundStopsEveryFitOfTheBatch() {
+        Plan plan = new PlanReader(false).read(ReferenceFiles.path("glm/birthwt-smoking-plan.json"));
+        Table table = new CsvTableReader().read(plan.dataFile());
+        VariantSource built = VariantByPartsTest.source(plan, table, 3);
+        AtomicBoolean cancel = new AtomicBoolean();
+        java.util.concurrent.atomic.AtomicLong rounds = new java.util.concurrent.atomic.AtomicLong();
+        VariantSource cancelling = (key, pool) -> {
+            DataVariant v = built.variant(key, pool);
+            DataVariant.GlmPassReduction parts = v.glmPassReduction;
+            // the cancel arrives while the first round is made
+            v.glmPassReduction = batch -> {
+                rounds.incrementAndGet();
+                cancel.set(true);
+                return parts.sums(batch);
+            };
+            return v;
+        };
+        org.junit.jupiter.api.Assertions.assertThrows(org.forkscape.run.RunCancelledException.class,
+                () -> new MultiverseRunner(2).withVariants(cancelling).run(plan, table, RunProgress.SILENT, cancel));
+        assertEquals(1, rounds.get(), "rounds made after the cancel");
+        VariantSource failing = (key, pool) -> {
+            DataVariant v = built.variant(key, pool);
+            v.glmPassReduction = batch -> {
+                throw new IllegalStateException("a part was lost");
+            };
+            return v;
+        };
+        IllegalStateException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalStateException.class,
+                () -> new MultiverseRunner(2).withVariants(failing).run(plan, table, RunProgress.SILENT,
+                        new AtomicBoolean()));
+        assertEquals("a part was lost", e.getMessage());
+    }
+
     /** Every specification on parts against the whole table; returns the run on parts. */
     static RunResult compare(Path planFile, String name, int slices) {
         Plan plan = new PlanReader(false).read(planFile);

@@ -76,6 +76,15 @@ public final class DataVariant {
     volatile ClusterScoreReduction clusterScoreReduction;
     /** The passes over the parts' rows made for cluster scores of this variant's specifications. */
     final java.util.concurrent.atomic.AtomicLong clusterScorePasses = new java.util.concurrent.atomic.AtomicLong();
+    /**
+     * For a variant built from parts: the passes of generalized linear fits over the parts' rows, a batch
+     * of {@link GlmPassRequest}s in one pass ({@link GlmFitsByParts}); null for a variant that holds its rows.
+     */
+    volatile GlmPassReduction glmPassReduction;
+    /** The rounds of passes {@link GlmFitsByParts} made over the parts for this variant, the passes they held, the fits. */
+    final java.util.concurrent.atomic.AtomicLong glmRounds = new java.util.concurrent.atomic.AtomicLong();
+    final java.util.concurrent.atomic.AtomicLong glmPasses = new java.util.concurrent.atomic.AtomicLong();
+    final java.util.concurrent.atomic.AtomicLong glmFitsServed = new java.util.concurrent.atomic.AtomicLong();
     /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
     final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
@@ -165,6 +174,26 @@ public final class DataVariant {
     /** How many passes over the parts' rows made cluster scores for this variant ({@link ClusterScoresByParts}). */
     public long clusterScorePasses() {
         return clusterScorePasses.get();
+    }
+
+    /** Every part's sums of each pass of the batch, merged pass by pass in part order. */
+    interface GlmPassReduction {
+        double[][] sums(GlmPassRequest[] batch);
+    }
+
+    /** The rounds of passes over the parts made for this variant's generalized linear fits ({@link GlmFitsByParts}). */
+    public long glmRounds() {
+        return glmRounds.get();
+    }
+
+    /** The passes those rounds held (a round holds one pass of each fit under way). */
+    public long glmPasses() {
+        return glmPasses.get();
+    }
+
+    /** The specifications of this variant fitted by those passes. */
+    public long glmFitsServed() {
+        return glmFitsServed.get();
     }
 
     /** How many passes over the parts' rows served this variant's sandwiches ({@link RowPassesByParts}). */

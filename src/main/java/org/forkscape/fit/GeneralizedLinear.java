@@ -54,17 +54,11 @@ public final class GeneralizedLinear implements Estimator {
         DataVariant variant = data.variant();
         Moments mom = data.moments(spec.variableMask());
         ModelFamily family = spec.family();
-        int n = mom.n;
         int[] cols = spec.factorOrder();
-        int base = variant.absorbs ? mom.levelsPresent : 1;
-        if (n <= base) {
-            return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on "
-                    + "this specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
-                    base + cols.length);
-        }
         int y = spec.outcomeColumn();
-        if (!(mom.totalSquares[y] > 0)) {
-            return KeyFit.failed(family, FitStatus.CONSTANT_OUTCOME, "", n, base + cols.length);
+        KeyFit unfitted = withoutFit(spec, variant, mom);
+        if (unfitted != null) {
+            return unfitted;
         }
         GlmStarts.Start start = data.observed()
                 ? startOf(new GlmStarts.Key(family, y, mom, cols), data, mom, spec.errors())
@@ -75,6 +69,56 @@ public final class GeneralizedLinear implements Estimator {
             variant.glmStarts.put(key, startFor(key, mom, start));
         }
         return report(spec, mom, family, data.observed());
+    }
+
+    /** The failed fit of a specification whose rows decide it without iterations, or null. */
+    private static KeyFit withoutFit(SpecificationModel spec, DataVariant variant, Moments mom) {
+        ModelFamily family = spec.family();
+        int n = mom.n;
+        int p = spec.factorOrder().length;
+        int base = variant.absorbs ? mom.levelsPresent : 1;
+        if (n <= base) {
+            return KeyFit.failed(family, FitStatus.TOO_FEW_ROWS, n + " row" + (n == 1 ? "" : "s") + " complete on "
+                    + "this specification's variables" + (variant.weight != null ? " with positive weight" : ""), n,
+                    base + p);
+        }
+        if (!(mom.totalSquares[spec.outcomeColumn()] > 0)) {
+            return KeyFit.failed(family, FitStatus.CONSTANT_OUTCOME, "", n, base + p);
+        }
+        return null;
+    }
+
+    /**
+     * The starts that {@link #fit} of {@code spec} on the observed {@code data} would fit first, because no
+     * fit has kept them yet: its ancestors from the nearest kept one (exclusive) to its parent, farthest
+     * first ({@link GlmStarts}); empty when the specification needs no iterations.
+     */
+    static java.util.List<GlmStarts.Key> missingStarts(SpecificationModel spec, FitData data) {
+        Moments mom = data.moments(spec.variableMask());
+        if (withoutFit(spec, data.variant(), mom) != null) {
+            return java.util.List.of();
+        }
+        java.util.LinkedList<GlmStarts.Key> missing = new java.util.LinkedList<>();
+        GlmStarts.Key parent = new GlmStarts.Key(spec.family(), spec.outcomeColumn(), mom, spec.factorOrder()).parent();
+        while (parent != null && data.variant().glmStarts.get(parent) == null) {
+            missing.addFirst(parent);
+            parent = parent.parent();
+        }
+        return missing;
+    }
+
+    /**
+     * Fits the start {@code key}, whose parent's start is kept (or which has no parent), and keeps it: one
+     * step of {@link #startOf}'s walk, for a variant held in parts whose starts are fitted a generation of
+     * the tree at a time ({@link GlmFitsByParts}).
+     */
+    void fitStart(GlmStarts.Key key, FitData data, ErrorType errors) {
+        if (data.variant().glmStarts.get(key) != null) {
+            return;
+        }
+        GlmStarts.Start parent = key.parent() == null ? null : data.variant().glmStarts.get(key.parent());
+        fitRows(key, data, key.rows(), errors, parent);
+        data.variant().glmStarts.put(key, startFor(key, key.rows(), parent));
     }
 
     /** Every coefficient, from the state of the fit just made ({@link GlmFullFit}). */
@@ -157,7 +201,7 @@ public final class GeneralizedLinear implements Estimator {
         if (start != null && GlmStarts.apply(start, rows, key.columns(), mom, startAlpha, startBeta)) {
             // the parent's information, when the start is the parent's own estimate on these rows
             boolean parent = reuseInformation && start.information() != null && start.rows() == mom
-                    && start.beta().length == rows.p - 1;
+                    && start.beta().length == rows.p - 1 && rows.heldInParts == null;
             irls.fit(rows, family, startAlpha, startBeta, spanned, parent ? start.information() : null);
         } else {
             irls.fit(rows, family, null, null, spanned);
@@ -257,11 +301,41 @@ public final class GeneralizedLinear implements Estimator {
      */
     private double marginalEffect(GlmFamily f, int keyColumn, Moments mom, double[] levelGradient,
             double[] columnGradient, double b) {
+        int p = rows.p;
+        boolean twoValued = twoValued(mom, keyColumn);
+        double[] sums;
+        if (rows.heldInParts != null) {
+            sums = rows.passes.sums(GlmPassRequest.margins(rows.heldInParts, f, java.util.Arrays.copyOf(irls.alpha,
+                    rows.levels), java.util.Arrays.copyOf(irls.beta, p), twoValued));
+            System.arraycopy(sums, 2, levelGradient, 0, rows.levels);
+            System.arraycopy(sums, 2 + rows.levels, columnGradient, 0, p);
+        } else {
+            sums = marginSums(rows, irls, f, mom.variant.coded.recorded[keyColumn], twoValued, b, levelGradient,
+                    columnGradient);
+        }
+        double sum = sums[0];
+        double total = sums[1];
+        for (int l = 0; l < rows.levels; l++) {
+            levelGradient[l] /= total;
+        }
+        for (int j = 0; j < p; j++) {
+            columnGradient[j] = irls.kept[j] ? columnGradient[j] / total : 0;
+        }
+        return twoValued ? sum / total : b * sum / total;
+    }
+
+    /**
+     * The average marginal effect's sums over {@code rows} at the fit {@code irls} (its linear predictors and
+     * means for these rows): returns {the effect's sum, the rows' weight} and adds each row's gradient terms
+     * into {@code levelGradient} and {@code columnGradient}; every sum adds over parts of the rows.
+     *
+     * @param recorded the key predictor as recorded, by {@link GlmRows#source} row
+     */
+    static double[] marginSums(GlmRows rows, Irls irls, GlmFamily f, double[] recorded, boolean twoValued, double b,
+            double[] levelGradient, double[] columnGradient) {
         int n = rows.n;
         int p = rows.p;
         int key = p - 1;
-        double[] recorded = mom.variant.coded.recorded[keyColumn];
-        boolean twoValued = twoValued(mom, keyColumn, recorded);
         double sum = 0;
         double[] x = rows.x;
         double[] prior = rows.prior;
@@ -299,13 +373,7 @@ public final class GeneralizedLinear implements Estimator {
                 columnGradient[key] += slope;
             }
         }
-        for (int l = 0; l < rows.levels; l++) {
-            levelGradient[l] /= total;
-        }
-        for (int j = 0; j < p; j++) {
-            columnGradient[j] = irls.kept[j] ? columnGradient[j] / total : 0;
-        }
-        return twoValued ? sum / total : b * sum / total;
+        return new double[] {sum, total};
     }
 
     /**
@@ -323,19 +391,30 @@ public final class GeneralizedLinear implements Estimator {
         return nullModel;
     }
 
-    /** Whether the key predictor is recorded as 0 and 1 alone in these rows (observed data; kept from the last call). */
-    private boolean twoValued(Moments mom, int keyColumn, double[] recorded) {
-        if (mom != twoValuedRows || keyColumn != twoValuedColumn) {
-            boolean only = true;
-            for (int i = 0; i < rows.n && only; i++) {
-                double x = recorded[rows.source[i]];
-                only = x == 0 || x == 1;
-            }
-            twoValued = only;
-            twoValuedRows = mom;
+    /**
+     * Whether the key predictor is recorded as 0 and 1 alone in these rows (observed data; kept from the last
+     * call); for rows held in parts, from their START pass.
+     */
+    private boolean twoValued(Moments mom, int keyColumn) {
+        if (mom != twoValuedRows || keyColumn != twoValuedColumn || rows.heldInParts != null) {
+            twoValued = rows.heldInParts != null ? rows.startSums(irls.family)[4 * rows.levels + 2] == 0
+                    : otherThanZeroOrOne(rows, mom.variant.coded.recorded[keyColumn]) == 0;
+            twoValuedRows = rows.heldInParts != null ? null : mom;
             twoValuedColumn = keyColumn;
         }
         return twoValued;
+    }
+
+    /** The rows whose key value ({@code recorded} by {@link GlmRows#source} row) is neither 0 nor 1; adds over parts. */
+    static int otherThanZeroOrOne(GlmRows rows, double[] recorded) {
+        int count = 0;
+        for (int i = 0; i < rows.n; i++) {
+            double x = recorded[rows.source[i]];
+            if (!(x == 0 || x == 1)) {
+                count++;
+            }
+        }
+        return count;
     }
 
     private static FitStatus keyStatus(Moments mom, int keyColumn) {

@@ -89,10 +89,15 @@ final class GlmCovariance {
             return out;
         }
         int k = levels + fit.keptCount;
-        boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
         boolean cluster = kind == ErrorType.Kind.CLUSTER;
         List<ClusterComponents.Component> components = cluster ? ClusterComponents.of(errors) : List.of();
         int parts = components.size();
+        if (rows.heldInParts != null) {
+            if (!meatFromParts(fit, errors, count)) {
+                return null;
+            }
+            return cluster ? clustered(errors, components, n, k, count, out) : hcFactor(kind, n, k, count, out);
+        }
         int[][] codes = new int[parts][];
         if (cluster) {
             growClusters(parts, n, count);
@@ -111,6 +116,34 @@ final class GlmCovariance {
                 clearCells(c, size, count);
             }
         }
+        if (!meatSums(fit, rows, kind, count, cluster, codes, parts)) {
+            failureDetail = errors.label();
+            return null;
+        }
+        if (cluster) {
+            return clustered(errors, components, n, k, count, out);
+        }
+        return hcFactor(kind, n, k, count, out);
+    }
+
+    private double[] hcFactor(ErrorType.Kind kind, int n, int k, int count, double[] out) {
+        double factor = kind == ErrorType.Kind.HC1 ? n / (double) (n - k) : 1;
+        for (int m = 0; m < count; m++) {
+            out[m] = meat[m] * factor;
+        }
+        return out;
+    }
+
+    /**
+     * The meat's row sums over {@code rows} at the fit {@code fit} (its scores and weights for these rows,
+     * its information at the estimate): into {@link #meat}, or per cluster into {@link #clusterSums} and
+     * {@link #clusterSeen} (cleared by the caller). False, with {@link #failure} set, at a leverage of 1.
+     */
+    private boolean meatSums(Irls fit, GlmRows rows, ErrorType.Kind kind, int count, boolean cluster, int[][] codes,
+            int parts) {
+        int n = rows.n;
+        int p = rows.p;
+        boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
         java.util.Arrays.fill(meat, 0, count, 0);
         double[] x = rows.x;
         for (int i = 0, at = 0; i < n; i++, at += p) {
@@ -121,8 +154,7 @@ final class GlmCovariance {
                 double h = fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit, x, at, l, p));
                 if (!(h < 1 - 1e-10)) {
                     failure = FitStatus.LEVERAGE_ONE;
-                    failureDetail = errors.label();
-                    return null;
+                    return false;
                 }
                 omega = kind == ErrorType.Kind.HC2 ? 1 / (1 - h) : 1 / ((1 - h) * (1 - h));
             }
@@ -171,12 +203,94 @@ final class GlmCovariance {
                 }
             }
         }
-        if (cluster) {
-            return clustered(errors, components, n, k, count, out);
+        return true;
+    }
+
+    /**
+     * The meat of rows held in parts: every part's {@link #partMeat} at the estimate, merged in part order,
+     * read into {@link #meat} or the one-way cluster sums as {@link #meatSums} leaves them for rows held here
+     * (a part's leverage of 1 is NaN in its sums, and stays NaN through the additions). Multi-way sums are not
+     * made from parts. False, with {@link #failure} set, at a leverage of 1.
+     */
+    private boolean meatFromParts(Irls fit, ErrorType errors, int count) {
+        GlmRows rows = fit.rows;
+        if (errors.multiway()) {
+            throw new RowPassUnavailable("the multi-way cluster sums of " + errors.label());
         }
-        double factor = kind == ErrorType.Kind.HC1 ? n / (double) (n - k) : 1;
+        int p = rows.p;
+        int levels = rows.levels;
+        double[][] combinations = new double[count][];
+        double[][] combinationLevels = new double[count][];
         for (int m = 0; m < count; m++) {
-            out[m] = meat[m] * factor;
+            combinations[m] = java.util.Arrays.copyOf(along[m], p);
+            combinationLevels[m] = java.util.Arrays.copyOf(alongLevels[m], levels);
+        }
+        double[] s = rows.passes.sums(GlmPassRequest.meat(rows.heldInParts, fit.family,
+                java.util.Arrays.copyOf(fit.alpha, levels), java.util.Arrays.copyOf(fit.beta, p), combinations,
+                combinationLevels, errors.kind(), java.util.Arrays.copyOf(fit.levelWeight, levels),
+                java.util.Arrays.copyOf(fit.levelMean, levels * p), java.util.Arrays.copyOf(fit.factor, p * p),
+                java.util.Arrays.copyOf(fit.kept, p)));
+        if (errors.kind() != ErrorType.Kind.CLUSTER) {
+            for (int m = 0; m < count; m++) {
+                if (Double.isNaN(s[m])) {
+                    failure = FitStatus.LEVERAGE_ONE;
+                    failureDetail = errors.label();
+                    return false;
+                }
+                meat[m] = s[m];
+            }
+            return true;
+        }
+        int g = rows.heldInParts.clusterCount();
+        growClusters(1, 0, count);
+        clearCells(0, g, count);
+        for (int m = 0; m < count; m++) {
+            System.arraycopy(s, m * g, clusterSums[0][m], 0, g);
+        }
+        for (int code = 0; code < g; code++) {
+            clusterSeen[0][code] = s[count * g + code] > 0;
+        }
+        return true;
+    }
+
+    /**
+     * One part's meat of request {@code r} over {@code part} (its share of the rows, {@link GlmRows#fillPart}):
+     * {@code fit} holds the part's scores and weights at the estimate ({@link Irls#partSums}); the
+     * combinations and the information at the estimate are the driver's. In the layout of
+     * {@link GlmPassRequest#layout}; a leverage of 1 makes every meat NaN.
+     */
+    double[] partMeat(Irls fit, GlmRows part, GlmPassRequest r) {
+        int count = r.along.length;
+        grow(count, part.p, part.levels);
+        for (int m = 0; m < count; m++) {
+            System.arraycopy(r.along[m], 0, along[m], 0, part.p);
+            System.arraycopy(r.alongLevels[m], 0, alongLevels[m], 0, part.levels);
+        }
+        fit.levelWeight = r.levelWeight;
+        fit.levelMean = r.levelMean;
+        fit.factor = r.factor;
+        fit.kept = r.kept;
+        boolean cluster = r.errorKind == ErrorType.Kind.CLUSTER;
+        int g = r.rows.clusterCount();
+        int[][] codes = null;
+        if (cluster) {
+            growClusters(1, part.n, count);
+            codes = new int[][] {part.cluster};
+            clearCells(0, g, count);
+        }
+        boolean defined = meatSums(fit, part, r.errorKind, count, cluster, codes, cluster ? 1 : 0);
+        double[] out = new double[r.layout()];
+        if (!cluster) {
+            for (int m = 0; m < count; m++) {
+                out[m] = defined ? meat[m] : Double.NaN;
+            }
+            return out;
+        }
+        for (int m = 0; m < count; m++) {
+            System.arraycopy(clusterSums[0][m], 0, out, m * g, g);
+        }
+        for (int code = 0; code < g; code++) {
+            out[count * g + code] = clusterSeen[0][code] ? 1 : 0;
         }
         return out;
     }

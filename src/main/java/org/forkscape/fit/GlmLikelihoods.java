@@ -30,36 +30,52 @@ record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
     }
 
     static NullModel nullModel(GlmRows rows, GlmFamily family) {
+        int levels = rows.levels;
+        if (rows.heldInParts != null) {
+            return nullModel(java.util.Arrays.copyOfRange(rows.startSums(family), 2 * levels, 4 * levels + 2), levels,
+                    family);
+        }
+        return nullModel(nullSums(rows, family, new double[2 * levels + 2]), levels, family);
+    }
+
+    /**
+     * Into {@code out}, the sums the null model needs, which add over parts of the rows: per level the
+     * (weighted) outcome's sum, then per level the weight, then for counts the weighted sums of y log y
+     * and of the saturated log-likelihood's terms. Returns out.
+     */
+    static double[] nullSums(GlmRows rows, GlmFamily family, double[] out) {
         int n = rows.n;
         int levels = rows.levels;
-        double[] sum = new double[levels];
-        double[] count = new double[levels];
         boolean counts = family == GlmFamily.POISSON;
-        double saturated = 0;
-        double yLogY = 0;
         double[] prior = rows.prior;
         for (int i = 0; i < n; i++) {
             // with prior weights every sum is weighted (each level's null mean is its weighted mean)
             double w = prior == null ? 1 : prior[i];
             double y = rows.y[i];
-            sum[rows.level[i]] += w * y;
-            count[rows.level[i]] += w;
+            out[rows.level[i]] += w * y;
+            out[levels + rows.level[i]] += w;
             if (counts && y > 0) {
                 double l = y * Math.log(y);
-                yLogY += w * l;
-                saturated += w * (l - y - Gamma.logGamma(y + 1));
+                out[2 * levels] += w * l;
+                out[2 * levels + 1] += w * (l - y - Gamma.logGamma(y + 1));
             }
         }
-        double nullDeviance = counts ? 2 * yLogY : 0;
+        return out;
+    }
+
+    private static NullModel nullModel(double[] sums, int levels, GlmFamily family) {
+        boolean counts = family == GlmFamily.POISSON;
+        double nullDeviance = counts ? 2 * sums[2 * levels] : 0;
         for (int l = 0; l < levels; l++) {
-            double s = sum[l];
-            double m = s / count[l];
+            double s = sums[l];
+            double count = sums[levels + l];
+            double m = s / count;
             if (counts) {
                 nullDeviance -= s > 0 ? 2 * s * Math.log(m) : 0;
             } else {
-                nullDeviance -= 2 * ((s > 0 ? s * Math.log(m) : 0) + (count[l] - s > 0 ? (count[l] - s) * Math.log1p(-m) : 0));
+                nullDeviance -= 2 * ((s > 0 ? s * Math.log(m) : 0) + (count - s > 0 ? (count - s) * Math.log1p(-m) : 0));
             }
         }
-        return new NullModel(saturated, nullDeviance);
+        return new NullModel(sums[2 * levels + 1], nullDeviance);
     }
 }

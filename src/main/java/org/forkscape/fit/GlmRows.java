@@ -43,6 +43,20 @@ final class GlmRows {
     private Moments filledRows;
     private double[] filledOutcome;
     private int[] filledClusters;
+    /**
+     * For rows held in parts ({@link #fillHeldInParts}): what every pass over them is told, and where the passes
+     * are made; then the per-row arrays are empty and every pass over the rows is one of {@link #passes}.
+     * Null for rows held here.
+     */
+    GlmPassRequest.Rows heldInParts;
+    GlmPasses passes;
+    /** The START pass's sums of rows held in parts, once asked ({@link #startSums}). */
+    private double[] startSums;
+
+    /** Where the passes over rows held in parts are made: every part's sums of one request, merged. */
+    interface GlmPasses {
+        double[] sums(GlmPassRequest request);
+    }
 
     /**
      * Copies {@code rows} (the specification's rows in within coordinates), replacing their centred outcome
@@ -54,6 +68,7 @@ final class GlmRows {
      */
     void fill(DesignRows rows, double[] recordedOutcome, int variantLevels) {
         filledRows = null;
+        heldInParts = null;
         grow(rows.n, rows.p);
         variantClusters = null;
         drawClusters = null;
@@ -88,6 +103,7 @@ final class GlmRows {
         // the same rows, outcome and clusters as the last fill (a specification after its sibling): only the
         // columns are new
         boolean rowsAsBefore = mom == filledRows && recordedOutcome == filledOutcome && clusterCodes == filledClusters;
+        heldInParts = null;
         grow(mom.n, cols.length);
         variantClusters = v.clusters;
         drawClusters = null;
@@ -117,6 +133,92 @@ final class GlmRows {
                 prior[k] = v.weight[r];
             }
         }
+    }
+
+    /**
+     * The rows of {@code mom} (a variant held in parts, its statistics summed on the driver) as the driver
+     * sees them: their count, columns {@code cols} (key last) and levels, each level of the variant that the
+     * rows hold numbered in ascending order, and what a part needs to gather its share of them; no per-row
+     * arrays. Every pass over them is then made by {@code passes}.
+     *
+     * @param clusterColumn the error type's cluster column, or null
+     */
+    void fillHeldInParts(Moments mom, int[] cols, int y, String clusterColumn, GlmPasses passes) {
+        DataVariant v = mom.variant;
+        filledRows = null;
+        variantClusters = null;
+        drawClusters = null;
+        prior = null;
+        startSums = null;
+        n = mom.n;
+        p = cols.length;
+        int[] compact = startLevels(v.levels);
+        for (int l = 0; l < v.levels; l++) {
+            if (mom.levelCount[l] > 0) {
+                compactLevel(compact, l);
+            }
+        }
+        double[][] offsets = new double[v.levels][p];
+        for (int l = 0; l < v.levels; l++) {
+            for (int j = 0; j < p; j++) {
+                offsets[l][j] = mom.levelMeanOffset[l][cols[j]];
+            }
+        }
+        long[] masks = mom.usableGroups.stream().mapToLong(g -> v.groupMissing[g]).sorted().toArray();
+        int clusters = clusterColumn == null ? 0 : v.clusterCounts.get(clusterColumn);
+        heldInParts = new GlmPassRequest.Rows(masks, cols.clone(), y, offsets, compact, levels, clusterColumn,
+                clusters);
+        this.passes = passes;
+    }
+
+    /**
+     * One part's share of the rows of {@code r} ({@link #fillHeldInParts} on the driver): its rows among
+     * the usable missing patterns, in part order, the columns in within coordinates by the driver's level
+     * offsets, each row's level numbered as the driver numbers it, by the same expressions as
+     * {@link #fill(Moments, int[], double[], int[])}.
+     */
+    void fillPart(CodedRows coded, GlmPassRequest.Rows r) {
+        filledRows = null;
+        heldInParts = null;
+        variantClusters = null;
+        drawClusters = null;
+        int count = 0;
+        int[] usable = new int[coded.rows];
+        for (int row = 0; row < coded.rows; row++) {
+            if (Arrays.binarySearch(r.usableMasks(), coded.groupMissing[coded.group[row]]) >= 0) {
+                usable[count++] = row;
+            }
+        }
+        int[] cols = r.columns();
+        grow(count, cols.length);
+        prior = coded.weight == null ? null : priorBuffer;
+        levels = r.levels();
+        double[] recordedOutcome = coded.recorded[r.outcome()];
+        int[] codes = r.clusterColumn() == null ? null : coded.clusters.get(r.clusterColumn());
+        double[][] offsets = r.offsets();
+        for (int k = 0; k < n; k++) {
+            int row = usable[k];
+            int l = coded.level[row];
+            double[] off = offsets[l];
+            for (int j = 0, at = k * p; j < p; j++) {
+                x[at + j] = coded.shifted[cols[j]][row] - off[j];
+            }
+            level[k] = r.compactLevel()[l];
+            source[k] = row;
+            y[k] = recordedOutcome[row];
+            cluster[k] = codes == null ? 0 : codes[row];
+            if (prior != null) {
+                prior[k] = coded.weight[row];
+            }
+        }
+    }
+
+    /** The START pass's sums of rows held in parts ({@link GlmPassRequest.Kind#START}), made once per fill. */
+    double[] startSums(GlmFamily family) {
+        if (startSums == null) {
+            startSums = passes.sums(GlmPassRequest.start(heldInParts, family));
+        }
+        return startSums;
     }
 
     /** The columns of {@link #fill(Moments, int[], double[], int[])}, row by row in within coordinates. */

@@ -24,7 +24,10 @@ import java.util.Arrays;
  * stops while a probit's coefficients are still off by 1e-4 of their standard errors. A step that leaves
  * the deviance undefined or larger is halved. Each trial point's one pass over the rows gives its deviance
  * and, speculatively, its information and score, so the next step (and, at the estimate, the covariance)
- * needs no pass of its own. Not thread safe: one per worker thread, buffers reused.
+ * needs no pass of its own. For rows held in parts ({@link GlmRows#fillHeldInParts}) each such pass is
+ * one request to the parts ({@link #evaluateInParts}, each part running {@link #partSums}, the same pass over
+ * its rows) and everything between passes is this class's own code, unchanged. Not thread safe: one per
+ * worker thread, buffers reused.
  */
 final class Irls {
     static final double TOLERANCE = 1e-10;
@@ -138,7 +141,9 @@ final class Irls {
         int n = rows.n;
         int p = rows.p;
         int levels = rows.levels;
-        grow(n, p, levels);
+        boolean inParts = rows.heldInParts != null;
+        // rows held in parts keep no per-row arrays here: every pass over them is made where they are
+        grow(inParts ? 0 : n, p, levels);
         if (startAlpha == null) {
             coldStart(rows, family);
         } else {
@@ -153,8 +158,9 @@ final class Irls {
             }
         }
         orthogonal = false;
-        extended = parent != null;
-        deviance = parent == null ? evaluate(alpha, beta, eta, mu) : extend(parent);
+        extended = parent != null && !inParts;
+        deviance = !extended ? evaluate(alpha, beta, eta, mu) : extend(parent);
+        int boundaryHere = boundaryOfLastPass;
         boolean decided = false;
         outcome = Outcome.NOT_CONVERGED;
         for (iterations = 1; iterations <= maxIterations; iterations++) {
@@ -192,6 +198,7 @@ final class Irls {
             mu = trialMu;
             trialMu = swap;
             deviance = trial;
+            boundaryHere = boundaryOfLastPass;
             double enough = family == GlmFamily.PROBIT ? SCORING_DECREMENT : CANONICAL_DECREMENT;
             if (Math.abs(trial - before) / (Math.abs(trial) + 0.1) < TOLERANCE && decrement < enough) {
                 outcome = Outcome.CONVERGED;
@@ -201,12 +208,7 @@ final class Irls {
         if (outcome == Outcome.NOT_CONVERGED) {
             iterations = maxIterations;
         }
-        boundaryRows = 0;
-        for (int i = 0; i < n; i++) {
-            if (family.atBoundary(mu[i]) && (family != GlmFamily.POISSON || rows.y[i] == 0)) {
-                boundaryRows++;
-            }
-        }
+        boundaryRows = inParts ? boundaryHere : countBoundary(mu);
         if (boundaryRows > 0) {
             outcome = Outcome.SEPARATION;
             return;
@@ -219,19 +221,38 @@ final class Irls {
         }
     }
 
-    /** Levels at the link of their starting mean ({@link GlmFamily#startingMean}), columns at 0. */
+    /** The rows whose fitted mean {@code means} is at the boundary: separation (for Poisson, rows with outcome 0). */
+    private int countBoundary(double[] means) {
+        int count = 0;
+        for (int i = 0; i < rows.n; i++) {
+            if (family.atBoundary(means[i]) && (family != GlmFamily.POISSON || rows.y[i] == 0)) {
+                count++;
+            }
+        }
+        return count;
+    }
+
+    /**
+     * Levels at the link of their starting mean ({@link GlmFamily#startingMean}), columns at 0; for rows held
+     * in parts from their START pass's level sums ({@link #outcomeSums}, summed where the rows are).
+     */
     private void coldStart(GlmRows rows, GlmFamily family) {
         int levels = rows.levels;
-        double[] sum = new double[levels];
-        int[] count = new int[levels];
-        for (int i = 0; i < rows.n; i++) {
-            sum[rows.level[i]] += rows.y[i];
-            count[rows.level[i]]++;
-        }
+        double[] sums = rows.heldInParts != null ? rows.startSums(family) : outcomeSums(rows, new double[2 * levels]);
         for (int l = 0; l < levels; l++) {
-            alpha[l] = family.link(family.startingMean(sum[l], count[l]));
+            alpha[l] = family.link(family.startingMean(sums[l], (int) sums[levels + l]));
         }
         Arrays.fill(beta, 0, rows.p, 0);
+    }
+
+    /** Into {@code out}: per level the outcome's sum, then per level the rows (unweighted). Returns out. */
+    static double[] outcomeSums(GlmRows rows, double[] out) {
+        int levels = rows.levels;
+        for (int i = 0; i < rows.n; i++) {
+            out[rows.level[i]] += rows.y[i];
+            out[levels + rows.level[i]]++;
+        }
+        return out;
     }
 
     /** Rows per chunk of the pass, so that a chunk's rows stay in cache between its steps. */
@@ -248,6 +269,67 @@ final class Irls {
      * @return the deviance
      */
     private double evaluate(double[] a, double[] b, double[] etaOut, double[] muOut) {
+        if (rows.heldInParts != null) {
+            return evaluateInParts(a, b);
+        }
+        double d = sums(a, b, etaOut, muOut);
+        boundaryOfLastPass = -1;
+        removeLevelMeans();
+        return d;
+    }
+
+    /** The rows at the boundary at the point of the last pass over rows held in parts ({@link #evaluateInParts}). */
+    private int boundaryOfLastPass = -1;
+
+    /**
+     * {@link #evaluate} for rows held in parts: every part sums, at the point given, what {@link #sums}
+     * sums over its rows ({@link #partSums}), the parts merged in part order; the levels' parts removed
+     * here, as for rows held here.
+     */
+    private double evaluateInParts(double[] a, double[] b) {
+        int p = rows.p;
+        int levels = rows.levels;
+        double[] s = rows.passes.sums(GlmPassRequest.evaluate(rows.heldInParts, family, Arrays.copyOf(a, levels),
+                Arrays.copyOf(b, p)));
+        boundaryOfLastPass = (int) s[1];
+        int at = 2;
+        System.arraycopy(s, at, levelWeight, 0, levels);
+        System.arraycopy(s, at += levels, levelScore, 0, levels);
+        System.arraycopy(s, at += levels, levelMean, 0, levels * p);
+        System.arraycopy(s, at += levels * p, gram, 0, p * p);
+        System.arraycopy(s, at + p * p, rhs, 0, p);
+        removeLevelMeans();
+        return s[0];
+    }
+
+    /**
+     * One part's sums at {@code a}, {@code b} over {@code part} (its share of a specification's rows,
+     * {@link GlmRows#fillPart}): the deviance, the rows at the boundary, and the information's and the
+     * score's sums before the levels' parts are removed, by the same pass as rows held here ({@link #sums}),
+     * in the layout of {@link GlmPassRequest#layout}. Leaves this part's linear predictors, means, weights
+     * and scores in {@link #eta}, {@link #mu}, {@link #weight} and {@link #score}.
+     */
+    double[] partSums(GlmRows part, GlmFamily family, double[] a, double[] b) {
+        this.rows = part;
+        this.family = family;
+        int p = part.p;
+        int levels = part.levels;
+        grow(part.n, p, levels);
+        double d = sums(a, b, eta, mu);
+        double[] out = new double[2 + 2 * levels + levels * p + p * p + p];
+        out[0] = d;
+        out[1] = countBoundary(mu);
+        int at = 2;
+        System.arraycopy(levelWeight, 0, out, at, levels);
+        System.arraycopy(levelScore, 0, out, at += levels, levels);
+        System.arraycopy(levelMean, 0, out, at += levels, levels * p);
+        System.arraycopy(gram, 0, out, at += levels * p, p * p);
+        System.arraycopy(rhs, 0, out, at + p * p, p);
+        return out;
+    }
+
+    /** The pass of {@link #evaluate} over rows held here, its sums left before the levels' parts are removed. */
+    private double sums(double[] a, double[] b, double[] etaOut, double[] muOut) {
         int n = rows.n;
         int p = rows.p;
         int levels = rows.levels;
@@ -266,7 +348,6 @@ final class Irls {
             d += rows.prior == null ? chunk : weigh(muOut, from, to);
             accumulate(from, to);
         }
-        removeLevelMeans();
         return d;
     }
 
@@ -659,6 +740,12 @@ final class Irls {
                 }
             }
             if (own > 0 && !(pivot > ORTHOGONAL_BELOW_SHARE * own)) {
+                if (rows.heldInParts != null) {
+                    // the QR of the weighted design reads every row in one place (orthogonalFactor)
+                    throw new RowPassUnavailable("a QR factorisation of its weighted design, since its information "
+                            + "is too poorly conditioned to factor from sums (a pivot below "
+                            + ORTHOGONAL_BELOW_SHARE + " of its column's weighted sum of squares)");
+                }
                 orthogonal = true;
                 return orthogonalFactor(p, decide);
             }

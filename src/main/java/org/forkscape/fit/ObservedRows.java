@@ -14,6 +14,8 @@ public final class ObservedRows implements FitData {
     private boolean deferring;
     private boolean deferringRefits;
     private RowPassRequest deferred;
+    /** Where a generalized linear fit's passes over rows held in parts are made, or null ({@link GlmFitsByParts}). */
+    private GlmRows.GlmPasses glmPasses;
 
     /** Points this worker's view at {@code v}; returns this. */
     ObservedRows of(DataVariant v) {
@@ -54,6 +56,15 @@ public final class ObservedRows implements FitData {
     /** Gathered straight from the variant's columns, with no column-by-column copy in between. */
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
+        if (!variant.holdsRows() && glmPasses != null) {
+            String cluster = errors.kind() == ErrorType.Kind.CLUSTER && !errors.multiway() ? errors.clusterColumn()
+                    : null;
+            into.fillHeldInParts(mom, cols, y, cluster, glmPasses);
+            return;
+        }
+        if (!variant.holdsRows() && deferring && variant.glmPassReduction != null) {
+            throw new GlmPending();
+        }
         requireRows("the iterations of a generalized linear model");
         into.fill(mom, cols, variant.coded.recorded[y], clusterCodes(errors));
     }
@@ -85,6 +96,12 @@ public final class ObservedRows implements FitData {
     /** Makes a refit of a variant held in parts wait for a batch ({@link RefitPending}) unless already reduced. */
     ObservedRows deferringRefits() {
         deferringRefits = true;
+        return this;
+    }
+
+    /** Makes this view's generalized linear fits of a variant held in parts pass over the rows through {@code passes}. */
+    ObservedRows passingGlmsTo(GlmRows.GlmPasses passes) {
+        glmPasses = passes;
         return this;
     }
 

@@ -382,6 +382,8 @@ public final class VariantByParts {
                 VariantByParts::addSums);
         variant.clusterScoreReduction = (request, cluster) -> parts.reduce(part -> part.clusterScores(key, shifted,
                 request, cluster), VariantByParts::addScores);
+        variant.glmPassReduction = batch -> parts.reduce(batch, (part, b) -> part.glmPassSums(key, shifted, b),
+                VariantByParts::addEach);
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -569,10 +571,73 @@ public final class VariantByParts {
         return out;
     }
 
+    /**
+     * This part's sums of each pass of a generalized linear fit in the batch ({@link GlmPassRequest}): the
+     * part's share of the specification's rows ({@link GlmRows#fillPart}), then the engine's own pass over
+     * rows for that kind: {@link Irls#outcomeSums}, {@link GlmLikelihoods#nullSums} and
+     * {@link GeneralizedLinear#otherThanZeroOrOne} at the start; {@link Irls#partSums} at a point;
+     * {@link GeneralizedLinear#marginSums} and {@link GlmCovariance#partMeat} at the estimate. Each answer
+     * adds over parts ({@link #addEach}).
+     */
+    public double[][] glmPassSums(VariantKey key, WholeRows whole, GlmPassRequest[] batch) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        GlmRows rows = new GlmRows();
+        Irls irls = new Irls();
+        double[][] out = new double[batch.length][];
+        for (int i = 0; i < batch.length; i++) {
+            GlmPassRequest r = batch[i];
+            rows.fillPart(coded, r.rows);
+            int levels = r.rows.levels();
+            int p = r.rows.columns().length;
+            out[i] = switch (r.kind) {
+                case START -> {
+                    double[] sums = new double[r.layout()];
+                    double[] outcome = Irls.outcomeSums(rows, new double[2 * levels]);
+                    double[] nulls = GlmLikelihoods.nullSums(rows, r.family(), new double[2 * levels + 2]);
+                    System.arraycopy(outcome, 0, sums, 0, 2 * levels);
+                    System.arraycopy(nulls, 0, sums, 2 * levels, 2 * levels + 2);
+                    sums[4 * levels + 2] = GeneralizedLinear.otherThanZeroOrOne(rows,
+                            coded.recorded[r.rows.columns()[p - 1]]);
+                    yield sums;
+                }
+                case EVALUATE -> irls.partSums(rows, r.family(), r.alpha, r.beta);
+                case MARGINS -> {
+                    irls.partSums(rows, r.family(), r.alpha, r.beta);
+                    double[] gradientLevels = new double[levels];
+                    double[] gradientColumns = new double[p];
+                    double[] sums = GeneralizedLinear.marginSums(rows, irls, r.family(),
+                            coded.recorded[r.rows.columns()[p - 1]], r.twoValued, r.beta[p - 1], gradientLevels,
+                            gradientColumns);
+                    double[] all = new double[r.layout()];
+                    all[0] = sums[0];
+                    all[1] = sums[1];
+                    System.arraycopy(gradientLevels, 0, all, 2, levels);
+                    System.arraycopy(gradientColumns, 0, all, 2 + levels, p);
+                    yield all;
+                }
+                case MEAT -> {
+                    // its own fit: the meat takes the driver's information into the fit's arrays
+                    Irls atEstimate = new Irls();
+                    atEstimate.partSums(rows, r.family(), r.alpha, r.beta);
+                    yield new GlmCovariance().partMeat(atEstimate, rows, r);
+                }
+            };
+        }
+        return out;
+    }
+
     /** Two parts' cluster scores as one, cluster by cluster ({@code a} modified and returned). */
     static java.util.TreeMap<Long, Double> addScores(java.util.TreeMap<Long, Double> a,
             java.util.TreeMap<Long, Double> b) {
         b.forEach((cluster, score) -> a.merge(cluster, score, Double::sum));
+        return a;
+    }
+
+    /** Two parts' sums of a batch of passes as one, pass by pass ({@code a} modified and returned). */
+    static double[][] addEach(double[][] a, double[][] b) {
+        for (int i = 0; i < a.length; i++) {
+            addSums(a[i], b[i]);
+        }
         return a;
     }
 

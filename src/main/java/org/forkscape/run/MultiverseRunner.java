@@ -15,6 +15,8 @@ import org.forkscape.InputException;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
 import org.forkscape.fit.KeyFit;
+import org.forkscape.fit.GlmFitsByParts;
+import org.forkscape.fit.GlmPending;
 import org.forkscape.fit.RefitPending;
 import org.forkscape.fit.RefitRequest;
 import org.forkscape.fit.RefitsByParts;
@@ -173,6 +175,7 @@ public final class MultiverseRunner {
                 AtomicInteger next = new AtomicInteger();
                 java.util.Queue<RowPassesByParts.Deferred> deferred = new java.util.concurrent.ConcurrentLinkedQueue<>();
                 java.util.Queue<PendingRefit> pendingRefits = new java.util.concurrent.ConcurrentLinkedQueue<>();
+                java.util.Queue<Integer> pendingGlms = new java.util.concurrent.ConcurrentLinkedQueue<>();
                 List<Future<?>> futures = new ArrayList<>();
                 for (int t = 0; t < threads; t++) {
                     futures.add(pool.submit(() -> {
@@ -198,6 +201,11 @@ public final class MultiverseRunner {
                                 } catch (RefitPending e) {
                                     // fitted again once the variant's pending refits are reduced in batches
                                     pendingRefits.add(new PendingRefit(slot, e.request()));
+                                    waiting++;
+                                    continue;
+                                } catch (GlmPending e) {
+                                    // fitted with the variant's other such fits, their passes in rounds
+                                    pendingGlms.add(slot);
                                     waiting++;
                                     continue;
                                 }
@@ -230,6 +238,8 @@ public final class MultiverseRunner {
                     WorkerPools.await(f);
                 }
                 checkCancel(cancel);
+                fitPendingGlms(variant, pendingGlms, models, space, indices, results, routes, cancel,
+                        () -> progress.update(done.incrementAndGet(), indices.length));
                 fitPendingRefits(variant, pendingRefits, models, space, indices, results, deferred, refits, routes,
                         cancel, () -> progress.update(done.incrementAndGet(), indices.length));
                 finishRowPasses(variant, deferred, results, cancel,
@@ -257,10 +267,14 @@ public final class MultiverseRunner {
         try {
             return fitter.fit(variant, model);
         } catch (RowPassUnavailable e) {
-            throw new InputException("decisions", "specification " + results.specNumber(slot) + " cannot be "
-                    + "fitted here: " + e.getMessage() + "; run the plan on one machine, or leave out the choice "
-                    + "that needs it");
+            throw refused(results, slot, e);
         }
+    }
+
+    private static InputException refused(ResultTable results, int slot, RowPassUnavailable e) {
+        return new InputException("decisions", "specification " + results.specNumber(slot) + " cannot be "
+                + "fitted here: " + e.getMessage() + "; run the plan on one machine, or leave out the choice "
+                + "that needs it");
     }
 
     /**
@@ -309,6 +323,40 @@ public final class MultiverseRunner {
                 throw new IllegalStateException("the QR refits of a variant held in parts were reduced but not found");
             }
             round = next;
+        }
+    }
+
+    /**
+     * The generalized linear specifications of a variant held in parts, fitted together in slot order (so
+     * that the batches do not depend on which worker met which) by {@link GlmFitsByParts}, their passes over
+     * the parts in rounds; a specification that needs a pass that cannot be made from parts is refused with
+     * its number, as {@link #fitOne} refuses one.
+     */
+    private void fitPendingGlms(DataVariant variant, java.util.Collection<Integer> pending, SpecificationModels models,
+            SpecificationSpace space, long[] indices, ResultTable results, AtomicLongArray routes, AtomicBoolean cancel,
+            Runnable fitted) {
+        if (pending.isEmpty()) {
+            return;
+        }
+        List<Integer> slots = new ArrayList<>(pending);
+        java.util.Collections.sort(slots);
+        List<SpecificationModel> batch = new ArrayList<>(slots.size());
+        for (int slot : slots) {
+            long[] c = new long[space.decisionCount()];
+            space.decode(indices[slot], c);
+            batch.add(models.model(c));
+        }
+        GlmFitsByParts.Fits fits = GlmFitsByParts.fit(variant, batch, GlmFitsByParts.MAX_PER_BATCH,
+                () -> checkCancel(cancel));
+        for (int i = 0; i < slots.size(); i++) {
+            if (fits.fits()[i] == null) {
+                throw refused(results, slots.get(i), fits.unavailable()[i]);
+            }
+        }
+        for (int i = 0; i < slots.size(); i++) {
+            results.set(slots.get(i), fits.fits()[i]);
+            routes.incrementAndGet(fits.fits()[i].route().ordinal());
+            fitted.run();
         }
     }
 

@@ -125,23 +125,29 @@ class SparkRowPassTest {
         SparkRefusals.check(plan(tooth));
         String chick = Files.readString(SparkParityTest.REFERENCE.resolve("chickweight-plan.json"));
         SparkRefusals.check(plan(chick));
-        // multi-way clustering is computed, with and without null draws
+        // multi-way clustering is computed for least squares, with and without null draws
         String multiway = chick.replace("[\"classical\", \"HC0\"", "[\"classical\", \"HC0\", \"cluster:Chick+Diet\"");
         SparkRefusals.check(plan(multiway));
         SparkRefusals.check(plan(multiway.replaceFirst("\\{", "{\"nullDraws\": 20, ")));
-        // still refused: two absorbed columns, generalized linear models
-        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
-                "\"columns\": [\"Chick\", \"Diet\"]"))));
-        assertEquals("decisions[4].alternatives[1].columns", e.where());
         // analytic weights are summed on Spark
         SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"", "{\"name\": \"weights\", \"kind\": "
                 + "\"weights\", \"alternatives\": [{\"label\": \"by time\", \"column\": \"Time\"}]},\n    "
                 + "{\"name\": \"outcome\"")));
-        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"",
-                "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]},"
-                        + "\n    {\"name\": \"outcome\""))));
+        // still refused: two absorbed columns; beside a generalized linear model, multi-way clustering and null draws
+        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
+                "\"columns\": [\"Chick\", \"Diet\"]"))));
+        assertEquals("decisions[4].alternatives[1].columns", e.where());
+        String poisson = chick.replace("{\"name\": \"outcome\"", "{\"name\": \"model\", \"kind\": \"model\", "
+                + "\"alternatives\": [\"ols\", \"poisson\"]},\n    {\"name\": \"outcome\"");
+        SparkRefusals.check(plan(poisson));
+        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(poisson.replace("[\"classical\", \"HC0\"",
+                "[\"classical\", \"HC0\", \"cluster:Chick+Diet\""))));
+        assertEquals("decisions[6].alternatives[2]", e.where());
+        assertTrue(e.problem().contains("beside poisson"), e.problem());
+        e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(poisson.replaceFirst("\\{",
+                "{\"nullDraws\": 20, "))));
         assertEquals("decisions[0].alternatives[1]", e.where());
-        assertTrue(e.problem().contains("iterations over the rows"), e.problem());
+        assertTrue(e.problem().contains("beside null draws"), e.problem());
     }
 
     /** Specifications the row passes of a run's variants served. */

@@ -103,6 +103,26 @@ class SparkRunCommandTest {
     }
 
     /**
+     * The scale command's plan with {@code --model logit}: the same 2,048 specifications of the 0/1 outcome b
+     * by logit, which the Spark runner accepts.
+     */
+    @Test
+    void scaleLogitPlanFitsTheBinaryOutcomeByLogit() {
+        org.forkscape.plan.Plan plan = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, true),
+                folder.toAbsolutePath());
+        assertEquals(java.math.BigInteger.valueOf(2048), new org.forkscape.plan.SpecificationSpace(plan).count());
+        assertTrue(plan.decisions().stream().anyMatch(d -> d instanceof org.forkscape.plan.Decision.Model m
+                && m.alternatives().equals(List.of(org.forkscape.plan.ModelFamily.LOGIT))), plan.decisions().toString());
+        assertTrue(plan.decisions().stream().anyMatch(d -> d instanceof org.forkscape.plan.Decision.Outcome o
+                && o.alternatives().get(0).column().equals("b")), plan.decisions().toString());
+        SparkRefusals.check(plan);
+        org.forkscape.plan.Plan ols = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, false),
+                folder.toAbsolutePath());
+        assertTrue(ols.decisions().stream().noneMatch(d -> d instanceof org.forkscape.plan.Decision.Model),
+                "without --model the plan has no model decision");
+    }
+
+    /**
      * The scale command's small case: the generated table, read back from its Parquet parts by one machine,
      * gives the Spark run's every specification (within {@value SparkParityTest#RELATIVE} relative), and
      * the report's row names the row count and the aggregation's time beside Spark's own sums.

@@ -33,6 +33,7 @@ import static org.apache.spark.sql.functions.col;
 import static org.apache.spark.sql.functions.lit;
 import static org.apache.spark.sql.functions.pmod;
 import static org.apache.spark.sql.functions.sum;
+import static org.apache.spark.sql.functions.when;
 import static org.apache.spark.sql.functions.xxhash64;
 
 /**
@@ -47,13 +48,15 @@ import static org.apache.spark.sql.functions.xxhash64;
  * rows. With {@code --single-machine JAR} it also runs {@code java -jar JAR run} on the same plan and data
  * in a child JVM with the JVM's default heap and reports its time and peak resident memory, or that it did
  * not fit. With {@code --null-draws R} the plan also asks for R bootstrap null draws (whole clusters), whose
- * time summary.json records.
+ * time summary.json records. With {@code --model logit} the plan's outcome is the table's 0/1 column b
+ * (whether y is positive) fitted by logit, so that the run times the generalized linear fits' passes
+ * ({@link org.forkscape.fit.GlmFitsByParts}).
  */
 final class SparkScale {
     static final int CONTROLS = 10;
     static final int CLUSTERS = 1000;
     private static final String USAGE = "usage: scale --rows N[,N...] --out DIR [--master URL] [--partitions N] "
-            + "[--null-draws R] [--single-machine JAR]";
+            + "[--null-draws R] [--single-machine JAR] [--model logit]";
 
     private SparkScale() {
     }
@@ -63,13 +66,15 @@ final class SparkScale {
         String out = take(args, "--out");
         String single = take(args, "--single-machine");
         String drawsText = take(args, "--null-draws");
+        String model = take(args, "--model");
         int draws;
         try {
             draws = drawsText == null ? 0 : Integer.parseInt(drawsText.trim());
         } catch (NumberFormatException e) {
             draws = -1;
         }
-        if (rows == null || out == null || !args.isEmpty() || draws < 0) {
+        boolean logit = "logit".equals(model);
+        if (rows == null || out == null || !args.isEmpty() || draws < 0 || model != null && !logit) {
             System.err.println("forkscape: " + USAGE);
             return 2;
         }
@@ -80,19 +85,19 @@ final class SparkScale {
         for (String n : rows.split(",")) {
             long count = Long.parseLong(n.trim().replace("_", ""));
             Path folder = Path.of(out, "rows-" + count);
-            System.out.println(measure(spark, count, folder, partitions, draws, single));
+            System.out.println(measure(spark, count, folder, partitions, draws, single, logit));
         }
         return 0;
     }
 
     private static String measure(SparkSession spark, long rows, Path folder, int partitions, int draws,
-            String single) {
+            String single, boolean logit) {
         Path data = folder.resolve("data");
         Path plan = folder.resolve("plan.json");
         try {
             Files.createDirectories(folder);
             generate(spark, rows, data);
-            Files.writeString(plan, plan("data", draws), StandardCharsets.UTF_8);
+            Files.writeString(plan, plan("data", draws, logit), StandardCharsets.UTF_8);
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
@@ -144,7 +149,8 @@ final class SparkScale {
 
     /**
      * An invented table of {@code rows} rows written as Parquet: ten controls, a key predictor related to the
-     * first two, an outcome with a planted effect of 0.2, and a cluster column of 1,000 groups. Every value is
+     * first two, an outcome with a planted effect of 0.2, whether it is positive (b, 1 or 0), and a cluster
+     * column of 1,000 groups. Every value is
      * a function of the row's number through Spark's xxhash64, so the same row count gives the same table
      * whatever the partitioning.
      */
@@ -158,7 +164,8 @@ final class SparkScale {
         for (int j = 1; j <= CONTROLS; j++) {
             y = y.plus(col("c" + j).multiply(0.05 * j));
         }
-        t = t.withColumn("y", y).withColumn("g", pmod(xxhash64(col("id"), lit(99)), lit(CLUSTERS)));
+        t = t.withColumn("y", y).withColumn("b", when(col("y").gt(0), 1.0).otherwise(0.0))
+                .withColumn("g", pmod(xxhash64(col("id"), lit(99)), lit(CLUSTERS)));
         t.select("y", columnsBut("y")).write().mode("overwrite").parquet(folder.toString());
     }
 
@@ -179,20 +186,22 @@ final class SparkScale {
 
     /**
      * Every subset of the ten controls (1,024), with HC1 and cluster errors: 2,048 specifications; with
-     * {@code draws} bootstrap null draws (whole clusters of g, the errors' clusters, by default).
+     * {@code draws} bootstrap null draws (whole clusters of g, the errors' clusters, by default); with
+     * {@code logit}, of the outcome b by logit.
      */
-    static String plan(String data, int draws) {
+    static String plan(String data, int draws, boolean logit) {
         StringBuilder optional = new StringBuilder();
         for (int j = 1; j <= CONTROLS; j++) {
             optional.append(j == 1 ? "" : ", ").append("\"c").append(j).append('"');
         }
         return """
                 {"data": "%s", "nullDraws": %d, "seed": 2026, "decisions": [
-                  {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                  {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "%s", "column": "%s"}]},
                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
                   {"name": "controls", "kind": "controls", "optional": [%s]},
-                  {"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g"]}]}
-                """.formatted(data, draws, optional);
+                  %s{"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g"]}]}
+                """.formatted(data, draws, logit ? "b" : "y", logit ? "b" : "y", optional,
+                logit ? "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"logit\"]},\n      " : "");
     }
 
     private static String[] columns() {
@@ -210,6 +219,7 @@ final class SparkScale {
                 c.add(s);
             }
         }
+        c.add("b");
         c.add("g");
         return c.toArray(new String[0]);
     }

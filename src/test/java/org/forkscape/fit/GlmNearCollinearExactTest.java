@@ -40,7 +40,7 @@ class GlmNearCollinearExactTest {
         }
     }
 
-    private static Table rows(double gap, boolean poisson) {
+    static Table rows(double gap, boolean poisson) {
         SplittableRandom r = new SplittableRandom(29);
         double[] y = new double[ROWS];
         double[] key = new double[ROWS];

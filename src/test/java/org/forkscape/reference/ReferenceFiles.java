@@ -73,7 +73,7 @@ public final class ReferenceFiles {
     }
 
     /** A committed version record (one tool a line), as one line for messages. */
-    static String versions(String name) {
+    public static String versions(String name) {
         try {
             return String.join("; ", Files.readAllLines(path(name), StandardCharsets.UTF_8));
         } catch (IOException e) {

@@ -1,0 +1,167 @@
+package org.forkscape.spark;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.apache.spark.sql.SparkSession;
+import org.forkscape.data.CsvTableReader;
+import org.forkscape.data.Table;
+import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.GlmFitsByParts;
+import org.forkscape.plan.Plan;
+import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.ReferenceFiles;
+import org.forkscape.run.MultiverseRunner;
+import org.forkscape.run.ResultTable;
+import org.forkscape.run.RunProgress;
+import org.forkscape.run.RunResult;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
+
+/**
+ * Logit, probit and Poisson specifications on Spark local mode ({@link GlmFitsByParts}: the single-machine
+ * estimator whose passes over the rows are Spark jobs over the partitions, a round of passes per job): the
+ * demo's Poisson plan (Poisson beside least squares, HC1 and school clusters, the absorbed zone) from a
+ * Parquet copy at 1, 3 and 8 partitions, and the birthwt-smoking GLM reference plan (logit and probit,
+ * classical, HC0 to HC3 and age clusters, with and without the absorbed race) at 3 partitions, against the
+ * single-machine engine on the same data: statuses, rows and coefficients exactly, estimates, standard
+ * errors, p-values, average marginal effects and their errors, deviances, pseudo-R-squared and model
+ * p-values within 1e-10 relative; birthwt-smoking also against R's glm with sandwich
+ * (glm/birthwt-smoking-expected.csv from {@code src/test/r/glm-reference.R}, at the 1e-7 relative of
+ * {@code RGlmReferenceTest}'s {@code GlmTolerance} for these models). The route is asserted: every fitted
+ * generalized linear specification came from the rounds of passes, fewer rounds than passes.
+ */
+class SparkGlmTest {
+    static final double RELATIVE = 1e-10;
+    /** GlmTolerance's figure for logit, probit and Poisson against R's glm (RGlmReferenceTest). */
+    static final double R_GLM_RELATIVE = 1e-7;
+    static SparkSession spark;
+    @TempDir
+    static Path folder;
+    static Path demoParquet;
+    static Path birthParquet;
+    static final Path GLM = SparkParityTest.REFERENCE.resolve("glm");
+
+    @BeforeAll
+    static void start() {
+        ((ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger(org.slf4j.Logger.ROOT_LOGGER_NAME))
+                .setLevel(ch.qos.logback.classic.Level.WARN);
+        spark = SparkSession.builder().master("local[2]").appName("forkscape-spark-test")
+                .config("spark.ui.enabled", "false").config("spark.sql.shuffle.partitions", "4").getOrCreate();
+        SparkParityTest.spark = spark;
+        demoParquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.SAMPLE.resolve("civic-demo.csv")),
+                folder.resolve("civic-demo.parquet"), 4);
+        birthParquet = ParquetCopy.write(spark, new CsvTableReader().read(GLM.resolve("birthwt.csv")),
+                folder.resolve("birthwt.parquet"), 3);
+    }
+
+    @AfterAll
+    static void stop() {
+        spark.stop();
+    }
+
+    @ParameterizedTest(name = "{0} partitions")
+    @ValueSource(ints = {1, 3, 8})
+    void demoPoissonPlanEqualsTheEngine(int partitions) throws IOException {
+        String planText = Files.readString(SparkParityTest.SAMPLE.resolve("civic-demo-models.plan.json"));
+        compare(planText, SparkParityTest.SAMPLE, demoParquet, partitions, "demo-models-" + partitions);
+    }
+
+    @Test
+    void birthWeightLogitAndProbitEqualTheEngineAndR() throws IOException {
+        String planText = Files.readString(GLM.resolve("birthwt-smoking-plan.json"));
+        RunResult run = compare(planText, GLM, birthParquet, 3, "birthwt-smoking-3");
+        ResultTable r = run.results();
+        Map<String, Integer> slots = ReferenceFiles.slotsByLabels(run);
+        List<Map<String, String>> expected = ReferenceFiles.rows("glm/birthwt-smoking-expected.csv");
+        assertEquals(expected.size(), r.size(), "specifications against glm/birthwt-smoking-expected.csv");
+        int checked = 0;
+        for (Map<String, String> row : expected) {
+            String key = String.join(" | ", row.get("outcome"), row.get("exposure"), row.get("model"),
+                    row.get("controls"), row.get("fixed effects"), row.get("errors"));
+            int slot = slots.get(key);
+            String where = "R glm() and sandwich, glm/birthwt-smoking-expected.csv ("
+                    + ReferenceFiles.versions("glm/versions.txt") + "), " + key;
+            assertTrue(r.status(slot).startsWith(row.get("status")), where + " status: " + r.status(slot));
+            if (!row.get("status").equals("ok")) {
+                continue;
+            }
+            for (String column : List.of("estimate", "std_error", "effect", "effect_std_error")) {
+                double actual = switch (column) {
+                    case "estimate" -> r.estimate(slot);
+                    case "std_error" -> r.stdError(slot);
+                    case "effect" -> r.effect(slot);
+                    default -> r.effectStdError(slot);
+                };
+                SparkParityTest.assertClose(Double.parseDouble(row.get(column)), actual, R_GLM_RELATIVE,
+                        where + " " + column);
+            }
+            checked++;
+        }
+        assertTrue(checked > expected.size() / 2, checked + " specifications checked against R");
+    }
+
+    /** Both runs of one plan, every specification compared; returns the Spark run. */
+    static RunResult compare(String planText, Path planFolder, Path parquet, int partitions, String name) {
+        SparkParityTest.Comparison c = SparkParityTest.compare(planText, planFolder, parquet, partitions);
+        Plan plan = new PlanReader(false).read(planText, planFolder.toAbsolutePath());
+        Table csv = new CsvTableReader().read(plan.dataFile());
+        RunResult local = new MultiverseRunner(2).run(plan, csv, RunProgress.SILENT, new AtomicBoolean());
+        ResultTable a = local.results();
+        ResultTable b = c.spark().results();
+        double[] worst = new double[5];
+        long generalized = 0;
+        for (int slot = 0; slot < a.size(); slot++) {
+            if (!a.fitted(slot) || a.family(slot).leastSquares()) {
+                continue;
+            }
+            generalized++;
+            String where = "specification " + a.specNumber(slot);
+            worst[0] = Math.max(worst[0], SparkParityTest.assertClose(a.effect(slot), b.effect(slot), RELATIVE,
+                    where + " effect"));
+            worst[1] = Math.max(worst[1], SparkParityTest.assertClose(a.effectStdError(slot), b.effectStdError(slot),
+                    RELATIVE, where + " effect_std_error"));
+            worst[2] = Math.max(worst[2], SparkParityTest.assertClose(a.deviance(slot), b.deviance(slot), RELATIVE,
+                    where + " deviance"));
+            worst[3] = Math.max(worst[3], SparkParityTest.assertClose(a.r2(slot), b.r2(slot), RELATIVE, where + " r2"));
+            worst[4] = Math.max(worst[4], SparkParityTest.assertClose(a.modelPValue(slot), b.modelPValue(slot),
+                    RELATIVE, where + " model_p_value"));
+        }
+        long served = 0;
+        long rounds = 0;
+        long passes = 0;
+        for (int v = 0; v < c.spark().models().variantCount(); v++) {
+            DataVariant variant = c.spark().models().variant(c.spark().models().variantKey(v));
+            served += variant.glmFitsServed();
+            rounds += variant.glmRounds();
+            passes += variant.glmPasses();
+        }
+        assertTrue(generalized > 0 && served >= generalized, served + " specifications fitted from the rounds of "
+                + "passes, of which at least the " + generalized + " fitted generalized linear ones");
+        assertTrue(rounds > 0 && rounds < passes, rounds + " rounds (Spark jobs) for " + passes + " passes");
+        SparkParityTest.report(name, c.worst());
+        try {
+            Files.writeString(Path.of("target/spark-reports").resolve("parity-glm-" + name + ".txt"),
+                    String.format(Locale.ROOT, "largest relative difference, Spark local mode against the "
+                            + "single-machine engine: estimate %.3g, std_error %.3g, p_value %.3g, effect %.3g, "
+                            + "effect_std_error %.3g, deviance %.3g, r2 %.3g, model_p_value %.3g; %d generalized "
+                            + "linear specifications fitted from %d rounds of %d passes%n", c.worst()[0],
+                            c.worst()[1], c.worst()[2], worst[0], worst[1], worst[2], worst[3], worst[4], served,
+                            rounds, passes));
+        } catch (IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        return c.spark();
+    }
+}

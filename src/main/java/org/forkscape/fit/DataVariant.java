@@ -57,6 +57,13 @@ public final class DataVariant {
     /** Cluster codes per cluster column name, over the variant's rows (-1 where missing). */
     final Map<String, int[]> clusters;
     final Map<String, Integer> clusterCounts;
+    /**
+     * For a variant built from parts: per intersection of cluster columns, the whole table's key of each of its
+     * cluster codes ({@link VariantByParts#intersectionKeys}, ascending, so code = the key's rank), with which a
+     * part numbers its own clusters of the intersection as the variant does ({@link GlmPassRequest}); empty
+     * otherwise.
+     */
+    Map<String, long[]> intersectionClusterKeys = Map.of();
     /** Where each generalized linear fit of this variant starts, and the fits already made. */
     final GlmStarts glmStarts = new GlmStarts();
     /**

@@ -208,15 +208,12 @@ final class GlmCovariance {
 
     /**
      * The meat of rows held in parts: every part's {@link #partMeat} at the estimate, merged in part order,
-     * read into {@link #meat} or the one-way cluster sums as {@link #meatSums} leaves them for rows held here
-     * (a part's leverage of 1 is NaN in its sums, and stays NaN through the additions). Multi-way sums are not
-     * made from parts. False, with {@link #failure} set, at a leverage of 1.
+     * read into {@link #meat} or each component's cluster sums as {@link #meatSums} leaves them for rows held
+     * here (a part's leverage of 1 is NaN in its sums, and stays NaN through the additions), so that
+     * {@link #clustered} squares sums over the whole table. False, with {@link #failure} set, at a leverage of 1.
      */
     private boolean meatFromParts(Irls fit, ErrorType errors, int count) {
         GlmRows rows = fit.rows;
-        if (errors.multiway()) {
-            throw new RowPassUnavailable("the multi-way cluster sums of " + errors.label());
-        }
         int p = rows.p;
         int levels = rows.levels;
         double[][] combinations = new double[count][];
@@ -241,14 +238,17 @@ final class GlmCovariance {
             }
             return true;
         }
-        int g = rows.heldInParts.clusterCount();
-        growClusters(1, 0, count);
-        clearCells(0, g, count);
-        for (int m = 0; m < count; m++) {
-            System.arraycopy(s, m * g, clusterSums[0][m], 0, g);
-        }
-        for (int code = 0; code < g; code++) {
-            clusterSeen[0][code] = s[count * g + code] > 0;
+        int[] clusterCounts = rows.heldInParts.clusterCounts();
+        growClusters(clusterCounts.length, 0, count);
+        for (int c = 0, at = 0; c < clusterCounts.length; at += (count + 1) * clusterCounts[c], c++) {
+            int g = clusterCounts[c];
+            clearCells(c, g, count);
+            for (int m = 0; m < count; m++) {
+                System.arraycopy(s, at + m * g, clusterSums[c][m], 0, g);
+            }
+            for (int code = 0; code < g; code++) {
+                clusterSeen[c][code] = s[at + count * g + code] > 0;
+            }
         }
         return true;
     }
@@ -258,8 +258,12 @@ final class GlmCovariance {
      * {@code fit} holds the part's scores and weights at the estimate ({@link Irls#partSums}); the
      * combinations and the information at the estimate are the driver's. In the layout of
      * {@link GlmPassRequest#layout}; a leverage of 1 makes every meat NaN.
+     *
+     * @param codes for cluster errors, per component of the request's error type the code of each of the
+     *              part's rows among the variant's clusters ({@link GlmPassRequest.Rows}); null otherwise; not
+     *              modified
      */
-    double[] partMeat(Irls fit, GlmRows part, GlmPassRequest r) {
+    double[] partMeat(Irls fit, GlmRows part, GlmPassRequest r, int[][] codes) {
         int count = r.along.length;
         grow(count, part.p, part.levels);
         for (int m = 0; m < count; m++) {
@@ -271,14 +275,15 @@ final class GlmCovariance {
         fit.factor = r.factor;
         fit.kept = r.kept;
         boolean cluster = r.errorKind == ErrorType.Kind.CLUSTER;
-        int g = r.rows.clusterCount();
-        int[][] codes = null;
+        int[] clusterCounts = r.rows.clusterCounts();
+        int parts = cluster ? clusterCounts.length : 0;
         if (cluster) {
-            growClusters(1, part.n, count);
-            codes = new int[][] {part.cluster};
-            clearCells(0, g, count);
+            growClusters(parts, 0, count);
+            for (int c = 0; c < parts; c++) {
+                clearCells(c, clusterCounts[c], count);
+            }
         }
-        boolean defined = meatSums(fit, part, r.errorKind, count, cluster, codes, cluster ? 1 : 0);
+        boolean defined = meatSums(fit, part, r.errorKind, count, cluster, codes, parts);
         double[] out = new double[r.layout()];
         if (!cluster) {
             for (int m = 0; m < count; m++) {
@@ -286,11 +291,14 @@ final class GlmCovariance {
             }
             return out;
         }
-        for (int m = 0; m < count; m++) {
-            System.arraycopy(clusterSums[0][m], 0, out, m * g, g);
-        }
-        for (int code = 0; code < g; code++) {
-            out[count * g + code] = clusterSeen[0][code] ? 1 : 0;
+        for (int c = 0, at = 0; c < parts; at += (count + 1) * clusterCounts[c], c++) {
+            int g = clusterCounts[c];
+            for (int m = 0; m < count; m++) {
+                System.arraycopy(clusterSums[c][m], 0, out, at + m * g, g);
+            }
+            for (int code = 0; code < g; code++) {
+                out[at + count * g + code] = clusterSeen[c][code] ? 1 : 0;
+            }
         }
         return out;
     }

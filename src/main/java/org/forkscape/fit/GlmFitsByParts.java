@@ -66,12 +66,21 @@ public final class GlmFitsByParts {
 
     /**
      * About the bytes of a specification's largest pass request (its level offsets, its coefficients, at the
-     * estimate the information's factor and level means), which bound a batch.
+     * estimate the information's factor and level means; for multi-way clustering the whole-table keys of
+     * its intersections' clusters, which every request carries), which bound a batch.
      */
     private static long bytes(DataVariant variant, SpecificationModel model) {
         long p = model.factorOrder().length;
         long levels = variant.levels;
-        return 256 + levels * (24 + 8 * p) + 16 * p * p + 16 * p;
+        long keys = 0;
+        if (model.errors().multiway()) {
+            for (ClusterComponents.Component c : ClusterComponents.of(model.errors())) {
+                if (c.columns().size() > 1) {
+                    keys += 8L * variant.clusterCounts.get(c.key());
+                }
+            }
+        }
+        return 256 + levels * (24 + 8 * p) + 16 * p * p + 16 * p + keys;
     }
 
     private static void fitBatch(DataVariant variant, List<SpecificationModel> batch, Runnable beforeEachPass,

@@ -31,9 +31,16 @@ public final class GlmPassRequest implements Serializable {
         MEAT
     }
 
-    /** What every pass of one specification shares: its rows and columns. */
+    /**
+     * What every pass of one specification shares: its rows and columns, and for cluster errors each
+     * component of the error type ({@link ClusterComponents#of}; one for one-way errors, none otherwise): its
+     * key, its clusters in the variant, and for an intersection of columns the whole table's key of each of
+     * them (ascending, so that a part numbers the clusters it holds as the variant does; null for one column,
+     * whose codes are the same on every part).
+     */
     record Rows(long[] usableMasks, int[] columns, int outcome, double[][] offsets, int[] compactLevel,
-            int levels, String clusterColumn, int clusterCount) implements Serializable {
+            int levels, String[] clusterKeys, int[] clusterCounts, long[][] intersectionKeys)
+            implements Serializable {
     }
 
     final Kind kind;
@@ -104,8 +111,9 @@ public final class GlmPassRequest implements Serializable {
      * 2 + 2 L + L p + p^2 + p (deviance, rows at the boundary, per level the weight, the score, the weighted
      * column sums; the cross-products, the columns' score), MARGINS 2 + L + p (the effect's sum, the rows'
      * weight, the gradient over levels and columns), MEAT m without clusters (one meat per combination),
-     * m G + G with them (each combination's score sum per cluster, then per cluster the parts holding rows
-     * of it, so that a cluster seen anywhere counts): L levels, p columns, m combinations, G clusters.
+     * m G + G per component of the cluster error type with them (each combination's score sum per cluster,
+     * then per cluster the parts holding rows of it, so that a cluster seen anywhere counts), the components
+     * one after the other: L levels, p columns, m combinations, G the component's clusters.
      */
     int layout() {
         int l = rows.levels;
@@ -114,7 +122,16 @@ public final class GlmPassRequest implements Serializable {
             case START -> 4 * l + 3;
             case EVALUATE -> 2 + 2 * l + l * p + p * p + p;
             case MARGINS -> 2 + l + p;
-            case MEAT -> rows.clusterColumn == null ? along.length : (along.length + 1) * rows.clusterCount;
+            case MEAT -> {
+                if (rows.clusterKeys.length == 0) {
+                    yield along.length;
+                }
+                int length = 0;
+                for (int g : rows.clusterCounts) {
+                    length += (along.length + 1) * g;
+                }
+                yield length;
+            }
         };
     }
 }

@@ -141,9 +141,10 @@ final class GlmRows {
      * rows hold numbered in ascending order, and what a part needs to gather its share of them; no per-row
      * arrays. Every pass over them is then made by {@code passes}.
      *
-     * @param clusterColumn the error type's cluster column, or null
+     * @param components the cluster error type's components ({@link ClusterComponents#of}), empty for other errors
      */
-    void fillHeldInParts(Moments mom, int[] cols, int y, String clusterColumn, GlmPasses passes) {
+    void fillHeldInParts(Moments mom, int[] cols, int y, java.util.List<ClusterComponents.Component> components,
+            GlmPasses passes) {
         DataVariant v = mom.variant;
         filledRows = null;
         variantClusters = null;
@@ -165,9 +166,16 @@ final class GlmRows {
             }
         }
         long[] masks = mom.usableGroups.stream().mapToLong(g -> v.groupMissing[g]).sorted().toArray();
-        int clusters = clusterColumn == null ? 0 : v.clusterCounts.get(clusterColumn);
-        heldInParts = new GlmPassRequest.Rows(masks, cols.clone(), y, offsets, compact, levels, clusterColumn,
-                clusters);
+        String[] keys = new String[components.size()];
+        int[] clusters = new int[keys.length];
+        long[][] intersectionKeys = new long[keys.length][];
+        for (int c = 0; c < keys.length; c++) {
+            keys[c] = components.get(c).key();
+            clusters[c] = v.clusterCounts.get(keys[c]);
+            intersectionKeys[c] = v.intersectionClusterKeys.get(keys[c]);
+        }
+        heldInParts = new GlmPassRequest.Rows(masks, cols.clone(), y, offsets, compact, levels, keys, clusters,
+                intersectionKeys);
         this.passes = passes;
     }
 
@@ -194,7 +202,6 @@ final class GlmRows {
         prior = coded.weight == null ? null : priorBuffer;
         levels = r.levels();
         double[] recordedOutcome = coded.recorded[r.outcome()];
-        int[] codes = r.clusterColumn() == null ? null : coded.clusters.get(r.clusterColumn());
         double[][] offsets = r.offsets();
         for (int k = 0; k < n; k++) {
             int row = usable[k];
@@ -206,7 +213,6 @@ final class GlmRows {
             level[k] = r.compactLevel()[l];
             source[k] = row;
             y[k] = recordedOutcome[row];
-            cluster[k] = codes == null ? 0 : codes[row];
             if (prior != null) {
                 prior[k] = coded.weight[row];
             }

@@ -57,9 +57,8 @@ public final class ObservedRows implements FitData {
     @Override
     public void glmRows(Moments mom, int[] cols, int y, ErrorType errors, GlmRows into) {
         if (!variant.holdsRows() && glmPasses != null) {
-            String cluster = errors.kind() == ErrorType.Kind.CLUSTER && !errors.multiway() ? errors.clusterColumn()
-                    : null;
-            into.fillHeldInParts(mom, cols, y, cluster, glmPasses);
+            into.fillHeldInParts(mom, cols, y, errors.kind() == ErrorType.Kind.CLUSTER ? ClusterComponents.of(errors)
+                    : java.util.List.of(), glmPasses);
             return;
         }
         if (!variant.holdsRows() && deferring && variant.glmPassReduction != null) {

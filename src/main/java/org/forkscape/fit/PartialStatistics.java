@@ -222,13 +222,17 @@ public final class PartialStatistics implements Serializable {
         }
         Map<String, ClusterMoments> clusterMoments = new HashMap<>();
         Map<String, Integer> counts = new TreeMap<>(clusterCounts);
+        Map<String, long[]> keysByCode = new HashMap<>();
         clusterCells.forEach((column, byCell) -> {
             // an intersection's clusters numbered densely in the order of their keys, the same on every part
             Map<Long, Integer> dense = new HashMap<>();
             if (intersections.contains(column)) {
-                new java.util.TreeSet<>(byCell.keySet().stream().map(CellKey::cluster).toList())
-                        .forEach(k -> dense.put(k, dense.size()));
+                long[] ascending = byCell.keySet().stream().mapToLong(CellKey::cluster).distinct().sorted().toArray();
+                for (long k : ascending) {
+                    dense.put(k, dense.size());
+                }
                 counts.put(column, dense.size());
+                keysByCode.put(column, ascending);
             }
             List<ClusterMoments.Cell> list = new ArrayList<>(byCell.size());
             byCell.forEach((key, s) -> {
@@ -243,6 +247,9 @@ public final class PartialStatistics implements Serializable {
         });
         CodedRows shape = new CodedRows(layout, (int) rows, levels, absorbColumn, levelShift, masks, counts,
                 weighted);
-        return new DataVariant(shape, new CellSums(count, weight, sum, cross), groupTensors, clusterMoments);
+        DataVariant variant = new DataVariant(shape, new CellSums(count, weight, sum, cross), groupTensors,
+                clusterMoments);
+        variant.intersectionClusterKeys = Map.copyOf(keysByCode);
+        return variant;
     }
 }

@@ -619,9 +619,39 @@ public final class VariantByParts {
                     // its own fit: the meat takes the driver's information into the fit's arrays
                     Irls atEstimate = new Irls();
                     atEstimate.partSums(rows, r.family(), r.alpha, r.beta);
-                    yield new GlmCovariance().partMeat(atEstimate, rows, r);
+                    yield new GlmCovariance().partMeat(atEstimate, rows, r, glmClusterCodes(coded, whole, r.rows,
+                            rows));
                 }
             };
+        }
+        return out;
+    }
+
+    /**
+     * Per component of a generalized linear fit's cluster error type, the code of each of the part's rows of
+     * it ({@link GlmRows#source}) among the variant's clusters: a column's own code, the same on every part;
+     * an intersection's the rank of its key over the whole table ({@link #intersectionKeys}) among the
+     * variant's keys. Null without clusters.
+     */
+    private int[][] glmClusterCodes(CodedRows coded, WholeRows whole, GlmPassRequest.Rows r, GlmRows rows) {
+        String[] keys = r.clusterKeys();
+        if (keys.length == 0) {
+            return null;
+        }
+        int[][] out = new int[keys.length][rows.n];
+        for (int c = 0; c < keys.length; c++) {
+            int[] local = coded.clusters.get(keys[c]);
+            long[] ascending = r.intersectionKeys()[c];
+            long[] global = null;
+            if (ascending != null) {
+                String key = keys[c];
+                global = intersectionKeys(coded, whole, plan.clusterIntersections.stream()
+                        .filter(i -> i.key().equals(key)).findFirst().orElseThrow());
+            }
+            for (int k = 0; k < rows.n; k++) {
+                int code = local[rows.source[k]];
+                out[c][k] = global == null ? code : java.util.Arrays.binarySearch(ascending, global[code]);
+            }
         }
         return out;
     }

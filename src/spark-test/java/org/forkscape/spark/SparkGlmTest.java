@@ -34,12 +34,15 @@ import org.junit.jupiter.params.provider.ValueSource;
  * estimator whose passes over the rows are Spark jobs over the partitions, a round of passes per job): the
  * demo's Poisson plan (Poisson beside least squares, HC1 and school clusters, the absorbed zone) from a
  * Parquet copy at 1, 3 and 8 partitions, and the birthwt-smoking GLM reference plan (logit and probit,
- * classical, HC0 to HC3 and age clusters, with and without the absorbed race) at 3 partitions, against the
+ * classical, HC0 to HC3 and age clusters, with and without the absorbed race) and the tutoring Poisson
+ * reference plan (two- and three-way cluster errors) at 3 partitions, against the
  * single-machine engine on the same data: statuses, rows and coefficients exactly, estimates, standard
  * errors, p-values, average marginal effects and their errors, deviances, pseudo-R-squared and model
  * p-values within 1e-10 relative; birthwt-smoking also against R's glm with sandwich
  * (glm/birthwt-smoking-expected.csv from {@code src/test/r/glm-reference.R}, at the 1e-7 relative of
- * {@code RGlmReferenceTest}'s {@code GlmTolerance} for these models). The route is asserted: every fitted
+ * {@code RGlmReferenceTest}'s {@code GlmTolerance} for these models), and the tutoring plan's multi-way
+ * specifications against R's glm with sandwich's vcovCL (tutoring-poisson-expected.csv from
+ * {@code src/test/r/multiway-glm-reference.R}, at the same 1e-7). The route is asserted: every fitted
  * generalized linear specification came from the rounds of passes, fewer rounds than passes.
  */
 class SparkGlmTest {
@@ -51,6 +54,7 @@ class SparkGlmTest {
     static Path folder;
     static Path demoParquet;
     static Path birthParquet;
+    static Path tutoringParquet;
     static final Path GLM = SparkParityTest.REFERENCE.resolve("glm");
 
     @BeforeAll
@@ -64,6 +68,8 @@ class SparkGlmTest {
                 folder.resolve("civic-demo.parquet"), 4);
         birthParquet = ParquetCopy.write(spark, new CsvTableReader().read(GLM.resolve("birthwt.csv")),
                 folder.resolve("birthwt.parquet"), 3);
+        tutoringParquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
+                "tutoring-panel.csv")), folder.resolve("tutoring-panel.parquet"), 3);
     }
 
     @AfterAll
@@ -110,6 +116,44 @@ class SparkGlmTest {
             checked++;
         }
         assertTrue(checked > expected.size() / 2, checked + " specifications checked against R");
+    }
+
+    /**
+     * Poisson with two- and three-way cluster errors (tutoring-poisson-plan.json) at 3 partitions: against the
+     * engine, and every multi-way specification against R's glm with {@code sandwich::vcovCL(type = "HC1",
+     * cadjust = TRUE, multi0 = FALSE)} (tutoring-poisson-expected.csv from
+     * {@code src/test/r/multiway-glm-reference.R}), the status where R's variance is not positive included.
+     */
+    @Test
+    void multiwayClusteredPoissonEqualsTheEngineAndR() throws IOException {
+        String planText = Files.readString(SparkParityTest.REFERENCE.resolve("tutoring-poisson-plan.json"));
+        RunResult run = compare(planText, SparkParityTest.REFERENCE, tutoringParquet, 3, "tutoring-poisson-3");
+        ResultTable r = run.results();
+        Map<String, Integer> slots = ReferenceFiles.slotsByLabels(run);
+        int checked = 0;
+        int notPositive = 0;
+        for (Map<String, String> row : ReferenceFiles.rows("tutoring-poisson-expected.csv")) {
+            if (!row.get("errors").contains("+")) {
+                continue;
+            }
+            String key = String.join(" | ", row.get("outcome"), row.get("hours"), row.get("model"), row.get("rows"),
+                    row.get("effects"), row.get("controls"), row.get("weights"), row.get("errors"));
+            int slot = slots.get(key);
+            String where = "R glm() and sandwich, tutoring-poisson-expected.csv ("
+                    + ReferenceFiles.versions("multiway-glm-versions.txt") + "), " + key;
+            assertTrue(r.status(slot).startsWith(row.get("status")), where + " status: " + r.status(slot));
+            if (!row.get("status").equals("ok")) {
+                notPositive++;
+                continue;
+            }
+            SparkParityTest.assertClose(Double.parseDouble(row.get("std_error")), r.stdError(slot), R_GLM_RELATIVE,
+                    where + " std_error");
+            SparkParityTest.assertClose(Double.parseDouble(row.get("effect_std_error")), r.effectStdError(slot),
+                    R_GLM_RELATIVE, where + " effect_std_error");
+            checked++;
+        }
+        assertTrue(checked > 0, checked + " multi-way specifications checked against R");
+        assertTrue(notPositive > 0, "the plan has multi-way variances that are not positive");
     }
 
     /** Both runs of one plan, every specification compared; returns the Spark run. */

@@ -5,16 +5,14 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): two or more absorbed columns (their within
- * transformation iterates over the rows) and, beside a generalized linear model, multi-way clustering (its
- * scores' sums per intersection are not made from the partitions); beside null draws, the permutation and
- * generalized linear models (each draw would refit them by iterations over the draw's rows, which
+ * transformation iterates over the rows); beside null draws, the permutation and generalized linear models
+ * (each draw would refit them by iterations over the draw's rows, which
  * {@link org.forkscape.fit.BootstrapByParts} does not make).
  */
 final class SparkRefusals {
@@ -28,7 +26,6 @@ final class SparkRefusals {
         if (plan.nullDraws() > 0) {
             nullDraws(plan);
         }
-        String glm = generalizedLinear(plan);
         for (int i = 0; i < ds.size(); i++) {
             Decision d = ds.get(i);
             if (d instanceof Decision.Absorb a) {
@@ -48,32 +45,8 @@ final class SparkRefusals {
                                 + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
                     }
                 }
-            } else if (d instanceof Decision.Errors e && glm != null) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    ErrorType t = e.alternatives().get(j);
-                    if (t.multiway()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", t.label()
-                                + " beside " + glm + " is not computed on Spark (a generalized linear model's "
-                                + "multi-way cluster sums of its scores are not made from the partitions; least "
-                                + "squares' are)" + WAY_OUT);
-                    }
-                }
             }
         }
-    }
-
-    /** The first generalized linear model the plan fits, as spelled; null for least squares alone. */
-    private static String generalizedLinear(Plan plan) {
-        for (Decision d : plan.decisions()) {
-            if (d instanceof Decision.Model m) {
-                for (ModelFamily f : m.alternatives()) {
-                    if (!f.leastSquares()) {
-                        return f.spelling();
-                    }
-                }
-            }
-        }
-        return null;
     }
 
     /**

@@ -30,7 +30,9 @@ import org.junit.jupiter.params.provider.ValueSource;
  * plan (Poisson beside least squares, HC1 and school clusters, the absorbed zone, a winsorize, a sample
  * rule), and three of the GLM reference plans of {@code src/test/r/glm-reference.R} (birthwt-smoking: logit
  * and probit, classical, HC0 to HC3 and age clusters, with and without the absorbed race, a 0/1 key;
- * quine: Poisson with HC2 and HC3 beside the absorbed age group; school: separation among the statuses).
+ * quine: Poisson with HC2 and HC3 beside the absorbed age group; school: separation among the statuses), the
+ * weighted water-survey Poisson and logit plans, and the tutoring logit, probit and Poisson plans of
+ * {@code src/test/r/multiway-glm-reference.R} (two- and three-way cluster errors).
  * The route is asserted: every fitted generalized linear specification came from the passes over the parts,
  * in fewer rounds than passes. The largest differences go to {@code target/parts-reports/}.
  */
@@ -61,6 +63,46 @@ class GlmFitsByPartsTest {
     void weightedPoissonAndLogit(int slices) {
         compare(ReferenceFiles.path("water-poisson-plan.json"), "water-poisson", slices);
         compare(ReferenceFiles.path("water-logit-plan.json"), "water-logit", slices);
+    }
+
+    /**
+     * Multi-way cluster errors (school+term and school+term+tutor; tutoring-logit-plan.json,
+     * tutoring-probit-plan.json and tutoring-poisson-plan.json, checked against R's glm with
+     * {@code sandwich::vcovCL(type = "HC1", cadjust = TRUE, multi0 = FALSE)} on one machine by
+     * RMultiwayGlmReferenceTest, from {@code src/test/r/multiway-glm-reference.R}): each component's cluster
+     * sums from the parts, the intersections' clusters numbered by their keys over the whole table. The route
+     * is asserted: the multi-way specifications were fitted from the parts with a standard error.
+     */
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void multiwayClusters(int slices) {
+        for (String model : new String[] {"logit", "probit", "poisson"}) {
+            Path planFile = ReferenceFiles.path("tutoring-" + model + "-plan.json");
+            RunResult parts = compare(planFile, "tutoring-" + model, slices);
+            assertTrue(multiwayWithError(parts) > 0, model + ": multi-way specifications fitted from the parts");
+        }
+    }
+
+    /** The fitted specifications of a run whose error type is multi-way and whose standard error is a number. */
+    static long multiwayWithError(RunResult run) {
+        org.forkscape.plan.SpecificationSpace space = run.models().space();
+        int errors = -1;
+        for (int d = 0; d < space.decisionCount(); d++) {
+            if (space.decisions().get(d) instanceof org.forkscape.plan.Decision.Errors) {
+                errors = d;
+            }
+        }
+        org.forkscape.plan.Decision.Errors decision = (org.forkscape.plan.Decision.Errors) space.decisions().get(errors);
+        long[] choices = new long[space.decisionCount()];
+        long count = 0;
+        for (int slot = 0; slot < run.results().size(); slot++) {
+            space.decode(run.results().specIndex(slot), choices);
+            if (decision.alternatives().get((int) choices[errors]).multiway() && run.results().fitted(slot)
+                    && Double.isFinite(run.results().stdError(slot))) {
+                count++;
+            }
+        }
+        return count;
     }
 
     @ParameterizedTest(name = "{0} parts")

@@ -30,6 +30,7 @@ public final class GeneralizedLinear implements Estimator {
     private int twoValuedColumn = -1;
     private boolean twoValued;
     private double[] startBeta = new double[0];
+    private double[] rowGradient = new double[0];
 
     /** Whether a start's kept information serves the child's first pass ({@link Irls.Information}). */
     private final boolean reuseInformation;
@@ -171,7 +172,7 @@ public final class GeneralizedLinear implements Estimator {
      * nothing is absorbed. Judged against the column's within spread alone, a column that differs from a
      * function of the levels by rounding would keep a coefficient of noise.
      */
-    private boolean[] spannedByLevels(Moments mom, int[] cols) {
+    static boolean[] spannedByLevels(Moments mom, int[] cols) {
         DataVariant variant = mom.variant;
         if (!variant.absorbs) {
             return null;
@@ -248,64 +249,25 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     /**
-     * The average marginal effect of the key predictor (Bartus 2005, "Estimation of marginal effects using
-     * margeff", Stata Journal 5(3); Cameron &amp; Trivedi 2005, Microeconometrics, Cambridge University Press,
-     * section 14.3): for a key predictor recorded as 0 and 1 alone, the mean over the rows of
-     * mu(eta_i at 1) - mu(eta_i at 0); otherwise the mean of d mu / d x = mu'(eta_i) b. With prior weights
-     * the mean is the weighted mean, sum w_i (...) / sum w_i (the effect averaged over the population the
-     * weights stand for). Fills its gradient in the coefficients (levels, columns) for the delta method.
+     * The average marginal effect of the key predictor ({@link MarginalEffect}), its gradient summed per
+     * level for the delta method.
      */
     private double marginalEffect(GlmFamily f, int keyColumn, Moments mom, double[] levelGradient,
             double[] columnGradient, double b) {
-        int n = rows.n;
-        int p = rows.p;
-        int key = p - 1;
         double[] recorded = mom.variant.coded.recorded[keyColumn];
-        boolean twoValued = twoValued(mom, keyColumn, recorded);
-        double sum = 0;
-        double[] x = rows.x;
-        double[] prior = rows.prior;
-        double total = 0;
-        for (int i = 0, at = 0; i < n; i++, at += p) {
-            int l = rows.level[i];
-            double eta = irls.eta[i];
-            double w = prior == null ? 1 : prior[i];
-            total += w;
-            if (twoValued) {
-                double raw = recorded[rows.source[i]];
-                double eta1 = eta + b * (1 - raw);
-                double eta0 = eta - b * raw;
-                // the row's own value gives back its fitted mean (eta + b 0 is eta): one mean computed, not two
-                double m1 = raw == 1 ? irls.mu[i] : f.mean(eta1);
-                double m0 = raw == 0 ? irls.mu[i] : f.mean(eta0);
-                double s1 = w * f.meanSlope(eta1, m1);
-                double s0 = w * f.meanSlope(eta0, m0);
-                sum += w * (m1 - m0);
-                levelGradient[l] += s1 - s0;
-                for (int j = 0; j < key; j++) {
-                    columnGradient[j] += (s1 - s0) * x[at + j];
-                }
-                columnGradient[key] += s1 * (x[at + key] + 1 - raw) - s0 * (x[at + key] - raw);
-            } else {
-                double mean = irls.mu[i];
-                double unitSlope = f.meanSlope(eta, mean);
-                double slope = w * unitSlope;
-                double curvature = w * f.meanCurvature(eta, mean, unitSlope) * b;
-                sum += slope;
-                levelGradient[l] += curvature;
-                for (int j = 0; j < p; j++) {
-                    columnGradient[j] += curvature * x[at + j];
-                }
-                columnGradient[key] += slope;
-            }
+        if (rowGradient.length < rows.n) {
+            rowGradient = new double[rows.n];
         }
+        double effect = MarginalEffect.of(f, rows, irls.eta, irls.mu, irls.kept, recorded,
+                twoValued(mom, keyColumn, recorded), b, rowGradient, columnGradient);
+        for (int i = 0; i < rows.n; i++) {
+            levelGradient[rows.level[i]] += rowGradient[i];
+        }
+        double total = MarginalEffect.total(rows);
         for (int l = 0; l < rows.levels; l++) {
             levelGradient[l] /= total;
         }
-        for (int j = 0; j < p; j++) {
-            columnGradient[j] = irls.kept[j] ? columnGradient[j] / total : 0;
-        }
-        return twoValued ? sum / total : b * sum / total;
+        return effect;
     }
 
     /**
@@ -326,19 +288,14 @@ public final class GeneralizedLinear implements Estimator {
     /** Whether the key predictor is recorded as 0 and 1 alone in these rows (observed data; kept from the last call). */
     private boolean twoValued(Moments mom, int keyColumn, double[] recorded) {
         if (mom != twoValuedRows || keyColumn != twoValuedColumn) {
-            boolean only = true;
-            for (int i = 0; i < rows.n && only; i++) {
-                double x = recorded[rows.source[i]];
-                only = x == 0 || x == 1;
-            }
-            twoValued = only;
+            twoValued = MarginalEffect.recordedAsZeroOne(rows, recorded);
             twoValuedRows = mom;
             twoValuedColumn = keyColumn;
         }
         return twoValued;
     }
 
-    private static FitStatus keyStatus(Moments mom, int keyColumn) {
+    static FitStatus keyStatus(Moments mom, int keyColumn) {
         return switch (dropReason(mom, keyColumn)) {
             case CONSTANT -> FitStatus.CONSTANT_KEY;
             case FIXED_EFFECTS -> FitStatus.KEY_IN_FIXED_EFFECTS;
@@ -363,7 +320,11 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     private String separation(ModelFamily family) {
-        int count = irls.boundaryRows;
+        return separation(family, irls.boundaryRows);
+    }
+
+    /** The separation status's detail for {@code count} rows at the boundary. */
+    static String separation(ModelFamily family, int count) {
         String rowsText = count + " row" + (count == 1 ? "" : "s");
         return family == ModelFamily.POISSON
                 ? "the fitted means of " + rowsText + " with outcome 0 are 0; the maximum likelihood estimate does "
@@ -374,10 +335,15 @@ public final class GeneralizedLinear implements Estimator {
 
     /** The controls dropped as collinear, in the words of the least-squares note. */
     private String droppedNote(Moments mom, SpecificationModel spec) {
+        return droppedNote(mom, spec, irls.kept);
+    }
+
+    /** The controls not {@code kept}, in the words of the least-squares note. */
+    static String droppedNote(Moments mom, SpecificationModel spec, boolean[] kept) {
         int[] cols = spec.factorOrder();
         java.util.Map<String, java.util.List<String>> dropped = new java.util.LinkedHashMap<>();
         for (int j = 0; j < cols.length - 1; j++) {
-            if (!irls.kept[j]) {
+            if (!kept[j]) {
                 dropped.computeIfAbsent(dropReason(mom, cols[j]).words, r -> new java.util.ArrayList<>())
                         .add(mom.variant.layout.columnName(cols[j]));
             }

@@ -40,6 +40,7 @@ final class GlmCovariance {
     /** Per component: the cluster codes in use, 0..cellCount-1. */
     private int[] cellCount = new int[0];
     private double[] centred = new double[0];
+    private int[] identity = new int[0];
 
     /**
      * The variances of {@code count} combinations, gradient {@code levelGradients[m]} over the levels and
@@ -84,11 +85,110 @@ final class GlmCovariance {
             }
             out[m] = classical;
         }
-        ErrorType.Kind kind = errors.kind();
-        if (kind == ErrorType.Kind.CLASSICAL) {
+        if (errors.kind() == ErrorType.Kind.CLASSICAL) {
             return out;
         }
-        int k = levels + fit.keptCount;
+        return robust(rows, rows.x, fit.score, alongLevels, rows.level, fit, errors, levels + fit.keptCount, count,
+                out);
+    }
+
+    /**
+     * The variances of {@code count} combinations of a fit beside two or more absorbed columns
+     * ({@link SeveralEffectsIrls}), each given as sum_i c_i z_i + (0, e) with z_i = (d_i, x_i) row i of the
+     * design with every set of dummies written out: {@code rowGradients[m]} holds c (null for 0) and
+     * {@code columnGradients[m]} the combination's whole column part g_b = X'c + e. With W the working
+     * weights, q = c / w and ~ the weighted within transformation, the partitioned inverse of Z'WZ gives
+     * I^- g per row as a_i = z_i'I^- g = (q_i - q~_i) + x~_i'v, v = (X~'WX~)^-1 (g_b - (X - X~)'c), and
+     * g'I^- g = sum c_i a_i + (g_b - X'c)'v (the fixed effects' block is eliminated exactly, whatever
+     * generalised inverse of the dummies is taken, since g lies in the row space of Z). The sandwiches then
+     * read a_i as the one-column case reads its level's part plus x_i'v. HC2 and HC3 are not computed here.
+     *
+     * @param rank the rank of the dummies over the fit's rows (K = rank + kept columns)
+     */
+    double[] variancesAcrossEffects(SeveralEffectsIrls fit, ErrorType errors, int rank, double[][] rowGradients,
+            double[][] columnGradients, int count) {
+        failure = null;
+        failureDetail = "";
+        clusters = 0;
+        GlmRows rows = fit.rows;
+        int n = rows.n;
+        int p = rows.p;
+        grow(count, p, n);
+        if (identity.length < n) {
+            identity = new int[n];
+            for (int i = 0; i < n; i++) {
+                identity[i] = i;
+            }
+        }
+        double[] out = new double[count];
+        double[] x = rows.x;
+        double[] xw = fit.within;
+        for (int m = 0; m < count; m++) {
+            double[] v = along[m];
+            double[] a = alongLevels[m];
+            double[] c = rowGradients[m];
+            double[] g = columnGradients[m];
+            System.arraycopy(g, 0, v, 0, p);
+            double[] e = java.util.Arrays.copyOf(g, p);
+            if (c == null) {
+                java.util.Arrays.fill(a, 0, n, 0);
+            } else {
+                for (int i = 0; i < n; i++) {
+                    a[i] = c[i] / fit.weight[i];
+                }
+                double[] projected = java.util.Arrays.copyOf(a, n);
+                fit.centre(projected);
+                if (!fit.projections.demean(projected)) {
+                    failure = FitStatus.NOT_CONVERGED;
+                    failureDetail = AlternatingProjections.MAX_ITERATIONS + " fixed-effect demeaning";
+                    return null;
+                }
+                for (int i = 0, at = 0; i < n; i++, at += p) {
+                    a[i] -= projected[i];
+                    for (int j = 0; j < p; j++) {
+                        v[j] -= (x[at + j] - xw[at + j]) * c[i];
+                        e[j] -= x[at + j] * c[i];
+                    }
+                }
+            }
+            fit.solveFactored(v, p);
+            double classical = 0;
+            for (int i = 0, at = 0; i < n; i++, at += p) {
+                if (c != null) {
+                    double ai = a[i];
+                    for (int j = 0; j < p; j++) {
+                        ai += xw[at + j] * v[j];
+                    }
+                    classical += c[i] * ai;
+                }
+            }
+            for (int j = 0; j < p; j++) {
+                if (fit.kept[j]) {
+                    classical += e[j] * v[j];
+                }
+            }
+            out[m] = classical;
+        }
+        if (errors.kind() == ErrorType.Kind.CLASSICAL) {
+            return out;
+        }
+        if (errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3) {
+            throw new IllegalStateException("HC2 and HC3 are refused beside two or more absorbed columns");
+        }
+        return robust(rows, xw, fit.score, alongLevels, identity, null, errors, rank + fit.keptCount, count, out);
+    }
+
+    /**
+     * The sandwiches of {@code count} combinations from each row's part a_i = offsets[m][index[i]] + x_i'v_m
+     * (v_m in {@link #along}) and score: HC0, HC1, HC2 and HC3 (leverages from {@code leverageFit}, which may
+     * be null for the other types) and the clusters.
+     */
+    private double[] robust(GlmRows rows, double[] x, double[] score, double[][] offsets, int[] index, Irls leverageFit,
+            ErrorType errors, int k, int count, double[] out) {
+        Irls fit = leverageFit;
+        int n = rows.n;
+        int p = rows.p;
+        ErrorType.Kind kind = errors.kind();
         boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
         boolean cluster = kind == ErrorType.Kind.CLUSTER;
         List<ClusterComponents.Component> components = cluster ? ClusterComponents.of(errors) : List.of();
@@ -112,10 +212,9 @@ final class GlmCovariance {
             }
         }
         java.util.Arrays.fill(meat, 0, count, 0);
-        double[] x = rows.x;
         for (int i = 0, at = 0; i < n; i++, at += p) {
-            int l = rows.level[i];
-            double s = fit.score[i];
+            int l = index[i];
+            double s = score[i];
             double omega = 1;
             if (leverage) {
                 double h = fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit, x, at, l, p));
@@ -131,8 +230,8 @@ final class GlmCovariance {
                 // sums, each sum the same expression as in the loop below
                 double[] v0 = along[0];
                 double[] v1 = along[1];
-                double c0 = alongLevels[0][l];
-                double c1 = alongLevels[1][l];
+                double c0 = offsets[0][l];
+                double c1 = offsets[1][l];
                 for (int j = 0; j < p; j++) {
                     double xj = x[at + j];
                     c0 += xj * v0[j];
@@ -155,7 +254,7 @@ final class GlmCovariance {
             }
             for (int m = 0; m < count; m++) {
                 double[] v = along[m];
-                double c = alongLevels[m][l];
+                double c = offsets[m][l];
                 for (int j = 0; j < p; j++) {
                     c += x[at + j] * v[j];
                 }

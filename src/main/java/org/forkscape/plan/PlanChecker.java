@@ -44,6 +44,7 @@ public final class PlanChecker {
                     }
                     if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
                         problems.attempt(() -> leverageLevels(t, p, plan, table));
+                        problems.attempt(() -> noGlmLeverageBesideSeveral(t, p, plan));
                     }
                 }
             } else if (d instanceof Decision.Model m) {
@@ -63,13 +64,13 @@ public final class PlanChecker {
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
-                    if (cols.size() > 1 && plan.generalized()) {
+                    if (cols.size() > 1 && plan.generalized() && plan.nullDraws() > 0) {
                         String p = path + ".alternatives[" + j + "].columns";
                         problems.attempt(() -> {
-                            throw new PlanException(p, "several fixed-effect columns are absorbed for least squares "
-                                    + "(ols) only; logit, probit and poisson enter fixed effects as dummies of one "
-                                    + "column; absorb one column, or fit these specifications in a plan whose model "
-                                    + "decision is ols alone");
+                            throw new PlanException(p, "null draws are not made for logit, probit and poisson "
+                                    + "beside two or more absorbed columns; set nullDraws to 0 (--null-draws 0), "
+                                    + "absorb one column, or make the draws in a plan whose model decision is ols "
+                                    + "alone");
                         });
                     }
                     if (cols.size() > 2) {
@@ -80,7 +81,14 @@ public final class PlanChecker {
                     for (int k = 0; k < cols.size(); k++) {
                         String name = cols.get(k);
                         String p = path + ".alternatives[" + j + "].columns[" + k + "]";
-                        problems.attempt(() -> levelsForModels(existing(name, p, table), p, plan));
+                        // beside other columns the levels are projected out, not entered as coefficients
+                        boolean alone = cols.size() == 1;
+                        problems.attempt(() -> {
+                            Column c = existing(name, p, table);
+                            if (alone) {
+                                levelsForModels(c, p, plan);
+                            }
+                        });
                     }
                 }
             }
@@ -268,6 +276,23 @@ public final class PlanChecker {
 
     private static Object valueAt(Column c, int row) {
         return c instanceof CategoricalColumn cat ? (Object) cat.codes()[row] : (Object) ((NumericColumn) c).values()[row];
+    }
+
+    /**
+     * HC2 and HC3 of a logit, probit or Poisson model need the leverages of the weighted design with every set
+     * of dummies, which are computed for least squares only beside two or more absorbed columns.
+     */
+    private static void noGlmLeverageBesideSeveral(ErrorType t, String path, Plan plan) {
+        if (!plan.generalized()) {
+            return;
+        }
+        for (Decision d : plan.decisions()) {
+            if (d instanceof Decision.Absorb a && a.alternatives().stream().anyMatch(c -> c.columns().size() > 1)) {
+                throw new PlanException(path, t.label() + " is not computed for logit, probit and poisson beside "
+                        + "two or more absorbed columns (their leverages there are not exact); use HC0, HC1 or "
+                        + "cluster errors, or fit " + t.label() + " in a plan whose model decision is ols alone");
+            }
+        }
     }
 
     /** A generalized linear model enters absorbed fixed effects as coefficients: at most so many levels. */

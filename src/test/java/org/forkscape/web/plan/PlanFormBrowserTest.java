@@ -315,8 +315,9 @@ class PlanFormBrowserTest {
 
     /**
      * An absorb alternative edits several columns, one field each, with one more offered, and the check reports
-     * what the absorbed columns cannot be fitted with at its field: a logit at the list of columns; HC3 beside two
-     * or three is not flagged (their leverages are exact).
+     * what the absorbed columns cannot be fitted with at its field: HC3 beside two or three is not flagged for
+     * least squares (their leverages are exact), a logit beside them is not flagged either, but the logit's HC3
+     * is, at the error type.
      */
     @Test
     void anAbsorbAlternativeTakesTwoColumnsAndTheirProblemsShowAtTheirFields() throws Exception {
@@ -336,15 +337,20 @@ class PlanFormBrowserTest {
 
         addDecision("errors");
         new Select(field("decisions[3].alternatives[0]")).selectByValue("HC3");
+        click(driver.findElement(By.id("check-plan")));
+        wait.until(d -> jsonText().contains("\"HC3\""));
+        assertTrue(visibleProblems().stream().noneMatch(p -> p.get("where").startsWith("decisions[3]")),
+                "HC3 of least squares beside two absorbed columns is not a problem: " + visibleProblems());
         addDecision("model");
         press("Add an alternative to model");
         click(driver.findElement(By.id("check-plan")));
-        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals("decisions[2].alternatives[1].columns")));
+        String hc3 = "decisions[3].alternatives[0]";
+        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals(hc3)));
         List<Map<String, String>> shown = visibleProblems();
-        assertTrue(shown.stream().noneMatch(p -> p.get("where").startsWith("decisions[3]")),
-                "HC3 beside two absorbed columns is not a problem: " + shown);
+        assertTrue(shown.stream().noneMatch(p -> p.get("where").startsWith("decisions[2]")),
+                "a logit beside two absorbed columns is not a problem: " + shown);
 
-        // a third column is offered and taken; HC3 beside three is not a problem either, the logit still is
+        // a third column is offered and taken; the logit's HC3 beside three is still a problem, the columns not
         new Select(wait.until(d -> field("decisions[2].alternatives[1].columns[2]"))).selectByValue("region");
         wait.until(d -> jsonText().contains("\"columns\": [\n            \"district\",\n            \"urban\",\n"
                 + "            \"region\"\n          ]"));
@@ -352,19 +358,16 @@ class PlanFormBrowserTest {
                 .size(), "a fourth column is offered");
         driver.executeScript("document.querySelectorAll('.problem').forEach(p => { p.hidden = true; });");
         click(driver.findElement(By.id("check-plan")));
-        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals("decisions[2].alternatives[1].columns")));
-        assertTrue(visibleProblems().stream().noneMatch(p -> p.get("where").startsWith("decisions[3]")),
-                "HC3 beside three absorbed columns is not a problem: " + visibleProblems());
+        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals(hc3)));
+        shown = visibleProblems();
+        assertTrue(shown.stream().noneMatch(p -> p.get("where").startsWith("decisions[2]")),
+                "a logit beside three absorbed columns is not a problem: " + shown);
+        Map<String, String> glm = shown.stream().filter(p -> p.get("where").equals(hc3)).findFirst().orElseThrow();
+        assertEquals(hc3, glm.get("field"));
+        assertTrue(glm.get("text").contains("HC3 is not computed for logit, probit and poisson beside two or more "
+                + "absorbed columns"), glm.toString());
         new Select(field("decisions[2].alternatives[1].columns[2]")).selectByValue("");
         wait.until(d -> jsonText().contains("\"columns\": [\n            \"district\",\n            \"urban\"\n          ]"));
-        click(driver.findElement(By.id("check-plan")));
-        wait.until(d -> visibleProblems().stream().anyMatch(p -> p.get("where").equals("decisions[2].alternatives[1].columns")));
-        shown = visibleProblems();
-        Map<String, String> glm = shown.stream().filter(p -> p.get("where").equals("decisions[2].alternatives[1].columns"))
-                .findFirst().orElseThrow();
-        assertEquals("decisions[2].alternatives[1].columns", glm.get("field"));
-        assertTrue(glm.get("text").startsWith("Decision 3 (fixed effects), second alternative, the fixed-effect "
-                + "columns: several fixed-effect columns are absorbed for least squares"), glm.toString());
         BrowserDriver.screenshot(driver, "plan-absorb-two-columns");
 
         // choosing no column for the second field leaves one absorbed column

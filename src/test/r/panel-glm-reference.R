@@ -24,7 +24,8 @@
 #                                  effects alone, and the status
 #   panel-glm-versions.txt         the R and sandwich versions that produced them
 #
-# Errors as README states them for a glm: classical = vcov(fit); HC0, HC1 = vcovHC(fit, type = ...);
+# Errors as README states them for a glm: classical = vcov(fit); HC0-HC3 = vcovHC(fit, type = ...), HC2
+# and HC3 with the working-weighted hat values of the design with every set of dummies (hatvalues);
 # cluster:a = vcovCL(fit, cluster = ~ a, type = "HC0", cadjust = TRUE) (vcovCL's glm default);
 # cluster:a+b = vcovCL(fit, cluster = ~ a + b, type = "HC1", cadjust = TRUE, multi0 = FALSE).
 # The plans are not parsed: their multiverses are written out below with loops, in each plan's decision
@@ -201,7 +202,7 @@ predictors <- list(list(label = "hours", column = "hours", binary = FALSE),
 absorbs <- list(list(label = "classroom and term", columns = c("classroom", "term")),
                 list(label = "classroom, term and tutor", columns = c("classroom", "term", "tutor")))
 weights <- list(list(label = "unweighted", column = character(0)), list(label = "prior", column = "weight"))
-errors <- c("classical", "HC0", "HC1", "cluster:classroom", "cluster:classroom+term")
+errors <- c("classical", "HC0", "HC1", "HC2", "HC3", "cluster:classroom", "cluster:classroom+term")
 
 glm_plan <- function(outcome, model, family, file) {
   rows <- list()

@@ -41,6 +41,7 @@ final class GlmCovariance {
     private int[] cellCount = new int[0];
     private double[] centred = new double[0];
     private int[] identity = new int[0];
+    private double[] rowLeverage = new double[0];
 
     /**
      * The variances of {@code count} combinations, gradient {@code levelGradients[m]} over the levels and
@@ -88,8 +89,8 @@ final class GlmCovariance {
         if (errors.kind() == ErrorType.Kind.CLASSICAL) {
             return out;
         }
-        return robust(rows, rows.x, fit.score, alongLevels, rows.level, fit, errors, levels + fit.keptCount, count,
-                out);
+        return robust(rows, rows.x, fit.score, alongLevels, rows.level, fit, null, errors, levels + fit.keptCount,
+                count, out);
     }
 
     /**
@@ -101,12 +102,16 @@ final class GlmCovariance {
      * I^- g per row as a_i = z_i'I^- g = (q_i - q~_i) + x~_i'v, v = (X~'WX~)^-1 (g_b - (X - X~)'c), and
      * g'I^- g = sum c_i a_i + (g_b - X'c)'v (the fixed effects' block is eliminated exactly, whatever
      * generalised inverse of the dummies is taken, since g lies in the row space of Z). The sandwiches then
-     * read a_i as the one-column case reads its level's part plus x_i'v. HC2 and HC3 are not computed here.
+     * read a_i as the one-column case reads its level's part plus x_i'v; HC2 and HC3 take the hat values of the
+     * weighted design with every set of dummies, {@code dummies}' part (built at the estimate's working weights)
+     * plus w_i x~_i'(X~'WX~)^-1 x~_i.
      *
-     * @param rank the rank of the dummies over the fit's rows (K = rank + kept columns)
+     * @param rank    the rank of the dummies over the fit's rows (K = rank + kept columns)
+     * @param dummies the dummies' leverages at the estimate's working weights, indexed by the fit's rows; read
+     *                for HC2 and HC3 only (null otherwise)
      */
-    double[] variancesAcrossEffects(SeveralEffectsIrls fit, ErrorType errors, int rank, double[][] rowGradients,
-            double[][] columnGradients, int count) {
+    double[] variancesAcrossEffects(SeveralEffectsIrls fit, ErrorType errors, int rank, DummyLeverage dummies,
+            double[][] rowGradients, double[][] columnGradients, int count) {
         failure = null;
         failureDetail = "";
         clusters = 0;
@@ -172,19 +177,35 @@ final class GlmCovariance {
         if (errors.kind() == ErrorType.Kind.CLASSICAL) {
             return out;
         }
+        double[] leverages = null;
         if (errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3) {
-            throw new IllegalStateException("HC2 and HC3 are refused beside two or more absorbed columns");
+            if (dummies.illConditioned()) {
+                failure = FitStatus.LEVERAGE_ILL_CONDITIONED;
+                failureDetail = errors.label();
+                return null;
+            }
+            // the hat values of the weighted design with every set of dummies: by Frisch-Waugh-Lovell the
+            // dummies' part plus the projected columns' (Davidson & MacKinnon 2004, sections 2.4 and 2.6)
+            if (rowLeverage.length < n) {
+                rowLeverage = new double[n];
+            }
+            leverages = rowLeverage;
+            for (int i = 0, at = 0; i < n; i++, at += p) {
+                leverages[i] = dummies.at(i) + fit.weight[i] * withinLeverage(fit.kept, fit.factor, null, xw, at, 0, p);
+            }
         }
-        return robust(rows, xw, fit.score, alongLevels, identity, null, errors, rank + fit.keptCount, count, out);
+        return robust(rows, xw, fit.score, alongLevels, identity, null, leverages, errors, rank + fit.keptCount,
+                count, out);
     }
 
     /**
      * The sandwiches of {@code count} combinations from each row's part a_i = offsets[m][index[i]] + x_i'v_m
-     * (v_m in {@link #along}) and score: HC0, HC1, HC2 and HC3 (leverages from {@code leverageFit}, which may
+     * (v_m in {@link #along}) and score: HC0, HC1, HC2 and HC3 (leverages {@code rowLeverages} per row when given,
+     * else from {@code leverageFit}, which may
      * be null for the other types) and the clusters.
      */
     private double[] robust(GlmRows rows, double[] x, double[] score, double[][] offsets, int[] index, Irls leverageFit,
-            ErrorType errors, int k, int count, double[] out) {
+            double[] rowLeverages, ErrorType errors, int k, int count, double[] out) {
         Irls fit = leverageFit;
         int n = rows.n;
         int p = rows.p;
@@ -217,7 +238,9 @@ final class GlmCovariance {
             double s = score[i];
             double omega = 1;
             if (leverage) {
-                double h = fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit, x, at, l, p));
+                double h = rowLeverages != null ? rowLeverages[i]
+                        : fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit.kept, fit.factor, fit.levelMean,
+                                x, at, l, p));
                 if (!(h < 1 - 1e-10)) {
                     failure = FitStatus.LEVERAGE_ONE;
                     failureDetail = errors.label();
@@ -330,21 +353,25 @@ final class GlmCovariance {
         return out;
     }
 
-    /** (x_i - xbar_l)' S^-1 (x_i - xbar_l) over the kept columns, S the factored within information. */
-    private double withinLeverage(Irls fit, double[] x, int at, int l, int p) {
+    /**
+     * (x_i - xbar_l)' S^-1 (x_i - xbar_l) over the kept columns, S = L L' the factored within information
+     * ({@code factor}); {@code levelMean} null for rows already projected (xbar 0).
+     */
+    private double withinLeverage(boolean[] kept, double[] factor, double[] levelMean, double[] x, int at, int l,
+            int p) {
         double sum = 0;
         for (int j = 0; j < p; j++) {
-            if (!fit.kept[j]) {
+            if (!kept[j]) {
                 centred[j] = 0;
                 continue;
             }
-            double s = x[at + j] - fit.levelMean[l * p + j];
+            double s = levelMean == null ? x[at + j] : x[at + j] - levelMean[l * p + j];
             for (int k = 0; k < j; k++) {
-                if (fit.kept[k]) {
-                    s -= fit.factor[j * p + k] * centred[k];
+                if (kept[k]) {
+                    s -= factor[j * p + k] * centred[k];
                 }
             }
-            centred[j] = s / fit.factor[j * p + j];
+            centred[j] = s / factor[j * p + j];
             sum += centred[j] * centred[j];
         }
         return sum;

@@ -10,7 +10,7 @@ import org.forkscape.plan.ModelFamily;
  * {@code glm} with a {@code factor()} term for every absorbed column, fitted by {@link SeveralEffectsIrls}
  * (scoring whose weighted least-squares steps absorb the dummies by weighted alternating projections) and
  * reported as {@link GeneralizedLinear} reports one absorbed column: the key coefficient with its classical,
- * HC0, HC1 or cluster-robust standard error ({@link GlmCovariance#variancesAcrossEffects}), the average
+ * HC0-HC3 or cluster-robust standard error ({@link GlmCovariance#variancesAcrossEffects}), the average
  * marginal effect ({@link MarginalEffect}) with its delta-method error, the residual deviance, McFadden's
  * pseudo-R-squared and the likelihood-ratio test against the model with the fixed effects alone (itself
  * fitted by the same iterations with no columns). K counts the dummies by their rank over the rows
@@ -93,8 +93,8 @@ final class SeveralEffectsGlm implements Estimator {
             columnGradients[j][j] = 1;
         }
         Moments mom = data.moments(spec.variableMask());
-        double[] variance = covariance.variancesAcrossEffects(irls, spec.errors(), mom.levelsPresent, rowGradients,
-                columnGradients, p);
+        double[] variance = covariance.variancesAcrossEffects(irls, spec.errors(), mom.levelsPresent,
+                leverages(spec.errors(), lastCodes, levelCounts), rowGradients, columnGradients, p);
         if (variance == null) {
             variance = new double[p];
             java.util.Arrays.fill(variance, Double.NaN);
@@ -118,6 +118,26 @@ final class SeveralEffectsGlm implements Estimator {
     }
 
     private int[] levelCounts = new int[0];
+    private int[][] lastCodes;
+
+    /**
+     * For HC2 and HC3, the dummies' part of each row's hat value at the estimate's working weights
+     * ({@link CrossedDummyLeverage} for two columns, {@link SeveralDummyLeverage} for three or more, as least
+     * squares takes them with analytic weights); null for the other types.
+     */
+    private DummyLeverage leverages(ErrorType errors, int[][] codes, int[] levels) {
+        if (errors.kind() != ErrorType.Kind.HC2 && errors.kind() != ErrorType.Kind.HC3) {
+            return null;
+        }
+        int n = rows.n;
+        int[] all = new int[n];
+        for (int i = 0; i < n; i++) {
+            all[i] = i;
+        }
+        double[] w = java.util.Arrays.copyOf(irls.weight, n);
+        return codes.length == 2 ? CrossedDummyLeverage.of(codes[0], levels[0], codes[1], levels[1], w, all)
+                : SeveralDummyLeverage.of(codes, levels, all, w, n);
+    }
 
     /** Each absorbed column's level of every row, renumbered densely over these rows. */
     private int[][] dimensionCodes(DataVariant v, GlmRows r) {
@@ -128,6 +148,7 @@ final class SeveralEffectsGlm implements Estimator {
         for (int d = 0; d < dims.length; d++) {
             levelCounts[d] = SeveralEffectsWithin.renumber(dims[d], v.coded.dimensionLevels[d], source, codes[d]);
         }
+        lastCodes = codes;
         return codes;
     }
 
@@ -174,7 +195,8 @@ final class SeveralEffectsGlm implements Estimator {
         for (int i = 0; i < n; i++) {
             rowGradients[1][i] = rowGradient[i] / total;
         }
-        double[] v = covariance.variancesAcrossEffects(irls, spec.errors(), rank, rowGradients, columnGradients, 2);
+        double[] v = covariance.variancesAcrossEffects(irls, spec.errors(), rank, leverages(spec.errors(), codes,
+                levels), rowGradients, columnGradients, 2);
         GlmLikelihoods.NullModel none = nullModel(mom, spec.outcomeColumn(), f, codes, levels);
         if (none == null) {
             return KeyFit.failed(family, FitStatus.NOT_CONVERGED, "the null model's " + nullIrls.iterations, n, k);

@@ -44,7 +44,6 @@ public final class PlanChecker {
                     }
                     if (t.kind() == ErrorType.Kind.HC2 || t.kind() == ErrorType.Kind.HC3) {
                         problems.attempt(() -> leverageLevels(t, p, plan, table));
-                        problems.attempt(() -> noGlmLeverageBesideSeveral(t, p, plan));
                     }
                 }
             } else if (d instanceof Decision.Model m) {
@@ -276,23 +275,6 @@ public final class PlanChecker {
 
     private static Object valueAt(Column c, int row) {
         return c instanceof CategoricalColumn cat ? (Object) cat.codes()[row] : (Object) ((NumericColumn) c).values()[row];
-    }
-
-    /**
-     * HC2 and HC3 of a logit, probit or Poisson model need the leverages of the weighted design with every set
-     * of dummies, which are computed for least squares only beside two or more absorbed columns.
-     */
-    private static void noGlmLeverageBesideSeveral(ErrorType t, String path, Plan plan) {
-        if (!plan.generalized()) {
-            return;
-        }
-        for (Decision d : plan.decisions()) {
-            if (d instanceof Decision.Absorb a && a.alternatives().stream().anyMatch(c -> c.columns().size() > 1)) {
-                throw new PlanException(path, t.label() + " is not computed for logit, probit and poisson beside "
-                        + "two or more absorbed columns (their leverages there are not exact); use HC0, HC1 or "
-                        + "cluster errors, or fit " + t.label() + " in a plan whose model decision is ols alone");
-            }
-        }
     }
 
     /** A generalized linear model enters absorbed fixed effects as coefficients: at most so many levels. */

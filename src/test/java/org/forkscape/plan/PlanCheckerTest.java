@@ -58,7 +58,7 @@ class PlanCheckerTest {
 
     /**
      * Two absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact), and the GLMs
-     * too, but for their HC2 and HC3 and null draws.
+     * too, but for their null draws.
      */
     @Test
     void whatTwoAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
@@ -73,18 +73,14 @@ class PlanCheckerTest {
     }
 
     /**
-     * Logit, probit and Poisson beside two or more absorbed columns: every error type but HC2 and HC3, which are
-     * refused at the error type's path, and no null draws, refused at the absorbed columns.
+     * Logit, probit and Poisson beside two or more absorbed columns: every error type, HC2 and HC3 too, but no null
+     * draws, refused at the absorbed columns.
      */
     private void glmBesideSeveralColumns(String absorb, String columnsPath) {
         String model = "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]}";
         assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"), model,
                 "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
-                        + "\"cluster:district\", \"cluster:district+sector\"]}", absorb), SCHOOLS));
-        fails(plan(column("attendance"), column("tutoring"), model,
-                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"HC1\", \"HC3\"]}", absorb),
-                "decisions[3].alternatives[1]", "HC3 is not computed for logit, probit and poisson beside two or more "
-                        + "absorbed columns");
+                        + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", absorb), SCHOOLS));
         Plan withDraws = plan(column("attendance"), column("tutoring"), model, absorb);
         fails(withDraws.withNull(10, withDraws.nullMethod(), withDraws.nullCluster(), withDraws.seed()), columnsPath,
                 "null draws are not made for logit, probit and poisson");

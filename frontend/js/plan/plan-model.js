@@ -84,7 +84,9 @@ export const MISSING_HELP = Object.freeze({
 /** The line beside an absorb alternative: what absorbing one or several columns computes, and its source. */
 export const ABSORB_HELP = 'The same coefficients, standard errors and R-squared as entering every level as a '
   + 'dummy; two or more columns are crossed effects (as pupil and term), demeaned by alternating projections '
-  + '(Gaure 2013, Computational Statistics & Data Analysis 66), with least squares only; beside two, HC2 and HC3 '
+  + '(Gaure 2013, Computational Statistics & Data Analysis 66), for least squares and, inside each scoring step, '
+  + 'for logit, probit and Poisson (Correia, Guimar\u00e3es & Zylkin 2020, Stata Journal 20(1); there without null '
+  + 'draws); beside two, HC2 and HC3 '
   + 'take each row\u2019s exact leverage (Frisch\u2013Waugh\u2013Lovell; Davidson & MacKinnon 2004, Econometric '
   + 'Theory and Methods, 2.4 and 2.6) while the column with fewer levels has at most 2,000; beside three or more, '
   + 'K counts the dummies by their exact rank (computed modulo a prime and certified by exact null vectors) while '

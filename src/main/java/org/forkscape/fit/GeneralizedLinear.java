@@ -30,6 +30,7 @@ public final class GeneralizedLinear implements Estimator {
     private int twoValuedColumn = -1;
     private boolean twoValued;
     private double[] startBeta = new double[0];
+    private double[] rowGradient = new double[0];
 
     /** Whether a start's kept information serves the child's first pass ({@link Irls.Information}). */
     private final boolean reuseInformation;
@@ -215,7 +216,7 @@ public final class GeneralizedLinear implements Estimator {
      * nothing is absorbed. Judged against the column's within spread alone, a column that differs from a
      * function of the levels by rounding would keep a coefficient of noise.
      */
-    private boolean[] spannedByLevels(Moments mom, int[] cols) {
+    static boolean[] spannedByLevels(Moments mom, int[] cols) {
         DataVariant variant = mom.variant;
         if (!variant.absorbs) {
             return null;
@@ -292,12 +293,8 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     /**
-     * The average marginal effect of the key predictor (Bartus 2005, "Estimation of marginal effects using
-     * margeff", Stata Journal 5(3); Cameron &amp; Trivedi 2005, Microeconometrics, Cambridge University Press,
-     * section 14.3): for a key predictor recorded as 0 and 1 alone, the mean over the rows of
-     * mu(eta_i at 1) - mu(eta_i at 0); otherwise the mean of d mu / d x = mu'(eta_i) b. With prior weights
-     * the mean is the weighted mean, sum w_i (...) / sum w_i (the effect averaged over the population the
-     * weights stand for). Fills its gradient in the coefficients (levels, columns) for the delta method.
+     * The average marginal effect of the key predictor ({@link MarginalEffect}), its gradient summed per
+     * level for the delta method.
      */
     private double marginalEffect(GlmFamily f, int keyColumn, Moments mom, double[] levelGradient,
             double[] columnGradient, double b) {
@@ -310,8 +307,11 @@ public final class GeneralizedLinear implements Estimator {
             System.arraycopy(sums, 2, levelGradient, 0, rows.levels);
             System.arraycopy(sums, 2 + rows.levels, columnGradient, 0, p);
         } else {
-            sums = marginSums(rows, irls, f, mom.variant.coded.recorded[keyColumn], twoValued, b, levelGradient,
-                    columnGradient);
+            if (rowGradient.length < rows.n) {
+                rowGradient = new double[rows.n];
+            }
+            sums = marginSums(rows, irls, f, mom.variant.coded.recorded[keyColumn], twoValued, b, rowGradient,
+                    levelGradient, columnGradient);
         }
         double sum = sums[0];
         double total = sums[1];
@@ -326,54 +326,21 @@ public final class GeneralizedLinear implements Estimator {
 
     /**
      * The average marginal effect's sums over {@code rows} at the fit {@code irls} (its linear predictors and
-     * means for these rows): returns {the effect's sum, the rows' weight} and adds each row's gradient terms
-     * into {@code levelGradient} and {@code columnGradient}; every sum adds over parts of the rows.
+     * means for these rows, {@link MarginalEffect#sums}): returns {the effect's sum, the rows' weight} and adds
+     * each row's gradient terms into {@code levelGradient} (by the row's level) and {@code columnGradient};
+     * every sum adds over parts of the rows.
      *
-     * @param recorded the key predictor as recorded, by {@link GlmRows#source} row
+     * @param recorded    the key predictor as recorded, by {@link GlmRows#source} row
+     * @param rowGradient a buffer of at least the rows' count
      */
     static double[] marginSums(GlmRows rows, Irls irls, GlmFamily f, double[] recorded, boolean twoValued, double b,
-            double[] levelGradient, double[] columnGradient) {
-        int n = rows.n;
-        int p = rows.p;
-        int key = p - 1;
-        double sum = 0;
-        double[] x = rows.x;
-        double[] prior = rows.prior;
-        double total = 0;
-        for (int i = 0, at = 0; i < n; i++, at += p) {
-            int l = rows.level[i];
-            double eta = irls.eta[i];
-            double w = prior == null ? 1 : prior[i];
-            total += w;
-            if (twoValued) {
-                double raw = recorded[rows.source[i]];
-                double eta1 = eta + b * (1 - raw);
-                double eta0 = eta - b * raw;
-                // the row's own value gives back its fitted mean (eta + b 0 is eta): one mean computed, not two
-                double m1 = raw == 1 ? irls.mu[i] : f.mean(eta1);
-                double m0 = raw == 0 ? irls.mu[i] : f.mean(eta0);
-                double s1 = w * f.meanSlope(eta1, m1);
-                double s0 = w * f.meanSlope(eta0, m0);
-                sum += w * (m1 - m0);
-                levelGradient[l] += s1 - s0;
-                for (int j = 0; j < key; j++) {
-                    columnGradient[j] += (s1 - s0) * x[at + j];
-                }
-                columnGradient[key] += s1 * (x[at + key] + 1 - raw) - s0 * (x[at + key] - raw);
-            } else {
-                double mean = irls.mu[i];
-                double unitSlope = f.meanSlope(eta, mean);
-                double slope = w * unitSlope;
-                double curvature = w * f.meanCurvature(eta, mean, unitSlope) * b;
-                sum += slope;
-                levelGradient[l] += curvature;
-                for (int j = 0; j < p; j++) {
-                    columnGradient[j] += curvature * x[at + j];
-                }
-                columnGradient[key] += slope;
-            }
+            double[] rowGradient, double[] levelGradient, double[] columnGradient) {
+        double[] sums = MarginalEffect.sums(f, rows, irls.eta, irls.mu, recorded, twoValued, b, rowGradient,
+                columnGradient);
+        for (int i = 0; i < rows.n; i++) {
+            levelGradient[rows.level[i]] += rowGradient[i];
         }
-        return new double[] {sum, total};
+        return sums;
     }
 
     /**
@@ -398,26 +365,14 @@ public final class GeneralizedLinear implements Estimator {
     private boolean twoValued(Moments mom, int keyColumn) {
         if (mom != twoValuedRows || keyColumn != twoValuedColumn || rows.heldInParts != null) {
             twoValued = rows.heldInParts != null ? rows.startSums(irls.family)[4 * rows.levels + 2] == 0
-                    : otherThanZeroOrOne(rows, mom.variant.coded.recorded[keyColumn]) == 0;
+                    : MarginalEffect.otherThanZeroOrOne(rows, mom.variant.coded.recorded[keyColumn]) == 0;
             twoValuedRows = rows.heldInParts != null ? null : mom;
             twoValuedColumn = keyColumn;
         }
         return twoValued;
     }
 
-    /** The rows whose key value ({@code recorded} by {@link GlmRows#source} row) is neither 0 nor 1; adds over parts. */
-    static int otherThanZeroOrOne(GlmRows rows, double[] recorded) {
-        int count = 0;
-        for (int i = 0; i < rows.n; i++) {
-            double x = recorded[rows.source[i]];
-            if (!(x == 0 || x == 1)) {
-                count++;
-            }
-        }
-        return count;
-    }
-
-    private static FitStatus keyStatus(Moments mom, int keyColumn) {
+    static FitStatus keyStatus(Moments mom, int keyColumn) {
         return switch (dropReason(mom, keyColumn)) {
             case CONSTANT -> FitStatus.CONSTANT_KEY;
             case FIXED_EFFECTS -> FitStatus.KEY_IN_FIXED_EFFECTS;
@@ -442,7 +397,11 @@ public final class GeneralizedLinear implements Estimator {
     }
 
     private String separation(ModelFamily family) {
-        int count = irls.boundaryRows;
+        return separation(family, irls.boundaryRows);
+    }
+
+    /** The separation status's detail for {@code count} rows at the boundary. */
+    static String separation(ModelFamily family, int count) {
         String rowsText = count + " row" + (count == 1 ? "" : "s");
         return family == ModelFamily.POISSON
                 ? "the fitted means of " + rowsText + " with outcome 0 are 0; the maximum likelihood estimate does "
@@ -453,10 +412,15 @@ public final class GeneralizedLinear implements Estimator {
 
     /** The controls dropped as collinear, in the words of the least-squares note. */
     private String droppedNote(Moments mom, SpecificationModel spec) {
+        return droppedNote(mom, spec, irls.kept);
+    }
+
+    /** The controls not {@code kept}, in the words of the least-squares note. */
+    static String droppedNote(Moments mom, SpecificationModel spec, boolean[] kept) {
         int[] cols = spec.factorOrder();
         java.util.Map<String, java.util.List<String>> dropped = new java.util.LinkedHashMap<>();
         for (int j = 0; j < cols.length - 1; j++) {
-            if (!irls.kept[j]) {
+            if (!kept[j]) {
                 dropped.computeIfAbsent(dropReason(mom, cols[j]).words, r -> new java.util.ArrayList<>())
                         .add(mom.variant.layout.columnName(cols[j]));
             }

@@ -40,6 +40,8 @@ final class GlmCovariance {
     /** Per component: the cluster codes in use, 0..cellCount-1. */
     private int[] cellCount = new int[0];
     private double[] centred = new double[0];
+    private int[] identity = new int[0];
+    private double[] rowLeverage = new double[0];
 
     /**
      * The variances of {@code count} combinations, gradient {@code levelGradients[m]} over the levels and
@@ -89,15 +91,134 @@ final class GlmCovariance {
             return out;
         }
         int k = levels + fit.keptCount;
-        boolean cluster = kind == ErrorType.Kind.CLUSTER;
-        List<ClusterComponents.Component> components = cluster ? ClusterComponents.of(errors) : List.of();
-        int parts = components.size();
         if (rows.heldInParts != null) {
             if (!meatFromParts(fit, errors, count)) {
                 return null;
             }
-            return cluster ? clustered(errors, components, n, k, count, out) : hcFactor(kind, n, k, count, out);
+            return kind == ErrorType.Kind.CLUSTER ? clustered(errors, ClusterComponents.of(errors), n, k, count, out)
+                    : hcFactor(kind, n, k, count, out);
         }
+        return robust(rows, rows.x, fit.score, alongLevels, rows.level, fit, null, errors, k, count, out);
+    }
+
+    /**
+     * The variances of {@code count} combinations of a fit beside two or more absorbed columns
+     * ({@link SeveralEffectsIrls}), each given as sum_i c_i z_i + (0, e) with z_i = (d_i, x_i) row i of the
+     * design with every set of dummies written out: {@code rowGradients[m]} holds c (null for 0) and
+     * {@code columnGradients[m]} the combination's whole column part g_b = X'c + e. With W the working
+     * weights, q = c / w and ~ the weighted within transformation, the partitioned inverse of Z'WZ gives
+     * I^- g per row as a_i = z_i'I^- g = (q_i - q~_i) + x~_i'v, v = (X~'WX~)^-1 (g_b - (X - X~)'c), and
+     * g'I^- g = sum c_i a_i + (g_b - X'c)'v (the fixed effects' block is eliminated exactly, whatever
+     * generalised inverse of the dummies is taken, since g lies in the row space of Z). The sandwiches then
+     * read a_i as the one-column case reads its level's part plus x_i'v; HC2 and HC3 take the hat values of the
+     * weighted design with every set of dummies, {@code dummies}' part (built at the estimate's working weights)
+     * plus w_i x~_i'(X~'WX~)^-1 x~_i.
+     *
+     * @param rank    the rank of the dummies over the fit's rows (K = rank + kept columns)
+     * @param dummies the dummies' leverages at the estimate's working weights, indexed by the fit's rows; read
+     *                for HC2 and HC3 only (null otherwise)
+     */
+    double[] variancesAcrossEffects(SeveralEffectsIrls fit, ErrorType errors, int rank, DummyLeverage dummies,
+            double[][] rowGradients, double[][] columnGradients, int count) {
+        failure = null;
+        failureDetail = "";
+        clusters = 0;
+        GlmRows rows = fit.rows;
+        int n = rows.n;
+        int p = rows.p;
+        grow(count, p, n);
+        if (identity.length < n) {
+            identity = new int[n];
+            for (int i = 0; i < n; i++) {
+                identity[i] = i;
+            }
+        }
+        double[] out = new double[count];
+        double[] x = rows.x;
+        double[] xw = fit.within;
+        for (int m = 0; m < count; m++) {
+            double[] v = along[m];
+            double[] a = alongLevels[m];
+            double[] c = rowGradients[m];
+            double[] g = columnGradients[m];
+            System.arraycopy(g, 0, v, 0, p);
+            double[] e = java.util.Arrays.copyOf(g, p);
+            if (c == null) {
+                java.util.Arrays.fill(a, 0, n, 0);
+            } else {
+                for (int i = 0; i < n; i++) {
+                    a[i] = c[i] / fit.weight[i];
+                }
+                double[] projected = java.util.Arrays.copyOf(a, n);
+                fit.centre(projected);
+                if (!fit.projections.demean(projected)) {
+                    failure = FitStatus.NOT_CONVERGED;
+                    failureDetail = AlternatingProjections.MAX_ITERATIONS + " fixed-effect demeaning";
+                    return null;
+                }
+                for (int i = 0, at = 0; i < n; i++, at += p) {
+                    a[i] -= projected[i];
+                    for (int j = 0; j < p; j++) {
+                        v[j] -= (x[at + j] - xw[at + j]) * c[i];
+                        e[j] -= x[at + j] * c[i];
+                    }
+                }
+            }
+            fit.solveFactored(v, p);
+            double classical = 0;
+            for (int i = 0, at = 0; i < n; i++, at += p) {
+                if (c != null) {
+                    double ai = a[i];
+                    for (int j = 0; j < p; j++) {
+                        ai += xw[at + j] * v[j];
+                    }
+                    classical += c[i] * ai;
+                }
+            }
+            for (int j = 0; j < p; j++) {
+                if (fit.kept[j]) {
+                    classical += e[j] * v[j];
+                }
+            }
+            out[m] = classical;
+        }
+        if (errors.kind() == ErrorType.Kind.CLASSICAL) {
+            return out;
+        }
+        double[] leverages = null;
+        if (errors.kind() == ErrorType.Kind.HC2 || errors.kind() == ErrorType.Kind.HC3) {
+            if (dummies.illConditioned()) {
+                failure = FitStatus.LEVERAGE_ILL_CONDITIONED;
+                failureDetail = errors.label();
+                return null;
+            }
+            // the hat values of the weighted design with every set of dummies: by Frisch-Waugh-Lovell the
+            // dummies' part plus the projected columns' (Davidson & MacKinnon 2004, sections 2.4 and 2.6)
+            if (rowLeverage.length < n) {
+                rowLeverage = new double[n];
+            }
+            leverages = rowLeverage;
+            for (int i = 0, at = 0; i < n; i++, at += p) {
+                leverages[i] = dummies.at(i) + fit.weight[i] * withinLeverage(fit.kept, fit.factor, null, xw, at, 0, p);
+            }
+        }
+        return robust(rows, xw, fit.score, alongLevels, identity, null, leverages, errors, rank + fit.keptCount,
+                count, out);
+    }
+
+    /**
+     * The sandwiches of {@code count} combinations from each row's part a_i = offsets[m][index[i]] + x_i'v_m
+     * (v_m in {@link #along}) and score: HC0, HC1, HC2 and HC3 (leverages {@code rowLeverages} per row when given,
+     * else from {@code leverageFit}, which may
+     * be null for the other types) and the clusters.
+     */
+    private double[] robust(GlmRows rows, double[] x, double[] score, double[][] offsets, int[] index, Irls leverageFit,
+            double[] rowLeverages, ErrorType errors, int k, int count, double[] out) {
+        int n = rows.n;
+        ErrorType.Kind kind = errors.kind();
+        boolean cluster = kind == ErrorType.Kind.CLUSTER;
+        List<ClusterComponents.Component> components = cluster ? ClusterComponents.of(errors) : List.of();
+        int parts = components.size();
         int[][] codes = new int[parts][];
         if (cluster) {
             growClusters(parts, n, count);
@@ -116,14 +237,11 @@ final class GlmCovariance {
                 clearCells(c, size, count);
             }
         }
-        if (!meatSums(fit, rows, kind, count, cluster, codes, parts)) {
+        if (!meatSums(rows, x, score, offsets, index, leverageFit, rowLeverages, kind, count, cluster, codes, parts)) {
             failureDetail = errors.label();
             return null;
         }
-        if (cluster) {
-            return clustered(errors, components, n, k, count, out);
-        }
-        return hcFactor(kind, n, k, count, out);
+        return cluster ? clustered(errors, components, n, k, count, out) : hcFactor(kind, n, k, count, out);
     }
 
     private double[] hcFactor(ErrorType.Kind kind, int n, int k, int count, double[] out) {
@@ -135,23 +253,25 @@ final class GlmCovariance {
     }
 
     /**
-     * The meat's row sums over {@code rows} at the fit {@code fit} (its scores and weights for these rows,
-     * its information at the estimate): into {@link #meat}, or per cluster into {@link #clusterSums} and
+     * The meat's row sums over {@code rows} ({@code x} their columns, {@code score} their score residuals, each
+     * row's part of a combination offsets[m][index[i]] + x_i'v_m), the leverages {@code rowLeverages} when given,
+     * else from the fit {@code fit} (its weights and its information at the estimate; read for HC2 and HC3 only): into {@link #meat}, or per cluster into {@link #clusterSums} and
      * {@link #clusterSeen} (cleared by the caller). False, with {@link #failure} set, at a leverage of 1.
      */
-    private boolean meatSums(Irls fit, GlmRows rows, ErrorType.Kind kind, int count, boolean cluster, int[][] codes,
-            int parts) {
+    private boolean meatSums(GlmRows rows, double[] x, double[] score, double[][] offsets, int[] index, Irls fit,
+            double[] rowLeverages, ErrorType.Kind kind, int count, boolean cluster, int[][] codes, int parts) {
         int n = rows.n;
         int p = rows.p;
         boolean leverage = kind == ErrorType.Kind.HC2 || kind == ErrorType.Kind.HC3;
         java.util.Arrays.fill(meat, 0, count, 0);
-        double[] x = rows.x;
         for (int i = 0, at = 0; i < n; i++, at += p) {
-            int l = rows.level[i];
-            double s = fit.score[i];
+            int l = index[i];
+            double s = score[i];
             double omega = 1;
             if (leverage) {
-                double h = fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit, x, at, l, p));
+                double h = rowLeverages != null ? rowLeverages[i]
+                        : fit.weight[i] * (1 / fit.levelWeight[l] + withinLeverage(fit.kept, fit.factor, fit.levelMean,
+                                x, at, l, p));
                 if (!(h < 1 - 1e-10)) {
                     failure = FitStatus.LEVERAGE_ONE;
                     return false;
@@ -163,8 +283,8 @@ final class GlmCovariance {
                 // sums, each sum the same expression as in the loop below
                 double[] v0 = along[0];
                 double[] v1 = along[1];
-                double c0 = alongLevels[0][l];
-                double c1 = alongLevels[1][l];
+                double c0 = offsets[0][l];
+                double c1 = offsets[1][l];
                 for (int j = 0; j < p; j++) {
                     double xj = x[at + j];
                     c0 += xj * v0[j];
@@ -187,7 +307,7 @@ final class GlmCovariance {
             }
             for (int m = 0; m < count; m++) {
                 double[] v = along[m];
-                double c = alongLevels[m][l];
+                double c = offsets[m][l];
                 for (int j = 0; j < p; j++) {
                     c += x[at + j] * v[j];
                 }
@@ -283,7 +403,8 @@ final class GlmCovariance {
                 clearCells(c, clusterCounts[c], count);
             }
         }
-        boolean defined = meatSums(fit, part, r.errorKind, count, cluster, codes, parts);
+        boolean defined = meatSums(part, part.x, fit.score, alongLevels, part.level, fit, null, r.errorKind, count, cluster, codes,
+                parts);
         double[] out = new double[r.layout()];
         if (!cluster) {
             for (int m = 0; m < count; m++) {
@@ -353,21 +474,25 @@ final class GlmCovariance {
         return out;
     }
 
-    /** (x_i - xbar_l)' S^-1 (x_i - xbar_l) over the kept columns, S the factored within information. */
-    private double withinLeverage(Irls fit, double[] x, int at, int l, int p) {
+    /**
+     * (x_i - xbar_l)' S^-1 (x_i - xbar_l) over the kept columns, S = L L' the factored within information
+     * ({@code factor}); {@code levelMean} null for rows already projected (xbar 0).
+     */
+    private double withinLeverage(boolean[] kept, double[] factor, double[] levelMean, double[] x, int at, int l,
+            int p) {
         double sum = 0;
         for (int j = 0; j < p; j++) {
-            if (!fit.kept[j]) {
+            if (!kept[j]) {
                 centred[j] = 0;
                 continue;
             }
-            double s = x[at + j] - fit.levelMean[l * p + j];
+            double s = levelMean == null ? x[at + j] : x[at + j] - levelMean[l * p + j];
             for (int k = 0; k < j; k++) {
-                if (fit.kept[k]) {
-                    s -= fit.factor[j * p + k] * centred[k];
+                if (kept[k]) {
+                    s -= factor[j * p + k] * centred[k];
                 }
             }
-            centred[j] = s / fit.factor[j * p + j];
+            centred[j] = s / factor[j * p + j];
             sum += centred[j] * centred[j];
         }
         return sum;

@@ -29,6 +29,25 @@ record GlmLikelihoods(double logLik, double nullLogLik, double nullDeviance) {
         }
     }
 
+    /**
+     * The null model of a fit beside two or more absorbed columns, whose fitted means are not the levels' means:
+     * its deviance {@code nullDeviance} comes from its own iterations ({@link SeveralEffectsIrls} with no
+     * columns), the saturated log-likelihood from the rows.
+     */
+    static NullModel ofDeviance(GlmRows rows, GlmFamily family, double nullDeviance) {
+        double saturated = 0;
+        if (family == GlmFamily.POISSON) {
+            for (int i = 0; i < rows.n; i++) {
+                double w = rows.prior == null ? 1 : rows.prior[i];
+                double y = rows.y[i];
+                if (y > 0) {
+                    saturated += w * (y * Math.log(y) - y - Gamma.logGamma(y + 1));
+                }
+            }
+        }
+        return new NullModel(saturated, nullDeviance);
+    }
+
     static NullModel nullModel(GlmRows rows, GlmFamily family) {
         int levels = rows.levels;
         if (rows.heldInParts != null) {

@@ -246,6 +246,24 @@ final class GlmRows {
         }
     }
 
+    /**
+     * The rows of {@code other} with no columns: the outcome, prior weights and variant rows (for the null model
+     * beside two or more absorbed columns, whose level codes are not read).
+     */
+    void fillWithoutColumns(GlmRows other) {
+        filledRows = null;
+        grow(other.n, 0);
+        variantClusters = null;
+        drawClusters = null;
+        System.arraycopy(other.y, 0, y, 0, n);
+        System.arraycopy(other.source, 0, source, 0, n);
+        prior = other.prior == null ? null : priorBuffer;
+        if (prior != null) {
+            System.arraycopy(other.prior, 0, prior, 0, n);
+        }
+        levels = 0;
+    }
+
     private void grow(int rows, int columns) {
         n = rows;
         p = columns;

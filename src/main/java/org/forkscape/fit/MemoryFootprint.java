@@ -262,6 +262,22 @@ public final class MemoryFootprint {
     }
 
     /**
+     * What a worker's estimator of generalized linear models adds beside two or more absorbed columns
+     * ({@link SeveralEffectsGlm}): for its fit and its null model's, the iterations' per-row state (linear
+     * predictor, mean, weight, score, their trial values, the step, the working residual and a column: 11
+     * doubles) and the projections' (the weights and three conjugate-gradient vectors), the fit's projected
+     * columns, the null model's rows, each row's level of every absorbed column, and the covariance's per-row
+     * parts (the marginal effect's gradient, the two combinations' fixed-effect parts, a projected copy).
+     *
+     * @param specificationColumns the most columns a specification has, outcome included
+     * @param dimensions           the absorbed columns
+     */
+    public static long severalEffectsGlmFitter(int rows, int specificationColumns, int dimensions) {
+        return (long) rows * (DOUBLE * (specificationColumns + 2L * (11 + 4) + 2 + 2 + 1 + 2)
+                + INT * (dimensions + 1L + 3));
+    }
+
+    /**
      * One fit's start kept for its children ({@link GlmStarts}): a coefficient per column and two per level,
      * the key, and the information at the estimate when it is small enough to keep
      * ({@link GlmStarts#KEPT_INFORMATION}).

@@ -7,6 +7,7 @@ package org.forkscape.fit;
 public final class ModelDispatch implements Estimator {
     private final LeastSquares leastSquares;
     private GeneralizedLinear generalized;
+    private SeveralEffectsGlm severalEffects;
 
     /** @param allowRowFree whether least squares may use the sandwich routes without rows */
     public ModelDispatch(boolean allowRowFree) {
@@ -15,17 +16,28 @@ public final class ModelDispatch implements Estimator {
 
     @Override
     public KeyFit fit(SpecificationModel spec, FitData data) {
-        return of(spec).fit(spec, data);
+        return of(spec, data).fit(spec, data);
     }
 
     @Override
     public FullFit fitAll(SpecificationModel spec, FitData data, double confidence, String keyTerm) {
-        return of(spec).fitAll(spec, data, confidence, keyTerm);
+        return of(spec, data).fitAll(spec, data, confidence, keyTerm);
     }
 
-    private Estimator of(SpecificationModel spec) {
+    /** Generalized linear fits made beside two or more absorbed columns (for the test that the route was taken). */
+    public long severalEffectsFits() {
+        return severalEffects == null ? 0 : severalEffects.fits;
+    }
+
+    private Estimator of(SpecificationModel spec, FitData data) {
         if (spec.family().leastSquares()) {
             return leastSquares;
+        }
+        if (data.variant().absorbsSeveral) {
+            if (severalEffects == null) {
+                severalEffects = new SeveralEffectsGlm();
+            }
+            return severalEffects;
         }
         if (generalized == null) {
             generalized = new GeneralizedLinear();

@@ -575,7 +575,7 @@ public final class VariantByParts {
      * This part's sums of each pass of a generalized linear fit in the batch ({@link GlmPassRequest}): the
      * part's share of the specification's rows ({@link GlmRows#fillPart}), then the engine's own pass over
      * rows for that kind: {@link Irls#outcomeSums}, {@link GlmLikelihoods#nullSums} and
-     * {@link GeneralizedLinear#otherThanZeroOrOne} at the start; {@link Irls#partSums} at a point;
+     * {@link MarginalEffect#otherThanZeroOrOne} at the start; {@link Irls#partSums} at a point;
      * {@link GeneralizedLinear#marginSums} and {@link GlmCovariance#partMeat} at the estimate. Each answer
      * adds over parts ({@link #addEach}).
      */
@@ -596,7 +596,7 @@ public final class VariantByParts {
                     double[] nulls = GlmLikelihoods.nullSums(rows, r.family(), new double[2 * levels + 2]);
                     System.arraycopy(outcome, 0, sums, 0, 2 * levels);
                     System.arraycopy(nulls, 0, sums, 2 * levels, 2 * levels + 2);
-                    sums[4 * levels + 2] = GeneralizedLinear.otherThanZeroOrOne(rows,
+                    sums[4 * levels + 2] = MarginalEffect.otherThanZeroOrOne(rows,
                             coded.recorded[r.rows.columns()[p - 1]]);
                     yield sums;
                 }
@@ -606,8 +606,8 @@ public final class VariantByParts {
                     double[] gradientLevels = new double[levels];
                     double[] gradientColumns = new double[p];
                     double[] sums = GeneralizedLinear.marginSums(rows, irls, r.family(),
-                            coded.recorded[r.rows.columns()[p - 1]], r.twoValued, r.beta[p - 1], gradientLevels,
-                            gradientColumns);
+                            coded.recorded[r.rows.columns()[p - 1]], r.twoValued, r.beta[p - 1],
+                            new double[rows.n], gradientLevels, gradientColumns);
                     double[] all = new double[r.layout()];
                     all[0] = sums[0];
                     all[1] = sums[1];

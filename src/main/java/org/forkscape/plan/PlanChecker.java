@@ -63,13 +63,13 @@ public final class PlanChecker {
             } else if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
                     List<String> cols = a.alternatives().get(j).columns();
-                    if (cols.size() > 1 && plan.generalized()) {
+                    if (cols.size() > 1 && plan.generalized() && plan.nullDraws() > 0) {
                         String p = path + ".alternatives[" + j + "].columns";
                         problems.attempt(() -> {
-                            throw new PlanException(p, "several fixed-effect columns are absorbed for least squares "
-                                    + "(ols) only; logit, probit and poisson enter fixed effects as dummies of one "
-                                    + "column; absorb one column, or fit these specifications in a plan whose model "
-                                    + "decision is ols alone");
+                            throw new PlanException(p, "null draws are not made for logit, probit and poisson "
+                                    + "beside two or more absorbed columns; set nullDraws to 0 (--null-draws 0), "
+                                    + "absorb one column, or make the draws in a plan whose model decision is ols "
+                                    + "alone");
                         });
                     }
                     if (cols.size() > 2) {
@@ -80,7 +80,14 @@ public final class PlanChecker {
                     for (int k = 0; k < cols.size(); k++) {
                         String name = cols.get(k);
                         String p = path + ".alternatives[" + j + "].columns[" + k + "]";
-                        problems.attempt(() -> levelsForModels(existing(name, p, table), p, plan));
+                        // beside other columns the levels are projected out, not entered as coefficients
+                        boolean alone = cols.size() == 1;
+                        problems.attempt(() -> {
+                            Column c = existing(name, p, table);
+                            if (alone) {
+                                levelsForModels(c, p, plan);
+                            }
+                        });
                     }
                 }
             }

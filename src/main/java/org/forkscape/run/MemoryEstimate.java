@@ -204,7 +204,9 @@ public final class MemoryEstimate {
             long starts = generalized ? pv.specifications * MemoryFootprint.glmStart(profile.maxColumns + 1, levels)
                     : 0;
             long glmFitters = generalized
-                    ? workers * MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels, clusterParts)
+                    ? workers * (MemoryFootprint.glmFitter(rows, profile.maxColumns + 1, levels, clusterParts)
+                            + (several ? MemoryFootprint.severalEffectsGlmFitter(rows, profile.maxColumns + 1,
+                                    absorbedColumns.size()) : 0))
                     : 0;
             allVariants += base + starts;
             long usable = SpecificationMix.usableSets(pv.masks, pv.seen, pv.specifications, maxUsableSets);

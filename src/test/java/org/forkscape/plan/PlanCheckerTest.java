@@ -57,8 +57,8 @@ class PlanCheckerTest {
     }
 
     /**
-     * Two absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact), and the GLMs are
-     * refused at their path.
+     * Two absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact), and the GLMs
+     * too, but for their null draws.
      */
     @Test
     void whatTwoAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
@@ -67,9 +67,23 @@ class PlanCheckerTest {
         assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
                 "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
                         + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", both), SCHOOLS));
-        fails(plan(column("passed"), column("tutoring"),
-                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", both),
-                "decisions[3].alternatives[1].columns", "several fixed-effect columns are absorbed for least squares");
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("passed"), column("tutoring"),
+                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", both), SCHOOLS));
+        glmBesideSeveralColumns(both, "decisions[3].alternatives[1].columns");
+    }
+
+    /**
+     * Logit, probit and Poisson beside two or more absorbed columns: every error type, HC2 and HC3 too, but no null
+     * draws, refused at the absorbed columns.
+     */
+    private void glmBesideSeveralColumns(String absorb, String columnsPath) {
+        String model = "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"poisson\"]}";
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"), model,
+                "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
+                        + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", absorb), SCHOOLS));
+        Plan withDraws = plan(column("attendance"), column("tutoring"), model, absorb);
+        fails(withDraws.withNull(10, withDraws.nullMethod(), withDraws.nullCluster(), withDraws.seed()), columnsPath,
+                "null draws are not made for logit, probit and poisson");
     }
 
     /**
@@ -97,8 +111,8 @@ class PlanCheckerTest {
     }
 
     /**
-     * Three absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact); the GLMs are
-     * refused at the list of columns.
+     * Three absorbed columns: every error type passes, HC2 and HC3 too (their leverages are exact), and the
+     * GLMs.
      */
     @Test
     void whatThreeAbsorbedColumnsCannotBeFittedWithIsRefusedAtItsField() {
@@ -107,9 +121,8 @@ class PlanCheckerTest {
         assertDoesNotThrow(() -> PlanChecker.check(plan(column("attendance"), column("tutoring"),
                 "{\"name\": \"se\", \"kind\": \"errors\", \"alternatives\": [\"classical\", \"HC0\", \"HC1\", "
                         + "\"HC2\", \"HC3\", \"cluster:district\", \"cluster:district+sector\"]}", three), SCHOOLS));
-        fails(plan(column("passed"), column("tutoring"),
-                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", three),
-                "decisions[3].alternatives[0].columns", "several fixed-effect columns are absorbed for least squares");
+        assertDoesNotThrow(() -> PlanChecker.check(plan(column("passed"), column("tutoring"),
+                "{\"name\": \"m\", \"kind\": \"model\", \"alternatives\": [\"ols\", \"logit\"]}", three), SCHOOLS));
     }
 
     /**

@@ -114,6 +114,32 @@ class MemoryEstimateTest {
         assertOfTheRightOrder(two, table);
     }
 
+    /**
+     * A logit beside two absorbed columns: each worker also holds the projections' iteration state for its fit
+     * and its null model (about 30 doubles a row more than beside one column).
+     */
+    @Test
+    void aRunOfGeneralizedLinearModelsBesideTwoAbsorbedColumns() {
+        Table table = table(40_000);
+        String part = "the generalized linear models' rows, iteration state and starts";
+        String json = """
+                {"data": "air.csv", "decisions": [
+                  {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "alert", "column": "alert"}]},
+                  {"name": "trees", "kind": "predictor", "alternatives": [{"label": "cover", "column": "tree_cover"}]},
+                  {"name": "controls", "kind": "controls", "optional": ["c1", "c3"]},
+                  {"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:district"]},
+                  {"name": "fe", "kind": "absorb", "alternatives": [{"label": "effects", "columns": COLUMNS}]},
+                  {"name": "model", "kind": "model", "alternatives": ["logit"]}]}
+                """;
+        Plan two = new PlanReader(false).read(json.replace("COLUMNS", "[\"district\", \"band\"]"), Path.of("."));
+        Plan one = new PlanReader(false).read(json.replace("COLUMNS", "[\"district\"]"), Path.of("."));
+        PlanChecker.check(two, table);
+        long twoWay = MemoryEstimate.of(two, table, 2).parts().getOrDefault(part, 0L);
+        long oneWay = MemoryEstimate.of(one, table, 2).parts().getOrDefault(part, 0L);
+        assertTrue(twoWay > oneWay + 2L * 40_000 * 8 * 30, oneWay + " then " + twoWay);
+        assertOfTheRightOrder(two, table);
+    }
+
     /** Logistic regressions: each worker's rows and iteration state, and every fit's start for its children. */
     @Test
     void aRunOfGeneralizedLinearModels() {

@@ -270,26 +270,37 @@ public final class GeneralizedLinear implements Estimator {
                 : Double.NaN;
         double[] v = covariance.variances(irls, spec.errors(), levelGradient, columnGradient, margins ? 2 : 1);
         GlmLikelihoods likelihoods = nullModel(mom, spec.outcomeColumn(), f, margins).at(irls.deviance);
+        return reported(spec, covariance, v, b, n, k, irls.deviance, irls.keptCount, likelihoods, droppedNote(mom, spec),
+                effect);
+    }
+
+    /**
+     * The fit's report from its variances {@code v} (the key coefficient's, then the marginal effect's when
+     * {@code v} has two; null with {@code covariance}'s failure set when undefined, NaN where a multi-way sum is
+     * not positive), McFadden's pseudo-R-squared and the likelihood-ratio test against {@code likelihoods}' null
+     * model: one report for one absorbed column and for several ({@link SeveralEffectsGlm}).
+     */
+    static KeyFit reported(SpecificationModel spec, GlmCovariance covariance, double[] v, double b, int n, int k,
+            double deviance, int keptCount, GlmLikelihoods likelihoods, String note, double effect) {
+        ModelFamily family = spec.family();
         double r2 = 1 - likelihoods.logLik() / likelihoods.nullLogLik();
-        double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - irls.deviance),
-                irls.keptCount);
-        String note = droppedNote(mom, spec);
+        double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - deviance), keptCount);
         if (v != null && Double.isNaN(v[0])) {
             // a multi-way sum that is not positive (GlmCovariance.clustered): no error, as least squares
-            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN,
+            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, deviance, Double.NaN,
                     FitStatus.VARIANCE_NOT_POSITIVE, spec.errors().label(), "", false, VarianceRoute.ROW_PASS,
                     Double.NaN, family, effect, Double.NaN, lr);
         }
         if (v == null) {
-            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN, covariance.failure,
+            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, deviance, Double.NaN, covariance.failure,
                     covariance.failureDetail, "", false, VarianceRoute.ROW_PASS, Double.NaN, family, effect,
                     Double.NaN, lr);
         }
         VarianceRoute route = spec.errors().kind() == ErrorType.Kind.CLASSICAL ? VarianceRoute.CLASSICAL
                 : VarianceRoute.ROW_PASS;
-        return new KeyFit(b, Math.sqrt(v[0]), Double.POSITIVE_INFINITY, n, k, r2, irls.deviance, Double.NaN,
-                FitStatus.OK, "", note, false, route, Double.NaN, family, effect, margins ? Math.sqrt(v[1]) : Double.NaN,
-                lr);
+        return new KeyFit(b, Math.sqrt(v[0]), Double.POSITIVE_INFINITY, n, k, r2, deviance, Double.NaN,
+                FitStatus.OK, "", note, false, route, Double.NaN, family, effect, v.length > 1 ? Math.sqrt(v[1])
+                        : Double.NaN, lr);
     }
 
     /**

@@ -883,6 +883,14 @@ final class Irls {
 
     /** Solves (L L') v = b in place over the kept columns (dropped entries set to 0). */
     void solveFactored(double[] v, int p) {
+        solveFactored(factor, kept, v, p);
+    }
+
+    /**
+     * Solves (L L') v = b in place over the {@code kept} columns (dropped entries set to 0), L the lower
+     * factor {@code factor} (p x p, row-major): the one solve of both scoring iterations ({@link SeveralEffectsIrls}).
+     */
+    static void solveFactored(double[] factor, boolean[] kept, double[] v, int p) {
         for (int j = 0; j < p; j++) {
             if (!kept[j]) {
                 v[j] = 0;

@@ -201,25 +201,8 @@ final class SeveralEffectsGlm implements Estimator {
         if (none == null) {
             return KeyFit.failed(family, FitStatus.NOT_CONVERGED, "the null model's " + nullIrls.iterations, n, k);
         }
-        GlmLikelihoods likelihoods = none.at(irls.deviance);
-        double r2 = 1 - likelihoods.logLik() / likelihoods.nullLogLik();
-        double lr = Distributions.chiSquareUpperP(Math.max(0, likelihoods.nullDeviance() - irls.deviance),
-                irls.keptCount);
-        String note = GeneralizedLinear.droppedNote(mom, spec, irls.kept);
-        if (v != null && Double.isNaN(v[0])) {
-            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN,
-                    FitStatus.VARIANCE_NOT_POSITIVE, spec.errors().label(), "", false, VarianceRoute.ROW_PASS,
-                    Double.NaN, family, effect, Double.NaN, lr);
-        }
-        if (v == null) {
-            return new KeyFit(b, Double.NaN, Double.NaN, n, k, r2, irls.deviance, Double.NaN, covariance.failure,
-                    covariance.failureDetail, "", false, VarianceRoute.ROW_PASS, Double.NaN, family, effect,
-                    Double.NaN, lr);
-        }
-        VarianceRoute route = spec.errors().kind() == ErrorType.Kind.CLASSICAL ? VarianceRoute.CLASSICAL
-                : VarianceRoute.ROW_PASS;
-        return new KeyFit(b, Math.sqrt(v[0]), Double.POSITIVE_INFINITY, n, k, r2, irls.deviance, Double.NaN,
-                FitStatus.OK, "", note, false, route, Double.NaN, family, effect, Math.sqrt(v[1]), lr);
+        return GeneralizedLinear.reported(spec, covariance, v, b, n, k, irls.deviance, irls.keptCount,
+                none.at(irls.deviance), GeneralizedLinear.droppedNote(mom, spec, irls.kept), effect);
     }
 
     /**

@@ -305,33 +305,9 @@ final class SeveralEffectsIrls {
         return true;
     }
 
-    /** Solves (L L') v = b in place over the kept columns (dropped entries set to 0). */
+    /** Solves (L L') v = b in place over the kept columns (dropped entries set to 0; {@link Irls#solveFactored}). */
     void solveFactored(double[] v, int p) {
-        for (int j = 0; j < p; j++) {
-            if (!kept[j]) {
-                v[j] = 0;
-                continue;
-            }
-            double s = v[j];
-            for (int k = 0; k < j; k++) {
-                if (kept[k]) {
-                    s -= factor[j * p + k] * v[k];
-                }
-            }
-            v[j] = s / factor[j * p + j];
-        }
-        for (int j = p - 1; j >= 0; j--) {
-            if (!kept[j]) {
-                continue;
-            }
-            double s = v[j];
-            for (int k = j + 1; k < p; k++) {
-                if (kept[k]) {
-                    s -= factor[k * p + j] * v[k];
-                }
-            }
-            v[j] = s / factor[j * p + j];
-        }
+        Irls.solveFactored(factor, kept, v, p);
     }
 
     /** The means, working weights and scores at {@code at} (times the prior weights), and the deviance. */

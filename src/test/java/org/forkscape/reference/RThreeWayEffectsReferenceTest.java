@@ -2,6 +2,7 @@ package org.forkscape.reference;
 
 import static org.forkscape.reference.ReferenceChecks.bits;
 import static org.forkscape.reference.ReferenceChecks.check;
+import static org.forkscape.reference.ReferenceChecks.lmRow;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -118,20 +119,9 @@ class RThreeWayEffectsReferenceTest {
             Map<String, String> row = match.row();
             int slot = match.slot();
             String where = match.where();
-            String status = row.get("status");
-            check(failures, worst, where, "n_obs", r.nObs(slot), row, "R nobs()", 0);
-            if (!status.equals("ok")) {
+            if (!lmRow(failures, worst, where, r, slot, row, RELATIVE)) {
                 continue;
             }
-            check(failures, worst, where, "estimate", r.estimate(slot), row, "R lm() coefficient", RELATIVE);
-            check(failures, worst, where, "n_params", r.nParams(slot), row, "R lm() rank", 0);
-            check(failures, worst, where, "std_error", r.stdError(slot), row, switch (row.get("errors")) {
-                case "classical" -> "R vcov() of lm";
-                case "HC0", "HC1", "HC2", "HC3" -> "sandwich::vcovHC";
-                default -> "sandwich::vcovCL";
-            }, RELATIVE);
-            check(failures, worst, where, "df", r.df(slot), row, "R df.residual or min(G) - 1", 0);
-            check(failures, worst, where, "r2", r.r2(slot), row, "R summary.lm r.squared", RELATIVE);
             String effects = row.get("effects");
             boolean threeOrMore = effects.equals("pupil, term and teacher") || effects.equals("term, teacher and region")
                     || effects.equals("all four");

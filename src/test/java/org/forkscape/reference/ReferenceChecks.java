@@ -37,6 +37,29 @@ final class ReferenceChecks {
     }
 
     /**
+     * The checks every least-squares reference row takes against R's {@code lm()} and sandwich: the rows
+     * exactly, and where R fitted the specification (status {@code ok}) the estimate, the rank, the standard
+     * error of the row's type, the residual df and R-squared; returns whether R fitted it.
+     */
+    static boolean lmRow(List<String> failures, Map<String, Double> worst, String where, ResultTable r, int slot,
+            Map<String, String> row, double relative) {
+        check(failures, worst, where, "n_obs", r.nObs(slot), row, "R nobs()", 0);
+        if (!row.get("status").equals("ok")) {
+            return false;
+        }
+        check(failures, worst, where, "estimate", r.estimate(slot), row, "R lm() coefficient", relative);
+        check(failures, worst, where, "n_params", r.nParams(slot), row, "R lm() rank", 0);
+        check(failures, worst, where, "std_error", r.stdError(slot), row, switch (row.get("errors")) {
+            case "classical" -> "R vcov() of lm";
+            case "HC0", "HC1", "HC2", "HC3" -> "sandwich::vcovHC";
+            default -> "sandwich::vcovCL";
+        }, relative);
+        check(failures, worst, where, "df", r.df(slot), row, "R df.residual or min(G) - 1", 0);
+        check(failures, worst, where, "r2", r.r2(slot), row, "R summary.lm r.squared", relative);
+        return true;
+    }
+
+    /**
      * Each specification's estimate, standard error, R-squared, average marginal effect and its standard error
      * as raw bits, in specification order.
      */

@@ -102,11 +102,7 @@ final class Irls {
     boolean extended;
     /** Whether this fit factors by QR of the weighted design ({@link #ORTHOGONAL_BELOW_SHARE}). */
     boolean orthogonal;
-    /** The weighted design's columns, column by column, overwritten by their Householder vectors. */
-    private double[][] design = new double[0][];
-    private double[] householderScale = new double[0];
-    private int[] keptOrder = new int[0];
-    private boolean[] negativeDiagonal = new boolean[0];
+    private final OrthogonalFactor householder = new OrthogonalFactor();
     /** Rows per block of the cross-product pass. */
     private static final int BLOCK = 4;
 
@@ -780,80 +776,30 @@ final class Irls {
 
     /**
      * The factor from Householder QR of the weighted within design A = W^1/2 (X - M), M each row's level's
-     * weighted column means, so that A'A is the within information (Golub &amp; Van Loan, Matrix
-     * Computations, 4th ed., section 5.2): with A = QR, L = R' up to the signs of R's rows, made positive
-     * on the diagonal. Orthogonal factorisation does not square the condition number, so L keeps its
-     * digits where the Cholesky of A'A would not (R's {@code summary.glm} takes its covariance from the same
-     * R). Columns are taken in order; when {@code decide}, one whose remaining norm is below
-     * {@link QrRefit#TOLERANCE} of its own is dropped.
+     * weighted column means, so that A'A is the within information ({@link OrthogonalFactor}).
      */
     private boolean orthogonalFactor(int p, boolean decide) {
         int n = rows.n;
         double[] x = rows.x;
         int[] level = rows.level;
-        if (design.length < p || design[0].length < n) {
-            design = new double[p][Math.max(n, 1)];
-            householderScale = new double[p];
-            keptOrder = new int[p];
-            negativeDiagonal = new boolean[p];
-        }
-        if (decide) {
-            keptCount = 0;
-        }
-        int rank = 0;
-        double tolerance = QrRefit.TOLERANCE * QrRefit.TOLERANCE;
+        boolean[] considered = new boolean[p];
         for (int j = 0; j < p; j++) {
-            if (!kept[j] && (!decide || spannedByLevels(j))) {
-                continue;
-            }
-            double[] a = design[j];
-            double own = 0;
+            considered[j] = kept[j] || (decide && !spannedByLevels(j));
+        }
+        int rank = householder.factor(n, p, (j, a) -> {
             for (int i = 0, at = j; i < n; i++, at += p) {
-                double v = Math.sqrt(weight[i]) * (x[at] - levelMean[level[i] * p + j]);
-                a[i] = v;
-                own += v * v;
+                a[i] = Math.sqrt(weight[i]) * (x[at] - levelMean[level[i] * p + j]);
             }
-            for (int t = 0; t < rank; t++) {
-                double[] v = design[keptOrder[t]];
-                double s = 0;
-                for (int i = t; i < n; i++) {
-                    s += v[i] * a[i];
-                }
-                s *= householderScale[t];
-                for (int i = t; i < n; i++) {
-                    a[i] -= s * v[i];
-                }
-            }
-            double remaining = 0;
-            for (int i = rank; i < n; i++) {
-                remaining += a[i] * a[i];
-            }
-            if (decide) {
-                kept[j] = own > 0 && remaining > tolerance * own;
+        }, considered, kept, decide, factor);
+        if (decide) {
+            keptCount = Math.max(rank, 0);
+            for (int j = 0; j < p; j++) {
                 if (!kept[j]) {
                     beta[j] = 0;
-                    continue;
                 }
-                keptCount++;
-            } else if (!(remaining > 0)) {
-                return false;
             }
-            for (int t = 0; t < rank; t++) {
-                double r = a[t];
-                factor[j * p + keptOrder[t]] = negativeDiagonal[t] ? -r : r;
-            }
-            double norm = Math.sqrt(remaining);
-            double head = a[rank];
-            double diagonal = head > 0 ? -norm : norm;
-            factor[j * p + j] = norm;
-            negativeDiagonal[rank] = diagonal < 0;
-            // the reflector v = a - diagonal e_rank, scaled so that H = I - scale v v'
-            a[rank] = head - diagonal;
-            householderScale[rank] = 1 / (norm * (norm + Math.abs(head)));
-            keptOrder[rank] = j;
-            rank++;
         }
-        return true;
+        return rank >= 0;
     }
 
     /**

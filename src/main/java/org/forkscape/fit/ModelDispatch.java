@@ -29,6 +29,11 @@ public final class ModelDispatch implements Estimator {
         return severalEffects == null ? 0 : severalEffects.fits;
     }
 
+    /** Whether the last fit beside two or more absorbed columns factored its information by QR (for the route's test). */
+    public boolean severalEffectsFactoredByQr() {
+        return severalEffects != null && severalEffects.factoredByQr();
+    }
+
     private Estimator of(SpecificationModel spec, FitData data) {
         if (spec.family().leastSquares()) {
             return leastSquares;

@@ -32,6 +32,11 @@ final class SeveralEffectsGlm implements Estimator {
     /** Fits made so far (for the test that this route was taken). */
     long fits;
 
+    /** Whether the last fit factored its information by QR of the weighted within design ({@link SeveralEffectsIrls#orthogonal}). */
+    boolean factoredByQr() {
+        return irls.orthogonal;
+    }
+
     SeveralEffectsGlm() {
         this(Irls.MAX_ITERATIONS);
     }

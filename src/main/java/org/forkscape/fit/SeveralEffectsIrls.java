@@ -20,7 +20,8 @@ import java.util.Arrays;
  * columns; every later step is a correction from the score, eta += P r with r = (y - mu) / mu'(eta) the
  * working residual and P the weighted projection on that span, so that the projections' rounding (at most
  * {@link AlternatingProjections#TOLERANCE} of the residual's norm, which shrinks to 0) slows the iterations at
- * worst. The step's quadratic form in the information is sum w (P r)^2, Irls's Newton decrement. At the
+ * worst. The information is factored as {@link Irls} factors it, by QR of the weighted within design where
+ * its cross-products would cost digits. The step's quadratic form in the information is sum w (P r)^2, Irls's Newton decrement. At the
  * estimate the columns are projected once more at its working weights, for {@link GlmCovariance}. Not thread
  * safe: one per worker thread.
  */
@@ -53,6 +54,9 @@ final class SeveralEffectsIrls {
     double[] factor = new double[0];
     /** The projections at the estimate's working weights. */
     AlternatingProjections projections;
+    /** Whether this fit factors by QR of the weighted within design ({@link Irls#ORTHOGONAL_BELOW_SHARE}). */
+    boolean orthogonal;
+    private final OrthogonalFactor householder = new OrthogonalFactor();
 
     private int[][] codes;
     private int[] levels;
@@ -89,6 +93,7 @@ final class SeveralEffectsIrls {
             beta[j] = 0;
         }
         demeaned = true;
+        orthogonal = false;
         outcome = Irls.Outcome.NOT_CONVERGED;
         // the start: each row's starting mean, its working response z = eta + r projected in full
         for (int i = 0; i < n; i++) {
@@ -259,15 +264,20 @@ final class SeveralEffectsIrls {
     }
 
     /**
-     * The lower Cholesky factor of the kept columns' X~'WX~. When {@code decide}, drops in order each column
-     * whose pivot is at most {@link QrRefit#TOLERANCE} squared of its own weighted within sum of squares (the
-     * rule of least squares' QR refit, on squared norms); otherwise false when a kept pivot is not positive.
+     * The lower factor of the kept columns' X~'WX~. When {@code decide}, drops a column with no weighted
+     * within spread; otherwise false when a kept pivot is not positive. By Cholesky of the cross-products,
+     * unless a pivot is small enough to have cost digits ({@link Irls#ORTHOGONAL_BELOW_SHARE}, the rule of
+     * {@link Irls}): then, for the rest of the fit, by QR of the weighted within design W^1/2 X~
+     * ({@link OrthogonalFactor}), which drops in order each column whose remaining norm is below
+     * {@link QrRefit#TOLERANCE} of its own (the rule of least squares' QR refit).
      */
     private boolean factor(int p, boolean decide) {
+        if (orthogonal) {
+            return orthogonalFactor(p, decide);
+        }
         if (decide) {
             keptCount = 0;
         }
-        double tolerance = QrRefit.TOLERANCE * QrRefit.TOLERANCE;
         for (int j = 0; j < p; j++) {
             if (!kept[j]) {
                 continue;
@@ -280,8 +290,12 @@ final class SeveralEffectsIrls {
                     pivot -= f * f;
                 }
             }
+            if (own > 0 && !(pivot > Irls.ORTHOGONAL_BELOW_SHARE * own)) {
+                orthogonal = true;
+                return orthogonalFactor(p, decide);
+            }
             if (decide) {
-                kept[j] = own > 0 && pivot > tolerance * own;
+                kept[j] = own > 0;
                 if (!kept[j]) {
                     beta[j] = 0;
                     continue;
@@ -303,6 +317,26 @@ final class SeveralEffectsIrls {
             }
         }
         return true;
+    }
+
+    /** The factor from Householder QR of W^1/2 X~, the projected columns at the working weights. */
+    private boolean orthogonalFactor(int p, boolean decide) {
+        int n = rows.n;
+        boolean[] considered = java.util.Arrays.copyOf(kept, p);
+        int rank = householder.factor(n, p, (j, a) -> {
+            for (int i = 0, at = j; i < n; i++, at += p) {
+                a[i] = Math.sqrt(weight[i]) * within[at];
+            }
+        }, considered, kept, decide, factor);
+        if (decide) {
+            keptCount = Math.max(rank, 0);
+            for (int j = 0; j < p; j++) {
+                if (!kept[j]) {
+                    beta[j] = 0;
+                }
+            }
+        }
+        return rank >= 0;
     }
 
     /** Solves (L L') v = b in place over the kept columns (dropped entries set to 0; {@link Irls#solveFactored}). */

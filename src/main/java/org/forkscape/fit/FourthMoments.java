@@ -149,6 +149,9 @@ final class FourthMoments {
         return out;
     }
 
+    /** Rows whose products are added to the sums together ({@link #block}). */
+    private static final int ROWS_AT_ONCE = 4;
+
     /**
      * The distinct third- and fourth-order sums over the rows {@code rows[from..to)} of {@code source}, each
      * value times the square root of its row's weight when {@code weight} is given; a null column reads as 0.
@@ -156,86 +159,131 @@ final class FourthMoments {
      * u^2 in the variant's shifted coordinates) every product is weighted by w^2 instead, and the block also
      * returns the w^2-weighted second- and first-order sums and the sum of w^2 (indices 2, 3 and 4), which
      * the cells, weighted by w, do not hold.
+     *
+     * <p>Row by row, so that the arithmetic runs along long contiguous runs the JIT turns into vector
+     * instructions: with the pairs z_i z_j ordered by j, the triples z_i z_j z_k ordered by k are, for each
+     * k, the pairs with j &lt;= k (a prefix) times z_k; and the fourth-order sums with last index l are, for
+     * each l, the triples with k &lt;= l (again a prefix) times z_l, added into an accumulator per l. Each
+     * sum takes its rows in row order, ((z_i z_j) z_k) z_l added one row after the other, four rows per pass
+     * over the accumulators (the same additions in the same order, with fewer loads), so every sum is the
+     * same whatever the JIT makes of the loops. The accumulators are laid out in the nested-loop order at
+     * the end.
      */
-    private static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to,
+    static double[][] block(double[][] source, double[] weight, int[] rows, int from, int to,
             double[] squaredWeight) {
         int p = source.length;
-        int b = to - from;
-        double[][] z = new double[p][b];
+        int pairs = p * (p + 1) / 2;
+        int triples = (int) distinctThird(p);
+        // pairsUpTo[j]: the pairs (i, j') with i <= j' <= j; triplesUpTo[k]: the triples with last index <= k
+        int[] pairsUpTo = new int[p];
+        int[] triplesUpTo = new int[p];
+        int count = 0;
         for (int j = 0; j < p; j++) {
-            double[] col = source[j];
-            double[] zj = z[j];
-            if (col == null) {
-                continue;
+            pairsUpTo[j] = (j + 1) * (j + 2) / 2;
+            count += pairsUpTo[j];
+            triplesUpTo[j] = count;
+        }
+        double[][] z = new double[ROWS_AT_ONCE][p];
+        double[] w2 = new double[ROWS_AT_ONCE];
+        double[][] pair = new double[ROWS_AT_ONCE][pairs];
+        double[][] triple = new double[ROWS_AT_ONCE][triples];
+        double[][] fourth = new double[p][];
+        for (int l = 0; l < p; l++) {
+            fourth[l] = new double[triplesUpTo[l]];
+        }
+        double[] third = new double[triples];
+        double[] second = squaredWeight == null ? null : new double[pairs];
+        double[] first = squaredWeight == null ? null : new double[p];
+        double squaredWeights = 0;
+        for (int r = from; r < to; r += ROWS_AT_ONCE) {
+            for (int q = 0; q < ROWS_AT_ONCE; q++) {
+                // rows past the end read as zeros, which add nothing
+                int row = r + q < to ? rows[r + q] : -1;
+                double[] zq = z[q];
+                double root = row < 0 || weight == null ? 1 : Math.sqrt(weight[row]);
+                for (int j = 0; j < p; j++) {
+                    double[] col = source[j];
+                    zq[j] = row < 0 || col == null ? 0 : weight == null ? col[row] : col[row] * root;
+                }
+                double[] pq = pair[q];
+                for (int j = 0, at = 0; j < p; at += ++j) {
+                    double zj = zq[j];
+                    for (int i = 0; i <= j; i++) {
+                        pq[at + i] = zq[i] * zj;
+                    }
+                }
+                if (squaredWeight != null) {
+                    double w = row < 0 ? 0 : squaredWeight[row];
+                    w2[q] = w * w;
+                    for (int t = 0; t < pairs; t++) {
+                        pq[t] *= w2[q];
+                    }
+                }
+                double[] tq = triple[q];
+                for (int k = 0, at = 0; k < p; at += pairsUpTo[k++]) {
+                    double zk = zq[k];
+                    for (int t = 0, len = pairsUpTo[k]; t < len; t++) {
+                        tq[at + t] = pq[t] * zk;
+                    }
+                }
             }
-            if (weight == null) {
-                for (int r = 0; r < b; r++) {
-                    zj[r] = col[rows[from + r]];
+            double[] t0 = triple[0];
+            double[] t1 = triple[1];
+            double[] t2 = triple[2];
+            double[] t3 = triple[3];
+            for (int t = 0; t < triples; t++) {
+                third[t] = (((third[t] + t0[t]) + t1[t]) + t2[t]) + t3[t];
+            }
+            for (int l = 0; l < p; l++) {
+                double a0 = z[0][l];
+                double a1 = z[1][l];
+                double a2 = z[2][l];
+                double a3 = z[3][l];
+                double[] f = fourth[l];
+                for (int t = 0, len = f.length; t < len; t++) {
+                    f[t] = (((f[t] + t0[t] * a0) + t1[t] * a1) + t2[t] * a2) + t3[t] * a3;
                 }
-            } else {
-                for (int r = 0; r < b; r++) {
-                    int row = rows[from + r];
-                    zj[r] = col[row] * Math.sqrt(weight[row]);
+            }
+            if (squaredWeight != null) {
+                double[] p0 = pair[0];
+                double[] p1 = pair[1];
+                double[] p2 = pair[2];
+                double[] p3 = pair[3];
+                for (int t = 0; t < pairs; t++) {
+                    second[t] = (((second[t] + p0[t]) + p1[t]) + p2[t]) + p3[t];
                 }
+                for (int j = 0; j < p; j++) {
+                    first[j] = (((first[j] + z[0][j] * w2[0]) + z[1][j] * w2[1]) + z[2][j] * w2[2]) + z[3][j] * w2[3];
+                }
+                squaredWeights = (((squaredWeights + w2[0]) + w2[1]) + w2[2]) + w2[3];
             }
         }
         double[] f4 = new double[(int) distinctFourth(p)];
-        double[] f3 = new double[(int) distinctThird(p)];
-        double[] zij = new double[b];
-        double[] zijk = new double[b];
-        double[] w2 = null;
-        double[] s2 = null;
-        double[] s1 = null;
-        if (squaredWeight != null) {
-            w2 = new double[b];
-            for (int r = 0; r < b; r++) {
-                double w = squaredWeight[rows[from + r]];
-                w2[r] = w * w;
-            }
-            s2 = new double[p * p];
-            s1 = new double[p];
-            for (int i = 0; i < p; i++) {
-                s1[i] = Kernels.dot(z[i], w2, b);
-            }
-        }
+        double[] f3 = new double[triples];
         int i4 = 0;
         int i3 = 0;
         for (int i = 0; i < p; i++) {
-            double[] zi = z[i];
             for (int j = i; j < p; j++) {
-                double[] zj = z[j];
-                for (int r = 0; r < b; r++) {
-                    zij[r] = zi[r] * zj[r];
-                }
-                if (w2 != null) {
-                    for (int r = 0; r < b; r++) {
-                        zij[r] *= w2[r];
-                    }
-                    double t = Kernels.sum(zij, b);
-                    s2[i * p + j] = t;
-                    s2[j * p + i] = t;
-                }
                 for (int k = j; k < p; k++) {
-                    double[] zk = z[k];
-                    for (int r = 0; r < b; r++) {
-                        zijk[r] = zij[r] * zk[r];
-                    }
-                    f3[i3++] = Kernels.sum(zijk, b);
-                    int l = k;
-                    for (; l + 3 < p; l += 4) {
-                        Kernels.dot4(zijk, z[l], z[l + 1], z[l + 2], z[l + 3], b, f4, i4);
-                        i4 += 4;
-                    }
-                    for (; l < p; l++) {
-                        f4[i4++] = Kernels.dot(zijk, z[l], b);
+                    int t = (k == 0 ? 0 : triplesUpTo[k - 1]) + j * (j + 1) / 2 + i;
+                    f3[i3++] = third[t];
+                    for (int l = k; l < p; l++) {
+                        f4[i4++] = fourth[l][t];
                     }
                 }
             }
         }
-        if (w2 != null) {
-            return new double[][] {f4, f3, s2, s1, {Kernels.sum(w2, b)}};
+        if (squaredWeight == null) {
+            return new double[][] {f4, f3};
         }
-        return new double[][] {f4, f3};
+        double[] s2 = new double[p * p];
+        for (int j = 0, at = 0; j < p; at += ++j) {
+            for (int i = 0; i <= j; i++) {
+                s2[i * p + j] = second[at + i];
+                s2[j * p + i] = second[at + i];
+            }
+        }
+        return new double[][] {f4, f3, s2, first, {squaredWeights}};
     }
 
     /** Sums the groups usable in {@code mom} and lays the result out over column pairs. */

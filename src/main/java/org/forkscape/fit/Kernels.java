@@ -40,25 +40,4 @@ final class Kernels {
         }
         return s0 + s1;
     }
-
-    /** Four dot products sharing x: one load of x feeds four independent accumulators. */
-    static void dot4(double[] x, double[] y0, double[] y1, double[] y2, double[] y3, int n, double[] out,
-            int at) {
-        double s0 = 0;
-        double s1 = 0;
-        double s2 = 0;
-        double s3 = 0;
-        for (int r = 0; r < n; r++) {
-            double xr = x[r];
-            s0 += xr * y0[r];
-            s1 += xr * y1[r];
-            s2 += xr * y2[r];
-            s3 += xr * y3[r];
-        }
-        out[at] = s0;
-        out[at + 1] = s1;
-        out[at + 2] = s2;
-        out[at + 3] = s3;
-    }
-
 }

@@ -92,6 +92,7 @@ public final class DataVariant {
     final java.util.concurrent.atomic.AtomicLong glmRounds = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong glmPasses = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong glmFitsServed = new java.util.concurrent.atomic.AtomicLong();
+    final java.util.concurrent.atomic.AtomicLong glmOrthogonalPasses = new java.util.concurrent.atomic.AtomicLong();
     /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
     final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
@@ -196,6 +197,11 @@ public final class DataVariant {
     /** The passes those rounds held (a round holds one pass of each fit under way). */
     public long glmPasses() {
         return glmPasses.get();
+    }
+
+    /** Of those passes, the ones that factored a weighted design by QR from the parts ({@link GlmPassRequest#stacked}). */
+    public long glmOrthogonalPasses() {
+        return glmOrthogonalPasses.get();
     }
 
     /** The specifications of this variant fitted by those passes. */

@@ -232,6 +232,11 @@ public final class GlmFitsByParts {
                 }
                 variant.glmRounds.incrementAndGet();
                 variant.glmPasses.addAndGet(batch.length);
+                for (GlmPassRequest r : batch) {
+                    if (r.stacked()) {
+                        variant.glmOrthogonalPasses.incrementAndGet();
+                    }
+                }
             } catch (RuntimeException e) {
                 fail(e);
                 return;

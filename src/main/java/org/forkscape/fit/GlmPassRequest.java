@@ -28,7 +28,14 @@ public final class GlmPassRequest implements Serializable {
         /** At the estimate: the average marginal effect's sums and its gradient's ({@link GeneralizedLinear}). */
         MARGINS,
         /** At the estimate: the sandwich's meat, or its per-cluster score sums ({@link GlmCovariance}). */
-        MEAT
+        MEAT,
+        /**
+         * At a point: the triangular factor of the weighted within design W^1/2 (X - M) over the columns
+         * asked ({@link #kept}; M the driver's weighted level means {@link #levelMean}), where the fit factors
+         * its information by QR ({@link Irls#ORTHOGONAL_BELOW_SHARE}). The parts' factors are stacked and
+         * factored again, not added ({@link #stacked}).
+         */
+        ORTHOGONAL
     }
 
     /**
@@ -101,6 +108,21 @@ public final class GlmPassRequest implements Serializable {
                 errorKind, levelWeight, levelMean, factor, kept);
     }
 
+    /**
+     * At {@code alpha}, {@code beta}: the triangular factor of the part's rows of W^1/2 (X - M) over the
+     * columns {@code considered} (the others read as 0), M = {@code levelMean}.
+     */
+    static GlmPassRequest orthogonal(Rows rows, GlmFamily family, double[] alpha, double[] beta,
+            double[] levelMean, boolean[] considered) {
+        return new GlmPassRequest(Kind.ORTHOGONAL, rows, family, alpha.clone(), beta.clone(), false, null, null,
+                null, null, levelMean.clone(), null, considered.clone());
+    }
+
+    /** Whether the parts' answers are merged by stacking their factors (the tall-skinny QR) instead of adding. */
+    boolean stacked() {
+        return kind == Kind.ORTHOGONAL;
+    }
+
     GlmFamily family() {
         return GlmFamily.of(model);
     }
@@ -113,7 +135,8 @@ public final class GlmPassRequest implements Serializable {
      * weight, the gradient over levels and columns), MEAT m without clusters (one meat per combination),
      * m G + G per component of the cluster error type with them (each combination's score sum per cluster,
      * then per cluster the parts holding rows of it, so that a cluster seen anywhere counts), the components
-     * one after the other: L levels, p columns, m combinations, G the component's clusters.
+     * one after the other; ORTHOGONAL p^2 (an upper triangular p x p factor, row-major, rows of zeros below
+     * a part's rank): L levels, p columns, m combinations, G the component's clusters.
      */
     int layout() {
         int l = rows.levels;
@@ -132,6 +155,7 @@ public final class GlmPassRequest implements Serializable {
                 }
                 yield length;
             }
+            case ORTHOGONAL -> p * p;
         };
     }
 }

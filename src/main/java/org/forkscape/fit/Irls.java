@@ -736,12 +736,6 @@ final class Irls {
                 }
             }
             if (own > 0 && !(pivot > ORTHOGONAL_BELOW_SHARE * own)) {
-                if (rows.heldInParts != null) {
-                    // the QR of the weighted design reads every row in one place (orthogonalFactor)
-                    throw new RowPassUnavailable("a QR factorisation of its weighted design, since its information "
-                            + "is too poorly conditioned to factor from sums (a pivot below "
-                            + ORTHOGONAL_BELOW_SHARE + " of its column's weighted sum of squares)");
-                }
                 orthogonal = true;
                 return orthogonalFactor(p, decide);
             }
@@ -776,21 +770,37 @@ final class Irls {
 
     /**
      * The factor from Householder QR of the weighted within design A = W^1/2 (X - M), M each row's level's
-     * weighted column means, so that A'A is the within information ({@link OrthogonalFactor}).
+     * weighted column means, so that A'A is the within information ({@link OrthogonalFactor}); for rows held
+     * in parts, from the parts' triangular factors of their rows of A (one more pass per iteration).
      */
     private boolean orthogonalFactor(int p, boolean decide) {
-        int n = rows.n;
-        double[] x = rows.x;
-        int[] level = rows.level;
         boolean[] considered = new boolean[p];
         for (int j = 0; j < p; j++) {
             considered[j] = kept[j] || (decide && !spannedByLevels(j));
         }
-        int rank = householder.factor(n, p, (j, a) -> {
-            for (int i = 0, at = j; i < n; i++, at += p) {
-                a[i] = Math.sqrt(weight[i]) * (x[at] - levelMean[level[i] * p + j]);
-            }
-        }, considered, kept, decide, factor);
+        int rank;
+        if (rows.heldInParts != null) {
+            // the parts' factors of their rows of the same design, stacked (tall-skinny QR): its p x p factor R
+            // is the design's up to the signs of its rows, and the same Householder steps over R's rows take
+            // the same decisions as over the design's, since Q preserves every norm and projection
+            double[] r = rows.passes.sums(GlmPassRequest.orthogonal(rows.heldInParts, family,
+                    Arrays.copyOf(alpha, rows.levels), Arrays.copyOf(beta, p), Arrays.copyOf(levelMean, rows.levels * p),
+                    considered));
+            rank = householder.factor(p, p, (j, a) -> {
+                for (int i = 0; i < p; i++) {
+                    a[i] = r[i * p + j];
+                }
+            }, considered, kept, decide, factor);
+        } else {
+            int n = rows.n;
+            double[] x = rows.x;
+            int[] level = rows.level;
+            rank = householder.factor(n, p, (j, a) -> {
+                for (int i = 0, at = j; i < n; i++, at += p) {
+                    a[i] = Math.sqrt(weight[i]) * (x[at] - levelMean[level[i] * p + j]);
+                }
+            }, considered, kept, decide, factor);
+        }
         if (decide) {
             keptCount = Math.max(rank, 0);
             for (int j = 0; j < p; j++) {

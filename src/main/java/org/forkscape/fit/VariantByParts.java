@@ -382,8 +382,14 @@ public final class VariantByParts {
                 VariantByParts::addSums);
         variant.clusterScoreReduction = (request, cluster) -> parts.reduce(part -> part.clusterScores(key, shifted,
                 request, cluster), VariantByParts::addScores);
-        variant.glmPassReduction = batch -> parts.reduce(batch, (part, b) -> part.glmPassSums(key, shifted, b),
-                VariantByParts::addEach);
+        variant.glmPassReduction = batch -> {
+            boolean[] stacked = new boolean[batch.length];
+            for (int i = 0; i < batch.length; i++) {
+                stacked[i] = batch[i].stacked();
+            }
+            return parts.reduce(batch, (part, b) -> part.glmPassSums(key, shifted, b),
+                    (a, b) -> mergeEach(stacked, a, b));
+        };
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -576,8 +582,9 @@ public final class VariantByParts {
      * part's share of the specification's rows ({@link GlmRows#fillPart}), then the engine's own pass over
      * rows for that kind: {@link Irls#outcomeSums}, {@link GlmLikelihoods#nullSums} and
      * {@link MarginalEffect#otherThanZeroOrOne} at the start; {@link Irls#partSums} at a point;
-     * {@link GeneralizedLinear#marginSums} and {@link GlmCovariance#partMeat} at the estimate. Each answer
-     * adds over parts ({@link #addEach}).
+     * {@link GeneralizedLinear#marginSums} and {@link GlmCovariance#partMeat} at the estimate; the triangular
+     * factor of the weighted within design where the fit factors by QR. Each answer adds over parts, or
+     * for the factor stacks ({@link #mergeEach}).
      */
     public double[][] glmPassSums(VariantKey key, WholeRows whole, GlmPassRequest[] batch) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
@@ -614,6 +621,10 @@ public final class VariantByParts {
                     System.arraycopy(gradientLevels, 0, all, 2, levels);
                     System.arraycopy(gradientColumns, 0, all, 2 + levels, p);
                     yield all;
+                }
+                case ORTHOGONAL -> {
+                    irls.partSums(rows, r.family(), r.alpha, r.beta);
+                    yield orthogonalFactor(rows, irls.weight, r.levelMean, r.kept);
                 }
                 case MEAT -> {
                     // its own fit: the meat takes the driver's information into the fit's arrays
@@ -663,12 +674,76 @@ public final class VariantByParts {
         return a;
     }
 
-    /** Two parts' sums of a batch of passes as one, pass by pass ({@code a} modified and returned). */
-    static double[][] addEach(double[][] a, double[][] b) {
+    /**
+     * Two parts' answers to a batch of passes as one, pass by pass ({@code a} modified and returned): added,
+     * or where {@code stacked}, their p x p factors stacked and factored again ({@link #squareFactor}).
+     */
+    static double[][] mergeEach(boolean[] stacked, double[][] a, double[][] b) {
         for (int i = 0; i < a.length; i++) {
-            addSums(a[i], b[i]);
+            if (stacked[i]) {
+                int p = (int) Math.round(Math.sqrt(a[i].length));
+                a[i] = squareFactor(stackedFactor(unflatten(a[i], p), unflatten(b[i], p)), p);
+            } else {
+                addSums(a[i], b[i]);
+            }
         }
         return a;
+    }
+
+    /** Rows of this many at most are factored at once by {@link #orthogonalFactor}. */
+    private static final int FACTOR_CHUNK = 4096;
+
+    /**
+     * A part's share of a GLM's QR pass ({@link GlmPassRequest.Kind#ORTHOGONAL}): the triangular factor of
+     * its rows of W^1/2 (X - M) over the columns {@code considered} (the others 0), by chunks of rows each
+     * stacked on the factor so far (the tall-skinny QR above, within the part), so the part's rows are never
+     * held as one matrix.
+     */
+    private static double[] orthogonalFactor(GlmRows rows, double[] weight, double[] levelMean, boolean[] considered) {
+        int p = rows.p;
+        double[][] factor = new double[0][];
+        for (int from = 0; from < rows.n; from += FACTOR_CHUNK) {
+            int to = Math.min(rows.n, from + FACTOR_CHUNK);
+            double[][] chunk = new double[to - from][p];
+            for (int i = from; i < to; i++) {
+                double root = Math.sqrt(weight[i]);
+                int level = rows.level[i] * p;
+                for (int j = 0; j < p; j++) {
+                    if (considered[j]) {
+                        chunk[i - from][j] = root * (rows.x[i * p + j] - levelMean[level + j]);
+                    }
+                }
+            }
+            factor = triangular(stackedOrFirst(factor, chunk));
+        }
+        return squareFactor(factor, p);
+    }
+
+    private static double[][] stackedOrFirst(double[][] a, double[][] b) {
+        if (a.length == 0) {
+            return b;
+        }
+        double[][] both = new double[a.length + b.length][];
+        System.arraycopy(a, 0, both, 0, a.length);
+        System.arraycopy(b, 0, both, a.length, b.length);
+        return both;
+    }
+
+    /** A factor of at most p rows as p x p, row-major, rows of zeros below its own (which change no product R'R). */
+    private static double[] squareFactor(double[][] factor, int p) {
+        double[] out = new double[p * p];
+        for (int i = 0; i < Math.min(p, factor.length); i++) {
+            System.arraycopy(factor[i], 0, out, i * p, p);
+        }
+        return out;
+    }
+
+    private static double[][] unflatten(double[] square, int p) {
+        double[][] out = new double[p][];
+        for (int i = 0; i < p; i++) {
+            out[i] = java.util.Arrays.copyOfRange(square, i * p, (i + 1) * p);
+        }
+        return out;
     }
 
     /** Two parts' meats as one, specification by specification ({@code a} modified and returned). */

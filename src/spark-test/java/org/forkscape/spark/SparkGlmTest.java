@@ -156,6 +156,47 @@ class SparkGlmTest {
         assertTrue(notPositive > 0, "the plan has multi-way variances that are not positive");
     }
 
+    /**
+     * A logit with two nearly equal controls (the second the first plus 1e-5 of another variable), whose
+     * information one machine factors by QR of its weighted design: on Spark, at 3 partitions, from the
+     * partitions' triangular factors of their rows, stacked (asserted: the QR passes were made), equal to the
+     * engine on the CSV within the tolerance (classical, HC1, HC3 and cluster errors).
+     */
+    @Test
+    void aNearlyCollinearLogitIsFactoredFromThePartitionsFactors() throws IOException {
+        java.util.SplittableRandom random = new java.util.SplittableRandom(29);
+        StringBuilder csv = new StringBuilder("y,key,first,second,school\n");
+        for (int i = 0; i < 600; i++) {
+            double a = random.nextGaussian();
+            double z = random.nextGaussian();
+            double key = 0.5 * a + 0.3 * z + random.nextGaussian();
+            double eta = -0.3 + 0.4 * key + 0.5 * a + 0.3 * z;
+            int y = random.nextDouble() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
+            csv.append(y).append(',').append(key).append(',').append(a).append(',').append(a + 1e-5 * z).append(',')
+                    .append(i % 30).append('\n');
+        }
+        Path data = folder.resolve("near.csv");
+        Files.writeString(data, csv);
+        Path parquet = ParquetCopy.write(spark, new CsvTableReader().read(data), folder.resolve("near.parquet"), 3);
+        String planText = """
+                {"data": "near.csv", "decisions": [
+                  {"name": "o", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                  {"name": "k", "kind": "predictor", "alternatives": [{"label": "x", "column": "key"}]},
+                  {"name": "c", "kind": "controls", "required": ["first", "second"]},
+                  {"name": "e", "kind": "errors", "alternatives": ["classical", "HC1", "HC3", "cluster:school"]},
+                  {"name": "m", "kind": "model", "alternatives": ["logit"]}]}
+                """;
+        RunResult run = compare(planText, folder, parquet, 3, "near-collinear-logit-3");
+        long orthogonal = 0;
+        for (int v = 0; v < run.models().variantCount(); v++) {
+            orthogonal += run.models().variant(run.models().variantKey(v)).glmOrthogonalPasses();
+        }
+        assertTrue(orthogonal > 0, "QR passes made on Spark: " + orthogonal);
+        for (int s = 0; s < run.results().size(); s++) {
+            assertEquals("ok", run.results().status(s), "specification " + (s + 1));
+        }
+    }
+
     /** Both runs of one plan, every specification compared; returns the Spark run. */
     static RunResult compare(String planText, Path planFolder, Path parquet, int partitions, String name) {
         SparkParityTest.Comparison c = SparkParityTest.compare(planText, planFolder, parquet, partitions);

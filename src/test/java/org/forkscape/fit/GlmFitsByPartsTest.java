@@ -13,6 +13,7 @@ import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
+import org.forkscape.reference.ExactGeneralizedLinear;
 import org.forkscape.reference.ReferenceFiles;
 import org.forkscape.run.MultiverseRunner;
 import org.forkscape.run.ResultTable;
@@ -160,33 +161,56 @@ class GlmFitsByPartsTest {
 
     /**
      * Where one machine factors a fit's weighted design by QR (two controls nearly equal, the design of
-     * {@link GlmNearCollinearExactTest}), the run from parts refuses that specification by number, naming
-     * the pass it cannot make, instead of fitting it otherwise; with the controls far apart it fits as the
-     * whole table does.
+     * {@link GlmNearCollinearExactTest}, whose exact fit it matches), the fit from parts factors it from the
+     * parts' triangular factors of their rows, stacked (asserted: the QR passes were made): logit and Poisson,
+     * classical, HC1, HC3 and cluster errors, from 1, 3 and 8 slices, against the whole table within the
+     * tolerance, and at a gap of 1e-5 against the exact 60-digit fit ({@link ExactGeneralizedLinear}, 1e-7, the
+     * stopping tolerance); with the controls far apart no QR pass is made.
      */
-    @org.junit.jupiter.api.Test
-    void aFitThatNeedsTheQrOfItsDesignIsRefusedByNumber() {
-        String json = """
-                {"data": "near.csv", "decisions": [
-                  {"name": "o", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
-                  {"name": "k", "kind": "predictor", "alternatives": [{"label": "x", "column": "key"}]},
-                  {"name": "c", "kind": "controls", "required": ["first", "second"]},
-                  {"name": "e", "kind": "errors", "alternatives": ["HC1"]},
-                  {"name": "m", "kind": "model", "alternatives": ["logit"]}]}
-                """;
-        Plan plan = new PlanReader(false).read(json, Path.of("."));
-        Table near = GlmNearCollinearExactTest.rows(1e-5, false);
-        org.forkscape.InputException e = org.junit.jupiter.api.Assertions.assertThrows(
-                org.forkscape.InputException.class, () -> runOnParts(plan, near, 3));
-        assertEquals("decisions", e.where());
-        assertTrue(e.problem().startsWith("specification 1 cannot be fitted here: it needs a QR factorisation of its "
-                + "weighted design"), e.problem());
-        Table far = GlmNearCollinearExactTest.rows(1e-1, false);
-        ResultTable whole = new MultiverseRunner(1).run(plan, far, RunProgress.SILENT, new AtomicBoolean()).results();
-        ResultTable parts = runOnParts(plan, far, 3).results();
-        assertEquals("ok", parts.status(0));
-        close(whole.estimate(0), parts.estimate(0), "far apart", "estimate", new TreeMap<>());
-        close(whole.stdError(0), parts.stdError(0), "far apart", "std_error", new TreeMap<>());
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void aFitThatNeedsTheQrOfItsDesignFactorsTheStackedFactorsOfTheParts(int slices) {
+        for (String model : new String[] {"logit", "poisson"}) {
+            String json = """
+                    {"data": "near.csv", "decisions": [
+                      {"name": "o", "kind": "outcome", "alternatives": [{"label": "y", "column": "y"}]},
+                      {"name": "k", "kind": "predictor", "alternatives": [{"label": "x", "column": "key"}]},
+                      {"name": "c", "kind": "controls", "required": ["first", "second"]},
+                      {"name": "e", "kind": "errors", "alternatives": ["classical", "HC1", "HC3", "cluster:school"]},
+                      {"name": "m", "kind": "model", "alternatives": ["%s"]}]}
+                    """.formatted(model);
+            Plan plan = new PlanReader(false).read(json, Path.of("."));
+            boolean poisson = model.equals("poisson");
+            for (double gap : new double[] {1e-5, 1e-1}) {
+                Table table = GlmNearCollinearExactTest.rows(gap, poisson);
+                ResultTable whole = new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean())
+                        .results();
+                RunResult run = runOnParts(plan, table, slices);
+                ResultTable parts = run.results();
+                long orthogonalPasses = 0;
+                for (int v = 0; v < run.models().variantCount(); v++) {
+                    orthogonalPasses += run.models().variant(run.models().variantKey(v)).glmOrthogonalPasses();
+                }
+                String where = model + ", gap " + gap + ", " + slices + " parts";
+                assertEquals(gap < 1e-3, orthogonalPasses > 0, where + ": QR passes made (" + orthogonalPasses + ")");
+                for (int s = 0; s < whole.size(); s++) {
+                    assertEquals(whole.status(s), parts.status(s), where + " status");
+                    close(whole.estimate(s), parts.estimate(s), where, "estimate", new TreeMap<>());
+                    close(whole.stdError(s), parts.stdError(s), where, "std_error", new TreeMap<>());
+                }
+                if (gap < 1e-3) {
+                    ExactGeneralizedLinear.KeyResult exact = ExactGeneralizedLinear.fit(poisson, new double[][] {
+                        values(table, "first"), values(table, "second"), values(table, "key")}, values(table, "y"));
+                    assertEquals(exact.estimate(), parts.estimate(0), 1e-7 * Math.abs(exact.estimate()), where);
+                    assertEquals(exact.classical(), parts.stdError(0), 1e-7 * exact.classical(), where + " classical");
+                    assertEquals(exact.hc1(), parts.stdError(1), 1e-7 * exact.hc1(), where + " HC1");
+                }
+            }
+        }
+    }
+
+    private static double[] values(Table table, String column) {
+        return ((org.forkscape.data.NumericColumn) table.column(column)).values();
     }
 
     /**

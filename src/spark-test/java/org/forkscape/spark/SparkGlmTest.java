@@ -157,8 +157,9 @@ class SparkGlmTest {
     }
 
     /**
-     * A logit with two nearly equal controls (the second the first plus 1e-5 of another variable), whose
-     * information one machine factors by QR of its weighted design: on Spark, at 3 partitions, from the
+     * A logit with two nearly equal controls (the second the first plus 1e-3 of another variable, a pivot
+     * share near 1e-6), whose information one machine factors by QR of its weighted design: on Spark, at 3
+     * partitions, from the
      * partitions' triangular factors of their rows, stacked (asserted: the QR passes were made), equal to the
      * engine on the CSV within the tolerance (classical, HC1, HC3 and cluster errors).
      */
@@ -172,7 +173,7 @@ class SparkGlmTest {
             double key = 0.5 * a + 0.3 * z + random.nextGaussian();
             double eta = -0.3 + 0.4 * key + 0.5 * a + 0.3 * z;
             int y = random.nextDouble() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
-            csv.append(y).append(',').append(key).append(',').append(a).append(',').append(a + 1e-5 * z).append(',')
+            csv.append(y).append(',').append(key).append(',').append(a).append(',').append(a + 1e-3 * z).append(',')
                     .append(i % 30).append('\n');
         }
         Path data = folder.resolve("near.csv");

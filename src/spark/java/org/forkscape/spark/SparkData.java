@@ -117,7 +117,7 @@ final class SparkData implements RunData {
                         + "rows per data set", source, rows, Integer.MAX_VALUE));
             }
             data = partitions > 0 ? selected.repartition(partitions) : selected;
-            shape = new TableShape(names, categorical, levels);
+            shape = new TableShape(names, categorical, levels, selected.schema());
             this.grouping = WholeRows.NONE.withGroupingValues(groupingValues);
             return shape.withoutRows(source, (int) rows, others);
         } catch (InputException e) {
@@ -133,8 +133,10 @@ final class SparkData implements RunData {
         SparkWeights.check(plan, data, categoricalNames, source);
         TableShape s = shape;
         boolean withKeys = keyed;
-        JavaRDD<SparkPart> parts = data.javaRDD().mapPartitions(rows -> List.of(s.part(rows, withKeys)).iterator())
-                .persist(StorageLevel.MEMORY_ONLY());
+        // Spark's internal rows, read by their types' getters: converting each to an external Row first boxes
+        // every value and took about as long as decoding the Parquet pages
+        JavaRDD<SparkPart> parts = data.queryExecution().toRdd().toJavaRDD()
+                .mapPartitions(rows -> List.of(s.part(rows, withKeys)).iterator()).persist(StorageLevel.MEMORY_ONLY());
         return new SparkVariants(spark, parts, planText, planFolder, plan, table, grouping);
     }
 

@@ -1,14 +1,13 @@
 package org.forkscape.spark;
 
 import java.io.Serializable;
-import java.math.BigDecimal;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashMap;
 import java.util.Iterator;
 import java.util.List;
 import java.util.Map;
-import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.InternalRow;
 import org.apache.spark.sql.types.BooleanType;
 import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.types.DecimalType;
@@ -34,10 +33,20 @@ final class TableShape implements Serializable {
     private final boolean[] categorical;
     private final String[][] levels;
 
-    TableShape(String[] names, boolean[] categorical, String[][] levels) {
+    /** @param schema the data set's schema, whose types {@link #part} reads the columns by */
+    TableShape(String[] names, boolean[] categorical, String[][] levels, org.apache.spark.sql.types.StructType schema) {
         this.names = names;
         this.categorical = categorical;
         this.levels = levels;
+        readers = new Reader[names.length];
+        decimalShape = new int[names.length][];
+        for (int c = 0; c < names.length; c++) {
+            DataType t = schema.apply(names[c]).dataType();
+            if (t instanceof DecimalType d) {
+                decimalShape[c] = new int[] {d.precision(), d.scale()};
+            }
+            readers[c] = reader(t);
+        }
     }
 
     /** Whether Forkscape reads a Parquet column of this type; if so, whether it is categorical. */
@@ -71,10 +80,43 @@ final class TableShape implements Serializable {
     }
 
     /**
-     * One partition's rows (the columns of {@link #names}, in order) as a table coded like the whole; with
-     * {@code keyed}, each row's two further fields (file name, row index; {@link RowIdentity}) give its identity.
+     * How each column of {@link #names} is read from Spark's internal rows, by its Parquet type (the
+     * dataset's schema): the getter that gives the value itself, with no boxing of an external row.
      */
-    SparkPart part(Iterator<Row> rows, boolean keyed) {
+    private enum Reader { DOUBLE, FLOAT, LONG, INT, SHORT, BYTE, BOOLEAN, DECIMAL, TEXT }
+
+    private final Reader[] readers;
+    private final int[][] decimalShape;
+
+    private static Reader reader(DataType t) {
+        if (t instanceof StringType) {
+            return Reader.TEXT;
+        }
+        if (t instanceof DecimalType) {
+            return Reader.DECIMAL;
+        }
+        if (t instanceof BooleanType) {
+            return Reader.BOOLEAN;
+        }
+        return switch (t.typeName()) {
+            case "double" -> Reader.DOUBLE;
+            case "float" -> Reader.FLOAT;
+            case "long" -> Reader.LONG;
+            case "integer" -> Reader.INT;
+            case "short" -> Reader.SHORT;
+            case "byte" -> Reader.BYTE;
+            default -> throw new IllegalStateException("a type the shape does not read: " + t.simpleString());
+        };
+    }
+
+    /**
+     * One partition's rows (the columns of {@link #names}, in order, as Spark's internal rows, read by
+     * the getters of their types) as a table coded like the whole; with {@code keyed}, each row's two further
+     * fields (file name, row index; {@link RowIdentity}) give its identity. Each value is the one the CSV
+     * reader would give for the same number: integers and floats widened exactly, a decimal by
+     * {@code BigDecimal.doubleValue} (correctly rounded), booleans as 0/1.
+     */
+    SparkPart part(Iterator<InternalRow> rows, boolean keyed) {
         int p = names.length;
         List<Map<String, Integer>> codeOf = new ArrayList<>();
         for (int c = 0; c < p; c++) {
@@ -99,7 +141,7 @@ final class TableShape implements Serializable {
         Map<String, Long> fileHash = new HashMap<>();
         int n = 0;
         while (rows.hasNext()) {
-            Row row = rows.next();
+            InternalRow row = rows.next();
             if (n == (categorical[0] ? codes[0].length : numbers[0].length)) {
                 if (keyed) {
                     keys = Arrays.copyOf(keys, 2 * n);
@@ -114,13 +156,13 @@ final class TableShape implements Serializable {
             }
             for (int c = 0; c < p; c++) {
                 if (categorical[c]) {
-                    codes[c][n] = row.isNullAt(c) ? -1 : codeOf.get(c).get(row.getString(c));
+                    codes[c][n] = row.isNullAt(c) ? -1 : codeOf.get(c).get(row.getUTF8String(c).toString());
                 } else {
-                    numbers[c][n] = row.isNullAt(c) ? Double.NaN : number(row.get(c));
+                    numbers[c][n] = row.isNullAt(c) ? Double.NaN : number(row, c);
                 }
             }
             if (keyed) {
-                keys[n] = RowIdentity.key(fileHash, row.getString(p), row.getLong(p + 1));
+                keys[n] = RowIdentity.key(fileHash, row.getUTF8String(p).toString(), row.getLong(p + 1));
             }
             n++;
         }
@@ -132,13 +174,17 @@ final class TableShape implements Serializable {
         return new SparkPart(new Table("partition", columns), keyed ? Arrays.copyOf(keys, n) : null);
     }
 
-    private static double number(Object v) {
-        if (v instanceof Boolean b) {
-            return b ? 1 : 0;
-        }
-        if (v instanceof BigDecimal d) {
-            return d.doubleValue();
-        }
-        return ((Number) v).doubleValue();
+    private double number(InternalRow row, int c) {
+        return switch (readers[c]) {
+            case DOUBLE -> row.getDouble(c);
+            case FLOAT -> row.getFloat(c);
+            case LONG -> row.getLong(c);
+            case INT -> row.getInt(c);
+            case SHORT -> row.getShort(c);
+            case BYTE -> row.getByte(c);
+            case BOOLEAN -> row.getBoolean(c) ? 1 : 0;
+            case DECIMAL -> row.getDecimal(c, decimalShape[c][0], decimalShape[c][1]).toJavaBigDecimal().doubleValue();
+            case TEXT -> throw new IllegalStateException("a text column read as a number");
+        };
     }
 }

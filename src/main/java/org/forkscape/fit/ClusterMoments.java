@@ -113,85 +113,62 @@ final class ClusterMoments {
             cellOf[r] = lastId;
         }
         int cells = keys.size();
-        int[] start = new int[cells + 1];
-        for (int id : cellOf) {
-            if (id >= 0) {
-                start[id + 1]++;
-            }
-        }
-        for (int c = 0; c < cells; c++) {
-            start[c + 1] += start[c];
-        }
-        int[] order = new int[start[cells]];
-        int[] fill = start.clone();
+        // every cell's sums in one pass in row order, each row's products added to its cell's accumulator
+        // (sums, then the pairs z_i z_j, i <= j, by j), which stays in cache where gathering each cell's rows
+        // column by column would read the columns out of order
+        int pairs = p * (p + 1) / 2;
+        int width = 1 + p + pairs;
+        double[] acc = new double[cells * width];
+        int[] count = new int[cells];
+        double[] z = new double[p];
+        double[][] shifted = v.shifted;
+        double[] weight = v.weight;
         for (int r = 0; r < v.rows; r++) {
-            if (cellOf[r] >= 0) {
-                order[fill[cellOf[r]]++] = r;
+            int id = cellOf[r];
+            if (id < 0) {
+                continue;
+            }
+            count[id]++;
+            int at = id * width;
+            double w = weight == null ? 1 : weight[r];
+            acc[at] += w;
+            at++;
+            for (int j = 0; j < p; j++) {
+                z[j] = shifted[j][r];
+                acc[at + j] += weight == null ? z[j] : z[j] * w;
+            }
+            at += p;
+            for (int j = 0; j < p; j++, at += j) {
+                double zj = z[j];
+                if (weight == null) {
+                    for (int i = 0; i <= j; i++) {
+                        acc[at + i] += z[i] * zj;
+                    }
+                } else {
+                    for (int i = 0; i <= j; i++) {
+                        acc[at + i] += (z[i] * w) * zj;
+                    }
+                }
             }
         }
         List<Cell> out = new ArrayList<>(cells);
-        double[][] z = new double[p][];
-        double[] w = new double[0];
-        double[] zw = new double[0];
         for (int id = 0; id < cells; id++) {
             int[] k = keys.get(id);
             Cell cell = new Cell(k[0], k[1], k[2], p);
-            int m = start[id + 1] - start[id];
-            cell.n = m;
-            for (int j = 0; j < p; j++) {
-                double[] col = v.shifted[j];
-                double[] zj = z[j] == null || z[j].length < m ? new double[m] : z[j];
-                for (int t = 0; t < m; t++) {
-                    zj[t] = col[order[start[id] + t]];
-                }
-                z[j] = zj;
-            }
-            if (v.weight != null) {
-                if (w.length < m) {
-                    w = new double[m];
-                    zw = new double[m];
-                }
-                for (int t = 0; t < m; t++) {
-                    w[t] = v.weight[order[start[id] + t]];
-                }
-                weigh(cell, z, w, zw, m, p);
-                out.add(cell);
-                continue;
-            }
-            for (int a = 0; a < p; a++) {
-                cell.sum[a] = Kernels.sum(z[a], m);
-                for (int b = a; b < p; b++) {
-                    double d = Kernels.dot(z[a], z[b], m);
-                    cell.cross[a * p + b] = d;
-                    cell.cross[b * p + a] = d;
+            cell.n = count[id];
+            int at = id * width;
+            cell.weight = weight == null ? 0 : acc[at];
+            System.arraycopy(acc, at + 1, cell.sum, 0, p);
+            at += 1 + p;
+            for (int j = 0; j < p; j++, at += j) {
+                for (int i = 0; i <= j; i++) {
+                    cell.cross[i * p + j] = acc[at + i];
+                    cell.cross[j * p + i] = acc[at + i];
                 }
             }
             out.add(cell);
         }
         return new ClusterMoments(p, out);
-    }
-
-    /**
-     * The weighted sums of a cell of a weighted variant: its weight total, sum w z and sum w z z' around the
-     * level's shift, so that a cluster's score a'S w - beta a's - alpha w's + W alpha beta is sum w e u, the
-     * score of weighted least squares, with the weighted level means as offsets ({@link Moments}).
-     *
-     * @param w  the weights of the cell's rows (not modified); {@code zw} a workspace of the same length
-     */
-    private static void weigh(Cell cell, double[][] z, double[] w, double[] zw, int m, int p) {
-        cell.weight = Kernels.sum(w, m);
-        for (int a = 0; a < p; a++) {
-            double[] za = z[a];
-            for (int t = 0; t < m; t++) {
-                zw[t] = za[t] * w[t];
-            }
-            cell.sum[a] = Kernels.sum(zw, m);
-            for (int b = a; b < p; b++) {
-                double d = Kernels.dot(zw, z[b], m);
-                cell.cross[a * p + b] = d;
-                cell.cross[b * p + a] = d;
-            }
-        }
     }
 
     /**

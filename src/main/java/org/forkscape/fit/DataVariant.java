@@ -64,6 +64,12 @@ public final class DataVariant {
      * otherwise.
      */
     Map<String, long[]> intersectionClusterKeys = Map.of();
+    /**
+     * For a bootstrap draw of a variant held in parts ({@link BootstrapByParts}): the observed variant, whose
+     * fits start the draw's generalized linear fits, as one machine's draws start ({@link GlmStarts}); null
+     * for an observed variant.
+     */
+    volatile DataVariant drawOf;
     /** Where each generalized linear fit of this variant starts, and the fits already made. */
     final GlmStarts glmStarts = new GlmStarts();
     /**

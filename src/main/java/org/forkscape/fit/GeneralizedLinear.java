@@ -63,7 +63,8 @@ public final class GeneralizedLinear implements Estimator {
         }
         GlmStarts.Start start = data.observed()
                 ? startOf(new GlmStarts.Key(family, y, mom, cols), data, mom, spec.errors())
-                : observedFit(family, y, cols, spec.variableMask(), variant, spec.errors());
+                : observedFit(family, y, cols, spec.variableMask(), variant.drawOf != null ? variant.drawOf : variant,
+                        spec.errors());
         GlmStarts.Key key = new GlmStarts.Key(family, y, mom, cols);
         fitRows(key, data, mom, spec.errors(), start);
         if (data.observed()) {
@@ -92,11 +93,12 @@ public final class GeneralizedLinear implements Estimator {
     /**
      * The starts that {@link #fit} of {@code spec} on the observed {@code data} would fit first, because no
      * fit has kept them yet: its ancestors from the nearest kept one (exclusive) to its parent, farthest
-     * first ({@link GlmStarts}); empty when the specification needs no iterations.
+     * first ({@link GlmStarts}); empty when the specification needs no iterations, and for a null draw, whose
+     * fits start from the observed fits.
      */
     static java.util.List<GlmStarts.Key> missingStarts(SpecificationModel spec, FitData data) {
         Moments mom = data.moments(spec.variableMask());
-        if (withoutFit(spec, data.variant(), mom) != null) {
+        if (!data.observed() || withoutFit(spec, data.variant(), mom) != null) {
             return java.util.List.of();
         }
         java.util.LinkedList<GlmStarts.Key> missing = new java.util.LinkedList<>();

@@ -22,7 +22,8 @@ import java.util.TreeMap;
  * depend on the batch or on the threads; the rounds do not either, since a round holds exactly the next pass
  * of every fit under way. Starts follow the single machine's tree ({@link GlmStarts}): the ancestors no fit has
  * kept are fitted first, a generation at a time (nearest the root first), each generation's fits side by side,
- * then the batch's specifications from their parents.
+ * then the batch's specifications from their parents. A bootstrap draw's variant ({@link DataVariant#drawOf})
+ * has no generations: every fit starts from its observed fit, as one machine's draws start.
  */
 public final class GlmFitsByParts {
     /** Fits side by side at most: each round sends one pass of each to every part. */

@@ -126,9 +126,10 @@ public final class ObservedRows implements FitData {
         return r;
     }
 
+    /** False for a bootstrap draw's variant held in parts ({@link DataVariant#drawOf}), read as observed rows are. */
     @Override
     public boolean observed() {
-        return true;
+        return variant.drawOf == null;
     }
 
     @Override

@@ -68,13 +68,16 @@ public final class RowPassesByParts {
     /**
      * Every specification of {@code models} fitted on {@code variant} by {@code fitter} (which defers its row
      * passes, and may defer its QR refits: those are then reduced in batches, {@link RefitsByParts}, and
-     * their specifications fitted again), the deferred ones finished by batches; null for a specification
-     * that needs a pass over rows that cannot be made ({@link RowPassUnavailable}).
+     * their specifications fitted again), the deferred ones finished by batches; the generalized linear ones
+     * ({@link GlmPending}) fitted side by side by {@link GlmFitsByParts}, their passes in rounds over the
+     * variant's parts; null for a specification that needs a pass over rows that cannot be made
+     * ({@link RowPassUnavailable}).
      */
     public static KeyFit[] fitEach(SpecificationFitter fitter, DataVariant variant, List<SpecificationModel> models,
             Runnable beforeEachPass) {
         KeyFit[] out = new KeyFit[models.size()];
         List<Deferred> deferred = new ArrayList<>();
+        List<Integer> glms = new ArrayList<>();
         List<Integer> round = new ArrayList<>();
         for (int i = 0; i < out.length; i++) {
             round.add(i);
@@ -87,6 +90,9 @@ public final class RowPassesByParts {
                 try {
                     out[i] = fitter.fit(variant, models.get(i));
                 } catch (RowPassUnavailable e) {
+                    continue;
+                } catch (GlmPending e) {
+                    glms.add(i);
                     continue;
                 } catch (RefitPending e) {
                     waiting.add(i);
@@ -105,6 +111,17 @@ public final class RowPassesByParts {
             }
             round = waiting;
             first = false;
+        }
+        if (!glms.isEmpty()) {
+            List<SpecificationModel> glmModels = new ArrayList<>(glms.size());
+            for (int i : glms) {
+                glmModels.add(models.get(i));
+            }
+            KeyFit[] fitted = GlmFitsByParts.fit(variant, glmModels, GlmFitsByParts.MAX_PER_BATCH, beforeEachPass)
+                    .fits();
+            for (int j = 0; j < fitted.length; j++) {
+                out[glms.get(j)] = fitted[j];
+            }
         }
         deferred.sort(java.util.Comparator.comparingInt(Deferred::slot));
         KeyFit[] finished = finish(variant, deferred, MAX_PER_BATCH, beforeEachPass, served -> { });

@@ -131,8 +131,23 @@ public final class VariantByParts {
 
     /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
-        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         Map<String, long[]> intersections = new HashMap<>();
+        CodedRows coded = codedWithClusters(key, whole, intersections);
+        DataVariant part = new DataVariant(coded, new CellSums(coded, null));
+        List<String> clusters = new ArrayList<>();
+        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+            clusters.add(c.column().name());
+        }
+        return PartialStatistics.of(part, withTensors, clusters, intersections);
+    }
+
+    /**
+     * This part coded for the variant, with its clusters as a pass sums them: in a draw's copy the clusters
+     * of {@link #renewedClusters} renewed per copy; and into {@code intersections} (modified) the whole
+     * table's key of each of the part's clusters of every intersection of cluster columns, renewed alike.
+     */
+    private CodedRows codedWithClusters(VariantKey key, WholeRows whole, Map<String, long[]> intersections) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         for (ClusterComponents.Component c : plan.clusterIntersections) {
             intersections.put(c.key(), intersectionKeys(coded, whole, c));
         }
@@ -146,12 +161,7 @@ public final class VariantByParts {
                 }
             }
         }
-        DataVariant part = new DataVariant(coded, new CellSums(coded, null));
-        List<String> clusters = new ArrayList<>();
-        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
-            clusters.add(c.column().name());
-        }
-        return PartialStatistics.of(part, withTensors, clusters, intersections);
+        return coded;
     }
 
     /**
@@ -382,14 +392,7 @@ public final class VariantByParts {
                 VariantByParts::addSums);
         variant.clusterScoreReduction = (request, cluster) -> parts.reduce(part -> part.clusterScores(key, shifted,
                 request, cluster), VariantByParts::addScores);
-        variant.glmPassReduction = batch -> {
-            boolean[] stacked = new boolean[batch.length];
-            for (int i = 0; i < batch.length; i++) {
-                stacked[i] = batch[i].stacked();
-            }
-            return parts.reduce(batch, (part, b) -> part.glmPassSums(key, shifted, b),
-                    (a, b) -> mergeEach(stacked, a, b));
-        };
+        variant.glmPassReduction = glmPasses(key, shifted, parts);
         variant.partsFacts = shifted;
         if (tensors && !tensorsFit(variant.groupCount())) {
             throw new org.forkscape.InputException("decisions", "the fourth moments that HC0 and HC1 need without "
@@ -402,14 +405,19 @@ public final class VariantByParts {
 
     /**
      * The variant {@code key} in one bootstrap draw, from the draw's statistics summed over the parts, coded
-     * with the observed variant's facts ({@code facts}); its QR refits reduce {@code drawParts}, the parts
-     * in that draw.
+     * with the observed variant's facts ({@code facts}); its QR refits, row passes and generalized linear
+     * fits' passes reduce {@code drawParts}, the parts in that draw (each row repeated by its count).
+     *
+     * @param observed the observed variant, whose fits start the draw's generalized linear fits
      */
-    DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
+    DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts,
+            DataVariant observed) {
         DataVariant variant = variant(key, facts, sum);
+        variant.drawOf = observed;
         variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
                 VariantByParts::addSums);
+        variant.glmPassReduction = glmPasses(key, facts, drawParts);
         return variant;
     }
 
@@ -587,7 +595,8 @@ public final class VariantByParts {
      * for the factor stacks ({@link #mergeEach}).
      */
     public double[][] glmPassSums(VariantKey key, WholeRows whole, GlmPassRequest[] batch) {
-        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        Map<String, long[]> intersections = new HashMap<>();
+        CodedRows coded = codedWithClusters(key, whole, intersections);
         GlmRows rows = new GlmRows();
         Irls irls = new Irls();
         double[][] out = new double[batch.length][];
@@ -630,8 +639,8 @@ public final class VariantByParts {
                     // its own fit: the meat takes the driver's information into the fit's arrays
                     Irls atEstimate = new Irls();
                     atEstimate.partSums(rows, r.family(), r.alpha, r.beta);
-                    yield new GlmCovariance().partMeat(atEstimate, rows, r, glmClusterCodes(coded, whole, r.rows,
-                            rows));
+                    yield new GlmCovariance().partMeat(atEstimate, rows, r, glmClusterCodes(coded, intersections,
+                            r.rows, rows));
                 }
             };
         }
@@ -641,10 +650,13 @@ public final class VariantByParts {
     /**
      * Per component of a generalized linear fit's cluster error type, the code of each of the part's rows of
      * it ({@link GlmRows#source}) among the variant's clusters: a column's own code, the same on every part;
-     * an intersection's the rank of its key over the whole table ({@link #intersectionKeys}) among the
-     * variant's keys. Null without clusters.
+     * an intersection's the rank of its key over the whole table ({@link #intersectionKeys}, given in
+     * {@code intersections}) among the variant's keys. In a draw's copy, the codes and keys of the clusters
+     * nested in the resampled units are those of the copies ({@link #codedWithClusters}), as the draw's
+     * statistics number them. Null without clusters.
      */
-    private int[][] glmClusterCodes(CodedRows coded, WholeRows whole, GlmPassRequest.Rows r, GlmRows rows) {
+    private int[][] glmClusterCodes(CodedRows coded, Map<String, long[]> intersections, GlmPassRequest.Rows r,
+            GlmRows rows) {
         String[] keys = r.clusterKeys();
         if (keys.length == 0) {
             return null;
@@ -653,12 +665,7 @@ public final class VariantByParts {
         for (int c = 0; c < keys.length; c++) {
             int[] local = coded.clusters.get(keys[c]);
             long[] ascending = r.intersectionKeys()[c];
-            long[] global = null;
-            if (ascending != null) {
-                String key = keys[c];
-                global = intersectionKeys(coded, whole, plan.clusterIntersections.stream()
-                        .filter(i -> i.key().equals(key)).findFirst().orElseThrow());
-            }
+            long[] global = ascending == null ? null : intersections.get(keys[c]);
             for (int k = 0; k < rows.n; k++) {
                 int code = local[rows.source[k]];
                 out[c][k] = global == null ? code : java.util.Arrays.binarySearch(ascending, global[code]);
@@ -672,6 +679,17 @@ public final class VariantByParts {
             java.util.TreeMap<Long, Double> b) {
         b.forEach((cluster, score) -> a.merge(cluster, score, Double::sum));
         return a;
+    }
+
+    /** A variant's passes of its generalized linear fits over {@code parts}, merged by {@link #mergeEach}. */
+    private static DataVariant.GlmPassReduction glmPasses(VariantKey key, WholeRows whole, VariantParts parts) {
+        return batch -> {
+            boolean[] stacked = new boolean[batch.length];
+            for (int i = 0; i < batch.length; i++) {
+                stacked[i] = batch[i].stacked();
+            }
+            return parts.reduce(batch, (part, b) -> part.glmPassSums(key, whole, b), (a, b) -> mergeEach(stacked, a, b));
+        };
     }
 
     /**

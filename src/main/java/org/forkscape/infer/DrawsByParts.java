@@ -21,12 +21,15 @@ import org.forkscape.run.WorkerPools;
  * The bootstrap null draws of a run whose rows are held in parts ({@link BootstrapByParts}, the Spark
  * runner): draws go in batches, each batch one pass over the parts per data variant, which returns the
  * variant in every draw of the batch; the driver then fits each specification of each draw with the
- * engine's estimator (each draw by one worker thread) and hands the draws' fits to the same statistics as
+ * engine's estimator (each draw by one worker thread; a generalized linear specification is refit from the
+ * observed fit, its passes in rounds over that draw's parts, {@link RowPassesByParts#fitEach}) and hands the
+ * draws' fits to the same statistics as
  * {@link NullDraws} on one machine, in the same order (variants in order, their specifications in slot order),
  * so the numbers do not depend on the thread count. A specification whose standard error in a draw would need a
  * pass over the rows (its sandwich from the draw's sums could lose digits, as in a draw of copies of one cluster
  * alone, whose scores cancel) is left out of that draw and counted among the failed fits, where one machine's row
- * pass would give it a standard error.
+ * pass would give it a standard error; so is a generalized linear fit whose information cannot be factored from
+ * the draw's sums (where one machine would factor the weighted design by QR).
  */
 final class DrawsByParts {
     private DrawsByParts() {

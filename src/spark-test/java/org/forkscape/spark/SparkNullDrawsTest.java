@@ -55,7 +55,9 @@ import org.junit.jupiter.api.io.TempDir;
  * repeated by {@code fit.ResampledVariant}, within {@value #RELATIVE} (common practice for two exact routes in
  * double precision). For single rows, for whole schools (each drawn copy a new cluster), and for whole schools
  * beside errors clustered on classes (within schools: new classes in each copy) and on districts (copies stay). (c) The batch
- * command writes the draws' files, the same at 3 and 8 partitions. (d) What the draws cannot do on Spark is
+ * command writes the draws' files, the same at 3 and 8 partitions. (e) Logit draws: every draw's logit fits, each
+ * pass over the draw's partitions, the same at 1 and 3 partitions and as one machine's with the same counts, and
+ * through the command, the same files at 1 and 3 partitions. (d) What the draws cannot do on Spark is
  * refused at its JSON path, and data whose files share a name (so that their rows would share identities). The calibration of this bootstrap is {@code infer.PoissonBootstrapCalibrationTest}'s.
  */
 class SparkNullDrawsTest {
@@ -69,6 +71,24 @@ class SparkNullDrawsTest {
     /** The Parquet parts read back on one machine, in part-name order, and each row's identity. */
     static Table readBack;
     static long[] rowKeys;
+    /** The same for invented pupils with a 0/1 outcome ({@link PartsOfTable#glmSchools}), for logit draws. */
+    static Path glmParquet;
+    static Table glmReadBack;
+    static long[] glmRowKeys;
+
+    /** A small logit plan: two controls, the district absorbed or not, classical and school-clustered errors. */
+    static final String LOGIT_PLAN = """
+            {"data": "schools.csv",
+             "decisions": [
+               {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "passed", "column": "passed"}]},
+               {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
+               {"name": "controls", "kind": "controls", "optional": ["a", "b"]},
+               {"name": "model", "kind": "model", "alternatives": ["logit"]},
+               {"name": "effects", "kind": "absorb", "alternatives": [
+                  {"label": "none", "columns": []}, {"label": "district", "columns": ["district"]}]},
+               {"name": "errors", "kind": "errors", "alternatives": ["classical", "cluster:school"]}
+             ]}
+            """;
 
     @BeforeAll
     static void start() throws IOException {
@@ -79,21 +99,31 @@ class SparkNullDrawsTest {
         parquet = ParquetCopy.write(spark, PartsOfTable.schools(5, 24, 12, 0.3, 0.1), folder.resolve(
                 "schools.parquet"), 4);
         readBack = DataFiles.read(parquet);
+        rowKeys = identities(parquet, readBack);
+        glmParquet = ParquetCopy.write(spark, PartsOfTable.glmSchools(71, 30), folder.resolve("glm-schools.parquet"),
+                4);
+        glmReadBack = DataFiles.read(glmParquet);
+        glmRowKeys = identities(glmParquet, glmReadBack);
+    }
+
+    /** Each row's identity in the Parquet parts read back as {@code readBack}: its part's name and index. */
+    private static long[] identities(Path parquet, Table readBack) throws IOException {
         List<Path> files;
         try (Stream<Path> list = Files.list(parquet)) {
             files = list.filter(f -> f.getFileName().toString().endsWith(".parquet")).sorted().toList();
         }
         assertEquals(4, files.size(), "part files");
-        rowKeys = new long[readBack.rowCount()];
+        long[] keys = new long[readBack.rowCount()];
         int r = 0;
         for (Path f : files) {
             long name = PoissonCounts.textHash(f.getFileName().toString());
             int rows = DataFiles.read(f).rowCount();
             for (int i = 0; i < rows; i++) {
-                rowKeys[r++] = PoissonCounts.rowKey(name, i);
+                keys[r++] = PoissonCounts.rowKey(name, i);
             }
         }
         assertEquals(readBack.rowCount(), r);
+        return keys;
     }
 
     @AfterAll
@@ -158,16 +188,36 @@ class SparkNullDrawsTest {
     }
 
     /**
-     * Every specification in every draw: fits at 1, 3 and 8 partitions and on one machine.
+     * Logit beside whole schools: every draw's fits refit by the single-machine estimator, each pass summed over
+     * the draw's partitions (each row repeated by its count, each drawn copy of a school a new school), the same
+     * at 1 and 3 partitions and as one machine's with the same counts.
+     */
+    @Test
+    void logitDrawsAreTheSameOnEveryPartitioningAndAsOneMachine() {
+        SparkParityTest.report("draws-logit", sameDraws(withDraws(LOGIT_PLAN, "school"), "school", glmParquet,
+                glmReadBack, glmRowKeys, new int[] {1, 3}));
+        assertTrue(glmFits > 0, glmFits + " draw fits from the passes over the draws' partitions");
+    }
+
+    /** Specifications fitted by row passes over a draw's partitions in the last {@link #sameDraws}. */
+    private static long rowPasses;
+    /** Generalized linear fits whose passes went to a draw's partitions in the last {@link #sameDraws}. */
+    private static long glmFits;
+
+    private static double[] sameDraws(String planText, String resampled) {
+        return sameDraws(planText, resampled, parquet, readBack, rowKeys, new int[] {1, 3, 8});
+    }
+
+    /**
+     * Every specification in every draw: fits at each of {@code partitionings} and on one machine.
      *
      * @return the largest relative differences from one machine: estimate, standard error, p-value
      */
-    /** Specifications fitted by row passes over a draw's partitions in the last {@link #sameDraws}. */
-    private static long rowPasses;
-
-    private static double[] sameDraws(String planText, String resampled) {
+    private static double[] sameDraws(String planText, String resampled, Path data, Table readBack, long[] rowKeys,
+            int[] partitionings) {
         double[] worst = new double[3];
         rowPasses = 0;
+        glmFits = 0;
         Plan plan = new PlanReader(false).read(planText, folder);
         BootstrapDesign design = new BootstrapDesign(plan.seed(), resampled);
         assertEquals(resampled, NullDrawSettings.of(plan).clusterColumn());
@@ -175,8 +225,8 @@ class SparkNullDrawsTest {
         int predictors = plan.predictor().alternatives().size();
         KeyFit[][][] first = null;
         int compared = 0;
-        for (int partitions : new int[] {1, 3, 8}) {
-            RunResult run = sparkRun(planText, partitions);
+        for (int partitions : partitionings) {
+            RunResult run = sparkRun(planText, data, partitions);
             RunVariants indexed = RunVariants.of(run);
             BootstrapByParts draws = run.models().bootstrap(design);
             assertTrue(draws != null, "the Spark runner makes its draws by partitions");
@@ -204,6 +254,7 @@ class SparkNullDrawsTest {
                     long served = inDraw[d].rowPassesServed();
                     KeyFit[] drawFits = RowPassesByParts.fitEach(fitter, inDraw[d], models, () -> { });
                     rowPasses += inDraw[d].rowPassesServed() - served;
+                    glmFits += inDraw[d].glmFitsServed();
                     for (int s = 0; s < specs.length; s++) {
                         KeyFit fit = drawFits[s];
                         assertTrue(fit != null, "a row pass refused by partitions");
@@ -237,7 +288,7 @@ class SparkNullDrawsTest {
                 first = fits;
             }
         }
-        assertTrue(compared > 3 * DRAWS * 4, compared + " fits compared");
+        assertTrue(compared > partitionings.length * DRAWS * 4, compared + " fits compared");
         return worst;
     }
 
@@ -289,6 +340,58 @@ class SparkNullDrawsTest {
         }
     }
 
+    /**
+     * A logit plan with null draws through the batch command: it writes null-draws.csv and summary.json, the same
+     * at 1 and 3 partitions (numbers within {@value #RELATIVE}, the joint tests exactly), its observed fits
+     * every one logit.
+     */
+    @Test
+    void theCommandWritesLogitDrawsTheSameOnOneAndThreePartitions() throws IOException {
+        Path plan = folder.resolve("logit-plan.json");
+        Files.writeString(plan, withDraws(LOGIT_PLAN, "school").replace("\"nullDraws\": " + DRAWS,
+                "\"nullDraws\": 20"));
+        List<List<CSVRecord>> files = new ArrayList<>();
+        List<com.fasterxml.jackson.databind.JsonNode> summaries = new ArrayList<>();
+        for (int partitions : new int[] {1, 3}) {
+            Path out = folder.resolve("logit-draws-" + partitions);
+            assertEquals(0, SparkRun.execute(new String[] {"run", plan.toString(), "--out", out.toString(), "--data",
+                    glmParquet.toString(), "--partitions", String.valueOf(partitions)}));
+            try (var reader = Files.newBufferedReader(out.resolve("null-draws.csv"))) {
+                files.add(CSVFormat.DEFAULT.parse(reader).getRecords());
+            }
+            summaries.add(new com.fasterxml.jackson.databind.ObjectMapper().readTree(out.resolve("summary.json")
+                    .toFile()));
+            try (var reader = Files.newBufferedReader(out.resolve("specifications.csv"))) {
+                List<CSVRecord> specs = CSVFormat.DEFAULT.builder().setHeader().setSkipHeaderRecord(true).build()
+                        .parse(reader).getRecords();
+                assertEquals(16, specs.size(), "every specification fitted (2^2 control sets, 2 absorbs, 2 error types)");
+                for (CSVRecord r : specs) {
+                    assertEquals("logit", r.get("model"), "specification " + r.get("spec"));
+                }
+            }
+        }
+        assertEquals(21, files.get(0).size(), "a header and 20 draws");
+        assertEquals(files.get(0).size(), files.get(1).size());
+        for (int r = 0; r < files.get(0).size(); r++) {
+            for (int c = 0; c < files.get(0).get(r).size(); c++) {
+                String a = files.get(0).get(r).get(c);
+                String b = files.get(1).get(r).get(c);
+                if (r == 0 || a.equals(b) || !a.matches("-?[0-9.eE+-]+")) {
+                    assertEquals(a, b, "null-draws.csv row " + r + ", column " + c);
+                } else {
+                    close(Double.parseDouble(a), Double.parseDouble(b), "null-draws.csv row " + r + ", column " + c);
+                }
+            }
+        }
+        var n1 = summaries.get(0).get("null");
+        var n3 = summaries.get(1).get("null");
+        assertEquals("bootstrap", n1.get("method").asText());
+        assertEquals(20, n1.get("draws").asInt());
+        for (String test : List.of("median", "share_significant", "stouffer")) {
+            assertEquals(n1.get("tests").get(test).toString(), n3.get("tests").get(test).toString(), test);
+        }
+    }
+
     @Test
     void refusesWhatTheDrawsCannotDoAtItsPath() {
         Plan permute = plan(withDraws(PartsOfTable.ROWS_PLAN, "rows").replace("\"seed\": 41,",
@@ -306,6 +409,8 @@ class SparkNullDrawsTest {
         SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "rows")));
         SparkRefusals.check(plan(withDraws(PartsOfTable.SCHOOLS_PLAN, "school")));
         SparkRefusals.check(plan(withDraws(PartsOfTable.ROWS_PLAN, "district")));
+        // generalized linear models beside the draws are refit in every draw
+        SparkRefusals.check(plan(withDraws(LOGIT_PLAN, "school")));
     }
 
     @Test
@@ -359,7 +464,7 @@ class SparkNullDrawsTest {
         return new PlanReader(false).read(text, folder);
     }
 
-    static RunResult sparkRun(String planText, int partitions) {
+    static RunResult sparkRun(String planText, Path parquet, int partitions) {
         Plan plan = new PlanReader(false).read(planText, folder);
         SparkData data = new SparkData(spark, parquet.toString(), partitions, planText, folder);
         Table columns = data.table(plan);

@@ -5,15 +5,12 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
-import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): two or more absorbed columns (their within
- * transformation iterates over the rows); beside null draws, the permutation and generalized linear models
- * (each draw would refit them by iterations over the draw's rows, which
- * {@link org.forkscape.fit.BootstrapByParts} does not make).
+ * transformation iterates over the rows); beside null draws, the permutation.
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -34,15 +31,6 @@ final class SparkRefusals {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "].columns",
                                 "two absorbed columns are demeaned by alternating projections, iterations over the "
                                         + "rows, which the Spark runner does not make" + WAY_OUT);
-                    }
-                }
-            } else if (d instanceof Decision.Model m && plan.nullDraws() > 0) {
-                for (int j = 0; j < m.alternatives().size(); j++) {
-                    ModelFamily f = m.alternatives().get(j);
-                    if (!f.leastSquares()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
-                                + " beside null draws is not fitted on Spark (each draw would refit it by iterations "
-                                + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
                     }
                 }
             }

@@ -175,6 +175,40 @@ public final class PartsOfTable {
         return new Table("schools.csv", cols);
     }
 
+    /**
+     * Invented pupils in {@code schools} schools of 12 ({@link #schools}, an effect of 0.3) with a 0/1 outcome {@code passed}
+     * (y above 0), a count {@code visits} (Poisson with log mean 0.2 + 0.3 x + 0.2 b, drawn by Knuth's
+     * product of uniforms, Knuth 1969, The Art of Computer Programming vol. 2) and survey weights {@code w}
+     * (5% missing, 5% zero).
+     */
+    public static Table glmSchools(long seed, int schools) {
+        Table base = schools(seed, schools, 12, 0.3, 0.3);
+        double[] y = ((NumericColumn) base.column("y")).values();
+        double[] x = ((NumericColumn) base.column("x")).values();
+        double[] b = ((NumericColumn) base.column("b")).values();
+        SplittableRandom random = new SplittableRandom(seed + 1);
+        int n = y.length;
+        double[] passed = new double[n];
+        double[] visits = new double[n];
+        double[] w = new double[n];
+        for (int i = 0; i < n; i++) {
+            passed[i] = y[i] > 0 ? 1 : 0;
+            double limit = Math.exp(-Math.exp(0.2 + 0.3 * x[i] + 0.2 * b[i]));
+            int count = 0;
+            for (double product = random.nextDouble(); product > limit; product *= random.nextDouble()) {
+                count++;
+            }
+            visits[i] = count;
+            double u = random.nextDouble();
+            w[i] = u < 0.05 ? Double.NaN : u < 0.1 ? 0 : 0.5 + 2 * random.nextDouble();
+        }
+        List<Column> cols = new ArrayList<>(base.columns());
+        cols.add(new NumericColumn("passed", passed));
+        cols.add(new NumericColumn("visits", visits));
+        cols.add(new NumericColumn("w", w));
+        return new Table("schools.csv", cols);
+    }
+
     private static double gaussian(SplittableRandom r) {
         // Box-Muller (Box & Muller 1958, Annals of Mathematical Statistics 29(2))
         double u = 1 - r.nextDouble();

@@ -62,6 +62,32 @@ class DrawsByPartsTest {
         }
     }
 
+    /**
+     * Logit and probit draws through the null draws' own loop: every specification refit in every draw from the
+     * draw's parts, the same bits on 1 and 2 threads, every draw fit made ({@code failed_fits} 0).
+     */
+    @Test
+    void generalizedLinearDrawsAreTheSameBitsOnOneAndTwoThreads() {
+        Table table = PartsOfTable.glmSchools(13, 20);
+        String planJson = PartsOfTable.SCHOOLS_PLAN.replace("\"column\": \"y\"}]}", "\"column\": \"passed\"}]},\n"
+                + "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"logit\", \"probit\"]}");
+        assertTrue(planJson.contains("probit"), "the plan edit took");
+        Plan plan = new PlanReader(false).read(planJson, Path.of(".")).withNull(12, "bootstrap", "school", 5);
+        RunResult run = new MultiverseRunner(1).withVariants(PartsOfTable.source(plan, table, PartsOfTable.rowKeys(
+                "schools.parquet", table.rowCount()), 3)).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+        NullDrawResult one = draws(run, 1);
+        NullDrawResult two = draws(run, 2);
+        assertEquals(12, one.drawCount());
+        for (int d = 0; d < one.drawCount(); d++) {
+            assertEquals(one.draw(d), two.draw(d), "draw " + (d + 1));
+            assertEquals(RunVariants.of(run).size(), one.draw(d).fitted(), "every specification fitted in draw " + (d + 1));
+        }
+        for (int c = 0; c < one.curveCount(); c++) {
+            assertEquals(one.curveJson(c), two.curveJson(c), "curve " + c + " as summary.json writes it");
+        }
+        assertEquals(0, one.failedFits());
+    }
+
     @Test
     void drawsDependOnTheirNumberAlone() {
         // the first 10 of 30 draws are a 10-draw run's

@@ -157,6 +157,17 @@ public final class DataVariant {
         double[][][] factors(java.util.List<RefitRequest> requests);
     }
 
+    /**
+     * For a variant without rows that absorbs two columns: the exact within transformation of one set of usable
+     * rows, solved where the rows are held ({@link CrossedEffectsByParts}; set by {@link VariantByParts#build}).
+     */
+    volatile CrossedWithinReduction crossedWithin;
+
+    /** The within transformation of the usable groups {@code usable}, from the parts. */
+    interface CrossedWithinReduction {
+        SeveralEffectsWithin within(java.util.BitSet usable);
+    }
+
     /** The refits' factors reduced in batches ahead of their fits (see {@link RefitPending}). */
     final java.util.Map<RefitRequest, double[][]> refitFactors = new java.util.concurrent.ConcurrentHashMap<>();
     /** Passes over the parts made for batches of refits (counted for the tests and the report). */

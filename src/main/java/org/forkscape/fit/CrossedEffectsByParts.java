@@ -33,7 +33,7 @@ import org.apache.commons.math3.linear.NonPositiveDefiniteMatrixException;
  * <p>The driver's solve is cubic in B's levels, hence {@link #MAX_SECOND_LEVELS}; the parts' sums of S are
  * B x B.
  */
-final class CrossedEffectsByParts {
+public final class CrossedEffectsByParts {
     /** B's levels over the table above which the Spark runner refuses the alternative (the solve is cubic in them). */
     public static final int MAX_SECOND_LEVELS = 2000;
     /**

@@ -71,6 +71,7 @@ final class VariantStatistics {
     private Moments several(BitSet usable) {
         if (!variant.holdsRows()) {
             // held in parts: solved exactly where the rows are, no demeaned rows here
+            variant.crossedSolves.incrementAndGet();
             return new Moments(variant, usable, variant.crossedWithin.within(usable));
         }
         SeveralEffectsWithin w = SeveralEffectsWithin.of(variant, usable);

@@ -5,15 +5,18 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
- * with the way out (README, "Beyond one machine", lists them): two or more absorbed columns (their within
- * transformation iterates over the rows); beside null draws, the permutation and generalized linear models
- * (each draw would refit them by iterations over the draw's rows, which
- * {@link org.forkscape.fit.BootstrapByParts} does not make).
+ * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
+ * transformation iterates over the rows); beside two absorbed columns, HC2 and HC3 (the dummies' part of each
+ * row's leverage is not summed by parts), generalized linear models and null draws; beside null draws, the
+ * permutation and generalized linear models (each draw would refit them by iterations over the draw's rows,
+ * which {@link org.forkscape.fit.BootstrapByParts} does not make). Two absorbed columns are least squares'
+ * exact solve by parts ({@link CrossedPartitioning}).
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -26,14 +29,20 @@ final class SparkRefusals {
         if (plan.nullDraws() > 0) {
             nullDraws(plan);
         }
+        String pair = null;
         for (int i = 0; i < ds.size(); i++) {
             Decision d = ds.get(i);
             if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
-                    if (a.alternatives().get(j).columns().size() > 1) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].columns",
-                                "two absorbed columns are demeaned by alternating projections, iterations over the "
-                                        + "rows, which the Spark runner does not make" + WAY_OUT);
+                    int columns = a.alternatives().get(j).columns().size();
+                    String at = "decisions[" + i + "].alternatives[" + j + "].columns";
+                    if (columns > 2) {
+                        throw new InputException(at, "three or more absorbed columns are demeaned by alternating "
+                                + "projections, iterations over the rows, which the Spark runner does not make"
+                                + WAY_OUT);
+                    }
+                    if (columns == 2 && pair == null) {
+                        pair = at;
                     }
                 }
             } else if (d instanceof Decision.Model m && plan.nullDraws() > 0) {
@@ -43,6 +52,43 @@ final class SparkRefusals {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
                                 + " beside null draws is not fitted on Spark (each draw would refit it by iterations "
                                 + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
+                    }
+                }
+            }
+        }
+        if (pair != null) {
+            besideTwoColumns(plan, pair);
+        }
+    }
+
+    /**
+     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares with
+     * classical, HC0, HC1 and cluster errors: HC2 and HC3, generalized linear models and null draws are refused.
+     */
+    private static void besideTwoColumns(Plan plan, String pair) {
+        String beside = " beside two absorbed columns (" + pair + ")";
+        if (plan.nullDraws() > 0) {
+            throw new InputException("nullDraws", "null draws" + beside + " are not made on Spark (each draw would "
+                    + "solve the two columns' effects again)" + WAY_OUT + " (or the null draws)");
+        }
+        List<Decision> ds = plan.decisions();
+        for (int i = 0; i < ds.size(); i++) {
+            if (ds.get(i) instanceof Decision.Errors e) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    ErrorType.Kind k = e.alternatives().get(j).kind();
+                    if (k == ErrorType.Kind.HC2 || k == ErrorType.Kind.HC3) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", k + beside
+                                + " is not computed on Spark (its leverages need the dummies' part of each row's "
+                                + "hat value)" + WAY_OUT);
+                    }
+                }
+            } else if (ds.get(i) instanceof Decision.Model m) {
+                for (int j = 0; j < m.alternatives().size(); j++) {
+                    ModelFamily f = m.alternatives().get(j);
+                    if (!f.leastSquares()) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling() + beside
+                                + " is not fitted on Spark (only least squares is demeaned exactly by parts)"
+                                + WAY_OUT);
                     }
                 }
             }

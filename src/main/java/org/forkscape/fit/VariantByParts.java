@@ -415,7 +415,7 @@ public final class VariantByParts {
         CrossedEffectsByParts.SchurSums sums = parts.reduce(part -> part.crossedSchurSums(key, whole, masks),
                 CrossedEffectsByParts::add);
         CrossedEffectsByParts.Solved solved = CrossedEffectsByParts.solve(sums == null ? emptySchur(variant,
-                secondLevels) : sums, order[0], order[1]);
+                secondLevels) : sums, order[0], order[1], wantsLeverages());
         CrossedEffectsByParts.Effects effects = solved.effects();
         double[] within = !solved.solved() || solved.rows() == 0 ? new double[variant.columns * variant.columns]
                 : parts.reduce(effects, (part, e) -> part.crossedWithinSums(key, whole, masks, e),
@@ -449,6 +449,16 @@ public final class VariantByParts {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         return CrossedEffectsByParts.withinSums(coded, crossedCodes(coded, key, whole, effects.first(),
                 effects.second()), masks, effects);
+    }
+
+    /** Whether some error type of the plan is HC2 or HC3 (beside two columns they need S's inverse). */
+    private boolean wantsLeverages() {
+        for (ErrorType e : plan.errorTypes) {
+            if (e.kind() == ErrorType.Kind.HC2 || e.kind() == ErrorType.Kind.HC3) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** Whether the variant absorbs two columns (the runner by parts refuses more). */
@@ -634,15 +644,15 @@ public final class VariantByParts {
         double[] out = new double[batch.length];
         double[][] values = coded.shifted;
         CrossedEffectsByParts.Effects effectsOf = null;
+        DummyLeverage dummies = null;
         for (int i = 0; i < batch.length; i++) {
             RowPassRequest r = batch[i];
-            if (r.crossedEffects != null && (r.kind == ErrorType.Kind.HC2 || r.kind == ErrorType.Kind.HC3)) {
-                throw new IllegalStateException("HC2 and HC3 beside two absorbed columns are not made by parts");
-            }
+            boolean leverage = r.kind == ErrorType.Kind.HC2 || r.kind == ErrorType.Kind.HC3;
             if (!java.util.Arrays.equals(r.usableMasks, rowsOf) || r.crossedEffects != effectsOf) {
                 // one set's requests share its effects (one object in the broadcast batch): demeaned once for them
                 values = passColumns(coded, key, whole, r.usableMasks, r.crossedEffects);
                 effectsOf = r.crossedEffects;
+                dummies = null;
                 n = 0;
                 for (int row = 0; row < coded.rows; row++) {
                     if (java.util.Arrays.binarySearch(r.usableMasks, coded.groupMissing[coded.group[row]]) >= 0) {
@@ -653,6 +663,12 @@ public final class VariantByParts {
             }
             view.overPart(values, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
                     coded.weight, r.levelWeights);
+            if (leverage && r.crossedEffects != null && dummies == null) {
+                dummies = CrossedEffectsByParts.leverages(coded, crossedCodes(coded, key, whole,
+                        r.crossedEffects.first(), r.crossedEffects.second()), r.usableMasks, r.crossedEffects);
+            }
+            // beside two absorbed columns the dummies' part of the leverages is the crossed one
+            view.withDummyLeverage(r.crossedEffects == null ? null : dummies);
             out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
         }
         return out;

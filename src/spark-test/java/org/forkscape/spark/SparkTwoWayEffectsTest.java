@@ -45,6 +45,7 @@ class SparkTwoWayEffectsTest {
     static Path folder;
     static Path panelParquet;
     static Path weightedParquet;
+    static Path leverageParquet;
 
     @BeforeAll
     static void start() {
@@ -57,6 +58,8 @@ class SparkTwoWayEffectsTest {
                 SparkParityTest.REFERENCE.resolve("school-panel.csv")), folder.resolve("school-panel.parquet"), 3);
         weightedParquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
                 "school-panel-weighted.csv")), folder.resolve("school-panel-weighted.parquet"), 3);
+        leverageParquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
+                "school-panel-leverage.csv")), folder.resolve("school-panel-leverage.parquet"), 3);
     }
 
     @AfterAll
@@ -96,13 +99,44 @@ class SparkTwoWayEffectsTest {
         }
     }
 
+    /**
+     * HC2 and HC3 ({@code school-panel-leverage-plan.json}: unweighted, positive design weights, survey weights
+     * with zeros and missing cells; every pupil or only those seen twice, so singleton pupils whose leverage is
+     * 1): the dummies' part of each row's leverage from the driver's inverse of the Schur complement, against
+     * one machine and R's {@code hatvalues} with {@code sandwich::vcovHC} ({@code school-panel-leverage-expected.csv}
+     * from {@code two-way-leverage-reference.R}), R's leverage-1 statuses among them.
+     */
+    @ParameterizedTest(name = "{0} partitions")
+    @ValueSource(ints = {1, 3, 8})
+    void leveragePlanEqualsTheEngineAndR(int partitions) throws IOException {
+        SparkParityTest.Comparison c = SparkParityTest.compare(plan("school-panel-leverage-plan.json"),
+                SparkParityTest.REFERENCE, leverageParquet, partitions);
+        assertTrue(SparkRowPassTest.served(c.spark()) > 0, "HC2 and HC3 from the row passes");
+        long crossed = 0;
+        for (int v = 0; v < c.spark().models().variantCount(); v++) {
+            crossed += c.spark().models().variant(c.spark().models().variantKey(v)).crossedSolves();
+        }
+        assertTrue(crossed > 0, "sets of usable rows beside pupil and term solved by the partitions");
+        SparkParityTest.report("school-panel-leverage-" + partitions, c.worst());
+        if (partitions == 3) {
+            SparkWeightsAndClustersTest.AgainstR r = SparkWeightsAndClustersTest.againstR(c,
+                    "school-panel-leverage-expected.csv", List.of("outcome", "tutoring", "controls", "rows",
+                            "effects", "weights", "errors"), "R lm() with factor() dummies, hatvalues and "
+                            + "sandwich::vcovHC");
+            assertTrue(r.compared() > 0 && r.notPositive() > 0, r.compared() + " compared with R, "
+                    + r.notPositive() + " with R's leverage-1 status");
+        }
+    }
+
     @Test
-    void hc2BesideTwoColumnsIsRefusedAtItsPath() throws IOException {
-        String text = plan("school-panel-plan.json").replace("\"HC1\", \"cluster:pupil\"", "\"HC2\", \"cluster:pupil\"");
+    void nullDrawsBesideTwoColumnsAreRefusedAtTheirPath() throws IOException {
+        String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
+                "\"data\": \"school-panel.csv\", \"nullDraws\": 20,");
+        assertTrue(text.contains("\"nullDraws\": 20"), "the plan edit took");
         InputException e = refusal(text, panelParquet);
-        assertEquals("decisions[5].alternatives[2]", e.where());
-        assertTrue(e.problem().startsWith("HC2 beside two absorbed columns (decisions[4].alternatives[3].columns) "
-                + "is not computed on Spark"), e.problem());
+        assertEquals("nullDraws", e.where());
+        assertTrue(e.problem().startsWith("null draws beside two absorbed columns (decisions[4].alternatives[3]"
+                + ".columns) are not made on Spark"), e.problem());
     }
 
     @Test

@@ -5,15 +5,13 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
-import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
- * transformation iterates over the rows); beside two absorbed columns, HC2 and HC3 (the dummies' part of each
- * row's leverage is not summed by parts), generalized linear models and null draws; beside null draws, the
+ * transformation iterates over the rows); beside two absorbed columns, generalized linear models and null draws; beside null draws, the
  * permutation and generalized linear models (each draw would refit them by iterations over the draw's rows,
  * which {@link org.forkscape.fit.BootstrapByParts} does not make). Two absorbed columns are least squares'
  * exact solve by parts ({@link CrossedPartitioning}).
@@ -62,8 +60,8 @@ final class SparkRefusals {
     }
 
     /**
-     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares with
-     * classical, HC0, HC1 and cluster errors: HC2 and HC3, generalized linear models and null draws are refused.
+     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares without
+     * null draws: generalized linear models and null draws are refused.
      */
     private static void besideTwoColumns(Plan plan, String pair) {
         String beside = " beside two absorbed columns (" + pair + ")";
@@ -73,16 +71,7 @@ final class SparkRefusals {
         }
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
-            if (ds.get(i) instanceof Decision.Errors e) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    ErrorType.Kind k = e.alternatives().get(j).kind();
-                    if (k == ErrorType.Kind.HC2 || k == ErrorType.Kind.HC3) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", k + beside
-                                + " is not computed on Spark (its leverages need the dummies' part of each row's "
-                                + "hat value)" + WAY_OUT);
-                    }
-                }
-            } else if (ds.get(i) instanceof Decision.Model m) {
+            if (ds.get(i) instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
                     ModelFamily f = m.alternatives().get(j);
                     if (!f.leastSquares()) {

@@ -139,7 +139,7 @@ public final class VariantByParts {
         for (ClusterComponents.Component c : cells ? plan.clusterIntersections : List.<ClusterComponents.Component>of()) {
             intersections.put(c.key(), intersectionKeys(coded, whole, c));
         }
-        if (renewedClusters != null) {
+        if (renewedClusters != null && cells) {
             for (String column : renewedClusters) {
                 long[] keys = intersections.get(column);
                 if (keys == null) {
@@ -519,6 +519,10 @@ public final class VariantByParts {
      */
     DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts) {
         DataVariant variant = variant(key, facts, sum);
+        if (crossed(key)) {
+            // each set of usable rows solved again over the draw's rows (each part's copies keep their levels)
+            variant.crossedWithin = usable -> crossedWithin(key, facts, variant, usable, drawParts);
+        }
         variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
                 VariantByParts::addSums);

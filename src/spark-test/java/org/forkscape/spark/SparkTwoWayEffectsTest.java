@@ -128,15 +128,111 @@ class SparkTwoWayEffectsTest {
         }
     }
 
+    /**
+     * Bootstrap null draws of whole pupils beside pupil and term (classical and HC1), at 3 and 8 partitions: each
+     * draw's sets of usable rows solved again over the draw's partitions, against one machine's fit of the same
+     * rows repeated by the same Poisson counts ({@code PartsOfTable.oneMachine}, demeaned by alternating
+     * projections) within 1e-10 relative, df exact.
+     */
     @Test
-    void nullDrawsBesideTwoColumnsAreRefusedAtTheirPath() throws IOException {
+    void pupilDrawsBesideTwoColumnsAsOneMachineWithTheSameCounts() throws IOException {
+        Path parquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
+                "school-panel.csv")), folder.resolve("school-panel-draws.parquet"), 4);
+        Table readBack = org.forkscape.data.DataFiles.read(parquet);
+        List<Path> files;
+        try (java.util.stream.Stream<Path> list = Files.list(parquet)) {
+            files = list.filter(f -> f.getFileName().toString().endsWith(".parquet")).sorted().toList();
+        }
+        long[] rowKeys = new long[readBack.rowCount()];
+        int at = 0;
+        for (Path f : files) {
+            long name = org.forkscape.fit.PoissonCounts.textHash(f.getFileName().toString());
+            int rows = org.forkscape.data.DataFiles.read(f).rowCount();
+            for (int i = 0; i < rows; i++) {
+                rowKeys[at++] = org.forkscape.fit.PoissonCounts.rowKey(name, i);
+            }
+        }
+        String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
+                "\"data\": \"school-panel.csv\", \"nullDraws\": 4, \"seed\": 43, \"nullCluster\": \"pupil\",")
+                .replace("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
+                        "[\"classical\", \"HC1\"]");
+        assertTrue(text.contains("\"nullCluster\": \"pupil\"") && text.contains("[\"classical\", \"HC1\"]"),
+                "the plan edits took");
+        Plan plan = new PlanReader(false).read(text, SparkParityTest.REFERENCE.toAbsolutePath());
+        org.forkscape.fit.BootstrapDesign design = new org.forkscape.fit.BootstrapDesign(plan.seed(), "pupil");
+        RunResult inMemory = new org.forkscape.run.MultiverseRunner(1).run(plan, readBack,
+                org.forkscape.run.RunProgress.SILENT, new java.util.concurrent.atomic.AtomicBoolean());
+        double[] worst = new double[2];
+        for (int partitions : new int[] {3, 8}) {
+            RunResult run = SparkParityTest.sparkRun(text, SparkParityTest.REFERENCE, parquet, partitions);
+            org.forkscape.infer.RunVariants indexed = org.forkscape.infer.RunVariants.of(run);
+            org.forkscape.fit.BootstrapByParts draws = run.models().bootstrap(design);
+            org.forkscape.fit.SpecificationFitter fitter = new org.forkscape.fit.SpecificationFitter()
+                    .deferringRowPasses();
+            int compared = 0;
+            long solves = 0;
+            for (int v = 0; v < indexed.variantCount(); v++) {
+                int[] specs = indexed.specificationsOf(v);
+                DataVariant observed = indexed.variant(v);
+                if (specs.length == 0 || observed.crossedSolves() == 0) {
+                    continue;
+                }
+                org.forkscape.fit.VariantKey key = run.models().variantKey(v);
+                List<org.forkscape.fit.SpecificationModel> models = new java.util.ArrayList<>();
+                for (int i : specs) {
+                    models.add(indexed.model(i));
+                }
+                DataVariant[] inDraw = draws.draws(key, observed, 0, 4);
+                for (int d = 0; d < inDraw.length; d++) {
+                    org.forkscape.fit.DrawFit[] one = org.forkscape.fit.PartsOfTable.oneMachine(inMemory.models()
+                            .variant(key), 1, models, readBack, rowKeys, design, d);
+                    org.forkscape.fit.KeyFit[] fits = org.forkscape.fit.RowPassesByParts.fitEach(fitter, inDraw[d],
+                            models, () -> { });
+                    solves += inDraw[d].crossedSolves();
+                    for (int s = 0; s < specs.length; s++) {
+                        String where = partitions + " partitions, variant " + v + ", draw " + d + ", specification "
+                                + s;
+                        boolean fitted = fits[s].ok() && fits[s].stdError() > 0;
+                        assertEquals(one[s] != null && one[s].stdError() > 0, fitted, where + ": fitted");
+                        if (!fitted) {
+                            continue;
+                        }
+                        worst[0] = Math.max(worst[0], SparkParityTest.assertClose(one[s].estimate(),
+                                fits[s].estimate(), SparkParityTest.RELATIVE, where + " estimate"));
+                        worst[1] = Math.max(worst[1], SparkParityTest.assertClose(one[s].stdError(),
+                                fits[s].stdError(), SparkParityTest.RELATIVE, where + " std_error"));
+                        assertEquals(one[s].df(), fits[s].df(), 0.0, where + " df");
+                        compared++;
+                    }
+                }
+            }
+            assertTrue(solves > 0, "each draw's sets solved again over the draw's partitions");
+            assertTrue(compared > 100, compared + " draw fits compared");
+        }
+        SparkParityTest.report("school-panel-draws", new double[] {worst[0], worst[1], Double.NaN});
+    }
+
+    @Test
+    void clusterErrorsBesideTwoColumnsAndNullDrawsAreRefusedAtTheirPath() throws IOException {
         String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
                 "\"data\": \"school-panel.csv\", \"nullDraws\": 20,");
         assertTrue(text.contains("\"nullDraws\": 20"), "the plan edit took");
         InputException e = refusal(text, panelParquet);
-        assertEquals("nullDraws", e.where());
-        assertTrue(e.problem().startsWith("null draws beside two absorbed columns (decisions[4].alternatives[3]"
-                + ".columns) are not made on Spark"), e.problem());
+        assertEquals("decisions[5].alternatives[3]", e.where());
+        assertTrue(e.problem().startsWith("cluster errors beside two absorbed columns (decisions[4].alternatives[3]"
+                + ".columns) and null draws are not computed on Spark"), e.problem());
+    }
+
+    @Test
+    void logitBesideTwoColumnsIsRefusedAtItsPath() throws IOException {
+        String text = plan("school-panel-plan.json").replace("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", "
+                + "\"cluster:pupil+term\"]}", "[\"classical\"]},\n    {\"name\": \"model\", \"kind\": \"model\", "
+                + "\"alternatives\": [\"ols\", \"logit\"]}");
+        assertTrue(text.contains("\"logit\""), "the plan edit took");
+        InputException e = refusal(text, panelParquet);
+        assertEquals("decisions[6].alternatives[1]", e.where());
+        assertTrue(e.problem().startsWith("logit beside two absorbed columns (decisions[4].alternatives[3].columns) "
+                + "is not fitted on Spark"), e.problem());
     }
 
     @Test

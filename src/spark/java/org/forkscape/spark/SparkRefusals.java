@@ -11,7 +11,7 @@ import org.forkscape.plan.Plan;
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
- * transformation iterates over the rows); beside two absorbed columns, generalized linear models and null draws; beside null draws, the
+ * transformation iterates over the rows); beside two absorbed columns, generalized linear models, and with null draws cluster errors; beside null draws, the
  * permutation and generalized linear models (each draw would refit them by iterations over the draw's rows,
  * which {@link org.forkscape.fit.BootstrapByParts} does not make). Two absorbed columns are least squares'
  * exact solve by parts ({@link CrossedPartitioning}).
@@ -60,24 +60,29 @@ final class SparkRefusals {
     }
 
     /**
-     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares without
-     * null draws: generalized linear models and null draws are refused.
+     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares:
+     * generalized linear models are refused, and beside null draws cluster errors (their variances come from
+     * the clusters' scores over the rows, which a draw's pass does not sum).
      */
     private static void besideTwoColumns(Plan plan, String pair) {
-        String beside = " beside two absorbed columns (" + pair + ")";
-        if (plan.nullDraws() > 0) {
-            throw new InputException("nullDraws", "null draws" + beside + " are not made on Spark (each draw would "
-                    + "solve the two columns' effects again)" + WAY_OUT + " (or the null draws)");
-        }
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
-            if (ds.get(i) instanceof Decision.Model m) {
+            if (ds.get(i) instanceof Decision.Errors e && plan.nullDraws() > 0) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    if (e.alternatives().get(j).kind() == org.forkscape.plan.ErrorType.Kind.CLUSTER) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", "cluster errors "
+                                + "beside two absorbed columns (" + pair + ") and null draws are not computed on "
+                                + "Spark (in a draw they would need the clusters' scores over the draw's rows)"
+                                + WAY_OUT + " (or the null draws)");
+                    }
+                }
+            } else if (ds.get(i) instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
                     ModelFamily f = m.alternatives().get(j);
                     if (!f.leastSquares()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling() + beside
-                                + " is not fitted on Spark (only least squares is demeaned exactly by parts)"
-                                + WAY_OUT);
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
+                                + " beside two absorbed columns (" + pair + ") is not fitted on Spark (only least "
+                                + "squares is demeaned exactly by parts)" + WAY_OUT);
                     }
                 }
             }

@@ -90,6 +90,67 @@ class TwoWayEffectsByPartsTest {
         assertTrue(leverageOne > 0, "singleton pupils: leverage 1");
     }
 
+    /**
+     * Poisson bootstrap draws beside pupil and term, single rows and whole pupils: each draw's sets of usable
+     * rows solved again over the draw's parts (each row repeated by its count, its copies at its levels), against
+     * one machine's fit of the same rows repeated by the same counts ({@link PartsOfTable#oneMachine}, which
+     * demeans them by alternating projections), classical and HC1 from row passes over the draw's parts.
+     */
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void drawsFromPartsAsOneMachineWithTheSameCounts(int slices) throws java.io.IOException {
+        String text = java.nio.file.Files.readString(ReferenceFiles.path("school-panel-plan.json")).replace(
+                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
+                "[\"classical\", \"HC1\"]");
+        assertTrue(text.contains("[\"classical\", \"HC1\"]"), "the plan edit took");
+        Plan plan = new PlanReader(false).read(text, ReferenceFiles.path("school-panel-plan.json").getParent());
+        Table table = new CsvTableReader().read(plan.dataFile());
+        long[] keys = PartsOfTable.rowKeys("school-panel.parquet", table.rowCount());
+        for (BootstrapDesign design : List.of(new BootstrapDesign(71, null), new BootstrapDesign(72, "pupil"))) {
+            VariantSource source = source(plan, table, "pupil", slices, keys);
+            RunResult byParts = new MultiverseRunner(1).withVariants(source).run(plan, table, RunProgress.SILENT,
+                    new AtomicBoolean());
+            RunResult inMemory = new MultiverseRunner(1).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
+            org.forkscape.infer.RunVariants indexed = org.forkscape.infer.RunVariants.of(byParts);
+            BootstrapByParts draws = byParts.models().bootstrap(design);
+            SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses().deferringRefits();
+            int compared = 0;
+            long solves = 0;
+            for (int v = 0; v < indexed.variantCount(); v++) {
+                int[] specs = indexed.specificationsOf(v);
+                VariantKey key = byParts.models().variantKey(v);
+                if (specs.length == 0 || !indexed.variant(v).absorbsSeveral) {
+                    continue;
+                }
+                List<SpecificationModel> models = new ArrayList<>();
+                for (int i : specs) {
+                    models.add(indexed.model(i));
+                }
+                DataVariant[] inDraw = draws.draws(key, indexed.variant(v), 0, 4);
+                for (int d = 0; d < inDraw.length; d++) {
+                    DrawFit[] expected = PartsOfTable.oneMachine(inMemory.models().variant(key), 1,
+                            models, table, keys, design, d);
+                    KeyFit[] fits = RowPassesByParts.fitEach(fitter, inDraw[d], models, () -> { });
+                    solves += inDraw[d].crossedSolves();
+                    for (int s = 0; s < specs.length; s++) {
+                        String where = design + ", variant " + v + ", draw " + d + ", specification " + s;
+                        if (expected[s] == null || !(expected[s].stdError() > 0)) {
+                            assertTrue(!fits[s].ok() || !(fits[s].stdError() > 0), where + ": fitted by parts only");
+                            continue;
+                        }
+                        assertTrue(fits[s].ok(), where + ": " + fits[s].status());
+                        close(expected[s].estimate(), fits[s].estimate(), where + " estimate");
+                        close(expected[s].stdError(), fits[s].stdError(), where + " std_error");
+                        assertEquals(expected[s].df(), fits[s].df(), 0.0, where + " df");
+                        compared++;
+                    }
+                }
+            }
+            assertTrue(solves > 0, "each draw's sets solved again over the draw's parts");
+            assertTrue(compared > 100, compared + " draw fits beside pupil and term compared");
+        }
+    }
+
     /** Parts that split a pupil's rows cannot give its level's means: refused, never a wrong number. */
     @Test
     void partsThatSplitALevelAreRefused() {
@@ -164,18 +225,35 @@ class TwoWayEffectsByPartsTest {
 
     /** Variants from {@code slices} parts, each row in part (code of {@code column}) modulo {@code slices}. */
     static VariantSource source(Plan plan, Table table, String column, int slices) {
+        return source(plan, table, column, slices, null);
+    }
+
+    /** The same, with each row's identity for bootstrap draws ({@code rowKeys}, or null for none). */
+    static VariantSource source(Plan plan, Table table, String column, int slices, long[] rowKeys) {
         int[] codes = ((CategoricalColumn) table.column(column)).codes();
         List<VariantByParts> parts = new ArrayList<>();
         for (int s = 0; s < slices; s++) {
             int part = s;
             int[] rows = java.util.stream.IntStream.range(0, table.rowCount())
                     .filter(r -> Math.floorMod(codes[r], slices) == part).toArray();
-            parts.add(new VariantByParts(plan, rowsOf(table, rows)));
+            parts.add(new VariantByParts(plan, rowsOf(table, rows), rowKeys == null ? null
+                    : Arrays.stream(rows).mapToLong(r -> rowKeys[r]).toArray()));
         }
         VariantByParts decider = new VariantByParts(plan, table);
         WholeRows grouping = WholeRows.NONE.withGroupingValues(VariantByPartsTest.numericGroupingValues(table));
         VariantParts inMemory = VariantByPartsTest.inMemory(parts);
-        return (key, pool) -> decider.build(key, grouping, inMemory);
+        Map<VariantKey, DataVariant> built = new java.util.concurrent.ConcurrentHashMap<>();
+        return new VariantSource() {
+            @Override
+            public DataVariant variant(VariantKey key, java.util.concurrent.ExecutorService pool) {
+                return built.computeIfAbsent(key, k -> decider.build(k, grouping, inMemory));
+            }
+
+            @Override
+            public BootstrapByParts bootstrap(BootstrapDesign design) {
+                return new BootstrapByParts(decider, inMemory, design);
+            }
+        };
     }
 
     private static Table rowsOf(Table table, int[] rows) {

@@ -16,13 +16,13 @@ import org.apache.commons.math3.linear.NonPositiveDefiniteMatrixException;
  * which every row of an A level sits in one part (the Spark runner partitions on A, the column with more
  * levels). No iterations over the rows: with D = [D_A D_B] and W the weights, the normal equations of x on D
  * are Da a + C b = D_A'Wx and C'a + Db b = D_B'Wx (Da, Db the levels' weight totals, C the (A, B) pairs'),
- * and eliminating a (the block form of Gaussian elimination; the Schur complement, e.g. Golub &amp; Van Loan
- * 2013, Matrix Computations, 4th ed., section 3.2) leaves S b = t on B alone, S = Db - C'Da^-1 C and
+ * and eliminating a (block Gaussian elimination: the Schur complement, as in Golub &amp; Van Loan 2013, Matrix
+ * Computations, 4th ed., Johns Hopkins University Press, cited from memory) leaves S b = t on B alone, S = Db - C'Da^-1 C and
  * t = D_B'W(x - xbar_A), xbar_A each row's A-level mean of x. Both are sums over A levels, so each part sums its
  * own ({@link SchurSums}) and the driver adds them in part order. S is singular: its null space has one vector
  * per connected component of the graph whose nodes are the levels and whose edges are the pairs present, the
- * dummies' rank deficiency (Abowd, Creecy &amp; Kramarz 2002, U.S. Census Bureau LEHD Technical Paper
- * 2002-06). Fixing one B level per component at 0 (a generalised inverse) leaves a positive definite system,
+ * dummies' rank deficiency (Abowd, Creecy &amp; Kramarz 2002, "Computing person and firm effects using linked
+ * longitudinal employer-employee data", U.S. Census Bureau LEHD Technical Paper 2002-06, cited from memory). Fixing one B level per component at 0 (a generalised inverse) leaves a positive definite system,
  * solved by Cholesky (Commons Math) for every column; the residual x - a_A - b_B does not depend on which
  * level is fixed. Each part then makes its rows' within values, x - b_B minus their A-level mean, and sums from
  * them what one machine sums from its demeaned rows: by the Frisch-Waugh-Lovell theorem (Davidson &amp;
@@ -308,7 +308,7 @@ public final class CrossedEffectsByParts {
         return a;
     }
 
-    /** Two spreads as one (Chan, Golub &amp; LeVeque 1979's pairwise update, with weights). */
+    /** Two spreads as one, by the pairwise update with weights (Chan, Golub &amp; LeVeque 1983, The American Statistician 37(3)). */
     private static double[] mergeSpread(double[] a, double[] b) {
         if (a == null || b == null) {
             return a == null ? b : a;

@@ -668,7 +668,7 @@ public final class VariantByParts {
             view.overPart(values, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
                     coded.weight, r.levelWeights);
             if (leverage && r.crossedEffects != null && dummies == null) {
-                dummies = CrossedEffectsByParts.leverages(coded, crossedCodes(coded, key, whole,
+                dummies = CrossedLeverageByParts.of(coded, crossedCodes(coded, key, whole,
                         r.crossedEffects.first(), r.crossedEffects.second()), r.usableMasks, r.crossedEffects);
             }
             // beside two absorbed columns the dummies' part of the leverages is the crossed one

@@ -80,12 +80,14 @@ final class CodedRows {
     /**
      * A variant's shape without its rows, for statistics summed elsewhere (by the parts of a table held on
      * a cluster, {@link PartialStatistics}): the row arrays are null, and a pass over rows is refused
-     * ({@link #held}). Such a variant absorbs at most one column (a runner by parts refuses the others).
+     * ({@link #held}). Beside two absorbed columns its one level holds every row, and the dimensions' codes
+     * stay with the parts ({@link CrossedEffectsByParts}).
      *
-     * @param weighted whether its cells hold weighted sums and weight totals
+     * @param dimensions the absorbed columns when two or more (their codes then null), else 0
+     * @param weighted   whether its cells hold weighted sums and weight totals
      */
     CodedRows(ModelColumns layout, int rows, int levels, String absorbColumn, double[][] levelShift,
-            long[] groupMissing, Map<String, Integer> clusterCounts, boolean weighted) {
+            long[] groupMissing, Map<String, Integer> clusterCounts, boolean weighted, int dimensions) {
         this.layout = layout;
         this.columns = layout.size();
         this.rows = rows;
@@ -95,7 +97,7 @@ final class CodedRows {
         this.level = null;
         this.levels = levels;
         this.absorbColumn = absorbColumn;
-        this.dimensionCodes = null;
+        this.dimensionCodes = dimensions > 1 ? new int[dimensions][] : null;
         this.dimensionLevels = null;
         this.shifted = null;
         this.levelShift = levelShift;

@@ -164,6 +164,25 @@ public final class DataVariant {
         double[][][] factors(java.util.List<RefitRequest> requests);
     }
 
+    /**
+     * For a variant without rows that absorbs two columns: the exact within transformation of one set of usable
+     * rows, solved where the rows are held ({@link CrossedEffectsByParts}; set by {@link VariantByParts#build}).
+     */
+    volatile CrossedWithinReduction crossedWithin;
+
+    /** The within transformation of the usable groups {@code usable}, from the parts. */
+    interface CrossedWithinReduction {
+        SeveralEffectsWithin within(java.util.BitSet usable);
+    }
+
+    /** The sets of usable rows whose two absorbed columns were solved by parts ({@link #crossedWithin}). */
+    final java.util.concurrent.atomic.AtomicLong crossedSolves = new java.util.concurrent.atomic.AtomicLong();
+
+    /** How many sets of usable rows of this variant had their two absorbed columns solved where the rows are. */
+    public long crossedSolves() {
+        return crossedSolves.get();
+    }
+
     /** The refits' factors reduced in batches ahead of their fits (see {@link RefitPending}). */
     final java.util.Map<RefitRequest, double[][]> refitFactors = new java.util.concurrent.ConcurrentHashMap<>();
     /** Passes over the parts made for batches of refits (counted for the tests and the report). */

@@ -108,6 +108,13 @@ public final class LeastSquares implements Estimator {
             return new KeyFit(s.keyEstimate(), Math.sqrt(variance), df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(), refit,
                     free.route(), sdRatio);
         }
+        if (mom.crossedEffects != null && mom.crossedEffects.illConditioned()
+                && (spec.errors().kind() == ErrorType.Kind.HC2 || spec.errors().kind() == ErrorType.Kind.HC3)) {
+            // beside two absorbed columns held in parts: the status one machine's row pass gives
+            return new KeyFit(s.keyEstimate(), Double.NaN, Double.NaN, n, k, r2, s.rss, modelF,
+                    FitStatus.LEVERAGE_ILL_CONDITIONED, spec.errors().label(), "", refit, VarianceRoute.ROW_PASS,
+                    sdRatio);
+        }
         if (spec.errors().kind() != ErrorType.Kind.CLUSTER && data.defersRowPass()) {
             // the rows are held in parts: the variance follows from a pass over them for a batch of
             // specifications (RowPassesByParts.finish, with KeyCoefficientSandwich.finish as below)

@@ -37,6 +37,11 @@ public final class Moments {
      * several, whether the alternating projections converged ({@link AlternatingProjections}).
      */
     final boolean demeaned;
+    /**
+     * Beside two absorbed columns of a variant held in parts: the second column's effects, with which each part
+     * makes these rows' within values for its passes ({@link CrossedEffectsByParts}); null otherwise.
+     */
+    final CrossedEffectsByParts.Effects crossedEffects;
 
     private volatile FourthMoments fourth;
     private final java.util.Map<String, ClusterMoments.Usable> clusterCells =
@@ -112,6 +117,7 @@ public final class Moments {
         within = w.within;
         totalSquares = w.totalSquares;
         demeaned = w.converged;
+        crossedEffects = w.crossedEffects;
     }
 
     /**
@@ -181,6 +187,7 @@ public final class Moments {
         levelsPresent = present;
         rankCertified = true;
         demeaned = true;
+        crossedEffects = null;
         totalSquares = new double[p];
         if (n == 0) {
             return;

@@ -186,8 +186,11 @@ public final class PartialStatistics implements Serializable {
     /**
      * The variant of these statistics, without rows: groups numbered in ascending order of their missing
      * masks, the row-free routes' structures where they were summed.
+     *
+     * @param dimensions the absorbed columns when two or more, else 0
      */
-    DataVariant variant(ModelColumns layout, int levels, String absorbColumn, double[][] levelShift) {
+    DataVariant variant(ModelColumns layout, int levels, String absorbColumn, double[][] levelShift,
+            int dimensions) {
         if (rows > Integer.MAX_VALUE) {
             throw new IllegalArgumentException("a data variant of " + rows + " rows is above the engine's limit of "
                     + Integer.MAX_VALUE + " rows per variant");
@@ -246,7 +249,7 @@ public final class PartialStatistics implements Serializable {
             clusterMoments.put(column, ClusterMoments.of(columns, list));
         });
         CodedRows shape = new CodedRows(layout, (int) rows, levels, absorbColumn, levelShift, masks, counts,
-                weighted);
+                weighted, dimensions);
         DataVariant variant = new DataVariant(shape, new CellSums(count, weight, sum, cross), groupTensors,
                 clusterMoments);
         variant.intersectionClusterKeys = Map.copyOf(keysByCode);

@@ -30,9 +30,13 @@ public final class RowPassRequest implements Serializable {
     /** Per level: the usable rows' weight total; null when the variant is unweighted. */
     final double[] levelWeights;
     final ErrorType.Kind kind;
+    /** Beside two absorbed columns: the second column's effects, for the part's within values; else null. */
+    final CrossedEffectsByParts.Effects crossedEffects;
 
     private RowPassRequest(int[] kept, int y, double[] b, double[] w, double[] m, long[] usableMasks,
-            double[][] levelOffsets, int[] levelCounts, double[] levelWeights, ErrorType.Kind kind) {
+            double[][] levelOffsets, int[] levelCounts, double[] levelWeights, ErrorType.Kind kind,
+            CrossedEffectsByParts.Effects crossedEffects) {
+        this.crossedEffects = crossedEffects;
         this.kept = kept;
         this.y = y;
         this.b = b;
@@ -69,13 +73,14 @@ public final class RowPassRequest implements Serializable {
             offsets[l][p] = mom.levelMeanOffset[l][y];
         }
         return new RowPassRequest(kept, y, java.util.Arrays.copyOf(s.b, p), w, m, masks, offsets,
-                mom.levelCount.clone(), v.weighted ? mom.levelWeight.clone() : null, kind);
+                mom.levelCount.clone(), v.weighted ? mom.levelWeight.clone() : null, kind, mom.crossedEffects);
     }
 
     /** Approximate size when serialized, in bytes: what a batch of requests is bounded by. */
     long bytes() {
         long p = kept.length;
         return 64 + 4 * p + 8 * (2 * p + p * p) + 8L * usableMasks.length
-                + (long) levelOffsets.length * (16 + 8 * (p + 1)) + 12L * levelCounts.length;
+                + (long) levelOffsets.length * (16 + 8 * (p + 1)) + 12L * levelCounts.length
+                + (crossedEffects == null ? 0 : 8 * crossedEffects.doubles());
     }
 }

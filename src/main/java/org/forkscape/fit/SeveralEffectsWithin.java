@@ -38,10 +38,17 @@ final class SeveralEffectsWithin {
     final double weightTotal;
     /** Whether the variant is weighted: the projections, cross-products and sums of squares are then weighted. */
     final boolean weighted;
+    /**
+     * For a variant held in parts ({@link CrossedEffectsByParts}): the second column's effects, with which each
+     * part makes its rows' within values; null when the rows are here ({@link #columns}).
+     */
+    final CrossedEffectsByParts.Effects crossedEffects;
 
     private SeveralEffectsWithin(int n, java.util.OptionalInt rank, double[] within, double[] totalSquares,
-            double[][] columns, boolean converged, double weightTotal, boolean weighted) {
+            double[][] columns, boolean converged, double weightTotal, boolean weighted,
+            CrossedEffectsByParts.Effects crossedEffects) {
         this.n = n;
+        this.crossedEffects = crossedEffects;
         this.weightTotal = weightTotal;
         this.weighted = weighted;
         this.rank = rank.orElse(0);
@@ -122,7 +129,18 @@ final class SeveralEffectsWithin {
                 }
             }
         }
-        return new SeveralEffectsWithin(n, rank, within, totalSquares, columns, converged, weightTotal, weight != null);
+        return new SeveralEffectsWithin(n, rank, within, totalSquares, columns, converged, weightTotal, weight != null,
+                null);
+    }
+
+    /**
+     * The within transformation of a set whose rows are held in parts, solved exactly there
+     * ({@link CrossedEffectsByParts}): no rows here, the second column's effects instead.
+     */
+    static SeveralEffectsWithin fromParts(int n, int rank, double[] within, double[] totalSquares, boolean solved,
+            double weightTotal, boolean weighted, CrossedEffectsByParts.Effects effects) {
+        return new SeveralEffectsWithin(n, java.util.OptionalInt.of(rank), within, totalSquares, null, solved,
+                weightTotal, weighted, effects);
     }
 
     /** The variant's rows in the usable groups, ascending. */

@@ -83,7 +83,7 @@ public final class VariantByParts {
 
     /** The absorbed column's codes present in the variant's rows, ascending (empty when it absorbs nothing). */
     public int[] absorbCodes(VariantKey key, WholeRows whole) {
-        Column absorbed = VariantBuilder.absorbed(plan, key);
+        Column absorbed = oneAbsorbed(key);
         return absorbed == null ? new int[0] : FixedEffectLevels.presentCodes(absorbed, RowSelection.of(plan, key,
                 whole), whole);
     }
@@ -132,11 +132,16 @@ public final class VariantByParts {
     /** This part's cell sums, and as {@code withTensors} asks its fourth moments, with every part's facts in {@code whole}. */
     public PartialStatistics statistics(VariantKey key, WholeRows whole, boolean withTensors) {
         Map<String, long[]> intersections = new HashMap<>();
-        CodedRows coded = codedWithClusters(key, whole, intersections);
+        // beside two absorbed columns the clusters' cells would be of rows not yet demeaned: their errors come
+        // from the clusters' scores over the parts' within values instead (clusterScores)
+        boolean cells = !crossed(key);
+        CodedRows coded = codedWithClusters(key, whole, cells ? intersections : null);
         DataVariant part = new DataVariant(coded, new CellSums(coded, null));
         List<String> clusters = new ArrayList<>();
-        for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
-            clusters.add(c.column().name());
+        if (cells) {
+            for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+                clusters.add(c.column().name());
+            }
         }
         return PartialStatistics.of(part, withTensors, clusters, intersections);
     }
@@ -145,9 +150,13 @@ public final class VariantByParts {
      * This part coded for the variant, with its clusters as a pass sums them: in a draw's copy the clusters
      * of {@link #renewedClusters} renewed per copy; and into {@code intersections} (modified) the whole
      * table's key of each of the part's clusters of every intersection of cluster columns, renewed alike.
+     * With {@code intersections} null (no cluster cells are summed), the coding alone.
      */
     private CodedRows codedWithClusters(VariantKey key, WholeRows whole, Map<String, long[]> intersections) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        if (intersections == null) {
+            return coded;
+        }
         for (ClusterComponents.Component c : plan.clusterIntersections) {
             intersections.put(c.key(), intersectionKeys(coded, whole, c));
         }
@@ -377,7 +386,7 @@ public final class VariantByParts {
             facts = facts.withWinsorize(column, q[0], q[1]);
         }
         WholeRows coded = facts;
-        int[] codes = VariantBuilder.absorbed(plan, key) == null ? null
+        int[] codes = oneAbsorbed(key) == null ? null
                 : parts.reduce(part -> part.absorbCodes(key, coded), VariantByParts::union);
         facts = facts.withAbsorbCodes(codes == null ? new int[0] : codes);
         WholeRows levelled = facts;
@@ -387,6 +396,9 @@ public final class VariantByParts {
         boolean tensors = wantsTensors(key);
         PartialStatistics sum = parts.reduce(part -> part.statistics(key, shifted, tensors), PartialStatistics::add);
         DataVariant variant = variant(key, facts, sum);
+        if (crossed(key)) {
+            variant.crossedWithin = usable -> crossedWithin(key, shifted, variant, usable, parts);
+        }
         variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
                 VariantByParts::addSums);
@@ -404,6 +416,116 @@ public final class VariantByParts {
     }
 
     /**
+     * The exact within transformation of the usable groups {@code usable} beside two absorbed columns: one pass
+     * over the parts for the Schur complement's sums, the driver's solve, and one pass for the within
+     * cross-products ({@link CrossedEffectsByParts}).
+     */
+    private SeveralEffectsWithin crossedWithin(VariantKey key, WholeRows whole, DataVariant variant,
+            java.util.BitSet usable, VariantParts parts) {
+        long[] masks = CrossedEffectsByParts.masks(variant, usable);
+        int[] order = crossedOrder(key, whole);
+        int secondLevels = wholeClusterCount(VariantBuilder.absorbedColumns(plan, key)[order[1]].name(), whole);
+        CrossedEffectsByParts.SchurSums sums = parts.reduce(part -> part.crossedSchurSums(key, whole, masks),
+                CrossedEffectsByParts::add);
+        CrossedEffectsByParts.Solved solved = CrossedEffectsByParts.solve(sums == null ? emptySchur(variant,
+                secondLevels) : sums, order[0], order[1], wantsLeverages());
+        CrossedEffectsByParts.Effects effects = solved.effects();
+        double[] within = !solved.solved() || solved.rows() == 0 ? new double[variant.columns * variant.columns]
+                : parts.reduce(effects, (part, e) -> part.crossedWithinSums(key, whole, masks, e),
+                        VariantByParts::addSums);
+        return CrossedEffectsByParts.within(solved, within, variant.weighted);
+    }
+
+    private static CrossedEffectsByParts.SchurSums emptySchur(DataVariant variant, int secondLevels) {
+        CrossedEffectsByParts.SchurSums s = new CrossedEffectsByParts.SchurSums();
+        s.firstCodes = new int[0];
+        s.schur = new double[secondLevels * secondLevels];
+        s.rhs = new double[variant.columns][];
+        s.spread = new double[variant.columns][];
+        s.link = new int[secondLevels];
+        java.util.Arrays.fill(s.link, -1);
+        return s;
+    }
+
+    /** This part's sums of the Schur complement for the usable patterns {@code masks} ({@link CrossedEffectsByParts}). */
+    public CrossedEffectsByParts.SchurSums crossedSchurSums(VariantKey key, WholeRows whole, long[] masks) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        int[] order = crossedOrder(key, whole);
+        int secondLevels = wholeClusterCount(VariantBuilder.absorbedColumns(plan, key)[order[1]].name(), whole);
+        return CrossedEffectsByParts.schurSums(coded, crossedCodes(coded, key, whole, order[0], order[1]),
+                secondLevels, masks);
+    }
+
+    /** This part's share of the within cross-products of the usable patterns {@code masks}, given B's effects. */
+    public double[] crossedWithinSums(VariantKey key, WholeRows whole, long[] masks,
+            CrossedEffectsByParts.Effects effects) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        return CrossedEffectsByParts.withinSums(coded, crossedCodes(coded, key, whole, effects.first(),
+                effects.second()), masks, effects);
+    }
+
+    /** Whether some error type of the plan is HC2 or HC3 (beside two columns they need S's inverse). */
+    private boolean wantsLeverages() {
+        for (ErrorType e : plan.errorTypes) {
+            if (e.kind() == ErrorType.Kind.HC2 || e.kind() == ErrorType.Kind.HC3) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Whether the variant absorbs two columns (the runner by parts refuses more). */
+    boolean crossed(VariantKey key) {
+        return VariantBuilder.absorbedColumns(plan, key).length == 2;
+    }
+
+    /** The one column the variant absorbs, or null when none or two. */
+    private Column oneAbsorbed(VariantKey key) {
+        Column[] columns = VariantBuilder.absorbedColumns(plan, key);
+        return columns.length == 1 ? columns[0] : null;
+    }
+
+    /**
+     * The positions of A (the absorbed column with more levels over the whole table; the first on a tie), which
+     * the parts are cut by, and of B, whose effects the driver solves for.
+     */
+    int[] crossedOrder(VariantKey key, WholeRows whole) {
+        Column[] columns = VariantBuilder.absorbedColumns(plan, key);
+        int first = wholeClusterCount(columns[0].name(), whole) >= wholeClusterCount(columns[1].name(), whole) ? 0 : 1;
+        return new int[] {first, 1 - first};
+    }
+
+    /** The whole table's codes of A and B at this part's variant rows. */
+    private CrossedEffectsByParts.Codes crossedCodes(CodedRows coded, VariantKey key, WholeRows whole, int first,
+            int second) {
+        Column[] columns = VariantBuilder.absorbedColumns(plan, key);
+        return new CrossedEffectsByParts.Codes(codesAt(columns[first], coded, whole), codesAt(columns[second],
+                coded, whole));
+    }
+
+    private static int[] codesAt(Column column, CodedRows coded, WholeRows whole) {
+        int[] all = LevelCodes.of(column, whole.groupingValues(column.name()));
+        int[] out = new int[coded.rows];
+        for (int r = 0; r < coded.rows; r++) {
+            out[r] = all[coded.tableRows[r]];
+        }
+        return out;
+    }
+
+    /**
+     * The columns a pass over this part's rows reads: the level-shifted ones, or beside two absorbed columns
+     * the within values of the usable patterns {@code masks} (level 0, offsets 0).
+     */
+    private double[][] passColumns(CodedRows coded, VariantKey key, WholeRows whole, long[] masks,
+            CrossedEffectsByParts.Effects effects) {
+        if (effects == null) {
+            return coded.shifted;
+        }
+        return CrossedEffectsByParts.demeaned(coded, crossedCodes(coded, key, whole, effects.first(),
+                effects.second()), masks, effects);
+    }
+
+    /**
      * The variant {@code key} in one bootstrap draw, from the draw's statistics summed over the parts, coded
      * with the observed variant's facts ({@code facts}); its QR refits, row passes and generalized linear
      * fits' passes reduce {@code drawParts}, the parts in that draw (each row repeated by its count).
@@ -414,6 +536,10 @@ public final class VariantByParts {
             DataVariant observed) {
         DataVariant variant = variant(key, facts, sum);
         variant.drawOf = observed;
+        if (crossed(key)) {
+            // each set of usable rows solved again over the draw's rows (each part's copies keep their levels)
+            variant.crossedWithin = usable -> crossedWithin(key, facts, variant, usable, drawParts);
+        }
         variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),
                 VariantByParts::addSums);
@@ -457,10 +583,12 @@ public final class VariantByParts {
     }
 
     /** What a part needs of one refit: the usable missing patterns, the level offsets, columns and outcome. */
-    record RefitPiece(long[] usableMasks, double[][] offsets, int[] columns, int outcome) implements java.io.Serializable {
+    record RefitPiece(long[] usableMasks, double[][] offsets, int[] columns, int outcome,
+            CrossedEffectsByParts.Effects crossedEffects) implements java.io.Serializable {
         static RefitPiece of(DataVariant variant, RefitRequest r) {
-            long[] usable = r.rows().usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).toArray();
-            return new RefitPiece(usable, r.rows().levelMeanOffset, r.columns(), r.outcome());
+            long[] usable = r.rows().usableGroups.stream().mapToLong(g -> variant.groupMissing[g]).sorted().toArray();
+            return new RefitPiece(usable, r.rows().levelMeanOffset, r.columns(), r.outcome(),
+                    r.rows().crossedEffects);
         }
     }
 
@@ -469,7 +597,8 @@ public final class VariantByParts {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         double[][][] out = new double[pieces.length][][];
         for (int i = 0; i < pieces.length; i++) {
-            out[i] = refitFactor(coded, pieces[i]);
+            out[i] = refitFactor(coded, passColumns(coded, key, whole, pieces[i].usableMasks(),
+                    pieces[i].crossedEffects()), pieces[i]);
         }
         return out;
     }
@@ -483,7 +612,8 @@ public final class VariantByParts {
 
     /** This part's factor of one refit ({@link #refitFactor(CodedRows, RefitPiece)}). */
     public double[][] refitFactor(VariantKey key, WholeRows whole, RefitPiece piece) {
-        return refitFactor(VariantBuilder.code(plan, key, whole).coded(plan), piece);
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        return refitFactor(coded, passColumns(coded, key, whole, piece.usableMasks(), piece.crossedEffects()), piece);
     }
 
     /**
@@ -493,7 +623,7 @@ public final class VariantByParts {
      * by the square root of its weight after centring, as {@link DesignRows} scales it on one machine, so the
      * factor is that of weighted least squares.
      */
-    private static double[][] refitFactor(CodedRows coded, RefitPiece piece) {
+    private static double[][] refitFactor(CodedRows coded, double[][] values, RefitPiece piece) {
         long[] usableMasks = piece.usableMasks();
         double[][] offsets = piece.offsets();
         int[] cols = piece.columns();
@@ -511,9 +641,9 @@ public final class VariantByParts {
             double root = coded.weight == null ? 1 : Math.sqrt(coded.weight[r]);
             double[] row = new double[cols.length + 1];
             for (int j = 0; j < cols.length; j++) {
-                row[j] = (coded.shifted[cols[j]][r] - off[cols[j]]) * root;
+                row[j] = (values[cols[j]][r] - off[cols[j]]) * root;
             }
-            row[cols.length] = (coded.shifted[y][r] - off[y]) * root;
+            row[cols.length] = (values[y][r] - off[y]) * root;
             rows.add(row);
         }
         return triangular(rows.toArray(new double[0][]));
@@ -534,9 +664,17 @@ public final class VariantByParts {
         int n = 0;
         long[] rowsOf = null;
         double[] out = new double[batch.length];
+        double[][] values = coded.shifted;
+        CrossedEffectsByParts.Effects effectsOf = null;
+        DummyLeverage dummies = null;
         for (int i = 0; i < batch.length; i++) {
             RowPassRequest r = batch[i];
-            if (!java.util.Arrays.equals(r.usableMasks, rowsOf)) {
+            boolean leverage = r.kind == ErrorType.Kind.HC2 || r.kind == ErrorType.Kind.HC3;
+            if (!java.util.Arrays.equals(r.usableMasks, rowsOf) || r.crossedEffects != effectsOf) {
+                // one set's requests share its effects (one object in the broadcast batch): demeaned once for them
+                values = passColumns(coded, key, whole, r.usableMasks, r.crossedEffects);
+                effectsOf = r.crossedEffects;
+                dummies = null;
                 n = 0;
                 for (int row = 0; row < coded.rows; row++) {
                     if (java.util.Arrays.binarySearch(r.usableMasks, coded.groupMissing[coded.group[row]]) >= 0) {
@@ -545,8 +683,14 @@ public final class VariantByParts {
                 }
                 rowsOf = r.usableMasks;
             }
-            view.overPart(coded.shifted, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
+            view.overPart(values, coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts,
                     coded.weight, r.levelWeights);
+            if (leverage && r.crossedEffects != null && dummies == null) {
+                dummies = CrossedLeverageByParts.of(coded, crossedCodes(coded, key, whole,
+                        r.crossedEffects.first(), r.crossedEffects.second()), r.usableMasks, r.crossedEffects);
+            }
+            // beside two absorbed columns the dummies' part of the leverages is the crossed one
+            view.withDummyLeverage(r.crossedEffects == null ? null : dummies);
             out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
         }
         return out;
@@ -572,8 +716,9 @@ public final class VariantByParts {
                 rows[n++] = row;
             }
         }
-        KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView().overPart(coded.shifted,
-                coded.level, r.kept, r.y, rows, n, r.levelOffsets, r.levelCounts, coded.weight, r.levelWeights);
+        KeyCoefficientSandwich.RowView view = new KeyCoefficientSandwich.RowView().overPart(passColumns(coded, key,
+                whole, r.usableMasks, r.crossedEffects), coded.level, r.kept, r.y, rows, n, r.levelOffsets,
+                r.levelCounts, coded.weight, r.levelWeights);
         KeyCoefficientSandwich.withClusters(view, coded.clusters.get(clusterKey), coded.clusterCounts.get(clusterKey));
         double[] scores = new KeyCoefficientSandwich().partClusterScores(view, r.kept.length, r.b, r.w);
         java.util.TreeMap<Long, Double> out = new java.util.TreeMap<>();
@@ -874,7 +1019,7 @@ public final class VariantByParts {
      * and the variant absorbs nothing (the tensors' route does not cover absorbed fixed effects).
      */
     boolean wantsTensors(VariantKey key) {
-        if (VariantBuilder.absorbed(plan, key) != null) {
+        if (VariantBuilder.absorbedColumns(plan, key).length > 0) {
             return false;
         }
         for (ErrorType e : plan.errorTypes) {
@@ -893,9 +1038,15 @@ public final class VariantByParts {
 
     /** The variant the solvers read, from the sum of every part's statistics and the facts they shared. */
     DataVariant variant(VariantKey key, WholeRows whole, PartialStatistics sum) {
-        Column absorbed = VariantBuilder.absorbed(plan, key);
-        int levels = absorbed == null ? 1 : Math.max(1, whole.absorbCodes().length);
-        return sum.variant(plan.layout, levels, absorbed == null ? null : absorbed.name(), whole.levelShift());
+        Column[] absorbed = VariantBuilder.absorbedColumns(plan, key);
+        if (absorbed.length > 1) {
+            // every row at level 0, as one machine codes them (FixedEffectLevels), the columns' names joined
+            String names = String.join(", ", java.util.Arrays.stream(absorbed).map(Column::name).toList());
+            return sum.variant(plan.layout, 1, names, whole.levelShift(), absorbed.length);
+        }
+        int levels = absorbed.length == 0 ? 1 : Math.max(1, whole.absorbCodes().length);
+        return sum.variant(plan.layout, levels, absorbed.length == 0 ? null : absorbed[0].name(), whole.levelShift(),
+                0);
     }
 
     /** The plan this was compiled from. */

@@ -69,6 +69,11 @@ final class VariantStatistics {
 
     /** The moments of a variant with several absorbed columns; its demeaned rows go to the bounded cache. */
     private Moments several(BitSet usable) {
+        if (!variant.holdsRows()) {
+            // held in parts: solved exactly where the rows are, no demeaned rows here
+            variant.crossedSolves.incrementAndGet();
+            return new Moments(variant, usable, variant.crossedWithin.within(usable));
+        }
         SeveralEffectsWithin w = SeveralEffectsWithin.of(variant, usable);
         demeaned.put(usable, w.columns);
         return new Moments(variant, usable, w);

@@ -209,7 +209,8 @@ class SparkParityTest {
             worst[1] = Math.max(worst[1], assertClose(a.stdError(slot), b.stdError(slot), RELATIVE, where + " std_error"));
             worst[2] = Math.max(worst[2], assertClose(a.pValue(slot), b.pValue(slot), RELATIVE, where + " p_value"));
         }
-        assertTrue(fitted > a.size() / 2, fitted + " of " + a.size() + " fitted");
+        // at least half: the leverage plan leaves half its specifications with the leverage-1 status
+        assertTrue(fitted >= a.size() / 2, fitted + " of " + a.size() + " fitted");
         return new Comparison(onSpark, worst);
     }
 

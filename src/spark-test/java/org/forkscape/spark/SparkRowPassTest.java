@@ -133,10 +133,13 @@ class SparkRowPassTest {
         SparkRefusals.check(plan(chick.replace("{\"name\": \"outcome\"", "{\"name\": \"weights\", \"kind\": "
                 + "\"weights\", \"alternatives\": [{\"label\": \"by time\", \"column\": \"Time\"}]},\n    "
                 + "{\"name\": \"outcome\"")));
-        // still refused: two absorbed columns
-        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]",
-                "\"columns\": [\"Chick\", \"Diet\"]"))));
+        // two absorbed columns are solved by the partitions (SparkTwoWayEffectsTest); still refused: three or more
+        // absorbed columns
+        SparkRefusals.check(plan(chick.replace("\"columns\": [\"Chick\"]", "\"columns\": [\"Chick\", \"Diet\"]")));
+        InputException e = assertThrows(InputException.class, () -> SparkRefusals.check(plan(chick.replace(
+                "\"columns\": [\"Chick\"]", "\"columns\": [\"Chick\", \"Diet\", \"Time\"]"))));
         assertEquals("decisions[4].alternatives[1].columns", e.where());
+        assertTrue(e.problem().startsWith("three or more absorbed columns"), e.problem());
         String poisson = chick.replace("{\"name\": \"outcome\"", "{\"name\": \"model\", \"kind\": \"model\", "
                 + "\"alternatives\": [\"ols\", \"poisson\"]},\n    {\"name\": \"outcome\"");
         SparkRefusals.check(plan(poisson));

@@ -147,7 +147,7 @@ class SparkWeightsAndClustersTest {
      * rows, and where R fitted it estimate, standard error and df; where R's multi-way variance is not positive,
      * the same status. The largest differences are reported.
      */
-    private static AgainstR againstR(SparkParityTest.Comparison c, String expectedFile, List<String> labels,
+    static AgainstR againstR(SparkParityTest.Comparison c, String expectedFile, List<String> labels,
             String source) throws IOException {
         ResultTable r = c.spark().results();
         Map<String, Integer> slots = ReferenceFiles.slotsByLabels(c.spark());

@@ -116,7 +116,7 @@ final class SparkData implements RunData {
                 throw new InputException("data", String.format("%s has %,d rows, above the engine's limit of %,d "
                         + "rows per data set", source, rows, Integer.MAX_VALUE));
             }
-            data = partitions > 0 ? selected.repartition(partitions) : selected;
+            data = partitioned(plan, selected, levels, groupingValues, names);
             shape = new TableShape(names, categorical, levels, selected.schema());
             this.grouping = WholeRows.NONE.withGroupingValues(groupingValues);
             return shape.withoutRows(source, (int) rows, others);
@@ -125,6 +125,32 @@ final class SparkData implements RunData {
         } catch (Exception e) {
             throw new InputException("data", "\"" + where + "\" cannot be read as Parquet (" + firstLine(e) + ")");
         }
+    }
+
+    /**
+     * The rows spread over the partitions: as read, or over {@code --partitions} N; beside two absorbed columns
+     * by the column with more levels ({@link CrossedPartitioning}), each of its levels in one partition (N, or as
+     * many as read), its rows then sorted within their partition by every column read, since a shuffle delivers
+     * them in no fixed order and the sums must have the same bits on every run.
+     */
+    private Dataset<Row> partitioned(Plan plan, Dataset<Row> selected, String[][] levels,
+            Map<String, double[]> groupingValues, String[] names) {
+        Map<String, Integer> counts = new HashMap<>();
+        for (int c = 0; c < names.length; c++) {
+            if (levels[c] != null) {
+                counts.put(names[c], levels[c].length);
+            } else if (groupingValues.containsKey(names[c])) {
+                counts.put(names[c], groupingValues.get(names[c]).length);
+            }
+        }
+        String by = CrossedPartitioning.column(plan, counts);
+        if (by == null) {
+            return partitions > 0 ? selected.repartition(partitions) : selected;
+        }
+        int n = partitions > 0 ? partitions : selected.javaRDD().getNumPartitions();
+        org.apache.spark.sql.Column[] all = Arrays.stream(selected.columns()).map(c -> col("`" + c + "`"))
+                .toArray(org.apache.spark.sql.Column[]::new);
+        return selected.repartition(n, col("`" + by + "`")).sortWithinPartitions(all);
     }
 
     @Override

@@ -9,8 +9,10 @@ import org.forkscape.plan.Plan;
 
 /**
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
- * with the way out (README, "Beyond one machine", lists them): two or more absorbed columns (their within
- * transformation iterates over the rows); beside null draws, the permutation.
+ * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
+ * transformation iterates over the rows); beside two absorbed columns, generalized linear models, and with
+ * null draws cluster errors; beside null draws, the permutation. Two absorbed columns are least squares'
+ * exact solve by parts ({@link CrossedPartitioning}).
  */
 final class SparkRefusals {
     static final String WAY_OUT = "; run this plan on one machine (forkscape.jar run), or leave that choice out";
@@ -23,14 +25,53 @@ final class SparkRefusals {
         if (plan.nullDraws() > 0) {
             nullDraws(plan);
         }
+        String pair = null;
         for (int i = 0; i < ds.size(); i++) {
             Decision d = ds.get(i);
             if (d instanceof Decision.Absorb a) {
                 for (int j = 0; j < a.alternatives().size(); j++) {
-                    if (a.alternatives().get(j).columns().size() > 1) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "].columns",
-                                "two absorbed columns are demeaned by alternating projections, iterations over the "
-                                        + "rows, which the Spark runner does not make" + WAY_OUT);
+                    int columns = a.alternatives().get(j).columns().size();
+                    String at = "decisions[" + i + "].alternatives[" + j + "].columns";
+                    if (columns > 2) {
+                        throw new InputException(at, "three or more absorbed columns are demeaned by alternating "
+                                + "projections, iterations over the rows, which the Spark runner does not make"
+                                + WAY_OUT);
+                    }
+                    if (columns == 2 && pair == null) {
+                        pair = at;
+                    }
+                }
+            }
+        }
+        if (pair != null) {
+            besideTwoColumns(plan, pair);
+        }
+    }
+
+    /**
+     * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares:
+     * generalized linear models are refused, and beside null draws cluster errors (their variances come from
+     * the clusters' scores over the rows, which a draw's pass does not sum).
+     */
+    private static void besideTwoColumns(Plan plan, String pair) {
+        List<Decision> ds = plan.decisions();
+        for (int i = 0; i < ds.size(); i++) {
+            if (ds.get(i) instanceof Decision.Errors e && plan.nullDraws() > 0) {
+                for (int j = 0; j < e.alternatives().size(); j++) {
+                    if (e.alternatives().get(j).kind() == org.forkscape.plan.ErrorType.Kind.CLUSTER) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", "cluster errors "
+                                + "beside two absorbed columns (" + pair + ") and null draws are not computed on "
+                                + "Spark (in a draw they would need the clusters' scores over the draw's rows)"
+                                + WAY_OUT + " (or the null draws)");
+                    }
+                }
+            } else if (ds.get(i) instanceof Decision.Model m) {
+                for (int j = 0; j < m.alternatives().size(); j++) {
+                    ModelFamily f = m.alternatives().get(j);
+                    if (!f.leastSquares()) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
+                                + " beside two absorbed columns (" + pair + ") is not fitted on Spark (only least "
+                                + "squares is demeaned exactly by parts)" + WAY_OUT);
                     }
                 }
             }

@@ -12,26 +12,26 @@ import org.apache.commons.math3.linear.ArrayRealVector;
 import org.apache.commons.math3.linear.NonPositiveDefiniteMatrixException;
 
 /**
- * The exact within transformation of two crossed absorbed columns, A and B, for a variant held in parts in
- * which every row of an A level sits in one part (the Spark runner partitions on A, the column with more
- * levels). No iterations over the rows: with D = [D_A D_B] and W the weights, the normal equations of x on D
- * are Da a + C b = D_A'Wx and C'a + Db b = D_B'Wx (Da, Db the levels' weight totals, C the (A, B) pairs'),
- * and eliminating a (block Gaussian elimination: the Schur complement, as in Golub &amp; Van Loan 2013, Matrix
- * Computations, 4th ed., Johns Hopkins University Press, cited from memory) leaves S b = t on B alone, S = Db - C'Da^-1 C and
- * t = D_B'W(x - xbar_A), xbar_A each row's A-level mean of x. Both are sums over A levels, so each part sums its
- * own ({@link SchurSums}) and the driver adds them in part order. S is singular: its null space has one vector
- * per connected component of the graph whose nodes are the levels and whose edges are the pairs present, the
- * dummies' rank deficiency (Abowd, Creecy &amp; Kramarz 2002, "Computing person and firm effects using linked
- * longitudinal employer-employee data", U.S. Census Bureau LEHD Technical Paper 2002-06, cited from memory). Fixing one B level per component at 0 (a generalised inverse) leaves a positive definite system,
- * solved by Cholesky (Commons Math) for every column; the residual x - a_A - b_B does not depend on which
- * level is fixed. Each part then makes its rows' within values, x - b_B minus their A-level mean, and sums from
- * them what one machine sums from its demeaned rows: by the Frisch-Waugh-Lovell theorem (Davidson &amp;
- * MacKinnon 2004, Econometric Theory and Methods, sections 2.4 and 2.6) least squares on them gives the
- * coefficients and residuals of the regression with both sets of dummies. K counts the dummies by their
- * rank: the levels present of both columns less the components, as {@link FixedEffectRank} counts them.
+ * The exact within transformation of two crossed absorbed columns, A and B, for a variant held in parts in which
+ * every row of an A level sits in one part (the Spark runner partitions on A, the column with more levels). No
+ * iterations over the rows: with D = [D_A D_B] and W the weights, the normal equations of x on D are Da a + C b =
+ * D_A'Wx and C'a + Db b = D_B'Wx (Da, Db the levels' weight totals, C the (A, B) pairs'), and eliminating a (block
+ * Gaussian elimination: the Schur complement, as in Golub &amp; Van Loan 2013, Matrix Computations, 4th ed., Johns
+ * Hopkins University Press, cited from memory) leaves S b = t on B alone, S = Db - C'Da^-1 C and t = D_B'W(x -
+ * xbar_A), xbar_A each row's A-level mean of x. Both are sums over A levels, so each part sums its own ({@link
+ * SchurSums}) and the driver adds them in part order. S is singular: its null space has one vector per connected
+ * component of the graph whose nodes are the levels and whose edges are the pairs present, the dummies' rank
+ * deficiency (Abowd, Creecy &amp; Kramarz 2002, "Computing person and firm effects using linked longitudinal
+ * employer-employee data", U.S. Census Bureau LEHD Technical Paper 2002-06, cited from memory). Fixing one B level
+ * per component at 0 (a generalised inverse) leaves a positive definite system, solved by Cholesky (Commons Math)
+ * for every column; the residual x - a_A - b_B does not depend on which level is fixed. Each part then makes its
+ * rows' within values, x - b_B minus their A-level mean, and sums from them what one machine sums from its demeaned
+ * rows: by the Frisch-Waugh-Lovell theorem (Davidson &amp; MacKinnon 2004, Econometric Theory and Methods, sections
+ * 2.4 and 2.6) least squares on them gives the coefficients and residuals of the regression with both sets of
+ * dummies. K counts the dummies by their rank: the levels present of both columns less the components, as {@link
+ * FixedEffectRank} counts them.
  *
- * <p>The driver's solve is cubic in B's levels, hence {@link #MAX_SECOND_LEVELS}; the parts' sums of S are
- * B x B.
+ * <p>The driver's solve is cubic in B's levels, hence {@link #MAX_SECOND_LEVELS}; the parts' sums of S are B x B.
  */
 public final class CrossedEffectsByParts {
     /** B's levels over the table above which the Spark runner refuses the alternative (the solve is cubic in them). */

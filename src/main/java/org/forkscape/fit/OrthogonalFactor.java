@@ -89,4 +89,14 @@ final class OrthogonalFactor {
         }
         return rank;
     }
+
+    /** After deciding: the kept columns' count ({@code rank}), each dropped column's coefficient set to 0. */
+    static int dropped(int rank, boolean[] kept, double[] beta, int p) {
+        for (int j = 0; j < p; j++) {
+            if (!kept[j]) {
+                beta[j] = 0;
+            }
+        }
+        return Math.max(rank, 0);
+    }
 }

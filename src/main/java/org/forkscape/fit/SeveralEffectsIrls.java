@@ -329,12 +329,7 @@ final class SeveralEffectsIrls {
             }
         }, considered, kept, decide, factor);
         if (decide) {
-            keptCount = Math.max(rank, 0);
-            for (int j = 0; j < p; j++) {
-                if (!kept[j]) {
-                    beta[j] = 0;
-                }
-            }
+            keptCount = OrthogonalFactor.dropped(rank, kept, beta, p);
         }
         return rank >= 0;
     }

@@ -5,6 +5,7 @@ import org.forkscape.InputException;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
 /**

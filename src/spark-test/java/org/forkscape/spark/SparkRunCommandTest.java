@@ -108,7 +108,7 @@ class SparkRunCommandTest {
      */
     @Test
     void scaleLogitPlanFitsTheBinaryOutcomeByLogit() {
-        org.forkscape.plan.Plan plan = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, true),
+        org.forkscape.plan.Plan plan = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, true, false),
                 folder.toAbsolutePath());
         assertEquals(java.math.BigInteger.valueOf(2048), new org.forkscape.plan.SpecificationSpace(plan).count());
         assertTrue(plan.decisions().stream().anyMatch(d -> d instanceof org.forkscape.plan.Decision.Model m
@@ -116,10 +116,19 @@ class SparkRunCommandTest {
         assertTrue(plan.decisions().stream().anyMatch(d -> d instanceof org.forkscape.plan.Decision.Outcome o
                 && o.alternatives().get(0).column().equals("b")), plan.decisions().toString());
         SparkRefusals.check(plan);
-        org.forkscape.plan.Plan ols = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, false),
+        org.forkscape.plan.Plan ols = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0, false, false),
                 folder.toAbsolutePath());
         assertTrue(ols.decisions().stream().noneMatch(d -> d instanceof org.forkscape.plan.Decision.Model),
                 "without --model the plan has no model decision");
+        assertTrue(ols.decisions().stream().noneMatch(d -> d instanceof org.forkscape.plan.Decision.Absorb),
+                "without --absorb the plan absorbs nothing");
+        // --absorb two-way: the unit and period effects, which the Spark runner solves by parts
+        org.forkscape.plan.Plan twoWay = new org.forkscape.plan.PlanReader(false).read(SparkScale.plan("data", 0,
+                false, true), folder.toAbsolutePath());
+        assertTrue(twoWay.decisions().stream().anyMatch(d -> d instanceof org.forkscape.plan.Decision.Absorb a
+                && a.alternatives().get(0).columns().equals(List.of("unit", "period"))), twoWay.decisions().toString());
+        assertEquals(java.math.BigInteger.valueOf(2048), new org.forkscape.plan.SpecificationSpace(twoWay).count());
+        SparkRefusals.check(twoWay);
     }
 
     /**

@@ -56,7 +56,7 @@ final class SparkScale {
     static final int CONTROLS = 10;
     static final int CLUSTERS = 1000;
     private static final String USAGE = "usage: scale --rows N[,N...] --out DIR [--master URL] [--partitions N] "
-            + "[--null-draws R] [--single-machine JAR] [--model logit]";
+            + "[--null-draws R] [--single-machine JAR] [--model logit] [--absorb two-way]";
 
     private SparkScale() {
     }
@@ -67,6 +67,7 @@ final class SparkScale {
         String single = take(args, "--single-machine");
         String drawsText = take(args, "--null-draws");
         String model = take(args, "--model");
+        String absorb = take(args, "--absorb");
         int draws;
         try {
             draws = drawsText == null ? 0 : Integer.parseInt(drawsText.trim());
@@ -74,7 +75,9 @@ final class SparkScale {
             draws = -1;
         }
         boolean logit = "logit".equals(model);
-        if (rows == null || out == null || !args.isEmpty() || draws < 0 || model != null && !logit) {
+        boolean twoWay = "two-way".equals(absorb);
+        if (rows == null || out == null || !args.isEmpty() || draws < 0 || model != null && !logit
+                || absorb != null && !twoWay) {
             System.err.println("forkscape: " + USAGE);
             return 2;
         }
@@ -85,19 +88,19 @@ final class SparkScale {
         for (String n : rows.split(",")) {
             long count = Long.parseLong(n.trim().replace("_", ""));
             Path folder = Path.of(out, "rows-" + count);
-            System.out.println(measure(spark, count, folder, partitions, draws, single, logit));
+            System.out.println(measure(spark, count, folder, partitions, draws, single, logit, twoWay));
         }
         return 0;
     }
 
     private static String measure(SparkSession spark, long rows, Path folder, int partitions, int draws,
-            String single, boolean logit) {
+            String single, boolean logit, boolean twoWay) {
         Path data = folder.resolve("data");
         Path plan = folder.resolve("plan.json");
         try {
             Files.createDirectories(folder);
-            generate(spark, rows, data);
-            Files.writeString(plan, plan("data", draws, logit), StandardCharsets.UTF_8);
+            generate(spark, rows, data, twoWay);
+            Files.writeString(plan, plan("data", draws, logit, twoWay), StandardCharsets.UTF_8);
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
@@ -150,11 +153,12 @@ final class SparkScale {
     /**
      * An invented table of {@code rows} rows written as Parquet: ten controls, a key predictor related to the
      * first two, an outcome with a planted effect of 0.2, whether it is positive (b, 1 or 0), and a cluster
-     * column of 1,000 groups. Every value is
+     * column of 1,000 groups; with {@code twoWay} also a unit column of rows / 10 levels and a period column
+     * of 10, each row's drawn from its number (the crossed effects of a registry panel). Every value is
      * a function of the row's number through Spark's xxhash64, so the same row count gives the same table
      * whatever the partitioning.
      */
-    static void generate(SparkSession spark, long rows, Path folder) {
+    static void generate(SparkSession spark, long rows, Path folder, boolean twoWay) {
         Dataset<Row> t = spark.range(rows).withColumn("common", uniform(0));
         for (int j = 1; j <= CONTROLS; j++) {
             t = t.withColumn("c" + j, uniform(j).plus(col("common").multiply(0.3)));
@@ -166,7 +170,14 @@ final class SparkScale {
         }
         t = t.withColumn("y", y).withColumn("b", when(col("y").gt(0), 1.0).otherwise(0.0))
                 .withColumn("g", pmod(xxhash64(col("id"), lit(99)), lit(CLUSTERS)));
-        t.select("y", columnsBut("y")).write().mode("overwrite").parquet(folder.toString());
+        List<String> rest = new ArrayList<>(List.of(columnsBut("y")));
+        if (twoWay) {
+            t = t.withColumn("unit", pmod(xxhash64(col("id"), lit(98)), lit(Math.max(1, rows / 10))))
+                    .withColumn("period", pmod(xxhash64(col("id"), lit(97)), lit(10L)));
+            rest.add("unit");
+            rest.add("period");
+        }
+        t.select("y", rest.toArray(new String[0])).write().mode("overwrite").parquet(folder.toString());
     }
 
     /** A uniform value on (-0.5, 0.5) from the row's number and {@code stream}. */
@@ -187,9 +198,9 @@ final class SparkScale {
     /**
      * Every subset of the ten controls (1,024), with HC1 and cluster errors: 2,048 specifications; with
      * {@code draws} bootstrap null draws (whole clusters of g, the errors' clusters, by default); with
-     * {@code logit}, of the outcome b by logit.
+     * {@code logit}, of the outcome b by logit; with {@code twoWay}, beside the unit and period effects absorbed.
      */
-    static String plan(String data, int draws, boolean logit) {
+    static String plan(String data, int draws, boolean logit, boolean twoWay) {
         StringBuilder optional = new StringBuilder();
         for (int j = 1; j <= CONTROLS; j++) {
             optional.append(j == 1 ? "" : ", ").append("\"c").append(j).append('"');
@@ -199,9 +210,11 @@ final class SparkScale {
                   {"name": "outcome", "kind": "outcome", "alternatives": [{"label": "%s", "column": "%s"}]},
                   {"name": "key", "kind": "predictor", "alternatives": [{"label": "x", "column": "x"}]},
                   {"name": "controls", "kind": "controls", "optional": [%s]},
-                  %s{"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g"]}]}
+                  %s%s{"name": "errors", "kind": "errors", "alternatives": ["HC1", "cluster:g"]}]}
                 """.formatted(data, draws, logit ? "b" : "y", logit ? "b" : "y", optional,
-                logit ? "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"logit\"]},\n      " : "");
+                logit ? "{\"name\": \"model\", \"kind\": \"model\", \"alternatives\": [\"logit\"]},\n      " : "",
+                twoWay ? "{\"name\": \"effects\", \"kind\": \"absorb\", \"alternatives\": [{\"label\": "
+                        + "\"unit and period\", \"columns\": [\"unit\", \"period\"]}]},\n      " : "");
     }
 
     private static String[] columns() {

@@ -10,7 +10,8 @@ import java.util.SortedMap;
  * the variance is G/(G-1) (N-1)/(N-K) sum over clusters of the score squared (Cameron &amp; Miller 2015, "A
  * practitioner's guide to cluster-robust inference", Journal of Human Resources 50(2)), G the clusters with a
  * usable row, as {@link KeyCoefficientSandwich#variance} makes it from the rows. One pass over the parts per
- * specification and clustering: it serves only the few specifications whose cells decline.
+ * specification and clustering: it serves the few specifications whose cells decline, and multi-way
+ * clusters beside two absorbed columns (one-way ones there go in batches, {@link RowPassesByParts}).
  */
 final class ClusterScoresByParts {
     private ClusterScoresByParts() {
@@ -24,13 +25,23 @@ final class ClusterScoresByParts {
             int n, int k) {
         SortedMap<Long, Double> scores = variant.clusterScoreReduction.scores(request, clusterKey);
         variant.clusterScorePasses.incrementAndGet();
-        int groups = scores == null ? 0 : scores.size();
+        double[] inOrder = scores == null ? new double[0]
+                : scores.values().stream().mapToDouble(Double::doubleValue).toArray();
+        return ofScores(inOrder, inOrder.length, n, k);
+    }
+
+    /**
+     * The CR1 variance from the first {@code groups} clusters' scores, in the clusters' order: the one
+     * expression of both routes by parts, one specification's pass ({@link #variance}) and a batch's
+     * ({@link RowPassesByParts#finish}), so that they give the same bits.
+     */
+    static KeyCoefficientSandwich.Variance ofScores(double[] scores, int groups, int n, int k) {
         if (groups < 2) {
             return new KeyCoefficientSandwich.Variance(Double.NaN, groups, FitStatus.ONE_CLUSTER, "");
         }
         double meat = 0;
-        for (double score : scores.values()) {
-            meat += score * score;
+        for (int g = 0; g < groups; g++) {
+            meat += scores[g] * scores[g];
         }
         return new KeyCoefficientSandwich.Variance(meat * groups / (groups - 1) * (n - 1.0) / (n - k), groups, null,
                 "");

@@ -102,11 +102,19 @@ public final class DataVariant {
     /** The passes over the parts' rows {@link RowPassesByParts} made for this variant, and the specifications they served. */
     final java.util.concurrent.atomic.AtomicLong rowPassBatches = new java.util.concurrent.atomic.AtomicLong();
     final java.util.concurrent.atomic.AtomicLong rowPassesServed = new java.util.concurrent.atomic.AtomicLong();
+    /** Of those, the one-way cluster errors beside two absorbed columns, their scores summed in the batch. */
+    final java.util.concurrent.atomic.AtomicLong clusterScoresBatched = new java.util.concurrent.atomic.AtomicLong();
     /**
      * For a variant built from parts: the facts of the whole its parts were coded with (set by
      * {@link VariantByParts#build}), with which a bootstrap draw codes its copies; null otherwise.
      */
     volatile WholeRows partsFacts;
+    /**
+     * Beside two absorbed columns held in parts: per cluster column, its clusters over the whole table, whose
+     * codes every part shares, so that one-way cluster scores go to the parts in batches
+     * ({@link RowPassRequest#ofClusters}); null otherwise.
+     */
+    volatile Map<String, Integer> wholeClusterCounts;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
@@ -240,6 +248,11 @@ public final class DataVariant {
     }
 
     /** How many specifications those passes served. */
+    /** One-way cluster errors beside two absorbed columns whose scores a row-pass batch summed. */
+    public long clusterScoresBatched() {
+        return clusterScoresBatched.get();
+    }
+
     public long rowPassesServed() {
         return rowPassesServed.get();
     }

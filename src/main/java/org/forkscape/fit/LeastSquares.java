@@ -115,10 +115,14 @@ public final class LeastSquares implements Estimator {
                     FitStatus.LEVERAGE_ILL_CONDITIONED, spec.errors().label(), "", refit, VarianceRoute.ROW_PASS,
                     sdRatio);
         }
-        if (spec.errors().kind() != ErrorType.Kind.CLUSTER && data.defersRowPass()) {
+        boolean crossedClusters = spec.errors().kind() == ErrorType.Kind.CLUSTER && !spec.errors().multiway()
+                && mom.crossedEffects != null && mom.variant.wholeClusterCounts != null;
+        if ((spec.errors().kind() != ErrorType.Kind.CLUSTER || crossedClusters) && data.defersRowPass()) {
             // the rows are held in parts: the variance follows from a pass over them for a batch of
-            // specifications (RowPassesByParts.finish, with KeyCoefficientSandwich.finish as below)
-            data.defer(RowPassRequest.of(mom, s, y, spec.errors().kind()));
+            // specifications (RowPassesByParts.finish, with KeyCoefficientSandwich.finish as below); beside two
+            // absorbed columns a one-way cluster error type too, whose scores the parts sum cluster by cluster
+            data.defer(crossedClusters ? RowPassRequest.ofClusters(mom, s, y, spec.errors().clusterColumn())
+                    : RowPassRequest.of(mom, s, y, spec.errors().kind()));
             return new KeyFit(s.keyEstimate(), Double.NaN, df, n, k, r2, s.rss, modelF, FitStatus.OK, "", s.note(),
                     refit, VarianceRoute.ROW_PASS, sdRatio);
         }

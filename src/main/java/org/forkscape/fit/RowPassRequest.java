@@ -11,7 +11,8 @@ import org.forkscape.plan.ErrorType;
  * level the offsets that turn the stored level-shifted values into within values and the level's usable row
  * count; in a weighted variant also each level's usable weight total (the leverages' w_i / W_level; the
  * offsets are then weighted level means, and the part scales its rows by sqrt(w_i) as one machine does).
- * Small: O(p^2 + levels p) doubles, independent of the rows. Immutable once made.
+ * For a cluster column, the column, whose per-cluster scores the part answers instead. Small: O(p^2 +
+ * levels p) doubles, independent of the rows. Immutable once made.
  */
 public final class RowPassRequest implements Serializable {
     private static final long serialVersionUID = 1L;
@@ -32,11 +33,17 @@ public final class RowPassRequest implements Serializable {
     final ErrorType.Kind kind;
     /** Beside two absorbed columns: the second column's effects, for the part's within values; else null. */
     final CrossedEffectsByParts.Effects crossedEffects;
+    /** For a cluster error type: its cluster column (one column, whose codes are the same on every part); else null. */
+    final String clusterColumn;
+    /** The variant's clusters of {@link #clusterColumn} (the length of the scores a part answers); else 0. */
+    final int clusters;
 
     private RowPassRequest(int[] kept, int y, double[] b, double[] w, double[] m, long[] usableMasks,
             double[][] levelOffsets, int[] levelCounts, double[] levelWeights, ErrorType.Kind kind,
-            CrossedEffectsByParts.Effects crossedEffects) {
+            CrossedEffectsByParts.Effects crossedEffects, String clusterColumn, int clusters) {
         this.crossedEffects = crossedEffects;
+        this.clusterColumn = clusterColumn;
+        this.clusters = clusters;
         this.kept = kept;
         this.y = y;
         this.b = b;
@@ -73,7 +80,26 @@ public final class RowPassRequest implements Serializable {
             offsets[l][p] = mom.levelMeanOffset[l][y];
         }
         return new RowPassRequest(kept, y, java.util.Arrays.copyOf(s.b, p), w, m, masks, offsets,
-                mom.levelCount.clone(), v.weighted ? mom.levelWeight.clone() : null, kind, mom.crossedEffects);
+                mom.levelCount.clone(), v.weighted ? mom.levelWeight.clone() : null, kind, mom.crossedEffects, null, 0);
+    }
+
+    /**
+     * The same for the CR1 meat of one cluster column, {@code column}, whose codes are the same on every part:
+     * each part answers its clusters' scores and which of them hold a usable row ({@link #answerLength}).
+     */
+    static RowPassRequest ofClusters(Moments mom, KeySolution s, int y, String column) {
+        RowPassRequest r = of(mom, s, y, ErrorType.Kind.CLUSTER);
+        return new RowPassRequest(r.kept, r.y, r.b, r.w, r.m, r.usableMasks, r.levelOffsets, r.levelCounts,
+                r.levelWeights, r.kind, r.crossedEffects, column, mom.variant.wholeClusterCounts.get(column));
+    }
+
+    /**
+     * The length of a part's answer: the meat's one sum; for a cluster column, each cluster's score sum
+     * (0 where the part has no usable row of it), then whether the part has a usable row of it (1 or 0), both
+     * by the variant's cluster code, so that the parts' answers add cluster by cluster.
+     */
+    int answerLength() {
+        return clusterColumn == null ? 1 : 2 * clusters;
     }
 
     /** Approximate size when serialized, in bytes: what a batch of requests is bounded by. */
@@ -81,6 +107,6 @@ public final class RowPassRequest implements Serializable {
         long p = kept.length;
         return 64 + 4 * p + 8 * (2 * p + p * p) + 8L * usableMasks.length
                 + (long) levelOffsets.length * (16 + 8 * (p + 1)) + 12L * levelCounts.length
-                + (crossedEffects == null ? 0 : 8 * crossedEffects.doubles());
+                + (crossedEffects == null ? 0 : 8 * crossedEffects.doubles()) + 8L * (answerLength() - 1);
     }
 }

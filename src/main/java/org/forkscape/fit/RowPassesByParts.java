@@ -56,8 +56,11 @@ public final class RowPassesByParts {
             double[] sums = variant.rowPassReduction.sums(batch.toArray(new RowPassRequest[0]));
             variant.rowPassBatches.incrementAndGet();
             variant.rowPassesServed.addAndGet(to - from);
-            for (int i = from; i < to; i++) {
-                out[i] = finished(deferred.get(i), sums[i - from]);
+            for (int i = from, at = 0; i < to; at += deferred.get(i).request().answerLength(), i++) {
+                out[i] = finished(deferred.get(i), sums, at);
+                if (deferred.get(i).request().clusterColumn != null) {
+                    variant.clusterScoresBatched.incrementAndGet();
+                }
             }
             afterEachPass.accept(to - from);
             from = to;
@@ -132,12 +135,33 @@ public final class RowPassesByParts {
     }
 
     /** The fit with the variance from its meat summed over every part, as {@link LeastSquares} ends a row pass. */
-    private static KeyFit finished(Deferred d, double sum) {
+    private static KeyFit finished(Deferred d, double[] sums, int at) {
         KeyFit fit = d.fit();
-        KeyCoefficientSandwich.Variance v = KeyCoefficientSandwich.finish(sum, d.errors(), fit.nObs(), fit.nParams());
+        RowPassRequest r = d.request();
+        if (r.clusterColumn != null) {
+            // the clusters with a usable row on some part, in code order, as the clusters' scores route keeps them
+            double[] present = new double[r.clusters];
+            int groups = 0;
+            for (int g = 0; g < r.clusters; g++) {
+                if (sums[at + r.clusters + g] > 0) {
+                    present[groups++] = sums[at + g];
+                }
+            }
+            KeyCoefficientSandwich.Variance v = ClusterScoresByParts.ofScores(present, groups, fit.nObs(),
+                    fit.nParams());
+            if (v.failure() != null) {
+                return fit.withError(Double.NaN, Double.NaN, v.failure(), v.failureDetail(), "",
+                        VarianceRoute.ROW_PASS);
+            }
+            return fit.withError(Math.sqrt(v.value()), v.clusters() - 1, FitStatus.OK, "", fit.note(),
+                    VarianceRoute.ROW_PASS);
+        }
+        KeyCoefficientSandwich.Variance v = KeyCoefficientSandwich.finish(sums[at], d.errors(), fit.nObs(),
+                fit.nParams());
         if (v.failure() != null) {
             return fit.withError(Double.NaN, Double.NaN, v.failure(), v.failureDetail(), "", VarianceRoute.ROW_PASS);
         }
         return fit.withError(Math.sqrt(v.value()), fit.df(), FitStatus.OK, "", fit.note(), VarianceRoute.ROW_PASS);
     }
+
 }

@@ -398,6 +398,12 @@ public final class VariantByParts {
         DataVariant variant = variant(key, facts, sum);
         if (crossed(key)) {
             variant.crossedWithin = usable -> crossedWithin(key, shifted, variant, usable, parts);
+            // the cluster columns' codes are the whole table's on every part: their one-way scores go in batches
+            Map<String, Integer> counts = new HashMap<>();
+            for (CompiledPlan.ClusterColumn c : plan.clusterColumns) {
+                counts.put(c.column().name(), wholeClusterCount(c.column().name(), shifted));
+            }
+            variant.wholeClusterCounts = counts;
         }
         variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
@@ -663,7 +669,12 @@ public final class VariantByParts {
         int[] rows = new int[coded.rows];
         int n = 0;
         long[] rowsOf = null;
-        double[] out = new double[batch.length];
+        int length = 0;
+        for (RowPassRequest r : batch) {
+            length += r.answerLength();
+        }
+        double[] out = new double[length];
+        int at = 0;
         double[][] values = coded.shifted;
         CrossedEffectsByParts.Effects effectsOf = null;
         DummyLeverage dummies = null;
@@ -691,7 +702,21 @@ public final class VariantByParts {
             }
             // beside two absorbed columns the dummies' part of the leverages is the crossed one
             view.withDummyLeverage(r.crossedEffects == null ? null : dummies);
-            out[i] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
+            if (r.clusterColumn == null) {
+                out[at] = sandwich.partSum(view, r.kept.length, r.b, r.w, r.m, r.kind);
+            } else {
+                // the clusters' scores as clusterScores sums them, by the variant's code (the same on every part)
+                KeyCoefficientSandwich.withClusters(view, coded.clusters.get(r.clusterColumn),
+                        coded.clusterCounts.get(r.clusterColumn));
+                double[] scores = sandwich.partClusterScores(view, r.kept.length, r.b, r.w);
+                for (int g = 0; g < scores.length && g < r.clusters; g++) {
+                    if (!Double.isNaN(scores[g])) {
+                        out[at + g] = scores[g];
+                        out[at + r.clusters + g] = 1;
+                    }
+                }
+            }
+            at += r.answerLength();
         }
         return out;
     }

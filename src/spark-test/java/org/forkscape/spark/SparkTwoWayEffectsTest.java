@@ -261,17 +261,20 @@ class SparkTwoWayEffectsTest {
         long crossed = 0;
         long served = 0;
         long scorePasses = 0;
+        long batched = 0;
         for (int v = 0; v < run.models().variantCount(); v++) {
             DataVariant variant = run.models().variant(run.models().variantKey(v));
             if (variant.crossedSolves() > 0) {
                 crossed++;
                 served += variant.rowPassesServed();
                 scorePasses += variant.clusterScorePasses();
+                batched += variant.clusterScoresBatched();
             }
         }
         assertTrue(crossed > 0, "variants beside pupil and term solved by the partitions");
         assertTrue(served > 0, "HC0 and HC1 from the row passes over the partitions' within values");
-        assertTrue(scorePasses > 0, "cluster errors from the clusters' scores over the partitions' within values");
+        assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the partitions' within values");
+        assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");
     }
 
     private static InputException refusal(String text, Path parquet) {

@@ -175,6 +175,7 @@ class TwoWayEffectsByPartsTest {
         long crossed = 0;
         long served = 0;
         long scorePasses = 0;
+        long batched = 0;
         for (int v = 0; v < parts.models().variantCount(); v++) {
             DataVariant variant = parts.models().variant(parts.models().variantKey(v));
             assertFalse(variant.holdsRows());
@@ -184,11 +185,13 @@ class TwoWayEffectsByPartsTest {
                         "demeaned by the parts' exact solve");
                 served += variant.rowPassesServed();
                 scorePasses += variant.clusterScorePasses();
+                batched += variant.clusterScoresBatched();
             }
         }
         assertTrue(crossed > 0, "variants beside pupil and term");
         assertTrue(served > 0, "HC0 and HC1 from row passes over the parts' within values");
-        assertTrue(scorePasses > 0, "cluster errors from the clusters' scores over the parts' within values");
+        assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the parts' within values");
+        assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");
         assertTrue(parts.refitByQr() > 0, "controls constant within pupils or terms sent to the QR refit");
     }
 

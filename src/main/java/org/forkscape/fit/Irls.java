@@ -720,11 +720,38 @@ final class Irls {
         if (orthogonal) {
             return orthogonalFactor(p, decide);
         }
-        if (decide) {
-            keptCount = 0;
-        }
+        boolean[] considered = new boolean[p];
         for (int j = 0; j < p; j++) {
-            if (!kept[j] && (!decide || spannedByLevels(j))) {
+            considered[j] = kept[j] || (decide && !spannedByLevels(j));
+        }
+        int result = cholesky(gram, factor, considered, kept, beta, p, decide);
+        if (result == SWITCH_TO_QR) {
+            orthogonal = true;
+            return orthogonalFactor(p, decide);
+        }
+        if (decide && result >= 0) {
+            keptCount = result;
+        }
+        return result >= 0;
+    }
+
+    /** {@link #cholesky}'s answer where a pivot is small enough to have cost digits. */
+    static final int SWITCH_TO_QR = -2;
+
+    /**
+     * The Cholesky factor of the {@code considered} columns' cross-products {@code gram} into {@code factor}
+     * (lower, p x p row-major), the rule both scoring iterations share: when {@code decide}, a column with no
+     * spread is dropped ({@code kept} set, its {@code beta} 0); a kept column whose pivot is at most
+     * {@link #ORTHOGONAL_BELOW_SHARE} of its own sum of squares stops the factorisation for the QR of the
+     * weighted design ({@link #SWITCH_TO_QR}).
+     *
+     * @return the kept columns' count, -1 when (not deciding) a kept pivot is not positive, or {@link #SWITCH_TO_QR}
+     */
+    static int cholesky(double[] gram, double[] factor, boolean[] considered, boolean[] kept, double[] beta, int p,
+            boolean decide) {
+        int count = 0;
+        for (int j = 0; j < p; j++) {
+            if (!considered[j]) {
                 continue;
             }
             double own = gram[j * p + j];
@@ -736,8 +763,7 @@ final class Irls {
                 }
             }
             if (own > 0 && !(pivot > ORTHOGONAL_BELOW_SHARE * own)) {
-                orthogonal = true;
-                return orthogonalFactor(p, decide);
+                return SWITCH_TO_QR;
             }
             if (decide) {
                 // a column with a small pivot has gone to the QR above; one with no spread at all is dropped
@@ -746,10 +772,10 @@ final class Irls {
                     beta[j] = 0;
                     continue;
                 }
-                keptCount++;
             } else if (!(pivot > 0)) {
-                return false;
+                return -1;
             }
+            count++;
             double d = Math.sqrt(pivot);
             factor[j * p + j] = d;
             for (int i = j + 1; i < p; i++) {
@@ -765,7 +791,7 @@ final class Irls {
                 factor[i * p + j] = s / d;
             }
         }
-        return true;
+        return count;
     }
 
     /**

@@ -275,48 +275,15 @@ final class SeveralEffectsIrls {
         if (orthogonal) {
             return orthogonalFactor(p, decide);
         }
-        if (decide) {
-            keptCount = 0;
+        int result = Irls.cholesky(gram, factor, java.util.Arrays.copyOf(kept, p), kept, beta, p, decide);
+        if (result == Irls.SWITCH_TO_QR) {
+            orthogonal = true;
+            return orthogonalFactor(p, decide);
         }
-        for (int j = 0; j < p; j++) {
-            if (!kept[j]) {
-                continue;
-            }
-            double own = gram[j * p + j];
-            double pivot = own;
-            for (int k = 0; k < j; k++) {
-                if (kept[k]) {
-                    double f = factor[j * p + k];
-                    pivot -= f * f;
-                }
-            }
-            if (own > 0 && !(pivot > Irls.ORTHOGONAL_BELOW_SHARE * own)) {
-                orthogonal = true;
-                return orthogonalFactor(p, decide);
-            }
-            if (decide) {
-                kept[j] = own > 0;
-                if (!kept[j]) {
-                    beta[j] = 0;
-                    continue;
-                }
-                keptCount++;
-            } else if (!(pivot > 0)) {
-                return false;
-            }
-            double d = Math.sqrt(pivot);
-            factor[j * p + j] = d;
-            for (int i = j + 1; i < p; i++) {
-                double s = gram[i * p + j];
-                for (int k = 0; k < j; k++) {
-                    if (kept[k]) {
-                        s -= factor[i * p + k] * factor[j * p + k];
-                    }
-                }
-                factor[i * p + j] = s / d;
-            }
+        if (decide && result >= 0) {
+            keptCount = result;
         }
-        return true;
+        return result >= 0;
     }
 
     /** The factor from Householder QR of W^1/2 X~, the projected columns at the working weights. */

@@ -236,6 +236,11 @@ final class ClusterMoments {
                 n[id]++;
             }
         }
+        return new WithinCells(cells, n, p, pairIndex(p), withinCross(demeaned, v.weight, rows, cellOf, cells));
+    }
+
+    /** pairIndex[a * p + b]: the pair (a, b) for any order, numbered in nested-loop order a &lt;= b. */
+    private static int[] pairIndex(int p) {
         int[] pairIndex = new int[p * p];
         int pairs = 0;
         for (int a = 0; a < p; a++) {
@@ -245,15 +250,26 @@ final class ClusterMoments {
                 pairs++;
             }
         }
+        return pairIndex;
+    }
+
+    /**
+     * Per column pair, each cell's sum of z_a z_b over the rows {@code rows} whose cell is {@code cellOf[i]}
+     * (-1: none), each value times the square root of its row's weight when {@code weight} is given; rows in
+     * order, each product added to its cell's sum, so every sum is in row order.
+     */
+    private static double[][] withinCross(double[][] demeaned, double[] weight, int[] rows, int[] cellOf,
+            int cells) {
+        int p = demeaned.length;
         double[] root = null;
-        if (v.weight != null) {
+        if (weight != null) {
             root = new double[rows.length];
             for (int i = 0; i < rows.length; i++) {
-                root[i] = Math.sqrt(v.weight[rows[i]]);
+                root[i] = Math.sqrt(weight[rows[i]]);
             }
         }
-        double[][] cross = new double[pairs][];
-        // rows in order, each product of scaled values added to its cluster's sum: every sum in row order
+        int[] pairIndex = pairIndex(p);
+        double[][] cross = new double[p * (p + 1) / 2][];
         for (int a = 0; a < p; a++) {
             double[] ca = demeaned[a];
             if (ca == null) {
@@ -275,7 +291,90 @@ final class ClusterMoments {
                 cross[pairIndex[a * p + b]] = sum;
             }
         }
-        return new WithinCells(cells, n, p, pairIndex, cross);
+        return cross;
+    }
+
+    /**
+     * One part's per-cluster cells of a set's within values, for a variant held in parts beside two absorbed
+     * columns ({@link CrossedEffectsByParts#withinSums}): the clusters keyed by their key over the whole table
+     * (ascending), so that the parts' cells of one cluster add ({@link #add}) wherever its rows are.
+     */
+    static final class WithinCellSums implements java.io.Serializable {
+        private static final long serialVersionUID = 1L;
+        int columns;
+        /** The clusters' keys over the whole table, ascending. */
+        long[] keys;
+        /** Per cluster: the part's usable rows in it. */
+        int[] n;
+        /** Per column pair: the per-cluster sums of z_a z_b, as {@link WithinCells#cross}. */
+        double[][] cross;
+
+        /** The cells of one part's usable rows {@code rows}, each row's cluster key in {@code keyOfRow} (-1: none). */
+        static WithinCellSums of(double[][] demeaned, double[] weight, int[] rows, long[] keyOfRow) {
+            long[] keys = java.util.Arrays.stream(rows).mapToLong(r -> keyOfRow[r]).filter(k -> k >= 0).distinct()
+                    .sorted().toArray();
+            int[] cellOf = new int[rows.length];
+            int[] n = new int[keys.length];
+            for (int i = 0; i < rows.length; i++) {
+                long key = keyOfRow[rows[i]];
+                cellOf[i] = key < 0 ? -1 : java.util.Arrays.binarySearch(keys, key);
+                if (cellOf[i] >= 0) {
+                    n[cellOf[i]]++;
+                }
+            }
+            WithinCellSums out = new WithinCellSums();
+            out.columns = demeaned.length;
+            out.keys = keys;
+            out.n = n;
+            out.cross = withinCross(demeaned, weight, rows, cellOf, keys.length);
+            return out;
+        }
+
+        /** Two parts' cells as one: the union of their clusters, a cluster in both the sum of its two cells. */
+        static WithinCellSums add(WithinCellSums a, WithinCellSums b) {
+            long[] keys = java.util.stream.LongStream.concat(java.util.Arrays.stream(a.keys),
+                    java.util.Arrays.stream(b.keys)).distinct().sorted().toArray();
+            int[] fromA = positions(a.keys, keys);
+            int[] fromB = positions(b.keys, keys);
+            WithinCellSums out = new WithinCellSums();
+            out.columns = a.columns;
+            out.keys = keys;
+            out.n = new int[keys.length];
+            for (int c = 0; c < a.keys.length; c++) {
+                out.n[fromA[c]] += a.n[c];
+            }
+            for (int c = 0; c < b.keys.length; c++) {
+                out.n[fromB[c]] += b.n[c];
+            }
+            out.cross = new double[a.cross.length][];
+            for (int pair = 0; pair < out.cross.length; pair++) {
+                if (a.cross[pair] == null) {
+                    continue;
+                }
+                double[] sum = new double[keys.length];
+                for (int c = 0; c < a.keys.length; c++) {
+                    sum[fromA[c]] += a.cross[pair][c];
+                }
+                for (int c = 0; c < b.keys.length; c++) {
+                    sum[fromB[c]] += b.cross[pair][c];
+                }
+                out.cross[pair] = sum;
+            }
+            return out;
+        }
+
+        private static int[] positions(long[] of, long[] in) {
+            int[] out = new int[of.length];
+            for (int c = 0; c < of.length; c++) {
+                out[c] = java.util.Arrays.binarySearch(in, of[c]);
+            }
+            return out;
+        }
+
+        /** The set's cells as the row-free sandwich reads them, the clusters in the order of their keys. */
+        WithinCells cells() {
+            return new WithinCells(keys.length, n, columns, pairIndex(columns), cross);
+        }
     }
 
     /** The (cluster, level) cells of the usable rows of {@code mom}, in first-appearance order. */

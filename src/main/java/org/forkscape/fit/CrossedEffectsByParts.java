@@ -481,12 +481,52 @@ public final class CrossedEffectsByParts {
         return out;
     }
 
-    /** This part's share of the within cross-products, sum w x~ x~', P x P row-major (0 for columns without an effect). */
-    static double[] withinSums(CodedRows coded, Codes codes, long[] usableMasks, Effects e) {
-        double[][] x = demeaned(coded, codes, usableMasks, e);
+    /**
+     * What a set's second pass sums from the within values besides their cross-products, as the variant's
+     * routes ask ({@link DataVariant#expect}): the fourth moments for HC0 and HC1, and per cluster key (a cluster
+     * column, or an intersection's key) the clusters' cells for one-way CR1 meats, as one machine sums both from
+     * a set's demeaned rows ({@link FourthMoments#ofWithinRows}, {@link ClusterMoments#ofWithinRows}).
+     */
+    record WithinPass(Effects effects, boolean fourthMoments, String[] clusterKeys) implements Serializable {
+    }
+
+    /** One part's answer to a {@link WithinPass}; parts' answers add ({@link #add}). */
+    static final class WithinSums implements Serializable {
+        private static final long serialVersionUID = 1L;
+        /** sum w x~ x~', P x P row-major (0 for columns without an effect). */
+        double[] cross;
+        /** {@link FourthMoments#withinRowSums}; null when not asked for. */
+        double[][] fourth;
+        /** Per cluster key of the pass, in its order. */
+        ClusterMoments.WithinCellSums[] cells;
+
+        static WithinSums add(WithinSums a, WithinSums b) {
+            for (int k = 0; k < a.cross.length; k++) {
+                a.cross[k] += b.cross[k];
+            }
+            if (a.fourth != null) {
+                FourthMoments.addWithinSums(a.fourth, b.fourth);
+            }
+            for (int c = 0; c < a.cells.length; c++) {
+                a.cells[c] = ClusterMoments.WithinCellSums.add(a.cells[c], b.cells[c]);
+            }
+            return a;
+        }
+    }
+
+    /**
+     * This part's share of the pass's sums over its within values: the cross-products sum w x~ x~', and as asked
+     * the fourth moments and, per cluster key, the clusters' cells.
+     *
+     * @param keysOfRow per cluster key of the pass, the whole table's key of each of the part's rows (-1: none)
+     */
+    static WithinSums withinSums(CodedRows coded, Codes codes, long[] usableMasks, WithinPass pass,
+            long[][] keysOfRow) {
+        double[][] x = demeaned(coded, codes, usableMasks, pass.effects());
         int[] rows = usableRows(coded, usableMasks);
         int p = coded.columns;
-        double[] out = new double[p * p];
+        WithinSums out = new WithinSums();
+        out.cross = new double[p * p];
         for (int a = 0; a < p; a++) {
             if (x[a] == null) {
                 continue;
@@ -499,9 +539,14 @@ public final class CrossedEffectsByParts {
                 for (int r : rows) {
                     s += (coded.weight == null ? 1 : coded.weight[r]) * x[a][r] * x[b][r];
                 }
-                out[a * p + b] = s;
-                out[b * p + a] = s;
+                out.cross[a * p + b] = s;
+                out.cross[b * p + a] = s;
             }
+        }
+        out.fourth = pass.fourthMoments() ? FourthMoments.withinRowSums(x, coded.weight, rows) : null;
+        out.cells = new ClusterMoments.WithinCellSums[pass.clusterKeys().length];
+        for (int c = 0; c < out.cells.length; c++) {
+            out.cells[c] = ClusterMoments.WithinCellSums.of(x, coded.weight, rows, keysOfRow[c]);
         }
         return out;
     }
@@ -509,7 +554,22 @@ public final class CrossedEffectsByParts {
     /** The set's within transformation as the solvers read it, from the solve and the summed cross-products. */
     static SeveralEffectsWithin within(Solved s, double[] within, boolean weighted) {
         return SeveralEffectsWithin.fromParts(s.rows(), s.rank(), within, s.totalSquares(), s.solved(), s.weight(),
-                weighted, s.effects());
+                weighted, s.effects(), null, java.util.Map.of());
+    }
+
+    /**
+     * The same with the structures the pass summed ({@code sums}, of {@code pass}): the set's fourth moments and
+     * its clusters' cells by cluster key.
+     */
+    static SeveralEffectsWithin within(Solved s, WithinPass pass, WithinSums sums, boolean weighted) {
+        FourthMoments fourth = sums.fourth == null ? null : FourthMoments.ofWithinSums(sums.fourth, sums.cross,
+                s.rows());
+        java.util.Map<String, ClusterMoments.WithinCells> cells = new java.util.HashMap<>();
+        for (int c = 0; c < pass.clusterKeys().length; c++) {
+            cells.put(pass.clusterKeys()[c], sums.cells[c].cells());
+        }
+        return SeveralEffectsWithin.fromParts(s.rows(), s.rank(), sums.cross, s.totalSquares(), s.solved(),
+                s.weight(), weighted, s.effects(), fourth, cells);
     }
 
     /** The missing masks of the groups in {@code usable}, ascending. */

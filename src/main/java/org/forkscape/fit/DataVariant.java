@@ -191,6 +191,21 @@ public final class DataVariant {
         return crossedSolves.get();
     }
 
+    /**
+     * Of those sets, how many had their fourth moments, and how many clusterings' cells in all, summed by the
+     * parts from their within values ({@link CrossedEffectsByParts.WithinPass}).
+     */
+    final java.util.concurrent.atomic.AtomicLong partsFourthMoments = new java.util.concurrent.atomic.AtomicLong();
+    final java.util.concurrent.atomic.AtomicLong partsClusterCells = new java.util.concurrent.atomic.AtomicLong();
+
+    public long partsFourthMoments() {
+        return partsFourthMoments.get();
+    }
+
+    public long partsClusterCells() {
+        return partsClusterCells.get();
+    }
+
     /** The refits' factors reduced in batches ahead of their fits (see {@link RefitPending}). */
     final java.util.Map<RefitRequest, double[][]> refitFactors = new java.util.concurrent.ConcurrentHashMap<>();
     /** Passes over the parts made for batches of refits (counted for the tests and the report). */
@@ -279,7 +294,11 @@ public final class DataVariant {
     public void expect(long hcSpecifications, Map<String, Long> clusterSpecifications, double meanColumns,
             java.util.concurrent.ExecutorService pool) {
         if (!coded.held()) {
-            // built from statistics alone: the row-free routes are those whose structures were summed
+            // built from statistics alone: the row-free routes are those whose structures were summed, or beside
+            // two absorbed columns those the parts will sum with each set's within cross-products
+            if (crossedWithin != null && wholeClusterCounts != null) {
+                expectWithinParts(hcSpecifications, clusterSpecifications, meanColumns);
+            }
             return;
         }
         if (absorbsSeveral) {
@@ -324,6 +343,36 @@ public final class DataVariant {
                 useClusterMoments.add(column);
             }
         });
+    }
+
+    /**
+     * The same choice beside two absorbed columns held in parts: the parts sum each set's fourth moments and
+     * clusters' cells from their within values in the pass that sums its within cross-products
+     * ({@link CrossedEffectsByParts.WithinPass}). The clusters are counted over the whole table (an
+     * intersection's by the product of its columns' counts, at most the rows); with no rows here, a cluster
+     * column with one row per cluster is not told apart, and its specifications take the clusters' cells.
+     */
+    private void expectWithinParts(long hcSpecifications, Map<String, Long> clusterSpecifications,
+            double meanColumns) {
+        useFourthMoments = SandwichRoute.withinFourthMomentsPay(rows, columns, hcSpecifications, meanColumns);
+        clusterSpecifications.forEach((key, count) -> {
+            long g = 1;
+            for (String column : key.split(java.util.regex.Pattern.quote(ClusterComponents.JOIN))) {
+                Integer c = wholeClusterCounts.get(column);
+                g = c == null ? -1 : Math.min(rows, g * c);
+                if (g < 0) {
+                    return;
+                }
+            }
+            if (SandwichRoute.withinClusterMomentsPay(rows, columns, count, meanColumns, (int) g)) {
+                useClusterMoments.add(key);
+            }
+        });
+    }
+
+    /** The cluster keys whose specifications take the clusters' cells, in their natural order. */
+    java.util.List<String> clusterMomentKeys() {
+        return useClusterMoments.stream().sorted().toList();
     }
 
     /** Whether no two of the variant's rows share a cluster code (rows missing the column have none). */

@@ -342,13 +342,22 @@ final class FourthMoments {
      */
     static FourthMoments ofWithinRows(Moments mom, double[][] demeaned) {
         DataVariant v = mom.variant;
-        int p = v.columns;
-        int[] rows = mom.usableRows();
-        FourthMoments m = new FourthMoments(p);
+        return ofWithinSums(withinRowSums(demeaned, v.weight, mom.usableRows()), mom.within, mom.n);
+    }
+
+    /**
+     * The distinct fourth- and third-order sums and the first-order sums of the demeaned rows {@code rows} of
+     * {@code demeaned} (a null column reads as 0), each value times the square root of its row's weight when
+     * {@code weight} is given: {f4, f3, s1}, in blocks of {@link #BLOCK_ROWS} rows in row order. Sums over
+     * disjoint sets of rows add ({@link #addWithinSums}): a variant held in parts sums each part's rows where
+     * they are ({@link CrossedEffectsByParts#withinSums}).
+     */
+    static double[][] withinRowSums(double[][] demeaned, double[] weight, int[] rows) {
+        int p = demeaned.length;
         double[] f4 = new double[(int) distinctFourth(p)];
         double[] f3 = new double[(int) distinctThird(p)];
         for (int from = 0; from < rows.length; from += BLOCK_ROWS) {
-            double[][] part = block(demeaned, v.weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS), null);
+            double[][] part = block(demeaned, weight, rows, from, Math.min(rows.length, from + BLOCK_ROWS), null);
             for (int k = 0; k < f4.length; k++) {
                 f4[k] += part[0][k];
             }
@@ -356,6 +365,7 @@ final class FourthMoments {
                 f3[k] += part[1][k];
             }
         }
+        double[] s1 = new double[p];
         for (int j = 0; j < p; j++) {
             double[] col = demeaned[j];
             if (col == null) {
@@ -363,13 +373,34 @@ final class FourthMoments {
             }
             double t = 0;
             for (int row : rows) {
-                t += v.weight == null ? col[row] : col[row] * Math.sqrt(v.weight[row]);
+                t += weight == null ? col[row] : col[row] * Math.sqrt(weight[row]);
             }
-            m.s1[j] = t;
+            s1[j] = t;
         }
-        System.arraycopy(mom.within, 0, m.s2, 0, p * p);
-        layOut(m, f4, f3);
-        return new FourthMoments(m, mom.n);
+        return new double[][] {f4, f3, s1};
+    }
+
+    /** Two {@link #withinRowSums} as one, {@code a} modified and returned: the sums of both sets of rows. */
+    static double[][] addWithinSums(double[][] a, double[][] b) {
+        for (int k = 0; k < a.length; k++) {
+            for (int i = 0; i < a[k].length; i++) {
+                a[k][i] += b[k][i];
+            }
+        }
+        return a;
+    }
+
+    /**
+     * The moments of a set's explicit rows from their {@link #withinRowSums}, its within matrix (the
+     * second-order sums, formed from the same scaled rows) and its row count.
+     */
+    static FourthMoments ofWithinSums(double[][] sums, double[] within, int n) {
+        int p = sums[2].length;
+        FourthMoments m = new FourthMoments(p);
+        System.arraycopy(sums[2], 0, m.s1, 0, p);
+        System.arraycopy(within, 0, m.s2, 0, p * p);
+        layOut(m, sums[0], sums[1]);
+        return new FourthMoments(m, n);
     }
 
     /** Lays the distinct sums (nested-loop order i <= j <= k <= l) out over column pairs into {@code m}. */

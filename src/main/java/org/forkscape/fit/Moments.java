@@ -118,6 +118,8 @@ public final class Moments {
         totalSquares = w.totalSquares;
         demeaned = w.converged;
         crossedEffects = w.crossedEffects;
+        fourth = w.partsFourthMoments;
+        withinClusterCells.putAll(w.partsClusterCells);
     }
 
     /**

@@ -43,12 +43,22 @@ final class SeveralEffectsWithin {
      * part makes its rows' within values; null when the rows are here ({@link #columns}).
      */
     final CrossedEffectsByParts.Effects crossedEffects;
+    /**
+     * Held in parts: the set's fourth moments and its clusters' cells by cluster key, summed where the rows are
+     * when the variant's routes asked for them ({@link CrossedEffectsByParts.WithinPass}); null and empty
+     * otherwise (with the rows here they are built from {@link #columns} when first asked for).
+     */
+    final FourthMoments partsFourthMoments;
+    final java.util.Map<String, ClusterMoments.WithinCells> partsClusterCells;
 
     private SeveralEffectsWithin(int n, java.util.OptionalInt rank, double[] within, double[] totalSquares,
             double[][] columns, boolean converged, double weightTotal, boolean weighted,
-            CrossedEffectsByParts.Effects crossedEffects) {
+            CrossedEffectsByParts.Effects crossedEffects, FourthMoments partsFourthMoments,
+            java.util.Map<String, ClusterMoments.WithinCells> partsClusterCells) {
         this.n = n;
         this.crossedEffects = crossedEffects;
+        this.partsFourthMoments = partsFourthMoments;
+        this.partsClusterCells = partsClusterCells;
         this.weightTotal = weightTotal;
         this.weighted = weighted;
         this.rank = rank.orElse(0);
@@ -130,7 +140,7 @@ final class SeveralEffectsWithin {
             }
         }
         return new SeveralEffectsWithin(n, rank, within, totalSquares, columns, converged, weightTotal, weight != null,
-                null);
+                null, null, java.util.Map.of());
     }
 
     /**
@@ -138,9 +148,10 @@ final class SeveralEffectsWithin {
      * ({@link CrossedEffectsByParts}): no rows here, the second column's effects instead.
      */
     static SeveralEffectsWithin fromParts(int n, int rank, double[] within, double[] totalSquares, boolean solved,
-            double weightTotal, boolean weighted, CrossedEffectsByParts.Effects effects) {
+            double weightTotal, boolean weighted, CrossedEffectsByParts.Effects effects, FourthMoments fourth,
+            java.util.Map<String, ClusterMoments.WithinCells> clusterCells) {
         return new SeveralEffectsWithin(n, java.util.OptionalInt.of(rank), within, totalSquares, null, solved,
-                weightTotal, weighted, effects);
+                weightTotal, weighted, effects, fourth, clusterCells);
     }
 
     /** The variant's rows in the usable groups, ascending. */

@@ -435,11 +435,18 @@ public final class VariantByParts {
                 CrossedEffectsByParts::add);
         CrossedEffectsByParts.Solved solved = CrossedEffectsByParts.solve(sums == null ? emptySchur(variant,
                 secondLevels) : sums, order[0], order[1], wantsLeverages());
-        CrossedEffectsByParts.Effects effects = solved.effects();
-        double[] within = !solved.solved() || solved.rows() == 0 ? new double[variant.columns * variant.columns]
-                : parts.reduce(effects, (part, e) -> part.crossedWithinSums(key, whole, masks, e),
-                        VariantByParts::addSums);
-        return CrossedEffectsByParts.within(solved, within, variant.weighted);
+        if (!solved.solved() || solved.rows() == 0) {
+            return CrossedEffectsByParts.within(solved, new double[variant.columns * variant.columns],
+                    variant.weighted);
+        }
+        // the structures of the row-free routes the variant takes (DataVariant#expect), summed in the same pass
+        CrossedEffectsByParts.WithinPass pass = new CrossedEffectsByParts.WithinPass(solved.effects(),
+                variant.useFourthMoments, variant.clusterMomentKeys().toArray(new String[0]));
+        CrossedEffectsByParts.WithinSums within = parts.reduce(pass, (part, e) -> part.crossedWithinSums(key, whole,
+                masks, e), CrossedEffectsByParts.WithinSums::add);
+        variant.partsFourthMoments.addAndGet(pass.fourthMoments() ? 1 : 0);
+        variant.partsClusterCells.addAndGet(pass.clusterKeys().length);
+        return CrossedEffectsByParts.within(solved, pass, within, variant.weighted);
     }
 
     private static CrossedEffectsByParts.SchurSums emptySchur(DataVariant variant, int secondLevels) {
@@ -462,12 +469,32 @@ public final class VariantByParts {
                 secondLevels, masks);
     }
 
-    /** This part's share of the within cross-products of the usable patterns {@code masks}, given B's effects. */
-    public double[] crossedWithinSums(VariantKey key, WholeRows whole, long[] masks,
-            CrossedEffectsByParts.Effects effects) {
+    /** This part's share of the within pass {@code pass} over the usable patterns {@code masks}. */
+    public CrossedEffectsByParts.WithinSums crossedWithinSums(VariantKey key, WholeRows whole, long[] masks,
+            CrossedEffectsByParts.WithinPass pass) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
-        return CrossedEffectsByParts.withinSums(coded, crossedCodes(coded, key, whole, effects.first(),
-                effects.second()), masks, effects);
+        long[][] keysOfRow = new long[pass.clusterKeys().length][];
+        for (int c = 0; c < keysOfRow.length; c++) {
+            keysOfRow[c] = wholeClusterKeys(coded, whole, pass.clusterKeys()[c]);
+        }
+        return CrossedEffectsByParts.withinSums(coded, crossedCodes(coded, key, whole, pass.effects().first(),
+                pass.effects().second()), masks, pass, keysOfRow);
+    }
+
+    /**
+     * Beside two absorbed columns: each of the part's rows' cluster of {@code clusterKey} (a cluster column, whose
+     * codes are the whole table's, or an intersection) keyed over the whole table; -1 where it has none.
+     */
+    private long[] wholeClusterKeys(CodedRows coded, WholeRows whole, String clusterKey) {
+        ClusterComponents.Component intersection = plan.clusterIntersections.stream()
+                .filter(c -> c.key().equals(clusterKey)).findFirst().orElse(null);
+        long[] global = intersection == null ? null : intersectionKeys(coded, whole, intersection);
+        int[] codes = coded.clusters.get(clusterKey);
+        long[] out = new long[coded.rows];
+        for (int r = 0; r < coded.rows; r++) {
+            out[r] = codes[r] < 0 ? -1 : global == null ? codes[r] : global[codes[r]];
+        }
+        return out;
     }
 
     /** Whether some error type of the plan is HC2 or HC3 (beside two columns they need S's inverse). */

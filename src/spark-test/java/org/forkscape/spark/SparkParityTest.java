@@ -180,10 +180,15 @@ class SparkParityTest {
 
     /** Both runs of one plan, every specification compared; {@code worst} = largest relative differences. */
     static Comparison compare(String planText, Path planFolder, Path parquet, int partitions) {
+        return compare(planText, planFolder, parquet, partitions, true);
+    }
+
+    /** The same; {@code rowFree} false turns the Spark run's routes without rows off (the runner's comparison switch). */
+    static Comparison compare(String planText, Path planFolder, Path parquet, int partitions, boolean rowFree) {
         Plan plan = new PlanReader(false).read(planText, planFolder.toAbsolutePath());
         Table csv = new CsvTableReader().read(plan.dataFile());
         RunResult local = new MultiverseRunner(2).run(plan, csv, RunProgress.SILENT, new AtomicBoolean());
-        RunResult onSpark = sparkRun(planText, planFolder, parquet, partitions);
+        RunResult onSpark = sparkRun(planText, planFolder, parquet, partitions, rowFree);
         for (int v = 0; v < onSpark.models().variantCount(); v++) {
             assertFalse(onSpark.models().variant(onSpark.models().variantKey(v)).holdsRows(),
                     "the Spark run's variants hold statistics, not rows");
@@ -215,10 +220,14 @@ class SparkParityTest {
     }
 
     static RunResult sparkRun(String planText, Path planFolder, Path parquet, int partitions) {
+        return sparkRun(planText, planFolder, parquet, partitions, true);
+    }
+
+    static RunResult sparkRun(String planText, Path planFolder, Path parquet, int partitions, boolean rowFree) {
         Plan plan = new PlanReader(false).read(planText, planFolder.toAbsolutePath());
         SparkData data = new SparkData(spark, parquet.toString(), partitions, planText, planFolder.toAbsolutePath());
         Table columns = data.table(plan);
-        return new MultiverseRunner(2).withVariants(data.variants(plan, columns)).run(plan, columns,
+        return new MultiverseRunner(2, rowFree).withVariants(data.variants(plan, columns)).run(plan, columns,
                 RunProgress.SILENT, new AtomicBoolean());
     }
 

@@ -13,6 +13,7 @@ import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
+import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.RunResult;
@@ -35,9 +36,10 @@ import org.junit.jupiter.params.provider.ValueSource;
  * partitions' factors of their within values), a control with missing cells (several row sets per variant),
  * classical, HC0, HC1, pupil and pupil x term clusters; {@code school-panel-weighted-plan.json}: the same with
  * analytic weights holding zeros and missing cells. Asserted taken: the rows partitioned by pupil, every
- * two-column variant's row sets solved by the partitions' exact route, HC0 and HC1 from the row passes over
- * their within values, cluster errors from the clusters' scores summed over them. And the refusals at their
- * JSON paths.
+ * two-column variant's row sets solved by the partitions' exact route, HC0 and HC1 from the fourth moments and
+ * cluster errors from the clusters' cells the partitions summed from their within values (and, with the routes
+ * without rows off, from the row passes over those values and the clusters' scores summed over them). And the
+ * refusals at their JSON paths.
  */
 class SparkTwoWayEffectsTest {
     static SparkSession spark;
@@ -81,6 +83,19 @@ class SparkTwoWayEffectsTest {
                     "school-panel-expected.csv", List.of("outcome", "tutoring", "controls", "rows", "effects",
                             "errors"), "R lm() with factor() dummies and sandwich");
             assertEquals(640, r.compared(), "specifications compared with R");
+        }
+    }
+
+    /** The same plans with the routes without rows off: every robust error from the row passes on Spark. */
+    @Test
+    void twoWayPlansByRowPassesEqualTheEngine() throws IOException {
+        for (String[] planAndData : List.of(new String[] {"school-panel-plan.json", panelParquet.toString()},
+                new String[] {"school-panel-weighted-plan.json", weightedParquet.toString()})) {
+            SparkParityTest.Comparison c = SparkParityTest.compare(plan(planAndData[0]), SparkParityTest.REFERENCE,
+                    Path.of(planAndData[1]), 3, false);
+            assertRowPassRoutes(c.spark());
+            SparkParityTest.report("school-panel-row-passes-" + planAndData[0].replace("-plan.json", ""),
+                    c.worst());
         }
     }
 
@@ -259,19 +274,38 @@ class SparkTwoWayEffectsTest {
 
     private static void assertRoutes(RunResult run) {
         long crossed = 0;
+        long fourth = 0;
+        long cells = 0;
+        long served = 0;
+        for (int v = 0; v < run.models().variantCount(); v++) {
+            DataVariant variant = run.models().variant(run.models().variantKey(v));
+            if (variant.crossedSolves() > 0) {
+                crossed++;
+                fourth += variant.partsFourthMoments();
+                cells += variant.partsClusterCells();
+                served += variant.rowPassesServed();
+            }
+        }
+        assertTrue(crossed > 0, "variants beside pupil and term solved by the partitions");
+        assertTrue(fourth > 0, "fourth moments summed by the partitions from their within values");
+        assertTrue(cells > 0, "clusters' cells summed by the partitions from their within values");
+        assertEquals(0, served, "no HC0, HC1 or one-way cluster error beside pupil and term from a row pass");
+        assertTrue(run.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "HC0 and HC1 from them");
+        assertTrue(run.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster errors from them");
+    }
+
+    private static void assertRowPassRoutes(RunResult run) {
         long served = 0;
         long scorePasses = 0;
         long batched = 0;
         for (int v = 0; v < run.models().variantCount(); v++) {
             DataVariant variant = run.models().variant(run.models().variantKey(v));
             if (variant.crossedSolves() > 0) {
-                crossed++;
                 served += variant.rowPassesServed();
                 scorePasses += variant.clusterScorePasses();
                 batched += variant.clusterScoresBatched();
             }
         }
-        assertTrue(crossed > 0, "variants beside pupil and term solved by the partitions");
         assertTrue(served > 0, "HC0 and HC1 from the row passes over the partitions' within values");
         assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the partitions' within values");
         assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");

@@ -36,9 +36,10 @@ import org.junit.jupiter.params.provider.ValueSource;
  * {@code two-way-weights-reference.R}). Estimates, standard errors, p-values and R-squared within 1e-10
  * relative (the exact solve against iterations stopped at 1e-14, sums in another order); statuses, rows,
  * coefficients (K = levels of both less the components: the panel has two) and df exact. Asserted: the
- * two-column variants hold no rows and were demeaned by the parts' exact solve, HC0 and HC1 came from row
- * passes over the parts' within values, cluster errors from the clusters' scores summed over them, and the
- * controls the effects explain were dropped by QR refits from the parts' factors.
+ * two-column variants hold no rows and were demeaned by the parts' exact solve, HC0 and HC1 came from the fourth
+ * moments and cluster errors from the clusters' cells that the parts summed from their within values (and, with
+ * the routes without rows off, from row passes over those values and the clusters' scores summed over them), and
+ * the controls the effects explain were dropped by QR refits from the parts' factors.
  */
 class TwoWayEffectsByPartsTest {
     static final double RELATIVE = 1e-10;
@@ -46,15 +47,26 @@ class TwoWayEffectsByPartsTest {
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void schoolPanelFromPartsAsTheWholeTable(int slices) {
-        RunResult parts = compare(plan("school-panel-plan.json"), slices);
-        assertRoutes(parts);
+        RunResult parts = compare(plan("school-panel-plan.json"), slices, true);
+        assertWithinPassRoutes(parts);
+    }
+
+    /**
+     * The same with the routes without rows turned off (the runner's comparison switch): every robust error from
+     * the row passes over the parts' within values, as where the structures do not pay or could lose digits.
+     */
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void schoolPanelFromPartsByRowPasses(int slices) {
+        assertRowPassRoutes(compare(plan("school-panel-plan.json"), slices, false));
     }
 
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void weightedSchoolPanelFromPartsAsTheWholeTable(int slices) {
-        RunResult parts = compare(plan("school-panel-weighted-plan.json"), slices);
-        assertRoutes(parts);
+        RunResult parts = compare(plan("school-panel-weighted-plan.json"), slices, true);
+        assertWithinPassRoutes(parts);
+        assertRowPassRoutes(compare(plan("school-panel-weighted-plan.json"), slices, false));
         long weighted = 0;
         for (int v = 0; v < parts.models().variantCount(); v++) {
             DataVariant variant = parts.models().variant(parts.models().variantKey(v));
@@ -73,7 +85,7 @@ class TwoWayEffectsByPartsTest {
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void leveragesFromPartsAsTheWholeTable(int slices) {
-        RunResult parts = compare(plan("school-panel-leverage-plan.json"), slices);
+        RunResult parts = compare(plan("school-panel-leverage-plan.json"), slices, true);
         long served = 0;
         for (int v = 0; v < parts.models().variantCount(); v++) {
             DataVariant variant = parts.models().variant(parts.models().variantKey(v));
@@ -171,11 +183,16 @@ class TwoWayEffectsByPartsTest {
         return new PlanReader(false).read(ReferenceFiles.path(name));
     }
 
-    private static void assertRoutes(RunResult parts) {
+    /**
+     * HC0 and HC1 from the fourth moments and one-way cluster errors (and the one-column components of the
+     * two-way) from the clusters' cells, both summed by the parts from their within values in the pass of the
+     * sets' within cross-products, as one machine sums them from its demeaned rows.
+     */
+    private static void assertWithinPassRoutes(RunResult parts) {
         long crossed = 0;
+        long fourth = 0;
+        long cells = 0;
         long served = 0;
-        long scorePasses = 0;
-        long batched = 0;
         for (int v = 0; v < parts.models().variantCount(); v++) {
             DataVariant variant = parts.models().variant(parts.models().variantKey(v));
             assertFalse(variant.holdsRows());
@@ -183,26 +200,52 @@ class TwoWayEffectsByPartsTest {
                 crossed++;
                 assertTrue(variant.crossedWithin != null && variant.crossedSolves() > 0,
                         "demeaned by the parts' exact solve");
+                fourth += variant.partsFourthMoments();
+                cells += variant.partsClusterCells();
+                served += variant.rowPassesServed();
+            }
+        }
+        assertTrue(crossed > 0, "variants beside pupil and term");
+        assertTrue(fourth > 0, "fourth moments summed by the parts from their within values");
+        assertTrue(cells > 0, "clusters' cells summed by the parts from their within values");
+        // an intersection's clusters (pupil x term, one row each here) are not counted over the whole table before
+        // the pass, so its component of a two-way error keeps the clusters' scores over the rows
+        assertEquals(0, served, "no HC0, HC1 or one-way cluster error beside pupil and term from a row pass");
+        assertTrue(parts.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "HC0 and HC1 from them");
+        assertTrue(parts.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster errors from them");
+        assertTrue(parts.refitByQr() > 0, "controls constant within pupils or terms sent to the QR refit");
+    }
+
+    /** With the routes without rows off: HC0 and HC1 and one-way clusters in the row passes' batches. */
+    private static void assertRowPassRoutes(RunResult parts) {
+        long served = 0;
+        long scorePasses = 0;
+        long batched = 0;
+        for (int v = 0; v < parts.models().variantCount(); v++) {
+            DataVariant variant = parts.models().variant(parts.models().variantKey(v));
+            if (variant.absorbsSeveral) {
                 served += variant.rowPassesServed();
                 scorePasses += variant.clusterScorePasses();
                 batched += variant.clusterScoresBatched();
             }
         }
-        assertTrue(crossed > 0, "variants beside pupil and term");
         assertTrue(served > 0, "HC0 and HC1 from row passes over the parts' within values");
         assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the parts' within values");
         assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");
-        assertTrue(parts.refitByQr() > 0, "controls constant within pupils or terms sent to the QR refit");
     }
 
-    /** Every specification on parts against the whole table; returns the run on parts. */
-    static RunResult compare(Plan plan, int slices) {
+    /**
+     * Every specification on parts against the whole table; returns the run on parts.
+     *
+     * @param rowFree whether the run on parts may take the routes without rows (the whole table's always may)
+     */
+    static RunResult compare(Plan plan, int slices, boolean rowFree) {
         Table table = new CsvTableReader().read(plan.dataFile());
         RunResult whole = new MultiverseRunner(2).run(plan, table, RunProgress.SILENT, new AtomicBoolean());
         VariantSource built = source(plan, table, "pupil", slices);
         Map<VariantKey, DataVariant> kept = new java.util.concurrent.ConcurrentHashMap<>();
         VariantSource source = (key, pool) -> kept.computeIfAbsent(key, k -> built.variant(k, pool));
-        RunResult parts = new MultiverseRunner(2).withVariants(source).run(plan, table, RunProgress.SILENT,
+        RunResult parts = new MultiverseRunner(2, rowFree).withVariants(source).run(plan, table, RunProgress.SILENT,
                 new AtomicBoolean());
         ResultTable a = whole.results();
         ResultTable b = parts.results();

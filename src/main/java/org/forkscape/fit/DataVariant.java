@@ -355,6 +355,7 @@ public final class DataVariant {
     private void expectWithinParts(long hcSpecifications, Map<String, Long> clusterSpecifications,
             double meanColumns) {
         useFourthMoments = SandwichRoute.withinFourthMomentsPay(rows, columns, hcSpecifications, meanColumns);
+        expectedClusterKeys.addAll(clusterSpecifications.keySet());
         clusterSpecifications.forEach((key, count) -> {
             long g = 1;
             for (String column : key.split(java.util.regex.Pattern.quote(ClusterComponents.JOIN))) {
@@ -368,6 +369,25 @@ public final class DataVariant {
                 useClusterMoments.add(key);
             }
         });
+    }
+
+    /** Beside two absorbed columns held in parts: the cluster keys of the specifications {@link #expect} was told of. */
+    private final Set<String> expectedClusterKeys = ConcurrentHashMap.newKeySet();
+
+    /**
+     * A bootstrap draw's routes beside two absorbed columns held in parts, from the observed variant's: the
+     * fourth moments where the observed fits take them, and the clusters' cells of every cluster column (a
+     * draw's sets are summed again over its parts, and the clusters' scores are not, so a one-way cluster error
+     * has no other route there), with each drawn copy of a renewed cluster a cluster of its own (its key is its
+     * code plus the copy times the clusters, {@link VariantByParts#inDraw}).
+     */
+    void expectAsDrawOf(DataVariant observed) {
+        useFourthMoments = observed.useFourthMoments;
+        for (String key : observed.expectedClusterKeys) {
+            if (!key.contains(ClusterComponents.JOIN) || observed.useClusterMoments.contains(key)) {
+                useClusterMoments.add(key);
+            }
+        }
     }
 
     /** The cluster keys whose specifications take the clusters' cells, in their natural order. */

@@ -472,23 +472,24 @@ public final class VariantByParts {
     /** This part's share of the within pass {@code pass} over the usable patterns {@code masks}. */
     public CrossedEffectsByParts.WithinSums crossedWithinSums(VariantKey key, WholeRows whole, long[] masks,
             CrossedEffectsByParts.WithinPass pass) {
-        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        // coded with its clusters as a pass sums them: in a draw's copy, the renewed clusters' copies apart
+        Map<String, long[]> intersections = new HashMap<>();
+        CodedRows coded = codedWithClusters(key, whole, intersections);
         long[][] keysOfRow = new long[pass.clusterKeys().length][];
         for (int c = 0; c < keysOfRow.length; c++) {
-            keysOfRow[c] = wholeClusterKeys(coded, whole, pass.clusterKeys()[c]);
+            keysOfRow[c] = wholeClusterKeys(coded, intersections, pass.clusterKeys()[c]);
         }
         return CrossedEffectsByParts.withinSums(coded, crossedCodes(coded, key, whole, pass.effects().first(),
                 pass.effects().second()), masks, pass, keysOfRow);
     }
 
     /**
-     * Beside two absorbed columns: each of the part's rows' cluster of {@code clusterKey} (a cluster column, whose
-     * codes are the whole table's, or an intersection) keyed over the whole table; -1 where it has none.
+     * Beside two absorbed columns: each of the part's rows' cluster of {@code clusterKey} keyed over the whole
+     * table (a cluster column's codes are the whole table's; an intersection's key is in {@code intersections},
+     * per part code, from {@link #codedWithClusters}); -1 where it has none.
      */
-    private long[] wholeClusterKeys(CodedRows coded, WholeRows whole, String clusterKey) {
-        ClusterComponents.Component intersection = plan.clusterIntersections.stream()
-                .filter(c -> c.key().equals(clusterKey)).findFirst().orElse(null);
-        long[] global = intersection == null ? null : intersectionKeys(coded, whole, intersection);
+    private static long[] wholeClusterKeys(CodedRows coded, Map<String, long[]> intersections, String clusterKey) {
+        long[] global = intersections.get(clusterKey);
         int[] codes = coded.clusters.get(clusterKey);
         long[] out = new long[coded.rows];
         for (int r = 0; r < coded.rows; r++) {
@@ -572,6 +573,7 @@ public final class VariantByParts {
         if (crossed(key)) {
             // each set of usable rows solved again over the draw's rows (each part's copies keep their levels)
             variant.crossedWithin = usable -> crossedWithin(key, facts, variant, usable, drawParts);
+            variant.expectAsDrawOf(observed);
         }
         variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),

@@ -144,7 +144,9 @@ class SparkTwoWayEffectsTest {
     }
 
     /**
-     * Bootstrap null draws of whole pupils beside pupil and term (classical and HC1), at 3 and 8 partitions: each
+     * Bootstrap null draws of whole pupils beside pupil and term (classical, HC1 and pupil clusters, each drawn
+     * copy of a pupil a new cluster, from the fourth moments and the clusters' cells summed from each draw's within
+     * values), at 3 and 8 partitions: each
      * draw's sets of usable rows solved again over the draw's partitions, against one machine's fit of the same
      * rows repeated by the same Poisson counts ({@code PartsOfTable.oneMachine}, demeaned by alternating
      * projections) within 1e-10 relative, df exact.
@@ -170,8 +172,8 @@ class SparkTwoWayEffectsTest {
         String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
                 "\"data\": \"school-panel.csv\", \"nullDraws\": 4, \"seed\": 43, \"nullCluster\": \"pupil\",")
                 .replace("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
-                        "[\"classical\", \"HC1\"]");
-        assertTrue(text.contains("\"nullCluster\": \"pupil\"") && text.contains("[\"classical\", \"HC1\"]"),
+                        "[\"classical\", \"HC1\", \"cluster:pupil\"]");
+        assertTrue(text.contains("\"nullCluster\": \"pupil\"") && text.contains("\"HC1\", \"cluster:pupil\"]"),
                 "the plan edits took");
         Plan plan = new PlanReader(false).read(text, SparkParityTest.REFERENCE.toAbsolutePath());
         org.forkscape.fit.BootstrapDesign design = new org.forkscape.fit.BootstrapDesign(plan.seed(), "pupil");
@@ -186,6 +188,7 @@ class SparkTwoWayEffectsTest {
                     .deferringRowPasses();
             int compared = 0;
             long solves = 0;
+            long cells = 0;
             for (int v = 0; v < indexed.variantCount(); v++) {
                 int[] specs = indexed.specificationsOf(v);
                 DataVariant observed = indexed.variant(v);
@@ -204,6 +207,7 @@ class SparkTwoWayEffectsTest {
                     org.forkscape.fit.KeyFit[] fits = org.forkscape.fit.RowPassesByParts.fitEach(fitter, inDraw[d],
                             models, () -> { });
                     solves += inDraw[d].crossedSolves();
+                    cells += inDraw[d].partsClusterCells();
                     for (int s = 0; s < specs.length; s++) {
                         String where = partitions + " partitions, variant " + v + ", draw " + d + ", specification "
                                 + s;
@@ -222,20 +226,21 @@ class SparkTwoWayEffectsTest {
                 }
             }
             assertTrue(solves > 0, "each draw's sets solved again over the draw's partitions");
+            assertTrue(cells > 0, "the drawn pupils' cells summed from each draw's within values");
             assertTrue(compared > 100, compared + " draw fits compared");
         }
         SparkParityTest.report("school-panel-draws", new double[] {worst[0], worst[1], Double.NaN});
     }
 
     @Test
-    void clusterErrorsBesideTwoColumnsAndNullDrawsAreRefusedAtTheirPath() throws IOException {
+    void multiwayClusterErrorsBesideTwoColumnsAndNullDrawsAreRefusedAtTheirPath() throws IOException {
         String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
                 "\"data\": \"school-panel.csv\", \"nullDraws\": 20,");
         assertTrue(text.contains("\"nullDraws\": 20"), "the plan edit took");
         InputException e = refusal(text, panelParquet);
-        assertEquals("decisions[5].alternatives[3]", e.where());
-        assertTrue(e.problem().startsWith("cluster errors beside two absorbed columns (decisions[4].alternatives[3]"
-                + ".columns) and null draws are not computed on Spark"), e.problem());
+        assertEquals("decisions[5].alternatives[4]", e.where());
+        assertTrue(e.problem().startsWith("multi-way cluster errors beside two absorbed columns (decisions[4]"
+                + ".alternatives[3].columns) and null draws are not computed on Spark"), e.problem());
     }
 
     @Test

@@ -12,7 +12,7 @@ import org.forkscape.plan.Plan;
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
  * transformation iterates over the rows); beside two absorbed columns, generalized linear models, and with
- * null draws cluster errors; beside null draws, the permutation. Two absorbed columns are least squares'
+ * null draws multi-way cluster errors; beside null draws, the permutation. Two absorbed columns are least squares'
  * exact solve by parts ({@link CrossedPartitioning}).
  */
 final class SparkRefusals {
@@ -51,19 +51,21 @@ final class SparkRefusals {
 
     /**
      * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares:
-     * generalized linear models are refused, and beside null draws cluster errors (their variances come from
-     * the clusters' scores over the rows, which a draw's pass does not sum).
+     * generalized linear models are refused, and beside null draws multi-way cluster errors (a draw's one-way
+     * cluster errors come from the clusters' cells its sets' second pass sums; an intersection's clusters may
+     * be as many as the rows, and their scores over the rows a draw's pass does not sum).
      */
     private static void besideTwoColumns(Plan plan, String pair) {
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
             if (ds.get(i) instanceof Decision.Errors e && plan.nullDraws() > 0) {
                 for (int j = 0; j < e.alternatives().size(); j++) {
-                    if (e.alternatives().get(j).kind() == org.forkscape.plan.ErrorType.Kind.CLUSTER) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", "cluster errors "
-                                + "beside two absorbed columns (" + pair + ") and null draws are not computed on "
-                                + "Spark (in a draw they would need the clusters' scores over the draw's rows)"
-                                + WAY_OUT + " (or the null draws)");
+                    org.forkscape.plan.ErrorType type = e.alternatives().get(j);
+                    if (type.kind() == org.forkscape.plan.ErrorType.Kind.CLUSTER && type.multiway()) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", "multi-way "
+                                + "cluster errors beside two absorbed columns (" + pair + ") and null draws are not "
+                                + "computed on Spark (in a draw an intersection's clusters would need their scores "
+                                + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
                     }
                 }
             } else if (ds.get(i) instanceof Decision.Model m) {

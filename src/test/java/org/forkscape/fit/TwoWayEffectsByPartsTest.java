@@ -103,22 +103,26 @@ class TwoWayEffectsByPartsTest {
     }
 
     /**
-     * Poisson bootstrap draws beside pupil and term, single rows and whole pupils: each draw's sets of usable
-     * rows solved again over the draw's parts (each row repeated by its count, its copies at its levels), against
-     * one machine's fit of the same rows repeated by the same counts ({@link PartsOfTable#oneMachine}, which
-     * demeans them by alternating projections), classical and HC1 from row passes over the draw's parts.
+     * Poisson bootstrap draws beside pupil and term, single rows, whole pupils and whole schools: each draw's
+     * sets of usable rows solved again over the draw's parts (each row repeated by its count, its copies at its
+     * levels), against one machine's fit of the same rows repeated by the same counts
+     * ({@link PartsOfTable#oneMachine}, which demeans them by alternating projections and takes the row pass),
+     * classical, HC0 and HC1 from the fourth moments and pupil clusters from the clusters' cells summed from each draw's
+     * within values, each drawn copy of a resampled pupil (whole pupils, or whole schools, in which the pupils
+     * are nested) a new cluster.
      */
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void drawsFromPartsAsOneMachineWithTheSameCounts(int slices) throws java.io.IOException {
         String text = java.nio.file.Files.readString(ReferenceFiles.path("school-panel-plan.json")).replace(
                 "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
-                "[\"classical\", \"HC1\"]");
-        assertTrue(text.contains("[\"classical\", \"HC1\"]"), "the plan edit took");
+                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\"]");
+        assertTrue(text.contains("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\"]"), "the plan edit took");
         Plan plan = new PlanReader(false).read(text, ReferenceFiles.path("school-panel-plan.json").getParent());
         Table table = new CsvTableReader().read(plan.dataFile());
         long[] keys = PartsOfTable.rowKeys("school-panel.parquet", table.rowCount());
-        for (BootstrapDesign design : List.of(new BootstrapDesign(71, null), new BootstrapDesign(72, "pupil"))) {
+        for (BootstrapDesign design : List.of(new BootstrapDesign(71, null), new BootstrapDesign(72, "pupil"),
+                new BootstrapDesign(73, "school"))) {
             VariantSource source = source(plan, table, "pupil", slices, keys);
             RunResult byParts = new MultiverseRunner(1).withVariants(source).run(plan, table, RunProgress.SILENT,
                     new AtomicBoolean());
@@ -128,6 +132,8 @@ class TwoWayEffectsByPartsTest {
             SpecificationFitter fitter = new SpecificationFitter().deferringRowPasses().deferringRefits();
             int compared = 0;
             long solves = 0;
+            long cells = 0;
+            long fourth = 0;
             for (int v = 0; v < indexed.variantCount(); v++) {
                 int[] specs = indexed.specificationsOf(v);
                 VariantKey key = byParts.models().variantKey(v);
@@ -144,6 +150,8 @@ class TwoWayEffectsByPartsTest {
                             models, table, keys, design, d);
                     KeyFit[] fits = RowPassesByParts.fitEach(fitter, inDraw[d], models, () -> { });
                     solves += inDraw[d].crossedSolves();
+                    cells += inDraw[d].partsClusterCells();
+                    fourth += inDraw[d].partsFourthMoments();
                     for (int s = 0; s < specs.length; s++) {
                         String where = design + ", variant " + v + ", draw " + d + ", specification " + s;
                         if (expected[s] == null || !(expected[s].stdError() > 0)) {
@@ -159,6 +167,8 @@ class TwoWayEffectsByPartsTest {
                 }
             }
             assertTrue(solves > 0, "each draw's sets solved again over the draw's parts");
+            assertTrue(cells > 0, design + ": the pupils' cells summed from each draw's within values");
+            assertTrue(fourth > 0, design + ": the fourth moments summed from each draw's within values");
             assertTrue(compared > 100, compared + " draw fits beside pupil and term compared");
         }
     }

@@ -115,6 +115,13 @@ public final class DataVariant {
      * ({@link RowPassRequest#ofClusters}); null otherwise.
      */
     volatile Map<String, Integer> wholeClusterCounts;
+    /**
+     * Beside two absorbed columns held in parts: the clusters over the whole table of each intersection of
+     * cluster columns whose clusters lie in one part each, and those of them with one row per cluster
+     * ({@link VariantByParts#build}).
+     */
+    final Map<String, Integer> wholeIntersectionClusters = new ConcurrentHashMap<>();
+    final Set<String> intersectionClustersAreRows = ConcurrentHashMap.newKeySet();
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
@@ -349,26 +356,48 @@ public final class DataVariant {
      * The same choice beside two absorbed columns held in parts: the parts sum each set's fourth moments and
      * clusters' cells from their within values in the pass that sums its within cross-products
      * ({@link CrossedEffectsByParts.WithinPass}). The clusters are counted over the whole table (an
-     * intersection's by the product of its columns' counts, at most the rows); with no rows here, a cluster
-     * column with one row per cluster is not told apart, and its specifications take the clusters' cells.
+     * intersection that holds the column the parts are cut by, by the parts; another, by the product of its
+     * columns' counts, at most the rows); an intersection with one row per cluster counted so takes the fourth
+     * moments as one machine's does, while with no rows here a cluster column with one row per cluster is not
+     * told apart, and its specifications take the clusters' cells.
      */
     private void expectWithinParts(long hcSpecifications, Map<String, Long> clusterSpecifications,
             double meanColumns) {
-        useFourthMoments = SandwichRoute.withinFourthMomentsPay(rows, columns, hcSpecifications, meanColumns);
+        long fourth = hcSpecifications;
+        for (Map.Entry<String, Long> e : clusterSpecifications.entrySet()) {
+            if (intersectionClustersAreRows.contains(e.getKey())) {
+                fourth += e.getValue();
+                clustersAreRows.add(e.getKey());
+            }
+        }
+        useFourthMoments = SandwichRoute.withinFourthMomentsPay(rows, columns, fourth, meanColumns);
         expectedClusterKeys.addAll(clusterSpecifications.keySet());
         clusterSpecifications.forEach((key, count) -> {
-            long g = 1;
-            for (String column : key.split(java.util.regex.Pattern.quote(ClusterComponents.JOIN))) {
-                Integer c = wholeClusterCounts.get(column);
-                g = c == null ? -1 : Math.min(rows, g * c);
-                if (g < 0) {
-                    return;
-                }
+            if (clustersAreRows.contains(key)) {
+                return;
             }
-            if (SandwichRoute.withinClusterMomentsPay(rows, columns, count, meanColumns, (int) g)) {
+            Integer counted = wholeIntersectionClusters.get(key);
+            long g = counted != null ? counted : clustersAtMost(key);
+            if (g >= 0 && SandwichRoute.withinClusterMomentsPay(rows, columns, count, meanColumns, (int) g)) {
                 useClusterMoments.add(key);
             }
         });
+    }
+
+    /**
+     * The clusters of {@code key} (a cluster column, or an intersection not counted) at most: the product of its
+     * columns' clusters over the whole table, at most the rows; -1 when a column's are not known.
+     */
+    private long clustersAtMost(String key) {
+        long g = 1;
+        for (String column : key.split(java.util.regex.Pattern.quote(ClusterComponents.JOIN))) {
+            Integer c = wholeClusterCounts.get(column);
+            if (c == null) {
+                return -1;
+            }
+            g = Math.min(rows, g * c);
+        }
+        return g;
     }
 
     /** Beside two absorbed columns held in parts: the cluster keys of the specifications {@link #expect} was told of. */

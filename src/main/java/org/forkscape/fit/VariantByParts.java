@@ -404,6 +404,7 @@ public final class VariantByParts {
                 counts.put(c.column().name(), wholeClusterCount(c.column().name(), shifted));
             }
             variant.wholeClusterCounts = counts;
+            countIntersections(key, shifted, variant, parts);
         }
         variant.refitReduction = refits(key, shifted, variant, parts);
         variant.rowPassReduction = batch -> parts.reduce(batch, (part, b) -> part.rowPassSums(key, shifted, b),
@@ -458,6 +459,49 @@ public final class VariantByParts {
         s.link = new int[secondLevels];
         java.util.Arrays.fill(s.link, -1);
         return s;
+    }
+
+    /**
+     * Beside two absorbed columns: the clusters over the whole table of each intersection of cluster columns that
+     * holds A, the column the parts are cut by, so that each of its clusters lies in one part and the parts'
+     * counts add (one pass over the parts' codes); and whether each of them has one row (a unit x period
+     * intersection of a panel), whose CR1 meat is then the HC0 meat, as one machine finds from its rows
+     * ({@link DataVariant#expect}). An intersection without A keeps no count (its clusters may span parts).
+     */
+    private void countIntersections(VariantKey key, WholeRows whole, DataVariant variant, VariantParts parts) {
+        String first = VariantBuilder.absorbedColumns(plan, key)[crossedOrder(key, whole)[0]].name();
+        for (ClusterComponents.Component c : plan.clusterIntersections) {
+            if (!c.columns().contains(first)) {
+                continue;
+            }
+            String clusterKey = c.key();
+            long[] counted = parts.reduce(part -> part.intersectionCount(key, whole, clusterKey),
+                    VariantByParts::addCounts);
+            if (counted[0] <= Integer.MAX_VALUE) {
+                variant.wholeIntersectionClusters.put(c.key(), (int) counted[0]);
+            }
+            if (counted[0] == counted[1]) {
+                variant.intersectionClustersAreRows.add(c.key());
+            }
+        }
+    }
+
+    /** This part's clusters of the intersection {@code clusterKey} and its rows that have one. */
+    public long[] intersectionCount(VariantKey key, WholeRows whole, String clusterKey) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        java.util.BitSet seen = new java.util.BitSet();
+        long rows = 0;
+        for (int c : coded.clusters.get(clusterKey)) {
+            if (c >= 0) {
+                seen.set(c);
+                rows++;
+            }
+        }
+        return new long[] {seen.cardinality(), rows};
+    }
+
+    private static long[] addCounts(long[] a, long[] b) {
+        return new long[] {a[0] + b[0], a[1] + b[1]};
     }
 
     /** This part's sums of the Schur complement for the usable patterns {@code masks} ({@link CrossedEffectsByParts}). */

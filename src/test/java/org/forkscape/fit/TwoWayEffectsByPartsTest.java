@@ -196,7 +196,8 @@ class TwoWayEffectsByPartsTest {
     /**
      * HC0 and HC1 from the fourth moments and one-way cluster errors (and the one-column components of the
      * two-way) from the clusters' cells, both summed by the parts from their within values in the pass of the
-     * sets' within cross-products, as one machine sums them from its demeaned rows.
+     * sets' within cross-products, as one machine sums them from its demeaned rows; the pupil x term component,
+     * one row per cluster, from the fourth moments.
      */
     private static void assertWithinPassRoutes(RunResult parts) {
         long crossed = 0;
@@ -212,15 +213,15 @@ class TwoWayEffectsByPartsTest {
                         "demeaned by the parts' exact solve");
                 fourth += variant.partsFourthMoments();
                 cells += variant.partsClusterCells();
-                served += variant.rowPassesServed();
+                served += variant.rowPassesServed() + variant.clusterScorePasses();
             }
         }
         assertTrue(crossed > 0, "variants beside pupil and term");
         assertTrue(fourth > 0, "fourth moments summed by the parts from their within values");
         assertTrue(cells > 0, "clusters' cells summed by the parts from their within values");
-        // an intersection's clusters (pupil x term, one row each here) are not counted over the whole table before
-        // the pass, so its component of a two-way error keeps the clusters' scores over the rows
-        assertEquals(0, served, "no HC0, HC1 or one-way cluster error beside pupil and term from a row pass");
+        // the pupil x term intersection, counted by the parts (cut by pupil), has one row per cluster: the two-way
+        // error's component takes the fourth moments, as one machine's does
+        assertEquals(0, served, "no robust error beside pupil and term from a pass over the rows of its own");
         assertTrue(parts.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "HC0 and HC1 from them");
         assertTrue(parts.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster errors from them");
         assertTrue(parts.refitByQr() > 0, "controls constant within pupils or terms sent to the QR refit");

@@ -13,7 +13,6 @@ import org.forkscape.InputException;
 import org.forkscape.data.CsvTableReader;
 import org.forkscape.data.Table;
 import org.forkscape.fit.DataVariant;
-import org.forkscape.fit.VarianceRoute;
 import org.forkscape.plan.Plan;
 import org.forkscape.plan.PlanReader;
 import org.forkscape.run.RunResult;
@@ -74,7 +73,7 @@ class SparkTwoWayEffectsTest {
     void twoWayPlanEqualsTheEngineAndR(int partitions) throws IOException {
         SparkParityTest.Comparison c = SparkParityTest.compare(plan("school-panel-plan.json"),
                 SparkParityTest.REFERENCE, panelParquet, partitions);
-        assertRoutes(c.spark());
+        org.forkscape.fit.TwoWayRoutes.assertWithinPass(c.spark());
         assertTrue(c.spark().refitByQr() > 0, "controls the effects explain, dropped by QR refits from the "
                 + "partitions' factors");
         SparkParityTest.report("school-panel-" + partitions, c.worst());
@@ -93,7 +92,7 @@ class SparkTwoWayEffectsTest {
                 new String[] {"school-panel-weighted-plan.json", weightedParquet.toString()})) {
             SparkParityTest.Comparison c = SparkParityTest.compare(plan(planAndData[0]), SparkParityTest.REFERENCE,
                     Path.of(planAndData[1]), 3, false);
-            assertRowPassRoutes(c.spark());
+            org.forkscape.fit.TwoWayRoutes.assertRowPasses(c.spark());
             SparkParityTest.report("school-panel-row-passes-" + planAndData[0].replace("-plan.json", ""),
                     c.worst());
         }
@@ -104,7 +103,7 @@ class SparkTwoWayEffectsTest {
     void weightedTwoWayPlanEqualsTheEngineAndR(int partitions) throws IOException {
         SparkParityTest.Comparison c = SparkParityTest.compare(plan("school-panel-weighted-plan.json"),
                 SparkParityTest.REFERENCE, weightedParquet, partitions);
-        assertRoutes(c.spark());
+        org.forkscape.fit.TwoWayRoutes.assertWithinPass(c.spark());
         SparkParityTest.report("school-panel-weighted-" + partitions, c.worst());
         if (partitions == 3) {
             SparkWeightsAndClustersTest.AgainstR r = SparkWeightsAndClustersTest.againstR(c,
@@ -275,46 +274,6 @@ class SparkTwoWayEffectsTest {
                 + "columns the Spark runner solves for the effects of the one with fewer levels on the driver, at "
                 + "most 2,000 of them; run this plan on one machine"), e.problem());
         assertEquals("pupil", CrossedPartitioning.column(plan, java.util.Map.of("pupil", 5000, "term", 2000)));
-    }
-
-    private static void assertRoutes(RunResult run) {
-        long crossed = 0;
-        long fourth = 0;
-        long cells = 0;
-        long served = 0;
-        for (int v = 0; v < run.models().variantCount(); v++) {
-            DataVariant variant = run.models().variant(run.models().variantKey(v));
-            if (variant.crossedSolves() > 0) {
-                crossed++;
-                fourth += variant.partsFourthMoments();
-                cells += variant.partsClusterCells();
-                served += variant.rowPassesServed() + variant.clusterScorePasses();
-            }
-        }
-        assertTrue(crossed > 0, "variants beside pupil and term solved by the partitions");
-        assertTrue(fourth > 0, "fourth moments summed by the partitions from their within values");
-        assertTrue(cells > 0, "clusters' cells summed by the partitions from their within values");
-        // the two-way errors' pupil x term component, one row per cluster, from the fourth moments
-        assertEquals(0, served, "no robust error beside pupil and term from a pass over the rows of its own");
-        assertTrue(run.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "HC0 and HC1 from them");
-        assertTrue(run.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster errors from them");
-    }
-
-    private static void assertRowPassRoutes(RunResult run) {
-        long served = 0;
-        long scorePasses = 0;
-        long batched = 0;
-        for (int v = 0; v < run.models().variantCount(); v++) {
-            DataVariant variant = run.models().variant(run.models().variantKey(v));
-            if (variant.crossedSolves() > 0) {
-                served += variant.rowPassesServed();
-                scorePasses += variant.clusterScorePasses();
-                batched += variant.clusterScoresBatched();
-            }
-        }
-        assertTrue(served > 0, "HC0 and HC1 from the row passes over the partitions' within values");
-        assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the partitions' within values");
-        assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");
     }
 
     private static InputException refusal(String text, Path parquet) {

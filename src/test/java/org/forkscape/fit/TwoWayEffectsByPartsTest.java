@@ -1,7 +1,6 @@
 package org.forkscape.fit;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -48,7 +47,7 @@ class TwoWayEffectsByPartsTest {
     @ValueSource(ints = {1, 3, 8})
     void schoolPanelFromPartsAsTheWholeTable(int slices) {
         RunResult parts = compare(plan("school-panel-plan.json"), slices, true);
-        assertWithinPassRoutes(parts);
+        TwoWayRoutes.assertWithinPass(parts);
     }
 
     /**
@@ -58,15 +57,15 @@ class TwoWayEffectsByPartsTest {
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void schoolPanelFromPartsByRowPasses(int slices) {
-        assertRowPassRoutes(compare(plan("school-panel-plan.json"), slices, false));
+        TwoWayRoutes.assertRowPasses(compare(plan("school-panel-plan.json"), slices, false));
     }
 
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void weightedSchoolPanelFromPartsAsTheWholeTable(int slices) {
         RunResult parts = compare(plan("school-panel-weighted-plan.json"), slices, true);
-        assertWithinPassRoutes(parts);
-        assertRowPassRoutes(compare(plan("school-panel-weighted-plan.json"), slices, false));
+        TwoWayRoutes.assertWithinPass(parts);
+        TwoWayRoutes.assertRowPasses(compare(plan("school-panel-weighted-plan.json"), slices, false));
         long weighted = 0;
         for (int v = 0; v < parts.models().variantCount(); v++) {
             DataVariant variant = parts.models().variant(parts.models().variantKey(v));
@@ -191,58 +190,6 @@ class TwoWayEffectsByPartsTest {
 
     private static Plan plan(String name) {
         return new PlanReader(false).read(ReferenceFiles.path(name));
-    }
-
-    /**
-     * HC0 and HC1 from the fourth moments and one-way cluster errors (and the one-column components of the
-     * two-way) from the clusters' cells, both summed by the parts from their within values in the pass of the
-     * sets' within cross-products, as one machine sums them from its demeaned rows; the pupil x term component,
-     * one row per cluster, from the fourth moments.
-     */
-    private static void assertWithinPassRoutes(RunResult parts) {
-        long crossed = 0;
-        long fourth = 0;
-        long cells = 0;
-        long served = 0;
-        for (int v = 0; v < parts.models().variantCount(); v++) {
-            DataVariant variant = parts.models().variant(parts.models().variantKey(v));
-            assertFalse(variant.holdsRows());
-            if (variant.absorbsSeveral) {
-                crossed++;
-                assertTrue(variant.crossedWithin != null && variant.crossedSolves() > 0,
-                        "demeaned by the parts' exact solve");
-                fourth += variant.partsFourthMoments();
-                cells += variant.partsClusterCells();
-                served += variant.rowPassesServed() + variant.clusterScorePasses();
-            }
-        }
-        assertTrue(crossed > 0, "variants beside pupil and term");
-        assertTrue(fourth > 0, "fourth moments summed by the parts from their within values");
-        assertTrue(cells > 0, "clusters' cells summed by the parts from their within values");
-        // the pupil x term intersection, counted by the parts (cut by pupil), has one row per cluster: the two-way
-        // error's component takes the fourth moments, as one machine's does
-        assertEquals(0, served, "no robust error beside pupil and term from a pass over the rows of its own");
-        assertTrue(parts.routes().getOrDefault(VarianceRoute.FOURTH_MOMENTS, 0L) > 0, "HC0 and HC1 from them");
-        assertTrue(parts.routes().getOrDefault(VarianceRoute.CLUSTER_CELLS, 0L) > 0, "cluster errors from them");
-        assertTrue(parts.refitByQr() > 0, "controls constant within pupils or terms sent to the QR refit");
-    }
-
-    /** With the routes without rows off: HC0 and HC1 and one-way clusters in the row passes' batches. */
-    private static void assertRowPassRoutes(RunResult parts) {
-        long served = 0;
-        long scorePasses = 0;
-        long batched = 0;
-        for (int v = 0; v < parts.models().variantCount(); v++) {
-            DataVariant variant = parts.models().variant(parts.models().variantKey(v));
-            if (variant.absorbsSeveral) {
-                served += variant.rowPassesServed();
-                scorePasses += variant.clusterScorePasses();
-                batched += variant.clusterScoresBatched();
-            }
-        }
-        assertTrue(served > 0, "HC0 and HC1 from row passes over the parts' within values");
-        assertTrue(scorePasses > 0, "multi-way cluster errors from the clusters' scores over the parts' within values");
-        assertTrue(batched > 0, "one-way cluster errors from the clusters' scores summed by the row passes' batches");
     }
 
     /**

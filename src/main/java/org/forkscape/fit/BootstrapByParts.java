@@ -105,7 +105,8 @@ public final class BootstrapByParts {
                 to), VariantByParts::addEach);
         DataVariant[] out = new DataVariant[to - from];
         for (int b = 0; b < out.length; b++) {
-            out[b] = whole.drawVariant(key, facts, sums[b], inDraw(parts, d, kept, from + b), observed);
+            out[b] = whole.drawVariant(key, facts, sums[b], inDraw(parts, d, kept, from + b), observed,
+                    java.util.Set.of(kept));
         }
         return out;
     }

@@ -122,6 +122,8 @@ public final class DataVariant {
      */
     final Map<String, Integer> wholeIntersectionClusters = new ConcurrentHashMap<>();
     final Set<String> intersectionClustersAreRows = ConcurrentHashMap.newKeySet();
+    /** Beside two absorbed columns held in parts: the absorbed column the parts are cut by; null otherwise. */
+    volatile String partitionedBy;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
@@ -405,18 +407,55 @@ public final class DataVariant {
 
     /**
      * A bootstrap draw's routes beside two absorbed columns held in parts, from the observed variant's: the
-     * fourth moments where the observed fits take them, and the clusters' cells of every cluster column (a
-     * draw's sets are summed again over its parts, and the clusters' scores are not, so a one-way cluster error
-     * has no other route there), with each drawn copy of a renewed cluster a cluster of its own (its key is its
-     * code plus the copy times the clusters, {@link VariantByParts#inDraw}).
+     * fourth moments where the observed fits take them, and the clusters' cells of every clustering (a draw's
+     * sets are summed again over its parts, and the clusters' scores are not, so a cluster error has no other
+     * route there), with each drawn copy of a renewed cluster ({@code renewed}) a cluster of its own (its key is
+     * its code plus the copy times the clusters, {@link VariantByParts#inDraw}); an intersection with one row per
+     * cluster that the draw renews keeps one row per cluster, and takes the fourth moments.
      */
-    void expectAsDrawOf(DataVariant observed) {
+    void expectAsDrawOf(DataVariant observed, Set<String> renewed) {
         useFourthMoments = observed.useFourthMoments;
         for (String key : observed.expectedClusterKeys) {
-            if (!key.contains(ClusterComponents.JOIN) || observed.useClusterMoments.contains(key)) {
+            if (observed.intersectionClustersAreRows.contains(key) && renewed.contains(key)) {
+                // one row per cluster, and every drawn copy a cluster of its own: still one row per cluster
+                clustersAreRows.add(key);
+                useFourthMoments = true;
+            } else {
                 useClusterMoments.add(key);
             }
         }
+    }
+
+    /**
+     * Beside two absorbed columns held in parts, why a bootstrap draw could not compute the CR1 meat of the
+     * intersection of cluster columns {@code key} ({@link #expectAsDrawOf}), or null when it can: from the fourth
+     * moments when each of its clusters has one row and the draws resample whole clusters of one of its columns
+     * ({@code resampledColumn}), so that each drawn copy is a cluster of its own; otherwise from its clusters'
+     * cells, which need its clusters counted (it holds the column the parts are cut by) and within the engine's
+     * memory bound for them ({@link SandwichRoute#MAX_TENSOR_DOUBLES}).
+     */
+    public String drawClustersProblem(String key, java.util.List<String> columns, String resampledColumn) {
+        if (intersectionClustersAreRows.contains(key) && columns.contains(resampledColumn)) {
+            return null;
+        }
+        Integer g = wholeIntersectionClusters.get(key);
+        if (g == null) {
+            return "the intersection of " + String.join(" and ", columns) + " does not hold " + partitionedBy
+                    + ", the absorbed column the rows are partitioned by, so its clusters are not counted for the "
+                    + "draws' cells";
+        }
+        long doubles = (long) g * this.columns * (this.columns + 1) / 2;
+        if (doubles > SandwichRoute.MAX_TENSOR_DOUBLES) {
+            return String.format(java.util.Locale.ROOT, "the intersection of %s has %,d clusters, whose cells in a "
+                    + "draw would be above the engine's memory bound for them (%,d doubles)",
+                    String.join(" and ", columns), g, SandwichRoute.MAX_TENSOR_DOUBLES);
+        }
+        return null;
+    }
+
+    /** Whether the variant absorbs two columns and is held in parts. */
+    public boolean crossedInParts() {
+        return crossedWithin != null;
     }
 
     /** The cluster keys whose specifications take the clusters' cells, in their natural order. */

@@ -484,6 +484,7 @@ public final class VariantByParts {
                 variant.intersectionClustersAreRows.add(c.key());
             }
         }
+        variant.partitionedBy = first;
     }
 
     /** This part's clusters of the intersection {@code clusterKey} and its rows that have one. */
@@ -609,15 +610,16 @@ public final class VariantByParts {
      * fits' passes reduce {@code drawParts}, the parts in that draw (each row repeated by its count).
      *
      * @param observed the observed variant, whose fits start the draw's generalized linear fits
+     * @param renewed  the cluster keys whose drawn copies are clusters of their own ({@link BootstrapByParts#keptWhole})
      */
     DataVariant drawVariant(VariantKey key, WholeRows facts, PartialStatistics sum, VariantParts drawParts,
-            DataVariant observed) {
+            DataVariant observed, java.util.Set<String> renewed) {
         DataVariant variant = variant(key, facts, sum);
         variant.drawOf = observed;
         if (crossed(key)) {
             // each set of usable rows solved again over the draw's rows (each part's copies keep their levels)
             variant.crossedWithin = usable -> crossedWithin(key, facts, variant, usable, drawParts);
-            variant.expectAsDrawOf(observed);
+            variant.expectAsDrawOf(observed, renewed);
         }
         variant.refitReduction = refits(key, facts, variant, drawParts);
         variant.rowPassReduction = batch -> drawParts.reduce(batch, (part, b) -> part.rowPassSums(key, facts, b),

@@ -2,9 +2,12 @@ package org.forkscape.spark;
 
 import java.util.List;
 import org.forkscape.InputException;
+import org.forkscape.fit.ClusterComponents;
+import org.forkscape.fit.DataVariant;
 import org.forkscape.infer.NullDrawSettings;
 import org.forkscape.infer.NullMethod;
 import org.forkscape.plan.Decision;
+import org.forkscape.plan.ErrorType;
 import org.forkscape.plan.ModelFamily;
 import org.forkscape.plan.Plan;
 
@@ -12,7 +15,8 @@ import org.forkscape.plan.Plan;
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
  * transformation iterates over the rows); beside two absorbed columns, generalized linear models, and with
- * null draws multi-way cluster errors; beside null draws, the permutation. Two absorbed columns are least squares'
+ * null draws multi-way cluster errors whose intersections a draw cannot sum ({@link #drawClusterings}, once the
+ * variant is built); beside null draws, the permutation. Two absorbed columns are least squares'
  * exact solve by parts ({@link CrossedPartitioning}).
  */
 final class SparkRefusals {
@@ -51,30 +55,52 @@ final class SparkRefusals {
 
     /**
      * Beside two absorbed columns (the alternative at {@code pair}) the Spark runner fits least squares:
-     * generalized linear models are refused, and beside null draws multi-way cluster errors (a draw's one-way
-     * cluster errors come from the clusters' cells its sets' second pass sums; an intersection's clusters may
-     * be as many as the rows, and their scores over the rows a draw's pass does not sum).
+     * generalized linear models are refused.
      */
     private static void besideTwoColumns(Plan plan, String pair) {
         List<Decision> ds = plan.decisions();
         for (int i = 0; i < ds.size(); i++) {
-            if (ds.get(i) instanceof Decision.Errors e && plan.nullDraws() > 0) {
-                for (int j = 0; j < e.alternatives().size(); j++) {
-                    org.forkscape.plan.ErrorType type = e.alternatives().get(j);
-                    if (type.kind() == org.forkscape.plan.ErrorType.Kind.CLUSTER && type.multiway()) {
-                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", "multi-way "
-                                + "cluster errors beside two absorbed columns (" + pair + ") and null draws are not "
-                                + "computed on Spark (in a draw an intersection's clusters would need their scores "
-                                + "over the draw's rows)" + WAY_OUT + " (or the null draws)");
-                    }
-                }
-            } else if (ds.get(i) instanceof Decision.Model m) {
+            if (ds.get(i) instanceof Decision.Model m) {
                 for (int j = 0; j < m.alternatives().size(); j++) {
                     ModelFamily f = m.alternatives().get(j);
                     if (!f.leastSquares()) {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", f.spelling()
                                 + " beside two absorbed columns (" + pair + ") is not fitted on Spark (only least "
                                 + "squares is demeaned exactly by parts)" + WAY_OUT);
+                    }
+                }
+            }
+        }
+    }
+
+    /**
+     * Beside two absorbed columns with null draws, once the variant {@code v} is built (before its fits): a draw's
+     * cluster errors come from the clusters' cells or the fourth moments its sets' second pass sums, never from
+     * the clusters' scores over the draw's rows, so each intersection of a multi-way error type must be one a
+     * draw can sum ({@link DataVariant#drawClustersProblem}); refused at the error type's JSON path otherwise.
+     */
+    static void drawClusterings(Plan plan, DataVariant v) {
+        if (plan.nullDraws() == 0 || !v.crossedInParts()) {
+            return;
+        }
+        String resampled = NullDrawSettings.of(plan).clusterColumn();
+        List<Decision> ds = plan.decisions();
+        for (int i = 0; i < ds.size(); i++) {
+            if (!(ds.get(i) instanceof Decision.Errors e)) {
+                continue;
+            }
+            for (int j = 0; j < e.alternatives().size(); j++) {
+                ErrorType type = e.alternatives().get(j);
+                if (type.kind() != ErrorType.Kind.CLUSTER || !type.multiway()) {
+                    continue;
+                }
+                for (ClusterComponents.Component c : ClusterComponents.of(type)) {
+                    String problem = c.columns().size() < 2 ? null
+                            : v.drawClustersProblem(c.key(), c.columns(), resampled);
+                    if (problem != null) {
+                        throw new InputException("decisions[" + i + "].alternatives[" + j + "]", type.label()
+                                + " beside two absorbed columns is not computed in Spark's null draws: " + problem
+                                + WAY_OUT + " (or the null draws)");
                     }
                 }
             }

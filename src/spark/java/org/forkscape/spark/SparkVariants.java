@@ -40,6 +40,7 @@ final class SparkVariants implements VariantSource, VariantParts {
     private final VariantByParts whole;
     private final WholeRows grouping;
     private final Map<VariantKey, DataVariant> built = new ConcurrentHashMap<>();
+    private final Plan plan;
 
     /**
      * @param parts      each partition's rows as one table (with the rows' identities when bootstrap draws are
@@ -56,6 +57,7 @@ final class SparkVariants implements VariantSource, VariantParts {
         this.planText = planText;
         this.planFolder = planFolder.toString();
         this.whole = new VariantByParts(plan, columns);
+        this.plan = plan;
         this.grouping = grouping;
     }
 
@@ -66,7 +68,11 @@ final class SparkVariants implements VariantSource, VariantParts {
     @Override
     public synchronized DataVariant variant(VariantKey key, ExecutorService pool) {
         try {
-            return built.computeIfAbsent(key, k -> whole.build(k, grouping, this));
+            return built.computeIfAbsent(key, k -> {
+                DataVariant v = whole.build(k, grouping, this);
+                SparkRefusals.drawClusterings(plan, v);
+                return v;
+            });
         } catch (RuntimeException e) {
             for (Throwable t = e.getCause(); t != null; t = t.getCause()) {
                 if (t instanceof InputException problem) {

@@ -108,15 +108,17 @@ class TwoWayEffectsByPartsTest {
      * ({@link PartsOfTable#oneMachine}, which demeans them by alternating projections and takes the row pass),
      * classical, HC0 and HC1 from the fourth moments and pupil clusters from the clusters' cells summed from each draw's
      * within values, each drawn copy of a resampled pupil (whole pupils, or whole schools, in which the pupils
-     * are nested) a new cluster.
+     * are nested) a new cluster; and pupil and term clusters, whose pupil x term intersection (one row per
+     * cluster) takes the clusters' cells in row draws, where a drawn row's copies share its cluster, and the
+     * fourth moments where each copy is a new cluster.
      */
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void drawsFromPartsAsOneMachineWithTheSameCounts(int slices) throws java.io.IOException {
         String text = java.nio.file.Files.readString(ReferenceFiles.path("school-panel-plan.json")).replace(
                 "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
-                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\"]");
-        assertTrue(text.contains("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\"]"), "the plan edit took");
+                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]");
+        assertTrue(text.contains("\"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]"), "the plan edit took");
         Plan plan = new PlanReader(false).read(text, ReferenceFiles.path("school-panel-plan.json").getParent());
         Table table = new CsvTableReader().read(plan.dataFile());
         long[] keys = PartsOfTable.rowKeys("school-panel.parquet", table.rowCount());

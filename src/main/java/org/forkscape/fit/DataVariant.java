@@ -430,12 +430,12 @@ public final class DataVariant {
      * Beside two absorbed columns held in parts, why a bootstrap draw could not compute the CR1 meat of the
      * intersection of cluster columns {@code key} ({@link #expectAsDrawOf}), or null when it can: from the fourth
      * moments when each of its clusters has one row and the draws resample whole clusters of one of its columns
-     * ({@code resampledColumn}), so that each drawn copy is a cluster of its own; otherwise from its clusters'
-     * cells, which need its clusters counted (it holds the column the parts are cut by) and within the engine's
+     * ({@code resampledColumn}; null when single rows are drawn), so that each drawn copy is a cluster of its own;
+     * otherwise from its clusters' cells, which need its clusters counted (it holds the column the parts are cut by) and within the engine's
      * memory bound for them ({@link SandwichRoute#MAX_TENSOR_DOUBLES}).
      */
     public String drawClustersProblem(String key, java.util.List<String> columns, String resampledColumn) {
-        if (intersectionClustersAreRows.contains(key) && columns.contains(resampledColumn)) {
+        if (intersectionClustersAreRows.contains(key) && resampledColumn != null && columns.contains(resampledColumn)) {
             return null;
         }
         Integer g = wholeIntersectionClusters.get(key);

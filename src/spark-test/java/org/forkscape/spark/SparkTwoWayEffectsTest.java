@@ -143,16 +143,16 @@ class SparkTwoWayEffectsTest {
     }
 
     /**
-     * Bootstrap null draws of whole pupils beside pupil and term (classical, HC1, pupil clusters and pupil and
-     * term clusters, each drawn copy of a pupil a new cluster, from the fourth moments and the clusters' cells
-     * summed from each draw's within values; the pupil x term intersection, one row per cluster in every copy,
-     * from the fourth moments), at 3 and 8 partitions: each
-     * draw's sets of usable rows solved again over the draw's partitions, against one machine's fit of the same
-     * rows repeated by the same Poisson counts ({@code PartsOfTable.oneMachine}, demeaned by alternating
-     * projections) within 1e-10 relative, df exact.
+     * Bootstrap null draws beside pupil and term (classical, HC1, pupil clusters, and pupil and term clusters), of
+     * whole pupils at 3 and 8 partitions and of single rows at 3: each draw's sets of usable rows solved again
+     * over the draw's partitions, HC1 and cluster errors from the fourth moments and clusters' cells summed from
+     * each draw's within values (each drawn copy of a pupil a new cluster; the pupil x term intersection from the
+     * fourth moments where every copy is a cluster of its own, from its cells where a drawn row's copies share
+     * it), against one machine's fit of the same rows repeated by the same Poisson counts
+     * ({@code PartsOfTable.oneMachine}, demeaned by alternating projections) within 1e-10 relative, df exact.
      */
     @Test
-    void pupilDrawsBesideTwoColumnsAsOneMachineWithTheSameCounts() throws IOException {
+    void drawsBesideTwoColumnsAsOneMachineWithTheSameCounts() throws IOException {
         Path parquet = ParquetCopy.write(spark, new CsvTableReader().read(SparkParityTest.REFERENCE.resolve(
                 "school-panel.csv")), folder.resolve("school-panel-draws.parquet"), 4);
         Table readBack = org.forkscape.data.DataFiles.read(parquet);
@@ -169,18 +169,29 @@ class SparkTwoWayEffectsTest {
                 rowKeys[at++] = org.forkscape.fit.PoissonCounts.rowKey(name, i);
             }
         }
+        double[] pupils = drawsAsOneMachine(parquet, readBack, rowKeys, "pupil", new int[] {3, 8});
+        // single rows: a drawn row's copies share its pupil x term cluster, whose cells the draws sum
+        double[] rows = drawsAsOneMachine(parquet, readBack, rowKeys, "rows", new int[] {3});
+        SparkParityTest.report("school-panel-draws", new double[] {Math.max(pupils[0], rows[0]),
+                Math.max(pupils[1], rows[1]), Double.NaN});
+    }
+
+    /** Every draw fit beside pupil and term at each partitioning against one machine's of the same counts. */
+    private static double[] drawsAsOneMachine(Path parquet, Table readBack, long[] rowKeys, String nullCluster,
+            int[] partitionings) throws IOException {
         String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
-                "\"data\": \"school-panel.csv\", \"nullDraws\": 4, \"seed\": 43, \"nullCluster\": \"pupil\",")
+                "\"data\": \"school-panel.csv\", \"nullDraws\": 4, \"seed\": 43, \"nullCluster\": \"" + nullCluster + "\",")
                 .replace("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
                         "[\"classical\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]");
-        assertTrue(text.contains("\"nullCluster\": \"pupil\"") && text.contains("\"cluster:pupil+term\"]"),
+        assertTrue(text.contains("\"nullCluster\": \"" + nullCluster + "\"") && text.contains("\"cluster:pupil+term\"]"),
                 "the plan edits took");
         Plan plan = new PlanReader(false).read(text, SparkParityTest.REFERENCE.toAbsolutePath());
-        org.forkscape.fit.BootstrapDesign design = new org.forkscape.fit.BootstrapDesign(plan.seed(), "pupil");
+        org.forkscape.fit.BootstrapDesign design = new org.forkscape.fit.BootstrapDesign(plan.seed(),
+                nullCluster.equals("rows") ? null : nullCluster);
         RunResult inMemory = new org.forkscape.run.MultiverseRunner(1).run(plan, readBack,
                 org.forkscape.run.RunProgress.SILENT, new java.util.concurrent.atomic.AtomicBoolean());
         double[] worst = new double[2];
-        for (int partitions : new int[] {3, 8}) {
+        for (int partitions : partitionings) {
             RunResult run = SparkParityTest.sparkRun(text, SparkParityTest.REFERENCE, parquet, partitions);
             org.forkscape.infer.RunVariants indexed = org.forkscape.infer.RunVariants.of(run);
             org.forkscape.fit.BootstrapByParts draws = run.models().bootstrap(design);
@@ -229,7 +240,7 @@ class SparkTwoWayEffectsTest {
             assertTrue(cells > 0, "the drawn pupils' cells summed from each draw's within values");
             assertTrue(compared > 100, compared + " draw fits compared");
         }
-        SparkParityTest.report("school-panel-draws", new double[] {worst[0], worst[1], Double.NaN});
+        return worst;
     }
 
     /**

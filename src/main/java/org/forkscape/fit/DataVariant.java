@@ -122,8 +122,6 @@ public final class DataVariant {
      */
     final Map<String, Integer> wholeIntersectionClusters = new ConcurrentHashMap<>();
     final Set<String> intersectionClustersAreRows = ConcurrentHashMap.newKeySet();
-    /** Beside two absorbed columns held in parts: the absorbed column the parts are cut by; null otherwise. */
-    volatile String partitionedBy;
     /** Whether the row-free sandwich routes pay for themselves in this variant (set by the runner). */
     volatile boolean useFourthMoments;
     private final Set<String> useClusterMoments = ConcurrentHashMap.newKeySet();
@@ -431,24 +429,21 @@ public final class DataVariant {
      * intersection of cluster columns {@code key} ({@link #expectAsDrawOf}), or null when it can: from the fourth
      * moments when each of its clusters has one row and the draws resample whole clusters of one of its columns
      * ({@code resampledColumn}; null when single rows are drawn), so that each drawn copy is a cluster of its own;
-     * otherwise from its clusters' cells, which need its clusters counted (it holds the column the parts are cut by) and within the engine's
-     * memory bound for them ({@link SandwichRoute#MAX_TENSOR_DOUBLES}).
+     * otherwise from its clusters' cells, which must stay within the engine's memory bound for them
+     * ({@link SandwichRoute#MAX_TENSOR_DOUBLES}; the parts count its clusters when the variant is built).
      */
     public String drawClustersProblem(String key, java.util.List<String> columns, String resampledColumn) {
         if (intersectionClustersAreRows.contains(key) && resampledColumn != null && columns.contains(resampledColumn)) {
             return null;
         }
         Integer g = wholeIntersectionClusters.get(key);
-        if (g == null) {
-            return "the intersection of " + String.join(" and ", columns) + " does not hold " + partitionedBy
-                    + ", the absorbed column the rows are partitioned by, so its clusters are not counted for the "
-                    + "draws' cells";
-        }
-        long doubles = (long) g * this.columns * (this.columns + 1) / 2;
-        if (doubles > SandwichRoute.MAX_TENSOR_DOUBLES) {
-            return String.format(java.util.Locale.ROOT, "the intersection of %s has %,d clusters, whose cells in a "
-                    + "draw would be above the engine's memory bound for them (%,d doubles)",
-                    String.join(" and ", columns), g, SandwichRoute.MAX_TENSOR_DOUBLES);
+        int most = VariantByParts.countedKeysAtMost(this.columns);
+        if (g == null || g > most) {
+            return String.format(java.util.Locale.ROOT, "the intersection of %s has %s clusters, whose cells in a "
+                    + "draw would be above the engine's memory bound for them (%,d doubles: at most %,d clusters of "
+                    + "%d model columns)", String.join(" and ", columns), g == null ? "more than " + String.format(
+                    java.util.Locale.ROOT, "%,d", most) : String.format(java.util.Locale.ROOT, "%,d", g),
+                    SandwichRoute.MAX_TENSOR_DOUBLES, most, this.columns);
         }
         return null;
     }

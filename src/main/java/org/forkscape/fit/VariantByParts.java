@@ -462,39 +462,53 @@ public final class VariantByParts {
     }
 
     /**
-     * Beside two absorbed columns: the clusters over the whole table of each intersection of cluster columns that
-     * holds A, the column the parts are cut by, so that each of its clusters lies in one part and the parts'
-     * counts add (one pass over the parts' codes); and whether each of them has one row (a unit x period
-     * intersection of a panel), whose CR1 meat is then the HC0 meat, as one machine finds from its rows
-     * ({@link DataVariant#expect}). An intersection without A keeps no count (its clusters may span parts).
+     * Beside two absorbed columns: the clusters over the whole table of each intersection of cluster columns, and
+     * whether each of them has one row (a unit x period intersection of a panel), whose CR1 meat is then the HC0
+     * meat, as one machine finds from its rows ({@link DataVariant#expect}). One pass over the parts' codes per
+     * intersection: one that holds A, the column the parts are cut by, has each cluster in one part, so the
+     * parts' counts add; another's clusters may span parts, so the parts send their clusters' keys, merged up to
+     * {@link #countedKeysAtMost} of them (beyond, it keeps no count: its cells would not fit).
      */
     private void countIntersections(VariantKey key, WholeRows whole, DataVariant variant, VariantParts parts) {
         String first = VariantBuilder.absorbedColumns(plan, key)[crossedOrder(key, whole)[0]].name();
+        int cap = countedKeysAtMost(variant.columns);
         for (ClusterComponents.Component c : plan.clusterIntersections) {
-            if (!c.columns().contains(first)) {
-                continue;
-            }
             String clusterKey = c.key();
-            long[] counted = parts.reduce(part -> part.intersectionCount(key, whole, clusterKey),
-                    VariantByParts::addCounts);
-            if (counted[0] <= Integer.MAX_VALUE) {
-                variant.wholeIntersectionClusters.put(c.key(), (int) counted[0]);
+            long clusters;
+            long rows;
+            if (c.columns().contains(first)) {
+                long[] counted = parts.reduce(part -> part.intersectionCount(key, whole, clusterKey),
+                        VariantByParts::addCounts);
+                clusters = counted[0];
+                rows = counted[1];
+            } else {
+                IntersectionKeys keys = parts.reduce(part -> part.intersectionKeys(key, whole, clusterKey, cap),
+                        (a, b) -> IntersectionKeys.merge(a, b, cap));
+                clusters = keys.keys == null ? -1 : keys.keys.length;
+                rows = keys.rows;
             }
-            if (counted[0] == counted[1]) {
+            if (clusters >= 0 && clusters <= Integer.MAX_VALUE) {
+                variant.wholeIntersectionClusters.put(c.key(), (int) clusters);
+            }
+            if (clusters == rows) {
                 variant.intersectionClustersAreRows.add(c.key());
             }
         }
-        variant.partitionedBy = first;
     }
 
-    /** This part's clusters of the intersection {@code clusterKey} and its rows that have one. */
+    /** The clusters whose cells of {@code columns} model columns fit the engine's memory bound for them. */
+    static int countedKeysAtMost(int columns) {
+        return (int) Math.min(Integer.MAX_VALUE, SandwichRoute.MAX_TENSOR_DOUBLES / ((long) columns * (columns + 1) / 2));
+    }
+
+    /** This part's clusters of the intersection {@code clusterKey} (each in this part alone) and its rows with one. */
     public long[] intersectionCount(VariantKey key, WholeRows whole, String clusterKey) {
         CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
         java.util.BitSet seen = new java.util.BitSet();
         long rows = 0;
-        for (int c : coded.clusters.get(clusterKey)) {
-            if (c >= 0) {
-                seen.set(c);
+        for (int code : coded.clusters.get(clusterKey)) {
+            if (code >= 0) {
+                seen.set(code);
                 rows++;
             }
         }
@@ -503,6 +517,45 @@ public final class VariantByParts {
 
     private static long[] addCounts(long[] a, long[] b) {
         return new long[] {a[0] + b[0], a[1] + b[1]};
+    }
+
+    /** A part's (or merged parts') clusters of an intersection, by their keys over the whole table. */
+    static final class IntersectionKeys implements java.io.Serializable {
+        private static final long serialVersionUID = 1L;
+        /** The rows that have a cluster of it. */
+        long rows;
+        /** The clusters' keys, ascending; null when more than the cap. */
+        long[] keys;
+
+        static IntersectionKeys merge(IntersectionKeys a, IntersectionKeys b, int cap) {
+            IntersectionKeys out = new IntersectionKeys();
+            out.rows = a.rows + b.rows;
+            if (a.keys != null && b.keys != null) {
+                long[] union = java.util.stream.LongStream.concat(java.util.Arrays.stream(a.keys),
+                        java.util.Arrays.stream(b.keys)).sorted().distinct().toArray();
+                out.keys = union.length > cap ? null : union;
+            }
+            return out;
+        }
+    }
+
+    /** This part's clusters of the intersection {@code clusterKey} keyed over the whole table, at most {@code cap}. */
+    public IntersectionKeys intersectionKeys(VariantKey key, WholeRows whole, String clusterKey, int cap) {
+        CodedRows coded = VariantBuilder.code(plan, key, whole).coded(plan);
+        ClusterComponents.Component c = plan.clusterIntersections.stream().filter(i -> i.key().equals(clusterKey))
+                .findFirst().orElseThrow();
+        long[] global = intersectionKeys(coded, whole, c);
+        java.util.BitSet seen = new java.util.BitSet();
+        IntersectionKeys out = new IntersectionKeys();
+        for (int code : coded.clusters.get(c.key())) {
+            if (code >= 0) {
+                seen.set(code);
+                out.rows++;
+            }
+        }
+        long[] keys = seen.stream().mapToLong(code -> global[code]).sorted().distinct().toArray();
+        out.keys = keys.length > cap ? null : keys;
+        return out;
     }
 
     /** This part's sums of the Schur complement for the usable patterns {@code masks} ({@link CrossedEffectsByParts}). */

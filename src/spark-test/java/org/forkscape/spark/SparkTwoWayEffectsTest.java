@@ -143,7 +143,8 @@ class SparkTwoWayEffectsTest {
     }
 
     /**
-     * Bootstrap null draws beside pupil and term (classical, HC1, pupil clusters, and pupil and term clusters), of
+     * Bootstrap null draws beside pupil and term (classical, HC1, pupil clusters, pupil and term clusters, and term
+     * and school clusters, whose intersection spans partitions and takes its cells keyed over the whole table), of
      * whole pupils at 3 and 8 partitions and of single rows at 3: each draw's sets of usable rows solved again
      * over the draw's partitions, HC1 and cluster errors from the fourth moments and clusters' cells summed from
      * each draw's within values (each drawn copy of a pupil a new cluster; the pupil x term intersection from the
@@ -182,8 +183,8 @@ class SparkTwoWayEffectsTest {
         String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
                 "\"data\": \"school-panel.csv\", \"nullDraws\": 4, \"seed\": 43, \"nullCluster\": \"" + nullCluster + "\",")
                 .replace("[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
-                        "[\"classical\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]");
-        assertTrue(text.contains("\"nullCluster\": \"" + nullCluster + "\"") && text.contains("\"cluster:pupil+term\"]"),
+                        "[\"classical\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\", \"cluster:term+school\"]");
+        assertTrue(text.contains("\"nullCluster\": \"" + nullCluster + "\"") && text.contains("\"cluster:term+school\"]"),
                 "the plan edits took");
         Plan plan = new PlanReader(false).read(text, SparkParityTest.REFERENCE.toAbsolutePath());
         org.forkscape.fit.BootstrapDesign design = new org.forkscape.fit.BootstrapDesign(plan.seed(),
@@ -241,26 +242,6 @@ class SparkTwoWayEffectsTest {
             assertTrue(compared > 100, compared + " draw fits compared");
         }
         return worst;
-    }
-
-    /**
-     * With null draws, an intersection of cluster columns without pupil (the column the rows are partitioned by)
-     * has its clusters in several partitions and is not counted, so a draw could not sum its cells: refused at
-     * the error type's path once the variant is built, before its fits.
-     */
-    @Test
-    void drawsOfAnIntersectionWithoutThePartitioningColumnAreRefusedAtTheirPath() throws IOException {
-        String text = plan("school-panel-plan.json").replace("\"data\": \"school-panel.csv\",",
-                "\"data\": \"school-panel.csv\", \"nullDraws\": 20,").replace("\"cluster:pupil+term\"]",
-                "\"cluster:term+school\"]");
-        assertTrue(text.contains("\"nullDraws\": 20") && text.contains("\"cluster:term+school\"]"),
-                "the plan edits took");
-        InputException e = assertThrows(InputException.class, () -> SparkParityTest.sparkRun(text,
-                SparkParityTest.REFERENCE, panelParquet, 3));
-        assertEquals("decisions[5].alternatives[4]", e.where());
-        assertTrue(e.problem().startsWith("cluster:term+school beside two absorbed columns is not computed in "
-                + "Spark's null draws: the intersection of term and school does not hold pupil, the absorbed "
-                + "column the rows are partitioned by"), e.problem());
     }
 
     @Test

@@ -110,15 +110,16 @@ class TwoWayEffectsByPartsTest {
      * within values, each drawn copy of a resampled pupil (whole pupils, or whole schools, in which the pupils
      * are nested) a new cluster; and pupil and term clusters, whose pupil x term intersection (one row per
      * cluster) takes the clusters' cells in row draws, where a drawn row's copies share its cluster, and the
-     * fourth moments where each copy is a new cluster.
+     * fourth moments where each copy is a new cluster; and term and school clusters, whose intersection, without
+     * pupil, spans parts and takes the clusters' cells keyed over the whole table.
      */
     @ParameterizedTest(name = "{0} parts")
     @ValueSource(ints = {1, 3, 8})
     void drawsFromPartsAsOneMachineWithTheSameCounts(int slices) throws java.io.IOException {
         String text = java.nio.file.Files.readString(ReferenceFiles.path("school-panel-plan.json")).replace(
                 "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]",
-                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]");
-        assertTrue(text.contains("\"HC1\", \"cluster:pupil\", \"cluster:pupil+term\"]"), "the plan edit took");
+                "[\"classical\", \"HC0\", \"HC1\", \"cluster:pupil\", \"cluster:pupil+term\", \"cluster:term+school\"]");
+        assertTrue(text.contains("\"cluster:pupil+term\", \"cluster:term+school\"]"), "the plan edit took");
         Plan plan = new PlanReader(false).read(text, ReferenceFiles.path("school-panel-plan.json").getParent());
         Table table = new CsvTableReader().read(plan.dataFile());
         long[] keys = PartsOfTable.rowKeys("school-panel.parquet", table.rowCount());
@@ -172,6 +173,65 @@ class TwoWayEffectsByPartsTest {
             assertTrue(fourth > 0, design + ": the fourth moments summed from each draw's within values");
             assertTrue(compared > 100, compared + " draw fits beside pupil and term compared");
         }
+    }
+
+    /**
+     * Term and school clusters: their intersection, without pupil (the column the parts are cut by), has clusters
+     * in several parts, counted from the parts' keys of them, and its cells summed by the parts, keyed over the
+     * whole table, as the one-way clusters' are: no pass of its own.
+     */
+    @ParameterizedTest(name = "{0} parts")
+    @ValueSource(ints = {1, 3, 8})
+    void anIntersectionWithoutThePartitioningColumnFromTheCells(int slices) throws java.io.IOException {
+        String text = java.nio.file.Files.readString(ReferenceFiles.path("school-panel-plan.json")).replace(
+                "\"cluster:pupil+term\"]", "\"cluster:pupil+term\", \"cluster:term+school\"]");
+        assertTrue(text.contains("\"cluster:term+school\"]"), "the plan edit took");
+        RunResult parts = compare(new PlanReader(false).read(text, ReferenceFiles.path("school-panel-plan.json")
+                .getParent()), slices, true);
+        TwoWayRoutes.assertWithinPass(parts);
+        String key = intersectionKey("term", "school");
+        for (int v = 0; v < parts.models().variantCount(); v++) {
+            DataVariant variant = parts.models().variant(parts.models().variantKey(v));
+            if (variant.absorbsSeveral) {
+                assertTrue(variant.wholeIntersectionClusters.get(key) > 1, "term x school counted by the parts");
+                assertTrue(variant.usesClusterMoments(key), "term x school from the clusters' cells");
+            }
+        }
+    }
+
+    /**
+     * A draw's intersection whose cells would pass the engine's memory bound for them is refused with both
+     * counts; one with one row per cluster that the draws renew takes the fourth moments instead, whatever its
+     * count.
+     */
+    @Test
+    void drawsOfAnIntersectionAboveTheCellsBoundAreExplained() {
+        RunResult parts = compare(plan("school-panel-plan.json"), 3, true);
+        DataVariant variant = null;
+        for (int v = 0; v < parts.models().variantCount(); v++) {
+            DataVariant d = parts.models().variant(parts.models().variantKey(v));
+            variant = d.absorbsSeveral ? d : variant;
+        }
+        String key = intersectionKey("pupil", "term");
+        List<String> columns = List.of("pupil", "term");
+        assertEquals(null, variant.drawClustersProblem(key, columns, "pupil"), "one row per cluster, renewed");
+        int most = VariantByParts.countedKeysAtMost(variant.columns);
+        assertEquals(null, variant.drawClustersProblem(key, columns, null), "198 clusters' cells");
+        variant.wholeIntersectionClusters.put(key, most + 1);
+        assertEquals(String.format(java.util.Locale.ROOT, "the intersection of pupil and term has %,d clusters, "
+                + "whose cells in a draw would be above the engine's memory bound for them (33,554,432 doubles: at "
+                + "most %,d clusters of %d model columns)", most + 1, most, variant.columns),
+                variant.drawClustersProblem(key, columns, null));
+        variant.wholeIntersectionClusters.remove(key);
+        assertTrue(variant.drawClustersProblem(key, columns, null).contains("has more than "),
+                variant.drawClustersProblem(key, columns, null));
+        assertEquals(null, variant.drawClustersProblem(key, columns, "term"), "one row per cluster, renewed");
+    }
+
+    /** The key of the intersection of two cluster columns, the third component of their two-way error type. */
+    private static String intersectionKey(String first, String second) {
+        return ClusterComponents.of(new org.forkscape.plan.ErrorType(org.forkscape.plan.ErrorType.Kind.CLUSTER,
+                List.of(first, second))).get(2).key();
     }
 
     /** Parts that split a pupil's rows cannot give its level's means: refused, never a wrong number. */

@@ -356,10 +356,10 @@ public final class DataVariant {
      * The same choice beside two absorbed columns held in parts: the parts sum each set's fourth moments and
      * clusters' cells from their within values in the pass that sums its within cross-products
      * ({@link CrossedEffectsByParts.WithinPass}). The clusters are counted over the whole table (an
-     * intersection that holds the column the parts are cut by, by the parts; another, by the product of its
-     * columns' counts, at most the rows); an intersection with one row per cluster counted so takes the fourth
-     * moments as one machine's does, while with no rows here a cluster column with one row per cluster is not
-     * told apart, and its specifications take the clusters' cells.
+     * intersection by the parts when the variant is built, up to the clusters whose cells fit; beyond, the
+     * product of its columns' counts, at most the rows, stands in); an intersection with one row per cluster
+     * takes the fourth moments as one machine's does, while with no rows here a cluster column with one row per
+     * cluster is not told apart, and its specifications take the clusters' cells.
      */
     private void expectWithinParts(long hcSpecifications, Map<String, Long> clusterSpecifications,
             double meanColumns) {

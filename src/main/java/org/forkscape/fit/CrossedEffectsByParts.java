@@ -124,12 +124,8 @@ public final class CrossedEffectsByParts {
             sorted[i] = firstCodes[rows[i]];
         }
         int[] distinct = Arrays.stream(sorted).distinct().sorted().toArray();
-        Map<Integer, Integer> index = new HashMap<>(distinct.length * 2);
-        for (int k = 0; k < distinct.length; k++) {
-            index.put(distinct[k], k);
-        }
         for (int i = 0; i < rows.length; i++) {
-            levelOut[i] = index.get(firstCodes[rows[i]]);
+            levelOut[i] = Arrays.binarySearch(distinct, firstCodes[rows[i]]);
         }
         return distinct;
     }
@@ -165,12 +161,7 @@ public final class CrossedEffectsByParts {
             out.weight += w[i];
         }
         // per A level, its pairs with B: the weight of each B code among the level's rows (rows grouped by level)
-        Integer[] order = new Integer[n];
-        for (int i = 0; i < n; i++) {
-            order[i] = i;
-        }
-        Arrays.sort(order, (x, y) -> level[x] != level[y] ? Integer.compare(level[x], level[y])
-                : Integer.compare(codes.second()[rows[x]], codes.second()[rows[y]]));
+        int[] order = byLevelThenSecond(level, la, codes.second(), rows);
         int start = 0;
         while (start < n) {
             int a = level[order[start]];
@@ -220,6 +211,34 @@ public final class CrossedEffectsByParts {
             out.spread[j] = spread(x, rows, w, out.weight);
         }
         return out;
+    }
+
+    /**
+     * The rows 0..n-1 ordered by A level, then by B code, then by position: a counting sort by level (stable),
+     * then each level's rows sorted by (B code, position) packed in a long, without boxing a row.
+     */
+    private static int[] byLevelThenSecond(int[] level, int levels, int[] secondCodes, int[] rows) {
+        int n = level.length;
+        int[] start = new int[levels + 1];
+        for (int l : level) {
+            start[l + 1]++;
+        }
+        for (int a = 0; a < levels; a++) {
+            start[a + 1] += start[a];
+        }
+        long[] keyed = new long[n];
+        int[] next = start.clone();
+        for (int i = 0; i < n; i++) {
+            keyed[next[level[i]]++] = (long) secondCodes[rows[i]] << 32 | i;
+        }
+        int[] order = new int[n];
+        for (int a = 0; a < levels; a++) {
+            Arrays.sort(keyed, start[a], start[a + 1]);
+        }
+        for (int k = 0; k < n; k++) {
+            order[k] = (int) keyed[k];
+        }
+        return order;
     }
 
     /**
@@ -554,7 +573,7 @@ public final class CrossedEffectsByParts {
     /** The set's within transformation as the solvers read it, from the solve and the summed cross-products. */
     static SeveralEffectsWithin within(Solved s, double[] within, boolean weighted) {
         return SeveralEffectsWithin.fromParts(s.rows(), s.rank(), within, s.totalSquares(), s.solved(), s.weight(),
-                weighted, s.effects(), null, java.util.Map.of());
+                weighted, s.effects(), null, Map.of());
     }
 
     /**
@@ -564,7 +583,7 @@ public final class CrossedEffectsByParts {
     static SeveralEffectsWithin within(Solved s, WithinPass pass, WithinSums sums, boolean weighted) {
         FourthMoments fourth = sums.fourth == null ? null : FourthMoments.ofWithinSums(sums.fourth, sums.cross,
                 s.rows());
-        java.util.Map<String, ClusterMoments.WithinCells> cells = new java.util.HashMap<>();
+        Map<String, ClusterMoments.WithinCells> cells = new HashMap<>();
         for (int c = 0; c < pass.clusterKeys().length; c++) {
             cells.put(pass.clusterKeys()[c], sums.cells[c].cells());
         }

@@ -520,11 +520,9 @@ public final class CrossedEffectsByParts {
         ClusterMoments.WithinCellSums[] cells;
 
         static WithinSums add(WithinSums a, WithinSums b) {
-            for (int k = 0; k < a.cross.length; k++) {
-                a.cross[k] += b.cross[k];
-            }
-            if (a.fourth != null) {
-                FourthMoments.addWithinSums(a.fourth, b.fourth);
+            VariantByParts.addSums(a.cross, b.cross);
+            for (int k = 0; a.fourth != null && k < a.fourth.length; k++) {
+                VariantByParts.addSums(a.fourth[k], b.fourth[k]);
             }
             for (int c = 0; c < a.cells.length; c++) {
                 a.cells[c] = ClusterMoments.WithinCellSums.add(a.cells[c], b.cells[c]);

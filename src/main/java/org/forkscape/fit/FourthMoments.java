@@ -349,8 +349,8 @@ final class FourthMoments {
      * The distinct fourth- and third-order sums and the first-order sums of the demeaned rows {@code rows} of
      * {@code demeaned} (a null column reads as 0), each value times the square root of its row's weight when
      * {@code weight} is given: {f4, f3, s1}, in blocks of {@link #BLOCK_ROWS} rows in row order. Sums over
-     * disjoint sets of rows add ({@link #addWithinSums}): a variant held in parts sums each part's rows where
-     * they are ({@link CrossedEffectsByParts#withinSums}).
+     * disjoint sets of rows add, element by element: a variant held in parts sums each part's rows where they
+     * are ({@link CrossedEffectsByParts#withinSums}).
      */
     static double[][] withinRowSums(double[][] demeaned, double[] weight, int[] rows) {
         int p = demeaned.length;
@@ -378,16 +378,6 @@ final class FourthMoments {
             s1[j] = t;
         }
         return new double[][] {f4, f3, s1};
-    }
-
-    /** Two {@link #withinRowSums} as one, {@code a} modified and returned: the sums of both sets of rows. */
-    static double[][] addWithinSums(double[][] a, double[][] b) {
-        for (int k = 0; k < a.length; k++) {
-            for (int i = 0; i < a[k].length; i++) {
-                a[k][i] += b[k][i];
-            }
-        }
-        return a;
     }
 
     /**

@@ -570,8 +570,9 @@ public final class VariantByParts {
     /** This part's share of the within pass {@code pass} over the usable patterns {@code masks}. */
     public CrossedEffectsByParts.WithinSums crossedWithinSums(VariantKey key, WholeRows whole, long[] masks,
             CrossedEffectsByParts.WithinPass pass) {
-        // coded with its clusters as a pass sums them: in a draw's copy, the renewed clusters' copies apart
-        Map<String, long[]> intersections = new HashMap<>();
+        // coded with its clusters as a pass sums them: in a draw's copy, the renewed clusters' copies apart (the
+        // intersections' keys and the renewal only when the pass sums clusters' cells)
+        Map<String, long[]> intersections = pass.clusterKeys().length == 0 ? null : new HashMap<>();
         CodedRows coded = codedWithClusters(key, whole, intersections);
         long[][] keysOfRow = new long[pass.clusterKeys().length][];
         for (int c = 0; c < keysOfRow.length; c++) {

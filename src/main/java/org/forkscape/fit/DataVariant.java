@@ -426,24 +426,27 @@ public final class DataVariant {
 
     /**
      * Beside two absorbed columns held in parts, why a bootstrap draw could not compute the CR1 meat of the
-     * intersection of cluster columns {@code key} ({@link #expectAsDrawOf}), or null when it can: from the fourth
-     * moments when each of its clusters has one row and the draws resample whole clusters of one of its columns
-     * ({@code resampledColumn}; null when single rows are drawn), so that each drawn copy is a cluster of its own;
-     * otherwise from its clusters' cells, which must stay within the engine's memory bound for them
-     * ({@link SandwichRoute#MAX_TENSOR_DOUBLES}; the parts count its clusters when the variant is built).
+     * clustering {@code key} (a cluster column, or the intersection of {@code columns}; {@link #expectAsDrawOf}),
+     * or null when it can: from the fourth moments when it is an intersection each of whose clusters has one
+     * row and the draws resample whole clusters of one of its columns ({@code resampledColumn}; null when single
+     * rows are drawn), so that each drawn copy is a cluster of its own; otherwise from its clusters' cells, which
+     * must stay within the engine's memory bound for them ({@link SandwichRoute#MAX_TENSOR_DOUBLES}; a column's
+     * clusters are counted over the whole table, an intersection's by the parts when the variant is built).
      */
     public String drawClustersProblem(String key, java.util.List<String> columns, String resampledColumn) {
         if (intersectionClustersAreRows.contains(key) && resampledColumn != null && columns.contains(resampledColumn)) {
             return null;
         }
-        Integer g = wholeIntersectionClusters.get(key);
+        Integer g = columns.size() == 1 ? wholeClusterCounts.get(key) : wholeIntersectionClusters.get(key);
         int most = VariantByParts.countedKeysAtMost(this.columns);
         if (g == null || g > most) {
-            return String.format(java.util.Locale.ROOT, "the intersection of %s has %s clusters, whose cells in a "
-                    + "draw would be above the engine's memory bound for them (%,d doubles: at most %,d clusters of "
-                    + "%d model columns)", String.join(" and ", columns), g == null ? "more than " + String.format(
-                    java.util.Locale.ROOT, "%,d", most) : String.format(java.util.Locale.ROOT, "%,d", g),
-                    SandwichRoute.MAX_TENSOR_DOUBLES, most, this.columns);
+            String what = columns.size() == 1 ? "\"" + key + "\"" : "the intersection of " + String.join(" and ",
+                    columns);
+            return String.format(java.util.Locale.ROOT, "%s has %s clusters, whose cells in a draw would be above "
+                    + "the engine's memory bound for them (%,d doubles: at most %,d clusters of %d model columns)",
+                    what, g == null ? "more than " + String.format(java.util.Locale.ROOT, "%,d", most)
+                    : String.format(java.util.Locale.ROOT, "%,d", g), SandwichRoute.MAX_TENSOR_DOUBLES, most,
+                    this.columns);
         }
         return null;
     }

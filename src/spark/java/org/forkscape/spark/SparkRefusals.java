@@ -15,8 +15,8 @@ import org.forkscape.plan.Plan;
  * The plan features the Spark runner does not compute, refused before any work at their JSON path, each
  * with the way out (README, "Beyond one machine", lists them): three or more absorbed columns (their within
  * transformation iterates over the rows); beside two absorbed columns, generalized linear models, and with
- * null draws multi-way cluster errors whose intersections a draw cannot sum ({@link #drawClusterings}, once the
- * variant is built); beside null draws, the permutation. Two absorbed columns are least squares'
+ * null draws cluster errors whose clusterings a draw cannot sum ({@link #drawClusterings}, once the variant is
+ * built); beside null draws, the permutation. Two absorbed columns are least squares'
  * exact solve by parts ({@link CrossedPartitioning}).
  */
 final class SparkRefusals {
@@ -76,8 +76,9 @@ final class SparkRefusals {
     /**
      * Beside two absorbed columns with null draws, once the variant {@code v} is built (before its fits): a draw's
      * cluster errors come from the clusters' cells or the fourth moments its sets' second pass sums, never from
-     * the clusters' scores over the draw's rows, so each intersection of a multi-way error type must be one a
-     * draw can sum ({@link DataVariant#drawClustersProblem}); refused at the error type's JSON path otherwise.
+     * the clusters' scores over the draw's rows, so each clustering of a cluster error type (its column, or each
+     * component of a multi-way one) must be one a draw can sum ({@link DataVariant#drawClustersProblem}); refused
+     * at the error type's JSON path otherwise.
      */
     static void drawClusterings(Plan plan, DataVariant v) {
         if (plan.nullDraws() == 0 || !v.crossedInParts()) {
@@ -91,12 +92,11 @@ final class SparkRefusals {
             }
             for (int j = 0; j < e.alternatives().size(); j++) {
                 ErrorType type = e.alternatives().get(j);
-                if (type.kind() != ErrorType.Kind.CLUSTER || !type.multiway()) {
+                if (type.kind() != ErrorType.Kind.CLUSTER) {
                     continue;
                 }
                 for (ClusterComponents.Component c : ClusterComponents.of(type)) {
-                    String problem = c.columns().size() < 2 ? null
-                            : v.drawClustersProblem(c.key(), c.columns(), resampled);
+                    String problem = v.drawClustersProblem(c.key(), c.columns(), resampled);
                     if (problem != null) {
                         throw new InputException("decisions[" + i + "].alternatives[" + j + "]", type.label()
                                 + " beside two absorbed columns is not computed in Spark's null draws: " + problem

@@ -200,9 +200,9 @@ class TwoWayEffectsByPartsTest {
     }
 
     /**
-     * A draw's intersection whose cells would pass the engine's memory bound for them is refused with both
-     * counts; one with one row per cluster that the draws renew takes the fourth moments instead, whatever its
-     * count.
+     * A draw's intersection, or cluster column, whose cells would pass the engine's memory bound for them is
+     * refused with both counts; an intersection with one row per cluster that the draws renew takes the fourth
+     * moments instead, whatever its count.
      */
     @Test
     void drawsOfAnIntersectionAboveTheCellsBoundAreExplained() {
@@ -226,6 +226,13 @@ class TwoWayEffectsByPartsTest {
         assertTrue(variant.drawClustersProblem(key, columns, null).contains("has more than "),
                 variant.drawClustersProblem(key, columns, null));
         assertEquals(null, variant.drawClustersProblem(key, columns, "term"), "one row per cluster, renewed");
+        // a cluster column is bounded alike, its clusters counted over the whole table
+        assertEquals(null, variant.drawClustersProblem("pupil", List.of("pupil"), null), "the pupils' cells");
+        variant.wholeClusterCounts = Map.of("pupil", most + 1, "term", 12);
+        assertEquals(String.format(java.util.Locale.ROOT, "\"pupil\" has %,d clusters, whose cells in a draw would "
+                + "be above the engine's memory bound for them (33,554,432 doubles: at most %,d clusters of %d model "
+                + "columns)", most + 1, most, variant.columns), variant.drawClustersProblem("pupil", List.of("pupil"),
+                "pupil"));
     }
 
     /** The key of the intersection of two cluster columns, the third component of their two-way error type. */
